@@ -1,0 +1,71 @@
+package mdo
+
+import (
+	"fmt"
+	"strings"
+)
+
+// RangeError reports a value outside a variable's validity range.
+type RangeError struct {
+	Discipline string // the discipline whose input it is, if known
+	Var        string
+	Value      float64
+	Min, Max   float64
+	Unit       string
+}
+
+// Error implements error.
+func (e *RangeError) Error() string {
+	where := ""
+	if e.Discipline != "" {
+		where = " (input of discipline " + e.Discipline + ")"
+	}
+	return fmt.Sprintf("mdo: %s = %g %s is outside its validity range [%g, %g]%s", e.Var, e.Value, e.Unit, e.Min, e.Max, where)
+}
+
+// NonFiniteError reports a NaN or Inf produced by a discipline.
+type NonFiniteError struct {
+	Discipline string
+	Var        string
+	Value      float64
+}
+
+// Error implements error.
+func (e *NonFiniteError) Error() string {
+	return fmt.Sprintf("mdo: discipline %s produced %s = %g (not finite)", e.Discipline, e.Var, e.Value)
+}
+
+// DisciplineError wraps an error returned by a discipline's Compute.
+type DisciplineError struct {
+	Discipline string
+	Err        error
+}
+
+// Error implements error.
+func (e *DisciplineError) Error() string {
+	return fmt.Sprintf("mdo: discipline %s: %v", e.Discipline, e.Err)
+}
+
+// Unwrap returns the discipline's own error.
+func (e *DisciplineError) Unwrap() error { return e.Err }
+
+// ConvergenceError is returned when a coupled group does not converge or
+// diverges. It carries the solver's report.
+type ConvergenceError struct {
+	Report Report
+}
+
+// Error implements error.
+func (e *ConvergenceError) Error() string {
+	r := &e.Report
+	state := "did not converge"
+	if r.Diverged {
+		state = "diverged"
+	}
+	worst := make([]string, 0, len(r.Worst))
+	for _, w := range r.Worst {
+		worst = append(worst, fmt.Sprintf("%s (%.3g)", w.Name, w.Residual))
+	}
+	return fmt.Sprintf("mdo: coupled group {%s} %s with %s after %d iterations (scaled residual %.3g, tolerance %.3g); worst: %s",
+		strings.Join(r.Disciplines, ", "), state, r.Method, r.Iterations, r.Residual, r.Tolerance, strings.Join(worst, ", "))
+}

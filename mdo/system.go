@@ -1,0 +1,342 @@
+package mdo
+
+import (
+	"fmt"
+	"sort"
+	"strings"
+
+	"gonum.org/v1/gonum/graph/simple"
+	"gonum.org/v1/gonum/graph/topo"
+)
+
+// System is a set of disciplines coupled through the variables they
+// declare. Its structure is fixed when it is built: variable names are
+// resolved to indices, the dependency graph is derived from the
+// declarations, the strongly connected components give the coupled groups
+// and a condensed topological order gives the execution order.
+//
+// A System is read-only after NewSystem apart from its solver settings,
+// and may be shared by many Workspaces, one per goroutine.
+type System struct {
+	discs    []Discipline
+	vars     *VarTable
+	producer []int   // variable -> producing discipline, or -1
+	inIdx    [][]int // discipline -> input variable indices
+	outIdx   [][]int // discipline -> output variable indices
+	inSpec   [][]Var // discipline -> declared input specs (ranges checked)
+	groups   []group // execution order
+	params   []int   // variables nobody produces
+	settings []SolverSettings
+}
+
+// group is one step of the execution order.
+type group struct {
+	discs   []int // disciplines in declared order
+	coupled bool  // a cycle: needs a solver
+	tear    []int // coupling variables: produced and consumed inside the group
+	names   []string
+}
+
+// NewSystem builds a System from disciplines. Each variable must have
+// exactly one producer; a second producer is an error naming both.
+// Variables declared by several disciplines must agree on their unit.
+func NewSystem(ds ...Discipline) (*System, error) {
+	if len(ds) == 0 {
+		return nil, fmt.Errorf("mdo: NewSystem needs at least one discipline")
+	}
+	s := &System{discs: ds}
+	seenDisc := map[string]bool{}
+	specs := []Var{}
+	index := map[string]int{}
+	declare := func(d Discipline, v Var, produced bool) (int, error) {
+		if err := v.Validate(); err != nil {
+			return 0, fmt.Errorf("mdo: discipline %s: %w", d.Name(), err)
+		}
+		i, ok := index[v.Name]
+		if !ok {
+			index[v.Name] = len(specs)
+			specs = append(specs, v)
+			s.producer = append(s.producer, -1)
+			return len(specs) - 1, nil
+		}
+		if specs[i].Unit != v.Unit {
+			return 0, fmt.Errorf("mdo: variable %s declared in unit %q by discipline %s but in %q elsewhere", v.Name, v.Unit, d.Name(), specs[i].Unit)
+		}
+		if produced {
+			specs[i] = v // the producer's specification wins
+		}
+		return i, nil
+	}
+	for di, d := range ds {
+		if d == nil {
+			return nil, fmt.Errorf("mdo: discipline %d is nil", di)
+		}
+		if seenDisc[d.Name()] {
+			return nil, fmt.Errorf("mdo: two disciplines are named %s", d.Name())
+		}
+		seenDisc[d.Name()] = true
+		var outs []int
+		for _, v := range d.Outputs() {
+			i, err := declare(d, v, true)
+			if err != nil {
+				return nil, err
+			}
+			if p := s.producer[i]; p >= 0 {
+				return nil, fmt.Errorf("mdo: variable %s has two producers: disciplines %s and %s", v.Name, ds[p].Name(), d.Name())
+			}
+			s.producer[i] = di
+			outs = append(outs, i)
+		}
+		s.outIdx = append(s.outIdx, outs)
+	}
+	for _, d := range ds {
+		var ins []int
+		for _, v := range d.Inputs() {
+			i, err := declare(d, v, false)
+			if err != nil {
+				return nil, err
+			}
+			ins = append(ins, i)
+		}
+		s.inIdx = append(s.inIdx, ins)
+		s.inSpec = append(s.inSpec, append([]Var(nil), d.Inputs()...))
+	}
+	vt, err := NewVarTable(specs...)
+	if err != nil {
+		return nil, err
+	}
+	s.vars = vt
+	for i, p := range s.producer {
+		if p < 0 {
+			s.params = append(s.params, i)
+		}
+	}
+	s.buildGroups()
+	s.settings = make([]SolverSettings, len(s.groups))
+	for i := range s.settings {
+		s.settings[i] = DefaultSolver()
+	}
+	return s, nil
+}
+
+// buildGroups derives the dependency graph, its strongly connected
+// components and a deterministic topological order of the condensation
+// (ties broken by the lowest discipline index).
+func (s *System) buildGroups() {
+	n := len(s.discs)
+	g := simple.NewDirectedGraph()
+	for i := 0; i < n; i++ {
+		g.AddNode(simple.Node(i))
+	}
+	selfLoop := make([]bool, n)
+	for to := 0; to < n; to++ {
+		for _, v := range s.inIdx[to] {
+			from := s.producer[v]
+			if from < 0 {
+				continue
+			}
+			if from == to {
+				selfLoop[to] = true
+				continue
+			}
+			if !g.HasEdgeFromTo(int64(from), int64(to)) {
+				g.SetEdge(g.NewEdge(simple.Node(from), simple.Node(to)))
+			}
+		}
+	}
+	comp := make([]int, n)
+	var members [][]int
+	for ci, c := range topo.TarjanSCC(g) {
+		var m []int
+		for _, node := range c {
+			comp[node.ID()] = ci
+			m = append(m, int(node.ID()))
+		}
+		sort.Ints(m)
+		members = append(members, m)
+	}
+	// Kahn's algorithm on the condensation, lowest first discipline first.
+	nc := len(members)
+	indeg := make([]int, nc)
+	succ := make([]map[int]bool, nc)
+	for i := range succ {
+		succ[i] = map[int]bool{}
+	}
+	for to := 0; to < n; to++ {
+		for _, v := range s.inIdx[to] {
+			from := s.producer[v]
+			if from < 0 || comp[from] == comp[to] || succ[comp[from]][comp[to]] {
+				continue
+			}
+			succ[comp[from]][comp[to]] = true
+			indeg[comp[to]]++
+		}
+	}
+	done := make([]bool, nc)
+	for len(s.groups) < nc {
+		best := -1
+		for c := 0; c < nc; c++ {
+			if !done[c] && indeg[c] == 0 && (best < 0 || members[c][0] < members[best][0]) {
+				best = c
+			}
+		}
+		done[best] = true
+		for c := range succ[best] {
+			indeg[c]--
+		}
+		m := members[best]
+		gr := group{discs: m, coupled: len(m) > 1 || selfLoop[m[0]]}
+		inGroup := map[int]bool{}
+		for _, d := range m {
+			inGroup[d] = true
+			gr.names = append(gr.names, s.discs[d].Name())
+		}
+		if gr.coupled {
+			seen := map[int]bool{}
+			for _, d := range m {
+				for _, v := range s.inIdx[d] {
+					if p := s.producer[v]; p >= 0 && inGroup[p] && !seen[v] {
+						seen[v] = true
+						gr.tear = append(gr.tear, v)
+					}
+				}
+			}
+			sort.Ints(gr.tear)
+		}
+		s.groups = append(s.groups, gr)
+	}
+}
+
+// Vars returns the table of every variable of the system.
+func (s *System) Vars() *VarTable { return s.vars }
+
+// Index returns the index of a variable, or -1 if the system has none of
+// that name.
+func (s *System) Index(name string) int { return s.vars.Index(name) }
+
+// Var returns the specification of a variable.
+func (s *System) Var(name string) (Var, error) {
+	v, ok := s.vars.Lookup(name)
+	if !ok {
+		return Var{}, s.unknown(name)
+	}
+	return v, nil
+}
+
+// unknown is the error for a name the system does not have.
+func (s *System) unknown(name string) error {
+	near := s.vars.Match(strings.SplitN(name, ".", 2)[0])
+	hint := ""
+	if len(near) > 0 && len(near) <= 12 {
+		names := make([]string, len(near))
+		for i, v := range near {
+			names[i] = v.Name
+		}
+		hint = "; similar: " + strings.Join(names, ", ")
+	}
+	return fmt.Errorf("mdo: the system has no variable %q%s", name, hint)
+}
+
+// Disciplines returns the disciplines in declared order.
+func (s *System) Disciplines() []Discipline { return append([]Discipline(nil), s.discs...) }
+
+// Producer returns the name of the discipline producing a variable, or ""
+// for a parameter.
+func (s *System) Producer(name string) string {
+	i := s.Index(name)
+	if i < 0 || s.producer[i] < 0 {
+		return ""
+	}
+	return s.discs[s.producer[i]].Name()
+}
+
+// IsParameter reports whether the variable is an input nobody produces.
+func (s *System) IsParameter(name string) bool {
+	i := s.Index(name)
+	return i >= 0 && s.producer[i] < 0
+}
+
+// Parameters returns the inputs nobody produces, in declaration order.
+func (s *System) Parameters() []Var {
+	out := make([]Var, len(s.params))
+	for i, p := range s.params {
+		out[i] = s.vars.At(p)
+	}
+	return out
+}
+
+// Groups returns the discipline names of each group in execution order.
+func (s *System) Groups() [][]string {
+	out := make([][]string, len(s.groups))
+	for i, g := range s.groups {
+		out[i] = append([]string(nil), g.names...)
+	}
+	return out
+}
+
+// CoupledGroups returns the discipline names of the groups that need a
+// coupling solver, in execution order.
+func (s *System) CoupledGroups() [][]string {
+	var out [][]string
+	for _, g := range s.groups {
+		if g.coupled {
+			out = append(out, append([]string(nil), g.names...))
+		}
+	}
+	return out
+}
+
+// CouplingVars returns the coupling variables of every coupled group (the
+// outputs consumed inside their own group), in execution order.
+func (s *System) CouplingVars() []Var {
+	var out []Var
+	for _, g := range s.groups {
+		for _, v := range g.tear {
+			out = append(out, s.vars.At(v))
+		}
+	}
+	return out
+}
+
+// SetSolver sets the solver of every coupled group. Call it before making
+// workspaces; existing workspaces keep their settings.
+func (s *System) SetSolver(set SolverSettings) error {
+	set, err := set.normalized()
+	if err != nil {
+		return err
+	}
+	for i := range s.settings {
+		s.settings[i] = set
+	}
+	return nil
+}
+
+// SetGroupSolver sets the solver of the group that contains the named
+// discipline.
+func (s *System) SetGroupSolver(discipline string, set SolverSettings) error {
+	set, err := set.normalized()
+	if err != nil {
+		return err
+	}
+	for gi, g := range s.groups {
+		for _, n := range g.names {
+			if n == discipline {
+				s.settings[gi] = set
+				return nil
+			}
+		}
+	}
+	return fmt.Errorf("mdo: the system has no discipline %q", discipline)
+}
+
+// Solver returns the solver settings of the group holding discipline.
+func (s *System) Solver(discipline string) (SolverSettings, error) {
+	for gi, g := range s.groups {
+		for _, n := range g.names {
+			if n == discipline {
+				return s.settings[gi], nil
+			}
+		}
+	}
+	return SolverSettings{}, fmt.Errorf("mdo: the system has no discipline %q", discipline)
+}
