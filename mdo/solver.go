@@ -27,7 +27,9 @@ const (
 var methodNames = [...]string{"gauss-seidel", "jacobi", "aitken-gauss-seidel", "aitken-jacobi", "newton"}
 
 // Methods lists every coupling solver.
-func Methods() []Method { return []Method{GaussSeidel, Jacobi, AitkenGaussSeidel, AitkenJacobi, Newton} }
+func Methods() []Method {
+	return []Method{GaussSeidel, Jacobi, AitkenGaussSeidel, AitkenJacobi, Newton}
+}
 
 // String returns the solver's name.
 func (m Method) String() string {

@@ -28,7 +28,7 @@ type Workspace struct {
 	cnt      Counters
 	// scratch per group, sized to the largest group
 	y, gy, r, rPrev, scale []float64
-	onceMode              bool
+	onceMode               bool
 }
 
 // NewWorkspace returns a fresh workspace with every variable and guess at

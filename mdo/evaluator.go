@@ -1,0 +1,612 @@
+package mdo
+
+import (
+	"context"
+	"fmt"
+	"math"
+	"runtime"
+	"sync"
+	"sync/atomic"
+	"time"
+)
+
+// Evaluator turns points of the unit box into Evaluations of a Study. It
+// runs analyses on a pool of workers, one System workspace each, caches
+// repeated points, keeps the best point and the Pareto archive, and feeds
+// the study's recorder. Results do not depend on the number of workers.
+//
+// An Evaluator is driven from one goroutine (the optimiser's); it runs
+// its own workers inside Evaluate.
+type Evaluator struct {
+	study     Study
+	sys       *System
+	slots     []designSlot
+	objIdx    []int
+	cons      []Constraint
+	consIdx   []int
+	nUserCons int
+	coupling  []int
+	base      []float64
+	guess     []float64
+	spaces    []*Workspace
+	resid     [][]float64
+	outputs   []Var
+
+	cache    map[string]*Evaluation
+	restored map[*Evaluation]bool
+	nextID   int
+	best     *Evaluation
+	archive  []*Evaluation
+	history  []HistoryPoint
+	cnt      EvalCounters
+	started  time.Time
+	began    bool
+	optName  string
+	settings map[string]string
+	recErr   error
+	progress Progress
+}
+
+// designSlot maps one unit-box coordinate to a system variable.
+type designSlot struct {
+	name         string
+	unit         string
+	idx          int
+	lower, upper float64
+	integer      bool
+	coupling     bool // IDF target of a coupling variable
+}
+
+// EvalCounters count the work of an Evaluator.
+type EvalCounters struct {
+	Evaluations        int // points answered (analysed, cached or restored)
+	Analyses           int // coupled analyses actually run
+	CacheHits          int
+	Restored           int // points answered from a store on resume
+	Failed             int // analyses that failed (infeasible with a reason)
+	DisciplineCalls    int
+	CouplingIterations int
+}
+
+// HistoryPoint is one step of the best-so-far history: recorded whenever
+// the best point changes.
+type HistoryPoint struct {
+	Evaluations int
+	Best        float64 // first objective in minimised sense
+	Violation   float64
+	Feasible    bool
+}
+
+// NewEvaluator validates the study and prepares its workers.
+func (s *Study) NewEvaluator() (*Evaluator, error) {
+	if err := s.validate(); err != nil {
+		return nil, err
+	}
+	e := &Evaluator{study: *s, sys: s.System, cache: map[string]*Evaluation{}}
+	sys := s.System
+	n := sys.vars.Len()
+	e.base = make([]float64, n)
+	e.guess = make([]float64, n)
+	for i := 0; i < n; i++ {
+		e.base[i] = sys.vars.At(i).Default
+		e.guess[i] = e.base[i]
+	}
+	for name, x := range s.Fixed {
+		e.base[sys.Index(name)] = x
+	}
+	for _, d := range s.Design {
+		v, _ := sys.Var(d.Name)
+		e.slots = append(e.slots, designSlot{name: d.Name, unit: v.Unit, idx: sys.Index(d.Name), lower: d.Lower, upper: d.Upper, integer: d.Integer})
+	}
+	for _, o := range s.Objectives {
+		if o.Func != nil {
+			e.objIdx = append(e.objIdx, -1)
+		} else {
+			e.objIdx = append(e.objIdx, sys.Index(o.Name))
+		}
+	}
+	e.cons = append(e.cons, s.Constraints...)
+	for _, c := range s.Constraints {
+		if c.Func != nil {
+			e.consIdx = append(e.consIdx, -1)
+		} else {
+			e.consIdx = append(e.consIdx, sys.Index(c.Name))
+		}
+	}
+	e.nUserCons = len(e.cons)
+	if s.Formulation == IDF {
+		tol := s.ConsistencyTolerance
+		if tol == 0 {
+			tol = 1e-4
+		}
+		for _, v := range sys.CouplingVars() {
+			if v.Unbounded() {
+				return nil, fmt.Errorf("mdo: IDF needs bounds for coupling variable %s; give it a validity range [Min, Max] in its discipline", v.Name)
+			}
+			i := sys.Index(v.Name)
+			e.coupling = append(e.coupling, i)
+			e.slots = append(e.slots, designSlot{name: v.Name, unit: v.Unit, idx: i, lower: v.Min, upper: v.Max, coupling: true})
+			c := EqualTo("consistency."+v.Name, 0, tol)
+			c.Scale = 1
+			e.cons = append(e.cons, c)
+			e.consIdx = append(e.consIdx, -2)
+		}
+	}
+	for i := 0; i < n; i++ {
+		e.outputs = append(e.outputs, sys.vars.At(i))
+	}
+	workers := s.Workers
+	if workers == 0 {
+		workers = runtime.GOMAXPROCS(0)
+	}
+	for k := 0; k < workers; k++ {
+		e.spaces = append(e.spaces, sys.NewWorkspace())
+		e.resid = append(e.resid, make([]float64, len(e.coupling)))
+	}
+	if e.study.CacheLimit == 0 {
+		e.study.CacheLimit = 50000
+	}
+	e.started = time.Now()
+	return e, nil
+}
+
+// Dim returns the number of unit-box coordinates (under IDF, the design
+// variables followed by the coupling targets).
+func (e *Evaluator) Dim() int { return len(e.slots) }
+
+// NumObjectives returns the number of objectives.
+func (e *Evaluator) NumObjectives() int { return len(e.objIdx) }
+
+// NumConstraints returns the number of constraints, IDF consistency
+// constraints included.
+func (e *Evaluator) NumConstraints() int { return len(e.cons) }
+
+// Seed returns the study's seed.
+func (e *Evaluator) Seed() uint64 { return e.study.Seed }
+
+// Study returns a copy of the study being evaluated.
+func (e *Evaluator) Study() Study { return e.study }
+
+// Integers reports, per coordinate, whether it is an integer variable.
+func (e *Evaluator) Integers() []bool {
+	out := make([]bool, len(e.slots))
+	for k, s := range e.slots {
+		out[k] = s.integer
+	}
+	return out
+}
+
+// HasInteger reports whether any design variable is an integer.
+func (e *Evaluator) HasInteger() bool {
+	for _, s := range e.slots {
+		if s.integer {
+			return true
+		}
+	}
+	return false
+}
+
+// DesignNames returns the names of the coordinates.
+func (e *Evaluator) DesignNames() []string {
+	out := make([]string, len(e.slots))
+	for k, s := range e.slots {
+		out[k] = s.name
+	}
+	return out
+}
+
+// DesignSpecs describes the coordinates with units and bounds.
+func (e *Evaluator) DesignSpecs() []DesignSpec {
+	out := make([]DesignSpec, len(e.slots))
+	for k, s := range e.slots {
+		out[k] = DesignSpec{Name: s.name, Unit: s.unit, Lower: s.lower, Upper: s.upper, Integer: s.integer}
+	}
+	return out
+}
+
+// ObjectiveNames returns the objectives' labels.
+func (e *Evaluator) ObjectiveNames() []string {
+	out := make([]string, len(e.study.Objectives))
+	for k, o := range e.study.Objectives {
+		out[k] = o.Name
+	}
+	return out
+}
+
+// Constraints returns the constraints, IDF consistency ones included.
+func (e *Evaluator) Constraints() []Constraint { return append([]Constraint(nil), e.cons...) }
+
+// OutputVars returns the variables whose values each Evaluation keeps in
+// Outputs.
+func (e *Evaluator) OutputVars() []Var { return append([]Var(nil), e.outputs...) }
+
+// ToPhysical maps a unit-box point to physical values (integers rounded).
+func (e *Evaluator) ToPhysical(x []float64) []float64 {
+	out := make([]float64, len(x))
+	for k, s := range e.slots {
+		out[k] = s.physical(x[k])
+	}
+	return out
+}
+
+// ToUnit maps physical values to the unit box.
+func (e *Evaluator) ToUnit(p []float64) []float64 {
+	out := make([]float64, len(p))
+	for k, s := range e.slots {
+		out[k] = (p[k] - s.lower) / (s.upper - s.lower)
+	}
+	return out
+}
+
+// Start returns the unit-box position of the baseline design (fixed
+// values, else defaults, clipped into the bounds).
+func (e *Evaluator) Start() []float64 {
+	out := make([]float64, len(e.slots))
+	for k, s := range e.slots {
+		v := e.base[s.idx]
+		if s.coupling {
+			v = e.guess[s.idx]
+		}
+		out[k] = math.Max(0, math.Min(1, (v-s.lower)/(s.upper-s.lower)))
+	}
+	return out
+}
+
+// physical maps one unit coordinate.
+func (s designSlot) physical(u float64) float64 {
+	u = math.Max(0, math.Min(1, u))
+	v := s.lower + u*(s.upper-s.lower)
+	if s.integer {
+		v = math.Round(v)
+	}
+	return v
+}
+
+// Counters returns the work counters.
+func (e *Evaluator) Counters() EvalCounters { return e.cnt }
+
+// Best returns the best evaluation so far by Deb's rules on the first
+// objective, or nil.
+func (e *Evaluator) Best() *Evaluation { return e.best }
+
+// Front returns the current non-dominated feasible evaluations (for
+// multi-objective studies), sorted by the first objective.
+func (e *Evaluator) Front() []*Evaluation { return append([]*Evaluation(nil), e.archive...) }
+
+// Restore adds recorded evaluations (from a store, on resume) to the
+// cache: when the optimiser asks for one of their points again it is
+// answered without analysis or re-recording, and counted as restored.
+func (e *Evaluator) Restore(evals []*Evaluation) {
+	if e.restored == nil {
+		e.restored = map[*Evaluation]bool{}
+	}
+	for _, ev := range evals {
+		key := designKey(ev.Design)
+		if _, ok := e.cache[key]; ok {
+			continue
+		}
+		c := *ev
+		c.Cached = true
+		e.cache[key] = &c
+		e.restored[&c] = true
+	}
+}
+
+// designKey is the cache key of a physical design.
+func designKey(d []float64) string {
+	b := make([]byte, 0, 8*len(d))
+	for _, x := range d {
+		u := math.Float64bits(x)
+		for s := 0; s < 64; s += 8 {
+			b = append(b, byte(u>>s))
+		}
+	}
+	return string(b)
+}
+
+// Evaluate answers a batch of unit-box points, in order. Points seen
+// before come from the cache; the others are analysed in parallel. When
+// ctx is cancelled the points not yet analysed are nil in the result and
+// the context's error is returned.
+func (e *Evaluator) Evaluate(ctx context.Context, xs [][]float64) ([]*Evaluation, error) {
+	out := make([]*Evaluation, len(xs))
+	fresh := make([]*Evaluation, len(xs))
+	dupOf := make([]int, len(xs))
+	var todo []int
+	batch := map[string]int{}
+	for i, x := range xs {
+		dupOf[i] = -1
+		if len(x) != len(e.slots) {
+			return nil, fmt.Errorf("mdo: point %d has %d coordinates, the study has %d", i, len(x), len(e.slots))
+		}
+		for k, u := range x {
+			if math.IsNaN(u) {
+				return nil, fmt.Errorf("mdo: point %d: coordinate %s is NaN", i, e.slots[k].name)
+			}
+		}
+		ev := e.newEvaluation(x)
+		key := designKey(ev.Design)
+		if c, ok := e.cache[key]; ok {
+			out[i] = c
+			continue
+		}
+		if j, ok := batch[key]; ok {
+			dupOf[i] = j
+			continue
+		}
+		batch[key] = i
+		fresh[i] = ev
+		todo = append(todo, i)
+	}
+	cancelled := e.runPool(ctx, todo, fresh)
+	for i := range xs {
+		switch {
+		case out[i] != nil:
+			out[i] = e.answerCached(out[i])
+		case dupOf[i] >= 0:
+			if fresh[dupOf[i]] != nil && !cancelled[dupOf[i]] {
+				out[i] = fresh[dupOf[i]]
+				e.cnt.Evaluations++
+				e.cnt.CacheHits++
+			}
+		case cancelled[i]:
+			// left nil
+		default:
+			e.accept(fresh[i])
+			out[i] = fresh[i]
+		}
+	}
+	if err := ctx.Err(); err != nil {
+		return out, err
+	}
+	return out, e.recErr
+}
+
+// EvaluateOne answers a single point.
+func (e *Evaluator) EvaluateOne(ctx context.Context, x []float64) (*Evaluation, error) {
+	evs, err := e.Evaluate(ctx, [][]float64{x})
+	if len(evs) == 0 {
+		return nil, err
+	}
+	return evs[0], err
+}
+
+// newEvaluation allocates the record of a point.
+func (e *Evaluator) newEvaluation(x []float64) *Evaluation {
+	no, nc := len(e.objIdx), len(e.cons)
+	ev := &Evaluation{
+		X:           make([]float64, len(x)),
+		Design:      make([]float64, len(x)),
+		Objectives:  make([]float64, no),
+		F:           make([]float64, no),
+		Constraints: make([]float64, nc),
+		Margins:     make([]float64, nc),
+		G:           make([]float64, nc),
+	}
+	for k, s := range e.slots {
+		ev.X[k] = math.Max(0, math.Min(1, x[k]))
+		ev.Design[k] = s.physical(x[k])
+	}
+	return ev
+}
+
+// runPool analyses the points todo on the workers. It returns which
+// points were cut short by cancellation.
+func (e *Evaluator) runPool(ctx context.Context, todo []int, fresh []*Evaluation) []bool {
+	cancelled := make([]bool, len(fresh))
+	workers := len(e.spaces)
+	if workers > len(todo) {
+		workers = len(todo)
+	}
+	var next atomic.Int64
+	var wg sync.WaitGroup
+	work := func(w int) {
+		defer wg.Done()
+		for {
+			j := int(next.Add(1)) - 1
+			if j >= len(todo) {
+				return
+			}
+			i := todo[j]
+			if ctx.Err() != nil {
+				cancelled[i] = true
+				continue
+			}
+			if !e.analyse(ctx, w, fresh[i]) {
+				cancelled[i] = true
+			}
+		}
+	}
+	wg.Add(workers)
+	for w := 1; w < workers; w++ {
+		go work(w)
+	}
+	if workers > 0 {
+		work(0)
+	}
+	wg.Wait()
+	return cancelled
+}
+
+// analyse runs one point on worker w. It returns false when the analysis
+// was cut short by cancellation (the point then says nothing).
+func (e *Evaluator) analyse(ctx context.Context, w int, ev *Evaluation) (ok bool) {
+	ws := e.spaces[w]
+	start := time.Now()
+	before := ws.cnt
+	copy(ws.val, e.base)
+	copy(ws.guess, e.guess)
+	for k, s := range e.slots {
+		if s.coupling {
+			ws.guess[s.idx] = ev.Design[k]
+		} else {
+			ws.val[s.idx] = ev.Design[k]
+		}
+	}
+	var err error
+	if len(e.coupling) > 0 {
+		err = ws.AnalyzeOnce(ctx)
+	} else {
+		err = ws.Analyze(ctx)
+	}
+	defer func() {
+		ev.Wall = time.Since(start)
+		ev.Iterations = ws.cnt.Iterations - before.Iterations
+		ev.DisciplineCalls = ws.cnt.DisciplineCalls - before.DisciplineCalls
+	}()
+	if err != nil {
+		if ctx.Err() != nil {
+			return false
+		}
+		ev.failed(err.Error())
+		ev.Outputs = append([]float64(nil), ws.val...)
+		return true
+	}
+	ev.Converged = true
+	ev.Outputs = append([]float64(nil), ws.val...)
+	vals := Values{sys: e.sys, val: ws.val}
+	if reason := e.score(vals, ws, w, ev); reason != "" {
+		ev.failed(reason)
+	}
+	return true
+}
+
+// score computes objectives and constraints; a non-empty return is the
+// reason the point cannot be scored.
+func (e *Evaluator) score(vals Values, ws *Workspace, w int, ev *Evaluation) (reason string) {
+	defer func() {
+		if r := recover(); r != nil {
+			reason = fmt.Sprintf("objective or constraint function panicked: %v", r)
+		}
+	}()
+	for k, idx := range e.objIdx {
+		o := e.study.Objectives[k]
+		var f float64
+		if idx >= 0 {
+			f = vals.val[idx]
+		} else {
+			f = o.Func(vals)
+		}
+		if math.IsNaN(f) || math.IsInf(f, 0) {
+			return fmt.Sprintf("objective %s = %g", o.Name, f)
+		}
+		ev.Objectives[k] = f
+		ev.F[k] = o.sense() * f
+	}
+	if len(e.coupling) > 0 {
+		ws.ConsistencyResiduals(e.resid[w])
+	}
+	viol := 0.0
+	for k, c := range e.cons {
+		var g float64
+		switch idx := e.consIdx[k]; {
+		case idx >= 0:
+			g = vals.val[idx]
+		case idx == -1:
+			g = c.Func(vals)
+		default:
+			g = e.resid[w][k-e.nUserCons]
+		}
+		if math.IsNaN(g) {
+			return fmt.Sprintf("constraint %s is NaN", c.Name)
+		}
+		m := c.Margin(g)
+		ev.Constraints[k] = g
+		ev.Margins[k] = m
+		ev.G[k] = -m / c.scale()
+		if ev.G[k] > 0 {
+			viol += ev.G[k]
+		}
+	}
+	ev.Violation = viol
+	ev.Feasible = viol == 0
+	return ""
+}
+
+// answerCached accounts for a cache hit.
+func (e *Evaluator) answerCached(c *Evaluation) *Evaluation {
+	if e.restored[c] {
+		delete(e.restored, c)
+		if c.ID >= e.nextID {
+			e.nextID = c.ID + 1
+		}
+		e.cnt.Evaluations++
+		e.cnt.Restored++
+		e.track(c)
+		return c
+	}
+	e.cnt.Evaluations++
+	e.cnt.CacheHits++
+	return c
+}
+
+// accept numbers, caches, records and tracks a freshly analysed point.
+func (e *Evaluator) accept(ev *Evaluation) {
+	ev.ID = e.nextID
+	e.nextID++
+	e.cnt.Evaluations++
+	e.cnt.Analyses++
+	if !ev.Converged {
+		e.cnt.Failed++
+	}
+	e.cnt.DisciplineCalls += ev.DisciplineCalls
+	e.cnt.CouplingIterations += ev.Iterations
+	if e.study.CacheLimit > 0 && len(e.cache) < e.study.CacheLimit {
+		e.cache[designKey(ev.Design)] = ev
+	}
+	if e.study.Recorder != nil && e.recErr == nil {
+		if !e.began {
+			e.beginRecording()
+		}
+		if e.recErr == nil {
+			if err := e.study.Recorder.Record(ev); err != nil {
+				e.recErr = fmt.Errorf("mdo: recording evaluation %d: %w", ev.ID, err)
+			}
+		}
+	}
+	e.track(ev)
+}
+
+// track updates the best point, the history and the Pareto archive.
+func (e *Evaluator) track(ev *Evaluation) {
+	if Better(ev, e.best) {
+		e.best = ev
+		e.history = append(e.history, HistoryPoint{Evaluations: e.cnt.Evaluations, Best: ev.F[0], Violation: ev.Violation, Feasible: ev.Feasible})
+	}
+	if len(e.objIdx) < 2 || !ev.Feasible {
+		return
+	}
+	kept := e.archive[:0]
+	for _, a := range e.archive {
+		if Dominates(a, ev) || sameF(a, ev) {
+			return
+		}
+	}
+	for _, a := range e.archive {
+		if !Dominates(ev, a) {
+			kept = append(kept, a)
+		}
+	}
+	// insert sorted by the first objective
+	pos := len(kept)
+	for i, a := range kept {
+		if ev.F[0] < a.F[0] {
+			pos = i
+			break
+		}
+	}
+	kept = append(kept, nil)
+	copy(kept[pos+1:], kept[pos:])
+	kept[pos] = ev
+	e.archive = kept
+}
+
+// sameF reports equal objective vectors.
+func sameF(a, b *Evaluation) bool {
+	for k := range a.F {
+		if a.F[k] != b.F[k] {
+			return false
+		}
+	}
+	return true
+}

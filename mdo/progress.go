@@ -1,0 +1,14 @@
+package mdo
+
+// Progress is what an optimiser reports at each of its iterations.
+type Progress struct {
+	Optimizer   string
+	Iteration   int
+	Evaluations int
+	// Best is the best (minimised-sense) first objective so far, Feasible
+	// whether that point satisfies every constraint, and Violation its
+	// scaled constraint violation.
+	Best      float64
+	Feasible  bool
+	Violation float64
+}

@@ -1,0 +1,42 @@
+package mdo
+
+import "time"
+
+// RunInfo describes a run for its record: provenance and the names and
+// units of everything an Evaluation holds.
+type RunInfo struct {
+	Study       string
+	Script      string
+	Optimizer   string
+	Seed        uint64
+	Formulation Formulation
+	Settings    map[string]string
+	Started     time.Time
+	Design      []DesignSpec
+	Objectives  []string
+	Constraints []string
+	Outputs     []Var
+}
+
+// DesignSpec describes one design variable of a run.
+type DesignSpec struct {
+	Name         string
+	Unit         string
+	Lower, Upper float64
+	Integer      bool
+}
+
+// Recorder receives a run's evaluations. Implementations (the SQLite
+// store, say) live in subpackages of mdo. Record is called from one
+// goroutine, in evaluation order; the Evaluation must not be modified.
+type Recorder interface {
+	Begin(info RunInfo) error
+	Record(e *Evaluation) error
+	End(r *Result) error
+}
+
+// IterationRecorder is implemented by recorders that also keep the
+// optimiser's iterations.
+type IterationRecorder interface {
+	Iteration(p Progress) error
+}

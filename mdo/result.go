@@ -1,0 +1,236 @@
+package mdo
+
+import (
+	"fmt"
+	"math"
+	"strings"
+	"text/tabwriter"
+	"time"
+)
+
+// Result is the outcome of an optimisation or a design of experiments.
+type Result struct {
+	Study       string
+	Optimizer   string
+	Seed        uint64
+	Formulation Formulation
+	Design      []DesignSpec
+	Objectives  []Objective
+	Constraints []Constraint
+	Outputs     []Var
+	// Best is the best point by Deb's rules on the first objective.
+	Best *Evaluation
+	// Front holds the non-dominated feasible points of a study with two
+	// or more objectives, sorted by the first objective.
+	Front []*Evaluation
+	// History is the best-so-far history.
+	History []HistoryPoint
+	EvalCounters
+	// Stop says why the optimiser stopped.
+	Stop    string
+	Started time.Time
+	Elapsed time.Duration
+}
+
+// beginRecording starts the recorder with the run's description.
+func (e *Evaluator) beginRecording() {
+	e.began = true
+	if e.study.Recorder == nil {
+		return
+	}
+	info := RunInfo{
+		Study: e.study.Name, Script: e.study.Script, Optimizer: e.optName, Seed: e.study.Seed,
+		Formulation: e.study.Formulation, Settings: e.settings, Started: e.started,
+		Design: e.DesignSpecs(), Objectives: e.ObjectiveNames(), Outputs: e.OutputVars(),
+	}
+	for _, c := range e.cons {
+		info.Constraints = append(info.Constraints, c.Name)
+	}
+	if err := e.study.Recorder.Begin(info); err != nil {
+		e.recErr = fmt.Errorf("mdo: starting the recorder: %w", err)
+	}
+}
+
+// Begin names the optimiser and its settings for the record and starts
+// the recorder. Optimisers call it before their first evaluation.
+func (e *Evaluator) Begin(optimizer string, settings map[string]string) error {
+	e.optName = optimizer
+	e.settings = settings
+	e.progress.Optimizer = optimizer
+	if !e.began {
+		e.beginRecording()
+	}
+	return e.recErr
+}
+
+// Iteration reports the end of an optimiser iteration: it calls the
+// study's progress callback and the recorder's iteration hook.
+func (e *Evaluator) Iteration(it int) {
+	p := Progress{Optimizer: e.optName, Iteration: it, Evaluations: e.cnt.Evaluations, Best: math.NaN(), Violation: math.Inf(1)}
+	if e.best != nil {
+		p.Best = e.best.F[0]
+		p.Feasible = e.best.Feasible
+		p.Violation = e.best.Violation
+	}
+	e.progress = p
+	if e.study.Progress != nil {
+		e.study.Progress(p)
+	}
+	if ir, ok := e.study.Recorder.(IterationRecorder); ok && e.recErr == nil {
+		if !e.began {
+			e.beginRecording()
+		}
+		if err := ir.Iteration(p); err != nil && e.recErr == nil {
+			e.recErr = fmt.Errorf("mdo: recording iteration %d: %w", it, err)
+		}
+	}
+}
+
+// Finish builds the Result and closes the recorder. stop says why the
+// optimiser stopped ("converged", "budget", "cancelled", ...).
+func (e *Evaluator) Finish(stop string) (*Result, error) {
+	r := &Result{
+		Study: e.study.Name, Optimizer: e.optName, Seed: e.study.Seed, Formulation: e.study.Formulation,
+		Design: e.DesignSpecs(), Objectives: append([]Objective(nil), e.study.Objectives...),
+		Constraints: e.Constraints(), Outputs: e.OutputVars(),
+		Best: e.best, Front: e.Front(), History: append([]HistoryPoint(nil), e.history...),
+		EvalCounters: e.cnt, Stop: stop, Started: e.started, Elapsed: time.Since(e.started),
+	}
+	if e.study.Recorder != nil && e.recErr == nil {
+		if !e.began {
+			e.beginRecording()
+		}
+		if err := e.study.Recorder.End(r); err != nil && e.recErr == nil {
+			e.recErr = fmt.Errorf("mdo: closing the recorder: %w", err)
+		}
+	}
+	if e.recErr != nil {
+		return r, e.recErr
+	}
+	return r, nil
+}
+
+// DesignValues returns the best design as name → physical value.
+func (r *Result) DesignValues() map[string]float64 {
+	out := map[string]float64{}
+	if r.Best == nil {
+		return out
+	}
+	for k, d := range r.Design {
+		out[d.Name] = r.Best.Design[k]
+	}
+	return out
+}
+
+// Objective returns the best point's first objective as declared (NaN if
+// there is no best point).
+func (r *Result) Objective() float64 {
+	if r.Best == nil || len(r.Best.Objectives) == 0 {
+		return math.NaN()
+	}
+	return r.Best.Objectives[0]
+}
+
+// Feasible reports whether the best point satisfies every constraint.
+func (r *Result) Feasible() bool { return r.Best != nil && r.Best.Feasible }
+
+// Output returns the best point's value of a system variable.
+func (r *Result) Output(name string) (float64, error) {
+	if r.Best == nil {
+		return 0, fmt.Errorf("mdo: study %q has no best point", r.Study)
+	}
+	for i, v := range r.Outputs {
+		if v.Name == name {
+			return r.Best.Outputs[i], nil
+		}
+	}
+	return 0, fmt.Errorf("mdo: study %q recorded no output %q", r.Study, name)
+}
+
+// Active returns the names of the constraints whose scaled margin at the
+// best point is at most tol (satisfied but on the bound, or violated).
+func (r *Result) Active(tol float64) []string {
+	var out []string
+	if r.Best == nil {
+		return out
+	}
+	for k, c := range r.Constraints {
+		if r.Best.Margins[k]/c.scale() <= tol {
+			out = append(out, c.Name)
+		}
+	}
+	return out
+}
+
+// String formats the result as tables: the best design, its objectives and
+// its constraints with margins, and the front of a multi-objective study.
+func (r *Result) String() string {
+	var b strings.Builder
+	fmt.Fprintf(&b, "study %q by %s (%s, seed %d): %s after %d evaluations (%d analyses, %d cached, %d failed)\n",
+		r.Study, r.Optimizer, r.Formulation, r.Seed, r.Stop, r.Evaluations, r.Analyses, r.CacheHits+r.Restored, r.Failed)
+	if r.Best == nil {
+		b.WriteString("no point was evaluated\n")
+		return b.String()
+	}
+	state := "feasible"
+	if !r.Best.Feasible {
+		state = fmt.Sprintf("INFEASIBLE (violation %.4g)", r.Best.Violation)
+		if r.Best.Err != "" {
+			state += ": " + r.Best.Err
+		}
+	}
+	fmt.Fprintf(&b, "best point #%d, %s\n", r.Best.ID, state)
+	w := tabwriter.NewWriter(&b, 0, 0, 2, ' ', 0)
+	fmt.Fprintln(w, "design\tvalue\tunit\tbounds")
+	for k, d := range r.Design {
+		fmt.Fprintf(w, "%s\t%.6g\t%s\t[%g, %g]\n", d.Name, r.Best.Design[k], unitOr(d.Unit), d.Lower, d.Upper)
+	}
+	w.Flush()
+	w = tabwriter.NewWriter(&b, 0, 0, 2, ' ', 0)
+	fmt.Fprintln(w, "objective\tvalue")
+	for k, o := range r.Objectives {
+		fmt.Fprintf(w, "%s\t%.8g\n", o, r.Best.Objectives[k])
+	}
+	w.Flush()
+	if len(r.Constraints) > 0 {
+		w = tabwriter.NewWriter(&b, 0, 0, 2, ' ', 0)
+		fmt.Fprintln(w, "constraint\tvalue\tmargin\tstate")
+		for k, c := range r.Constraints {
+			st := "ok"
+			switch m := r.Best.Margins[k] / c.scale(); {
+			case m < 0:
+				st = "VIOLATED"
+			case m <= 1e-3:
+				st = "active"
+			}
+			fmt.Fprintf(w, "%s\t%.6g\t%.4g\t%s\n", c, r.Best.Constraints[k], r.Best.Margins[k], st)
+		}
+		w.Flush()
+	}
+	if len(r.Front) > 0 {
+		fmt.Fprintf(&b, "Pareto front: %d non-dominated feasible points\n", len(r.Front))
+		w = tabwriter.NewWriter(&b, 0, 0, 2, ' ', 0)
+		head := []string{"#"}
+		for _, o := range r.Objectives {
+			head = append(head, o.Name)
+		}
+		fmt.Fprintln(w, strings.Join(head, "\t"))
+		for _, p := range r.Front {
+			row := []string{fmt.Sprint(p.ID)}
+			for _, f := range p.Objectives {
+				row = append(row, fmt.Sprintf("%.6g", f))
+			}
+			fmt.Fprintln(w, strings.Join(row, "\t"))
+		}
+		w.Flush()
+	}
+	return b.String()
+}
+
+// unitOr returns the unit or "-".
+func unitOr(u string) string {
+	if u == "" {
+		return "-"
+	}
+	return u
+}

@@ -1,0 +1,156 @@
+package mdo
+
+import (
+	"fmt"
+	"math"
+)
+
+// Formulation says how a Study treats the coupling of its System.
+type Formulation int
+
+const (
+	// MDF (multidisciplinary feasible): every point gets a full coupled
+	// analysis. The default.
+	MDF Formulation = iota
+	// IDF (individual discipline feasible): the coupling variables become
+	// design variables, each discipline runs once per point, and equality
+	// constraints ask the coupling to be consistent at the optimum.
+	IDF
+)
+
+// String returns "MDF" or "IDF".
+func (f Formulation) String() string {
+	switch f {
+	case MDF:
+		return "MDF"
+	case IDF:
+		return "IDF"
+	}
+	return fmt.Sprintf("formulation(%d)", int(f))
+}
+
+// DesignVar is a design variable: a parameter of the System (or, under
+// IDF, a coupling variable) varied between bounds.
+type DesignVar struct {
+	Name         string
+	Lower, Upper float64
+	// Integer restricts the variable to whole numbers (counts such as the
+	// number of engines). Only the evolutionary optimisers and designs of
+	// experiments accept integer variables.
+	Integer bool
+}
+
+// Continuous returns a continuous design variable.
+func Continuous(name string, lower, upper float64) DesignVar {
+	return DesignVar{Name: name, Lower: lower, Upper: upper}
+}
+
+// Integer returns an integer design variable.
+func Integer(name string, lower, upper int) DesignVar {
+	return DesignVar{Name: name, Lower: float64(lower), Upper: float64(upper), Integer: true}
+}
+
+// Study is an optimisation problem over a System: design variables with
+// bounds, one or more objectives, constraints, fixed parameter values and
+// a formulation. Optimisers search the unit box; the Study maps it to the
+// physical bounds.
+type Study struct {
+	Name        string
+	System      *System
+	Design      []DesignVar
+	Objectives  []Objective
+	Constraints []Constraint
+	// Fixed holds parameter values other than the variables' defaults; a
+	// design variable listed here starts from that value.
+	Fixed       map[string]float64
+	Formulation Formulation
+	// Seed drives every random choice of the optimisers.
+	Seed uint64
+	// Workers is the number of parallel analyses; 0 means all cores.
+	// Results do not depend on it.
+	Workers int
+	// ConsistencyTolerance is the tolerance of the IDF consistency
+	// constraints on the scaled coupling residual; default 1e-4.
+	ConsistencyTolerance float64
+	// CacheLimit caps the number of cached evaluations; default 50 000,
+	// negative disables the cache.
+	CacheLimit int
+	// Recorder, if not nil, receives every evaluation.
+	Recorder Recorder
+	// Progress, if not nil, is called at every optimiser iteration.
+	Progress func(Progress)
+	// Script is the source text of the study, kept for provenance.
+	Script string
+}
+
+// validate checks the study's declarations against its system.
+func (s *Study) validate() error {
+	if s.System == nil {
+		return fmt.Errorf("mdo: study %q has no System", s.Name)
+	}
+	if len(s.Design) == 0 {
+		return fmt.Errorf("mdo: study %q has no design variables", s.Name)
+	}
+	if len(s.Objectives) == 0 {
+		return fmt.Errorf("mdo: study %q has no objective", s.Name)
+	}
+	seen := map[string]bool{}
+	for _, d := range s.Design {
+		v, err := s.System.Var(d.Name)
+		if err != nil {
+			return fmt.Errorf("mdo: design variable: %w", err)
+		}
+		if seen[d.Name] {
+			return fmt.Errorf("mdo: design variable %s listed twice", d.Name)
+		}
+		seen[d.Name] = true
+		if !s.System.IsParameter(d.Name) {
+			return fmt.Errorf("mdo: design variable %s is produced by discipline %s; only parameters can be design variables (IDF adds coupling variables itself)", d.Name, s.System.Producer(d.Name))
+		}
+		if math.IsNaN(d.Lower) || math.IsNaN(d.Upper) || math.IsInf(d.Lower, 0) || math.IsInf(d.Upper, 0) || !(d.Lower < d.Upper) {
+			return fmt.Errorf("mdo: design variable %s: bounds [%g, %g] must be finite with lower < upper", d.Name, d.Lower, d.Upper)
+		}
+		if !v.Unbounded() && (d.Lower < v.Min || d.Upper > v.Max) {
+			return fmt.Errorf("mdo: design variable %s: bounds [%g, %g] %s leave its validity range [%g, %g]", d.Name, d.Lower, d.Upper, v.Unit, v.Min, v.Max)
+		}
+		if d.Integer && (d.Lower != math.Round(d.Lower) || d.Upper != math.Round(d.Upper)) {
+			return fmt.Errorf("mdo: integer design variable %s needs whole-number bounds, got [%g, %g]", d.Name, d.Lower, d.Upper)
+		}
+	}
+	for name, x := range s.Fixed {
+		v, err := s.System.Var(name)
+		if err != nil {
+			return fmt.Errorf("mdo: fixed value: %w", err)
+		}
+		if !s.System.IsParameter(name) {
+			return fmt.Errorf("mdo: fixed value for %s, which is produced by discipline %s", name, s.System.Producer(name))
+		}
+		if err := v.Check(x); err != nil {
+			return err
+		}
+	}
+	for _, o := range s.Objectives {
+		if o.Func == nil {
+			if _, err := s.System.Var(o.Name); err != nil {
+				return fmt.Errorf("mdo: objective: %w", err)
+			}
+		}
+	}
+	for _, c := range s.Constraints {
+		if err := c.validate(); err != nil {
+			return err
+		}
+		if c.Func == nil {
+			if _, err := s.System.Var(c.Name); err != nil {
+				return fmt.Errorf("mdo: constraint: %w", err)
+			}
+		}
+	}
+	if s.Workers < 0 {
+		return fmt.Errorf("mdo: study %q: Workers = %d, must be >= 0 (0 = all cores)", s.Name, s.Workers)
+	}
+	if s.Formulation != MDF && s.Formulation != IDF {
+		return fmt.Errorf("mdo: study %q: unknown formulation %d (allowed MDF, IDF)", s.Name, int(s.Formulation))
+	}
+	return nil
+}
