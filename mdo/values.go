@@ -37,3 +37,6 @@ func (v Values) At(i int) float64 { return v.val[i] }
 
 // Len returns the number of variables.
 func (v Values) Len() int { return len(v.val) }
+
+// nan returns a quiet NaN.
+func nan() float64 { return math.NaN() }

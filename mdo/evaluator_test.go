@@ -1,0 +1,175 @@
+package mdo
+
+import (
+	"context"
+	"math"
+	"math/rand/v2"
+	"reflect"
+	"strings"
+	"testing"
+)
+
+// randomPoints draws n seeded points in the unit box.
+func randomPoints(n, dim int, seed uint64) [][]float64 {
+	r := rand.New(rand.NewPCG(seed, 1))
+	xs := make([][]float64, n)
+	for i := range xs {
+		xs[i] = make([]float64, dim)
+		for k := range xs[i] {
+			xs[i][k] = r.Float64()
+		}
+	}
+	return xs
+}
+
+func TestEvaluatorWorkersIdentical(t *testing.T) {
+	run := func(workers int) []*Evaluation {
+		st, err := SellarStudy(MDF)
+		if err != nil {
+			t.Fatal(err)
+		}
+		st.Workers = workers
+		ev, err := st.NewEvaluator()
+		if err != nil {
+			t.Fatal(err)
+		}
+		xs := randomPoints(64, 3, 7)
+		xs = append(xs, xs[3]) // a repeat, answered by the cache
+		out, err := ev.Evaluate(context.Background(), xs)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if c := ev.Counters(); c.CacheHits != 1 || c.Analyses != 64 || c.Evaluations != 65 {
+			t.Errorf("workers %d: counters %+v", workers, c)
+		}
+		for _, e := range out {
+			e.Wall = 0
+		}
+		return out
+	}
+	a, b := run(1), run(2)
+	if !reflect.DeepEqual(a, b) {
+		t.Fatal("evaluations differ between 1 and 2 workers")
+	}
+}
+
+func TestEvaluatorFailureIsInfeasible(t *testing.T) {
+	st, _ := SellarStudy(MDF)
+	ev, err := st.NewEvaluator()
+	if err != nil {
+		t.Fatal(err)
+	}
+	// x = 0, z1 = −10 (unit 0), z2 = 10 (unit 1): y1 = 100 + 10 − 0.2·y2
+	// stays positive, fine; z1 = 0, z2 = 0, x = 0 drives y1 negative and
+	// sellar2's sqrt input out of range.
+	e, err := ev.EvaluateOne(context.Background(), []float64{0, 0.5, 0})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if e.Converged || e.Feasible || !math.IsInf(e.Violation, 1) || !strings.Contains(e.Err, "y1") {
+		t.Errorf("failed point recorded as %+v", e)
+	}
+	if ev.Counters().Failed != 1 {
+		t.Errorf("failed count %d", ev.Counters().Failed)
+	}
+}
+
+func TestEvaluatorAtSellarOptimum(t *testing.T) {
+	for _, form := range []Formulation{MDF, IDF} {
+		st, _ := SellarStudy(form)
+		ev, err := st.NewEvaluator()
+		if err != nil {
+			t.Fatal(err)
+		}
+		p := []float64{0, 1.97764, 0}
+		if form == IDF {
+			// coupling targets at the published optimum (Sellar et al. 1996)
+			p = append(p, 3.16, 3.75528)
+		}
+		e, err := ev.EvaluateOne(context.Background(), ev.ToUnit(p))
+		if err != nil {
+			t.Fatal(err)
+		}
+		if math.Abs(e.Objectives[0]-3.18339) > 1e-4 {
+			t.Errorf("%s: f = %.6f, published 3.18339", form, e.Objectives[0])
+		}
+		if len(e.G) != map[Formulation]int{MDF: 2, IDF: 4}[form] {
+			t.Errorf("%s: %d constraints", form, len(e.G))
+		}
+		if form == IDF && !e.Feasible {
+			t.Errorf("IDF at the optimum should be consistent within 1e-4: G = %v", e.G)
+		}
+		r, err := ev.Finish("test")
+		if err != nil || r.Best != e || !strings.Contains(r.String(), "g1 >= 3.16") {
+			t.Errorf("result %v:\n%s", err, r)
+		}
+	}
+}
+
+func TestStudyValidation(t *testing.T) {
+	tests := []struct {
+		name   string
+		mutate func(*Study)
+		want   string
+	}{
+		{"unknown design variable", func(s *Study) { s.Design[0].Name = "xx" }, `"xx"`},
+		{"produced design variable", func(s *Study) { s.Design[0] = Continuous("y1", 0, 1) }, "produced by discipline sellar1"},
+		{"bounds reversed", func(s *Study) { s.Design[0] = Continuous("x", 5, 1) }, "lower < upper"},
+		{"bounds outside range", func(s *Study) { s.Design[0] = Continuous("x", 0, 20) }, "validity range"},
+		{"unknown objective", func(s *Study) { s.Objectives[0] = Minimize("ff") }, `"ff"`},
+		{"fixed out of range", func(s *Study) { s.Fixed = map[string]float64{"x": -1} }, "x = -1"},
+		{"band reversed", func(s *Study) { s.Constraints = append(s.Constraints, Between("f", 2, 1)) }, "lower > upper"},
+		{"negative workers", func(s *Study) { s.Workers = -1 }, "Workers = -1"},
+	}
+	for _, tc := range tests {
+		st, _ := SellarStudy(MDF)
+		tc.mutate(st)
+		_, err := st.NewEvaluator()
+		if err == nil || !strings.Contains(err.Error(), tc.want) {
+			t.Errorf("%s: err = %v, want mention of %s", tc.name, err, tc.want)
+		}
+	}
+}
+
+func TestConstraintMargins(t *testing.T) {
+	tests := []struct {
+		c      Constraint
+		value  float64
+		margin float64
+	}{
+		{AtMost("a", 10), 8, 2},
+		{AtMost("a", 10), 12, -2},
+		{AtLeast("a", 3), 2, -1},
+		{Between("a", 0, 10), 9, 1},
+		{Between("a", 0, 10), -1, -1},
+		{EqualTo("a", 5, 0.5), 5.25, 0.25},
+	}
+	for _, tc := range tests {
+		if got := tc.c.Margin(tc.value); math.Abs(got-tc.margin) > 1e-12 {
+			t.Errorf("%s at %g: margin %g, want %g", tc.c, tc.value, got, tc.margin)
+		}
+	}
+}
+
+func TestParetoArchive(t *testing.T) {
+	sys, _ := NewSystem(Func("two", []string{"a"}, []string{"f1", "f2"}, func(in, out []float64) error {
+		out[0] = in[0]
+		out[1] = (1 - in[0]) * (1 - in[0])
+		return nil
+	}))
+	st := &Study{Name: "pareto", System: sys, Design: []DesignVar{Continuous("a", 0, 1)},
+		Objectives: []Objective{Minimize("f1"), Minimize("f2")}, Workers: 1}
+	ev, err := st.NewEvaluator()
+	if err != nil {
+		t.Fatal(err)
+	}
+	// every point of a ∈ [0, 1] is Pareto optimal for (a, (1−a)²)
+	xs := [][]float64{{0.5}, {0.1}, {0.9}, {0.3}}
+	if _, err := ev.Evaluate(context.Background(), xs); err != nil {
+		t.Fatal(err)
+	}
+	front := ev.Front()
+	if len(front) != 4 || front[0].Design[0] != 0.1 || front[3].Design[0] != 0.9 {
+		t.Errorf("front %v", front)
+	}
+}

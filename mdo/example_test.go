@@ -1,0 +1,52 @@
+package mdo_test
+
+import (
+	"context"
+	"fmt"
+
+	"couplet/mdo"
+)
+
+// Converge the Sellar problem's coupled disciplines at a design point.
+func ExampleSystem_Analyze() {
+	sys, err := mdo.NewSystem(mdo.Sellar()...)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	sol, err := sys.Analyze(context.Background(), map[string]float64{"x": 0, "z1": 1.97764, "z2": 0})
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Printf("y1 = %.4f, y2 = %.4f, f = %.4f\n", sol.Value("y1"), sol.Value("y2"), sol.Value("f"))
+	// Output: y1 = 3.1600, y2 = 3.7553, f = 3.1834
+}
+
+// A discipline made from a plain function, coupled to another one.
+func ExampleFunc() {
+	lift := mdo.Func("lift", []string{"alpha", "w"}, []string{"cl"}, func(in, out []float64) error {
+		out[0] = 0.1 + 5.0*in[0] - 0.01*in[1]
+		return nil
+	})
+	weight := mdo.Func("weight", []string{"cl"}, []string{"w"}, func(in, out []float64) error {
+		out[0] = 2 + 0.5*in[0]
+		return nil
+	})
+	sys, err := mdo.NewSystem(lift, weight)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Print(sys)
+	sol, err := sys.Analyze(context.Background(), map[string]float64{"alpha": 0.1})
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Printf("cl = %.6f\n", sol.Value("cl"))
+	// Output:
+	// system: 2 disciplines, 3 variables, 1 parameters
+	//   A: {lift, weight} (coupled, aitken-gauss-seidel)
+	// cl = 0.577114
+}
