@@ -73,6 +73,7 @@ func (w *Workspace) newton(ctx context.Context, g *group, set SolverSettings, re
 		w.cnt.Iterations++
 		if n0 <= set.Tolerance {
 			rep.Converged = true
+			w.fillWorst(g, r, rep)
 			// leave the values at G(u): one last sweep from u
 			resid(r, u)
 			return evalErr

@@ -351,6 +351,7 @@ func (w *Workspace) solve(ctx context.Context, g *group, set SolverSettings, rep
 		w.cnt.Iterations++
 		if norm <= set.Tolerance {
 			rep.Converged = true
+			w.fillWorst(g, r, rep)
 			return nil
 		}
 		if !(norm < divergeLimit) {
