@@ -1,0 +1,189 @@
+// Package cell is the bridge between a study script and the session or
+// headless runner that runs it. Scripts import it as
+//
+//	import "couplet/repl/cell"
+//
+// and call its functions as cell.Context(), cell.Attach(study) and so on.
+// Each interpreter gets its own Env bound to its session, so these calls
+// reach the running session without any global state: the package-level
+// names a script sees are the methods of that session's Env.
+//
+// The hand-over of results: a script passes its study result to
+// cell.Publish; `couplet run` writes summary.json (and the rest of the
+// output folder) from the last published result. When a script publishes
+// nothing, the last *mdo.Result shown as the value of a cell is used.
+package cell
+
+import (
+	"context"
+	"fmt"
+	"os"
+	"path/filepath"
+	"strings"
+	"sync"
+
+	"couplet/mdo"
+)
+
+// ImportPath is the path under which scripts import this package.
+const ImportPath = "couplet/repl/cell"
+
+// Host is what an Env needs from the session or runner that owns it.
+// Every field is optional.
+type Host struct {
+	// Context returns the context of the running cell; cancelled on
+	// Ctrl-C or when the run's time limit is reached.
+	Context func() context.Context
+	// Seed, when SeedSet, overrides the seed a script declares (the
+	// --seed flag of `couplet run`).
+	Seed    uint64
+	SeedSet bool
+	// OutDir is the output folder of the study; created on first use.
+	OutDir string
+	// Progress, if not nil, makes the progress callback installed by
+	// Attach; nil means no progress display.
+	Progress func(label string) func(mdo.Progress)
+	// Recorder, if not nil, makes the recorder Attach installs for a
+	// study (the results store of a run).
+	Recorder func(st *mdo.Study) (mdo.Recorder, error)
+	// Script returns the source text of the study so far, kept by Attach
+	// in Study.Script for provenance.
+	Script func() string
+}
+
+// Env is one session's view of the running study: the functions a script
+// calls through the cell package.
+type Env struct {
+	host Host
+
+	mu        sync.Mutex
+	published []*mdo.Result
+	seedUsed  uint64
+	seedKnown bool
+}
+
+// NewEnv returns an Env served by host.
+func NewEnv(host Host) *Env { return &Env{host: host} }
+
+// Context returns the context of the running cell. Pass it to optimisers
+// and long analyses so that Ctrl-C (or the run's --timeout) stops them
+// and they return their best point so far.
+func (e *Env) Context() context.Context {
+	if e.host.Context == nil {
+		return context.Background()
+	}
+	if ctx := e.host.Context(); ctx != nil {
+		return ctx
+	}
+	return context.Background()
+}
+
+// Seed returns the study seed: def, unless the run overrides it with
+// --seed. The value returned is the one reported in summary.json.
+func (e *Env) Seed(def uint64) uint64 {
+	s := def
+	if e.host.SeedSet {
+		s = e.host.Seed
+	}
+	e.mu.Lock()
+	e.seedUsed, e.seedKnown = s, true
+	e.mu.Unlock()
+	return s
+}
+
+// Attach readies a study for a run in this session: it applies the
+// --seed override, keeps the script text for provenance, installs the
+// progress display (on a terminal only) and the run's recorder. Fields the
+// script has already set (Progress, Recorder, Script) are kept.
+func (e *Env) Attach(st *mdo.Study) error {
+	if st == nil {
+		return fmt.Errorf("cell: Attach: the study is nil")
+	}
+	st.Seed = e.Seed(st.Seed)
+	if st.Script == "" && e.host.Script != nil {
+		st.Script = e.host.Script()
+	}
+	if st.Progress == nil && e.host.Progress != nil {
+		st.Progress = e.host.Progress(st.Name)
+	}
+	if st.Recorder == nil && e.host.Recorder != nil {
+		rec, err := e.host.Recorder(st)
+		if err != nil {
+			return fmt.Errorf("cell: Attach: making the recorder of study %q: %w", st.Name, err)
+		}
+		st.Recorder = rec
+	}
+	return nil
+}
+
+// Progress returns a callback for Study.Progress that shows the
+// optimiser's iteration, best objective and feasibility while it runs (on
+// a terminal; it does nothing otherwise). Attach installs it for you.
+func (e *Env) Progress(label string) func(mdo.Progress) {
+	if e.host.Progress == nil {
+		return func(mdo.Progress) {}
+	}
+	return e.host.Progress(label)
+}
+
+// Publish hands a study result to the run: `couplet run` writes
+// summary.json from the last result published.
+func (e *Env) Publish(r *mdo.Result) error {
+	if r == nil {
+		return fmt.Errorf("cell: Publish: the result is nil")
+	}
+	e.mu.Lock()
+	e.published = append(e.published, r)
+	e.mu.Unlock()
+	return nil
+}
+
+// Published returns the results published so far, oldest first.
+func (e *Env) Published() []*mdo.Result {
+	e.mu.Lock()
+	defer e.mu.Unlock()
+	return append([]*mdo.Result(nil), e.published...)
+}
+
+// SeedUsed returns the last seed handed out by Seed or Attach.
+func (e *Env) SeedUsed() (uint64, bool) {
+	e.mu.Lock()
+	defer e.mu.Unlock()
+	return e.seedUsed, e.seedKnown
+}
+
+// WriteFile writes data to a file of the study's output folder. name is a
+// plain file name (letters, digits, '.', '-', '_'); paths are refused, so
+// a script cannot write outside its output folder.
+func (e *Env) WriteFile(name string, data []byte) error {
+	if err := checkName(name); err != nil {
+		return err
+	}
+	dir := e.host.OutDir
+	if dir == "" {
+		return fmt.Errorf("cell: WriteFile(%q): this session has no output folder (start it with --out DIR)", name)
+	}
+	if err := os.MkdirAll(dir, 0o755); err != nil {
+		return fmt.Errorf("cell: WriteFile(%q): %w", name, err)
+	}
+	if err := os.WriteFile(filepath.Join(dir, name), data, 0o644); err != nil {
+		return fmt.Errorf("cell: WriteFile(%q): %w", name, err)
+	}
+	return nil
+}
+
+// OutDir returns the output folder of the study ("" when there is none).
+func (e *Env) OutDir() string { return e.host.OutDir }
+
+// checkName accepts plain file names only.
+func checkName(name string) error {
+	if name == "" || name == "." || name == ".." || strings.HasPrefix(name, ".") {
+		return fmt.Errorf("cell: file name %q is not allowed: use a plain name such as \"wing.csv\"", name)
+	}
+	for _, r := range name {
+		if !(r >= 'a' && r <= 'z' || r >= 'A' && r <= 'Z' || r >= '0' && r <= '9' || r == '.' || r == '-' || r == '_') {
+			return fmt.Errorf("cell: file name %q is not allowed: only letters, digits, '.', '-' and '_' (no paths)", name)
+		}
+	}
+	return nil
+}

@@ -1,0 +1,172 @@
+package repl
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+	"time"
+
+	"couplet/mdo"
+)
+
+// RunOptions configure a headless replay of a study file.
+type RunOptions struct {
+	// File is the study file; OutDir the output folder (created).
+	File, OutDir string
+	// Seed, when SeedSet, overrides the seed the script declares.
+	Seed    uint64
+	SeedSet bool
+	// Timeout, if positive, limits the whole replay; a running cell is
+	// cancelled when it is reached.
+	Timeout time.Duration
+	// Policy is the sandbox policy.
+	Policy Policy
+	// Stdout receives the cells' output, Stderr the reports.
+	Stdout, Stderr io.Writer
+	// Progress, if not nil, draws the progress of optimisations.
+	Progress *Progress
+	// Recorder, if not nil, makes the recorder of each attached study
+	// (the results store, DIR/results.db).
+	Recorder func(st *mdo.Study) (mdo.Recorder, error)
+	// Artifacts are written into OutDir after summary.json (database
+	// exports, plots, the report).
+	Artifacts []ArtifactWriter
+	// Grace is the time a cancelled cell has to come back (default 2 s).
+	Grace time.Duration
+}
+
+// RunRecord is what a replay produced.
+type RunRecord struct {
+	File   string
+	Script string // the study file's text
+	// Result is the study result handed over by the script (nil if none).
+	Result  *mdo.Result
+	Summary *Summary
+	Cells   []*Cell
+}
+
+// ArtifactWriter writes further output of a run into its folder.
+type ArtifactWriter interface {
+	WriteArtifacts(dir string, rec *RunRecord) error
+}
+
+// UsageError is an error in how the tool was called (exit status 2).
+type UsageError struct{ Err error }
+
+// Error implements error.
+func (e *UsageError) Error() string { return e.Err.Error() }
+
+// Unwrap returns the underlying error.
+func (e *UsageError) Unwrap() error { return e.Err }
+
+// Run replays a study file headless: it refuses the script before it
+// runs if it imports anything the sandbox does not allow, runs its cells
+// in order, and writes OutDir/summary.json from the result the script
+// published (cell.Publish) or, failing that, the last *mdo.Result a cell
+// showed. A failing cell stops the run with an error that names the file
+// line, the cell and its line.
+func Run(ctx context.Context, opts RunOptions) (*RunRecord, error) {
+	if opts.File == "" || opts.OutDir == "" {
+		return nil, &UsageError{Err: fmt.Errorf("run needs a study file and --out DIR")}
+	}
+	text, err := os.ReadFile(opts.File)
+	if err != nil {
+		return nil, &UsageError{Err: fmt.Errorf("reading the study file: %w", err)}
+	}
+	f, err := ParseStudy(string(text))
+	if err != nil {
+		return nil, &UsageError{Err: fmt.Errorf("%s: %w", opts.File, err)}
+	}
+	if err := os.MkdirAll(opts.OutDir, 0o755); err != nil {
+		return nil, &UsageError{Err: fmt.Errorf("making the output folder: %w", err)}
+	}
+	out, errw := opts.Stdout, opts.Stderr
+	if out == nil {
+		out = io.Discard
+	}
+	if errw == nil {
+		errw = io.Discard
+	}
+	s, err := NewSession(Options{
+		Policy: opts.Policy, Stdout: out, Stderr: errw, NoErrorEcho: true, OutDir: opts.OutDir,
+		Seed: opts.Seed, SeedSet: opts.SeedSet, Progress: opts.Progress, Recorder: opts.Recorder, Grace: opts.Grace,
+	})
+	if err != nil {
+		return nil, err
+	}
+	// Check every import before anything runs.
+	for i, c := range f.Cells {
+		_, refs, err := splitCell(c.Source)
+		if err != nil {
+			continue // reported when the cell runs
+		}
+		if err := opts.Policy.check(i+1, refs); err != nil {
+			return nil, fmt.Errorf("%s:%d: %w", opts.File, c.Line+err.(*RefusedImportError).Line-1, err)
+		}
+	}
+	if opts.Timeout > 0 {
+		var cancel context.CancelFunc
+		ctx, cancel = context.WithTimeout(ctx, opts.Timeout)
+		defer cancel()
+	}
+	started := time.Now()
+	rec := &RunRecord{File: opts.File, Script: string(text)}
+	for i, c := range f.Cells {
+		cl := s.Exec(ctx, c.Source)
+		rec.Cells = append(rec.Cells, cl)
+		if cl.Err != nil {
+			line := c.Line
+			var ce *CellError
+			if errors.As(cl.Err, &ce) {
+				line = c.Line + ce.Line - 1
+			}
+			return rec, fmt.Errorf("%s:%d: %w", opts.File, line, cl.Err)
+		}
+		if ctx.Err() != nil && i < len(f.Cells)-1 {
+			return rec, fmt.Errorf("%s: %s after cell %d; cells %d to %d were not run", opts.File, s.reason(ctx), cl.Number, cl.Number+1, len(f.Cells))
+		}
+		if cl.Interrupted {
+			fmt.Fprintf(errw, "%s: cell %d was cancelled (%s) and returned its best point so far\n", opts.File, cl.Number, s.reason(ctx))
+		}
+	}
+	rec.Result = resultOf(s)
+	var seed *uint64
+	if v, ok := s.Env().SeedUsed(); ok {
+		seed = &v
+	}
+	rec.Summary = NewSummary(opts.File, rec.Result, seed, len(f.Cells), started, time.Since(started))
+	if rec.Result == nil {
+		fmt.Fprintf(errw, "%s: the script handed over no result (call cell.Publish(result)); summary.json has no best point\n", opts.File)
+		rec.Summary.Study = trimExt(filepath.Base(opts.File))
+	}
+	if err := rec.Summary.WriteJSON(opts.OutDir); err != nil {
+		return rec, err
+	}
+	for _, a := range opts.Artifacts {
+		if err := a.WriteArtifacts(opts.OutDir, rec); err != nil {
+			return rec, fmt.Errorf("writing the run's output: %w", err)
+		}
+	}
+	return rec, nil
+}
+
+// resultOf returns the result a session's script handed over: the last
+// published, else the last shown.
+func resultOf(s *Session) *mdo.Result {
+	if p := s.Env().Published(); len(p) > 0 {
+		return p[len(p)-1]
+	}
+	cells := s.Cells()
+	for i := len(cells) - 1; i >= 0; i-- {
+		if r, ok := cells[i].Value.(*mdo.Result); ok && r != nil {
+			return r
+		}
+	}
+	return nil
+}
+
+// trimExt drops a file name's extension.
+func trimExt(name string) string { return name[:len(name)-len(filepath.Ext(name))] }

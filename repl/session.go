@@ -1,0 +1,446 @@
+package repl
+
+import (
+	"bytes"
+	"context"
+	"errors"
+	"fmt"
+	"io"
+	"reflect"
+	"regexp"
+	"strconv"
+	"strings"
+	"sync"
+	"time"
+
+	"github.com/traefik/yaegi/interp"
+
+	"couplet/mdo"
+	"couplet/repl/cell"
+	"couplet/repl/symbols"
+	"couplet/repl/symbols/trusted"
+)
+
+// Options configure a Session.
+type Options struct {
+	// Policy is the sandbox policy (the zero value is the sandbox).
+	Policy Policy
+	// Stdout receives what cells print and the values they show; Stderr
+	// the error reports. Nil means io.Discard.
+	Stdout, Stderr io.Writer
+	// OutDir is the study's output folder (cell.WriteFile, the results
+	// store); empty means none.
+	OutDir string
+	// Seed, when SeedSet, overrides the seed scripts declare.
+	Seed    uint64
+	SeedSet bool
+	// Progress, if not nil, draws the progress of optimisations (make it
+	// only for a terminal); nil keeps them quiet.
+	Progress *Progress
+	// NoErrorEcho keeps cell failures off Stderr (the caller reports
+	// them itself); they are still returned in Cell.Err.
+	NoErrorEcho bool
+	// Recorder, if not nil, makes the recorder cell.Attach installs.
+	Recorder func(st *mdo.Study) (mdo.Recorder, error)
+	// Grace is how long a cancelled cell may take to come back (an
+	// optimiser returning its best point) before the interpreter is
+	// stopped; default 2 s.
+	Grace time.Duration
+}
+
+// Cell is one executed cell of a session.
+type Cell struct {
+	Number int
+	Source string
+	// Output is what the cell printed, followed by its shown value.
+	Output string
+	// Value is the value of the trailing expression, if one was shown.
+	Value any
+	// Err is nil when the cell ran to its end.
+	Err error
+	// Interrupted is set when the cell was cancelled but came back by
+	// itself (an optimiser returning its best point so far).
+	Interrupted bool
+	Elapsed     time.Duration
+}
+
+// Session is a notebook session: an interpreter and the cells run in it.
+// Exec and the commands must be called from one goroutine; Interrupt may
+// be called from any.
+type Session struct {
+	opts Options
+	env  *cell.Env
+	it   *interp.Interpreter
+
+	out    *cellWriter
+	errBuf *lockedBuffer
+
+	cells []*Cell
+	next  int
+
+	mu         sync.Mutex
+	running    bool
+	cellCtx    context.Context
+	cancelSoft context.CancelFunc
+	cancelHard context.CancelFunc
+	interrupts int
+}
+
+// NewSession starts a session with a fresh interpreter.
+func NewSession(opts Options) (*Session, error) {
+	if opts.Stdout == nil {
+		opts.Stdout = io.Discard
+	}
+	if opts.Stderr == nil {
+		opts.Stderr = io.Discard
+	}
+	if opts.Grace <= 0 {
+		opts.Grace = 2 * time.Second
+	}
+	s := &Session{opts: opts}
+	if err := s.reset(); err != nil {
+		return nil, err
+	}
+	return s, nil
+}
+
+// reset replaces the interpreter and forgets every cell.
+func (s *Session) reset() error {
+	s.out = &cellWriter{w: s.opts.Stdout}
+	s.errBuf = &lockedBuffer{}
+	s.env = cell.NewEnv(cell.Host{
+		Context:  s.currentContext,
+		Seed:     s.opts.Seed,
+		SeedSet:  s.opts.SeedSet,
+		OutDir:   s.opts.OutDir,
+		Progress: s.progressFor(),
+		Recorder: s.opts.Recorder,
+		Script:   s.Script,
+	})
+	it := interp.New(interp.Options{Stdout: s.out, Stderr: s.errBuf, Stdin: strings.NewReader("")})
+	if err := it.Use(symbols.Symbols); err != nil {
+		return fmt.Errorf("repl: loading the symbol tables: %w", err)
+	}
+	if s.opts.Policy.Trusted {
+		if err := it.Use(trusted.Symbols); err != nil {
+			return fmt.Errorf("repl: loading the trusted symbol tables: %w", err)
+		}
+	}
+	if err := it.Use(s.env.Exports()); err != nil {
+		return fmt.Errorf("repl: loading the cell package: %w", err)
+	}
+	s.it = it
+	s.cells = nil
+	s.next = 1
+	return nil
+}
+
+// progressFor is the progress factory handed to the cell package.
+func (s *Session) progressFor() func(string) func(mdo.Progress) {
+	if s.opts.Progress == nil {
+		return nil
+	}
+	return s.opts.Progress.For
+}
+
+// Env returns the session's cell environment (published results, seed).
+func (s *Session) Env() *cell.Env { return s.env }
+
+// Cells returns the cells run so far, in order.
+func (s *Session) Cells() []*Cell { return append([]*Cell(nil), s.cells...) }
+
+// NextNumber returns the number the next cell will get.
+func (s *Session) NextNumber() int { return s.next }
+
+// Script returns the source of the successful cells as a study file.
+func (s *Session) Script() string {
+	var srcs []string
+	for _, c := range s.cells {
+		if c.Err == nil {
+			srcs = append(srcs, c.Source)
+		}
+	}
+	return FormatStudy(srcs)
+}
+
+// currentContext is the context of the running cell.
+func (s *Session) currentContext() context.Context {
+	s.mu.Lock()
+	defer s.mu.Unlock()
+	if s.cellCtx == nil {
+		return context.Background()
+	}
+	return s.cellCtx
+}
+
+// Interrupt cancels the running cell: the first call cancels the cell's
+// context (optimisers return their best point so far) and stops the
+// interpreter if the cell has not come back after the grace period; a
+// second call stops it at once. It reports whether a cell was running.
+func (s *Session) Interrupt() bool {
+	s.mu.Lock()
+	defer s.mu.Unlock()
+	if !s.running {
+		return false
+	}
+	s.interrupts++
+	if s.interrupts == 1 {
+		s.cancelSoft()
+	} else {
+		s.cancelHard()
+	}
+	return true
+}
+
+// Exec runs one cell. Its output goes to the session's Stdout as it is
+// produced; a failure is reported on Stderr and returned in Cell.Err (a
+// *CellError or a *RefusedImportError). ctx bounds the cell: when it is
+// cancelled or its deadline passes, the cell is cancelled as by Interrupt.
+func (s *Session) Exec(ctx context.Context, src string) *Cell {
+	c := &Cell{Number: s.next, Source: strings.TrimRight(src, "\n")}
+	s.next++
+	start := time.Now()
+	c.Err = s.exec(ctx, c)
+	c.Elapsed = time.Since(start)
+	s.opts.Progress.Close()
+	c.Output = s.out.take()
+	s.cells = append(s.cells, c)
+	if c.Err != nil && !s.opts.NoErrorEcho {
+		fmt.Fprintln(s.opts.Stderr, c.Err)
+	}
+	return c
+}
+
+// exec splits, checks and runs the chunks of a cell.
+func (s *Session) exec(ctx context.Context, c *Cell) error {
+	chunks, imports, err := splitCell(c.Source)
+	if err != nil {
+		var le *lineError
+		if errors.As(err, &le) {
+			return &CellError{Cell: c.Number, Line: le.line, Kind: "syntax", Msg: le.msg, Err: err}
+		}
+		return &CellError{Cell: c.Number, Line: 1, Kind: "syntax", Msg: err.Error(), Err: err}
+	}
+	if err := s.opts.Policy.check(c.Number, imports); err != nil {
+		return err
+	}
+	soft, cancelSoft := context.WithCancel(ctx)
+	hard, cancelHard := context.WithCancel(context.Background())
+	var timer *time.Timer
+	var tmu sync.Mutex
+	stopWatch := context.AfterFunc(soft, func() {
+		tmu.Lock()
+		timer = time.AfterFunc(s.opts.Grace, cancelHard)
+		tmu.Unlock()
+	})
+	s.mu.Lock()
+	s.running, s.cellCtx, s.cancelSoft, s.cancelHard, s.interrupts = true, soft, cancelSoft, cancelHard, 0
+	s.mu.Unlock()
+	defer func() {
+		stopWatch()
+		tmu.Lock()
+		if timer != nil {
+			timer.Stop()
+		}
+		tmu.Unlock()
+		cancelHard()
+		cancelSoft()
+		s.mu.Lock()
+		s.running, s.cellCtx = false, nil
+		s.mu.Unlock()
+	}()
+	for _, ch := range chunks {
+		if hard.Err() != nil {
+			return s.stopped(ctx, c, ch.line)
+		}
+		s.errBuf.reset()
+		v, err := s.it.EvalWithContext(hard, ch.src)
+		trace := s.errBuf.take()
+		s.forwardStderr(trace)
+		if err != nil {
+			if hard.Err() != nil && (errors.Is(err, context.Canceled) || errors.Is(err, context.DeadlineExceeded)) {
+				return s.stopped(ctx, c, ch.line)
+			}
+			return s.cellError(c, ch, err, trace)
+		}
+		if ch.expr && !ch.quiet {
+			if text, val, ok := formatValue(v); ok {
+				c.Value = val
+				s.out.writeValue(text)
+			}
+		}
+	}
+	if soft.Err() != nil {
+		c.Interrupted = true
+		fmt.Fprintf(s.opts.Stderr, "cell %d was cancelled (%s) and returned what it had\n", c.Number, s.reason(ctx))
+	}
+	return nil
+}
+
+// stopped is the error of a cell stopped by the interpreter.
+func (s *Session) stopped(ctx context.Context, c *Cell, line int) error {
+	return &CellError{Cell: c.Number, Line: line, Kind: "stopped", Msg: s.reason(ctx)}
+}
+
+// reason tells why the running cell was cancelled.
+func (s *Session) reason(ctx context.Context) string {
+	s.mu.Lock()
+	n := s.interrupts
+	s.mu.Unlock()
+	switch {
+	case n > 0:
+		return "interrupted (Ctrl-C)"
+	case errors.Is(ctx.Err(), context.DeadlineExceeded):
+		return "time limit reached"
+	}
+	return "cancelled"
+}
+
+// posRE finds the line:column an interpreter error starts with.
+var posRE = regexp.MustCompile(`^(?:[^\s:]*\.go:)?(\d+):(\d+): `)
+
+// panicRE finds the frames the interpreter prints when a cell panics.
+var panicRE = regexp.MustCompile(`(?m)^(\d+):(\d+): panic: main\(\.\.\.\)$`)
+
+// cellError turns an interpreter error into a CellError on a cell line.
+func (s *Session) cellError(c *Cell, ch chunk, err error, trace string) error {
+	var p interp.Panic
+	if errors.As(err, &p) {
+		line := ch.line
+		// The outermost frame is the chunk itself; use its line when the
+		// interpreter placed it inside the chunk.
+		if m := panicRE.FindAllStringSubmatch(trace, -1); len(m) > 0 {
+			l, _ := strconv.Atoi(m[len(m)-1][1])
+			if l >= 1 && l <= strings.Count(ch.src, "\n")+1 {
+				line = ch.line + l - 1
+			}
+		}
+		return &CellError{Cell: c.Number, Line: line, Kind: "panic", Msg: fmt.Sprint(p.Value), Err: err}
+	}
+	msg := err.Error()
+	line := ch.line
+	if m := posRE.FindStringSubmatch(msg); m != nil {
+		l, _ := strconv.Atoi(m[1])
+		line = ch.line + l - 1
+		msg = msg[len(m[0]):]
+	}
+	msg = cleanMessage(msg)
+	return &CellError{Cell: c.Number, Line: line, Kind: "compile", Msg: msg, Err: err}
+}
+
+// cleanMessage rewords the interpreter messages that would mislead.
+func cleanMessage(msg string) string {
+	if strings.Contains(msg, "unable to find source related to") {
+		return "package not available to study scripts: " + msg[:strings.Index(msg, " error:")]
+	}
+	if msg == "constant definition loop" {
+		return "undefined name on this line (the interpreter reports it as a constant definition loop): check the spelling of the names used"
+	}
+	if strings.Contains(msg, "CFG post-order panic") {
+		return "the interpreter could not compile this statement (" + msg + ")"
+	}
+	return msg
+}
+
+// forwardStderr passes on what the interpreter wrote to its standard
+// error, less its own panic trace.
+func (s *Session) forwardStderr(trace string) {
+	if trace == "" {
+		return
+	}
+	var keep []string
+	for _, l := range strings.Split(strings.TrimRight(trace, "\n"), "\n") {
+		if strings.Contains(l, ": panic: ") && posRE.MatchString(l) {
+			continue
+		}
+		keep = append(keep, l)
+	}
+	if len(keep) > 0 {
+		fmt.Fprintln(s.opts.Stderr, strings.Join(keep, "\n"))
+	}
+}
+
+// Eval evaluates a Go expression in the session, for commands that take
+// one (the coupling of a system).
+func (s *Session) Eval(ctx context.Context, expr string) (any, error) {
+	v, err := s.it.EvalWithContext(ctx, expr)
+	if err != nil {
+		return nil, err
+	}
+	if !v.IsValid() || !v.CanInterface() {
+		return nil, fmt.Errorf("%s has no value", expr)
+	}
+	return v.Interface(), nil
+}
+
+// Globals returns the names of the session's variables and constants.
+func (s *Session) Globals() map[string]reflect.Value { return s.it.Globals() }
+
+// cellWriter passes output through and keeps a copy of the running cell's.
+type cellWriter struct {
+	mu  sync.Mutex
+	w   io.Writer
+	buf bytes.Buffer
+	// bol is true at the beginning of a line.
+	nl bool
+}
+
+func (c *cellWriter) Write(p []byte) (int, error) {
+	c.mu.Lock()
+	defer c.mu.Unlock()
+	c.buf.Write(p)
+	if len(p) > 0 {
+		c.nl = p[len(p)-1] == '\n'
+	}
+	return c.w.Write(p)
+}
+
+// writeValue shows a value on a line of its own.
+func (c *cellWriter) writeValue(text string) {
+	c.mu.Lock()
+	pre := ""
+	if c.buf.Len() > 0 && !c.nl {
+		pre = "\n"
+	}
+	c.mu.Unlock()
+	if !strings.HasSuffix(text, "\n") {
+		text += "\n"
+	}
+	io.WriteString(c, pre+text)
+}
+
+// take returns and clears the copy.
+func (c *cellWriter) take() string {
+	c.mu.Lock()
+	defer c.mu.Unlock()
+	s := c.buf.String()
+	c.buf.Reset()
+	c.nl = false
+	return s
+}
+
+// lockedBuffer is a buffer safe for the interpreter's goroutines.
+type lockedBuffer struct {
+	mu  sync.Mutex
+	buf bytes.Buffer
+}
+
+func (b *lockedBuffer) Write(p []byte) (int, error) {
+	b.mu.Lock()
+	defer b.mu.Unlock()
+	return b.buf.Write(p)
+}
+
+func (b *lockedBuffer) reset() {
+	b.mu.Lock()
+	b.buf.Reset()
+	b.mu.Unlock()
+}
+
+func (b *lockedBuffer) take() string {
+	b.mu.Lock()
+	defer b.mu.Unlock()
+	s := b.buf.String()
+	b.buf.Reset()
+	return s
+}

@@ -1,0 +1,144 @@
+package repl
+
+import (
+	"fmt"
+	"os"
+	"strings"
+)
+
+// A study file is plain text: a header line naming the format and the
+// tool version, then Go cells, each opened by a marker line:
+//
+//	//~ couplet-study 1 (couplet 0.1.0)
+//
+//	//~ cell 1
+//	import "couplet/mdo"
+//	sys, err := mdo.NewSystem(mdo.Sellar()...)
+//
+//	//~ cell 2
+//	sys
+//
+// Both are Go line comments, so the file reads as Go and diffs cleanly.
+// The number after "cell" is for the reader and ignored when loading. A
+// file with no marker is a single cell; blank lines around cells are
+// dropped.
+const (
+	// HeaderPrefix opens the header line of a study file.
+	HeaderPrefix = "//~ couplet-study"
+	// CellMarker opens the marker line of each cell.
+	CellMarker = "//~ cell"
+	// FormatVersion is the version of the study file format.
+	FormatVersion = 1
+)
+
+// StudyFile is a parsed study file.
+type StudyFile struct {
+	// Header is the header line ("" when the file has none).
+	Header string
+	Cells  []StudyCell
+}
+
+// StudyCell is one cell of a study file.
+type StudyCell struct {
+	Source string
+	// Line is the line of the file on which the cell's source starts.
+	Line int
+}
+
+// Sources returns the cells' source texts.
+func (f *StudyFile) Sources() []string {
+	out := make([]string, len(f.Cells))
+	for i, c := range f.Cells {
+		out[i] = c.Source
+	}
+	return out
+}
+
+// ParseStudy parses the text of a study file.
+func ParseStudy(text string) (*StudyFile, error) {
+	text = strings.ReplaceAll(text, "\r\n", "\n")
+	lines := strings.Split(text, "\n")
+	f := &StudyFile{}
+	startLine := 1
+	if len(lines) > 0 && strings.HasPrefix(lines[0], HeaderPrefix) {
+		f.Header = lines[0]
+		lines = lines[1:]
+		startLine = 2
+	}
+	var cur []string
+	curStart := startLine
+	flush := func() {
+		// Drop blank lines around the cell.
+		lo, hi := 0, len(cur)
+		for lo < hi && strings.TrimSpace(cur[lo]) == "" {
+			lo++
+		}
+		for hi > lo && strings.TrimSpace(cur[hi-1]) == "" {
+			hi--
+		}
+		if lo < hi {
+			f.Cells = append(f.Cells, StudyCell{Source: strings.Join(cur[lo:hi], "\n"), Line: curStart + lo})
+		}
+		cur = nil
+	}
+	for i, l := range lines {
+		if isMarker(l) {
+			flush()
+			curStart = startLine + i + 1
+			continue
+		}
+		cur = append(cur, l)
+	}
+	flush()
+	if len(f.Cells) == 0 {
+		return nil, fmt.Errorf("repl: the study file has no code")
+	}
+	return f, nil
+}
+
+// isMarker reports a cell marker line.
+func isMarker(l string) bool {
+	l = strings.TrimRight(l, " \t")
+	if !strings.HasPrefix(l, CellMarker) {
+		return false
+	}
+	rest := l[len(CellMarker):]
+	return rest == "" || rest[0] == ' ' || rest[0] == '\t'
+}
+
+// ReadStudy reads and parses a study file.
+func ReadStudy(path string) (*StudyFile, error) {
+	b, err := os.ReadFile(path)
+	if err != nil {
+		return nil, fmt.Errorf("repl: reading study file: %w", err)
+	}
+	f, err := ParseStudy(string(b))
+	if err != nil {
+		return nil, fmt.Errorf("repl: %s: %w", path, err)
+	}
+	return f, nil
+}
+
+// Header returns the header line written by this version of the tool.
+func Header() string {
+	return fmt.Sprintf("%s %d (couplet %s)", HeaderPrefix, FormatVersion, Version)
+}
+
+// FormatStudy returns the text of a study file holding the cells.
+func FormatStudy(cells []string) string {
+	var b strings.Builder
+	b.WriteString(Header())
+	b.WriteString("\n")
+	for i, c := range cells {
+		fmt.Fprintf(&b, "\n%s %d\n%s\n", CellMarker, i+1, strings.Trim(c, "\n"))
+	}
+	return b.String()
+}
+
+// WriteStudy writes the cells as a study file.
+func WriteStudy(path string, cells []string) error {
+	if err := os.WriteFile(path, []byte(FormatStudy(cells)), 0o644); err != nil {
+		return fmt.Errorf("repl: writing study file: %w", err)
+	}
+	return nil
+}
