@@ -1,0 +1,122 @@
+package optimizers
+
+import (
+	"context"
+	"fmt"
+	"math"
+	"math/rand/v2"
+
+	"gonum.org/v1/gonum/mat"
+	"gonum.org/v1/gonum/optimize"
+
+	"couplet/mdo"
+)
+
+// CMAES is the covariance matrix adaptation evolution strategy of gonum's
+// optimize package (CmaEsChol), on the unit box folded by
+// x = (1 − cos(π u))/2, with the constraints handled by Penalty
+// (augmented Lagrangian by default). Each generation is evaluated as one
+// batch on the study's workers; each outer iteration restarts the strategy
+// from the best point so far with a smaller step. Its random numbers come
+// from the study's seed. It refuses integer design variables and several
+// objectives. Zero values take the defaults.
+type CMAES struct {
+	// MaxEvaluations caps the evaluations of the whole run; default 20000.
+	MaxEvaluations int
+	// Population is the number of samples per generation, evaluated as
+	// one batch; default max(4 + ⌊3 ln n⌋, 4 (n + 1)) for n variables
+	// (gonum's default, 4 + ⌊3 ln n⌋, is slow on curved valleys).
+	Population int
+	// StepSize is the initial standard deviation in the folded
+	// coordinates (1 spans the box); default 0.3, divided by 3 at each
+	// outer iteration down to a tenth.
+	StepSize float64
+	// Tolerance ends an inner search when the best merit has not
+	// improved by more than Tolerance·max(|merit|, 1) over
+	// StallGenerations generations; default 1e-9.
+	Tolerance float64
+	// StallGenerations; default 100 (gonum's CMA-ES can rest on a
+	// plateau of its best value for tens of generations before it
+	// descends again).
+	StallGenerations int
+	// Penalty sets the constraint handling.
+	Penalty Penalty
+}
+
+// Name implements Optimizer.
+func (CMAES) Name() string { return "CMA-ES" }
+
+// validate checks the settings.
+func (o CMAES) validate() error {
+	const m = "CMAES"
+	if err := checkInt(m, "MaxEvaluations", o.MaxEvaluations, 1); err != nil {
+		return err
+	}
+	if err := checkInt(m, "Population", o.Population, 2); err != nil {
+		return err
+	}
+	if err := checkRange(m, "StepSize", o.StepSize, 0, 10, true); err != nil {
+		return err
+	}
+	if err := checkRange(m, "Tolerance", o.Tolerance, 0, 1, true); err != nil {
+		return err
+	}
+	if err := checkInt(m, "StallGenerations", o.StallGenerations, 1); err != nil {
+		return err
+	}
+	return o.Penalty.validate(m)
+}
+
+// Minimize implements Optimizer.
+func (o CMAES) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error) {
+	if err := o.validate(); err != nil {
+		return nil, err
+	}
+	r, err := begin(ctx, s, o.Name(), o)
+	if err != nil {
+		return nil, err
+	}
+	if err := r.refuseIntegers(); err != nil {
+		return nil, err
+	}
+	if err := r.refuseMultiObjective(); err != nil {
+		return nil, err
+	}
+	r.maxEvals = or(o.MaxEvaluations, 20000)
+	dim := r.ev.Dim()
+	pop := o.Population
+	if pop == 0 {
+		pop = max(4+int(3*math.Log(float64(dim))), 4*(dim+1))
+	}
+	tol := or(o.Tolerance, 1e-9)
+	stall := or(o.StallGenerations, 100)
+	step := or(o.StepSize, 0.3)
+	seed := r.ev.Seed()
+	inner := func(x0 []float64, m *merit, outer int) (*mdo.Evaluation, string, error) {
+		sigma := math.Max(step*math.Pow(1.0/3, float64(outer)), step/10)
+		// gonum samples from N(mean, C) with C the Cholesky factor's
+		// matrix, I by default; the step enters through C = σ² I.
+		var chol mat.Cholesky
+		if !chol.Factorize(mat.NewDiagDense(dim, fill(dim, sigma*sigma))) {
+			return nil, "", fmt.Errorf("optimizers: CMAES: step %g gives no covariance", sigma)
+		}
+		cma := &optimize.CmaEsChol{
+			InitStepSize: sigma,
+			InitCholesky: &chol,
+			Population:   pop,
+			Src:          rand.NewPCG(seed, mix(seed, uint64(outer)+1000)),
+		}
+		return gonumInner(r, cma, pop, x0, m, tol, stall)
+	}
+	stop, err := outerLoop(r, o.Penalty, r.ev.Start(), inner)
+	return r.finish(stop, err)
+}
+
+// fill returns n copies of v.
+func fill(n int, v float64) []float64 {
+	out := make([]float64, n)
+	for i := range out {
+		out[i] = v
+	}
+	return out
+}

@@ -1,0 +1,119 @@
+package optimizers
+
+import (
+	"context"
+	"math"
+
+	"gonum.org/v1/gonum/optimize"
+
+	"couplet/mdo"
+)
+
+// NelderMead is the Nelder–Mead simplex method of gonum's optimize
+// package, on the unit box folded by x = (1 − cos(π u))/2, with the
+// constraints handled by Penalty (augmented Lagrangian by default). Each
+// outer iteration restarts the simplex from the best point so far. It
+// starts from the study's baseline design (fixed values, else defaults)
+// and refuses integer design variables and several objectives. Zero
+// values take the defaults.
+type NelderMead struct {
+	// MaxEvaluations caps the evaluations of the whole run; default 5000.
+	MaxEvaluations int
+	// SimplexSize is the edge of the initial simplex in the folded
+	// coordinates (1 spans the box); default 0.05, halved at each outer
+	// iteration down to a tenth.
+	SimplexSize float64
+	// Tolerance ends an inner search when the best merit has not
+	// improved by more than Tolerance·max(|merit|, 1) over
+	// StallIterations iterations; default 1e-9.
+	Tolerance float64
+	// StallIterations; default 30·(number of variables).
+	StallIterations int
+	// Penalty sets the constraint handling.
+	Penalty Penalty
+}
+
+// Name implements Optimizer.
+func (NelderMead) Name() string { return "Nelder-Mead" }
+
+// validate checks the settings.
+func (o NelderMead) validate() error {
+	const m = "NelderMead"
+	if err := checkInt(m, "MaxEvaluations", o.MaxEvaluations, 1); err != nil {
+		return err
+	}
+	if err := checkRange(m, "SimplexSize", o.SimplexSize, 0, 1, true); err != nil {
+		return err
+	}
+	if err := checkRange(m, "Tolerance", o.Tolerance, 0, 1, true); err != nil {
+		return err
+	}
+	if err := checkInt(m, "StallIterations", o.StallIterations, 1); err != nil {
+		return err
+	}
+	return o.Penalty.validate(m)
+}
+
+// Minimize implements Optimizer.
+func (o NelderMead) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error) {
+	if err := o.validate(); err != nil {
+		return nil, err
+	}
+	r, err := begin(ctx, s, o.Name(), o)
+	if err != nil {
+		return nil, err
+	}
+	if err := r.refuseIntegers(); err != nil {
+		return nil, err
+	}
+	if err := r.refuseMultiObjective(); err != nil {
+		return nil, err
+	}
+	r.maxEvals = or(o.MaxEvaluations, 5000)
+	dim := r.ev.Dim()
+	tol := or(o.Tolerance, 1e-9)
+	stall := or(o.StallIterations, 30*dim)
+	size := or(o.SimplexSize, 0.05)
+	inner := func(x0 []float64, m *merit, outer int) (*mdo.Evaluation, string, error) {
+		s := math.Max(size*math.Pow(0.5, float64(outer)), size/10)
+		return gonumInner(r, &optimize.NelderMead{SimplexSize: s}, 1, x0, m, tol, stall)
+	}
+	stop, err := outerLoop(r, o.Penalty, r.ev.Start(), inner)
+	return r.finish(stop, err)
+}
+
+// gonumInner runs one inner minimisation of the merit with a gonum method
+// from the box point x0, and returns the best evaluation by merit.
+func gonumInner(r *run, method optimize.Method, tasks int, x0 []float64, m *merit, tol float64, stall int) (*mdo.Evaluation, string, error) {
+	var best *mdo.Evaluation
+	bestV := math.Inf(1)
+	eval := func(us [][]float64) ([]float64, string, error) {
+		xs := make([][]float64, len(us))
+		for i, u := range us {
+			xs[i] = boxPoint(u)
+		}
+		evs, stop, err := r.evaluate(xs)
+		if stop != "" || err != nil {
+			return nil, stop, err
+		}
+		fs := make([]float64, len(evs))
+		for i, ev := range evs {
+			fs[i] = m.value(ev)
+			if fs[i] < bestV {
+				bestV, best = fs[i], ev
+			}
+		}
+		return fs, "", nil
+	}
+	conv := &optimize.FunctionConverge{Absolute: tol, Relative: tol, Iterations: stall}
+	conv.Init(len(x0))
+	major := func(loc *optimize.Location) string {
+		r.iteration()
+		if conv.Converged(loc) != optimize.NotTerminated {
+			return StopConverged
+		}
+		return ""
+	}
+	stop, err := drive(method, unboxPoint(x0), tasks, eval, major)
+	return best, stop, err
+}
