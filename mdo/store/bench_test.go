@@ -1,0 +1,158 @@
+package store
+
+import (
+	"fmt"
+	"os"
+	"path/filepath"
+	"runtime"
+	"strconv"
+	"strings"
+	"testing"
+	"time"
+
+	"couplet/mdo"
+)
+
+var nOut = 24
+
+// syntheticRun describes a run shaped like a small aircraft study: 6
+// design variables, 1 objective, 4 constraints, 24 outputs.
+func syntheticRun() mdo.RunInfo {
+	info := mdo.RunInfo{Study: "bench", Script: "// bench", Optimizer: "synthetic", Seed: 1, Started: time.Now()}
+	for k := 0; k < 6; k++ {
+		info.Design = append(info.Design, mdo.DesignSpec{Name: fmt.Sprintf("wing.x%d", k), Unit: "m", Lower: 0, Upper: 10})
+	}
+	info.Objectives = []string{"mass.takeoff"}
+	for k := 0; k < 4; k++ {
+		info.Constraints = append(info.Constraints, fmt.Sprintf("perf.c%d", k))
+	}
+	for k := 0; k < nOut; k++ {
+		info.Outputs = append(info.Outputs, mdo.Var{Name: fmt.Sprintf("out.v%d", k), Unit: "kg"})
+	}
+	return info
+}
+
+// syntheticEval fills an evaluation of syntheticRun with id i.
+func syntheticEval(e *mdo.Evaluation, i int) {
+	if e.X == nil {
+		e.X, e.Design = make([]float64, 6), make([]float64, 6)
+		e.Objectives, e.F = make([]float64, 1), make([]float64, 1)
+		e.Constraints, e.Margins, e.G = make([]float64, 4), make([]float64, 4), make([]float64, 4)
+		e.Outputs = make([]float64, nOut)
+	}
+	e.ID = i
+	f := float64(i)
+	for k := range e.X {
+		e.X[k] = 1 / (f + float64(k) + 1.5)
+		e.Design[k] = 10 * e.X[k]
+	}
+	e.Objectives[0], e.F[0] = 21000+f/7, 21000+f/7
+	for k := range e.G {
+		e.Constraints[k] = f / 3
+		e.Margins[k] = 1 - f/13
+		e.G[k] = f/13 - 1
+	}
+	for k := range e.Outputs {
+		e.Outputs[k] = f*0.1 + float64(k)/3
+	}
+	e.Feasible, e.Converged = i%3 != 0, true
+	e.Iterations, e.DisciplineCalls, e.Wall = 9, 27, 12345*time.Nanosecond
+}
+
+// BenchmarkRecord measures the amortised cost of recording one
+// evaluation (batches of 256 committed in WAL mode).
+func BenchmarkRecord(b *testing.B) {
+	if v := os.Getenv("NOUT"); v != "" {
+		nOut, _ = strconv.Atoi(v)
+	}
+	path := filepath.Join(b.TempDir(), "bench.db")
+	s, err := Create(path, Options{ToolVersion: "bench"})
+	if err != nil {
+		b.Fatal(err)
+	}
+	defer s.Close()
+	if err := s.Begin(syntheticRun()); err != nil {
+		b.Fatal(err)
+	}
+	evs := make([]mdo.Evaluation, 512)
+	b.ReportAllocs()
+	b.ResetTimer()
+	for i := 0; i < b.N; i++ {
+		e := &evs[i%len(evs)]
+		syntheticEval(e, i)
+		if err := s.Record(e); err != nil {
+			b.Fatal(err)
+		}
+	}
+	if err := s.Flush(); err != nil {
+		b.Fatal(err)
+	}
+}
+
+// BenchmarkRecordMillion records a million evaluations and reports the
+// peak heap and the peak resident set size as metrics.
+func BenchmarkRecordMillion(b *testing.B) {
+	const n = 1_000_000
+	for it := 0; it < b.N; it++ {
+		path := filepath.Join(b.TempDir(), "million.db")
+		s, err := Create(path, Options{ToolVersion: "bench"})
+		if err != nil {
+			b.Fatal(err)
+		}
+		if err := s.Begin(syntheticRun()); err != nil {
+			b.Fatal(err)
+		}
+		evs := make([]mdo.Evaluation, 512)
+		var ms runtime.MemStats
+		peakHeap := uint64(0)
+		start := time.Now()
+		for i := 0; i < n; i++ {
+			e := &evs[i%len(evs)]
+			syntheticEval(e, i)
+			if err := s.Record(e); err != nil {
+				b.Fatal(err)
+			}
+			if i%50000 == 0 {
+				runtime.ReadMemStats(&ms)
+				peakHeap = max(peakHeap, ms.HeapInuse)
+			}
+		}
+		if err := s.End(nil); err != nil {
+			b.Fatal(err)
+		}
+		el := time.Since(start)
+		if s.Rows() != n {
+			b.Fatalf("rows = %d, want %d", s.Rows(), n)
+		}
+		s.Close()
+		runtime.ReadMemStats(&ms)
+		peakHeap = max(peakHeap, ms.HeapInuse)
+		b.ReportMetric(float64(peakHeap)/(1<<20), "peak-heap-MB")
+		b.ReportMetric(float64(ms.Sys)/(1<<20), "go-sys-MB")
+		if hwm, ok := peakRSS(); ok {
+			b.ReportMetric(hwm/(1<<20), "peak-RSS-MB")
+		}
+		b.ReportMetric(float64(el.Nanoseconds())/n, "ns/eval")
+		if st, err := os.Stat(path); err == nil {
+			b.ReportMetric(float64(st.Size())/(1<<20), "file-MB")
+		}
+	}
+}
+
+// peakRSS reads VmHWM (peak resident set) from /proc/self/status.
+func peakRSS() (float64, bool) {
+	b, err := os.ReadFile("/proc/self/status")
+	if err != nil {
+		return 0, false
+	}
+	for _, line := range strings.Split(string(b), "\n") {
+		if strings.HasPrefix(line, "VmHWM:") {
+			f := strings.Fields(line)
+			if len(f) >= 2 {
+				kb, err := strconv.ParseFloat(f[1], 64)
+				return kb * 1024, err == nil
+			}
+		}
+	}
+	return 0, false
+}

@@ -1,0 +1,158 @@
+package store
+
+import (
+	"context"
+	"database/sql"
+	"fmt"
+	"math"
+	"time"
+
+	"couplet/mdo"
+)
+
+// Evaluations returns every recorded evaluation in ID order, ready for
+// mdo.Evaluator.Restore. A store in which no run has begun has none.
+func (s *Store) Evaluations() ([]*mdo.Evaluation, error) {
+	var out []*mdo.Evaluation
+	err := s.Scan(func(e *mdo.Evaluation) error {
+		out = append(out, e)
+		return nil
+	})
+	return out, err
+}
+
+// Scan calls fn with each recorded evaluation in ID order, streaming from
+// the file (for exports of large runs). fn may keep the evaluation.
+func (s *Store) Scan(fn func(*mdo.Evaluation) error) error {
+	if s.db == nil {
+		return fmt.Errorf("store: %s is closed", s.path)
+	}
+	if s.lay == nil {
+		return nil
+	}
+	if !s.readOnly && s.began {
+		if err := s.flush(); err != nil {
+			return err
+		}
+	}
+	l := s.lay
+	cols := l.columns()
+	quoted := ""
+	for i, c := range cols {
+		if i > 0 {
+			quoted += ", "
+		}
+		quoted += quote(c)
+	}
+	rows, err := s.conn.QueryContext(context.Background(), "SELECT "+quoted+" FROM evaluations ORDER BY id")
+	if err != nil {
+		return fmt.Errorf("store: reading the evaluations of %s: %w", s.path, err)
+	}
+	defer rows.Close()
+	nd, no, nc := len(l.design), len(l.objectives), len(l.constraints)
+	nf := nd + no + 2*nc
+	var (
+		id, iters, calls    int64
+		feasible, converged bool
+		viol                sql.NullFloat64
+		errText             string
+		wall                float64
+		outputs             string
+		vectors             []byte
+	)
+	floats := make([]sql.NullFloat64, nf)
+	dest := []any{&id, &feasible, &converged, &viol, &errText, &iters, &calls, &wall}
+	for k := range floats {
+		dest = append(dest, &floats[k])
+	}
+	dest = append(dest, &outputs, &vectors)
+	for rows.Next() {
+		if err := rows.Scan(dest...); err != nil {
+			return fmt.Errorf("store: reading the evaluations of %s: %w", s.path, err)
+		}
+		e := &mdo.Evaluation{
+			ID: int(id), Feasible: feasible, Converged: converged, Violation: nullNaN(viol), Err: errText,
+			Iterations: int(iters), DisciplineCalls: int(calls), Wall: time.Duration(math.Round(wall * 1e9)),
+		}
+		vals := make([]float64, nf)
+		for k, f := range floats {
+			vals[k] = nullNaN(f)
+		}
+		e.Design, vals = vals[:nd:nd], vals[nd:]
+		e.Objectives, vals = vals[:no:no], vals[no:]
+		e.Constraints, vals = vals[:nc:nc], vals[nc:]
+		e.Margins = vals[:nc:nc]
+		off := 0
+		if e.X, off, err = readFloats(vectors, off, nd); err == nil {
+			if e.F, off, err = readFloats(vectors, off, no); err == nil {
+				e.G, _, err = readFloats(vectors, off, nc)
+			}
+		}
+		if err != nil {
+			return fmt.Errorf("store: %s: evaluation %d: %v: %w", s.path, id, err, ErrDamaged)
+		}
+		if e.Outputs, err = parseOutputs(outputs, l.outIndex, len(l.outputs)); err != nil {
+			return fmt.Errorf("store: %s: evaluation %d: %v: %w", s.path, id, err, ErrDamaged)
+		}
+		if err := fn(e); err != nil {
+			return err
+		}
+	}
+	if err := rows.Err(); err != nil {
+		return fmt.Errorf("store: reading the evaluations of %s: %w", s.path, err)
+	}
+	return nil
+}
+
+// nullNaN maps SQL NULL to NaN.
+func nullNaN(f sql.NullFloat64) float64 {
+	if !f.Valid {
+		return math.NaN()
+	}
+	return f.Float64
+}
+
+// Columns describes what each evaluation of the stored run holds.
+type Columns struct {
+	Design      []mdo.DesignSpec
+	Objectives  []string
+	Constraints []string
+	Outputs     []mdo.Var
+}
+
+// Columns returns the stored run's design variables, objectives,
+// constraints and outputs (empty before Begin).
+func (s *Store) Columns() Columns {
+	if s.lay == nil {
+		return Columns{}
+	}
+	return Columns{Design: s.lay.design, Objectives: s.lay.objectives, Constraints: s.lay.constraints, Outputs: s.lay.outputs}
+}
+
+// Iterations returns the recorded optimiser iterations in order.
+func (s *Store) Iterations() ([]mdo.Progress, error) {
+	if s.db == nil {
+		return nil, fmt.Errorf("store: %s is closed", s.path)
+	}
+	if !s.readOnly && s.began {
+		if err := s.flush(); err != nil {
+			return nil, err
+		}
+	}
+	rows, err := s.conn.QueryContext(context.Background(), `SELECT optimizer, iteration, evaluations, best, feasible, violation FROM iterations ORDER BY n`)
+	if err != nil {
+		return nil, fmt.Errorf("store: reading the iterations of %s: %w", s.path, err)
+	}
+	defer rows.Close()
+	var out []mdo.Progress
+	for rows.Next() {
+		var p mdo.Progress
+		var best, viol sql.NullFloat64
+		if err := rows.Scan(&p.Optimizer, &p.Iteration, &p.Evaluations, &best, &p.Feasible, &viol); err != nil {
+			return nil, fmt.Errorf("store: reading the iterations of %s: %w", s.path, err)
+		}
+		p.Best, p.Violation = nullNaN(best), nullNaN(viol)
+		out = append(out, p)
+	}
+	return out, rows.Err()
+}

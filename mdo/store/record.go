@@ -1,0 +1,466 @@
+package store
+
+import (
+	"context"
+	"database/sql/driver"
+	"encoding/json"
+	"fmt"
+	"math"
+	"strconv"
+	"time"
+
+	"couplet/mdo"
+)
+
+// maxVariables bounds the parameters of one INSERT (SQLite's default
+// SQLITE_MAX_VARIABLE_NUMBER is 32766).
+const maxVariables = 32000
+
+// maxBatchRows bounds the rows of one multi-row INSERT.
+const maxBatchRows = 64
+
+// Begin starts the run: on a new store it writes the provenance and the
+// variables and creates the evaluations table; on a resumed store it
+// checks that the script, seed and variables are those of the stored run
+// and opens a new session.
+func (s *Store) Begin(info mdo.RunInfo) error {
+	if err := s.usable(); err != nil {
+		return err
+	}
+	if s.began {
+		return fmt.Errorf("store: %s: Begin called twice; one store holds one run", s.path)
+	}
+	ctx := context.Background()
+	lay := newLayout(info.Design, info.Objectives, info.Constraints, info.Outputs)
+	resumed := s.meta != nil
+	if resumed {
+		if err := s.Check(info.Script, info.Seed); err != nil {
+			return err
+		}
+		if err := sameLayout(s.lay, lay); err != nil {
+			return fmt.Errorf("store: %s: %w", s.path, err)
+		}
+	}
+	started := info.Started
+	if started.IsZero() {
+		started = time.Now()
+	}
+	now := time.Now().UTC().Format(time.RFC3339Nano)
+	err := s.inTx(func() error {
+		if !resumed {
+			settings, err := json.Marshal(nonNil(info.Settings))
+			if err != nil {
+				return err
+			}
+			if _, err := s.conn.ExecContext(ctx, `INSERT INTO run (id, study, script, script_sha256, tool_version, go_version, seed, optimizer, formulation, settings, started)
+				VALUES (1, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
+				info.Study, info.Script, ScriptHash(info.Script), s.opt.ToolVersion, goVersion(), strconv.FormatUint(info.Seed, 10),
+				info.Optimizer, info.Formulation.String(), string(settings), started.UTC().Format(time.RFC3339Nano)); err != nil {
+				return err
+			}
+			if err := writeVariables(ctx, s, lay, info.Outputs); err != nil {
+				return err
+			}
+			if _, err := s.conn.ExecContext(ctx, lay.createEvaluations()); err != nil {
+				return err
+			}
+		}
+		res, err := s.conn.ExecContext(ctx, `INSERT INTO sessions (started, tool_version, go_version, resumed_rows) VALUES (?, ?, ?, ?)`,
+			now, s.opt.ToolVersion, goVersion(), s.rows)
+		if err != nil {
+			return err
+		}
+		id, err := res.LastInsertId()
+		s.session = int(id)
+		return err
+	})
+	if err != nil {
+		return fmt.Errorf("store: %s: beginning the run: %w", s.path, err)
+	}
+	if !resumed {
+		s.meta = &RunMeta{Study: info.Study, Script: info.Script, ScriptSHA256: ScriptHash(info.Script), ToolVersion: s.opt.ToolVersion,
+			GoVersion: goVersion(), Seed: info.Seed, Optimizer: info.Optimizer, Formulation: info.Formulation.String(),
+			Settings: nonNil(info.Settings), Started: started}
+	}
+	s.lay = lay
+	if err := s.prepare(); err != nil {
+		return err
+	}
+	s.began = true
+	s.lastFlush = time.Now()
+	return nil
+}
+
+// usable refuses writes on a closed, read-only or failed store.
+func (s *Store) usable() error {
+	switch {
+	case s.db == nil:
+		return fmt.Errorf("store: %s is closed", s.path)
+	case s.readOnly:
+		return fmt.Errorf("store: %s was opened read-only (use Resume to append)", s.path)
+	}
+	return s.err
+}
+
+// nonNil returns m or an empty map.
+func nonNil(m map[string]string) map[string]string {
+	if m == nil {
+		return map[string]string{}
+	}
+	return m
+}
+
+// sameLayout refuses a resumed run whose variables differ from the stored ones.
+func sameLayout(stored, now *layout) error {
+	if len(stored.design) != len(now.design) {
+		return fmt.Errorf("the stored run has %d design variables, this run %d", len(stored.design), len(now.design))
+	}
+	for k := range stored.design {
+		if stored.design[k].Name != now.design[k].Name || stored.design[k].Lower != now.design[k].Lower || stored.design[k].Upper != now.design[k].Upper {
+			return fmt.Errorf("design variable %d is %s in [%g, %g] in the stored run but %s in [%g, %g] now", k,
+				stored.design[k].Name, stored.design[k].Lower, stored.design[k].Upper, now.design[k].Name, now.design[k].Lower, now.design[k].Upper)
+		}
+	}
+	eq := func(what string, a, b []string) error {
+		if len(a) != len(b) {
+			return fmt.Errorf("the stored run has %d %s, this run %d", len(a), what, len(b))
+		}
+		for k := range a {
+			if a[k] != b[k] {
+				return fmt.Errorf("%s %d is %q in the stored run but %q now", what, k, a[k], b[k])
+			}
+		}
+		return nil
+	}
+	if err := eq("objectives", stored.objectives, now.objectives); err != nil {
+		return err
+	}
+	if err := eq("constraints", stored.constraints, now.constraints); err != nil {
+		return err
+	}
+	a := make([]string, len(stored.outputs))
+	b := make([]string, len(now.outputs))
+	for i, v := range stored.outputs {
+		a[i] = v.Name
+	}
+	for i, v := range now.outputs {
+		b[i] = v.Name
+	}
+	return eq("outputs", a, b)
+}
+
+// writeVariables fills the variables table.
+func writeVariables(ctx context.Context, s *Store, lay *layout, outputs []mdo.Var) error {
+	const q = `INSERT INTO variables (role, position, name, unit, description, lower, upper, is_integer, column_name) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)`
+	unitOf := map[string]string{}
+	for _, v := range outputs {
+		unitOf[v.Name] = v.Unit
+	}
+	for k, d := range lay.design {
+		if _, err := s.conn.ExecContext(ctx, q, "design", k, d.Name, d.Unit, "", d.Lower, d.Upper, d.Integer, lay.designCols[k]); err != nil {
+			return err
+		}
+	}
+	for k, o := range lay.objectives {
+		if _, err := s.conn.ExecContext(ctx, q, "objective", k, o, unitOf[o], "", nil, nil, false, lay.objCols[k]); err != nil {
+			return err
+		}
+	}
+	for k, c := range lay.constraints {
+		if _, err := s.conn.ExecContext(ctx, q, "constraint", k, c, unitOf[c], "", nil, nil, false, lay.consCols[k]); err != nil {
+			return err
+		}
+	}
+	for k, v := range outputs {
+		var lo, hi any
+		if !v.Unbounded() {
+			lo, hi = v.Min, v.Max
+		}
+		if _, err := s.conn.ExecContext(ctx, q, "output", k, v.Name, v.Unit, v.Description, lo, hi, false, nil); err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
+// prepare prepares the insert statements of the layout.
+func (s *Store) prepare() error {
+	ctx := context.Background()
+	ncols := len(s.lay.columns())
+	s.batchRows = min(maxBatchRows, s.opt.BatchSize, maxVariables/ncols)
+	err := s.conn.Raw(func(dc any) error {
+		pc, ok := dc.(driver.ConnPrepareContext)
+		if !ok {
+			return fmt.Errorf("the SQLite driver cannot prepare statements with a context")
+		}
+		prep := func(q string) (driver.StmtExecContext, error) {
+			st, err := pc.PrepareContext(ctx, q)
+			if err != nil {
+				return nil, err
+			}
+			s.stmts = append(s.stmts, st)
+			ex, ok := st.(driver.StmtExecContext)
+			if !ok {
+				return nil, fmt.Errorf("the SQLite driver cannot execute statements with a context")
+			}
+			return ex, nil
+		}
+		var err error
+		if s.batchRows > 1 {
+			if s.stmtBatch, err = prep(s.lay.insertSQL(s.batchRows)); err != nil {
+				return err
+			}
+		}
+		if s.stmtOne, err = prep(s.lay.insertSQL(1)); err != nil {
+			return err
+		}
+		s.stmtIt, err = prep(`INSERT INTO iterations (session, optimizer, iteration, evaluations, best, feasible, violation, at) VALUES (?, ?, ?, ?, ?, ?, ?, ?)`)
+		return err
+	})
+	if err != nil {
+		return fmt.Errorf("store: %s: preparing the inserts: %w", s.path, err)
+	}
+	return nil
+}
+
+// Record queues one evaluation and commits the batch when it is full or
+// the flush interval has passed. The evaluation is kept by reference
+// until it is committed (mdo's evaluations are not modified after they
+// are recorded).
+func (s *Store) Record(e *mdo.Evaluation) error {
+	if err := s.usable(); err != nil {
+		return err
+	}
+	if !s.began {
+		return fmt.Errorf("store: %s: Record before Begin", s.path)
+	}
+	if e == nil {
+		return fmt.Errorf("store: %s: Record(nil)", s.path)
+	}
+	if err := s.lay.fits(e); err != nil {
+		return fmt.Errorf("store: %s: evaluation %d: %w", s.path, e.ID, err)
+	}
+	s.pending = append(s.pending, e)
+	if len(s.pending) >= s.opt.BatchSize || time.Since(s.lastFlush) >= s.opt.FlushInterval {
+		return s.flush()
+	}
+	return nil
+}
+
+// fits checks an evaluation's lengths against the layout.
+func (l *layout) fits(e *mdo.Evaluation) error {
+	nd, no, nc := len(l.design), len(l.objectives), len(l.constraints)
+	switch {
+	case len(e.Design) != nd || len(e.X) != nd:
+		return fmt.Errorf("has %d design values and %d coordinates, the run has %d design variables", len(e.Design), len(e.X), nd)
+	case len(e.Objectives) != no || len(e.F) != no:
+		return fmt.Errorf("has %d objective values, the run has %d objectives", len(e.Objectives), no)
+	case len(e.Constraints) != nc || len(e.Margins) != nc || len(e.G) != nc:
+		return fmt.Errorf("has %d constraint values, the run has %d constraints", len(e.Constraints), nc)
+	}
+	return nil
+}
+
+// Iteration queues one optimiser iteration.
+func (s *Store) Iteration(p mdo.Progress) error {
+	if err := s.usable(); err != nil {
+		return err
+	}
+	if !s.began {
+		return fmt.Errorf("store: %s: Iteration before Begin", s.path)
+	}
+	s.pendingIt = append(s.pendingIt, iterRow{p: p, at: time.Now()})
+	if time.Since(s.lastFlush) >= s.opt.FlushInterval {
+		return s.flush()
+	}
+	return nil
+}
+
+// Flush commits the pending evaluations and iterations now.
+func (s *Store) Flush() error {
+	if err := s.usable(); err != nil {
+		return err
+	}
+	return s.flush()
+}
+
+// flush commits what is pending in one transaction. An error is sticky:
+// the store refuses further records.
+func (s *Store) flush() error {
+	if len(s.pending) == 0 && len(s.pendingIt) == 0 {
+		s.lastFlush = time.Now()
+		return nil
+	}
+	ctx := context.Background()
+	err := s.inTx(func() error {
+		return s.conn.Raw(func(any) error {
+			p := s.pending
+			for s.stmtBatch != nil && len(p) >= s.batchRows {
+				if _, err := s.stmtBatch.ExecContext(ctx, s.bind(p[:s.batchRows])); err != nil {
+					return err
+				}
+				p = p[s.batchRows:]
+			}
+			for k := range p {
+				if _, err := s.stmtOne.ExecContext(ctx, s.bind(p[k:k+1])); err != nil {
+					return err
+				}
+			}
+			for _, it := range s.pendingIt {
+				s.args = s.args[:0]
+				s.add(int64(s.session), it.p.Optimizer, int64(it.p.Iteration), int64(it.p.Evaluations),
+					nanNull(it.p.Best), it.p.Feasible, nanNull(it.p.Violation), it.at.UTC().Format(time.RFC3339Nano))
+				if _, err := s.stmtIt.ExecContext(ctx, s.args); err != nil {
+					return err
+				}
+			}
+			return nil
+		})
+	})
+	if err != nil {
+		s.err = fmt.Errorf("store: %s: committing %d evaluations: %w", s.path, len(s.pending), err)
+		return s.err
+	}
+	s.rows += len(s.pending) // INSERT OR REPLACE of an existing id is rare; Rows() recounts on open
+	clear(s.pending)
+	s.pending = s.pending[:0]
+	s.pendingIt = s.pendingIt[:0]
+	s.lastFlush = time.Now()
+	if s.opt.OnCommit != nil {
+		s.opt.OnCommit(s.rows)
+	}
+	return nil
+}
+
+// nanNull maps NaN to SQL NULL.
+func nanNull(x float64) any {
+	if math.IsNaN(x) {
+		return nil
+	}
+	return x
+}
+
+// add appends driver arguments with their ordinals.
+func (s *Store) add(vs ...driver.Value) {
+	for _, v := range vs {
+		s.args = append(s.args, driver.NamedValue{Ordinal: len(s.args) + 1, Value: v})
+	}
+}
+
+// addFloats appends float arguments; NaN becomes NULL.
+func (s *Store) addFloats(xs []float64) {
+	for _, x := range xs {
+		var v driver.Value = x
+		if x != x {
+			v = nil
+		}
+		s.args = append(s.args, driver.NamedValue{Ordinal: len(s.args) + 1, Value: v})
+	}
+}
+
+// bind fills the argument list of an insert of evs. The vectors blob
+// and the outputs text are cut from one arena per call; the driver copies
+// them when it binds.
+func (s *Store) bind(evs []*mdo.Evaluation) []driver.NamedValue {
+	s.args = s.args[:0]
+	s.arena = s.arena[:0]
+	for _, e := range evs {
+		s.add(int64(e.ID), e.Feasible, e.Converged, e.Violation, e.Err,
+			int64(e.Iterations), int64(e.DisciplineCalls), e.Wall.Seconds())
+		s.addFloats(e.Design)
+		s.addFloats(e.Objectives)
+		s.addFloats(e.Constraints)
+		s.addFloats(e.Margins)
+		start := len(s.arena)
+		s.arena = appendOutputs(s.arena, s.lay.outKeys, e.Outputs)
+		outputs := string(s.arena[start:])
+		start = len(s.arena)
+		s.arena = appendFloats(s.arena, e.X)
+		s.arena = appendFloats(s.arena, e.F)
+		s.arena = appendFloats(s.arena, e.G)
+		s.add(outputs, s.arena[start:len(s.arena):len(s.arena)])
+	}
+	return s.args
+}
+
+// End commits the last evaluations and writes the run's outcome: stop
+// reason, counters, best point, the objectives' senses, the constraints'
+// relations and the Pareto front.
+func (s *Store) End(r *mdo.Result) error {
+	if err := s.usable(); err != nil {
+		return err
+	}
+	if !s.began {
+		return fmt.Errorf("store: %s: End before Begin", s.path)
+	}
+	if err := s.flush(); err != nil {
+		return err
+	}
+	ctx := context.Background()
+	now := time.Now().UTC()
+	err := s.inTx(func() error {
+		var best any
+		stop, elapsed := "", 0.0
+		var cnt mdo.EvalCounters
+		if r != nil {
+			if r.Best != nil {
+				best = int64(r.Best.ID)
+			}
+			stop, elapsed, cnt = r.Stop, r.Elapsed.Seconds(), r.EvalCounters
+		}
+		if _, err := s.conn.ExecContext(ctx, `UPDATE run SET ended = ?, stop = ?, elapsed_seconds = ?, evaluations = ?, analyses = ?, cache_hits = ?,
+			restored = ?, failed = ?, discipline_calls = ?, coupling_iterations = ?, best_id = ? WHERE id = 1`,
+			now.Format(time.RFC3339Nano), stop, elapsed, cnt.Evaluations, cnt.Analyses, cnt.CacheHits, cnt.Restored, cnt.Failed,
+			cnt.DisciplineCalls, cnt.CouplingIterations, best); err != nil {
+			return err
+		}
+		if _, err := s.conn.ExecContext(ctx, `UPDATE sessions SET ended = ? WHERE n = ?`, now.Format(time.RFC3339Nano), s.session); err != nil {
+			return err
+		}
+		if r == nil {
+			return nil
+		}
+		for k, o := range r.Objectives {
+			rel := "minimise"
+			if o.Maximize {
+				rel = "maximise"
+			}
+			if _, err := s.conn.ExecContext(ctx, `UPDATE variables SET relation = ? WHERE role = 'objective' AND position = ?`, rel, k); err != nil {
+				return err
+			}
+		}
+		for k, c := range r.Constraints {
+			var lo, hi any
+			switch c.Kind {
+			case mdo.LessEqual:
+				hi = c.Upper
+			case mdo.GreaterEqual, mdo.Equal:
+				lo = c.Lower
+			default:
+				lo, hi = c.Lower, c.Upper
+			}
+			if _, err := s.conn.ExecContext(ctx, `UPDATE variables SET relation = ?, lower = ?, upper = ? WHERE role = 'constraint' AND position = ?`, c.String(), lo, hi, k); err != nil {
+				return err
+			}
+		}
+		if _, err := s.conn.ExecContext(ctx, `DELETE FROM front`); err != nil {
+			return err
+		}
+		for k, p := range r.Front {
+			if _, err := s.conn.ExecContext(ctx, `INSERT OR REPLACE INTO front (eval_id, rank) VALUES (?, ?)`, p.ID, k); err != nil {
+				return err
+			}
+		}
+		return nil
+	})
+	if err != nil {
+		s.err = fmt.Errorf("store: %s: ending the run: %w", s.path, err)
+		return s.err
+	}
+	s.ended = true
+	s.meta.Ended = now
+	if r != nil {
+		s.meta.Stop = r.Stop
+	}
+	return nil
+}

@@ -1,0 +1,198 @@
+package store
+
+import (
+	"fmt"
+	"strings"
+
+	"couplet/mdo"
+)
+
+// Format is the value of store_info.format that marks a Couplet case
+// store; SchemaVersion is the version of the layout described in the
+// package documentation.
+const (
+	Format        = "couplet-case-store"
+	SchemaVersion = 1
+)
+
+// fixedSchema creates the tables that do not depend on the study.
+const fixedSchema = `
+CREATE TABLE store_info (key TEXT PRIMARY KEY, value TEXT NOT NULL);
+CREATE TABLE run (
+	id INTEGER PRIMARY KEY CHECK (id = 1),
+	study TEXT NOT NULL,
+	script TEXT NOT NULL,
+	script_sha256 TEXT NOT NULL,
+	tool_version TEXT NOT NULL,
+	go_version TEXT NOT NULL,
+	seed TEXT NOT NULL,
+	optimizer TEXT NOT NULL,
+	formulation TEXT NOT NULL,
+	settings TEXT NOT NULL,
+	started TEXT NOT NULL,
+	ended TEXT,
+	stop TEXT,
+	elapsed_seconds REAL,
+	evaluations INTEGER,
+	analyses INTEGER,
+	cache_hits INTEGER,
+	restored INTEGER,
+	failed INTEGER,
+	discipline_calls INTEGER,
+	coupling_iterations INTEGER,
+	best_id INTEGER
+);
+CREATE TABLE sessions (
+	n INTEGER PRIMARY KEY,
+	started TEXT NOT NULL,
+	ended TEXT,
+	tool_version TEXT NOT NULL,
+	go_version TEXT NOT NULL,
+	resumed_rows INTEGER NOT NULL
+);
+CREATE TABLE variables (
+	role TEXT NOT NULL CHECK (role IN ('design', 'objective', 'constraint', 'output')),
+	position INTEGER NOT NULL,
+	name TEXT NOT NULL,
+	unit TEXT NOT NULL,
+	description TEXT NOT NULL DEFAULT '',
+	lower REAL,
+	upper REAL,
+	is_integer INTEGER NOT NULL DEFAULT 0,
+	relation TEXT,
+	column_name TEXT,
+	PRIMARY KEY (role, position)
+);
+CREATE TABLE iterations (
+	n INTEGER PRIMARY KEY,
+	session INTEGER NOT NULL,
+	optimizer TEXT NOT NULL,
+	iteration INTEGER NOT NULL,
+	evaluations INTEGER NOT NULL,
+	best REAL,
+	feasible INTEGER NOT NULL,
+	violation REAL,
+	at TEXT NOT NULL
+);
+CREATE TABLE front (eval_id INTEGER PRIMARY KEY, rank INTEGER NOT NULL);
+`
+
+// fixedCols are the study-independent columns of the evaluations table,
+// in order.
+var fixedCols = []string{"id", "feasible", "converged", "violation", "error", "iterations", "discipline_calls", "wall_seconds"}
+
+// layout is the study-dependent part of the schema: the names, units and
+// column names of what an evaluation holds.
+type layout struct {
+	design      []mdo.DesignSpec
+	objectives  []string
+	constraints []string
+	outputs     []mdo.Var
+
+	designCols, objCols, consCols, marginCols []string
+	outIndex                                  map[string]int
+	outKeys                                   [][]byte
+}
+
+// newLayout derives the column names of a run.
+func newLayout(design []mdo.DesignSpec, objectives, constraints []string, outputs []mdo.Var) *layout {
+	l := &layout{design: design, objectives: objectives, constraints: constraints, outputs: outputs}
+	used := map[string]bool{}
+	for _, c := range fixedCols {
+		used[c] = true
+	}
+	used["outputs"], used["vectors"] = true, true
+	name := func(prefix, n string) string {
+		base := prefix + ":" + sanitize(n)
+		c := base
+		for k := 2; used[strings.ToLower(c)]; k++ {
+			c = fmt.Sprintf("%s#%d", base, k)
+		}
+		used[strings.ToLower(c)] = true
+		return c
+	}
+	for _, d := range design {
+		l.designCols = append(l.designCols, name("design", d.Name))
+	}
+	for _, o := range objectives {
+		l.objCols = append(l.objCols, name("objective", o))
+	}
+	for _, c := range constraints {
+		l.consCols = append(l.consCols, name("constraint", c))
+	}
+	for _, c := range constraints {
+		l.marginCols = append(l.marginCols, name("margin", c))
+	}
+	names := make([]string, len(outputs))
+	l.outIndex = make(map[string]int, len(outputs))
+	for i, v := range outputs {
+		names[i] = v.Name
+		l.outIndex[v.Name] = i
+	}
+	l.outKeys = outputKeys(names)
+	return l
+}
+
+// columns returns every column of the evaluations table in order.
+func (l *layout) columns() []string {
+	cols := append([]string(nil), fixedCols...)
+	cols = append(cols, l.designCols...)
+	cols = append(cols, l.objCols...)
+	cols = append(cols, l.consCols...)
+	cols = append(cols, l.marginCols...)
+	return append(cols, "outputs", "vectors")
+}
+
+// createEvaluations is the DDL of the evaluations table.
+func (l *layout) createEvaluations() string {
+	var b strings.Builder
+	b.WriteString(`CREATE TABLE evaluations (
+	id INTEGER PRIMARY KEY,
+	feasible INTEGER NOT NULL,
+	converged INTEGER NOT NULL,
+	violation REAL,
+	error TEXT NOT NULL,
+	iterations INTEGER NOT NULL,
+	discipline_calls INTEGER NOT NULL,
+	wall_seconds REAL NOT NULL`)
+	for _, group := range [][]string{l.designCols, l.objCols, l.consCols, l.marginCols} {
+		for _, c := range group {
+			fmt.Fprintf(&b, ",\n\t%s REAL", quote(c))
+		}
+	}
+	b.WriteString(",\n\toutputs TEXT NOT NULL,\n\tvectors BLOB NOT NULL\n)")
+	return b.String()
+}
+
+// insertSQL is an INSERT of rows rows into the evaluations table.
+func (l *layout) insertSQL(rows int) string {
+	cols := l.columns()
+	quoted := make([]string, len(cols))
+	for i, c := range cols {
+		quoted[i] = quote(c)
+	}
+	one := "(" + strings.TrimSuffix(strings.Repeat("?,", len(cols)), ",") + ")"
+	var b strings.Builder
+	b.WriteString("INSERT OR REPLACE INTO evaluations (" + strings.Join(quoted, ", ") + ") VALUES ")
+	for r := 0; r < rows; r++ {
+		if r > 0 {
+			b.WriteByte(',')
+		}
+		b.WriteString(one)
+	}
+	return b.String()
+}
+
+// sanitize makes a name safe inside a quoted SQL identifier and a CSV
+// header: control characters become '_'.
+func sanitize(n string) string {
+	return strings.Map(func(r rune) rune {
+		if r < 0x20 || r == 0x7f {
+			return '_'
+		}
+		return r
+	}, n)
+}
+
+// quote quotes an SQL identifier.
+func quote(id string) string { return `"` + strings.ReplaceAll(id, `"`, `""`) + `"` }

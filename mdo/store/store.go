@@ -1,0 +1,424 @@
+package store
+
+import (
+	"context"
+	"crypto/sha256"
+	"database/sql"
+	"database/sql/driver"
+	"encoding/hex"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"net/url"
+	"os"
+	"runtime"
+	"strconv"
+	"time"
+
+	"couplet/mdo"
+
+	_ "modernc.org/sqlite" // registers the "sqlite" driver
+)
+
+// Options configure a Store.
+type Options struct {
+	// ToolVersion is the version of the program writing the store, kept
+	// in the provenance (for example the couplet command's version).
+	ToolVersion string
+	// BatchSize is the number of evaluations committed together; default
+	// 256.
+	BatchSize int
+	// FlushInterval commits the pending evaluations when this long has
+	// passed since the last commit (checked as each evaluation arrives);
+	// default 250 ms.
+	FlushInterval time.Duration
+	// Durable asks SQLite to sync the write-ahead log at every commit
+	// (synchronous=FULL), so that committed batches also survive a power
+	// failure. By default (synchronous=NORMAL) they survive the process
+	// being killed but an operating-system crash may lose the last ones.
+	Durable bool
+	// Overwrite lets Create replace an existing file.
+	Overwrite bool
+	// OnCommit, if not nil, is called after each committed batch with the
+	// number of evaluation rows the store holds.
+	OnCommit func(rows int)
+}
+
+// normalized fills in the defaults and checks the values.
+func (o Options) normalized() (Options, error) {
+	if o.BatchSize == 0 {
+		o.BatchSize = 256
+	}
+	if o.FlushInterval == 0 {
+		o.FlushInterval = 250 * time.Millisecond
+	}
+	if o.BatchSize < 1 || o.BatchSize > 1<<20 {
+		return o, fmt.Errorf("store: BatchSize = %d, allowed 1 to %d", o.BatchSize, 1<<20)
+	}
+	if o.FlushInterval < 0 {
+		return o, fmt.Errorf("store: FlushInterval = %v, must be >= 0", o.FlushInterval)
+	}
+	return o, nil
+}
+
+// RunMeta is the provenance of the run a store holds.
+type RunMeta struct {
+	Study        string
+	Script       string
+	ScriptSHA256 string
+	ToolVersion  string
+	GoVersion    string
+	Seed         uint64
+	Optimizer    string
+	Formulation  string
+	Settings     map[string]string
+	Started      time.Time
+	// Ended is zero and Stop empty while the run has not ended (or when it
+	// was killed).
+	Ended time.Time
+	Stop  string
+	// Rows is the number of evaluation rows.
+	Rows int
+}
+
+// Store is a SQLite case store. It implements mdo.Recorder and
+// mdo.IterationRecorder. A Store is used from one goroutine.
+type Store struct {
+	path     string
+	opt      Options
+	db       *sql.DB
+	conn     *sql.Conn
+	readOnly bool
+
+	meta    *RunMeta // the stored run, nil before Begin on a new store
+	lay     *layout
+	session int
+
+	pending   []*mdo.Evaluation
+	pendingIt []iterRow
+	lastFlush time.Time
+	batchRows int
+	stmts     []driver.Stmt
+	stmtBatch driver.StmtExecContext
+	stmtOne   driver.StmtExecContext
+	stmtIt    driver.StmtExecContext
+	args      []driver.NamedValue
+	arena     []byte
+	rows      int
+	began     bool
+	ended     bool
+	err       error
+}
+
+// iterRow is a pending optimiser iteration.
+type iterRow struct {
+	p  mdo.Progress
+	at time.Time
+}
+
+// Compile-time checks of the interfaces.
+var (
+	_ mdo.Recorder          = (*Store)(nil)
+	_ mdo.IterationRecorder = (*Store)(nil)
+)
+
+// ScriptHash returns the hex SHA-256 of a study script, as stored in
+// run.script_sha256.
+func ScriptHash(script string) string {
+	h := sha256.Sum256([]byte(script))
+	return hex.EncodeToString(h[:])
+}
+
+// dsn builds the driver's data source name with the store's pragmas.
+func dsn(path string, durable bool) string {
+	sync := "NORMAL"
+	if durable {
+		sync = "FULL"
+	}
+	q := url.Values{}
+	q.Add("_pragma", "busy_timeout(5000)")
+	q.Add("_pragma", "journal_mode(WAL)")
+	q.Add("_pragma", "synchronous("+sync+")")
+	q.Add("_pragma", "foreign_keys(1)")
+	q.Add("_pragma", "wal_autocheckpoint(4000)")
+	return "file:" + (&url.URL{Path: path}).EscapedPath() + "?" + q.Encode()
+}
+
+// openDB opens the database with one pinned connection.
+func openDB(path string, durable bool) (*sql.DB, *sql.Conn, error) {
+	db, err := sql.Open("sqlite", dsn(path, durable))
+	if err != nil {
+		return nil, nil, fmt.Errorf("store: opening %s: %w", path, err)
+	}
+	db.SetMaxOpenConns(1)
+	conn, err := db.Conn(context.Background())
+	if err != nil {
+		db.Close()
+		return nil, nil, fmt.Errorf("store: opening %s: %w", path, err)
+	}
+	return db, conn, nil
+}
+
+// Create makes a new, empty case store at path. An existing file is an
+// error unless opt.Overwrite is set.
+func Create(path string, opt Options) (*Store, error) {
+	opt, err := opt.normalized()
+	if err != nil {
+		return nil, err
+	}
+	if _, err := os.Stat(path); err == nil {
+		if !opt.Overwrite {
+			return nil, fmt.Errorf("store: %s already exists; resume it, remove it, or choose another file", path)
+		}
+		for _, p := range []string{path, path + "-wal", path + "-shm"} {
+			if err := os.Remove(p); err != nil && !errors.Is(err, os.ErrNotExist) {
+				return nil, fmt.Errorf("store: replacing %s: %w", path, err)
+			}
+		}
+	}
+	db, conn, err := openDB(path, opt.Durable)
+	if err != nil {
+		return nil, err
+	}
+	s := &Store{path: path, opt: opt, db: db, conn: conn}
+	ctx := context.Background()
+	err = s.inTx(func() error {
+		if _, err := conn.ExecContext(ctx, fixedSchema); err != nil {
+			return err
+		}
+		_, err := conn.ExecContext(ctx, `INSERT INTO store_info (key, value) VALUES ('format', ?), ('schema_version', ?), ('created', ?)`,
+			Format, strconv.Itoa(SchemaVersion), time.Now().UTC().Format(time.RFC3339Nano))
+		return err
+	})
+	if err != nil {
+		s.Close()
+		return nil, fmt.Errorf("store: creating %s: %w", path, err)
+	}
+	return s, nil
+}
+
+// Resume opens an existing case store to continue its run. Check the
+// script and seed with Check, hand Evaluations to mdo.Evaluator.Restore,
+// then give the store to the study as its recorder: new evaluations are
+// appended. A truncated or damaged file wraps ErrDamaged; a file that is
+// not a case store wraps ErrNotStore.
+func Resume(path string, opt Options) (*Store, error) {
+	opt, err := opt.normalized()
+	if err != nil {
+		return nil, err
+	}
+	return openExisting(path, opt, false)
+}
+
+// Open opens an existing case store for reading (queries and exports).
+// Begin and Record on it are errors.
+func Open(path string) (*Store, error) {
+	opt, _ := Options{}.normalized()
+	return openExisting(path, opt, true)
+}
+
+// openExisting checks and opens a store file.
+func openExisting(path string, opt Options, readOnly bool) (*Store, error) {
+	if err := checkFile(path); err != nil {
+		return nil, err
+	}
+	db, conn, err := openDB(path, opt.Durable)
+	if err != nil {
+		return nil, err
+	}
+	s := &Store{path: path, opt: opt, db: db, conn: conn, readOnly: readOnly}
+	if err := s.verify(); err != nil {
+		s.Close()
+		return nil, err
+	}
+	if err := s.loadMeta(); err != nil {
+		s.Close()
+		return nil, err
+	}
+	return s, nil
+}
+
+// verify runs SQLite's quick check and looks for the format marker.
+func (s *Store) verify() error {
+	ctx := context.Background()
+	var res string
+	if err := s.conn.QueryRowContext(ctx, "PRAGMA quick_check").Scan(&res); err != nil {
+		return fmt.Errorf("store: %s cannot be read as SQLite (%v): %w", s.path, err, ErrDamaged)
+	}
+	if res != "ok" {
+		return fmt.Errorf("store: %s failed SQLite's integrity check (%s): %w", s.path, res, ErrDamaged)
+	}
+	var n int
+	if err := s.conn.QueryRowContext(ctx, "SELECT count(*) FROM sqlite_schema WHERE type = 'table' AND name = 'store_info'").Scan(&n); err != nil {
+		return fmt.Errorf("store: reading the schema of %s: %w", s.path, err)
+	}
+	if n == 0 {
+		return fmt.Errorf("store: %s is a SQLite database without a store_info table (another program's database?): %w", s.path, ErrNotStore)
+	}
+	var format, version string
+	_ = s.conn.QueryRowContext(ctx, "SELECT value FROM store_info WHERE key = 'format'").Scan(&format)
+	_ = s.conn.QueryRowContext(ctx, "SELECT value FROM store_info WHERE key = 'schema_version'").Scan(&version)
+	if format != Format {
+		return fmt.Errorf("store: %s has format %q, want %q: %w", s.path, format, Format, ErrNotStore)
+	}
+	if version != strconv.Itoa(SchemaVersion) {
+		return fmt.Errorf("store: %s has schema version %q; this program reads version %d: %w", s.path, version, SchemaVersion, ErrNotStore)
+	}
+	return nil
+}
+
+// loadMeta reads the run row and the layout, if the run has begun.
+func (s *Store) loadMeta() error {
+	ctx := context.Background()
+	var m RunMeta
+	var seed, settings, started string
+	var ended, stop sql.NullString
+	err := s.conn.QueryRowContext(ctx, `SELECT study, script, script_sha256, tool_version, go_version, seed, optimizer, formulation, settings, started, ended, stop FROM run WHERE id = 1`).
+		Scan(&m.Study, &m.Script, &m.ScriptSHA256, &m.ToolVersion, &m.GoVersion, &seed, &m.Optimizer, &m.Formulation, &settings, &started, &ended, &stop)
+	if errors.Is(err, sql.ErrNoRows) {
+		return nil
+	}
+	if err != nil {
+		return fmt.Errorf("store: reading the run of %s: %w", s.path, err)
+	}
+	if m.Seed, err = strconv.ParseUint(seed, 10, 64); err != nil {
+		return fmt.Errorf("store: %s: run.seed = %q is not an unsigned integer: %w", s.path, seed, ErrDamaged)
+	}
+	if err := json.Unmarshal([]byte(settings), &m.Settings); err != nil {
+		return fmt.Errorf("store: %s: run.settings is not a JSON object: %w", s.path, ErrDamaged)
+	}
+	m.Started, _ = time.Parse(time.RFC3339Nano, started)
+	if ended.Valid {
+		m.Ended, _ = time.Parse(time.RFC3339Nano, ended.String)
+	}
+	m.Stop = stop.String
+	lay, err := s.loadLayout()
+	if err != nil {
+		return err
+	}
+	if err := s.conn.QueryRowContext(ctx, "SELECT count(*) FROM evaluations").Scan(&m.Rows); err != nil {
+		return fmt.Errorf("store: counting the evaluations of %s: %w", s.path, err)
+	}
+	s.rows = m.Rows
+	s.meta = &m
+	s.lay = lay
+	return nil
+}
+
+// loadLayout rebuilds the layout from the variables table.
+func (s *Store) loadLayout() (*layout, error) {
+	rows, err := s.conn.QueryContext(context.Background(), `SELECT role, name, unit, description, lower, upper, is_integer FROM variables ORDER BY role, position`)
+	if err != nil {
+		return nil, fmt.Errorf("store: reading the variables of %s: %w", s.path, err)
+	}
+	defer rows.Close()
+	var design []mdo.DesignSpec
+	var objs, cons []string
+	var outs []mdo.Var
+	for rows.Next() {
+		var role, name, unit, desc string
+		var lo, hi sql.NullFloat64
+		var integer bool
+		if err := rows.Scan(&role, &name, &unit, &desc, &lo, &hi, &integer); err != nil {
+			return nil, fmt.Errorf("store: reading the variables of %s: %w", s.path, err)
+		}
+		switch role {
+		case "design":
+			design = append(design, mdo.DesignSpec{Name: name, Unit: unit, Lower: lo.Float64, Upper: hi.Float64, Integer: integer})
+		case "objective":
+			objs = append(objs, name)
+		case "constraint":
+			cons = append(cons, name)
+		case "output":
+			outs = append(outs, mdo.Var{Name: name, Unit: unit, Description: desc, Min: lo.Float64, Max: hi.Float64})
+		}
+	}
+	if err := rows.Err(); err != nil {
+		return nil, fmt.Errorf("store: reading the variables of %s: %w", s.path, err)
+	}
+	return newLayout(design, objs, cons, outs), nil
+}
+
+// Path returns the store's file name.
+func (s *Store) Path() string { return s.path }
+
+// Run returns the provenance of the stored run; ok is false when no run
+// has begun in this store.
+func (s *Store) Run() (m RunMeta, ok bool) {
+	if s.meta == nil {
+		return RunMeta{}, false
+	}
+	m = *s.meta
+	m.Rows = s.rows
+	return m, true
+}
+
+// Rows returns the number of committed evaluation rows.
+func (s *Store) Rows() int { return s.rows }
+
+// Check refuses a store whose run came from another script or seed: the
+// error names both hashes or both seeds. A store in which no run has
+// begun passes.
+func (s *Store) Check(script string, seed uint64) error {
+	if s.meta == nil {
+		return nil
+	}
+	if h := ScriptHash(script); h != s.meta.ScriptSHA256 {
+		return fmt.Errorf("store: %s holds a run of another script (stored script SHA-256 %s, this script %s); refusing to mix them: use a new file", s.path, s.meta.ScriptSHA256, h)
+	}
+	if seed != s.meta.Seed {
+		return fmt.Errorf("store: %s holds a run with seed %d, this run has seed %d; refusing to mix them: use a new file or the stored seed", s.path, s.meta.Seed, seed)
+	}
+	return nil
+}
+
+// inTx runs fn inside BEGIN IMMEDIATE … COMMIT on the pinned connection.
+func (s *Store) inTx(fn func() error) error {
+	ctx := context.Background()
+	if _, err := s.conn.ExecContext(ctx, "BEGIN IMMEDIATE"); err != nil {
+		return err
+	}
+	if err := fn(); err != nil {
+		_, _ = s.conn.ExecContext(ctx, "ROLLBACK")
+		return err
+	}
+	if _, err := s.conn.ExecContext(ctx, "COMMIT"); err != nil {
+		_, _ = s.conn.ExecContext(ctx, "ROLLBACK")
+		return err
+	}
+	return nil
+}
+
+// Close commits what is pending (a run that did not reach End keeps its
+// evaluations) and closes the file.
+func (s *Store) Close() error {
+	if s.db == nil {
+		return nil
+	}
+	var first error
+	if !s.readOnly && s.began && !s.ended {
+		first = s.flush()
+	}
+	if len(s.stmts) > 0 {
+		_ = s.conn.Raw(func(any) error {
+			for _, st := range s.stmts {
+				st.Close()
+			}
+			return nil
+		})
+		s.stmts = nil
+	}
+	if s.conn != nil {
+		if err := s.conn.Close(); err != nil && first == nil {
+			first = err
+		}
+	}
+	if err := s.db.Close(); err != nil && first == nil {
+		first = fmt.Errorf("store: closing %s: %w", s.path, err)
+	}
+	s.db, s.conn = nil, nil
+	return first
+}
+
+// goVersion is the Go version recorded in the provenance.
+func goVersion() string { return runtime.Version() }

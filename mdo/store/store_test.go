@@ -1,0 +1,416 @@
+package store
+
+import (
+	"context"
+	"database/sql"
+	"errors"
+	"math"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"couplet/mdo"
+)
+
+// sellarScript stands for a study script; only its hash matters here.
+const sellarScript = "// Sellar study\nstudy := mdo.SellarStudy(mdo.MDF)\n"
+
+// sellarEvaluator returns an evaluator of the Sellar study recording to rec.
+func sellarEvaluator(t testing.TB, rec mdo.Recorder, seed uint64, script string) *mdo.Evaluator {
+	t.Helper()
+	st, err := mdo.SellarStudy(mdo.MDF)
+	if err != nil {
+		t.Fatal(err)
+	}
+	st.Seed, st.Script, st.Recorder, st.Workers = seed, script, rec, 2
+	ev, err := st.NewEvaluator()
+	if err != nil {
+		t.Fatal(err)
+	}
+	return ev
+}
+
+// sameFloat compares two floats bit for bit, treating every NaN as equal.
+func sameFloat(a, b float64) bool {
+	return a == b && math.Signbit(a) == math.Signbit(b) || math.IsNaN(a) && math.IsNaN(b)
+}
+
+// sameFloats compares two slices with sameFloat.
+func sameFloats(a, b []float64) bool {
+	if len(a) != len(b) {
+		return false
+	}
+	for i := range a {
+		if !sameFloat(a[i], b[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// sameEvaluation reports the first field in which a and b differ.
+func sameEvaluation(a, b *mdo.Evaluation) string {
+	switch {
+	case a.ID != b.ID:
+		return "ID"
+	case !sameFloats(a.X, b.X):
+		return "X"
+	case !sameFloats(a.Design, b.Design):
+		return "Design"
+	case !sameFloats(a.Objectives, b.Objectives):
+		return "Objectives"
+	case !sameFloats(a.F, b.F):
+		return "F"
+	case !sameFloats(a.Constraints, b.Constraints):
+		return "Constraints"
+	case !sameFloats(a.Margins, b.Margins):
+		return "Margins"
+	case !sameFloats(a.G, b.G):
+		return "G"
+	case !sameFloat(a.Violation, b.Violation):
+		return "Violation"
+	case a.Feasible != b.Feasible:
+		return "Feasible"
+	case a.Converged != b.Converged:
+		return "Converged"
+	case a.Err != b.Err:
+		return "Err"
+	case a.Iterations != b.Iterations:
+		return "Iterations"
+	case a.DisciplineCalls != b.DisciplineCalls:
+		return "DisciplineCalls"
+	case a.Wall != b.Wall:
+		return "Wall"
+	case !sameFloats(a.Outputs, b.Outputs):
+		return "Outputs"
+	}
+	return ""
+}
+
+// grid returns n points spread over the unit cube (deterministic).
+func grid(n, dim int) [][]float64 {
+	out := make([][]float64, n)
+	for i := range out {
+		out[i] = make([]float64, dim)
+		for k := range out[i] {
+			out[i][k] = math.Mod(float64(i+1)*[]float64{0.618034, 0.414214, 0.732051}[k%3], 1)
+		}
+	}
+	return out
+}
+
+func TestRecordAndReload(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "results.db")
+	s, err := Create(path, Options{ToolVersion: "test-1", BatchSize: 7})
+	if err != nil {
+		t.Fatal(err)
+	}
+	ev := sellarEvaluator(t, s, 42, sellarScript)
+	if err := ev.Begin("grid", map[string]string{"points": "40"}); err != nil {
+		t.Fatal(err)
+	}
+	got, err := ev.Evaluate(context.Background(), grid(40, 3))
+	if err != nil {
+		t.Fatal(err)
+	}
+	ev.Iteration(1)
+	res, err := ev.Finish("budget")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := s.Close(); err != nil {
+		t.Fatal(err)
+	}
+
+	r, err := Open(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer r.Close()
+	meta, ok := r.Run()
+	if !ok {
+		t.Fatal("no run in the reopened store")
+	}
+	tests := []struct {
+		what      string
+		got, want any
+	}{
+		{"study", meta.Study, "sellar"},
+		{"seed", meta.Seed, uint64(42)},
+		{"script hash", meta.ScriptSHA256, ScriptHash(sellarScript)},
+		{"tool version", meta.ToolVersion, "test-1"},
+		{"optimizer", meta.Optimizer, "grid"},
+		{"stop", meta.Stop, "budget"},
+		{"settings", meta.Settings["points"], "40"},
+		{"rows", meta.Rows, 40},
+		{"formulation", meta.Formulation, "MDF"},
+	}
+	for _, tc := range tests {
+		if tc.got != tc.want {
+			t.Errorf("%s = %v, want %v", tc.what, tc.got, tc.want)
+		}
+	}
+	if meta.Ended.IsZero() {
+		t.Error("run has no end time")
+	}
+	evs, err := r.Evaluations()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(evs) != len(got) {
+		t.Fatalf("reloaded %d evaluations, recorded %d", len(evs), len(got))
+	}
+	for i := range evs {
+		if f := sameEvaluation(evs[i], got[i]); f != "" {
+			t.Fatalf("evaluation %d differs in %s after reload", i, f)
+		}
+	}
+	its, err := r.Iterations()
+	if err != nil || len(its) != 1 || its[0].Optimizer != "grid" {
+		t.Errorf("iterations = %v, %v; want one of optimizer grid", its, err)
+	}
+	if res.Best == nil {
+		t.Fatal("no best")
+	}
+	// the store must be readable with plain SQL: best row by column name
+	db, err := sql.Open("sqlite", "file:"+path+"?mode=ro")
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer db.Close()
+	var bestID int
+	var f float64
+	if err := db.QueryRow(`SELECT best_id FROM run`).Scan(&bestID); err != nil {
+		t.Fatal(err)
+	}
+	if err := db.QueryRow(`SELECT "objective:f" FROM evaluations WHERE id = ?`, bestID).Scan(&f); err != nil {
+		t.Fatal(err)
+	}
+	if bestID != res.Best.ID || f != res.Best.Objectives[0] {
+		t.Errorf("SQL best = #%d f=%g, result best #%d f=%g", bestID, f, res.Best.ID, res.Best.Objectives[0])
+	}
+	var y1 float64
+	if err := db.QueryRow(`SELECT json_extract(outputs, '$."y1"') FROM evaluations WHERE id = ?`, bestID).Scan(&y1); err != nil {
+		t.Fatal(err)
+	}
+	if want, _ := res.Output("y1"); y1 != want {
+		t.Errorf("json_extract y1 = %g, want %g", y1, want)
+	}
+	var unit, rel string
+	if err := db.QueryRow(`SELECT unit, relation FROM variables WHERE role = 'constraint' AND name = 'g1'`).Scan(&unit, &rel); err != nil {
+		t.Fatal(err)
+	}
+	if rel != "g1 >= 3.16" {
+		t.Errorf("relation of g1 = %q, want %q", rel, "g1 >= 3.16")
+	}
+}
+
+func TestNonFiniteValuesSurvive(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "nf.db")
+	s, err := Create(path, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	info := syntheticRun()
+	if err := s.Begin(info); err != nil {
+		t.Fatal(err)
+	}
+	var e mdo.Evaluation
+	syntheticEval(&e, 0)
+	// a failed analysis as mdo fills it in
+	e.Converged, e.Feasible, e.Err, e.Violation = false, false, "group {a, b}: NOT CONVERGED", math.Inf(1)
+	e.Objectives[0], e.F[0] = math.NaN(), math.Inf(1)
+	for k := range e.G {
+		e.G[k], e.Constraints[k], e.Margins[k] = math.Inf(1), math.NaN(), math.Inf(-1)
+	}
+	e.Outputs[3], e.Outputs[4], e.Outputs[5] = math.NaN(), math.Inf(1), math.Inf(-1)
+	if err := s.Record(&e); err != nil {
+		t.Fatal(err)
+	}
+	if err := s.End(nil); err != nil {
+		t.Fatal(err)
+	}
+	evs, err := s.Evaluations()
+	if err != nil {
+		t.Fatal(err)
+	}
+	s.Close()
+	if len(evs) != 1 {
+		t.Fatalf("%d evaluations, want 1", len(evs))
+	}
+	if f := sameEvaluation(evs[0], &e); f != "" {
+		t.Errorf("failed evaluation differs in %s after reload", f)
+	}
+}
+
+func TestCreateRefusesExistingFile(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "x.db")
+	if err := os.WriteFile(path, []byte("keep me"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if _, err := Create(path, Options{}); err == nil || !strings.Contains(err.Error(), "already exists") {
+		t.Fatalf("Create over an existing file: err = %v, want 'already exists'", err)
+	}
+	s, err := Create(path, Options{Overwrite: true})
+	if err != nil {
+		t.Fatalf("Create with Overwrite: %v", err)
+	}
+	s.Close()
+}
+
+func TestOptionsValidation(t *testing.T) {
+	tests := []struct {
+		name string
+		opt  Options
+		want string
+	}{
+		{"negative batch", Options{BatchSize: -1}, "BatchSize = -1"},
+		{"huge batch", Options{BatchSize: 1 << 21}, "BatchSize = 2097152"},
+		{"negative interval", Options{FlushInterval: -1}, "FlushInterval = -1ns"},
+	}
+	for _, tc := range tests {
+		_, err := Create(filepath.Join(t.TempDir(), "o.db"), tc.opt)
+		if err == nil || !strings.Contains(err.Error(), tc.want) {
+			t.Errorf("%s: err = %v, want it to contain %q", tc.name, err, tc.want)
+		}
+	}
+}
+
+func TestBadFiles(t *testing.T) {
+	dir := t.TempDir()
+	// a real store, closed, to truncate
+	good := filepath.Join(dir, "good.db")
+	s, err := Create(good, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	ev := sellarEvaluator(t, s, 1, sellarScript)
+	if _, err := ev.Evaluate(context.Background(), grid(300, 3)); err != nil {
+		t.Fatal(err)
+	}
+	if _, err := ev.Finish("budget"); err != nil {
+		t.Fatal(err)
+	}
+	s.Close()
+	data, err := os.ReadFile(good)
+	if err != nil {
+		t.Fatal(err)
+	}
+	write := func(name string, b []byte) string {
+		p := filepath.Join(dir, name)
+		if err := os.WriteFile(p, b, 0o644); err != nil {
+			t.Fatal(err)
+		}
+		return p
+	}
+	// another program's SQLite database
+	foreign := filepath.Join(dir, "foreign.db")
+	db, err := sql.Open("sqlite", foreign)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, err := db.Exec(`CREATE TABLE accounts (id INTEGER PRIMARY KEY, owner TEXT)`); err != nil {
+		t.Fatal(err)
+	}
+	db.Close()
+	// a store with a newer schema version
+	newer := write("newer.db", data)
+	db, _ = sql.Open("sqlite", newer)
+	if _, err := db.Exec(`UPDATE store_info SET value = '99' WHERE key = 'schema_version'`); err != nil {
+		t.Fatal(err)
+	}
+	db.Close()
+
+	tests := []struct {
+		name string
+		path string
+		is   error
+		want string
+	}{
+		{"missing", filepath.Join(dir, "nope.db"), os.ErrNotExist, "opening"},
+		{"empty", write("empty.db", nil), ErrNotStore, "is empty"},
+		{"text", write("notes.db", []byte(strings.Repeat("lift and drag\n", 40))), ErrNotStore, "is not a SQLite database"},
+		{"short header", write("short.db", data[:60]), ErrDamaged, "shorter than the 100-byte SQLite header"},
+		{"half", write("half.db", data[:len(data)/2]), ErrDamaged, "is truncated"},
+		{"odd size", write("odd.db", data[:len(data)-100]), ErrDamaged, "is truncated"},
+		{"foreign sqlite", foreign, ErrNotStore, "without a store_info table"},
+		{"newer schema", newer, ErrNotStore, "schema version \"99\""},
+	}
+	for _, tc := range tests {
+		for _, open := range []struct {
+			how string
+			fn  func(string) (*Store, error)
+		}{{"Open", Open}, {"Resume", func(p string) (*Store, error) { return Resume(p, Options{}) }}} {
+			st, err := open.fn(tc.path)
+			if err == nil {
+				st.Close()
+				t.Errorf("%s %s: no error", open.how, tc.name)
+				continue
+			}
+			if !errors.Is(err, tc.is) || !strings.Contains(err.Error(), tc.want) || !strings.Contains(err.Error(), tc.path) {
+				t.Errorf("%s %s: err = %v; want one wrapping %v, naming the file and saying %q", open.how, tc.name, err, tc.is, tc.want)
+			}
+		}
+	}
+	// the intact file still opens
+	st, err := Open(good)
+	if err != nil {
+		t.Fatalf("intact store: %v", err)
+	}
+	if st.Rows() != 300 {
+		t.Errorf("intact store has %d rows, want 300", st.Rows())
+	}
+	st.Close()
+}
+
+func TestResumeRefusesOtherScriptOrSeed(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "r.db")
+	s, err := Create(path, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	ev := sellarEvaluator(t, s, 7, sellarScript)
+	if _, err := ev.Evaluate(context.Background(), grid(5, 3)); err != nil {
+		t.Fatal(err)
+	}
+	s.Close() // killed before End: evaluations were committed by Close
+	tests := []struct {
+		name   string
+		script string
+		seed   uint64
+		want   []string
+	}{
+		{"other script", sellarScript + "// changed\n", 7, []string{ScriptHash(sellarScript), ScriptHash(sellarScript + "// changed\n")}},
+		{"other seed", sellarScript, 8, []string{"seed 7", "seed 8"}},
+	}
+	for _, tc := range tests {
+		r, err := Resume(path, Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		err = r.Check(tc.script, tc.seed)
+		for _, w := range tc.want {
+			if err == nil || !strings.Contains(err.Error(), w) {
+				t.Errorf("%s: Check err = %v, want it to name %q", tc.name, err, w)
+			}
+		}
+		// and Begin refuses it too, so a recorder cannot mix runs
+		ev := sellarEvaluator(t, r, tc.seed, tc.script)
+		if _, err := ev.Evaluate(context.Background(), grid(1, 3)); err == nil || !strings.Contains(err.Error(), "refusing to mix") {
+			t.Errorf("%s: Evaluate through a mismatched store: err = %v, want a refusal", tc.name, err)
+		}
+		r.Close()
+	}
+	r, err := Resume(path, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer r.Close()
+	if err := r.Check(sellarScript, 7); err != nil {
+		t.Errorf("same script and seed refused: %v", err)
+	}
+	if r.Rows() != 5 {
+		t.Errorf("rows after mismatched attempts = %d, want 5 (nothing mixed in)", r.Rows())
+	}
+}
