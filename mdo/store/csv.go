@@ -1,0 +1,294 @@
+package store
+
+import (
+	"encoding/csv"
+	"fmt"
+	"io"
+	"math"
+	"strconv"
+	"strings"
+	"time"
+
+	"couplet/mdo"
+)
+
+// The CSV export has one row per evaluation and a header naming each
+// column and its unit in brackets:
+//
+//	id, feasible, converged, violation [-], error, iterations,
+//	discipline_calls, wall_seconds [s], design:NAME [unit]…,
+//	objective:NAME [unit]…, constraint:NAME [unit]…, margin:NAME [unit]…,
+//	output:NAME [unit]…, x:NAME [-]…, f:NAME [-]…, g:NAME [-]…
+//
+// x are the unit-box coordinates, f the objectives in minimised sense and
+// g the scaled constraints (≤ 0 when satisfied). Numbers are written so
+// that ReadCSV gives them back exactly; non-finite ones as NaN, Infinity,
+// -Infinity.
+
+// unitOf returns the unit of a name among the outputs, or "".
+func (c Columns) unitOf(name string) string {
+	for _, v := range c.Outputs {
+		if v.Name == name {
+			return v.Unit
+		}
+	}
+	return ""
+}
+
+// header returns the CSV header.
+func (c Columns) header() []string {
+	u := func(unit string) string {
+		if unit == "" {
+			return " [-]"
+		}
+		return " [" + unit + "]"
+	}
+	h := []string{"id", "feasible", "converged", "violation [-]", "error", "iterations", "discipline_calls", "wall_seconds [s]"}
+	for _, d := range c.Design {
+		h = append(h, "design:"+sanitize(d.Name)+u(d.Unit))
+	}
+	for _, o := range c.Objectives {
+		h = append(h, "objective:"+sanitize(o)+u(c.unitOf(o)))
+	}
+	for _, k := range c.Constraints {
+		h = append(h, "constraint:"+sanitize(k)+u(c.unitOf(k)))
+	}
+	for _, k := range c.Constraints {
+		h = append(h, "margin:"+sanitize(k)+u(c.unitOf(k)))
+	}
+	for _, v := range c.Outputs {
+		h = append(h, "output:"+sanitize(v.Name)+u(v.Unit))
+	}
+	for _, d := range c.Design {
+		h = append(h, "x:"+sanitize(d.Name)+" [-]")
+	}
+	for _, o := range c.Objectives {
+		h = append(h, "f:"+sanitize(o)+" [-]")
+	}
+	for _, k := range c.Constraints {
+		h = append(h, "g:"+sanitize(k)+" [-]")
+	}
+	return h
+}
+
+// WriteCSV writes evaluations as CSV with a header naming units.
+func WriteCSV(w io.Writer, c Columns, evs []*mdo.Evaluation) error {
+	cw := csv.NewWriter(w)
+	if err := cw.Write(c.header()); err != nil {
+		return fmt.Errorf("store: writing CSV: %w", err)
+	}
+	var row []string
+	for _, e := range evs {
+		row = c.appendRow(row[:0], e)
+		if err := cw.Write(row); err != nil {
+			return fmt.Errorf("store: writing CSV: %w", err)
+		}
+	}
+	cw.Flush()
+	if err := cw.Error(); err != nil {
+		return fmt.Errorf("store: writing CSV: %w", err)
+	}
+	return nil
+}
+
+// appendRow formats one evaluation.
+func (c Columns) appendRow(row []string, e *mdo.Evaluation) []string {
+	row = append(row, strconv.Itoa(e.ID), strconv.FormatBool(e.Feasible), strconv.FormatBool(e.Converged),
+		formatFloat(e.Violation), e.Err, strconv.Itoa(e.Iterations), strconv.Itoa(e.DisciplineCalls), formatFloat(e.Wall.Seconds()))
+	for _, xs := range [][]float64{e.Design, e.Objectives, e.Constraints, e.Margins} {
+		for _, x := range xs {
+			row = append(row, formatFloat(x))
+		}
+	}
+	for i := range c.Outputs {
+		x := math.NaN()
+		if i < len(e.Outputs) {
+			x = e.Outputs[i]
+		}
+		row = append(row, formatFloat(x))
+	}
+	for _, xs := range [][]float64{e.X, e.F, e.G} {
+		for _, x := range xs {
+			row = append(row, formatFloat(x))
+		}
+	}
+	return row
+}
+
+// WriteCSV streams the store's evaluations as CSV (see the package
+// function WriteCSV for the layout).
+func (s *Store) WriteCSV(w io.Writer) error {
+	c := s.Columns()
+	cw := csv.NewWriter(w)
+	if err := cw.Write(c.header()); err != nil {
+		return fmt.Errorf("store: writing CSV: %w", err)
+	}
+	var row []string
+	err := s.Scan(func(e *mdo.Evaluation) error {
+		row = c.appendRow(row[:0], e)
+		return cw.Write(row)
+	})
+	if err != nil {
+		return fmt.Errorf("store: writing CSV: %w", err)
+	}
+	cw.Flush()
+	if err := cw.Error(); err != nil {
+		return fmt.Errorf("store: writing CSV: %w", err)
+	}
+	return nil
+}
+
+// splitHeader splits "role:name [unit]" into its parts.
+func splitHeader(h string) (role, name, unit string, ok bool) {
+	role, rest, ok := strings.Cut(h, ":")
+	if !ok {
+		return "", "", "", false
+	}
+	i := strings.LastIndex(rest, " [")
+	if i < 0 || !strings.HasSuffix(rest, "]") {
+		return "", "", "", false
+	}
+	name, unit = rest[:i], rest[i+2:len(rest)-1]
+	if unit == "-" {
+		unit = ""
+	}
+	return role, name, unit, true
+}
+
+// ReadCSV reads a CSV written by WriteCSV back into columns and
+// evaluations. An unexpected header or a malformed number is an error
+// naming the line and the column.
+func ReadCSV(r io.Reader) (Columns, []*mdo.Evaluation, error) {
+	cr := csv.NewReader(r)
+	head, err := cr.Read()
+	if err != nil {
+		return Columns{}, nil, fmt.Errorf("store: reading the CSV header: %w", err)
+	}
+	fixed := []string{"id", "feasible", "converged", "violation [-]", "error", "iterations", "discipline_calls", "wall_seconds [s]"}
+	if len(head) < len(fixed) {
+		return Columns{}, nil, fmt.Errorf("store: CSV header has %d columns, a case export has at least %d", len(head), len(fixed))
+	}
+	for i, f := range fixed {
+		if head[i] != f {
+			return Columns{}, nil, fmt.Errorf("store: CSV column %d is %q, want %q", i+1, head[i], f)
+		}
+	}
+	var c Columns
+	var order []string
+	for i, h := range head[len(fixed):] {
+		role, name, unit, ok := splitHeader(h)
+		if !ok {
+			return Columns{}, nil, fmt.Errorf("store: CSV column %d %q is not of the form role:name [unit]", i+len(fixed)+1, h)
+		}
+		order = append(order, role)
+		switch role {
+		case "design":
+			c.Design = append(c.Design, mdo.DesignSpec{Name: name, Unit: unit})
+		case "objective":
+			c.Objectives = append(c.Objectives, name)
+		case "constraint":
+			c.Constraints = append(c.Constraints, name)
+		case "output":
+			c.Outputs = append(c.Outputs, mdo.Var{Name: name, Unit: unit})
+		case "margin", "x", "f", "g":
+		default:
+			return Columns{}, nil, fmt.Errorf("store: CSV column %d %q has an unknown role %q", i+len(fixed)+1, h, role)
+		}
+	}
+	if got, want := len(head), len(c.header()); got != want {
+		return Columns{}, nil, fmt.Errorf("store: CSV header has %d columns, its roles call for %d", got, want)
+	}
+	for i, h := range c.header() {
+		if head[i] != h {
+			return Columns{}, nil, fmt.Errorf("store: CSV column %d is %q, want %q", i+1, head[i], h)
+		}
+	}
+	var evs []*mdo.Evaluation
+	for line := 2; ; line++ {
+		rec, err := cr.Read()
+		if err == io.EOF {
+			break
+		}
+		if err != nil {
+			return c, nil, fmt.Errorf("store: reading CSV line %d: %w", line, err)
+		}
+		e, err := c.parseRow(rec, head)
+		if err != nil {
+			return c, nil, fmt.Errorf("store: CSV line %d: %w", line, err)
+		}
+		evs = append(evs, e)
+	}
+	return c, evs, nil
+}
+
+// parseRow decodes one CSV record.
+func (c Columns) parseRow(rec, head []string) (*mdo.Evaluation, error) {
+	col := 0
+	bad := func(err error) error { return fmt.Errorf("column %q = %q: %w", head[col], rec[col], err) }
+	next := func() string { col++; return rec[col-1] }
+	integer := func() (int, error) {
+		v, err := strconv.Atoi(next())
+		if err != nil {
+			col--
+			return 0, bad(err)
+		}
+		return v, nil
+	}
+	boolean := func() (bool, error) {
+		v, err := strconv.ParseBool(next())
+		if err != nil {
+			col--
+			return false, bad(err)
+		}
+		return v, nil
+	}
+	floats := func(n int) ([]float64, error) {
+		out := make([]float64, n)
+		for k := range out {
+			v, err := parseFloat(next())
+			if err != nil {
+				col--
+				return nil, bad(err)
+			}
+			out[k] = v
+		}
+		return out, nil
+	}
+	e := &mdo.Evaluation{}
+	var err error
+	if e.ID, err = integer(); err != nil {
+		return nil, err
+	}
+	if e.Feasible, err = boolean(); err != nil {
+		return nil, err
+	}
+	if e.Converged, err = boolean(); err != nil {
+		return nil, err
+	}
+	v, err := floats(1)
+	if err != nil {
+		return nil, err
+	}
+	e.Violation = v[0]
+	e.Err = next()
+	if e.Iterations, err = integer(); err != nil {
+		return nil, err
+	}
+	if e.DisciplineCalls, err = integer(); err != nil {
+		return nil, err
+	}
+	if v, err = floats(1); err != nil {
+		return nil, err
+	}
+	e.Wall = time.Duration(math.Round(v[0] * 1e9))
+	nd, no, nc := len(c.Design), len(c.Objectives), len(c.Constraints)
+	for _, dst := range []struct {
+		p *[]float64
+		n int
+	}{{&e.Design, nd}, {&e.Objectives, no}, {&e.Constraints, nc}, {&e.Margins, nc}, {&e.Outputs, len(c.Outputs)}, {&e.X, nd}, {&e.F, no}, {&e.G, nc}} {
+		if *dst.p, err = floats(dst.n); err != nil {
+			return nil, err
+		}
+	}
+	return e, nil
+}

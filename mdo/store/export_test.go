@@ -1,0 +1,193 @@
+package store
+
+import (
+	"bytes"
+	"context"
+	"encoding/json"
+	"math"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"couplet/mdo"
+)
+
+func TestCSVRoundTrip(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "c.db")
+	s, err := Create(path, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer s.Close()
+	ev := sellarEvaluator(t, s, 3, sellarScript)
+	evs, err := ev.Evaluate(context.Background(), grid(25, 3))
+	if err != nil {
+		t.Fatal(err)
+	}
+	// and a failed evaluation with non-finite values
+	failed := *evs[0]
+	failed.ID = 99
+	failed.Converged, failed.Feasible, failed.Err, failed.Violation = false, false, "discipline d1: \"quoted\", with comma", math.Inf(1)
+	failed.Objectives = []float64{math.NaN()}
+	failed.F = []float64{math.Inf(1)}
+	failed.Constraints = []float64{math.NaN(), math.NaN()}
+	failed.Margins = []float64{math.Inf(-1), math.Inf(-1)}
+	failed.G = []float64{math.Inf(1), math.Inf(1)}
+	evs = append(evs, &failed)
+	cols := Columns{Design: ev.DesignSpecs(), Objectives: ev.ObjectiveNames(), Outputs: ev.OutputVars()}
+	for _, c := range ev.Constraints() {
+		cols.Constraints = append(cols.Constraints, c.Name)
+	}
+	var buf bytes.Buffer
+	if err := WriteCSV(&buf, cols, evs); err != nil {
+		t.Fatal(err)
+	}
+	head := strings.SplitN(buf.String(), "\n", 2)[0]
+	for _, w := range []string{"design:x [-]", "design:z1 [-]", "objective:f [-]", "constraint:g1 [-]", "margin:g2 [-]", "output:y1 [-]", "wall_seconds [s]"} {
+		if !strings.Contains(head, w) {
+			t.Errorf("CSV header %q lacks %q", head, w)
+		}
+	}
+	gotCols, back, err := ReadCSV(bytes.NewReader(buf.Bytes()))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(back) != len(evs) {
+		t.Fatalf("read back %d rows, wrote %d", len(back), len(evs))
+	}
+	for i := range evs {
+		if f := sameEvaluation(back[i], evs[i]); f != "" {
+			t.Errorf("row %d differs in %s after the CSV round trip", i, f)
+		}
+	}
+	if len(gotCols.Design) != 3 || gotCols.Design[1].Name != "z1" || len(gotCols.Outputs) != len(cols.Outputs) {
+		t.Errorf("columns read back = %+v", gotCols)
+	}
+	// the store's streaming export gives the same text for what it holds
+	var fromStore bytes.Buffer
+	if err := s.WriteCSV(&fromStore); err != nil {
+		t.Fatal(err)
+	}
+	var direct bytes.Buffer
+	if err := WriteCSV(&direct, s.Columns(), evs[:len(evs)-1]); err != nil {
+		t.Fatal(err)
+	}
+	if fromStore.String() != direct.String() {
+		t.Error("Store.WriteCSV differs from WriteCSV of the same evaluations")
+	}
+}
+
+func TestReadCSVErrors(t *testing.T) {
+	tests := []struct {
+		name, text, want string
+	}{
+		{"empty", "", "header"},
+		{"foreign header", "a,b,c,d,e,f,g,h\n", `column 1 is "a"`},
+		{"bad role", "id,feasible,converged,violation [-],error,iterations,discipline_calls,wall_seconds [s],speed:v [m/s]\n", `unknown role "speed"`},
+		{"no unit", "id,feasible,converged,violation [-],error,iterations,discipline_calls,wall_seconds [s],design:x\n", "role:name [unit]"},
+		{"bad number", "id,feasible,converged,violation [-],error,iterations,discipline_calls,wall_seconds [s],design:x [m],x:x [-]\n0,true,true,0,,1,2,0.5,fast,0.5\n", `line 2: column "design:x [m]" = "fast"`},
+	}
+	for _, tc := range tests {
+		_, _, err := ReadCSV(strings.NewReader(tc.text))
+		if err == nil || !strings.Contains(err.Error(), tc.want) {
+			t.Errorf("%s: err = %v, want it to contain %q", tc.name, err, tc.want)
+		}
+	}
+}
+
+// runSellar runs a fixed grid over a study and returns the result.
+func runSellar(t *testing.T, st *mdo.Study, n int) *mdo.Result {
+	t.Helper()
+	ev, err := st.NewEvaluator()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := ev.Begin("grid", nil); err != nil {
+		t.Fatal(err)
+	}
+	if _, err := ev.Evaluate(context.Background(), grid(n, 3)); err != nil {
+		t.Fatal(err)
+	}
+	r, err := ev.Finish("budget")
+	if err != nil {
+		t.Fatal(err)
+	}
+	return r
+}
+
+func TestSummary(t *testing.T) {
+	dir := t.TempDir()
+	var texts []string
+	for run := 0; run < 2; run++ {
+		st, err := mdo.SellarStudy(mdo.MDF)
+		if err != nil {
+			t.Fatal(err)
+		}
+		st.Seed = 11
+		r := runSellar(t, st, 60)
+		p := filepath.Join(dir, "summary.json")
+		if err := WriteSummary(p, r, SummaryOptions{Script: sellarScript, ToolVersion: "t"}); err != nil {
+			t.Fatal(err)
+		}
+		b, err := os.ReadFile(p)
+		if err != nil {
+			t.Fatal(err)
+		}
+		var raw map[string]any
+		if err := json.Unmarshal(b, &raw); err != nil {
+			t.Fatal(err)
+		}
+		delete(raw, "timestamps")
+		again, _ := json.Marshal(raw)
+		texts = append(texts, string(again))
+
+		s, err := ReadSummary(p)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if s.Study != "sellar" || s.Seed != 11 || s.Evaluations != 60 || s.Best == nil || s.Front != nil {
+			t.Fatalf("summary = %+v", s)
+		}
+		if float64(s.Best.Objective) != r.Objective() || s.Best.Feasible != r.Feasible() {
+			t.Errorf("best objective %v feasible %v, result %v %v", s.Best.Objective, s.Best.Feasible, r.Objective(), r.Feasible())
+		}
+		for name, v := range r.DesignValues() {
+			if float64(s.Best.Design[name]) != v {
+				t.Errorf("design %s = %v, result %v", name, s.Best.Design[name], v)
+			}
+		}
+		if len(s.Best.Constraints) != 2 || float64(s.Best.Constraints["g2"]) != r.Best.Constraints[1] {
+			t.Errorf("constraints = %v", s.Best.Constraints)
+		}
+		if s.Timestamps.Started == "" || s.Timestamps.Finished == "" {
+			t.Errorf("timestamps missing: %+v", s.Timestamps)
+		}
+		if s.ScriptSHA256 != ScriptHash(sellarScript) {
+			t.Errorf("script hash %s", s.ScriptSHA256)
+		}
+	}
+	if texts[0] != texts[1] {
+		t.Errorf("two runs give different summaries apart from timestamps:\n%s\n%s", texts[0], texts[1])
+	}
+
+	// two objectives: a front instead of a best point
+	st, err := mdo.SellarStudy(mdo.MDF)
+	if err != nil {
+		t.Fatal(err)
+	}
+	st.Objectives = []mdo.Objective{mdo.Minimize("f"), mdo.Maximize("y2")}
+	r := runSellar(t, st, 60)
+	s := NewSummary(r, SummaryOptions{})
+	if s.Best != nil || len(s.Front) == 0 || len(s.Front) != len(r.Front) {
+		t.Fatalf("two-objective summary: best %v, front %d points (result front %d)", s.Best, len(s.Front), len(r.Front))
+	}
+	if _, ok := s.Front[0].Objectives["y2"]; !ok {
+		t.Errorf("front point lacks objective y2: %+v", s.Front[0])
+	}
+	// NaN encodes as null
+	b, err := json.Marshal(Number(math.NaN()))
+	if err != nil || string(b) != "null" {
+		t.Errorf("NaN encodes as %s, %v; want null", b, err)
+	}
+}

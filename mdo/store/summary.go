@@ -1,0 +1,200 @@
+package store
+
+import (
+	"encoding/json"
+	"fmt"
+	"math"
+	"os"
+	"path/filepath"
+	"strconv"
+	"time"
+
+	"couplet/mdo"
+)
+
+// Summary is the content of a run's summary.json. Apart from Timestamps,
+// two runs of the same script and seed give identical summaries.
+type Summary struct {
+	Study       string `json:"study"`
+	Seed        uint64 `json:"seed"`
+	Optimizer   string `json:"optimizer"`
+	Formulation string `json:"formulation"`
+	// Evaluations is the number of distinct evaluations recorded (one
+	// row each in results.db): analysed plus restored on resume.
+	Evaluations int `json:"evaluations"`
+	// Requests counts every point the optimiser asked for, repeats
+	// answered from the cache included.
+	Requests  int    `json:"requests"`
+	Analyses  int    `json:"analyses"`
+	CacheHits int    `json:"cache_hits"`
+	Restored  int    `json:"restored"`
+	Failed    int    `json:"failed"`
+	Stop      string `json:"stop"`
+	// Best is the best point of a single-objective study; a study with
+	// several objectives gives Front instead.
+	Best         *SummaryPoint  `json:"best,omitempty"`
+	Front        []SummaryPoint `json:"front,omitempty"`
+	ScriptSHA256 string         `json:"script_sha256,omitempty"`
+	ToolVersion  string         `json:"tool_version,omitempty"`
+	Timestamps   Timestamps     `json:"timestamps"`
+}
+
+// SummaryPoint is one design point of a summary.
+type SummaryPoint struct {
+	ID int `json:"id"`
+	// Objective is the first objective as declared.
+	Objective   Number            `json:"objective"`
+	Objectives  map[string]Number `json:"objectives"`
+	Design      map[string]Number `json:"design"`
+	Feasible    bool              `json:"feasible"`
+	Violation   Number            `json:"violation"`
+	Constraints map[string]Number `json:"constraints"`
+	Margins     map[string]Number `json:"margins"`
+	Error       string            `json:"error,omitempty"`
+}
+
+// Timestamps are the times of a run, the only part of a summary that
+// changes between two runs of the same script and seed.
+type Timestamps struct {
+	Started        string  `json:"started"`
+	Finished       string  `json:"finished"`
+	ElapsedSeconds float64 `json:"elapsed_seconds"`
+}
+
+// Number is a float64 that encodes NaN and ±Inf as JSON null.
+type Number float64
+
+// MarshalJSON encodes finite numbers in the shortest exact form.
+func (n Number) MarshalJSON() ([]byte, error) {
+	x := float64(n)
+	if math.IsNaN(x) || math.IsInf(x, 0) {
+		return []byte("null"), nil
+	}
+	return strconv.AppendFloat(nil, x, 'g', -1, 64), nil
+}
+
+// UnmarshalJSON decodes a number or null (as NaN).
+func (n *Number) UnmarshalJSON(b []byte) error {
+	if string(b) == "null" {
+		*n = Number(math.NaN())
+		return nil
+	}
+	x, err := strconv.ParseFloat(string(b), 64)
+	if err != nil {
+		return fmt.Errorf("store: summary number %s: %w", b, err)
+	}
+	*n = Number(x)
+	return nil
+}
+
+// SummaryOptions add provenance to a summary.
+type SummaryOptions struct {
+	// Script is the study's source; its SHA-256 goes into the summary.
+	Script      string
+	ToolVersion string
+	// Finished is the end time; zero means Started + Elapsed.
+	Finished time.Time
+}
+
+// NewSummary builds the summary of a result.
+func NewSummary(r *mdo.Result, opt SummaryOptions) Summary {
+	s := Summary{
+		Study: r.Study, Seed: r.Seed, Optimizer: r.Optimizer, Formulation: r.Formulation.String(),
+		Evaluations: r.Analyses + r.Restored, Requests: r.Evaluations, Analyses: r.Analyses,
+		CacheHits: r.CacheHits, Restored: r.Restored, Failed: r.Failed, Stop: r.Stop, ToolVersion: opt.ToolVersion,
+	}
+	if opt.Script != "" {
+		s.ScriptSHA256 = ScriptHash(opt.Script)
+	}
+	if len(r.Objectives) >= 2 {
+		s.Front = make([]SummaryPoint, 0, len(r.Front))
+		for _, p := range r.Front {
+			s.Front = append(s.Front, summaryPoint(r, p))
+		}
+	} else if r.Best != nil {
+		p := summaryPoint(r, r.Best)
+		s.Best = &p
+	}
+	fin := opt.Finished
+	if fin.IsZero() {
+		fin = r.Started.Add(r.Elapsed)
+	}
+	s.Timestamps = Timestamps{Started: r.Started.UTC().Format(time.RFC3339Nano), Finished: fin.UTC().Format(time.RFC3339Nano), ElapsedSeconds: r.Elapsed.Seconds()}
+	return s
+}
+
+// summaryPoint describes one evaluation by name.
+func summaryPoint(r *mdo.Result, e *mdo.Evaluation) SummaryPoint {
+	p := SummaryPoint{ID: e.ID, Objective: Number(math.NaN()), Objectives: map[string]Number{}, Design: map[string]Number{},
+		Feasible: e.Feasible, Violation: Number(e.Violation), Constraints: map[string]Number{}, Margins: map[string]Number{}, Error: e.Err}
+	if len(e.Objectives) > 0 {
+		p.Objective = Number(e.Objectives[0])
+	}
+	for k, o := range r.Objectives {
+		if k < len(e.Objectives) {
+			p.Objectives[o.Name] = Number(e.Objectives[k])
+		}
+	}
+	for k, d := range r.Design {
+		if k < len(e.Design) {
+			p.Design[d.Name] = Number(e.Design[k])
+		}
+	}
+	for k, c := range r.Constraints {
+		if k < len(e.Constraints) {
+			p.Constraints[c.Name] = Number(e.Constraints[k])
+			p.Margins[c.Name] = Number(e.Margins[k])
+		}
+	}
+	return p
+}
+
+// WriteSummary writes the summary of a result to path (summary.json in
+// the run's output folder), atomically: a temporary file renamed into
+// place.
+func WriteSummary(path string, r *mdo.Result, opt SummaryOptions) error {
+	if r == nil {
+		return fmt.Errorf("store: WriteSummary(%s): the result is nil", path)
+	}
+	b, err := json.MarshalIndent(NewSummary(r, opt), "", "  ")
+	if err != nil {
+		return fmt.Errorf("store: encoding the summary: %w", err)
+	}
+	b = append(b, '\n')
+	tmp, err := os.CreateTemp(filepath.Dir(path), ".summary-*.json")
+	if err != nil {
+		return fmt.Errorf("store: writing %s: %w", path, err)
+	}
+	if err := tmp.Chmod(0o644); err != nil {
+		tmp.Close()
+		os.Remove(tmp.Name())
+		return fmt.Errorf("store: writing %s: %w", path, err)
+	}
+	if _, err := tmp.Write(b); err != nil {
+		tmp.Close()
+		os.Remove(tmp.Name())
+		return fmt.Errorf("store: writing %s: %w", path, err)
+	}
+	if err := tmp.Close(); err != nil {
+		os.Remove(tmp.Name())
+		return fmt.Errorf("store: writing %s: %w", path, err)
+	}
+	if err := os.Rename(tmp.Name(), path); err != nil {
+		os.Remove(tmp.Name())
+		return fmt.Errorf("store: writing %s: %w", path, err)
+	}
+	return nil
+}
+
+// ReadSummary reads a summary.json.
+func ReadSummary(path string) (Summary, error) {
+	var s Summary
+	b, err := os.ReadFile(path)
+	if err != nil {
+		return s, fmt.Errorf("store: reading %s: %w", path, err)
+	}
+	if err := json.Unmarshal(b, &s); err != nil {
+		return s, fmt.Errorf("store: %s is not a summary: %w", path, err)
+	}
+	return s, nil
+}
