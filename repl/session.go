@@ -320,8 +320,11 @@ func (s *Session) cellError(c *Cell, ch chunk, err error, trace string) error {
 	msg := err.Error()
 	line := ch.line
 	if m := posRE.FindStringSubmatch(msg); m != nil {
-		l, _ := strconv.Atoi(m[1])
-		line = ch.line + l - 1
+		// The interpreter sometimes places an error in a source of its
+		// own; trust the line only when it lies inside the chunk.
+		if l, _ := strconv.Atoi(m[1]); l >= 1 && l <= strings.Count(ch.src, "\n")+1 {
+			line = ch.line + l - 1
+		}
 		msg = msg[len(m[0]):]
 	}
 	msg = cleanMessage(msg)

@@ -58,6 +58,7 @@ func splitCell(src string) ([]chunk, []importRef, error) {
 	}
 	var units []unit
 	depth := 0
+	header := false
 	start := -1
 	var first []token.Token // first tokens of the current unit
 	var firstLit []string
@@ -76,9 +77,18 @@ func splitCell(src string) ([]chunk, []importRef, error) {
 			break
 		}
 		off := file.Offset(pos)
-		if tok == token.SEMICOLON && depth == 0 {
+		if tok == token.SEMICOLON && depth == 0 && !(header && lit == ";") {
 			closeUnit(off)
+			header = false
 			continue
+		}
+		if depth == 0 {
+			switch tok {
+			case token.IF, token.FOR, token.SWITCH, token.SELECT:
+				header = true // its init; cond; post semicolons do not end it
+			case token.LBRACE:
+				header = false
+			}
 		}
 		if start < 0 {
 			start = off

@@ -13,8 +13,10 @@ import (
 	"os"
 	"path/filepath"
 	"regexp"
+	"runtime"
 	"sort"
 	"strings"
+	"sync"
 
 	"github.com/traefik/yaegi/extract"
 )
@@ -22,6 +24,7 @@ import (
 // Framework lists the couplet packages exposed to scripts.
 var Framework = []string{
 	"couplet/mdo",
+	"couplet/optimizers",
 }
 
 // Curated lists the standard packages a sandboxed script may import:
@@ -101,20 +104,44 @@ func writeSet(dir, dest string, pkgs []string) error {
 	}
 	sorted := append([]string(nil), pkgs...)
 	sort.Strings(sorted)
-	for _, p := range sorted {
-		ext := extract.Extractor{Dest: dest, Exclude: exclude[p]}
-		var buf bytes.Buffer
-		if _, err := ext.Extract(p, "", &buf); err != nil {
-			return fmt.Errorf("symgen: extracting %s: %w", p, err)
-		}
-		src, err := format.Source(buildTag.ReplaceAll(buf.Bytes(), nil))
-		if err != nil {
-			return fmt.Errorf("symgen: formatting %s: %w", p, err)
+	// Each extraction type-checks its package from source; run them side
+	// by side.
+	srcs := make([][]byte, len(sorted))
+	errs := make([]error, len(sorted))
+	sem := make(chan struct{}, runtime.GOMAXPROCS(0))
+	var wg sync.WaitGroup
+	for i, p := range sorted {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			sem <- struct{}{}
+			defer func() { <-sem }()
+			srcs[i], errs[i] = extractOne(dest, p)
+		}()
+	}
+	wg.Wait()
+	for i, p := range sorted {
+		if errs[i] != nil {
+			return errs[i]
 		}
 		name := prefix + strings.NewReplacer("/", "_", ".", "_").Replace(p) + ".go"
-		if err := os.WriteFile(filepath.Join(dir, name), src, 0o644); err != nil {
+		if err := os.WriteFile(filepath.Join(dir, name), srcs[i], 0o644); err != nil {
 			return fmt.Errorf("symgen: %w", err)
 		}
 	}
 	return nil
+}
+
+// extractOne returns the formatted table of one package.
+func extractOne(dest, p string) ([]byte, error) {
+	ext := extract.Extractor{Dest: dest, Exclude: exclude[p]}
+	var buf bytes.Buffer
+	if _, err := ext.Extract(p, "", &buf); err != nil {
+		return nil, fmt.Errorf("symgen: extracting %s: %w", p, err)
+	}
+	src, err := format.Source(buildTag.ReplaceAll(buf.Bytes(), nil))
+	if err != nil {
+		return nil, fmt.Errorf("symgen: formatting %s: %w", p, err)
+	}
+	return src, nil
 }
