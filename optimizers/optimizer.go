@@ -261,9 +261,41 @@ func cmpFloat(a, b float64) int {
 	return 0
 }
 
-// sortByDeb sorts indices of evs best first by Deb's rules, stable.
-func sortByDeb(idx []int, evs []*mdo.Evaluation) {
-	sort.SliceStable(idx, func(i, j int) bool { return compare(evs[idx[i]], evs[idx[j]]) < 0 })
+// violation returns the violation of an evaluation (+Inf for none).
+func violation(e *mdo.Evaluation) float64 {
+	if e == nil {
+		return math.Inf(1)
+	}
+	return e.Violation
+}
+
+// compareEps is the ε-level comparison (Takahama & Sakai, 2006): points
+// whose violation is at most eps compare by objective as if feasible; the
+// others by violation, after them. With eps = 0 it is compare.
+func compareEps(a, b *mdo.Evaluation, eps float64) int {
+	if eps <= 0 {
+		return compare(a, b)
+	}
+	va, vb := violation(a), violation(b)
+	aOK, bOK := va <= eps, vb <= eps
+	switch {
+	case aOK && bOK:
+		if c := cmpFloat(a.F[0], b.F[0]); c != 0 {
+			return c
+		}
+		return cmpFloat(va, vb)
+	case aOK:
+		return -1
+	case bOK:
+		return 1
+	}
+	return cmpFloat(va, vb)
+}
+
+// sortByDeb sorts indices of evs best first by the ε-level comparison
+// (Deb's rules when eps = 0), stable.
+func sortByDeb(idx []int, evs []*mdo.Evaluation, eps float64) {
+	sort.SliceStable(idx, func(i, j int) bool { return compareEps(evs[idx[i]], evs[idx[j]], eps) < 0 })
 }
 
 // clip01 clips u into [0, 1].

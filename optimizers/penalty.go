@@ -206,7 +206,6 @@ func (m *merit) update(ev *mdo.Evaluation) {
 	m.lastVio = vio
 }
 
-
 // innerFunc runs one inner minimisation from the box point x0 with the
 // given merit; it returns the best evaluation by merit, why it stopped and
 // an error.

@@ -1,0 +1,138 @@
+package optimizers
+
+import (
+	"context"
+	"math"
+	"math/rand"
+
+	"couplet/mdo"
+)
+
+// DifferentialEvolution is DE/rand/1/bin (Storn & Price, 1997) on eaopt's
+// engine, generation by generation: each target gets a trial vector
+// a + F·(b − c) crossed binomially with it, repaired into the unit box
+// (eaopt's own DiffEvo lets mutants leave the box and evaluates them one
+// at a time), and the whole generation is evaluated as one batch; a trial
+// replaces its target when it is at least as good by Deb's feasibility
+// rules. Integer design variables are searched as continuous coordinates
+// that the Evaluator rounds. Zero values take the defaults.
+type DifferentialEvolution struct {
+	// Population is the number of agents; default 10 per variable, at
+	// least 20 and at most 100.
+	Population int
+	// Generations after the first population; default 200.
+	Generations int
+	// MaxEvaluations caps the evaluations (0: no cap besides
+	// Generations); a generation that would pass it is not run.
+	// Relax is the fraction of the generations during which constraints
+	// are relaxed by the ε-level comparison; default 0.5, negative for
+	// Deb's rules throughout.
+	Relax          float64
+	MaxEvaluations int
+	// Weight is the differential weight F; default 0.5.
+	Weight float64
+	// CrossoverRate is the binomial crossover rate CR; default 0.9.
+	CrossoverRate float64
+	// Repair brings trial vectors back into the box; default Clip.
+	Repair Repair
+}
+
+// Name implements Optimizer.
+func (DifferentialEvolution) Name() string { return "differential evolution" }
+
+// validate checks the settings.
+func (o DifferentialEvolution) validate() error {
+	const m = "DifferentialEvolution"
+	if err := checkInt(m, "Population", o.Population, 4); err != nil {
+		return err
+	}
+	if err := checkInt(m, "Generations", o.Generations, 1); err != nil {
+		return err
+	}
+	if err := checkInt(m, "MaxEvaluations", o.MaxEvaluations, 1); err != nil {
+		return err
+	}
+	if o.Relax > 1 || math.IsNaN(o.Relax) {
+		return settingError(m, "Relax", o.Relax, "must be at most 1 (0 means the default 0.5, negative means no relaxation)")
+	}
+	if err := checkRange(m, "Weight", o.Weight, 0, 2, true); err != nil {
+		return err
+	}
+	if err := checkRange(m, "CrossoverRate", o.CrossoverRate, 0, 1, false); err != nil {
+		return err
+	}
+	return o.Repair.validate(m)
+}
+
+// Minimize implements Optimizer.
+func (o DifferentialEvolution) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error) {
+	if err := o.validate(); err != nil {
+		return nil, err
+	}
+	r, err := begin(ctx, s, o.Name(), o)
+	if err != nil {
+		return nil, err
+	}
+	if err := r.refuseMultiObjective(); err != nil {
+		return nil, err
+	}
+	r.maxEvals = o.MaxEvaluations
+	dim := r.ev.Dim()
+	n := or(o.Population, defaultPopulation(dim))
+	f := or(o.Weight, 0.5)
+	cr := or(o.CrossoverRate, 0.9)
+	e := &engine{r: r, relax: relaxFraction(o.Relax)}
+	e.initial = func(rng *rand.Rand) *member { return e.newMember(uniformPoint(dim, rng)) }
+	e.generation = func(pop []*member, rng *rand.Rand) ([]*member, error) {
+		trials := make([]*member, n)
+		for i, t := range pop {
+			a, b, c := distinct3(n, i, rng)
+			jr := rng.Intn(dim)
+			x := append([]float64(nil), t.x...)
+			for k := range x {
+				if k == jr || rng.Float64() < cr {
+					x[k] = pop[a].x[k] + f*(pop[b].x[k]-pop[c].x[k])
+				}
+			}
+			o.Repair.repairAll(x)
+			trials[i] = e.newMember(x)
+		}
+		if err := e.evaluateAll(trials); err != nil {
+			return nil, err
+		}
+		next := make([]*member, n)
+		for i, t := range pop {
+			next[i] = t
+			if e.notWorse(trials[i].ev, t.ev) {
+				next[i] = trials[i]
+			}
+		}
+		e.rank(next)
+		return next, nil
+	}
+	stop, err := e.evolve(n, or(o.Generations, 200), newRand(r.ev.Seed(), 2))
+	return r.finish(stop, err)
+}
+
+// distinct3 draws three distinct indices in [0, n), all different from i.
+func distinct3(n, i int, rng *rand.Rand) (int, int, int) {
+	pick := func(not ...int) int {
+		for {
+			j := rng.Intn(n)
+			ok := true
+			for _, x := range not {
+				if j == x {
+					ok = false
+					break
+				}
+			}
+			if ok {
+				return j
+			}
+		}
+	}
+	a := pick(i)
+	b := pick(i, a)
+	c := pick(i, a, b)
+	return a, b, c
+}

@@ -1,0 +1,291 @@
+package optimizers
+
+import (
+	"errors"
+	"math"
+	"math/rand"
+	"sort"
+
+	"github.com/MaxHalford/eaopt"
+
+	"couplet/mdo"
+)
+
+// The genetic algorithm, differential evolution and particle swarm run on
+// eaopt's GA engine (one population, its generations, random source,
+// callback and early stop), with a Model of their own per method. eaopt
+// would evaluate each genome on its own (possibly from several goroutines,
+// in an order that is not fixed); here every generation is evaluated as one
+// batch through the Study's Evaluator before eaopt asks for a fitness, so
+// the worker pool is used and the result is the same with any number of
+// workers. A genome's fitness is its rank in the population by Deb's
+// feasibility rules, so eaopt's sorting and tournament selection follow
+// those rules exactly.
+//
+// Equality constraints (IDF consistency among them) leave a feasible set
+// too thin for a population to find by Deb's rules alone. In a study with
+// an equality constraint the methods therefore compare by the ε level of Takahama & Sakai (2006): during the
+// first part of the run a point whose violation is at most ε counts as
+// feasible, ε falling from the violation of the first population's best
+// fifth to 0 as (1 − t/Tc)^5. From generation Tc on, and always for the
+// best point of the Result, the plain rules apply.
+
+// member is one individual: a point of the unit box and its evaluation.
+type member struct {
+	x  []float64
+	ev *mdo.Evaluation
+	// rank is the position in the population by Deb's rules (0 best).
+	rank int
+	// particle swarm only: velocity and personal best.
+	vel   []float64
+	bestX []float64
+	best  *mdo.Evaluation
+	eng   *engine
+}
+
+// Evaluate implements eaopt.Genome: the rank, after the member's batch has
+// been evaluated.
+func (m *member) Evaluate() (float64, error) {
+	if m.ev == nil {
+		if err := m.eng.flush(); err != nil {
+			return 0, err
+		}
+	}
+	return float64(m.rank), nil
+}
+
+// Mutate implements eaopt.Genome; the models vary the members themselves.
+func (m *member) Mutate(*rand.Rand) {}
+
+// Crossover implements eaopt.Genome; the models vary the members
+// themselves.
+func (m *member) Crossover(eaopt.Genome, *rand.Rand) {}
+
+// Clone implements eaopt.Genome.
+func (m *member) Clone() eaopt.Genome {
+	c := *m
+	c.x = append([]float64(nil), m.x...)
+	c.vel = append([]float64(nil), m.vel...)
+	c.bestX = append([]float64(nil), m.bestX...)
+	return &c
+}
+
+// errStop ends eaopt's run when the budget is spent or the context is
+// cancelled in the middle of a generation.
+var errStop = errors.New("optimizers: evolution stopped")
+
+// engine ties eaopt's GA to a run.
+type engine struct {
+	r       *run
+	dim     int
+	pending []*member
+	stop    string
+	err     error
+	// generation is called for each generation after the first with the
+	// population (sorted best first) and the random source; it returns
+	// the next population, evaluated and sorted best first.
+	generation func(pop []*member, rng *rand.Rand) ([]*member, error)
+	// eps is the current ε level of the comparison (0: Deb's rules);
+	// eps0 its initial value, relaxGens the generations over which it
+	// falls to 0, gen the current generation.
+	eps, eps0 float64
+	relax     float64
+	relaxGens int
+	gen       int
+	// initial draws a member of the first population.
+	initial func(rng *rand.Rand) *member
+}
+
+// evaluateAll evaluates members as one batch.
+func (e *engine) evaluateAll(ms []*member) error {
+	xs := make([][]float64, len(ms))
+	for i, m := range ms {
+		xs[i] = m.x
+	}
+	evs, stop, err := e.r.evaluate(xs)
+	if err != nil {
+		e.err = err
+		return err
+	}
+	if stop != "" {
+		e.stop = stop
+		return errStop
+	}
+	for i, m := range ms {
+		m.ev = evs[i]
+	}
+	return nil
+}
+
+// flush evaluates the members created since the last flush (the first
+// population) and ranks them.
+func (e *engine) flush() error {
+	ms := e.pending
+	e.pending = nil
+	if err := e.evaluateAll(ms); err != nil {
+		return err
+	}
+	e.startEpsilon(ms)
+	e.rank(ms)
+	return nil
+}
+
+// startEpsilon sets the initial ε level from the first population: the
+// violation of its member at the fifth (Takahama & Sakai's θ = 0.2),
+// ignoring failed analyses.
+func (e *engine) startEpsilon(ms []*member) {
+	if e.relaxGens <= 0 {
+		return
+	}
+	var v []float64
+	for _, m := range ms {
+		if x := violation(m.ev); !math.IsInf(x, 0) {
+			v = append(v, x)
+		}
+	}
+	if len(v) == 0 {
+		return
+	}
+	sort.Float64s(v)
+	e.eps0 = v[int(0.2*float64(len(v)-1))]
+	e.eps = e.eps0
+}
+
+// nextEpsilon lowers the ε level for generation e.gen:
+// ε = ε0 (1 − t/Tc)^5 until Tc, then 0 (Takahama & Sakai's schedule).
+func (e *engine) nextEpsilon() {
+	e.gen++
+	if e.relaxGens <= 0 || e.gen >= e.relaxGens {
+		e.eps = 0
+		return
+	}
+	e.eps = e.eps0 * math.Pow(1-float64(e.gen)/float64(e.relaxGens), 5)
+}
+
+// rank sorts members best first by the current comparison.
+func (e *engine) rank(ms []*member) { rankMembers(ms, e.eps) }
+
+// better reports whether a is at least as good as b by the current
+// comparison.
+func (e *engine) notWorse(a, b *mdo.Evaluation) bool { return compareEps(a, b, e.eps) <= 0 }
+
+// rankMembers sorts members best first by the ε-level comparison (Deb's
+// rules for eps = 0), stable, and sets their ranks.
+func rankMembers(ms []*member, eps float64) {
+	evs := make([]*mdo.Evaluation, len(ms))
+	idx := make([]int, len(ms))
+	for i, m := range ms {
+		evs[i] = m.ev
+		idx[i] = i
+	}
+	sortByDeb(idx, evs, eps)
+	sorted := make([]*member, len(ms))
+	for k, i := range idx {
+		sorted[k] = ms[i]
+		sorted[k].rank = k
+	}
+	copy(ms, sorted)
+}
+
+// Apply implements eaopt.Model: one generation.
+func (e *engine) Apply(pop *eaopt.Population) error {
+	cur := make([]*member, len(pop.Individuals))
+	for i, ind := range pop.Individuals {
+		cur[i] = ind.Genome.(*member)
+	}
+	e.nextEpsilon()
+	next, err := e.generation(cur, pop.RNG)
+	if err != nil {
+		return err
+	}
+	for i, m := range next {
+		pop.Individuals[i] = eaopt.Individual{Genome: m, Fitness: float64(m.rank), Evaluated: true, ID: pop.Individuals[i].ID}
+	}
+	return nil
+}
+
+// Validate implements eaopt.Model.
+func (e *engine) Validate() error { return nil }
+
+// evolve runs eaopt's GA engine with popSize members for generations
+// generations (the first population counts as generation 0) and returns
+// why it stopped.
+func (e *engine) evolve(popSize, generations int, rng *rand.Rand) (string, error) {
+	e.dim = e.r.ev.Dim()
+	if e.relax > 0 && hasEquality(e.r.ev.Constraints()) {
+		e.relaxGens = int(math.Ceil(e.relax * float64(generations)))
+	}
+	ga, err := eaopt.GAConfig{
+		NPops:        1,
+		PopSize:      uint(popSize),
+		NGenerations: uint(generations),
+		HofSize:      1,
+		Model:        e,
+		ParallelEval: false,
+		RNG:          rng,
+		Callback:     func(*eaopt.GA) { e.r.iteration() },
+		EarlyStop: func(*eaopt.GA) bool {
+			if err := e.r.ctx.Err(); err != nil {
+				e.stop = ctxStop(err)
+			}
+			return e.stop != ""
+		},
+	}.NewGA()
+	if err != nil {
+		return "", err
+	}
+	err = ga.Minimize(func(rng *rand.Rand) eaopt.Genome {
+		m := e.initial(rng)
+		m.eng = e
+		e.pending = append(e.pending, m)
+		return m
+	})
+	switch {
+	case e.err != nil:
+		return "", e.err
+	case errors.Is(err, errStop) || e.stop != "":
+		return e.stop, nil
+	case err != nil:
+		return "", err
+	}
+	return StopIterations, nil
+}
+
+// newMember returns a member at x, tied to the engine.
+func (e *engine) newMember(x []float64) *member {
+	return &member{x: x, eng: e}
+}
+
+// survivors keeps the best n of pop ∪ off by the current comparison,
+// parents first among equals (the (μ + λ) selection).
+func (e *engine) survivors(pop, off []*member, n int) []*member {
+	all := append(append([]*member(nil), pop...), off...)
+	e.rank(all)
+	out := all[:n]
+	for k, m := range out {
+		m.rank = k
+	}
+	return out
+}
+
+// relaxFraction returns the ε-level fraction of the run: 0.5 by default,
+// none when negative.
+func relaxFraction(v float64) float64 {
+	switch {
+	case v == 0:
+		return 0.5
+	case v < 0:
+		return 0
+	}
+	return v
+}
+
+// hasEquality reports whether any constraint is an equality.
+func hasEquality(cs []mdo.Constraint) bool {
+	for _, c := range cs {
+		if c.Kind == mdo.Equal {
+			return true
+		}
+	}
+	return false
+}

@@ -1,0 +1,141 @@
+package optimizers
+
+import (
+	"context"
+	"math"
+	"math/rand"
+
+	"github.com/MaxHalford/eaopt"
+
+	"couplet/mdo"
+)
+
+// GA is a real-coded genetic algorithm on eaopt's engine: tournament
+// selection (eaopt's SelTournament on the Deb rank), simulated binary
+// crossover and polynomial mutation in the unit box (Deb & Agrawal), and
+// (μ + λ) survival by Deb's feasibility rules, so the best point is never
+// lost. Integer design variables are searched as continuous coordinates
+// that the Evaluator rounds. Zero values take the defaults.
+type GA struct {
+	// Population is the number of individuals; default 20 per variable,
+	// at least 40 and at most 200.
+	Population int
+	// Generations after the first population; default 150.
+	Generations int
+	// MaxEvaluations caps the evaluations (0: no cap besides
+	// Generations); a generation that would pass it is not run.
+	// Relax is the fraction of the generations during which constraints
+	// are relaxed by the ε-level comparison; default 0.5, negative for
+	// Deb's rules throughout.
+	Relax          float64
+	MaxEvaluations int
+	// Tournament is the number of contestants per selection; default 2.
+	Tournament int
+	// CrossoverRate is the probability that a pair is crossed; default 0.9.
+	CrossoverRate float64
+	// CrossoverIndex is the SBX distribution index ηc; default 15.
+	CrossoverIndex float64
+	// MutationRate is the per-coordinate mutation probability; default
+	// 1/(number of variables).
+	MutationRate float64
+	// MutationIndex is the polynomial-mutation distribution index ηm;
+	// default 20.
+	MutationIndex float64
+}
+
+// Name implements Optimizer.
+func (GA) Name() string { return "GA" }
+
+// validate checks the settings.
+func (o GA) validate() error {
+	const m = "GA"
+	if err := checkInt(m, "Population", o.Population, 4); err != nil {
+		return err
+	}
+	if err := checkInt(m, "Generations", o.Generations, 1); err != nil {
+		return err
+	}
+	if err := checkInt(m, "MaxEvaluations", o.MaxEvaluations, 1); err != nil {
+		return err
+	}
+	if o.Relax > 1 || math.IsNaN(o.Relax) {
+		return settingError(m, "Relax", o.Relax, "must be at most 1 (0 means the default 0.5, negative means no relaxation)")
+	}
+	if err := checkInt(m, "Tournament", o.Tournament, 1); err != nil {
+		return err
+	}
+	if o.Tournament > 0 && o.Population > 0 && o.Tournament > o.Population-1 {
+		return settingError(m, "Tournament", o.Tournament, "must be less than Population")
+	}
+	if err := checkRange(m, "CrossoverRate", o.CrossoverRate, 0, 1, false); err != nil {
+		return err
+	}
+	if err := checkRange(m, "CrossoverIndex", o.CrossoverIndex, 0, 1000, true); err != nil {
+		return err
+	}
+	if err := checkRange(m, "MutationRate", o.MutationRate, 0, 1, false); err != nil {
+		return err
+	}
+	return checkRange(m, "MutationIndex", o.MutationIndex, 0, 1000, true)
+}
+
+// defaultPopulation is 10 per variable within [20, 100].
+func defaultPopulation(dim int) int { return min(max(10*dim, 20), 100) }
+
+// Minimize implements Optimizer.
+func (o GA) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error) {
+	if err := o.validate(); err != nil {
+		return nil, err
+	}
+	r, err := begin(ctx, s, o.Name(), o)
+	if err != nil {
+		return nil, err
+	}
+	if err := r.refuseMultiObjective(); err != nil {
+		return nil, err
+	}
+	r.maxEvals = o.MaxEvaluations
+	dim := r.ev.Dim()
+	n := or(o.Population, min(max(20*dim, 40), 200))
+	k := or(o.Tournament, 2)
+	if k > n-1 {
+		k = n - 1
+	}
+	pc := or(o.CrossoverRate, 0.9)
+	etaC := or(o.CrossoverIndex, 15)
+	pm := or(o.MutationRate, 1/float64(dim))
+	etaM := or(o.MutationIndex, 20)
+	e := &engine{r: r, relax: relaxFraction(o.Relax)}
+	e.initial = func(rng *rand.Rand) *member { return e.newMember(uniformPoint(dim, rng)) }
+	sel := eaopt.SelTournament{NContestants: uint(k)}
+	e.generation = func(pop []*member, rng *rand.Rand) ([]*member, error) {
+		inds := make(eaopt.Individuals, len(pop))
+		for i, m := range pop {
+			inds[i] = eaopt.Individual{Genome: m, Fitness: float64(m.rank), Evaluated: true}
+		}
+		off := make([]*member, 0, n)
+		for len(off) < n {
+			picked, _, err := sel.Apply(2, inds, rng)
+			if err != nil {
+				return nil, err
+			}
+			c1 := append([]float64(nil), picked[0].Genome.(*member).x...)
+			c2 := append([]float64(nil), picked[1].Genome.(*member).x...)
+			if rng.Float64() < pc {
+				sbx(c1, c2, etaC, rng)
+			}
+			polynomialMutation(c1, pm, etaM, rng)
+			polynomialMutation(c2, pm, etaM, rng)
+			off = append(off, e.newMember(c1))
+			if len(off) < n {
+				off = append(off, e.newMember(c2))
+			}
+		}
+		if err := e.evaluateAll(off); err != nil {
+			return nil, err
+		}
+		return e.survivors(pop, off, n), nil
+	}
+	stop, err := e.evolve(n, or(o.Generations, 150), newRand(r.ev.Seed(), 1))
+	return r.finish(stop, err)
+}

@@ -1,0 +1,274 @@
+package optimizers
+
+import (
+	"context"
+	"math"
+	"sort"
+
+	"couplet/mdo"
+)
+
+// NSGA2 is the elitist non-dominated sorting genetic algorithm of Deb,
+// Pratap, Agarwal & Meyarivan (2002): fast non-dominated sorting with Deb's
+// constrained domination (mdo.Dominates), crowding distance, binary
+// tournament by (rank, crowding), simulated binary crossover and
+// polynomial mutation in the unit box, and (μ + λ) survival front by
+// front. Each generation is evaluated as one batch. The Result's Front is
+// the Evaluator's archive: every feasible non-dominated point evaluated
+// during the run (a superset of the final population's first front, never
+// worse). Integer design variables are searched as continuous coordinates
+// that the Evaluator rounds. Zero values take the defaults.
+type NSGA2 struct {
+	// Population is the number of individuals (rounded up to even);
+	// default 100.
+	Population int
+	// Generations after the first population; default 200.
+	Generations int
+	// MaxEvaluations caps the evaluations (0: no cap besides
+	// Generations); a generation that would pass it is not run.
+	MaxEvaluations int
+	// CrossoverRate is the probability that a pair is crossed; default 0.9.
+	CrossoverRate float64
+	// CrossoverIndex is the SBX distribution index ηc; default 15.
+	CrossoverIndex float64
+	// MutationRate is the per-coordinate mutation probability; default
+	// 1/(number of variables).
+	MutationRate float64
+	// MutationIndex is the polynomial-mutation distribution index ηm;
+	// default 20.
+	MutationIndex float64
+}
+
+// Name implements Optimizer.
+func (NSGA2) Name() string { return "NSGA-II" }
+
+// validate checks the settings.
+func (o NSGA2) validate() error {
+	const m = "NSGA2"
+	if err := checkInt(m, "Population", o.Population, 4); err != nil {
+		return err
+	}
+	if err := checkInt(m, "Generations", o.Generations, 1); err != nil {
+		return err
+	}
+	if err := checkInt(m, "MaxEvaluations", o.MaxEvaluations, 1); err != nil {
+		return err
+	}
+	if err := checkRange(m, "CrossoverRate", o.CrossoverRate, 0, 1, false); err != nil {
+		return err
+	}
+	if err := checkRange(m, "CrossoverIndex", o.CrossoverIndex, 0, 1000, true); err != nil {
+		return err
+	}
+	if err := checkRange(m, "MutationRate", o.MutationRate, 0, 1, false); err != nil {
+		return err
+	}
+	return checkRange(m, "MutationIndex", o.MutationIndex, 0, 1000, true)
+}
+
+// Minimize implements Optimizer.
+func (o NSGA2) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error) {
+	if err := o.validate(); err != nil {
+		return nil, err
+	}
+	r, err := begin(ctx, s, o.Name(), o)
+	if err != nil {
+		return nil, err
+	}
+	r.maxEvals = o.MaxEvaluations
+	dim := r.ev.Dim()
+	n := or(o.Population, 100)
+	n += n % 2
+	pc := or(o.CrossoverRate, 0.9)
+	etaC := or(o.CrossoverIndex, 15)
+	pm := or(o.MutationRate, 1/float64(dim))
+	etaM := or(o.MutationIndex, 20)
+	rng := newRand(r.ev.Seed(), 4)
+
+	xs := make([][]float64, n)
+	for i := range xs {
+		xs[i] = uniformPoint(dim, rng)
+	}
+	evs, stop, err := r.evaluate(xs)
+	if stop != "" || err != nil {
+		return r.finish(stop, err)
+	}
+	pop := make([]nsgaInd, n)
+	for i := range pop {
+		pop[i] = nsgaInd{x: xs[i], ev: evs[i]}
+	}
+	assignRankCrowding(pop)
+	r.iteration()
+	gens := or(o.Generations, 200)
+	stop = StopIterations
+	for g := 0; g < gens; g++ {
+		off := make([][]float64, 0, n)
+		for len(off) < n {
+			a, b := tournament(pop, rng), tournament(pop, rng)
+			c1 := append([]float64(nil), pop[a].x...)
+			c2 := append([]float64(nil), pop[b].x...)
+			if rng.Float64() < pc {
+				sbx(c1, c2, etaC, rng)
+			}
+			polynomialMutation(c1, pm, etaM, rng)
+			polynomialMutation(c2, pm, etaM, rng)
+			off = append(off, c1, c2)
+		}
+		oevs, st, err := r.evaluate(off)
+		if st != "" || err != nil {
+			stop = st
+			if err != nil {
+				return r.finish("", err)
+			}
+			break
+		}
+		all := append([]nsgaInd(nil), pop...)
+		for i := range off {
+			all = append(all, nsgaInd{x: off[i], ev: oevs[i]})
+		}
+		pop = selectNext(all, n)
+		r.iteration()
+	}
+	return r.finish(stop, nil)
+}
+
+// nsgaInd is an individual of NSGA-II.
+type nsgaInd struct {
+	x     []float64
+	ev    *mdo.Evaluation
+	rank  int
+	crowd float64
+}
+
+// tournament picks the better of two random individuals by (rank, crowding).
+func tournament(pop []nsgaInd, rng interface{ Intn(int) int }) int {
+	a, b := rng.Intn(len(pop)), rng.Intn(len(pop))
+	switch {
+	case pop[a].rank < pop[b].rank:
+		return a
+	case pop[b].rank < pop[a].rank:
+		return b
+	case pop[a].crowd > pop[b].crowd:
+		return a
+	case pop[b].crowd > pop[a].crowd:
+		return b
+	}
+	return min(a, b)
+}
+
+// nonDominatedSort returns the fronts of evs (indices), best first, by the
+// fast non-dominated sort of Deb et al. (2002) with mdo.Dominates.
+func nonDominatedSort(evs []*mdo.Evaluation) [][]int {
+	n := len(evs)
+	dominated := make([][]int, n)
+	count := make([]int, n)
+	var front []int
+	for p := 0; p < n; p++ {
+		for q := 0; q < n; q++ {
+			if p == q {
+				continue
+			}
+			switch {
+			case mdo.Dominates(evs[p], evs[q]):
+				dominated[p] = append(dominated[p], q)
+			case mdo.Dominates(evs[q], evs[p]):
+				count[p]++
+			}
+		}
+		if count[p] == 0 {
+			front = append(front, p)
+		}
+	}
+	var fronts [][]int
+	for len(front) > 0 {
+		fronts = append(fronts, front)
+		var next []int
+		for _, p := range front {
+			for _, q := range dominated[p] {
+				count[q]--
+				if count[q] == 0 {
+					next = append(next, q)
+				}
+			}
+		}
+		sort.Ints(next)
+		front = next
+	}
+	return fronts
+}
+
+// crowdingDistance returns the crowding distance of each member of a front
+// (Deb et al., 2002): per objective, the normalised gap between its two
+// neighbours, infinite at the ends.
+func crowdingDistance(evs []*mdo.Evaluation, front []int) []float64 {
+	d := make([]float64, len(front))
+	if len(front) == 0 {
+		return d
+	}
+	no := len(evs[front[0]].F)
+	order := make([]int, len(front))
+	for m := 0; m < no; m++ {
+		for i := range order {
+			order[i] = i
+		}
+		sort.SliceStable(order, func(i, j int) bool { return evs[front[order[i]]].F[m] < evs[front[order[j]]].F[m] })
+		lo, hi := evs[front[order[0]]].F[m], evs[front[order[len(order)-1]]].F[m]
+		d[order[0]], d[order[len(order)-1]] = math.Inf(1), math.Inf(1)
+		span := hi - lo
+		if !(span > 0) || math.IsInf(span, 0) {
+			continue
+		}
+		for k := 1; k+1 < len(order); k++ {
+			d[order[k]] += (evs[front[order[k+1]]].F[m] - evs[front[order[k-1]]].F[m]) / span
+		}
+	}
+	return d
+}
+
+// assignRankCrowding sets rank and crowding of every individual.
+func assignRankCrowding(pop []nsgaInd) {
+	evs := make([]*mdo.Evaluation, len(pop))
+	for i := range pop {
+		evs[i] = pop[i].ev
+	}
+	for r, f := range nonDominatedSort(evs) {
+		cd := crowdingDistance(evs, f)
+		for k, i := range f {
+			pop[i].rank, pop[i].crowd = r, cd[k]
+		}
+	}
+}
+
+// selectNext keeps n of all front by front, the last front cut by
+// decreasing crowding distance.
+func selectNext(all []nsgaInd, n int) []nsgaInd {
+	evs := make([]*mdo.Evaluation, len(all))
+	for i := range all {
+		evs[i] = all[i].ev
+	}
+	next := make([]nsgaInd, 0, n)
+	for r, f := range nonDominatedSort(evs) {
+		cd := crowdingDistance(evs, f)
+		for k, i := range f {
+			all[i].rank, all[i].crowd = r, cd[k]
+		}
+		if len(next)+len(f) <= n {
+			for _, i := range f {
+				next = append(next, all[i])
+			}
+			if len(next) == n {
+				break
+			}
+			continue
+		}
+		order := append([]int(nil), f...)
+		sort.SliceStable(order, func(a, b int) bool { return all[order[a]].crowd > all[order[b]].crowd })
+		for _, i := range order[:n-len(next)] {
+			next = append(next, all[i])
+		}
+		break
+	}
+	// crowding within the kept population, for the next tournaments
+	assignRankCrowding(next)
+	return next
+}

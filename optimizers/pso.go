@@ -1,0 +1,162 @@
+package optimizers
+
+import (
+	"context"
+	"math"
+	"math/rand"
+
+	"couplet/mdo"
+)
+
+// ParticleSwarm is a global-best particle swarm with Clerc–Kennedy
+// constriction (χ = 0.7298, c1 = c2 = 1.49618) on eaopt's engine, updated
+// synchronously: every particle moves, is repaired into the unit box (its
+// velocity component zeroed when clipped, reversed when reflected), and the
+// swarm is evaluated as one batch; personal and global bests follow Deb's
+// feasibility rules. (eaopt's own SPSO lets particles leave the box,
+// evaluates them one at a time and, in v0.4.2, moves a particle to
+// w·v + a random unit vector, which does not converge.) Integer design
+// variables are searched as continuous coordinates that the Evaluator
+// rounds. Zero values take the defaults.
+type ParticleSwarm struct {
+	// Population is the number of particles; default 10 per variable,
+	// at least 20 and at most 100.
+	Population int
+	// Generations after the first swarm; default 200.
+	Generations int
+	// MaxEvaluations caps the evaluations (0: no cap besides
+	// Generations); a generation that would pass it is not run.
+	// Relax is the fraction of the generations during which constraints
+	// are relaxed by the ε-level comparison; default 0.5, negative for
+	// Deb's rules throughout.
+	Relax          float64
+	MaxEvaluations int
+	// Inertia is the constriction factor χ; default 0.7298.
+	Inertia float64
+	// Cognitive and Social are the acceleration coefficients c1, c2;
+	// default 1.49618 each.
+	Cognitive, Social float64
+	// Repair brings particles back into the box; default Clip.
+	Repair Repair
+}
+
+// Name implements Optimizer.
+func (ParticleSwarm) Name() string { return "particle swarm" }
+
+// validate checks the settings.
+func (o ParticleSwarm) validate() error {
+	const m = "ParticleSwarm"
+	if err := checkInt(m, "Population", o.Population, 2); err != nil {
+		return err
+	}
+	if err := checkInt(m, "Generations", o.Generations, 1); err != nil {
+		return err
+	}
+	if err := checkInt(m, "MaxEvaluations", o.MaxEvaluations, 1); err != nil {
+		return err
+	}
+	if o.Relax > 1 || math.IsNaN(o.Relax) {
+		return settingError(m, "Relax", o.Relax, "must be at most 1 (0 means the default 0.5, negative means no relaxation)")
+	}
+	if err := checkRange(m, "Inertia", o.Inertia, 0, 1, true); err != nil {
+		return err
+	}
+	if err := checkRange(m, "Cognitive", o.Cognitive, 0, 4, true); err != nil {
+		return err
+	}
+	if err := checkRange(m, "Social", o.Social, 0, 4, true); err != nil {
+		return err
+	}
+	return o.Repair.validate(m)
+}
+
+// Minimize implements Optimizer.
+func (o ParticleSwarm) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error) {
+	if err := o.validate(); err != nil {
+		return nil, err
+	}
+	r, err := begin(ctx, s, o.Name(), o)
+	if err != nil {
+		return nil, err
+	}
+	if err := r.refuseMultiObjective(); err != nil {
+		return nil, err
+	}
+	r.maxEvals = o.MaxEvaluations
+	dim := r.ev.Dim()
+	n := or(o.Population, defaultPopulation(dim))
+	chi := or(o.Inertia, 0.7298)
+	c1 := or(o.Cognitive, 1.49618)
+	c2 := or(o.Social, 1.49618)
+	e := &engine{r: r, relax: relaxFraction(o.Relax)}
+	e.initial = func(rng *rand.Rand) *member {
+		x := uniformPoint(dim, rng)
+		v := make([]float64, dim)
+		for k := range v {
+			v[k] = (rng.Float64() - x[k]) / 2
+		}
+		m := e.newMember(x)
+		m.vel = v
+		m.bestX = append([]float64(nil), x...)
+		return m
+	}
+	first := true
+	e.generation = func(pop []*member, rng *rand.Rand) ([]*member, error) {
+		if first {
+			for _, p := range pop {
+				p.best = p.ev
+			}
+			first = false
+		}
+		// the global best: the best personal best (pop is sorted by it)
+		g := pop[0].bestX
+		next := make([]*member, n)
+		for i, p := range pop {
+			q := &member{eng: e, x: make([]float64, dim), vel: make([]float64, dim), bestX: p.bestX, best: p.best}
+			for k := range q.x {
+				r1, r2 := rng.Float64(), rng.Float64()
+				v := chi * (p.vel[k] + c1*r1*(p.bestX[k]-p.x[k]) + c2*r2*(g[k]-p.x[k]))
+				x, out := o.Repair.apply(p.x[k] + v)
+				if out {
+					if o.Repair == Reflect {
+						v = -v
+					} else {
+						v = 0
+					}
+				}
+				q.x[k], q.vel[k] = x, v
+			}
+			next[i] = q
+		}
+		if err := e.evaluateAll(next); err != nil {
+			return nil, err
+		}
+		for _, q := range next {
+			if e.notWorse(q.ev, q.best) {
+				q.best = q.ev
+				q.bestX = append([]float64(nil), q.x...)
+			}
+		}
+		rankByBest(next, e.eps)
+		return next, nil
+	}
+	stop, err := e.evolve(n, or(o.Generations, 200), newRand(r.ev.Seed(), 3))
+	return r.finish(stop, err)
+}
+
+// rankByBest sorts particles best first by their personal bests.
+func rankByBest(ps []*member, eps float64) {
+	evs := make([]*mdo.Evaluation, len(ps))
+	idx := make([]int, len(ps))
+	for i, p := range ps {
+		evs[i] = p.best
+		idx[i] = i
+	}
+	sortByDeb(idx, evs, eps)
+	sorted := make([]*member, len(ps))
+	for k, i := range idx {
+		sorted[k] = ps[i]
+		sorted[k].rank = k
+	}
+	copy(ps, sorted)
+}
