@@ -21,7 +21,7 @@ package disciplines
 import (
 	"math"
 
-	_ "couplet/mdo"
+	"couplet/mdo"
 )
 
 // Historical mission-segment mass fractions (conceptual-design textbooks,
@@ -204,4 +204,225 @@ func ApproachClimbMinGradient(n float64) (float64, error) {
 		return 0.027, nil
 	}
 	return 0, inputErr("engine.count", n, "", "2, 3 or 4 (14 CFR 25.121)")
+}
+
+// Indices of the mission discipline's variables.
+const (
+	misInMassTakeoff = iota
+	misInMassLanding
+	misInMassZeroFuel
+	misInFuelCapacity
+	misInLDCruise
+	misInTSFCCruise
+	misInMach
+	misInAltitude
+	misInRange
+	misInEngineCount
+	misInThrustTakeoff
+	misInThrustClimb
+	misInArea
+	misInCLmaxTakeoff
+	misInCLmaxLanding
+	misInCD0Takeoff
+	misInKTakeoff
+	misInCD0Landing
+	misInKLanding
+	misInAirportElevation
+	misInAirportDT
+	misNumIn
+)
+
+const (
+	misOutFuel = iota
+	misOutFuelFraction
+	misOutReserveFraction
+	misOutClimbFraction
+	misOutCruiseEndFraction
+	misOutTripFraction
+	misOutReserve
+	misOutRangeFull
+	misOutTOFL
+	misOutLFL
+	misOutGrad2
+	misOutGradApproach
+	misOutGradLanding
+	misOutVStall
+	misOutVStallTO
+	misOutV2
+	misOutVRef
+	misOutVApproach
+	misNumOut
+)
+
+// Mission is the "mission" discipline: the fuel for mission.range
+// (mass.fuel and its fractions of the take-off mass, which weights uses to
+// close the mass equation), the range with full tanks, and the field and
+// climb performance.
+//
+// Performance conventions (conceptual estimates of the regulatory
+// quantities, never a showing of compliance):
+//
+//   - take-off field length: Roskam's FAR 25 take-off parameter
+//     (TakeoffFieldLength) with the all-engines static thrust at the airport;
+//   - landing field length: 14 CFR 121.195(b), landing distance / 0.60,
+//     the distance from 50 ft at VREF by LandingSettings;
+//   - second segment, 25.121(b): one engine inoperative, take-off flaps,
+//     gear up, at V2 = 1.13·VSR1 (25.107 minimum) and take-off mass;
+//   - approach climb, 25.121(d): one engine inoperative, approach (taken
+//     as take-off) flaps, gear up, at 1.4·VSR1 and landing mass;
+//   - landing climb, 25.119: all engines, landing configuration, at VREF =
+//     1.23·VSR0 (25.125 minimum) and landing mass;
+//   - thrust at speed V: linear in Mach between the static thrust and the
+//     thrust at the second-segment Mach 0.25 (engine.thrust_takeoff,
+//     engine.thrust_climb); windmilling drag of the failed engine ignored;
+//   - v_stall is VSR0 (landing configuration, landing mass, airport),
+//     v_stall_takeoff VSR1 (take-off flaps, take-off mass), v_approach =
+//     VREF + 5 kt (common practice, no source).
+//
+// The range with full fuel flies mass.fuel_capacity with the zero-fuel
+// mass of the design mission (take-off mass not limited).
+//
+// Added variables: inputs mass.fuel_capacity, aero.cd0_landing,
+// aero.k_landing, engine.thrust_takeoff, engine.thrust_climb; outputs
+// mission.fuel_fraction, mission.reserve_fraction,
+// mission.climb_fuel_fraction, mission.cruise_end_fuel_fraction,
+// mission.trip_fuel_fraction, mission.fuel_reserve, perf.v_stall_takeoff.
+type Mission struct {
+	Profile MissionProfile
+	Landing LandingSettings
+	// ClimbMach is the Mach number of engine.thrust_climb; 0.25.
+	ClimbMach float64
+}
+
+// NewMission returns the mission discipline with the default profile and
+// landing settings.
+func NewMission() *Mission {
+	return &Mission{Profile: DefaultMissionProfile(), Landing: DefaultLandingSettings(), ClimbMach: 0.25}
+}
+
+// Name implements mdo.Discipline.
+func (m *Mission) Name() string { return "mission" }
+
+// Inputs implements mdo.Discipline.
+func (m *Mission) Inputs() []mdo.Var {
+	wo := NewWeights().Outputs()
+	po := NewPropulsion().Outputs()
+	pol := func(name, desc string, def float64) mdo.Var {
+		return mdo.Var{Name: name, Unit: "-", Description: desc, Default: def, Min: 0, Max: 10, Scale: 0.1}
+	}
+	in := make([]mdo.Var, misNumIn)
+	in[misInMassTakeoff] = massTakeoffVar()
+	in[misInMassLanding] = wo[wtOutLanding]
+	in[misInMassZeroFuel] = wo[wtOutZeroFuel]
+	in[misInFuelCapacity] = wo[wtOutFuelCapacity]
+	in[misInLDCruise] = mdo.Var{Name: "aero.ld_cruise", Unit: "-", Description: "lift-to-drag ratio in cruise", Default: 7.5, Min: 0.5, Max: 40}
+	in[misInTSFCCruise] = po[propOutTSFCCruise]
+	in[misInMach] = cruiseMachVar()
+	in[misInAltitude] = cruiseAltitudeVar()
+	in[misInRange] = mdo.Var{Name: "mission.range", Unit: "m", Description: "design range", Default: 7.0e6, Min: 1e5, Max: 2e7, Scale: 1e6}
+	in[misInEngineCount] = engineCountVar()
+	in[misInThrustTakeoff] = engineThrustTakeoffVar()
+	in[misInThrustClimb] = engineThrustClimbVar()
+	in[misInArea] = wingAreaVar()
+	in[misInCLmaxTakeoff] = clMaxTakeoffVar()
+	in[misInCLmaxLanding] = clMaxLandingVar()
+	in[misInCD0Takeoff] = pol("aero.cd0_takeoff", "zero-lift drag coefficient, take-off flaps, gear up", 0.03)
+	in[misInKTakeoff] = pol("aero.k_takeoff", "drag-due-to-lift factor, take-off flaps", 0.15)
+	in[misInCD0Landing] = pol("aero.cd0_landing", "zero-lift drag coefficient, landing flaps, gear down", 0.06)
+	in[misInKLanding] = pol("aero.k_landing", "drag-due-to-lift factor, landing flaps", 0.16)
+	in[misInAirportElevation] = airportElevationVar()
+	in[misInAirportDT] = airportDTVar()
+	return in
+}
+
+// Outputs implements mdo.Discipline.
+func (m *Mission) Outputs() []mdo.Var {
+	length := func(name, desc string, def float64) mdo.Var {
+		return mdo.Var{Name: name, Unit: "m", Description: desc, Default: def, Min: 0, Max: 1e5, Scale: 1000}
+	}
+	grad := func(name, desc string) mdo.Var {
+		return mdo.Var{Name: name, Unit: "-", Description: desc, Default: 0.05, Min: -10, Max: 10, Scale: 0.01}
+	}
+	speed := func(name, desc string, def float64) mdo.Var {
+		return mdo.Var{Name: name, Unit: "m/s", Description: desc, Default: def, Min: 0, Max: 1000, Scale: 10}
+	}
+	out := make([]mdo.Var, misNumOut)
+	out[misOutFuel] = mdo.Var{Name: "mass.fuel", Unit: "kg", Description: "fuel loaded for mission.range (trip and reserves)", Default: 20000, Min: 0, Max: 1e6, Scale: 1e4}
+	wi := NewWeights().Inputs()
+	out[misOutFuelFraction] = wi[wtInFuelFraction]
+	out[misOutReserveFraction] = wi[wtInReserveFraction]
+	out[misOutClimbFraction] = wi[wtInClimbFraction]
+	out[misOutCruiseEndFraction] = wi[wtInCruiseEndFraction]
+	out[misOutTripFraction] = wi[wtInTripFraction]
+	out[misOutReserve] = mdo.Var{Name: "mission.fuel_reserve", Unit: "kg", Description: "reserve fuel (contingency and hold)", Default: 2000, Min: 0, Max: 1e6, Scale: 1000}
+	out[misOutRangeFull] = mdo.Var{Name: "perf.range_full_fuel", Unit: "m", Description: "range with full tanks at the design zero-fuel mass", Default: 7e6, Min: 0, Max: 1e8, Scale: 1e6}
+	out[misOutTOFL] = length("perf.takeoff_field_length", "FAR 25 take-off field length (Roskam take-off parameter)", 1900)
+	out[misOutLFL] = length("perf.landing_field_length", "landing field length, 14 CFR 121.195(b)", 1800)
+	out[misOutGrad2] = grad("perf.climb_gradient_second_segment", "second-segment climb gradient, one engine inoperative (25.121(b))")
+	out[misOutGradApproach] = grad("perf.climb_gradient_approach", "approach climb gradient, one engine inoperative (25.121(d))")
+	out[misOutGradLanding] = grad("perf.climb_gradient_landing", "landing climb gradient, all engines (25.119)")
+	out[misOutVStall] = speed("perf.v_stall", "reference stall speed VSR0, landing configuration and mass", 60)
+	out[misOutVStallTO] = speed("perf.v_stall_takeoff", "reference stall speed VSR1, take-off configuration and mass", 75)
+	out[misOutV2] = speed("perf.v2", "take-off safety speed V2 = 1.13 VSR1", 85)
+	out[misOutVRef] = speed("perf.v_ref", "landing reference speed VREF = 1.23 VSR0", 75)
+	out[misOutVApproach] = speed("perf.v_approach", "approach speed VREF + 5 kt", 78)
+	return out
+}
+
+// Compute implements mdo.Discipline.
+func (m *Mission) Compute(in, out []float64) error {
+	if len(in) != misNumIn || len(out) != misNumOut {
+		return inputErr("mission.inputs", float64(len(in)), "", "the declared inputs and outputs")
+	}
+	n := math.Round(in[misInEngineCount])
+	if n < 2 {
+		return inputErr("engine.count", in[misInEngineCount], "", "2, 3 or 4")
+	}
+	mach := in[misInMach]
+	m0 := in[misInMassTakeoff]
+	ml := in[misInMassLanding]
+	tsfc, ld := in[misInTSFCCruise], in[misInLDCruise]
+	cruise, err := OffsetAtmosphere(in[misInAltitude], 0)
+	if err != nil {
+		return renameInput(err, "cruise.altitude")
+	}
+	apt, err := OffsetAtmosphere(in[misInAirportElevation], in[misInAirportDT])
+	if err != nil {
+		return renameInput(err, "airport.elevation")
+	}
+	v := mach * cruise.SpeedOfSound
+	fr := m.Profile.FuelFractions(in[misInRange], mach, v, tsfc, ld)
+	out[misOutFuel] = fr.Total * m0
+	out[misOutFuelFraction] = fr.Total
+	out[misOutReserveFraction] = fr.Reserve
+	out[misOutClimbFraction] = fr.ToCruise
+	out[misOutCruiseEndFraction] = fr.AtCruiseEnd
+	out[misOutTripFraction] = fr.Trip
+	out[misOutReserve] = fr.Reserve * m0
+	out[misOutRangeFull] = m.Profile.RangeForFuel(in[misInFuelCapacity], in[misInMassZeroFuel], mach, v, tsfc, ld)
+
+	rho := apt.Density
+	area := in[misInArea]
+	t0, t1 := in[misInThrustTakeoff], in[misInThrustClimb]
+	thrust := func(speed float64) float64 { // per engine
+		return t0 + (t1-t0)*speed/(apt.SpeedOfSound*m.ClimbMach)
+	}
+	vs1 := StallSpeed(m0, rho, area, in[misInCLmaxTakeoff])
+	vs0 := StallSpeed(ml, rho, area, in[misInCLmaxLanding])
+	vs1l := StallSpeed(ml, rho, area, in[misInCLmaxTakeoff])
+	v2 := V2MinRatio * vs1
+	vref := VRefMinRatio * vs0
+	vapp := 1.4 * vs1l
+	cd0TO, kTO := in[misInCD0Takeoff], in[misInKTakeoff]
+	out[misOutTOFL] = TakeoffFieldLength(m0, area, rho/SeaLevelDensity, in[misInCLmaxTakeoff], n*t0)
+	out[misOutLFL] = LandingFieldLength(m.Landing.LandingDistance(vref))
+	out[misOutGrad2] = ClimbGradient((n-1)*thrust(v2), m0, rho, v2, area, cd0TO, kTO)
+	out[misOutGradApproach] = ClimbGradient((n-1)*thrust(vapp), ml, rho, vapp, area, cd0TO, kTO)
+	out[misOutGradLanding] = ClimbGradient(n*thrust(vref), ml, rho, vref, area, in[misInCD0Landing], in[misInKLanding])
+	out[misOutVStall] = vs0
+	out[misOutVStallTO] = vs1
+	out[misOutV2] = v2
+	out[misOutVRef] = vref
+	out[misOutVApproach] = vref + 5*unitKt
+	return nil
 }

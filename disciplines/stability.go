@@ -1,0 +1,334 @@
+package disciplines
+
+// Longitudinal static stability: neutral point from wing, fuselage and
+// horizontal tail with the downwash gradient and the supersonic shift of
+// the aerodynamic centre; static margins at take-off and at the start and
+// end of cruise; the tail load that trims the aircraft in cruise; and the
+// wing's divergence dynamic pressure and margin (aeroelastic.go).
+//
+//	x_np = (CLα,w·x_ac,w + ηh·CLα,h·(Sh/S)·(1 − dε/dα)·x_ac,h − 2(k2−k1)·Vf/S) / CLα
+//	CLα  = CLα,w + ηh·CLα,h·(Sh/S)·(1 − dε/dα)
+//
+// The fuselage term is Munk's slender-body (airship) moment,
+// dM/dα = 2q·(k2 − k1)·Vf, with Lamb's apparent-mass coefficients of the
+// prolate spheroid of the same fineness ratio (Munk 1924; Lamb,
+// "Hydrodynamics"; from memory); it is the ideal-flow value and so errs on
+// the destabilising side. The fuselage volume is 0.7·(π/4)·D²·L (common
+// practice, no source).
+//
+// Downwash: dε/dα = 2·CLα,w/(π·A), the far-wake downwash of the wing's
+// trailing vortex sheet (lifting-line theory); it is used at supersonic
+// speed too, with the (lower) supersonic lift slope, since the trailing
+// vortex system and so the far-wake downwash do not depend on Mach number
+// (documented assumption). Limited to 0.95.
+//
+// Aerodynamic centre: a quarter of the MAC subsonic, moving to mid-chord
+// (Ackeret: centre of pressure at mid-chord in linear supersonic theory)
+// by a smooth step between Mach 0.9 and 1.3 (common practice, no source);
+// the tail's centre moves likewise on its own MAC.
+
+import (
+	"math"
+
+	"couplet/mdo"
+)
+
+// LambCoefficients returns the longitudinal and transverse apparent-mass
+// coefficients k1, k2 of a prolate spheroid of fineness ratio
+// (length/diameter) f > 1 (Lamb, "Hydrodynamics"):
+// e = sqrt(1 − 1/f²), L = ln((1+e)/(1−e)),
+// α0 = 2(1−e²)/e³·(L/2 − e), β0 = 1/e² − (1−e²)/(2e³)·L,
+// k1 = α0/(2 − α0), k2 = β0/(2 − β0).
+func LambCoefficients(f float64) (k1, k2 float64, err error) {
+	if !(f > 1) || math.IsInf(f, 0) {
+		return 0, 0, inputErr("fuselage.fineness", f, "", "> 1 (prolate spheroid)")
+	}
+	e := math.Sqrt(1 - 1/(f*f))
+	l := math.Log((1 + e) / (1 - e))
+	e3 := e * e * e
+	a0 := 2 * (1 - e*e) / e3 * (l/2 - e)
+	b0 := 1/(e*e) - (1-e*e)/(2*e3)*l
+	return a0 / (2 - a0), b0 / (2 - b0), nil
+}
+
+// MunkFuselageTerm returns 2·(k2 − k1)·V [m³], the destabilising pitching
+// moment of a slender body of revolution per unit dynamic pressure and
+// angle of attack (Munk's airship theory), for a fuselage of length l and
+// diameter d [m] of volume 0.7·(π/4)·d²·l.
+func MunkFuselageTerm(l, d float64) (float64, error) {
+	k1, k2, err := LambCoefficients(l / d)
+	if err != nil {
+		return 0, err
+	}
+	return 2 * (k2 - k1) * 0.7 * math.Pi / 4 * d * d * l, nil
+}
+
+// DownwashGradient returns dε/dα = 2·CLα,w/(π·A), limited to 0.95.
+func DownwashGradient(claWing, aspect float64) float64 {
+	return math.Min(2*claWing/(math.Pi*aspect), 0.95)
+}
+
+// ACFraction returns the aerodynamic centre as a fraction of the MAC: 0.25
+// at and below Mach 0.9, 0.5 at and above Mach 1.3, a smooth (cubic)
+// step between (common practice, no source).
+func ACFraction(mach float64) float64 {
+	x := (mach - 0.9) / 0.4
+	switch {
+	case x <= 0:
+		return 0.25
+	case x >= 1:
+		return 0.5
+	}
+	return 0.25 + 0.25*x*x*(3-2*x)
+}
+
+// Longitudinal is the layout data of a neutral-point estimate. Lengths are
+// x from the nose [m].
+type Longitudinal struct {
+	WingArea, WingAspect float64 // S [m2], A
+	MAC, MACX            float64 // mean aerodynamic chord and its leading edge [m]
+	CLaWing              float64 // wing lift slope [1/rad]
+	TailArea, TailArm    float64 // Sh [m2]; arm from the wing's to the tail's quarter-chord MAC points [m]
+	TailMAC              float64 // tail mean aerodynamic chord [m]
+	CLaTail              float64 // tail lift slope [1/rad]
+	TailEfficiency       float64 // ηh = qh/q
+	FuselageTerm         float64 // 2(k2 − k1)·Vf [m3] (MunkFuselageTerm)
+	Mach                 float64
+}
+
+// NeutralPoint returns the stick-fixed neutral point [m from the nose] and
+// the aircraft lift slope [1/rad].
+func (c Longitudinal) NeutralPoint() (xnp, cla float64) {
+	ac := ACFraction(c.Mach)
+	xw := c.MACX + ac*c.MAC
+	xh := c.MACX + 0.25*c.MAC + c.TailArm + (ac-0.25)*c.TailMAC
+	de := DownwashGradient(c.CLaWing, c.WingAspect)
+	th := c.TailEfficiency * c.CLaTail * c.TailArea / c.WingArea * (1 - de)
+	cla = c.CLaWing + th
+	xnp = (c.CLaWing*xw + th*xh - c.FuselageTerm/c.WingArea) / cla
+	return xnp, cla
+}
+
+// TailTrimLoad returns the horizontal-tail lift [N] (negative = down)
+// that trims an aircraft of weight w [N] with its CG at xcg, by moments
+// about the wing's aerodynamic centre: Lt = (W·(xcg − xac,w) + q·S·c̄·Cm,ac)/(xac,h − xac,w).
+func (c Longitudinal) TailTrimLoad(w, xcg, q, cmac float64) float64 {
+	ac := ACFraction(c.Mach)
+	xw := c.MACX + ac*c.MAC
+	xh := c.MACX + 0.25*c.MAC + c.TailArm + (ac-0.25)*c.TailMAC
+	return (w*(xcg-xw) + q*c.WingArea*c.MAC*cmac) / (xh - xw)
+}
+
+// StaticMargin returns (x_np − x_cg)/c̄.
+func StaticMargin(xnp, xcg, mac float64) float64 { return (xnp - xcg) / mac }
+
+// Indices of the stability discipline's variables.
+const (
+	stInArea = iota
+	stInAspect
+	stInTaper
+	stInSweep
+	stInSpan
+	stInMAC
+	stInMACX
+	stInFusLength
+	stInFusDiameter
+	stInHtArea
+	stInHtArm
+	stInHtSpan
+	stInHtMAC
+	stInCLaCruise
+	stInCLaLow
+	stInMach
+	stInAltitude
+	stInCGTakeoff
+	stInCGCruiseStart
+	stInCGCruiseEnd
+	stInMassCruiseStart
+	stInGJ
+	stInEI
+	stInQDive
+	stInCmac
+	stNumIn
+)
+
+const (
+	stOutNP = iota
+	stOutNPLow
+	stOutSMTakeoff
+	stOutSMCruiseStart
+	stOutSMCruiseEnd
+	stOutTailLift
+	stOutQD
+	stOutDivMargin
+	stOutDownwash
+	stNumOut
+)
+
+// Stability is the "stability" discipline: neutral points (take-off at
+// Mach LowSpeedMach with aero.cla_low_speed, cruise with aero.cla_cruise),
+// the three static margins, the cruise trim load and the divergence
+// dynamic pressure of the wing (aeroelastic.go) with its margin over
+// dive.dynamic_pressure.
+//
+// Divergence model of the aircraft's wing: the exposed semispan
+// (b − D)/2 along the quarter-chord sweep line (taken as the elastic axis
+// sweep), the mean geometric chord S/b, both normal to the axis; the
+// elastic axis at mid-box (37.5 % chord, spars at 15 and 60 %), the
+// aerodynamic centre at a quarter chord (divergence is a subsonic, high-q
+// case: the dive speed at low altitude), section lift slope
+// SectionLiftSlope; the stiffness is the root GJ and EI of the sized box
+// (weights) reduced to the Rayleigh-equivalent uniform beam
+// (TaperedStiffnessFactors).
+//
+// Added variables: inputs htail.span, htail.mac (geometry),
+// mass.cruise_start (weights), stability.cm_ac_wing (parameter, wing
+// pitching moment at zero lift about its aerodynamic centre); outputs
+// stability.neutral_point_low_speed, stability.downwash_gradient.
+type Stability struct {
+	// TailEfficiency is ηh = qh/q; 0.9 (common practice, no source).
+	TailEfficiency float64
+	// TailSweep is the horizontal tail's quarter-chord sweep [deg]; 35.
+	TailSweep float64
+	// TailTaper is its taper ratio; 0.35.
+	TailTaper float64
+	// LowSpeedMach is the Mach number of the take-off neutral point; 0.2.
+	LowSpeedMach float64
+	// SectionLiftSlope is a0 of the divergence strip theory [1/rad]; 0.95·2π.
+	SectionLiftSlope float64
+	// ElasticAxis is the elastic axis as a fraction of chord; 0.375.
+	ElasticAxis float64
+}
+
+// NewStability returns the stability discipline with the documented
+// defaults.
+func NewStability() *Stability {
+	return &Stability{TailEfficiency: 0.9, TailSweep: 35, TailTaper: 0.35, LowSpeedMach: 0.2, SectionLiftSlope: 0.95 * 2 * math.Pi, ElasticAxis: 0.375}
+}
+
+// Name implements mdo.Discipline.
+func (s *Stability) Name() string { return "stability" }
+
+// Inputs implements mdo.Discipline.
+func (s *Stability) Inputs() []mdo.Var {
+	wt := NewWeights().Inputs()
+	wo := NewWeights().Outputs()
+	in := make([]mdo.Var, stNumIn)
+	in[stInArea] = wt[wtInArea]
+	in[stInAspect] = wt[wtInAspect]
+	in[stInTaper] = wt[wtInTaper]
+	in[stInSweep] = wt[wtInSweep]
+	in[stInSpan] = wt[wtInSpan]
+	in[stInMAC] = wt[wtInMAC]
+	in[stInMACX] = wt[wtInMACX]
+	in[stInFusLength] = wt[wtInFusLength]
+	in[stInFusDiameter] = wt[wtInFusDiameter]
+	in[stInHtArea] = wt[wtInHtArea]
+	in[stInHtArm] = wt[wtInHtArm]
+	in[stInHtSpan] = mdo.Var{Name: "htail.span", Unit: "m", Description: "horizontal-tail span", Default: 8, Min: 0.1, Max: 100}
+	in[stInHtMAC] = mdo.Var{Name: "htail.mac", Unit: "m", Description: "horizontal-tail mean aerodynamic chord", Default: 2.8, Min: 0.01, Max: 50}
+	in[stInCLaCruise] = mdo.Var{Name: "aero.cla_cruise", Unit: "1/rad", Description: "wing lift-curve slope at cruise Mach", Default: 2.8, Min: 0.1, Max: 10}
+	in[stInCLaLow] = mdo.Var{Name: "aero.cla_low_speed", Unit: "1/rad", Description: "wing lift-curve slope at low speed", Default: 3.0, Min: 0.1, Max: 10}
+	in[stInMach] = cruiseMachVar()
+	in[stInAltitude] = cruiseAltitudeVar()
+	in[stInCGTakeoff] = wo[wtOutCGTakeoff]
+	in[stInCGCruiseStart] = wo[wtOutCGCruiseStart]
+	in[stInCGCruiseEnd] = wo[wtOutCGCruiseEnd]
+	in[stInMassCruiseStart] = wo[wtOutCruiseStart]
+	in[stInGJ] = wo[wtOutGJ]
+	in[stInEI] = wo[wtOutEI]
+	in[stInQDive] = mdo.Var{Name: "dive.dynamic_pressure", Unit: "Pa", Description: "design dive dynamic pressure", Default: 40000, Min: 1000, Max: 300000, Scale: 1e4}
+	in[stInCmac] = mdo.Var{Name: "stability.cm_ac_wing", Unit: "-", Description: "wing pitching-moment coefficient about its aerodynamic centre", Default: -0.02, Min: -0.5, Max: 0.5, Scale: 0.01}
+	return in
+}
+
+// Outputs implements mdo.Discipline.
+func (s *Stability) Outputs() []mdo.Var {
+	sm := func(name, desc string) mdo.Var {
+		return mdo.Var{Name: name, Unit: "-", Description: desc, Default: 0.1, Min: -10, Max: 10, Scale: 0.1}
+	}
+	out := make([]mdo.Var, stNumOut)
+	out[stOutNP] = mdo.Var{Name: "stability.neutral_point", Unit: "m", Description: "neutral point at cruise, from the nose", Default: 21, Min: -100, Max: 300, Scale: 10}
+	out[stOutNPLow] = mdo.Var{Name: "stability.neutral_point_low_speed", Unit: "m", Description: "neutral point at take-off speed, from the nose", Default: 20, Min: -100, Max: 300, Scale: 10}
+	out[stOutSMTakeoff] = sm("stability.static_margin_takeoff", "static margin at take-off (fraction of MAC)")
+	out[stOutSMCruiseStart] = sm("stability.static_margin_cruise_start", "static margin at the start of cruise (fraction of MAC)")
+	out[stOutSMCruiseEnd] = sm("stability.static_margin_cruise_end", "static margin at the end of cruise (fraction of MAC)")
+	out[stOutTailLift] = mdo.Var{Name: "stability.tail_lift_cruise", Unit: "N", Description: "horizontal-tail lift that trims the start of cruise (negative = down)", Default: -20000, Min: -1e7, Max: 1e7, Scale: 1e4}
+	out[stOutQD] = mdo.Var{Name: "stability.divergence_dynamic_pressure", Unit: "Pa", Description: "wing divergence dynamic pressure (1e9 = no divergence)", Default: 1e5, Min: 0, Max: NoDivergence, Scale: 1e4}
+	out[stOutDivMargin] = mdo.Var{Name: "stability.divergence_margin", Unit: "-", Description: "q_D/dive.dynamic_pressure − 1, smoothly capped at 10", Default: 1, Min: -1, Max: DivergenceMarginCap}
+	out[stOutDownwash] = mdo.Var{Name: "stability.downwash_gradient", Unit: "-", Description: "downwash gradient at the tail at cruise", Default: 0.3, Min: 0, Max: 1}
+	return out
+}
+
+// Compute implements mdo.Discipline.
+func (s *Stability) Compute(in, out []float64) error {
+	if len(in) != stNumIn || len(out) != stNumOut {
+		return inputErr("stability.inputs", float64(len(in)), "", "the declared inputs and outputs")
+	}
+	mach := in[stInMach]
+	area := in[stInArea]
+	ht := in[stInHtArea]
+	fus, err := MunkFuselageTerm(in[stInFusLength], in[stInFusDiameter])
+	if err != nil {
+		return err
+	}
+	cfg := Longitudinal{
+		WingArea: area, WingAspect: in[stInAspect], MAC: in[stInMAC], MACX: in[stInMACX],
+		TailArea: ht, TailArm: in[stInHtArm], TailMAC: in[stInHtMAC],
+		TailEfficiency: s.TailEfficiency, FuselageTerm: fus,
+	}
+	var claTailLow, claTailCruise float64
+	if ht > 0 {
+		span := in[stInHtSpan]
+		tail, err := newSurface("htail", ht, span*span/ht, s.TailTaper, s.TailSweep, 0.05)
+		if err != nil {
+			return err
+		}
+		if claTailLow, err = LiftSlope(tail, s.LowSpeedMach, 0.95); err != nil {
+			return err
+		}
+		if claTailCruise, err = LiftSlope(tail, mach, 0.95); err != nil {
+			return renameInput(err, "cruise.mach")
+		}
+	}
+	low := cfg
+	low.CLaWing, low.CLaTail, low.Mach = in[stInCLaLow], claTailLow, s.LowSpeedMach
+	npLow, _ := low.NeutralPoint()
+	cr := cfg
+	cr.CLaWing, cr.CLaTail, cr.Mach = in[stInCLaCruise], claTailCruise, mach
+	np, _ := cr.NeutralPoint()
+	mac := in[stInMAC]
+	atm, err := OffsetAtmosphere(in[stInAltitude], 0)
+	if err != nil {
+		return renameInput(err, "cruise.altitude")
+	}
+	q := atm.DynamicPressure(mach)
+
+	// divergence of the swept wing
+	sweep := in[stInSweep] * math.Pi / 180
+	cs := math.Cos(sweep)
+	span := in[stInSpan]
+	exposed := math.Max(0.5*(span-in[stInFusDiameter]), 0.05*span)
+	fgj, fei := TaperedStiffnessFactors(in[stInTaper])
+	chordN := area / span * cs
+	beam := SweptBeam{
+		Length: exposed / cs, Chord: chordN, Offset: (s.ElasticAxis - 0.25) * chordN,
+		LiftSlope: s.SectionLiftSlope, Sweep: sweep, GJ: in[stInGJ] * fgj, EI: in[stInEI] * fei,
+	}
+	qd, err := beam.DivergenceDynamicPressure()
+	if err != nil {
+		return err
+	}
+	margin := DivergenceMargin(qd, in[stInQDive])
+
+	out[stOutNP] = np
+	out[stOutNPLow] = npLow
+	out[stOutSMTakeoff] = StaticMargin(npLow, in[stInCGTakeoff], mac)
+	out[stOutSMCruiseStart] = StaticMargin(np, in[stInCGCruiseStart], mac)
+	out[stOutSMCruiseEnd] = StaticMargin(np, in[stInCGCruiseEnd], mac)
+	out[stOutTailLift] = cr.TailTrimLoad(in[stInMassCruiseStart]*G0, in[stInCGCruiseStart], q, in[stInCmac])
+	out[stOutQD] = math.Min(qd, NoDivergence)
+	out[stOutDivMargin] = margin
+	out[stOutDownwash] = DownwashGradient(cr.CLaWing, cr.WingAspect)
+	return nil
+}
