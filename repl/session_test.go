@@ -400,3 +400,31 @@ func TestComplete(t *testing.T) {
 		}
 	}
 }
+
+func TestInterruptedOptimisationReturnsItsBest(t *testing.T) {
+	f, err := ReadStudy(filepath.Join("testdata", "slow_optimisation.study"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	s, out, errb := newTest(t, Options{})
+	if c := s.Exec(context.Background(), f.Cells[0].Source); c.Err != nil {
+		t.Fatal(c.Err)
+	}
+	done := make(chan *Cell)
+	go func() { done <- s.Exec(context.Background(), f.Cells[1].Source) }()
+	time.Sleep(400 * time.Millisecond)
+	if !s.Interrupt() {
+		t.Fatal("no cell running")
+	}
+	c := <-done
+	if c.Err != nil || !c.Interrupted {
+		t.Fatalf("cell err %v interrupted %v (stderr %s)", c.Err, c.Interrupted, errb)
+	}
+	if !strings.HasSuffix(out.String(), "cancelled\n") {
+		t.Errorf("the optimiser's stop reason: output %q, want cancelled", out)
+	}
+	pub := s.Env().Published()
+	if len(pub) != 1 || pub[0].Best == nil || pub[0].Evaluations < 2 || pub[0].Evaluations > 40 {
+		t.Fatalf("published %v, want one result with its best point after a few evaluations", pub)
+	}
+}

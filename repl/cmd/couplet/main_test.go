@@ -1,0 +1,348 @@
+package main
+
+import (
+	"bytes"
+	"encoding/json"
+	"errors"
+	"io"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"regexp"
+	"strings"
+	"sync"
+	"syscall"
+	"testing"
+	"time"
+
+	"github.com/creack/pty"
+)
+
+// binary is the couplet command built once for the tests.
+var binary string
+
+func TestMain(m *testing.M) {
+	dir, err := os.MkdirTemp("", "couplet-cmd")
+	if err != nil {
+		panic(err)
+	}
+	binary = filepath.Join(dir, "couplet")
+	out, err := exec.Command("go", "build", "-o", binary, ".").CombinedOutput()
+	if err != nil {
+		os.Stderr.Write(out)
+		panic(err)
+	}
+	code := m.Run()
+	os.RemoveAll(dir)
+	os.Exit(code)
+}
+
+// term is the command running on a pseudo-terminal.
+type term struct {
+	t    *testing.T
+	cmd  *exec.Cmd
+	f    *os.File
+	mu   sync.Mutex
+	buf  bytes.Buffer
+	done chan struct{}
+	seen int // offset up to which output has been matched
+}
+
+// startTerm starts the command on a pseudo-terminal.
+func startTerm(t *testing.T, args ...string) *term {
+	t.Helper()
+	cmd := exec.Command(binary, args...)
+	cmd.Env = append(os.Environ(), "HOME="+t.TempDir(), "TERM=xterm")
+	f, err := pty.StartWithSize(cmd, &pty.Winsize{Rows: 40, Cols: 200})
+	if err != nil {
+		t.Fatal(err)
+	}
+	tm := &term{t: t, cmd: cmd, f: f, done: make(chan struct{})}
+	go func() {
+		b := make([]byte, 4096)
+		for {
+			n, err := f.Read(b)
+			tm.mu.Lock()
+			tm.buf.Write(b[:n])
+			tm.mu.Unlock()
+			if err != nil {
+				close(tm.done)
+				return
+			}
+		}
+	}()
+	t.Cleanup(func() {
+		_ = cmd.Process.Kill()
+		_ = cmd.Wait()
+		f.Close()
+	})
+	return tm
+}
+
+// expect waits for the output, after what was matched before, to match re.
+func (tm *term) expect(re string) string {
+	tm.t.Helper()
+	rx := regexp.MustCompile(re)
+	deadline := time.Now().Add(15 * time.Second)
+	for time.Now().Before(deadline) {
+		tm.mu.Lock()
+		out := tm.buf.String()
+		tm.mu.Unlock()
+		if loc := rx.FindStringIndex(out[tm.seen:]); loc != nil {
+			m := out[tm.seen : tm.seen+loc[1]]
+			tm.seen += loc[1]
+			return m
+		}
+		time.Sleep(10 * time.Millisecond)
+	}
+	tm.mu.Lock()
+	defer tm.mu.Unlock()
+	tm.t.Fatalf("timed out waiting for %q; output after the last match:\n%s", re, tm.buf.String()[tm.seen:])
+	return ""
+}
+
+// send types text.
+func (tm *term) send(s string) {
+	tm.t.Helper()
+	if _, err := tm.f.Write([]byte(s)); err != nil {
+		tm.t.Fatal(err)
+	}
+}
+
+// wait waits for the command to exit and returns its exit status.
+func (tm *term) wait() int {
+	tm.t.Helper()
+	ch := make(chan error, 1)
+	go func() { ch <- tm.cmd.Wait() }()
+	select {
+	case err := <-ch:
+		var ee *exec.ExitError
+		if errors.As(err, &ee) {
+			return ee.ExitCode()
+		}
+		if err != nil {
+			tm.t.Fatal(err)
+		}
+		return 0
+	case <-time.After(15 * time.Second):
+		tm.t.Fatal("the command did not exit")
+	}
+	return -1
+}
+
+func TestTerminalSession(t *testing.T) {
+	tm := startTerm(t)
+	tm.expect(`not for certification, flight or airworthiness decisions`)
+	tm.expect(`c1> `)
+	// A multi-line cell keeps reading until it is complete.
+	tm.send("func lift(q, s, cl float64) float64 {\r")
+	tm.expect(`\| `)
+	tm.send("\treturn q * s *\r")
+	tm.expect(`\| `)
+	tm.send("\t\tcl\r")
+	tm.expect(`\| `)
+	tm.send("}\r")
+	tm.expect(`c2> `)
+	// The trailing expression is shown: q·S·CL = 1000·20·0.5 = 10000.
+	tm.send("lift(1000, 20, 0.5)\r")
+	tm.expect(`\r\n10000\r\n`)
+	tm.expect(`c3> `)
+	// A panic reports its cell and line; the session goes on.
+	tm.send("x := 1\r")
+	tm.expect(`c4> `)
+	tm.send("if x > 0 { panic(\"stall\") }\r")
+	tm.expect(`cell 4, line 1: panic: stall`)
+	tm.expect(`c5> `)
+	// A compile error too.
+	tm.send("y := x.Chord\r")
+	tm.expect(`cell 5, line 1: .*Chord`)
+	tm.expect(`c6> `)
+	// Tab completes package members.
+	tm.send("import \"strings\"\r")
+	tm.expect(`c7> `)
+	tm.send("strings.HasPre\t")
+	tm.expect(`strings.HasPrefix`)
+	tm.send("(\"wing\", \"wi\")\r")
+	tm.expect(`true\r\n`)
+	tm.expect(`c8> `)
+	// Ctrl-C stops a runaway loop (after the grace period) and the session goes on.
+	tm.send("for {\r")
+	tm.send("}\r")
+	time.Sleep(300 * time.Millisecond)
+	tm.send("\x03")
+	tm.expect(`cancelling the cell`)
+	tm.expect(`cell 8, line 1: stopped: interrupted`)
+	tm.expect(`c9> `)
+	tm.send("6 * 7\r")
+	tm.expect(`42\r\n`)
+	tm.expect(`c10> `)
+	// Ctrl-C twice at an empty prompt leaves cleanly.
+	tm.send("\x03")
+	tm.expect(`press Ctrl-C again`)
+	tm.send("\x03")
+	if code := tm.wait(); code != 0 {
+		t.Errorf("exit status %d, want 0", code)
+	}
+}
+
+func TestTerminalInterruptsOptimisation(t *testing.T) {
+	tm := startTerm(t)
+	tm.expect(`c1> `)
+	tm.send("@replay ../../testdata/slow_optimisation.study\r")
+	time.Sleep(1 * time.Second)
+	tm.send("\x03")
+	// The optimiser returns its best point so far and the cell ends.
+	tm.expect(`cancelled`)
+	tm.expect(`c3> `)
+	tm.send("result.Best != nil && result.Evaluations > 1\r")
+	tm.expect(`true\r\n`)
+	tm.send("@quit\r")
+	if code := tm.wait(); code != 0 {
+		t.Errorf("exit status %d, want 0", code)
+	}
+}
+
+func TestTerminalSaveAndReplay(t *testing.T) {
+	dir := t.TempDir()
+	path := filepath.Join(dir, "mine.study")
+	tm := startTerm(t)
+	tm.expect(`c1> `)
+	tm.send("import \"math\"\r")
+	tm.expect(`c2> `)
+	// Dynamic pressure q = ½ρV² at sea level, ρ = 1.225 kg/m³ (ISA), V = 100 m/s: 6125 Pa.
+	tm.send("q := 0.5 * 1.225 * math.Pow(100, 2)\r")
+	tm.expect(`c3> `)
+	tm.send("q\r")
+	tm.expect(`6125\r\n`)
+	tm.send("@save " + path + "\r")
+	tm.expect(`saved 3 cells`)
+	tm.send("@fresh\r")
+	tm.expect(`fresh session`)
+	tm.send("@replay " + path + "\r")
+	tm.expect(`6125\r\n`)
+	tm.send("@quit\r")
+	tm.wait()
+}
+
+// runCmd runs the command in-process and returns its exit status and output.
+func runCmd(args ...string) (int, string, string) {
+	var out, errb bytes.Buffer
+	code := run(args, strings.NewReader(""), &out, &errb)
+	return code, out.String(), errb.String()
+}
+
+func TestRunExitStatus(t *testing.T) {
+	dir := t.TempDir()
+	write := func(name, text string) string {
+		p := filepath.Join(dir, name)
+		if err := os.WriteFile(p, []byte(text), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		return p
+	}
+	good := write("good.study", "//~ cell 1\nx := 2\n//~ cell 2\nx * 3\n")
+	bad := write("bad.study", "//~ cell 1\nx := 2\n//~ cell 2\ny := x + 1\npanic(\"stall\")\n")
+	loop := write("loop.study", "for {\n}\n")
+	evil := write("evil.study", "import \"os/exec\"\nexec.Command(\"true\").Run()\n")
+	tests := []struct {
+		name string
+		args []string
+		code int
+		msg  string
+	}{
+		{"ok", []string{"run", good, "--out", filepath.Join(dir, "o1")}, 0, "wrote"},
+		{"flags before file", []string{"run", "--out", filepath.Join(dir, "o2"), good}, 0, "wrote"},
+		{"failing cell", []string{"run", bad, "--out", filepath.Join(dir, "o3")}, 1, "bad.study:5: cell 2, line 2: panic: stall"},
+		{"time limit", []string{"run", loop, "--out", filepath.Join(dir, "o4"), "--timeout", "200ms"}, 1, "cell 1, line 1: stopped: time limit reached"},
+		{"refused import", []string{"run", evil, "--out", filepath.Join(dir, "o5")}, 1, "refused by the sandbox"},
+		{"no out", []string{"run", good}, 2, "--out DIR"},
+		{"no file", []string{"run", "--out", dir}, 2, "--out DIR"},
+		{"missing file", []string{"run", filepath.Join(dir, "none.study"), "--out", dir}, 2, "reading the study file"},
+		{"bad seed", []string{"run", good, "--out", dir, "--seed", "-3"}, 2, "--seed"},
+		{"bad flag", []string{"run", good, "--out", dir, "--bogus"}, 2, "bogus"},
+		{"unknown command", []string{"fly"}, 2, "unknown command"},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			code, _, errs := runCmd(tc.args...)
+			if code != tc.code || !strings.Contains(errs, tc.msg) {
+				t.Errorf("exit %d, stderr %q; want exit %d with %q", code, errs, tc.code, tc.msg)
+			}
+		})
+	}
+	// The good run wrote a summary without a result (the script publishes none).
+	b, err := os.ReadFile(filepath.Join(dir, "o1", "summary.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var sum map[string]any
+	if err := json.Unmarshal(b, &sum); err != nil {
+		t.Fatal(err)
+	}
+	if sum["study"] != "good" || sum["cells"] != 2.0 {
+		t.Errorf("summary %s", b)
+	}
+}
+
+func TestRunSIGINTReturnsBest(t *testing.T) {
+	out := t.TempDir()
+	cmd := exec.Command(binary, "run", filepath.Join("..", "..", "testdata", "slow_optimisation.study"), "--out", out)
+	var stderr bytes.Buffer
+	cmd.Stderr = &stderr
+	if err := cmd.Start(); err != nil {
+		t.Fatal(err)
+	}
+	time.Sleep(1500 * time.Millisecond)
+	if err := cmd.Process.Signal(syscall.SIGINT); err != nil {
+		t.Fatal(err)
+	}
+	if err := cmd.Wait(); err != nil {
+		t.Fatalf("run after SIGINT: %v\n%s", err, stderr.String())
+	}
+	b, err := os.ReadFile(filepath.Join(out, "summary.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var sum struct {
+		Stop        string
+		Evaluations int
+		Best        *struct{ Objective *float64 }
+	}
+	if err := json.Unmarshal(b, &sum); err != nil {
+		t.Fatal(err)
+	}
+	if sum.Stop != "cancelled" || sum.Best == nil || sum.Best.Objective == nil || sum.Evaluations < 2 {
+		t.Errorf("summary after SIGINT: %s", b)
+	}
+}
+
+// BenchmarkStartToPrompt measures the time from starting the command on a
+// terminal to its first prompt.
+func BenchmarkStartToPrompt(b *testing.B) {
+	home := b.TempDir()
+	for i := 0; i < b.N; i++ {
+		cmd := exec.Command(binary)
+		cmd.Env = append(os.Environ(), "HOME="+home, "TERM=xterm")
+		f, err := pty.Start(cmd)
+		if err != nil {
+			b.Fatal(err)
+		}
+		var got bytes.Buffer
+		buf := make([]byte, 4096)
+		for !strings.Contains(got.String(), "c1> ") {
+			n, err := f.Read(buf)
+			got.Write(buf[:n])
+			if err != nil {
+				if err == io.EOF {
+					break
+				}
+				b.Fatal(err)
+			}
+		}
+		b.StopTimer()
+		_ = cmd.Process.Kill()
+		_ = cmd.Wait()
+		f.Close()
+		b.StartTimer()
+	}
+}
