@@ -1,0 +1,869 @@
+package disciplines
+
+import (
+	"math"
+
+	"couplet/mdo"
+	"gonum.org/v1/gonum/mathext"
+)
+
+// Aerodynamics of the aircraft from take-off to supersonic cruise (Mach 0
+// to 2.5), for aft- and forward-swept wings:
+//
+//   - parasite drag by component build-up: Prandtl–Schlichting turbulent
+//     flat-plate skin friction with a compressibility factor and a
+//     roughness cut-off Reynolds number, form factors and interference
+//     factors;
+//   - induced drag with an Oswald estimate below Mach 1 and the
+//     supersonic drag-due-to-lift factor above;
+//   - transonic drag rise: Korn equation for the drag-divergence Mach
+//     number, critical Mach number and a Lock-type rise 20(M − Mcrit)⁴,
+//     faired into the supersonic wave drag at Mach 1;
+//   - supersonic volume wave drag by the supersonic area rule: the
+//     slender-body (von Kármán) wave-drag integral of the Mach-plane cross
+//     section area distribution, averaged over roll angle; the lift term
+//     of the area rule (equivalent area due to lift) is computed too;
+//   - lift-curve slope by DATCOM (Helmbold–Polhamus) below Mach 1 and by
+//     linear theory above, with the leading edge classed subsonic or
+//     supersonic against the Mach cone;
+//   - CLmax with sweep and high-lift increments, trim drag of the tail load.
+//
+// Through the transonic range the subsonic and supersonic estimates are
+// blended with a smooth step so the polar is continuous in Mach.
+
+// MaxMach is the highest Mach number the aerodynamic model accepts.
+const MaxMach = 2.5
+
+// WaveStations is the number of stations of the area distribution used by
+// the wave-drag integral (cosine spacing along the aircraft).
+const WaveStations = 32
+
+// waveHarmonics is the number of Fourier terms of the wave-drag integral.
+const waveHarmonics = WaveStations / 2
+
+// WaveDragIntegrator evaluates the slender-body wave drag of an area
+// distribution, D/q = −(1/2π)∫∫ S”(x1)S”(x2) ln|x1 − x2| dx1 dx2 (von
+// Kármán), in its Fourier-series form: with x = (ℓ/2)(1 − cos θ) and
+// S'(x) = Σ An sin nθ, D/q = (π/4) Σ n An². The coefficients An are
+// linear in the areas at the stations θj = jπ/N, j = 1…N, so their
+// quadrature weights are computed once; an analysis costs N·N/2
+// multiply-adds. The value is immutable and safe for concurrent use.
+//
+// DragAreaFromSlope takes the slope S'(x) instead (used for the equivalent
+// area due to lift, which ends in a "base" where the area form loses
+// accuracy): An = (2/π)∫₀^π S' sin nθ dθ by the trapezoidal rule.
+type WaveDragIntegrator struct {
+	w  [WaveStations][waveHarmonics]float64 // from areas, by station
+	v  [WaveStations][waveHarmonics]float64 // from slopes, by station
+	xi [WaveStations]float64                // unit station positions
+}
+
+// NewWaveDragIntegrator computes the quadrature weights.
+//
+// An = (2/π)∫₀^π S'(x(θ)) sin nθ dθ; integrating by parts with
+// gn(θ) = sin nθ / sin θ gives
+// An·ℓ = (4/π)[S(ℓ)(−1)^(n+1) n − ∫₀^π S(θ) gn'(θ) dθ], the integral taken
+// by the trapezoidal rule (S = 0 at the nose, gn'(π) = 0).
+func NewWaveDragIntegrator() *WaveDragIntegrator {
+	wd := &WaveDragIntegrator{}
+	const n = WaveStations
+	h := math.Pi / n
+	for m := 1; m <= waveHarmonics; m++ {
+		fm := float64(m)
+		for j := 1; j < n; j++ {
+			th := float64(j) * h
+			s, c := math.Sincos(th)
+			sm, cm := math.Sincos(fm * th)
+			gp := (fm*cm*s - sm*c) / (s * s)
+			wd.w[j-1][m-1] = -4 / math.Pi * h * gp
+			wd.v[j-1][m-1] = 2 / math.Pi * h * sm
+		}
+		sign := 1.0
+		if m%2 == 0 {
+			sign = -1
+		}
+		wd.w[n-1][m-1] = 4 / math.Pi * sign * fm
+	}
+	for j := 1; j <= n; j++ {
+		wd.xi[j-1] = 0.5 * (1 - math.Cos(float64(j)*h))
+	}
+	return wd
+}
+
+// Stations writes the WaveStations station positions for a body from lo to
+// hi into x: x_j = lo + (hi − lo)(1 − cos(jπ/N))/2, j = 1…N (the nose
+// station j = 0, where S = 0, is implied).
+func (wd *WaveDragIntegrator) Stations(lo, hi float64, x []float64) {
+	l := hi - lo
+	for j, xi := range wd.xi {
+		x[j] = lo + l*xi
+	}
+}
+
+// DragArea returns the wave drag D/q [m2] of the area distribution s
+// (areas [m2] at the Stations of a body of the given length [m]).
+func (wd *WaveDragIntegrator) DragArea(s []float64, length float64) float64 {
+	return math.Pi / 4 * harmonicSum(&wd.w, s) / (length * length)
+}
+
+// DragAreaFromSlope returns the wave drag D/q [m2] of a body whose area
+// slope dS/dx [m] at the Stations is sp (zero at both ends).
+func (wd *WaveDragIntegrator) DragAreaFromSlope(sp []float64) float64 {
+	return math.Pi / 4 * harmonicSum(&wd.v, sp)
+}
+
+// harmonicSum returns Σ n·An² with An = Σj w[j][n−1]·s[j]; the
+// coefficients are accumulated side by side (independent additions).
+func harmonicSum(w *[WaveStations][waveHarmonics]float64, s []float64) float64 {
+	s = s[:WaveStations]
+	var a [waveHarmonics]float64
+	for j, sj := range s {
+		row := &w[j]
+		for m := range a {
+			a[m] += row[m] * sj
+		}
+	}
+	sum := 0.0
+	for m, am := range a {
+		sum += float64(m+1) * am * am
+	}
+	return sum
+}
+
+// SearsHaackDragArea returns the wave drag D/q = 9π·Amax²/(2ℓ²) [m2] of
+// the Sears–Haack body of maximum area amax [m2] and length l [m], the
+// body of least wave drag for its volume and length.
+func SearsHaackDragArea(amax, l float64) float64 {
+	return 9 * math.Pi * amax * amax / (2 * l * l)
+}
+
+// SearsHaackArea returns the cross-section area of the Sears–Haack body at
+// x ∈ [0, l]: S = Amax·(4ξ(1 − ξ))^(3/2), ξ = x/l.
+func SearsHaackArea(amax, l, x float64) float64 {
+	xi := x / l
+	if xi <= 0 || xi >= 1 {
+		return 0
+	}
+	v := 4 * xi * (1 - xi)
+	return amax * v * math.Sqrt(v)
+}
+
+// TurbulentSkinFriction returns the turbulent flat-plate skin-friction
+// coefficient of Prandtl–Schlichting with the compressibility factor,
+// Cf = 0.455/((log10 Re)^2.58 (1 + 0.144M²)^0.65).
+func TurbulentSkinFriction(re, mach float64) float64 {
+	l := math.Log10(re)
+	return 0.455 / (math.Pow(l, 2.58) * math.Pow(1+0.144*mach*mach, 0.65))
+}
+
+// LaminarSkinFriction returns the Blasius laminar flat-plate skin
+// friction Cf = 1.328/√Re.
+func LaminarSkinFriction(re float64) float64 { return 1.328 / math.Sqrt(re) }
+
+// CutoffReynolds returns the Reynolds number above which surface roughness
+// k [m] rather than viscosity sets the skin friction of a component of
+// length l [m]: 38.21(l/k)^1.053 subsonic and 44.62(l/k)^1.053·M^1.16
+// supersonic (conceptual-design textbooks, Raymer; from memory), blended
+// between Mach 0.9 and 1.2.
+func CutoffReynolds(l, k, mach float64) float64 {
+	r := math.Pow(l/k, 1.053)
+	return r * blend(mach, 0.9, 1.2, 38.21, 44.62*math.Pow(math.Max(mach, 1.2), 1.16))
+}
+
+// smoothstep is 0 below a, 1 above b and 3t² − 2t³ between.
+func smoothstep(x, a, b float64) float64 {
+	if x <= a {
+		return 0
+	}
+	if x >= b {
+		return 1
+	}
+	t := (x - a) / (b - a)
+	return t * t * (3 - 2*t)
+}
+
+// blend returns fa below a, fb above b and a smooth step between.
+func blend(x, a, b, fa, fb float64) float64 {
+	w := smoothstep(x, a, b)
+	return fa + w*(fb-fa)
+}
+
+// LiftSlopeSubsonic returns the lift-curve slope [1/rad] of a wing by the
+// DATCOM (Helmbold–Polhamus) formula
+// CLα = 2πA/(2 + √(4 + (A²β²/κ²)(1 + tan²Λ½c/β²))), β² = 1 − M², κ the
+// section lift slope over 2π, Λ½c the half-chord sweep [deg]. mach must be
+// in [0, 1).
+func LiftSlopeSubsonic(aspectRatio, mach, sweepHalfChord, kappa float64) (float64, error) {
+	if !(mach >= 0 && mach < 1) {
+		return 0, inputErr("mach", mach, "", "[0, 1) for the subsonic lift slope")
+	}
+	if !(aspectRatio > 0) {
+		return 0, inputErr("wing.aspect_ratio", aspectRatio, "", "> 0")
+	}
+	if !(kappa > 0 && kappa <= 1.5) {
+		return 0, inputErr("kappa", kappa, "", "(0, 1.5]")
+	}
+	b2 := 1 - mach*mach
+	t := math.Tan(sweepHalfChord * math.Pi / 180)
+	a := aspectRatio
+	return 2 * math.Pi * a / (2 + math.Sqrt(4+a*a/(kappa*kappa)*(b2+t*t))), nil
+}
+
+// LiftSlopeSupersonic returns the lift-curve slope [1/rad] of a wing at
+// mach > 1 by linear theory. With m = β·cot|ΛLE|, a subsonic leading edge
+// (m < 1, inside the Mach cone) gives the conical-flow result of the delta
+// wing, CLα = 2π·m/(β·E(√(1 − m²))), E the complete elliptic integral of
+// the second kind; a supersonic leading edge gives the Ackeret value 4/β.
+// Both are multiplied by the tip Mach-cone loss of the rectangular wing
+// applied to the tip chord, 1 − c_t²/(2βS) (exact for the delta and the
+// rectangular wing with supersonic edges; an engineering interpolation
+// otherwise, which keeps CLα continuous at the sonic leading edge).
+func LiftSlopeSupersonic(w Wing, mach float64) (float64, error) {
+	if !(mach > 1 && mach <= MaxMach) {
+		return 0, inputErr("mach", mach, "", "(1, 2.5] for the supersonic lift slope")
+	}
+	b := math.Sqrt(mach*mach - 1)
+	tle := math.Tan(math.Abs(w.SweepLE) * math.Pi / 180)
+	m := math.Inf(1)
+	if tle > 0 {
+		m = b / tle
+	}
+	tip := math.Max(0.5, 1-w.TipChord*w.TipChord/(2*b*w.Area))
+	if m < 1 {
+		return tip * 2 * math.Pi * m / (b * mathext.CompleteE(1-m*m)), nil
+	}
+	return tip * 4 / b, nil
+}
+
+// AckeretLiftSlope returns the section lift slope 4/β [1/rad] of a thin
+// aerofoil in supersonic flow (Ackeret), mach > 1.
+func AckeretLiftSlope(mach float64) float64 { return 4 / math.Sqrt(mach*mach-1) }
+
+// AckeretDoubleWedgeDrag returns the wave-drag coefficient
+// 4(α² + (t/c)²)/β of a double-wedge section at incidence alpha [rad].
+func AckeretDoubleWedgeDrag(mach, tc, alpha float64) float64 {
+	return 4 * (alpha*alpha + tc*tc) / math.Sqrt(mach*mach-1)
+}
+
+// AckeretBiconvexDrag returns the wave-drag coefficient
+// 4(α² + (4/3)(t/c)²)/β of a biconvex section at incidence alpha [rad].
+func AckeretBiconvexDrag(mach, tc, alpha float64) float64 {
+	return 4 * (alpha*alpha + 4.0/3.0*tc*tc) / math.Sqrt(mach*mach-1)
+}
+
+// OswaldEfficiency estimates the span efficiency e of a wing from its
+// aspect ratio and leading-edge sweep [deg] (either sign):
+// e = 1.78(1 − 0.045A^0.68) − 0.64 for straight wings and
+// e = 4.61(1 − 0.045A^0.68)(cos ΛLE)^0.15 − 3.1 for swept wings
+// (conceptual-design textbooks, Raymer; from memory), blended between 25°
+// and 35° of sweep and held within [0.3, 0.95].
+func OswaldEfficiency(aspectRatio, sweepLE float64) float64 {
+	f := 1 - 0.045*math.Pow(aspectRatio, 0.68)
+	straight := 1.78*f - 0.64
+	swept := 4.61*f*math.Pow(math.Cos(sweepLE*math.Pi/180), 0.15) - 3.1
+	e := blend(math.Abs(sweepLE), 25, 35, straight, swept)
+	return math.Max(0.3, math.Min(0.95, e))
+}
+
+// KornDragDivergence returns the drag-divergence Mach number of the Korn
+// equation, Mdd = κA/cosΛ − (t/c)/cos²Λ − CL/(10cos³Λ), κA the aerofoil
+// technology factor (0.87 conventional, 0.95 supercritical), Λ the sweep
+// [deg] (either sign) (Korn; from memory).
+func KornDragDivergence(kornFactor, tc, sweep, cl float64) float64 {
+	c := math.Cos(sweep * math.Pi / 180)
+	return kornFactor/c - tc/(c*c) - cl/(10*c*c*c)
+}
+
+// lockOffset is Mdd − Mcrit for the Lock-type rise 20(M − Mcrit)⁴ when
+// the drag divergence is defined by dCD/dM = 0.1: (0.1/80)^(1/3).
+var lockOffset = math.Cbrt(0.1 / 80)
+
+// CriticalMach returns the critical Mach number belonging to a
+// drag-divergence Mach number, Mcrit = Mdd − (0.1/80)^(1/3) (Korn–Lock
+// relation; from memory).
+func CriticalMach(mdd float64) float64 { return mdd - lockOffset }
+
+// LockDragRise returns the compressibility drag 20(M − Mcrit)⁴ for
+// M > Mcrit, 0 below.
+func LockDragRise(mach, mcrit float64) float64 {
+	if mach <= mcrit {
+		return 0
+	}
+	d := mach - mcrit
+	return 20 * d * d * d * d
+}
+
+// SupersonicDragDueToLift returns K in CD = CD0 + K·CL² at mach > 1,
+// K = A(M² − 1)cosΛLE/(4A√(M² − 1) − 2) (conceptual-design textbooks;
+// from memory); the denominator is held at least A√(M² − 1).
+func SupersonicDragDueToLift(aspectRatio, mach, sweepLE float64) float64 {
+	b := math.Sqrt(mach*mach - 1)
+	den := math.Max(4*aspectRatio*b-2, aspectRatio*b)
+	return aspectRatio * (mach*mach - 1) * math.Cos(sweepLE*math.Pi/180) / den
+}
+
+// Transonic blending range of the lift slope and the drag-due-to-lift
+// factor: the subsonic estimate at and below blendLow, the supersonic at
+// and above blendHigh.
+const (
+	blendLow  = 0.95
+	blendHigh = 1.2
+)
+
+// LiftSlope returns the wing's lift-curve slope [1/rad] at any Mach number
+// in [0, 2.5]: DATCOM below Mach 0.95, linear theory above 1.2, a smooth
+// step between. kappa is the section lift slope over 2π.
+func LiftSlope(w Wing, mach, kappa float64) (float64, error) {
+	if !(mach >= 0 && mach <= MaxMach) {
+		return 0, inputErr("mach", mach, "", "[0, 2.5]")
+	}
+	var sub, sup float64
+	var err error
+	wt := smoothstep(mach, blendLow, blendHigh)
+	if wt < 1 {
+		if sub, err = LiftSlopeSubsonic(w.AspectRatio, math.Min(mach, blendLow), w.SweepAt(0.5), kappa); err != nil {
+			return 0, err
+		}
+	}
+	if wt > 0 {
+		if sup, err = LiftSlopeSupersonic(w, math.Max(mach, blendHigh)); err != nil {
+			return 0, err
+		}
+	}
+	return sub + wt*(sup-sub), nil
+}
+
+// DragDueToLift returns K of CD = CD0 + K·CL² for the wing at any Mach
+// number in [0, 2.5]: 1/(πAe) below Mach 0.95 (e reduced by
+// oswaldReduction for deflected flaps), SupersonicDragDueToLift above
+// 1.2, a smooth step between.
+func DragDueToLift(w Wing, mach, oswaldReduction float64) float64 {
+	e := OswaldEfficiency(w.AspectRatio, w.SweepLE) - oswaldReduction
+	sub := 1 / (math.Pi * w.AspectRatio * e)
+	wt := smoothstep(mach, blendLow, blendHigh)
+	if wt == 0 {
+		return sub
+	}
+	sup := SupersonicDragDueToLift(w.AspectRatio, math.Max(mach, blendHigh), w.SweepLE)
+	return sub + wt*(sup-sub)
+}
+
+// AeroOptions are the aerodynamic model's settings.
+type AeroOptions struct {
+	Roughness       float64 // equivalent sand roughness [m]
+	LaminarFraction float64 // share of the wetted area in laminar flow
+	// Interference factors Q (conceptual-design textbooks, Raymer; from
+	// memory): wing and fuselage 1.0, tails 1.04, pods close to the wing 1.3.
+	QWing, QFuselage, QTail, QNacelle float64
+	Miscellaneous                     float64 // leakage and protuberances, share of the parasite drag
+	Kappa                             float64 // section lift slope / 2π
+	FlapDragPerCL                     float64 // ΔCD0 per unit ΔCLmax of the flaps
+	GearDrag                          float64 // ΔCD0 of the extended landing gear
+	OswaldReductionTakeoff            float64 // Δe with take-off flaps
+	OswaldReductionLanding            float64 // Δe with landing flaps
+	TakeoffMach                       float64 // Mach number of the low-speed polar
+}
+
+// DefaultAeroOptions returns the default settings: smooth paint
+// (k = 6.34e-6 m, Raymer's table, from memory), fully turbulent, 3 %
+// miscellaneous drag, κ = 0.95, flap drag 0.025 per unit ΔCLmax, gear
+// ΔCD0 = 0.015, Δe 0.05 (take-off) and 0.10 (landing), low-speed polar at
+// Mach 0.2 (increments: common practice, no source).
+func DefaultAeroOptions() AeroOptions {
+	return AeroOptions{
+		Roughness: 6.34e-6, QWing: 1, QFuselage: 1, QTail: 1.04, QNacelle: 1.3,
+		Miscellaneous: 0.03, Kappa: 0.95, FlapDragPerCL: 0.025, GearDrag: 0.015,
+		OswaldReductionTakeoff: 0.05, OswaldReductionLanding: 0.10, TakeoffMach: 0.2,
+	}
+}
+
+// AeroModel evaluates drag polars and lift characteristics of a
+// Configuration. It is immutable after NewAeroModel and safe for
+// concurrent use.
+type AeroModel struct {
+	Geometry GeometryOptions
+	Options  AeroOptions
+	wave     *WaveDragIntegrator
+}
+
+// NewAeroModel returns a model with the given layout and aerodynamic
+// options.
+func NewAeroModel(g GeometryOptions, a AeroOptions) *AeroModel {
+	return &AeroModel{Geometry: g, Options: a, wave: NewWaveDragIntegrator()}
+}
+
+// FlightCondition is a Mach number at a geometric altitude [m] on a day
+// TemperatureOffset [K] from standard.
+type FlightCondition struct {
+	Mach, Altitude, TemperatureOffset float64
+}
+
+// Polar is the drag polar CD = CD0 + K·CL² at one flight condition,
+// with its parts.
+type Polar struct {
+	Mach       float64
+	CD0        float64 // zero-lift drag: friction, form, interference, wave
+	CDFriction float64 // friction, form, interference and miscellaneous
+	CDWave     float64 // volume wave drag (transonic rise and supersonic)
+	K          float64 // drag-due-to-lift factor
+	// KWaveLift is the lift term of the supersonic area rule (drag due to
+	// lift from the equivalent area of the lift), CDwave,lift = KWaveLift·CL².
+	// It is part of K above Mach 1 and reported for information.
+	KWaveLift float64
+	CLAlpha   float64 // lift-curve slope of the wing-body [1/rad]
+	MachDD    float64 // drag-divergence Mach number (Korn)
+	MachCrit  float64 // critical Mach number
+}
+
+// CD returns the drag coefficient at lift coefficient cl.
+func (p Polar) CD(cl float64) float64 { return p.CD0 + p.K*cl*cl }
+
+// roll angles (Gauss–Legendre nodes on [0, π/2]) and weights of the
+// roll-angle average of the supersonic area rule.
+var (
+	rollNodes   = [2]float64{math.Pi / 4 * (1 - 1/math.Sqrt(3)), math.Pi / 4 * (1 + 1/math.Sqrt(3))}
+	rollWeights = [2]float64{0.5, 0.5}
+)
+
+// Polar returns the drag polar of c at fc; cl is the lift coefficient
+// used by the Korn equation (the drag-divergence Mach number falls with
+// lift). Bad input is an error naming the variable.
+func (m *AeroModel) Polar(c *Configuration, fc FlightCondition, cl float64) (Polar, error) {
+	if !(fc.Mach >= 0 && fc.Mach <= MaxMach) {
+		return Polar{}, inputErr("mach", fc.Mach, "", "[0, 2.5]")
+	}
+	atm, err := OffsetAtmosphere(fc.Altitude, fc.TemperatureOffset)
+	if err != nil {
+		return Polar{}, err
+	}
+	return m.polar(c, atm, fc.Mach, cl, true)
+}
+
+// polar is Polar at a known atmosphere; the area-rule lift term is
+// computed only when withLift is set.
+func (m *AeroModel) polar(c *Configuration, atm Atmosphere, mach, cl float64, withLift bool) (Polar, error) {
+	p := Polar{Mach: mach}
+	p.CDFriction = m.parasite(c, atm, mach)
+	w := c.Wing
+	p.MachDD = KornDragDivergence(m.Geometry.KornFactor, w.ThicknessRatio, w.Sweep, cl)
+	p.MachCrit = CriticalMach(p.MachDD)
+	p.CDWave, p.KWaveLift = m.waveDrag(c, mach, p.MachDD, withLift)
+	p.CD0 = p.CDFriction + p.CDWave
+	p.K = DragDueToLift(w, mach, 0)
+	cla, err := LiftSlope(w, mach, m.Options.Kappa)
+	if err != nil {
+		return p, err
+	}
+	p.CLAlpha = cla * wingBodyLiftFactor(c)
+	return p, nil
+}
+
+// wingBodyLiftFactor is (S_exposed/S)·1.07(1 + d/b)², at most 0.98: the
+// lift of the wing-body from the wing's (conceptual-design textbooks,
+// Raymer; from memory).
+func wingBodyLiftFactor(c *Configuration) float64 {
+	w := c.Wing
+	d := c.Fuselage.Diameter
+	f := 1.07 * (1 + d/w.Span) * (1 + d/w.Span)
+	return math.Min(0.98, w.ExposedArea(d)/w.Area*f)
+}
+
+// formFactorWeight is the weight of the subsonic form factors: 1 below
+// Mach 0.95, 0 (form factor 1: thickness drag is wave drag) above 1.2.
+func formFactorWeight(mach float64) float64 { return 1 - smoothstep(mach, blendLow, blendHigh) }
+
+// parasite returns the friction, form and interference drag coefficient.
+func (m *AeroModel) parasite(c *Configuration, atm Atmosphere, mach float64) float64 {
+	o := &m.Options
+	rePerM := atm.Reynolds(mach)
+	// factors common to every component: compressibility of the skin
+	// friction, Mach factor of the cut-off Reynolds number and of the
+	// surfaces' form factors
+	comp := math.Pow(1+0.144*mach*mach, 0.65)
+	cut := blend(mach, 0.9, 1.2, 38.21, 44.62*math.Pow(math.Max(mach, 1.2), 1.16))
+	lnK := math.Log(o.Roughness)
+	cf := func(l float64) float64 {
+		re := math.Max(rePerM*l, 1e5)
+		re = math.Min(re, cut*math.Exp(1.053*(math.Log(l)-lnK)))
+		t := 0.455 / (math.Exp(2.58*math.Log(math.Log10(re))) * comp)
+		if o.LaminarFraction > 0 {
+			t = o.LaminarFraction*LaminarSkinFriction(re) + (1-o.LaminarFraction)*t
+		}
+		return t
+	}
+	fw := formFactorWeight(mach)
+	mff := math.Max(math.Min(mach, blendLow), 0.2)
+	machFF := 1.34 * math.Pow(mff, 0.18)
+	xm := m.Geometry.MaxThicknessChord
+	surfFF := func(w *Wing) float64 {
+		if fw == 0 {
+			return 1
+		}
+		tc := w.ThicknessRatio
+		sub := (1 + 0.6/xm*tc + 100*tc*tc*tc*tc) * machFF * math.Pow(math.Cos(w.SweepAt(xm)*math.Pi/180), 0.28)
+		return 1 + fw*(sub-1)
+	}
+	swW, swF, swH, swV, swN := c.WettedAreas()
+	sum := cf(c.Wing.MAC) * surfFF(&c.Wing) * o.QWing * swW
+	if swH > 0 {
+		sum += cf(c.HTail.MAC) * surfFF(&c.HTail) * o.QTail * swH
+	}
+	sum += cf(c.VTail.MAC) * surfFF(&c.VTail) * o.QTail * swV
+	f := c.Fuselage.Fineness
+	ffF := 1 + fw*(60/(f*f*f)+f/400)
+	sum += cf(c.Fuselage.Length) * ffF * o.QFuselage * swF
+	if swN > 0 {
+		n := &c.Nacelles
+		ffN := 1 + fw*0.35/(n.Length/n.Diameter)
+		sum += cf(n.Length) * ffN * o.QNacelle * swN
+	}
+	return (1 + o.Miscellaneous) * sum / c.Wing.Area
+}
+
+// areaScratch holds the area distribution of one cut.
+type areaScratch struct {
+	x, s, p [WaveStations]float64
+}
+
+// VolumeWaveDragArea returns the volume wave drag D/q [m2] of c at
+// mach >= 1 by the supersonic area rule: the slender-body wave drag of
+// the area distribution cut by Mach planes x = x0 + β·cos θ·y, averaged
+// over roll angle θ (three-point Gauss–Legendre on [0, π/2]; the
+// configuration is symmetric), and the lift factor KWaveLift of the
+// equivalent area due to lift, S_L' = (β cos θ/2)·(L/q)·l(x)/L with l the
+// lift per unit length along the cut, taking a uniform spanwise lift
+// coefficient on the exposed wing and a parabolic chordwise loading
+// (a smoothed flat-plate loading). For an elliptic lengthwise lift
+// distribution this gives Jones's β²L²/(2πq²ℓ²). At Mach 1 the cuts are
+// normal (transonic area rule).
+// The lift term is computed only when withLift is set.
+func (m *AeroModel) VolumeWaveDragArea(c *Configuration, mach float64, withLift bool) (dq, kLift float64) {
+	if mach < 1 {
+		mach = 1
+	}
+	b := math.Sqrt(mach*mach - 1)
+	var sc areaScratch
+	if b == 0 {
+		lo, hi := c.CutRange(0)
+		m.wave.Stations(lo, hi, sc.x[:])
+		c.AreaDistribution(0, sc.x[:], sc.s[:], nil)
+		return m.wave.DragArea(sc.s[:], hi-lo), 0
+	}
+	for r, th := range rollNodes {
+		cth := math.Cos(th)
+		k := b * cth
+		lo, hi := c.CutRange(k)
+		m.wave.Stations(lo, hi, sc.x[:])
+		var p []float64
+		if withLift {
+			p = sc.p[:]
+		}
+		c.AreaDistribution(k, sc.x[:], sc.s[:], p)
+		l := hi - lo
+		dq += rollWeights[r] * m.wave.DragArea(sc.s[:], l)
+		if pe := c.Wing.ExposedArea(c.Fuselage.Diameter); withLift && pe > 0 {
+			for i := range sc.p {
+				sc.p[i] /= pe
+			}
+			// S_L' = (k/2)·CL·S·l/L: D/(qS) = (k²/4)·CL²·S·D[l/L]
+			kLift += rollWeights[r] * 0.25 * k * k * c.Wing.Area * m.wave.DragAreaFromSlope(sc.p[:])
+		}
+	}
+	return dq, kLift
+}
+
+// waveDrag returns the volume wave-drag coefficient at mach and the
+// area-rule lift factor: zero below the critical Mach number, the Lock
+// rise to the drag-divergence Mach number (held at or below 0.95), a cubic
+// fairing to the area-rule value at Mach 1 (zero slope there), the
+// supersonic area rule above.
+func (m *AeroModel) waveDrag(c *Configuration, mach, mdd float64, withLift bool) (float64, float64) {
+	s := c.Wing.Area
+	if mach >= 1 {
+		dq, kl := m.VolumeWaveDragArea(c, mach, withLift)
+		return dq / s, kl
+	}
+	md := math.Min(mdd, blendLow)
+	mc := md - lockOffset
+	if mach <= md {
+		return LockDragRise(mach, mc), 0
+	}
+	dq, _ := m.VolumeWaveDragArea(c, 1, false)
+	y0, d0 := LockDragRise(md, mc), 0.1
+	y1 := dq / s
+	h := 1 - md
+	t := (mach - md) / h
+	t2, t3 := t*t, t*t*t
+	v := (2*t3-3*t2+1)*y0 + (t3-2*t2+t)*h*d0 + (-2*t3+3*t2)*y1
+	return math.Max(0, v), 0
+}
+
+// CLMaxClean returns the clean wing's maximum lift coefficient,
+// 0.9·clmax·cos Λc/4 (conceptual-design textbooks, Raymer; from memory)
+// with the section clmax = min(1.8, 0.85 + 6 t/c) (common practice, no
+// source).
+func CLMaxClean(w Wing) float64 {
+	clmax := math.Min(1.8, 0.85+6*w.ThicknessRatio)
+	return 0.9 * clmax * math.Cos(w.Sweep*math.Pi/180)
+}
+
+// CLMaxFlapped returns the maximum lift coefficient with high-lift
+// devices of increment dcl (the increment of an unswept wing), applied
+// with the cosine of the quarter-chord sweep.
+func CLMaxFlapped(w Wing, dcl float64) float64 {
+	return CLMaxClean(w) + dcl*math.Cos(w.Sweep*math.Pi/180)
+}
+
+// TrimmedDrag returns the drag coefficient of the trimmed aircraft at
+// total lift coefficient cl when the horizontal tail carries tailLift [N]
+// at dynamic pressure q [Pa]: the wing carries CLw = CL − L_t/(qS) and the
+// tail's own drag due to lift K_t·CLt²·S_t/S is added (the trim drag).
+// It returns the total CD and the trim drag (CD minus the untrimmed
+// CD0 + K·CL²).
+func (m *AeroModel) TrimmedDrag(c *Configuration, p Polar, cl, tailLift, q float64) (cd, trim float64) {
+	s := c.Wing.Area
+	clt := tailLift / (q * s)
+	clw := cl - clt
+	cd = p.CD0 + p.K*clw*clw
+	if c.HTail.Area > 0 {
+		kt := DragDueToLift(c.HTail, p.Mach, 0)
+		ct := tailLift / (q * c.HTail.Area)
+		cd += kt * ct * ct * c.HTail.Area / s
+	}
+	return cd, cd - p.CD(cl)
+}
+
+// Aerodynamics is the "aerodynamics" discipline: the drag polar at cruise
+// and at low speed, maximum lift, lift-curve slopes and the trimmed cruise
+// drag. It rebuilds the configuration (with the pods sized by propulsion)
+// from the geometry outputs and the wing parameters.
+//
+// Cruise lift: the mass at the start of cruise is mass.takeoff times the
+// historical warm-up/take-off (0.970) and climb/accelerate fractions
+// (conceptual-design textbooks; from memory); mid-cruise mass is that less
+// 0.4·mass.fuel (half the cruise fuel when cruise burns about 80 % of the
+// mission fuel; common practice, no source). aero.cl_cruise, cd_cruise,
+// ld_cruise are at mid-cruise mass; aero.drag_cruise is the trimmed drag
+// at the start of cruise (the engine-sizing case). Low-speed values are
+// at Mach AeroOptions.TakeoffMach at the airport; aero.ld_takeoff is at
+// V2 = 1.13·VSR (14 CFR 25.107), CL = CLmax,TO/1.13². aero.cd0_takeoff is
+// flaps at take-off, gear up (second segment); aero.cd0_landing is landing
+// flaps, gear down.
+//
+// Outputs beyond the fixed aircraft names: aero.trim_drag_cruise,
+// aero.cd_friction_cruise, aero.mach_drag_divergence,
+// aero.cd0_landing, aero.k_landing, aero.cl_takeoff (at V2).
+type Aerodynamics struct {
+	model *AeroModel
+}
+
+// NewAerodynamics returns the aerodynamics discipline; the layout options
+// must be those of the geometry discipline.
+func NewAerodynamics(g GeometryOptions, a AeroOptions) *Aerodynamics {
+	return &Aerodynamics{model: NewAeroModel(g, a)}
+}
+
+// Model returns the aerodynamic model the discipline uses.
+func (a *Aerodynamics) Model() *AeroModel { return a.model }
+
+// Name implements mdo.Discipline.
+func (a *Aerodynamics) Name() string { return "aerodynamics" }
+
+// Input indices of the aerodynamics discipline (the wing parameters come
+// first, in the order of the geometry discipline).
+const (
+	aeroInFusLength = 6 + iota
+	aeroInFusDiameter
+	aeroInNoseLength
+	aeroInTailLength
+	aeroInHTailArea
+	aeroInVTailArea
+	aeroInEngines
+	aeroInNacDiameter
+	aeroInNacLength
+	aeroInMach
+	aeroInAltitude
+	aeroInMassTakeoff
+	aeroInMassFuel
+	aeroInTailLift
+	aeroInFlapTakeoff
+	aeroInFlapLanding
+	aeroInElevation
+	aeroInDT
+	aeroNumIn
+)
+
+// Output indices of the aerodynamics discipline.
+const (
+	aeroOutCD0 = iota
+	aeroOutK
+	aeroOutCL
+	aeroOutCD
+	aeroOutLD
+	aeroOutDrag
+	aeroOutCD0TO
+	aeroOutKTO
+	aeroOutLDTO
+	aeroOutCLMaxClean
+	aeroOutCLMaxTO
+	aeroOutCLMaxLdg
+	aeroOutCLACruise
+	aeroOutCLALow
+	aeroOutWave
+	aeroOutTrim
+	aeroOutFriction
+	aeroOutMDD
+	aeroOutCD0Ldg
+	aeroOutKLdg
+	aeroOutCLTO
+	aeroNumOut
+)
+
+// Inputs implements mdo.Discipline.
+func (a *Aerodynamics) Inputs() []mdo.Var {
+	in := make([]mdo.Var, aeroNumIn)
+	w := wingParamVars()
+	copy(in, w[:])
+	v := func(i int, name, unit, desc string, def, lo, hi, scale float64) {
+		in[i] = mdo.Var{Name: name, Unit: unit, Description: desc, Default: def, Min: lo, Max: hi, Scale: scale}
+	}
+	v(aeroInFusLength, "fuselage.length", "m", "fuselage length", 22, 0, 200, 0)
+	v(aeroInFusDiameter, "fuselage.diameter", "m", "fuselage outer diameter", 1.9, 0, 20, 0)
+	v(aeroInNoseLength, "fuselage.nose_length", "m", "nose cone length", 6.5, 0, 100, 0)
+	v(aeroInTailLength, "fuselage.tail_length", "m", "tail cone length", 7.5, 0, 100, 0)
+	v(aeroInHTailArea, "htail.area", "m2", "horizontal-tail area", 20, 0, 1000, 0)
+	v(aeroInVTailArea, "vtail.area", "m2", "vertical-tail (fin) area", 15, 0, 1000, 0)
+	v(aeroInEngines, "engine.count", "-", "number of engines (rounded)", 2, 1, 5, 0)
+	v(aeroInNacDiameter, "nacelle.diameter", "m", "nacelle maximum diameter", 1.2, 0, 6, 0)
+	v(aeroInNacLength, "nacelle.length", "m", "nacelle length (inlet to nozzle)", 6, 0, 30, 0)
+	v(aeroInMach, "cruise.mach", "-", "cruise Mach number", 1.5, 0, MaxMach, 0)
+	v(aeroInAltitude, "cruise.altitude", "m", "cruise altitude (geometric)", 15000, AtmosphereMinAltitude, AtmosphereMaxAltitude, 1000)
+	v(aeroInMassTakeoff, "mass.takeoff", "kg", "take-off (design gross) mass", 45000, 500, 1e6, 1e4)
+	v(aeroInMassFuel, "mass.fuel", "kg", "mission fuel", 20000, 0, 1e6, 1e4)
+	v(aeroInTailLift, "stability.tail_lift_cruise", "N", "horizontal-tail lift in trimmed cruise (positive up)", 0, -1e7, 1e7, 1e4)
+	v(aeroInFlapTakeoff, "flap.cl_increment_takeoff", "-", "CLmax increment of the take-off high-lift setting (unswept wing)", 0.4, 0, 3, 0)
+	v(aeroInFlapLanding, "flap.cl_increment_landing", "-", "CLmax increment of the landing high-lift setting (unswept wing)", 0.8, 0, 3, 0)
+	v(aeroInElevation, "airport.elevation", "m", "airport elevation", 0, -400, 4500, 1000)
+	v(aeroInDT, "airport.temperature_offset", "K", "airport temperature above the standard day", 0, -50, 50, 10)
+	return in
+}
+
+// Outputs implements mdo.Discipline.
+func (a *Aerodynamics) Outputs() []mdo.Var {
+	o := make([]mdo.Var, aeroNumOut)
+	v := func(i int, name, unit, desc string, def, lo, hi float64) {
+		o[i] = mdo.Var{Name: name, Unit: unit, Description: desc, Default: def, Min: lo, Max: hi, Scale: def}
+	}
+	v(aeroOutCD0, "aero.cd0_cruise", "-", "zero-lift drag coefficient at cruise (friction, form, wave)", 0.02, 0, 1)
+	v(aeroOutK, "aero.k_cruise", "-", "drag-due-to-lift factor at cruise", 0.19, 0, 10)
+	v(aeroOutCL, "aero.cl_cruise", "-", "lift coefficient at mid-cruise mass", 0.15, -10, 10)
+	v(aeroOutCD, "aero.cd_cruise", "-", "trimmed drag coefficient at mid-cruise mass", 0.024, 0, 10)
+	v(aeroOutLD, "aero.ld_cruise", "-", "trimmed lift-to-drag ratio at mid-cruise mass", 7, -100, 100)
+	v(aeroOutDrag, "aero.drag_cruise", "N", "trimmed drag at the start of cruise", 60000, 0, 1e8)
+	v(aeroOutCD0TO, "aero.cd0_takeoff", "-", "zero-lift drag coefficient, take-off flaps, gear up", 0.03, 0, 1)
+	v(aeroOutKTO, "aero.k_takeoff", "-", "drag-due-to-lift factor, take-off flaps", 0.15, 0, 10)
+	v(aeroOutLDTO, "aero.ld_takeoff", "-", "lift-to-drag ratio at V2, take-off flaps", 7, 0, 100)
+	v(aeroOutCLMaxClean, "aero.cl_max_clean", "-", "maximum lift coefficient, clean", 0.7, 0, 5)
+	v(aeroOutCLMaxTO, "aero.cl_max_takeoff", "-", "maximum lift coefficient, take-off flaps", 1.0, 0, 6)
+	v(aeroOutCLMaxLdg, "aero.cl_max_landing", "-", "maximum lift coefficient, landing flaps", 1.3, 0, 6)
+	v(aeroOutCLACruise, "aero.cla_cruise", "1/rad", "wing-body lift-curve slope at cruise Mach", 3, 0, 20)
+	v(aeroOutCLALow, "aero.cla_low_speed", "1/rad", "wing-body lift-curve slope at low speed", 2.7, 0, 20)
+	v(aeroOutWave, "aero.wave_drag_cruise", "-", "volume wave-drag coefficient at cruise", 0.01, 0, 1)
+	v(aeroOutTrim, "aero.trim_drag_cruise", "-", "trim drag coefficient at mid-cruise mass", 0.0005, -1, 1)
+	v(aeroOutFriction, "aero.cd_friction_cruise", "-", "friction, form and interference drag coefficient at cruise", 0.01, 0, 1)
+	v(aeroOutMDD, "aero.mach_drag_divergence", "-", "drag-divergence Mach number (Korn) at cruise lift", 1.2, -10, 10)
+	v(aeroOutCD0Ldg, "aero.cd0_landing", "-", "zero-lift drag coefficient, landing flaps, gear down", 0.05, 0, 1)
+	v(aeroOutKLdg, "aero.k_landing", "-", "drag-due-to-lift factor, landing flaps", 0.16, 0, 10)
+	v(aeroOutCLTO, "aero.cl_takeoff", "-", "lift coefficient at V2 (CLmax,TO/1.13²)", 0.8, 0, 6)
+	return o
+}
+
+// CruiseStartFraction returns mass at the start of cruise over take-off
+// mass: warm-up and take-off 0.970 times climb and accelerate to mach,
+// 1.0065 − 0.0325M below Mach 1 and 0.991 − 0.007M − 0.01M² above
+// (historical mission-segment fractions, conceptual-design textbooks;
+// from memory).
+func CruiseStartFraction(mach float64) float64 {
+	c := 1.0065 - 0.0325*mach
+	if mach > 1 {
+		c = 0.991 - 0.007*mach - 0.01*mach*mach
+	}
+	return 0.970 * math.Min(1, c)
+}
+
+// Compute implements mdo.Discipline. It allocates nothing.
+func (a *Aerodynamics) Compute(in, out []float64) error {
+	m := a.model
+	w, err := NewWing(in[geoInArea], in[geoInAspect], in[geoInTaper], in[geoInSweep], in[geoInTC])
+	if err != nil {
+		return err
+	}
+	f, err := FuselageFromDimensions(in[aeroInFusLength], in[aeroInFusDiameter], in[aeroInNoseLength], in[aeroInTailLength])
+	if err != nil {
+		return err
+	}
+	c, err := AssembleConfiguration(w, in[geoInPosition], f, in[aeroInHTailArea], in[aeroInVTailArea],
+		roundCount(in[aeroInEngines]), in[aeroInNacDiameter], in[aeroInNacLength], m.Geometry)
+	if err != nil {
+		return err
+	}
+	mach := in[aeroInMach]
+	if !(mach > 0 && mach <= MaxMach) {
+		return inputErr("cruise.mach", mach, "", "(0, 2.5]")
+	}
+	atm, err := StandardAtmosphere(in[aeroInAltitude])
+	if err != nil {
+		return renameInput(err, "cruise.altitude")
+	}
+	q := atm.DynamicPressure(mach)
+	s := w.Area
+	mStart := in[aeroInMassTakeoff] * CruiseStartFraction(mach)
+	mMid := math.Max(mStart-0.4*in[aeroInMassFuel], 0.3*mStart)
+	cl := mMid * G0 / (q * s)
+	p, err := m.polar(&c, atm, mach, cl, false)
+	if err != nil {
+		return err
+	}
+	lt := in[aeroInTailLift]
+	cd, trim := m.TrimmedDrag(&c, p, cl, lt, q)
+	clStart := mStart * G0 / (q * s)
+	cdStart, _ := m.TrimmedDrag(&c, p, clStart, lt, q)
+	out[aeroOutCD0] = p.CD0
+	out[aeroOutK] = p.K
+	out[aeroOutCL] = cl
+	out[aeroOutCD] = cd
+	out[aeroOutLD] = cl / cd
+	out[aeroOutDrag] = q * s * cdStart
+	out[aeroOutWave] = p.CDWave
+	out[aeroOutTrim] = trim
+	out[aeroOutFriction] = p.CDFriction
+	out[aeroOutMDD] = p.MachDD
+	out[aeroOutCLACruise] = p.CLAlpha
+
+	atmTO, err := OffsetAtmosphere(in[aeroInElevation], in[aeroInDT])
+	if err != nil {
+		return renameInput(err, "airport.elevation")
+	}
+	o := &m.Options
+	pl, err := m.polar(&c, atmTO, o.TakeoffMach, 0.5, false)
+	if err != nil {
+		return err
+	}
+	clmax := CLMaxClean(w)
+	clTO := CLMaxFlapped(w, in[aeroInFlapTakeoff])
+	clL := CLMaxFlapped(w, in[aeroInFlapLanding])
+	cd0TO := pl.CD0 + o.FlapDragPerCL*in[aeroInFlapTakeoff]
+	kTO := DragDueToLift(w, o.TakeoffMach, o.OswaldReductionTakeoff)
+	cl2 := clTO / (1.13 * 1.13)
+	out[aeroOutCD0TO] = cd0TO
+	out[aeroOutKTO] = kTO
+	out[aeroOutLDTO] = cl2 / (cd0TO + kTO*cl2*cl2)
+	out[aeroOutCLTO] = cl2
+	out[aeroOutCLMaxClean] = clmax
+	out[aeroOutCLMaxTO] = clTO
+	out[aeroOutCLMaxLdg] = clL
+	out[aeroOutCLALow] = pl.CLAlpha
+	out[aeroOutCD0Ldg] = pl.CD0 + o.FlapDragPerCL*in[aeroInFlapLanding] + o.GearDrag
+	out[aeroOutKLdg] = DragDueToLift(w, o.TakeoffMach, o.OswaldReductionLanding)
+	return nil
+}

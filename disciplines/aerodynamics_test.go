@@ -1,0 +1,388 @@
+package disciplines
+
+import (
+	"errors"
+	"math"
+	"testing"
+)
+
+func TestSearsHaackWaveDrag(t *testing.T) {
+	// Sears–Haack body: D/q = 9π·Amax²/(2ℓ²); ℓ = 20 m, r = 1 m →
+	// 0.34882 m². The numerical slender-body integral must reproduce it
+	// within 1 %.
+	if got := SearsHaackDragArea(math.Pi, 20); math.Abs(got-0.34882) > 5e-6 {
+		t.Errorf("closed form %g", got)
+	}
+	wd := NewWaveDragIntegrator()
+	for _, l := range []float64{20, 7.5} {
+		var x, s [WaveStations]float64
+		wd.Stations(0, l, x[:])
+		for i := range x {
+			s[i] = SearsHaackArea(math.Pi, l, x[i])
+		}
+		got, want := wd.DragArea(s[:], l), SearsHaackDragArea(math.Pi, l)
+		if relErr(got, want) > 0.01 {
+			t.Errorf("ℓ = %g: numerical D/q = %g, Sears–Haack %g", l, got, want)
+		}
+	}
+}
+
+func TestJonesLiftWaveDrag(t *testing.T) {
+	// Equivalent area due to lift with an elliptic lengthwise load:
+	// D/q = β²(L/q)²/(2πℓ²) after the roll-angle average of cos²θ = ½,
+	// i.e. the unaveraged slope integral gives 4/(πℓ²) for a unit load
+	// (R. T. Jones, minimum wave drag due to lift; from memory).
+	wd := NewWaveDragIntegrator()
+	l := 20.0
+	var x, sp [WaveStations]float64
+	wd.Stations(0, l, x[:])
+	for i := range x {
+		xi := x[i] / l
+		sp[i] = 8 / (math.Pi * l) * math.Sqrt(math.Max(0, xi*(1-xi)))
+	}
+	if got, want := wd.DragAreaFromSlope(sp[:]), 4/(math.Pi*l*l); relErr(got, want) > 1e-3 {
+		t.Errorf("D = %g, want %g", got, want)
+	}
+}
+
+func TestSkinFriction(t *testing.T) {
+	// Prandtl–Schlichting turbulent flat plate with compressibility:
+	// Re = 1e7 → 0.0030037 (M = 0), 0.0024495 (M = 1.6); Blasius laminar
+	// 1.328/√Re (REFERENCES: recomputed from the equations).
+	cases := []struct {
+		name      string
+		got, want float64
+	}{
+		{"turbulent M=0", TurbulentSkinFriction(1e7, 0), 0.0030037},
+		{"turbulent M=1.6", TurbulentSkinFriction(1e7, 1.6), 0.0024495},
+		{"laminar Re=1e6", LaminarSkinFriction(1e6), 0.001328},
+	}
+	for _, c := range cases {
+		if relErr(c.got, c.want) > 5e-5 {
+			t.Errorf("%s: Cf = %.7f, want %.7f", c.name, c.got, c.want)
+		}
+	}
+	// The roughness cut-off Reynolds number grows with length/roughness
+	// and Mach number (Raymer's relations, from memory: 38.21(l/k)^1.053).
+	if got := CutoffReynolds(10, 6.34e-6, 0.5); relErr(got, 38.21*math.Pow(10/6.34e-6, 1.053)) > 1e-12 {
+		t.Errorf("cut-off Re %g", got)
+	}
+	if CutoffReynolds(10, 6.34e-6, 2) <= CutoffReynolds(10, 6.34e-6, 0.5) {
+		t.Error("supersonic cut-off not above subsonic")
+	}
+}
+
+func TestLiftSlopeSubsonic(t *testing.T) {
+	// DATCOM / Helmbold–Polhamus: A = 6, M = 0, Λ½ = 0, κ = 1 → 4.5287;
+	// A = 8, M = 0.8, Λ½ = 25°, κ = 0.95 → 5.7747 /rad (REFERENCES).
+	cases := []struct{ a, m, sweep, kappa, want float64 }{
+		{6, 0, 0, 1, 4.5287},
+		{8, 0.8, 25, 0.95, 5.7747},
+	}
+	for _, c := range cases {
+		got, err := LiftSlopeSubsonic(c.a, c.m, c.sweep, c.kappa)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if math.Abs(got-c.want) > 5e-5 {
+			t.Errorf("A %g M %g: CLα = %.5f, want %.4f", c.a, c.m, got, c.want)
+		}
+	}
+	if _, err := LiftSlopeSubsonic(6, 1.1, 0, 1); err == nil {
+		t.Error("supersonic Mach accepted by the subsonic formula")
+	}
+}
+
+func TestAckeret(t *testing.T) {
+	// Ackeret thin-aerofoil theory at M = 2: clα = 4/β = 2.3094 /rad;
+	// double wedge t/c = 0.05, α = 0.02 rad → cd = 0.0066973 (REFERENCES).
+	if got := AckeretLiftSlope(2); math.Abs(got-2.3094) > 5e-5 {
+		t.Errorf("clα = %g", got)
+	}
+	if got := AckeretDoubleWedgeDrag(2, 0.05, 0.02); math.Abs(got-0.0066973) > 5e-8 {
+		t.Errorf("cd = %g", got)
+	}
+	// Biconvex: the thickness term is 4/3 of the double wedge's.
+	if got := AckeretBiconvexDrag(2, 0.05, 0) / AckeretDoubleWedgeDrag(2, 0.05, 0); math.Abs(got-4.0/3) > 1e-12 {
+		t.Errorf("biconvex/double-wedge = %g", got)
+	}
+}
+
+func TestLiftSlopeSupersonic(t *testing.T) {
+	// Linear theory of the delta wing (taper 0): with a supersonic leading
+	// edge CLα = 4/β (Ackeret); with a subsonic one 2π·m/(β E(√(1−m²))),
+	// which tends to the slender-wing value πA/2 (R. T. Jones) as m → 0
+	// and meets 4/β at the sonic leading edge m = 1 (from memory).
+	delta := func(sweepLE float64) Wing {
+		// A = 4 cot ΛLE for a delta; quarter-chord sweep from ΛLE.
+		a := 4 / math.Tan(sweepLE*math.Pi/180)
+		tq := math.Tan(sweepLE*math.Pi/180) - 1/a
+		w, err := NewWing(50, a, 0, math.Atan(tq)*180/math.Pi, 0.03)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return w
+	}
+	w := delta(45)
+	if math.Abs(w.SweepLE-45) > 1e-9 {
+		t.Fatalf("delta ΛLE = %g", w.SweepLE)
+	}
+	got, _ := LiftSlopeSupersonic(w, 2) // β = 1.732 > tan 45°: supersonic LE
+	if relErr(got, 4/math.Sqrt(3)) > 1e-12 {
+		t.Errorf("supersonic LE: %g", got)
+	}
+	w = delta(74) // slender: m = β cot 74° small at M = 1.02
+	got, _ = LiftSlopeSupersonic(w, 1.02)
+	if relErr(got, math.Pi*w.AspectRatio/2) > 0.01 {
+		t.Errorf("slender delta %g vs πA/2 = %g", got, math.Pi*w.AspectRatio/2)
+	}
+	// Sonic leading edge: both branches agree.
+	w = delta(60)
+	msonic := math.Sqrt(1 + math.Pow(math.Tan(60*math.Pi/180), 2))
+	lo, _ := LiftSlopeSupersonic(w, msonic*(1-1e-9))
+	hi, _ := LiftSlopeSupersonic(w, msonic*(1+1e-9))
+	if relErr(lo, hi) > 1e-5 {
+		t.Errorf("sonic leading edge: %g vs %g", lo, hi)
+	}
+	if _, err := LiftSlopeSupersonic(w, 2.6); err == nil {
+		t.Error("Mach 2.6 accepted")
+	}
+}
+
+func TestKornAndLock(t *testing.T) {
+	// Korn equation recomputed by hand: κA = 0.95, t/c = 0.12, Λ = 25°,
+	// CL = 0.5 → Mdd = 1.04822 − 0.14609 − 0.06717 = 0.83496; forward
+	// and aft sweep give the same value (cos Λ).
+	if got := KornDragDivergence(0.95, 0.12, 25, 0.5); math.Abs(got-0.83496) > 2e-5 {
+		t.Errorf("Mdd = %g", got)
+	}
+	if KornDragDivergence(0.95, 0.12, -25, 0.5) != KornDragDivergence(0.95, 0.12, 25, 0.5) {
+		t.Error("forward sweep differs")
+	}
+	// Lock's rise has slope 0.1 at Mdd when Mcrit = Mdd − (0.1/80)^(1/3).
+	mdd := 0.83
+	mc := CriticalMach(mdd)
+	h := 1e-6
+	if s := (LockDragRise(mdd+h, mc) - LockDragRise(mdd-h, mc)) / (2 * h); math.Abs(s-0.1) > 1e-6 {
+		t.Errorf("slope at Mdd %g", s)
+	}
+}
+
+func TestSupersonicDragDueToLift(t *testing.T) {
+	// K = A(M² − 1)cosΛLE/(4A√(M² − 1) − 2) (from memory): grows with
+	// Mach number beyond the transonic range and falls with sweep.
+	prev := 0.0
+	for _, m := range []float64{1.2, 1.5, 2, 2.5} {
+		k := SupersonicDragDueToLift(3, m, 55)
+		want := 3 * (m*m - 1) * math.Cos(55*math.Pi/180) / (12*math.Sqrt(m*m-1) - 2)
+		if relErr(k, want) > 1e-12 || k <= prev {
+			t.Errorf("M %g: K = %g", m, k)
+		}
+		prev = k
+	}
+	if SupersonicDragDueToLift(3, 1.6, 65) >= SupersonicDragDueToLift(3, 1.6, 45) {
+		t.Error("K does not fall with sweep")
+	}
+}
+
+func TestDragRisesWithLift(t *testing.T) {
+	// Property: at every Mach number CD grows with |CL|.
+	c := testConfiguration(t, 50, true)
+	m := NewAeroModel(DefaultGeometryOptions(), DefaultAeroOptions())
+	for _, mach := range []float64{0.2, 0.8, 0.98, 1.3, 2.2} {
+		prev := -1.0
+		for _, cl := range []float64{0, 0.1, 0.3, 0.6} {
+			p, err := m.Polar(&c, FlightCondition{Mach: mach, Altitude: 12000}, cl)
+			if err != nil {
+				t.Fatal(err)
+			}
+			cd := p.CD(cl)
+			if cd <= prev {
+				t.Errorf("M %g: CD(%g) = %g not above %g", mach, cl, cd, prev)
+			}
+			prev = cd
+		}
+	}
+}
+
+func TestWaveDragPeaksNearMachOne(t *testing.T) {
+	// Property (transonic area rule / supersonic area rule): the wave drag
+	// rises through the transonic range, peaks near Mach 1 and falls
+	// beyond; below the critical Mach number it is zero.
+	for _, sweep := range []float64{50, -35} {
+		c := testConfiguration(t, sweep, true)
+		m := NewAeroModel(DefaultGeometryOptions(), DefaultAeroOptions())
+		best, bestM := 0.0, 0.0
+		var at = map[float64]float64{}
+		for mach := 0.5; mach <= 2.5+1e-9; mach += 0.01 {
+			p, err := m.Polar(&c, FlightCondition{Mach: mach, Altitude: 15000}, 0.1)
+			if err != nil {
+				t.Fatal(err)
+			}
+			at[math.Round(mach*100)/100] = p.CDWave
+			if p.CDWave > best {
+				best, bestM = p.CDWave, mach
+			}
+		}
+		if at[0.5] != 0 || bestM < 0.97 || bestM > 1.15 {
+			t.Errorf("sweep %g: wave drag %g at M 0.5, peak at M %.2f", sweep, at[0.5], bestM)
+		}
+		if !(at[1.2] > at[1.6] && at[1.6] > at[2.0] && at[2.0] > at[2.4]) {
+			t.Errorf("sweep %g: wave drag does not fall beyond Mach 1: %g %g %g %g", sweep, at[1.2], at[1.6], at[2.0], at[2.4])
+		}
+	}
+}
+
+func TestSweepLowersSupersonicWaveDrag(t *testing.T) {
+	// Property (supersonic area rule, linear theory): at equal area, once
+	// the ridge line of maximum thickness (half chord for the sections
+	// used) lies inside the Mach cone (Λ½ > 90° − μ), more sweep spreads
+	// the wing's volume along the Mach-plane cuts and lowers the volume
+	// wave drag; linear theory peaks between the sonic leading edge and
+	// the sonic ridge line. The wing's MAC quarter chord stays at 60 % of the fuselage and
+	// the tails keep their area, so only the sweep changes.
+	m := NewAeroModel(DefaultGeometryOptions(), DefaultAeroOptions())
+	f, err := NewFuselage(Cabin{Passengers: 12, SeatsAbreast: 2, SeatPitch: 0.95, SeatWidth: 0.55}, 3.5, 4)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, mach := range []float64{1.3, 1.6, 2.0} {
+		mu := math.Asin(1/mach) * 180 / math.Pi
+		prev := math.Inf(1)
+		n := 0
+		for sweep := 0.0; sweep <= 70; sweep += 2.5 {
+			w, err := NewWing(100, 3, 0.15, sweep, 0.035)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if w.SweepAt(0.5) < 90-mu {
+				continue
+			}
+			pos := (0.6*f.Length - w.MACX - 0.25*w.MAC) / f.Length
+			c, err := AssembleConfiguration(w, pos, f, 20, 15, 0, 0, 0, DefaultGeometryOptions())
+			if err != nil {
+				t.Fatal(err)
+			}
+			dq, _ := m.VolumeWaveDragArea(&c, mach, false)
+			if dq >= prev {
+				t.Errorf("M %g, sweep %g: D/q = %g not below %g", mach, sweep, dq, prev)
+			}
+			prev = dq
+			n++
+		}
+		if n < 3 {
+			t.Errorf("M %g: only %d sweeps compared", mach, n)
+		}
+	}
+}
+
+func TestPolarContinuousInMach(t *testing.T) {
+	// The blend through the transonic range keeps CD0, K and CLα
+	// continuous from Mach 0.1 (below, the Reynolds number tends to zero)
+	// to 2.5: between Mach numbers 1e-4 apart no change larger than a
+	// slope of 1 per unit Mach (CD0), 1 (K) and 20 /rad (CLα) allows.
+	c := testConfiguration(t, 45, true)
+	m := NewAeroModel(DefaultGeometryOptions(), DefaultAeroOptions())
+	var prev Polar
+	const dm = 1e-4
+	for i := 1000; i <= 25000; i++ {
+		mach := float64(i) * dm
+		p, err := m.Polar(&c, FlightCondition{Mach: mach, Altitude: 14000}, 0.2)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if i > 1000 {
+			if math.Abs(p.CD0-prev.CD0) > 1e-4 || math.Abs(p.K-prev.K) > 1e-4 || math.Abs(p.CLAlpha-prev.CLAlpha) > 2e-3 {
+				t.Fatalf("jump at M %.4f: CD0 %g→%g, K %g→%g, CLα %g→%g", mach, prev.CD0, p.CD0, prev.K, p.K, prev.CLAlpha, p.CLAlpha)
+			}
+		}
+		prev = p
+	}
+}
+
+func TestAeroRefusesBadInput(t *testing.T) {
+	c := testConfiguration(t, 50, true)
+	m := NewAeroModel(DefaultGeometryOptions(), DefaultAeroOptions())
+	cases := []struct {
+		name    string
+		fc      FlightCondition
+		wantVar string
+	}{
+		{"Mach above 2.5", FlightCondition{Mach: 2.6, Altitude: 15000}, "mach"},
+		{"negative Mach", FlightCondition{Mach: -0.1, Altitude: 15000}, "mach"},
+		{"above the atmosphere", FlightCondition{Mach: 1.5, Altitude: 90000}, "altitude"},
+	}
+	for _, cs := range cases {
+		_, err := m.Polar(&c, cs.fc, 0.1)
+		var ie *InputError
+		if !errors.As(err, &ie) || ie.Var != cs.wantVar {
+			t.Errorf("%s: err = %v, want an InputError naming %s", cs.name, err, cs.wantVar)
+		}
+	}
+	// The discipline names the aircraft variable.
+	a := NewAerodynamics(DefaultGeometryOptions(), DefaultAeroOptions())
+	in := defaultValues(a.Inputs())
+	out := make([]float64, len(a.Outputs()))
+	in[aeroInAltitude] = 90000
+	err := a.Compute(in, out)
+	var ie *InputError
+	if !errors.As(err, &ie) || ie.Var != "cruise.altitude" {
+		t.Errorf("cruise altitude 90 km: err = %v", err)
+	}
+	in = defaultValues(a.Inputs())
+	in[geoInArea] = 0
+	if err := a.Compute(in, out); !errors.As(err, &ie) || ie.Var != "wing.area" {
+		t.Errorf("zero area: err = %v", err)
+	}
+}
+
+func TestAerodynamicsDiscipline(t *testing.T) {
+	a := NewAerodynamics(DefaultGeometryOptions(), DefaultAeroOptions())
+	in := defaultValues(a.Inputs())
+	out := make([]float64, len(a.Outputs()))
+	if err := a.Compute(in, out); err != nil {
+		t.Fatal(err)
+	}
+	get := func(name string) float64 { return out[varPosition(a.Outputs(), name)] }
+	// Internal consistency: L/D = CL/CD, CD = CD0 + K·CL² + trim, and the
+	// high-lift settings order the maximum lift coefficients.
+	if relErr(get("aero.ld_cruise"), get("aero.cl_cruise")/get("aero.cd_cruise")) > 1e-12 {
+		t.Error("L/D inconsistent")
+	}
+	cl := get("aero.cl_cruise")
+	if relErr(get("aero.cd_cruise"), get("aero.cd0_cruise")+get("aero.k_cruise")*cl*cl+get("aero.trim_drag_cruise")) > 1e-12 {
+		t.Error("CD inconsistent")
+	}
+	if !(get("aero.cl_max_clean") < get("aero.cl_max_takeoff") && get("aero.cl_max_takeoff") < get("aero.cl_max_landing")) {
+		t.Error("CLmax ordering")
+	}
+	// A tail download costs trim drag.
+	in[aeroInTailLift] = -20000
+	_ = a.Compute(in, out)
+	if get("aero.trim_drag_cruise") <= 0 {
+		t.Errorf("trim drag %g with a tail download", get("aero.trim_drag_cruise"))
+	}
+	if n := testing.AllocsPerRun(100, func() { _ = a.Compute(in, out) }); n != 0 {
+		t.Errorf("Compute allocates %v times", n)
+	}
+}
+
+func BenchmarkAerodynamicsCompute(b *testing.B) {
+	a := NewAerodynamics(DefaultGeometryOptions(), DefaultAeroOptions())
+	in := defaultValues(a.Inputs())
+	out := make([]float64, len(a.Outputs()))
+	b.ReportAllocs()
+	for i := 0; i < b.N; i++ {
+		_ = a.Compute(in, out)
+	}
+}
+
+func BenchmarkGeometryCompute(b *testing.B) {
+	g := NewGeometry(DefaultGeometryOptions())
+	in := defaultValues(g.Inputs())
+	out := make([]float64, len(g.Outputs()))
+	b.ReportAllocs()
+	for i := 0; i < b.N; i++ {
+		_ = g.Compute(in, out)
+	}
+}
