@@ -166,7 +166,7 @@ func (o FullFactorial) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result,
 		}
 		return xs, nil
 	}
-	return runDesignSpecs(ctx, s, o.Name(), o, "FullFactorial", -1, o.BatchSize, &specs, gen)
+	return runDesignSpecs(ctx, s, o.Name(), o, "FullFactorial", 0, false, o.BatchSize, &specs, gen)
 }
 
 // rows copies the rows of a matrix.
@@ -184,14 +184,14 @@ type designFunc func(n, d int, seed uint64) ([][]float64, error)
 
 // runDesign evaluates a design of samples points.
 func runDesign(ctx context.Context, s *mdo.Study, name string, settings any, method string, samples, batch int, gen designFunc) (*mdo.Result, error) {
-	return runDesignSpecs(ctx, s, name, settings, method, samples, batch, nil, gen)
+	return runDesignSpecs(ctx, s, name, settings, method, samples, true, batch, nil, gen)
 }
 
-// runDesignSpecs evaluates a design; samples < 0 means the generator
-// chooses the number; specs, when not nil, receives the design variables
-// before gen is called.
-func runDesignSpecs(ctx context.Context, s *mdo.Study, name string, settings any, method string, samples, batch int, specs *[]mdo.DesignSpec, gen designFunc) (*mdo.Result, error) {
-	if samples >= 0 {
+// runDesignSpecs evaluates a design; when hasSamples is false the
+// generator chooses the number of points; specs, when not nil, receives
+// the design variables before gen is called.
+func runDesignSpecs(ctx context.Context, s *mdo.Study, name string, settings any, method string, samples int, hasSamples bool, batch int, specs *[]mdo.DesignSpec, gen designFunc) (*mdo.Result, error) {
+	if hasSamples {
 		if err := checkInt(method, "Samples", samples, 1); err != nil {
 			return nil, err
 		}
