@@ -346,3 +346,18 @@ func BenchmarkStartToPrompt(b *testing.B) {
 		b.StartTimer()
 	}
 }
+
+func TestRunShowsProgressOnTerminalOnly(t *testing.T) {
+	study := filepath.Join("..", "..", "testdata", "slow_optimisation.study")
+	// On a terminal: iteration, best objective and feasibility.
+	tm := startTerm(t, "run", study, "--out", t.TempDir(), "--timeout", "2s")
+	tm.expect(`slow_bowl Nelder-Mead iteration \d+  best [0-9.e+-]+  feasible`)
+	if code := tm.wait(); code != 0 {
+		t.Errorf("exit status %d, want 0 (the optimiser returned its best at the time limit)", code)
+	}
+	// Not on a terminal: quiet.
+	code, out, errs := runCmd("run", study, "--out", t.TempDir(), "--timeout", "1s")
+	if code != 0 || strings.Contains(out+errs, "iteration") {
+		t.Errorf("exit %d; output %q %q should hold no progress", code, out, errs)
+	}
+}

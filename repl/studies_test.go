@@ -1,0 +1,101 @@
+package repl
+
+import (
+	"bytes"
+	"context"
+	"encoding/json"
+	"math"
+	"os"
+	"path/filepath"
+	"testing"
+)
+
+// runStudy replays a study file of ../studies headless and returns its
+// summary.json as raw JSON with the timestamps removed.
+func runStudy(t *testing.T, name string) (map[string]any, []byte) {
+	t.Helper()
+	out := t.TempDir()
+	var stdout, stderr bytes.Buffer
+	if _, err := Run(context.Background(), RunOptions{File: filepath.Join("..", "studies", name), OutDir: out, Stdout: &stdout, Stderr: &stderr}); err != nil {
+		t.Fatalf("%s: %v\n%s", name, err, stderr.String())
+	}
+	b, err := os.ReadFile(filepath.Join(out, "summary.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var sum map[string]any
+	if err := json.Unmarshal(b, &sum); err != nil {
+		t.Fatal(err)
+	}
+	delete(sum, "started")
+	delete(sum, "elapsed_seconds")
+	stripped, err := json.Marshal(sum)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return sum, stripped
+}
+
+func TestSellarStudyFindsPublishedOptimum(t *testing.T) {
+	sum, first := runStudy(t, "sellar.study")
+	best, ok := sum["best"].(map[string]any)
+	if !ok {
+		t.Fatalf("summary has no best point: %s", first)
+	}
+	// Sellar, Batill & Renaud, AIAA 96-0714 (1996): f* = 3.18339 at
+	// z = (1.97764, 0), x = 0, with g1 (y1 >= 3.16) active.
+	if f := best["objective"].(float64); math.Abs(f-3.18339) > 1e-3 {
+		t.Errorf("best.objective = %.6f, want 3.18339 ± 1e-3", f)
+	}
+	if best["feasible"] != true {
+		t.Errorf("best point infeasible: %v", best)
+	}
+	if z1 := best["design"].(map[string]any)["z1"].(float64); math.Abs(z1-1.97764) > 1e-2 {
+		t.Errorf("z1 = %.5f, want 1.97764 ± 0.01", z1)
+	}
+	if sum["study"] != "sellar" || sum["evaluations"].(float64) < 1 {
+		t.Errorf("summary %s", first)
+	}
+	// A second run gives the same summary apart from its timestamps.
+	_, second := runStudy(t, "sellar.study")
+	if !bytes.Equal(first, second) {
+		t.Errorf("two runs differ:\n%s\n%s", first, second)
+	}
+}
+
+func TestSeedOverride(t *testing.T) {
+	out := t.TempDir()
+	if _, err := Run(context.Background(), RunOptions{File: filepath.Join("..", "studies", "sellar.study"), OutDir: out, Seed: 99, SeedSet: true}); err != nil {
+		t.Fatal(err)
+	}
+	b, err := os.ReadFile(filepath.Join(out, "summary.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var sum struct{ Seed uint64 }
+	if err := json.Unmarshal(b, &sum); err != nil {
+		t.Fatal(err)
+	}
+	if sum.Seed != 99 {
+		t.Errorf("seed in summary %d, want the override 99", sum.Seed)
+	}
+}
+
+func TestEveryStudyRunsHeadless(t *testing.T) {
+	files, err := filepath.Glob(filepath.Join("..", "studies", "*.study"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(files) == 0 {
+		t.Fatal("no example studies")
+	}
+	for _, f := range files {
+		name := filepath.Base(f)
+		t.Run(name, func(t *testing.T) {
+			sum, raw := runStudy(t, name)
+			if sum["best"] == nil && sum["front"] == nil {
+				t.Errorf("%s handed over no result: %s", name, raw)
+			}
+		})
+	}
+}
