@@ -550,8 +550,8 @@ func (w *Weights) Compute(in, out []float64) error {
 			break
 		}
 	}
-	if !converged || !(w0 > 0) || w0 > 2e6 {
-		return inputErr("mass.takeoff", w0, "kg", "a take-off mass closure below 2e6 kg (mission fuel fraction too large?)")
+	if !converged || !(w0 > 0) || w0 > massTakeoffVar().Max {
+		return inputErr("mass.takeoff", w0, "kg", "a take-off mass closure below 1e6 kg (mission fuel fraction too large?)")
 	}
 	lw := math.Log(w0)
 	var mt [numTerms]float64
