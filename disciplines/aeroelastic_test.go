@@ -76,7 +76,7 @@ func TestDivergenceSweepAndStiffness(t *testing.T) {
 
 // Bending divergence of a torsionally rigid forward-swept wing: with
 // τ = q·c·a0·cos²Λ·tanΛ·ℓ³/EI the exact uniform-beam eigenvalue solves
-// u”' + τ·u = 0, u(0) = u'(1) = u”(1) = 0 (textbook value τD ≈ −6.33,
+// u‴ + τ·u = 0, u(0) = u′(1) = u″(1) = 0 (textbook value τD ≈ −6.33,
 // from memory). The three-term Ritz model must be within 3 % of the exact
 // value, found here by shooting with fourth-order Runge–Kutta.
 func TestDivergenceTorsionallyRigidForwardSweep(t *testing.T) {
@@ -96,9 +96,9 @@ func TestDivergenceTorsionallyRigidForwardSweep(t *testing.T) {
 	}
 }
 
-// shootingResidual integrates u”' = −τu from η = 0 with u(0) = 0 for the
-// two independent starts (u', u”) = (1, 0) and (0, 1) and returns the
-// determinant of the end conditions u'(1) = u”(1) = 0.
+// shootingResidual integrates u‴ = −τu from η = 0 with u(0) = 0 for the
+// two independent starts (u′, u″) = (1, 0) and (0, 1) and returns the
+// determinant of the end conditions u′(1) = u″(1) = 0.
 func shootingResidual(tau float64) float64 {
 	run := func(y [3]float64) [3]float64 {
 		f := func(y [3]float64) [3]float64 { return [3]float64{y[1], y[2], -tau * y[0]} }

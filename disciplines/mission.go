@@ -110,8 +110,10 @@ func (p MissionProfile) FuelFractions(r, mach, v, tsfc, ld float64) MissionFuel 
 // RangeForFuel returns the Breguet cruise range [m] with fuel mass fuel
 // [kg] loaded on an aircraft of zero-fuel mass mzf [kg], keeping the
 // reserves of the profile; 0 when the fuel does not cover take-off, climb,
-// descent and reserves. It inverts FuelFractions: with W0 = mzf + fuel and
-// h the hold fraction, the trip fuel is (fuel − h·W0·fixed)/(1 + c − h·…).
+// descent and reserves. It inverts FuelFractions: with W0 = mzf + fuel,
+// contingency c and hold fraction h, fuel = (1 + c)·trip + h·(W0 − trip)
+// gives the trip fuel, and the cruise mass ratio follows from the fixed
+// segment fractions.
 func (p MissionProfile) RangeForFuel(fuel, mzf, mach, v, tsfc, ld float64) float64 {
 	w0 := mzf + fuel
 	h := 1 - EnduranceFraction(p.HoldTime, tsfc, ld)
