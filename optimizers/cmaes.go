@@ -39,6 +39,12 @@ type CMAES struct {
 	// plateau of its best value for tens of generations before it
 	// descends again).
 	StallGenerations int
+	// GradientSteps is the number of forward-difference Newton steps of
+	// the gradient-based repair (Takahama & Sakai's gradient mutation)
+	// applied to every infeasible sample of a study with an equality
+	// constraint, the sample getting the merit of the repaired point;
+	// default 3, negative for none.
+	GradientSteps int
 	// Penalty sets the constraint handling.
 	Penalty Penalty
 }
@@ -92,6 +98,12 @@ func (o CMAES) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error) 
 	stall := or(o.StallGenerations, 100)
 	step := or(o.StepSize, 0.3)
 	seed := r.ev.Seed()
+	var repair *gradientRepair
+	if o.GradientSteps >= 0 {
+		if repair = newGradientRepair(1, r.ev.Constraints()); repair != nil {
+			repair.steps = or(o.GradientSteps, 3)
+		}
+	}
 	inner := func(x0 []float64, m *merit, outer int) (*mdo.Evaluation, string, error) {
 		sigma := math.Max(step*math.Pow(1.0/3, float64(outer)), step/10)
 		// gonum samples from N(mean, C) with C the Cholesky factor's
@@ -106,7 +118,7 @@ func (o CMAES) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error) 
 			Population:   pop,
 			Src:          rand.NewPCG(seed, mix(seed, uint64(outer)+1000)),
 		}
-		return gonumInner(r, cma, pop, x0, m, tol, stall)
+		return gonumInner(r, cma, pop, x0, m, tol, stall, repair)
 	}
 	stop, err := outerLoop(r, o.Penalty, r.ev.Start(), inner)
 	return r.finish(stop, err)

@@ -24,6 +24,11 @@ type DifferentialEvolution struct {
 	Generations int
 	// MaxEvaluations caps the evaluations (0: no cap besides
 	// Generations); a generation that would pass it is not run.
+	// GradientRate is the probability that an infeasible offspring of a
+	// study with an equality constraint gets the gradient-based mutation
+	// (up to 3 forward-difference Newton steps on its constraint
+	// residuals); default 0.05, negative for none.
+	GradientRate float64
 	// Relax is the fraction of the generations during which constraints
 	// are relaxed by the ε-level comparison; default 0.5, negative for
 	// Deb's rules throughout.
@@ -51,6 +56,9 @@ func (o DifferentialEvolution) validate() error {
 	}
 	if err := checkInt(m, "MaxEvaluations", o.MaxEvaluations, 1); err != nil {
 		return err
+	}
+	if o.GradientRate > 1 || math.IsNaN(o.GradientRate) {
+		return settingError(m, "GradientRate", o.GradientRate, "must be at most 1 (0 means the default 0.05, negative means none)")
 	}
 	if o.Relax > 1 || math.IsNaN(o.Relax) {
 		return settingError(m, "Relax", o.Relax, "must be at most 1 (0 means the default 0.5, negative means no relaxation)")
@@ -81,7 +89,7 @@ func (o DifferentialEvolution) Minimize(ctx context.Context, s *mdo.Study) (*mdo
 	n := or(o.Population, defaultPopulation(dim))
 	f := or(o.Weight, 0.5)
 	cr := or(o.CrossoverRate, 0.9)
-	e := &engine{r: r, relax: relaxFraction(o.Relax)}
+	e := &engine{r: r, relax: relaxFraction(o.Relax), grad: newGradientRepair(gradientRate(o.GradientRate), r.ev.Constraints())}
 	e.initial = func(rng *rand.Rand) *member { return e.newMember(uniformPoint(dim, rng)) }
 	e.generation = func(pop []*member, rng *rand.Rand) ([]*member, error) {
 		trials := make([]*member, n)
@@ -98,6 +106,9 @@ func (o DifferentialEvolution) Minimize(ctx context.Context, s *mdo.Study) (*mdo
 			trials[i] = e.newMember(x)
 		}
 		if err := e.evaluateAll(trials); err != nil {
+			return nil, err
+		}
+		if err := e.grad.apply(e, trials, rng); err != nil {
 			return nil, err
 		}
 		next := make([]*member, n)

@@ -92,6 +92,8 @@ type engine struct {
 	relax     float64
 	relaxGens int
 	gen       int
+	// grad is the gradient-based mutation (nil when off).
+	grad *gradientRepair
 	// initial draws a member of the first population.
 	initial func(rng *rand.Rand) *member
 }
@@ -288,4 +290,16 @@ func hasEquality(cs []mdo.Constraint) bool {
 		}
 	}
 	return false
+}
+
+// gradientRate returns the gradient-mutation rate: 0.05 by default, none
+// when negative.
+func gradientRate(v float64) float64 {
+	switch {
+	case v == 0:
+		return 0.05
+	case v < 0:
+		return 0
+	}
+	return v
 }

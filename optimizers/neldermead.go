@@ -76,7 +76,7 @@ func (o NelderMead) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, er
 	size := or(o.SimplexSize, 0.05)
 	inner := func(x0 []float64, m *merit, outer int) (*mdo.Evaluation, string, error) {
 		s := math.Max(size*math.Pow(0.5, float64(outer)), size/10)
-		return gonumInner(r, &optimize.NelderMead{SimplexSize: s}, 1, x0, m, tol, stall)
+		return gonumInner(r, &optimize.NelderMead{SimplexSize: s}, 1, x0, m, tol, stall, nil)
 	}
 	stop, err := outerLoop(r, o.Penalty, r.ev.Start(), inner)
 	return r.finish(stop, err)
@@ -84,7 +84,12 @@ func (o NelderMead) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, er
 
 // gonumInner runs one inner minimisation of the merit with a gonum method
 // from the box point x0, and returns the best evaluation by merit.
-func gonumInner(r *run, method optimize.Method, tasks int, x0 []float64, m *merit, tol float64, stall int) (*mdo.Evaluation, string, error) {
+//
+// With a repair, every sample that is infeasible is moved by the
+// gradient-based repair before its merit is taken (the method still sees
+// its own sample, with the merit of the repaired point: Baldwinian
+// repair).
+func gonumInner(r *run, method optimize.Method, tasks int, x0 []float64, m *merit, tol float64, stall int, repair *gradientRepair) (*mdo.Evaluation, string, error) {
 	var best *mdo.Evaluation
 	bestV := math.Inf(1)
 	eval := func(us [][]float64) ([]float64, string, error) {
@@ -95,6 +100,11 @@ func gonumInner(r *run, method optimize.Method, tasks int, x0 []float64, m *meri
 		evs, stop, err := r.evaluate(xs)
 		if stop != "" || err != nil {
 			return nil, stop, err
+		}
+		if repair != nil {
+			if stop, err := repairSamples(r, repair, xs, evs); stop != "" || err != nil {
+				return nil, stop, err
+			}
 		}
 		fs := make([]float64, len(evs))
 		for i, ev := range evs {
@@ -116,4 +126,45 @@ func gonumInner(r *run, method optimize.Method, tasks int, x0 []float64, m *meri
 	}
 	stop, err := drive(method, unboxPoint(x0), tasks, eval, major)
 	return best, stop, err
+}
+
+// repairSamples applies the gradient-based repair to the infeasible
+// samples, replacing their evaluations by those of the repaired points.
+func repairSamples(r *run, g *gradientRepair, xs [][]float64, evs []*mdo.Evaluation) (string, error) {
+	var chosen []*member
+	var at []int
+	for i, ev := range evs {
+		if ev != nil && ev.Converged && !ev.Feasible {
+			chosen = append(chosen, &member{x: xs[i], ev: ev})
+			at = append(at, i)
+		}
+	}
+	stop := ""
+	eval := func(ms []*member) error {
+		pts := make([][]float64, len(ms))
+		for i, m := range ms {
+			pts[i] = m.x
+		}
+		out, st, err := r.evaluate(pts)
+		if err != nil {
+			return err
+		}
+		if st != "" {
+			stop = st
+			return errStop
+		}
+		for i, m := range ms {
+			m.ev = out[i]
+		}
+		return nil
+	}
+	if err := g.newton(eval, r.ev.Dim(), chosen); err != nil && stop == "" {
+		return "", err
+	}
+	for k, i := range at {
+		if compare(chosen[k].ev, evs[i]) <= 0 {
+			evs[i] = chosen[k].ev
+		}
+	}
+	return stop, nil
 }

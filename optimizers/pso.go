@@ -26,6 +26,11 @@ type ParticleSwarm struct {
 	Generations int
 	// MaxEvaluations caps the evaluations (0: no cap besides
 	// Generations); a generation that would pass it is not run.
+	// GradientRate is the probability that an infeasible offspring of a
+	// study with an equality constraint gets the gradient-based mutation
+	// (up to 3 forward-difference Newton steps on its constraint
+	// residuals); default 0.05, negative for none.
+	GradientRate float64
 	// Relax is the fraction of the generations during which constraints
 	// are relaxed by the ε-level comparison; default 0.5, negative for
 	// Deb's rules throughout.
@@ -54,6 +59,9 @@ func (o ParticleSwarm) validate() error {
 	}
 	if err := checkInt(m, "MaxEvaluations", o.MaxEvaluations, 1); err != nil {
 		return err
+	}
+	if o.GradientRate > 1 || math.IsNaN(o.GradientRate) {
+		return settingError(m, "GradientRate", o.GradientRate, "must be at most 1 (0 means the default 0.05, negative means none)")
 	}
 	if o.Relax > 1 || math.IsNaN(o.Relax) {
 		return settingError(m, "Relax", o.Relax, "must be at most 1 (0 means the default 0.5, negative means no relaxation)")
@@ -88,7 +96,7 @@ func (o ParticleSwarm) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result,
 	chi := or(o.Inertia, 0.7298)
 	c1 := or(o.Cognitive, 1.49618)
 	c2 := or(o.Social, 1.49618)
-	e := &engine{r: r, relax: relaxFraction(o.Relax)}
+	e := &engine{r: r, relax: relaxFraction(o.Relax), grad: newGradientRepair(gradientRate(o.GradientRate), r.ev.Constraints())}
 	e.initial = func(rng *rand.Rand) *member {
 		x := uniformPoint(dim, rng)
 		v := make([]float64, dim)
@@ -129,6 +137,9 @@ func (o ParticleSwarm) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result,
 			next[i] = q
 		}
 		if err := e.evaluateAll(next); err != nil {
+			return nil, err
+		}
+		if err := e.grad.apply(e, next, rng); err != nil {
 			return nil, err
 		}
 		for _, q := range next {

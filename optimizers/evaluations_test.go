@@ -1,0 +1,116 @@
+package optimizers
+
+import (
+	"context"
+	"fmt"
+	"math"
+	"strings"
+	"testing"
+
+	"couplet/mdo"
+)
+
+// reachedAt returns the number of evaluations after which the best point
+// first was feasible and within tol of want (relative to |want| when rel),
+// from the best-so-far history; −1 when never.
+func reachedAt(r *mdo.Result, want, tol float64, rel bool) int {
+	if rel {
+		tol *= math.Abs(want)
+	}
+	for _, h := range r.History {
+		if h.Feasible && math.Abs(h.Best-want) <= tol {
+			return h.Evaluations
+		}
+	}
+	return -1
+}
+
+// countRun is one row of the evaluation-count table.
+type countRun struct {
+	problem string
+	study   func() (*mdo.Study, error)
+	want    float64
+	tol     float64
+	rel     bool
+	opt     Optimizer
+	// required: the issue asks this method to reach this optimum.
+	required bool
+}
+
+func countRuns() []countRun {
+	// Sellar: f* = 3.18339 (Sellar, Batill & Renaud, 1996), reached when
+	// within 1e-3; g06: f* = −6961.81388 (Liang et al., 2006), within 0.1 %.
+	var runs []countRun
+	for _, p := range []struct {
+		name  string
+		study func() (*mdo.Study, error)
+		want  float64
+		tol   float64
+		rel   bool
+	}{
+		{"Sellar MDF", SellarMDF, SellarOptimum, 1e-3, false},
+		{"Sellar IDF", SellarIDF, SellarOptimum, 1e-3, false},
+		{"g06", G06, G06Optimum, 1e-3, true},
+	} {
+		sellar := strings.HasPrefix(p.name, "Sellar")
+		runs = append(runs,
+			countRun{p.name, p.study, p.want, p.tol, p.rel, NelderMead{MaxEvaluations: 20000}, sellar},
+			countRun{p.name, p.study, p.want, p.tol, p.rel, CMAES{MaxEvaluations: 200000}, sellar},
+			countRun{p.name, p.study, p.want, p.tol, p.rel, GA{Generations: 800}, false},
+			countRun{p.name, p.study, p.want, p.tol, p.rel, DifferentialEvolution{Generations: 800}, false},
+			countRun{p.name, p.study, p.want, p.tol, p.rel, ParticleSwarm{Generations: 800}, false},
+			countRun{p.name, p.study, p.want, p.tol, p.rel, ParticleSwarm{Generations: 800, Repair: Reflect}, false},
+		)
+	}
+	return runs
+}
+
+// TestEvaluationCounts prints, per optimiser and problem, the number of
+// evaluations after which the best point reached the published optimum
+// (seed 1, default settings but for the budget; each run is stopped at the
+// end of the iteration that reached it). The counts are deterministic;
+// run with -v to see the table kept in EVALUATIONS.md.
+func TestEvaluationCounts(t *testing.T) {
+	if testing.Short() {
+		t.Skip("long: runs every optimiser to a large budget")
+	}
+	var b strings.Builder
+	fmt.Fprintf(&b, "| problem | optimiser | evaluations to reach f* | best f | evaluations run | stop |\n|---|---|---|---|---|---|\n")
+	for _, c := range countRuns() {
+		s, err := c.study()
+		if err != nil {
+			t.Fatal(err)
+		}
+		s.Seed = 1
+		// stop the run at the first iteration that reaches the optimum
+		ctx, cancel := context.WithCancel(context.Background())
+		tol := c.tol
+		if c.rel {
+			tol *= math.Abs(c.want)
+		}
+		s.Progress = func(p mdo.Progress) {
+			if p.Feasible && math.Abs(p.Best-c.want) <= tol {
+				cancel()
+			}
+		}
+		res, err := c.opt.Minimize(ctx, s)
+		cancel()
+		if err != nil {
+			t.Fatal(err)
+		}
+		n := reachedAt(res, c.want, c.tol, c.rel)
+		name := c.opt.Name()
+		if p, ok := c.opt.(ParticleSwarm); ok && p.Repair == Reflect {
+			name += " (reflect)"
+		}
+		at := "not reached"
+		if n >= 0 {
+			at = fmt.Sprint(n)
+		}
+		fmt.Fprintf(&b, "| %s | %s | %s | %.8g | %d | %s |\n", c.problem, name, at, res.Objective(), res.Evaluations, res.Stop)
+		if c.required && n < 0 {
+			t.Errorf("%s on %s did not reach %.8g ± %g (best %.8g)", name, c.problem, c.want, c.tol, res.Objective())
+		}
+	}
+	t.Log("\n" + b.String())
+}
