@@ -1,0 +1,301 @@
+package report
+
+import (
+	"bytes"
+	"crypto/sha256"
+	"encoding/hex"
+	"fmt"
+	"html/template"
+	"io"
+	"math"
+	"os"
+	"path/filepath"
+	"runtime"
+	"strconv"
+	"time"
+
+	"couplet/mdo"
+	"couplet/mdo/plot"
+)
+
+// Caution is the statement every report carries.
+const Caution = "The results are conceptual-design estimates from simplified models. " +
+	"They are not fit for certification, flight or airworthiness decisions; " +
+	"for those the applicable regulations and licensed engineering practice govern."
+
+// Options complete a report.
+type Options struct {
+	// Title heads the page; default "Study report: NAME".
+	Title string
+	// Script is the study's source text, shown in full with its SHA-256.
+	Script string
+	// ToolVersion is the version of the program that ran the study.
+	ToolVersion string
+	// Evaluations are the run's evaluations (from the store), used for the
+	// standard plots: history, parallel coordinates and, for two or more
+	// objectives, the Pareto front.
+	Evaluations []*mdo.Evaluation
+	// ScatterMatrix adds the scatter matrix to the standard plots (for a
+	// design of experiments).
+	ScatterMatrix bool
+	// NoStandardPlots leaves the standard plots out.
+	NoStandardPlots bool
+	// Figures are further plots (planform, constraint diagram, DSM, ...),
+	// shown after the standard ones.
+	Figures []*plot.Figure
+	// Notes are extra lines of text.
+	Notes []string
+	// Generated is the time stamped on the report; default now.
+	Generated time.Time
+}
+
+// view is what the template shows.
+type view struct {
+	Title, Caution string
+	Provenance     []kv
+	Best           *bestView
+	Front          *frontView
+	Figures        []figView
+	Notes          []string
+	Script         string
+}
+
+type kv struct{ Key, Value string }
+
+type bestView struct {
+	ID          int
+	Feasible    bool
+	Violation   string
+	Err         string
+	Design      []designRow
+	Objectives  []objectiveRow
+	Constraints []constraintRow
+}
+
+type designRow struct{ Name, Value, Unit, Lower, Upper, Position string }
+
+type objectiveRow struct{ Name, Sense, Value, Unit string }
+
+type constraintRow struct{ Relation, Value, Unit, Margin, State, Class string }
+
+type frontView struct {
+	Head []string
+	Rows [][]string
+}
+
+type figView struct {
+	ID, Caption string
+	SVG         template.HTML
+}
+
+// num formats a number for a table.
+func num(x float64) string {
+	switch {
+	case math.IsNaN(x):
+		return "NaN"
+	case math.IsInf(x, 1):
+		return "+Inf"
+	case math.IsInf(x, -1):
+		return "-Inf"
+	}
+	return strconv.FormatFloat(x, 'g', 7, 64)
+}
+
+// unitOf finds a name's unit among the result's outputs.
+func unitOf(r *mdo.Result, name string) string {
+	for _, v := range r.Outputs {
+		if v.Name == name {
+			return orDash(v.Unit)
+		}
+	}
+	return "-"
+}
+
+// orDash returns u or "-".
+func orDash(u string) string {
+	if u == "" {
+		return "-"
+	}
+	return u
+}
+
+// Write writes the HTML report of a run.
+func Write(w io.Writer, r *mdo.Result, opt Options) error {
+	if r == nil {
+		return fmt.Errorf("report: the result is nil")
+	}
+	v, err := build(r, opt)
+	if err != nil {
+		return err
+	}
+	t, err := template.New("report").Parse(page)
+	if err != nil {
+		return fmt.Errorf("report: template: %w", err)
+	}
+	var b bytes.Buffer
+	if err := t.Execute(&b, v); err != nil {
+		return fmt.Errorf("report: rendering: %w", err)
+	}
+	if _, err := w.Write(b.Bytes()); err != nil {
+		return fmt.Errorf("report: writing: %w", err)
+	}
+	return nil
+}
+
+// WriteFile writes the HTML report of a run to path (report.html in the
+// run's output folder).
+func WriteFile(path string, r *mdo.Result, opt Options) error {
+	var b bytes.Buffer
+	if err := Write(&b, r, opt); err != nil {
+		return err
+	}
+	if err := os.WriteFile(path, b.Bytes(), 0o644); err != nil {
+		return fmt.Errorf("report: writing %s: %w", filepath.Base(path), err)
+	}
+	return nil
+}
+
+// build assembles the view.
+func build(r *mdo.Result, opt Options) (*view, error) {
+	v := &view{Title: opt.Title, Caution: Caution, Notes: opt.Notes, Script: opt.Script}
+	if v.Title == "" {
+		v.Title = "Study report: " + r.Study
+	}
+	gen := opt.Generated
+	if gen.IsZero() {
+		gen = time.Now()
+	}
+	prov := []kv{
+		{"study", r.Study},
+		{"optimiser", r.Optimizer},
+		{"formulation", r.Formulation.String()},
+		{"seed", strconv.FormatUint(r.Seed, 10)},
+		{"stopped", r.Stop},
+		{"evaluations", fmt.Sprintf("%d answered: %d analysed, %d from the cache, %d restored from a store, %d failed", r.Evaluations, r.Analyses, r.CacheHits, r.Restored, r.Failed)},
+		{"work", fmt.Sprintf("%d discipline calls, %d coupling iterations", r.DisciplineCalls, r.CouplingIterations)},
+		{"started", r.Started.UTC().Format(time.RFC3339)},
+		{"elapsed", r.Elapsed.Round(time.Millisecond).String()},
+	}
+	if opt.Script != "" {
+		prov = append(prov, kv{"script SHA-256", scriptHash(opt.Script)})
+	}
+	if opt.ToolVersion != "" {
+		prov = append(prov, kv{"tool version", opt.ToolVersion})
+	}
+	prov = append(prov, kv{"Go version", runtime.Version()}, kv{"report generated", gen.UTC().Format(time.RFC3339)})
+	v.Provenance = prov
+	if r.Best != nil {
+		v.Best = bestOf(r)
+	}
+	if len(r.Objectives) >= 2 && len(r.Front) > 0 {
+		v.Front = frontOf(r)
+	}
+	figs, notes := standardFigures(r, opt)
+	v.Notes = append(v.Notes, notes...)
+	figs = append(figs, opt.Figures...)
+	for i, f := range figs {
+		if f == nil {
+			continue
+		}
+		svg, err := f.InlineSVG()
+		if err != nil {
+			return nil, fmt.Errorf("report: figure %d (%s): %w", i, f.Name, err)
+		}
+		v.Figures = append(v.Figures, figView{ID: fmt.Sprintf("%d-%s", i+1, f.Name), Caption: fmt.Sprintf("Figure %d. %s", len(v.Figures)+1, f.Title), SVG: template.HTML(svg)})
+	}
+	return v, nil
+}
+
+// standardFigures draws the plots every run gets; a plot that cannot be
+// drawn becomes a note.
+func standardFigures(r *mdo.Result, opt Options) ([]*plot.Figure, []string) {
+	if opt.NoStandardPlots || len(opt.Evaluations) == 0 {
+		return nil, nil
+	}
+	var figs []*plot.Figure
+	var notes []string
+	add := func(f *plot.Figure, err error) {
+		if err != nil {
+			notes = append(notes, "plot left out: "+err.Error())
+			return
+		}
+		figs = append(figs, f)
+	}
+	add(plot.History(r, opt.Evaluations))
+	if len(r.Objectives) >= 2 {
+		add(plot.Pareto(r, opt.Evaluations))
+	}
+	add(plot.ParallelCoordinates(r, opt.Evaluations))
+	if opt.ScatterMatrix {
+		add(plot.ScatterMatrix(r, opt.Evaluations))
+	}
+	return figs, notes
+}
+
+// bestOf tabulates the best design.
+func bestOf(r *mdo.Result) *bestView {
+	e := r.Best
+	b := &bestView{ID: e.ID, Feasible: e.Feasible, Violation: num(e.Violation), Err: e.Err}
+	for k, d := range r.Design {
+		x := e.Design[k]
+		pos := (x - d.Lower) / (d.Upper - d.Lower)
+		p := fmt.Sprintf("%.0f %%", 100*pos)
+		switch {
+		case pos <= 1e-9:
+			p += " (at lower bound)"
+		case pos >= 1-1e-9:
+			p += " (at upper bound)"
+		}
+		b.Design = append(b.Design, designRow{Name: d.Name, Value: num(x), Unit: orDash(d.Unit), Lower: num(d.Lower), Upper: num(d.Upper), Position: p})
+	}
+	for k, o := range r.Objectives {
+		sense := "minimise"
+		if o.Maximize {
+			sense = "maximise"
+		}
+		b.Objectives = append(b.Objectives, objectiveRow{Name: o.Name, Sense: sense, Value: num(e.Objectives[k]), Unit: unitOf(r, o.Name)})
+	}
+	active := map[string]bool{}
+	for _, n := range r.Active(1e-3) {
+		active[n] = true
+	}
+	for k, c := range r.Constraints {
+		row := constraintRow{Relation: c.String(), Value: num(e.Constraints[k]), Unit: unitOf(r, c.Name), Margin: num(e.Margins[k]), State: "ok", Class: "ok"}
+		switch {
+		case !(e.Margins[k] >= 0):
+			row.State, row.Class = "VIOLATED", "violated"
+		case active[c.Name]:
+			row.State, row.Class = "active", "active"
+		}
+		b.Constraints = append(b.Constraints, row)
+	}
+	return b
+}
+
+// frontOf tabulates the Pareto front.
+func frontOf(r *mdo.Result) *frontView {
+	f := &frontView{Head: []string{"#"}}
+	for _, o := range r.Objectives {
+		f.Head = append(f.Head, fmt.Sprintf("%s [%s]", o, unitOf(r, o.Name)))
+	}
+	for _, d := range r.Design {
+		f.Head = append(f.Head, fmt.Sprintf("%s [%s]", d.Name, orDash(d.Unit)))
+	}
+	for _, p := range r.Front {
+		row := []string{strconv.Itoa(p.ID)}
+		for _, x := range p.Objectives {
+			row = append(row, num(x))
+		}
+		for _, x := range p.Design {
+			row = append(row, num(x))
+		}
+		f.Rows = append(f.Rows, row)
+	}
+	return f
+}
+
+// scriptHash is the hex SHA-256 of the script (as the case store keeps it).
+func scriptHash(s string) string {
+	h := sha256.Sum256([]byte(s))
+	return hex.EncodeToString(h[:])
+}

@@ -1,0 +1,140 @@
+package report
+
+import (
+	"bytes"
+	"context"
+	"math"
+	"regexp"
+	"strings"
+	"testing"
+	"time"
+
+	"couplet/mdo"
+	"couplet/mdo/plot"
+)
+
+// script is an invented study script shown in the report.
+const script = `// cell 1
+study, _ := mdo.SellarStudy(mdo.MDF)
+study.Seed = 5 // a <comment> & "quotes"
+`
+
+// sellarResult evaluates a grid of the Sellar study.
+func sellarResult(t testing.TB, n int, objs ...mdo.Objective) (*mdo.Result, []*mdo.Evaluation) {
+	t.Helper()
+	st, err := mdo.SellarStudy(mdo.MDF)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(objs) > 0 {
+		st.Objectives = objs
+	}
+	st.Seed, st.Workers = 5, 1
+	ev, err := st.NewEvaluator()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := ev.Begin("grid", nil); err != nil {
+		t.Fatal(err)
+	}
+	xs := make([][]float64, n)
+	for i := range xs {
+		xs[i] = []float64{math.Mod(float64(i)*0.618034, 1), math.Mod(float64(i)*0.414214, 1), math.Mod(float64(i)*0.732051, 1)}
+	}
+	evs, err := ev.Evaluate(context.Background(), xs)
+	if err != nil {
+		t.Fatal(err)
+	}
+	r, err := ev.Finish("budget")
+	if err != nil {
+		t.Fatal(err)
+	}
+	return r, evs
+}
+
+// demoReport renders a report with every kind of content.
+func demoReport(t testing.TB) string {
+	t.Helper()
+	r, evs := sellarResult(t, 60)
+	sys, err := mdo.NewSystem(mdo.Sellar()...)
+	if err != nil {
+		t.Fatal(err)
+	}
+	dsm, err := plot.DSM(sys)
+	if err != nil {
+		t.Fatal(err)
+	}
+	top, err := plot.TopView(plot.Aircraft{WingSpan: 16, WingRootChord: 4.5, WingTipChord: 1.2, WingSweepLE: 35, WingApex: 10, FuselageLength: 26, FuselageDiameter: 2.2})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var b bytes.Buffer
+	err = Write(&b, r, Options{Script: script, ToolVersion: "couplet test", Evaluations: evs, ScatterMatrix: true,
+		Figures: []*plot.Figure{dsm, top}, Generated: time.Date(2026, 12, 1, 12, 0, 0, 0, time.UTC)})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return b.String()
+}
+
+func TestReportContent(t *testing.T) {
+	html := demoReport(t)
+	wants := []string{
+		"<title>Study report: sellar</title>",
+		"Provenance", "optimiser", "grid", "seed", "script SHA-256", "couplet test", "Go version",
+		"Best design", "design variable", "<td>z1</td>", "lower bound",
+		"Constraints at the best design", "g1 &gt;= 3.16", "g2 &lt;= 24", "margin",
+		"not fit for certification, flight or airworthiness decisions",
+		"applicable regulations and licensed engineering practice",
+		"// a &lt;comment&gt; &amp; &#34;quotes&#34;", // the script, escaped
+		"optimisation history", "parallel coordinates", "scatter matrix", "design structure matrix", "top view",
+	}
+	for _, w := range wants {
+		if !strings.Contains(html, w) {
+			t.Errorf("report lacks %q", w)
+		}
+	}
+	if n := strings.Count(html, "<svg"); n != 5 {
+		t.Errorf("report embeds %d SVG figures, want 5", n)
+	}
+	if strings.Contains(html, "<?xml") {
+		t.Error("report keeps an XML prolog inside the HTML")
+	}
+	// self-contained: nothing is fetched from elsewhere
+	external := regexp.MustCompile(`(?i)<(link|script|img|iframe)\b|\bsrc\s*=|url\(|@import|xlink:href="http`)
+	if m := external.FindString(html); m != "" {
+		t.Errorf("report refers to an external resource: %q", m)
+	}
+}
+
+func TestReportTwoObjectives(t *testing.T) {
+	r, evs := sellarResult(t, 60, mdo.Minimize("f"), mdo.Maximize("y2"))
+	var b bytes.Buffer
+	if err := Write(&b, r, Options{Evaluations: evs}); err != nil {
+		t.Fatal(err)
+	}
+	html := b.String()
+	for _, w := range []string{"Pareto front (", "maximise y2 [-]", "No script was recorded"} {
+		if !strings.Contains(html, w) {
+			t.Errorf("two-objective report lacks %q", w)
+		}
+	}
+	if r.Front == nil || !strings.Contains(html, "non-dominated feasible designs") {
+		t.Errorf("front of %d points not tabulated", len(r.Front))
+	}
+}
+
+func TestReportErrors(t *testing.T) {
+	var b bytes.Buffer
+	if err := Write(&b, nil, Options{}); err == nil || !strings.Contains(err.Error(), "result is nil") {
+		t.Errorf("nil result: err = %v", err)
+	}
+	// a run with no evaluation still renders, noting what is missing
+	r := &mdo.Result{Study: "empty", Objectives: []mdo.Objective{mdo.Minimize("f")}}
+	if err := Write(&b, r, Options{}); err != nil {
+		t.Fatalf("empty result: %v", err)
+	}
+	if !strings.Contains(b.String(), "Study report: empty") {
+		t.Error("empty result: no title")
+	}
+}
