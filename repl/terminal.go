@@ -101,9 +101,7 @@ func (s *Session) Complete(text string) []string {
 		for n := range s.Globals() {
 			cands = append(cands, n)
 		}
-		for _, p := range s.packageNames() {
-			cands = append(cands, p)
-		}
+		cands = append(cands, s.packageNames()...)
 	}
 	var out []string
 	seen := map[string]bool{}

@@ -57,7 +57,6 @@ func init() {
 		"SplitAfterSeq":   reflect.ValueOf(bytes.SplitAfterSeq),
 		"SplitN":          reflect.ValueOf(bytes.SplitN),
 		"SplitSeq":        reflect.ValueOf(bytes.SplitSeq),
-		"Title":           reflect.ValueOf(bytes.Title),
 		"ToLower":         reflect.ValueOf(bytes.ToLower),
 		"ToLowerSpecial":  reflect.ValueOf(bytes.ToLowerSpecial),
 		"ToTitle":         reflect.ValueOf(bytes.ToTitle),

@@ -50,7 +50,6 @@ func init() {
 		"SplitAfterSeq":  reflect.ValueOf(strings.SplitAfterSeq),
 		"SplitN":         reflect.ValueOf(strings.SplitN),
 		"SplitSeq":       reflect.ValueOf(strings.SplitSeq),
-		"Title":          reflect.ValueOf(strings.Title),
 		"ToLower":        reflect.ValueOf(strings.ToLower),
 		"ToLowerSpecial": reflect.ValueOf(strings.ToLowerSpecial),
 		"ToTitle":        reflect.ValueOf(strings.ToTitle),

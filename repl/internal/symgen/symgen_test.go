@@ -12,8 +12,8 @@ import (
 // folder and compares them with the committed ones: run `go generate
 // ./repl/...` when it fails.
 func TestTablesAreFresh(t *testing.T) {
-	if testing.Short() {
-		t.Skip("type-checks the exposed packages from source")
+	if testing.Short() || raceEnabled {
+		t.Skip("type-checks the exposed packages from source (minutes under the race detector)")
 	}
 	tmp := t.TempDir()
 	if err := Generate(tmp); err != nil {

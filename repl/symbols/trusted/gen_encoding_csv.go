@@ -10,12 +10,11 @@ import (
 func init() {
 	Symbols["encoding/csv/csv"] = map[string]reflect.Value{
 		// function, constant and variable definitions
-		"ErrBareQuote":     reflect.ValueOf(&csv.ErrBareQuote).Elem(),
-		"ErrFieldCount":    reflect.ValueOf(&csv.ErrFieldCount).Elem(),
-		"ErrQuote":         reflect.ValueOf(&csv.ErrQuote).Elem(),
-		"ErrTrailingComma": reflect.ValueOf(&csv.ErrTrailingComma).Elem(),
-		"NewReader":        reflect.ValueOf(csv.NewReader),
-		"NewWriter":        reflect.ValueOf(csv.NewWriter),
+		"ErrBareQuote":  reflect.ValueOf(&csv.ErrBareQuote).Elem(),
+		"ErrFieldCount": reflect.ValueOf(&csv.ErrFieldCount).Elem(),
+		"ErrQuote":      reflect.ValueOf(&csv.ErrQuote).Elem(),
+		"NewReader":     reflect.ValueOf(csv.NewReader),
+		"NewWriter":     reflect.ValueOf(csv.NewWriter),
 
 		// type definitions
 		"ParseError": reflect.ValueOf((*csv.ParseError)(nil)),

@@ -21,7 +21,6 @@ func init() {
 		"Ext":           reflect.ValueOf(filepath.Ext),
 		"FromSlash":     reflect.ValueOf(filepath.FromSlash),
 		"Glob":          reflect.ValueOf(filepath.Glob),
-		"HasPrefix":     reflect.ValueOf(filepath.HasPrefix),
 		"IsAbs":         reflect.ValueOf(filepath.IsAbs),
 		"IsLocal":       reflect.ValueOf(filepath.IsLocal),
 		"Join":          reflect.ValueOf(filepath.Join),
