@@ -638,13 +638,10 @@ func (m *AeroModel) TrimmedDrag(c *Configuration, p Polar, cl, tailLift, q float
 // drag. It rebuilds the configuration (with the pods sized by propulsion)
 // from the geometry outputs and the wing parameters.
 //
-// Cruise lift: the mass at the start of cruise is mass.takeoff times the
-// historical warm-up/take-off (0.970) and climb/accelerate fractions
-// (conceptual-design textbooks; from memory); mid-cruise mass is that less
-// 0.4·mass.fuel (half the cruise fuel when cruise burns about 80 % of the
-// mission fuel; common practice, no source). aero.cl_cruise, cd_cruise,
-// ld_cruise are at mid-cruise mass; aero.drag_cruise is the trimmed drag
-// at the start of cruise (the engine-sizing case). Low-speed values are
+// Cruise lift: aero.cl_cruise, cd_cruise and ld_cruise are at the
+// mid-cruise mass, the mean of mass.cruise_start and mass.cruise_end (from
+// weights); aero.drag_cruise is the trimmed drag at the start of cruise
+// (the engine-sizing case). Low-speed values are
 // at Mach AeroOptions.TakeoffMach at the airport; aero.ld_takeoff is at
 // V2 = 1.13·VSR (14 CFR 25.107), CL = CLmax,TO/1.13². aero.cd0_takeoff is
 // flaps at take-off, gear up (second segment); aero.cd0_landing is landing
@@ -683,8 +680,8 @@ const (
 	aeroInNacLength
 	aeroInMach
 	aeroInAltitude
-	aeroInMassTakeoff
-	aeroInMassFuel
+	aeroInMassStart
+	aeroInMassEnd
 	aeroInTailLift
 	aeroInFlapTakeoff
 	aeroInFlapLanding
@@ -738,8 +735,8 @@ func (a *Aerodynamics) Inputs() []mdo.Var {
 	v(aeroInNacLength, "nacelle.length", "m", "nacelle length (inlet to nozzle)", 6, 0, 30, 0)
 	v(aeroInMach, "cruise.mach", "-", "cruise Mach number", 1.5, 0, MaxMach, 0)
 	v(aeroInAltitude, "cruise.altitude", "m", "cruise altitude (geometric)", 15000, AtmosphereMinAltitude, AtmosphereMaxAltitude, 1000)
-	v(aeroInMassTakeoff, "mass.takeoff", "kg", "take-off (design gross) mass", 45000, 500, 1e6, 1e4)
-	v(aeroInMassFuel, "mass.fuel", "kg", "mission fuel", 20000, 0, 1e6, 1e4)
+	v(aeroInMassStart, "mass.cruise_start", "kg", "mass at the start of cruise", 42000, 100, 1e6, 1e4)
+	v(aeroInMassEnd, "mass.cruise_end", "kg", "mass at the end of cruise", 30000, 100, 1e6, 1e4)
 	v(aeroInTailLift, "stability.tail_lift_cruise", "N", "horizontal-tail lift in trimmed cruise (positive up)", 0, -1e7, 1e7, 1e4)
 	v(aeroInFlapTakeoff, "flap.cl_increment_takeoff", "-", "CLmax increment of the take-off high-lift setting (unswept wing)", 0.4, 0, 3, 0)
 	v(aeroInFlapLanding, "flap.cl_increment_landing", "-", "CLmax increment of the landing high-lift setting (unswept wing)", 0.8, 0, 3, 0)
@@ -778,19 +775,6 @@ func (a *Aerodynamics) Outputs() []mdo.Var {
 	return o
 }
 
-// CruiseStartFraction returns mass at the start of cruise over take-off
-// mass: warm-up and take-off 0.970 times climb and accelerate to mach,
-// 1.0065 − 0.0325M below Mach 1 and 0.991 − 0.007M − 0.01M² above
-// (historical mission-segment fractions, conceptual-design textbooks;
-// from memory).
-func CruiseStartFraction(mach float64) float64 {
-	c := 1.0065 - 0.0325*mach
-	if mach > 1 {
-		c = 0.991 - 0.007*mach - 0.01*mach*mach
-	}
-	return 0.970 * math.Min(1, c)
-}
-
 // Compute implements mdo.Discipline. It allocates nothing.
 func (a *Aerodynamics) Compute(in, out []float64) error {
 	m := a.model
@@ -817,8 +801,8 @@ func (a *Aerodynamics) Compute(in, out []float64) error {
 	}
 	q := atm.DynamicPressure(mach)
 	s := w.Area
-	mStart := in[aeroInMassTakeoff] * CruiseStartFraction(mach)
-	mMid := math.Max(mStart-0.4*in[aeroInMassFuel], 0.3*mStart)
+	mStart := in[aeroInMassStart]
+	mMid := 0.5 * (mStart + in[aeroInMassEnd])
 	cl := mMid * G0 / (q * s)
 	p, err := m.polar(&c, atm, mach, cl, false)
 	if err != nil {

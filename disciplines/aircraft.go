@@ -1,0 +1,48 @@
+package disciplines
+
+import (
+	"fmt"
+
+	"couplet/mdo"
+)
+
+// AircraftConfig holds the model choices of an assembled aircraft that
+// are not design parameters: the layout options shared by geometry and
+// aerodynamics, and the aerodynamic model's settings.
+type AircraftConfig struct {
+	Geometry GeometryOptions
+	Aero     AeroOptions
+}
+
+// DefaultAircraftConfig returns the supersonic business-jet layout with
+// the default aerodynamic settings.
+func DefaultAircraftConfig() AircraftConfig {
+	return AircraftConfig{Geometry: DefaultGeometryOptions(), Aero: DefaultAeroOptions()}
+}
+
+// AircraftDisciplines returns the disciplines of the aircraft model in
+// their natural order: geometry, aerodynamics, engine_cycle, propulsion,
+// weights, stability, mission.
+func AircraftDisciplines(cfg AircraftConfig) []mdo.Discipline {
+	return []mdo.Discipline{
+		NewGeometry(cfg.Geometry),
+		NewAerodynamics(cfg.Geometry, cfg.Aero),
+		NewEngineCycle(),
+		NewPropulsion(),
+		NewWeights(),
+		NewStability(),
+		NewMission(),
+	}
+}
+
+// NewAircraft builds the coupled System of the whole aircraft. Geometry
+// and the engine cycle run first; aerodynamics, propulsion, weights,
+// stability and mission form one coupled group (mass ↔ aerodynamics ↔
+// propulsion ↔ stability ↔ mission) that the System's solver converges.
+func NewAircraft(cfg AircraftConfig) (*mdo.System, error) {
+	s, err := mdo.NewSystem(AircraftDisciplines(cfg)...)
+	if err != nil {
+		return nil, fmt.Errorf("disciplines: building the aircraft: %w", err)
+	}
+	return s, nil
+}
