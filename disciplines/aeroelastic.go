@@ -118,9 +118,10 @@ func (b SweptBeam) DivergenceDynamicPressure() (float64, error) {
 	return 1 / mu, nil
 }
 
-// largestPositiveEigen3 returns the largest positive real eigenvalue of a
-// 3×3 matrix (0 if it has none), from its characteristic polynomial
-// μ³ − c2·μ² + c1·μ − c0 solved in closed form and polished by Newton.
+// largestPositiveEigen3 returns the largest real eigenvalue of a 3×3
+// matrix if it is positive (0 otherwise), from its characteristic
+// polynomial μ³ − c2·μ² + c1·μ − c0 solved in closed form (Cardano or the
+// trigonometric form) and polished by Newton.
 func largestPositiveEigen3(m [3][3]float64) float64 {
 	s := 0.0
 	for i := range m {
@@ -143,41 +144,29 @@ func largestPositiveEigen3(m [3][3]float64) float64 {
 	// depressed cubic x = μ − c2/3: x³ + p·x + r = 0
 	p := c1 - c2*c2/3
 	r := -2*c2*c2*c2/27 + c2*c1/3 - c0
-	var roots [3]float64
-	nr := 0
+	// largest real root: the single real root of Cardano's formula, or the
+	// first of the trigonometric three
+	var x float64
 	disc := r*r/4 + p*p*p/27
 	switch {
 	case disc > 0:
 		sq := math.Sqrt(disc)
-		roots[0] = math.Cbrt(-r/2+sq) + math.Cbrt(-r/2-sq)
-		nr = 1
+		x = math.Cbrt(-r/2+sq) + math.Cbrt(-r/2-sq)
 	case p == 0:
-		roots[0] = 0
-		nr = 1
+		x = 0
 	default:
 		rho := 2 * math.Sqrt(-p/3)
-		arg := 3 * r / (p * rho)
-		arg = math.Max(-1, math.Min(1, arg))
-		th := math.Acos(arg) / 3
-		for k := 0; k < 3; k++ {
-			roots[k] = rho * math.Cos(th-2*math.Pi*float64(k)/3)
-		}
-		nr = 3
+		arg := math.Max(-1, math.Min(1, 3*r/(p*rho)))
+		x = rho * math.Cos(math.Acos(arg)/3)
 	}
-	best := 0.0
-	for k := 0; k < nr; k++ {
-		mu := roots[k] + c2/3
-		for it := 0; it < 3; it++ { // Newton polish on the characteristic polynomial
-			f := ((mu-c2)*mu+c1)*mu - c0
-			d := (3*mu-2*c2)*mu + c1
-			if d == 0 {
-				break
-			}
-			mu -= f / d
+	best := x + c2/3
+	for it := 0; it < 2; it++ { // Newton polish on the characteristic polynomial
+		f := ((best-c2)*best+c1)*best - c0
+		d := (3*best-2*c2)*best + c1
+		if d == 0 {
+			break
 		}
-		if mu > best {
-			best = mu
-		}
+		best -= f / d
 	}
 	// eigenvalues this small are round-off of a zero eigenvalue
 	if best < 1e-12 {

@@ -155,6 +155,7 @@ const (
 	wtInCLmaxLanding
 	wtInEnginePosition
 	wtInFuelVolume
+	wtInGuess
 	wtNumIn
 )
 
@@ -199,7 +200,10 @@ const (
 // mass.vtail, mass.landing_gear, mass.propulsion_group, mass.systems,
 // mass.furnishings, mass.crew, mass.forward_sweep_penalty, and
 // wing.box_cover_thickness. mass.empty is the operating empty mass
-// (including crew).
+// (including crew). mass.takeoff is also an input (a self-coupling): its
+// current value only starts the Newton iteration of the mass closure, so
+// that inside a converging coupled group the closure takes one or two
+// steps; the result does not depend on it.
 type Weights struct {
 	Material BoxMaterial
 	// UltimateLoadFactor Nz = 1.5 × limit load factor 2.5 (14 CFR 25.337
@@ -288,6 +292,7 @@ func (w *Weights) Inputs() []mdo.Var {
 	in[wtInCLmaxLanding] = clMaxLandingVar()
 	in[wtInEnginePosition] = mdo.Var{Name: "cg.engine_position", Unit: "-", Description: "engine group CG over fuselage length", Default: 0.75, Min: 0, Max: 1.2}
 	in[wtInFuelVolume] = mdo.Var{Name: "wing.fuel_volume", Unit: "m3", Description: "wing-box fuel volume", Default: 15, Min: 0, Max: 2000}
+	in[wtInGuess] = massTakeoffVar()
 	return in
 }
 
@@ -522,7 +527,13 @@ func (w *Weights) Compute(in, out []float64) error {
 	if !(a > 0.02) {
 		return inputErr("mission.fuel_fraction", phi, "", "low enough to leave room for the empty mass")
 	}
+	// start from the previous take-off mass (the self-coupling input) when it
+	// lies to the right of the root region, else from a safe upper value;
+	// the converged mass does not depend on the start
 	w0 := 2 * fixed / a
+	if g := in[wtInGuess]; g > fixed/a && g < 50*fixed/a {
+		w0 = g
+	}
 	converged := false
 	for it := 0; it < 50; it++ {
 		lw := math.Log(w0)
