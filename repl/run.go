@@ -10,6 +10,7 @@ import (
 	"time"
 
 	"couplet/mdo"
+	"couplet/mdo/store"
 )
 
 // RunOptions configure a headless replay of a study file.
@@ -28,11 +29,9 @@ type RunOptions struct {
 	Stdout, Stderr io.Writer
 	// Progress, if not nil, draws the progress of optimisations.
 	Progress *Progress
-	// Recorder, if not nil, makes the recorder of each attached study
-	// (the results store, DIR/results.db).
-	Recorder func(st *mdo.Study) (mdo.Recorder, error)
-	// Artifacts are written into OutDir after summary.json (database
-	// exports, plots, the report).
+	// Artifacts are further outputs written into OutDir after the
+	// standard ones (summary.json, results.db, evaluations.csv, the plots
+	// and report.html, see RunOutputs).
 	Artifacts []ArtifactWriter
 	// Grace is the time a cancelled cell has to come back (default 2 s).
 	Grace time.Duration
@@ -43,8 +42,9 @@ type RunRecord struct {
 	File   string
 	Script string // the study file's text
 	// Result is the study result handed over by the script (nil if none).
-	Result  *mdo.Result
-	Summary *Summary
+	Result *mdo.Result
+	// Summary is what summary.json holds when there is a result.
+	Summary *store.Summary
 	Cells   []*Cell
 }
 
@@ -90,9 +90,11 @@ func Run(ctx context.Context, opts RunOptions) (*RunRecord, error) {
 	if errw == nil {
 		errw = io.Discard
 	}
+	outs := NewRunOutputs(opts.OutDir)
+	defer outs.Close()
 	s, err := NewSession(Options{
 		Policy: opts.Policy, Stdout: out, Stderr: errw, NoErrorEcho: true, OutDir: opts.OutDir,
-		Seed: opts.Seed, SeedSet: opts.SeedSet, Progress: opts.Progress, Recorder: opts.Recorder, Grace: opts.Grace,
+		Seed: opts.Seed, SeedSet: opts.SeedSet, Progress: opts.Progress, Recorder: outs.Recorder, Grace: opts.Grace,
 	})
 	if err != nil {
 		return nil, err
@@ -133,17 +135,21 @@ func Run(ctx context.Context, opts RunOptions) (*RunRecord, error) {
 		}
 	}
 	rec.Result = resultOf(s)
-	var seed *uint64
-	if v, ok := s.Env().SeedUsed(); ok {
-		seed = &v
-	}
-	rec.Summary = NewSummary(opts.File, rec.Result, seed, len(f.Cells), started, time.Since(started))
 	if rec.Result == nil {
 		fmt.Fprintf(errw, "%s: the script handed over no result (call cell.Publish(result)); summary.json has no best point\n", opts.File)
-		rec.Summary.Study = trimExt(filepath.Base(opts.File))
+		var seed *uint64
+		if v, ok := s.Env().SeedUsed(); ok {
+			seed = &v
+		}
+		if err := writeEmptySummary(opts.OutDir, trimExt(filepath.Base(opts.File)), seed, len(f.Cells), started); err != nil {
+			return rec, err
+		}
+		return rec, nil
 	}
-	if err := rec.Summary.WriteJSON(opts.OutDir); err != nil {
-		return rec, err
+	sum := store.NewSummary(rec.Result, store.SummaryOptions{Script: rec.Script, ToolVersion: "couplet " + Version})
+	rec.Summary = &sum
+	if err := outs.WriteArtifacts(opts.OutDir, rec); err != nil {
+		return rec, fmt.Errorf("writing the run's output: %w", err)
 	}
 	for _, a := range opts.Artifacts {
 		if err := a.WriteArtifacts(opts.OutDir, rec); err != nil {

@@ -15,6 +15,7 @@ import (
 func runStudy(t *testing.T, name string) (map[string]any, []byte) {
 	t.Helper()
 	out := t.TempDir()
+	defer checkOutputs(t, out)
 	var stdout, stderr bytes.Buffer
 	if _, err := Run(context.Background(), RunOptions{File: filepath.Join("..", "studies", name), OutDir: out, Stdout: &stdout, Stderr: &stderr}); err != nil {
 		t.Fatalf("%s: %v\n%s", name, err, stderr.String())
@@ -27,8 +28,7 @@ func runStudy(t *testing.T, name string) (map[string]any, []byte) {
 	if err := json.Unmarshal(b, &sum); err != nil {
 		t.Fatal(err)
 	}
-	delete(sum, "started")
-	delete(sum, "elapsed_seconds")
+	delete(sum, "timestamps")
 	stripped, err := json.Marshal(sum)
 	if err != nil {
 		t.Fatal(err)
@@ -53,7 +53,7 @@ func TestSellarStudyFindsPublishedOptimum(t *testing.T) {
 	if z1 := best["design"].(map[string]any)["z1"].(float64); math.Abs(z1-1.97764) > 1e-2 {
 		t.Errorf("z1 = %.5f, want 1.97764 ± 0.01", z1)
 	}
-	if sum["study"] != "sellar" || sum["evaluations"].(float64) < 1 {
+	if sum["study"] != "sellar" || sum["evaluations"].(float64) < 1 || sum["seed"].(float64) != 1 {
 		t.Errorf("summary %s", first)
 	}
 	// A second run gives the same summary apart from its timestamps.
@@ -97,5 +97,15 @@ func TestEveryStudyRunsHeadless(t *testing.T) {
 				t.Errorf("%s handed over no result: %s", name, raw)
 			}
 		})
+	}
+}
+
+// checkOutputs checks the files a run leaves beside summary.json.
+func checkOutputs(t *testing.T, dir string) {
+	t.Helper()
+	for _, name := range []string{"results.db", "evaluations.csv", "report.html", "history.svg", "dsm.svg"} {
+		if fi, err := os.Stat(filepath.Join(dir, name)); err != nil || fi.Size() == 0 {
+			t.Errorf("run output %s missing or empty: %v", name, err)
+		}
 	}
 }

@@ -163,15 +163,21 @@ func replay(args []string, stdout, stderr io.Writer) int {
 		}
 		return 1
 	}
-	s := rec.Summary
-	line := fmt.Sprintf("couplet run: %s: %d cells, %d evaluations", filepath.Base(pos[0]), s.Cells, s.Evaluations)
-	if s.Best != nil && s.Best.Objective != nil {
-		line += fmt.Sprintf(", best objective %.6g (%s)", *s.Best.Objective, map[bool]string{true: "feasible", false: "infeasible"}[s.Best.Feasible])
+	line := fmt.Sprintf("couplet run: %s: %d cells", filepath.Base(pos[0]), len(rec.Cells))
+	if s := rec.Summary; s != nil {
+		line += fmt.Sprintf(", %d evaluations", s.Evaluations)
+		if s.Best != nil {
+			state := "feasible"
+			if !s.Best.Feasible {
+				state = "infeasible"
+			}
+			line += fmt.Sprintf(", best objective %.6g (%s)", float64(s.Best.Objective), state)
+		}
+		if s.Front != nil {
+			line += fmt.Sprintf(", front of %d points", len(s.Front))
+		}
 	}
-	if s.Front != nil {
-		line += fmt.Sprintf(", front of %d points", len(s.Front))
-	}
-	fmt.Fprintf(stderr, "%s; wrote %s\n", line, filepath.Join(st.out, "summary.json"))
+	fmt.Fprintf(stderr, "%s; wrote %s\n", line, st.out)
 	return 0
 }
 

@@ -1,0 +1,186 @@
+package repl
+
+import (
+	"errors"
+	"fmt"
+	"os"
+	"path/filepath"
+	"sync"
+
+	"couplet/mdo"
+	"couplet/mdo/plot"
+	"couplet/mdo/report"
+	"couplet/mdo/store"
+)
+
+// RunOutputs writes what `couplet run` leaves in its output folder beside
+// summary.json: the case store DIR/results.db (one row per evaluation;
+// a script that runs several optimisations gets results-2.db, ...), the
+// evaluations as CSV, the plots (optimisation history, design structure
+// matrix, Pareto front) as SVG and PNG, and the self-contained
+// DIR/report.html. Use Recorder as RunOptions.Recorder and the value
+// itself as an ArtifactWriter, then Close it.
+type RunOutputs struct {
+	dir string
+
+	mu      sync.Mutex
+	runs    int
+	stores  []*store.Store
+	ended   map[*mdo.Result]*store.Store
+	systems map[string]*mdo.System // study name → system, for the DSM
+}
+
+// NewRunOutputs returns the outputs of a run into dir.
+func NewRunOutputs(dir string) *RunOutputs {
+	return &RunOutputs{dir: dir, ended: map[*mdo.Result]*store.Store{}, systems: map[string]*mdo.System{}}
+}
+
+// Recorder makes the recorder cell.Attach installs in a study: each run
+// of an optimiser on it is recorded in a store of its own.
+func (o *RunOutputs) Recorder(st *mdo.Study) (mdo.Recorder, error) {
+	o.mu.Lock()
+	o.systems[st.Name] = st.System
+	o.mu.Unlock()
+	return &runRecorder{o: o}, nil
+}
+
+// newStore creates the next store file.
+func (o *RunOutputs) newStore() (*store.Store, error) {
+	o.mu.Lock()
+	defer o.mu.Unlock()
+	o.runs++
+	name := "results.db"
+	if o.runs > 1 {
+		name = fmt.Sprintf("results-%d.db", o.runs)
+	}
+	s, err := store.Create(filepath.Join(o.dir, name), store.Options{ToolVersion: "couplet " + Version, Overwrite: true})
+	if err != nil {
+		return nil, err
+	}
+	o.stores = append(o.stores, s)
+	return s, nil
+}
+
+// runRecorder opens a store at each Begin.
+type runRecorder struct {
+	o   *RunOutputs
+	cur *store.Store
+}
+
+func (r *runRecorder) Begin(info mdo.RunInfo) error {
+	s, err := r.o.newStore()
+	if err != nil {
+		return err
+	}
+	r.cur = s
+	return s.Begin(info)
+}
+
+func (r *runRecorder) Record(e *mdo.Evaluation) error {
+	if r.cur == nil {
+		return errors.New("repl: Record before Begin")
+	}
+	return r.cur.Record(e)
+}
+
+func (r *runRecorder) Iteration(p mdo.Progress) error {
+	if r.cur == nil {
+		return nil
+	}
+	return r.cur.Iteration(p)
+}
+
+func (r *runRecorder) End(res *mdo.Result) error {
+	if r.cur == nil {
+		return errors.New("repl: End before Begin")
+	}
+	err := r.cur.End(res)
+	r.o.mu.Lock()
+	r.o.ended[res] = r.cur
+	r.o.mu.Unlock()
+	return err
+}
+
+// WriteArtifacts implements ArtifactWriter: summary.json from the case
+// store's summary, evaluations.csv, the plots and report.html of the
+// result the script handed over.
+func (o *RunOutputs) WriteArtifacts(dir string, rec *RunRecord) error {
+	r := rec.Result
+	if r == nil {
+		return nil
+	}
+	tool := "couplet " + Version
+	if err := store.WriteSummary(filepath.Join(dir, "summary.json"), r, store.SummaryOptions{Script: rec.Script, ToolVersion: tool}); err != nil {
+		return err
+	}
+	o.mu.Lock()
+	st := o.ended[r]
+	sys := o.systems[r.Study]
+	o.mu.Unlock()
+	var evs []*mdo.Evaluation
+	if st != nil {
+		var err error
+		if evs, err = st.Evaluations(); err != nil {
+			return err
+		}
+		f, err := os.Create(filepath.Join(dir, "evaluations.csv"))
+		if err != nil {
+			return err
+		}
+		if err := st.WriteCSV(f); err != nil {
+			f.Close()
+			return err
+		}
+		if err := f.Close(); err != nil {
+			return err
+		}
+	}
+	var figs []*plot.Figure
+	if len(evs) > 0 {
+		h, err := plot.History(r, evs)
+		if err != nil {
+			return err
+		}
+		figs = append(figs, h)
+		if len(r.Objectives) > 1 {
+			p, err := plot.Pareto(r, evs)
+			if err != nil {
+				return err
+			}
+			figs = append(figs, p)
+		}
+	}
+	var extra []*plot.Figure
+	if sys != nil {
+		d, err := plot.DSM(sys)
+		if err != nil {
+			return err
+		}
+		figs = append(figs, d)
+		extra = append(extra, d)
+	}
+	if _, err := plot.SaveAll(dir, figs...); err != nil {
+		return err
+	}
+	return report.WriteFile(filepath.Join(dir, "report.html"), r, report.Options{
+		Script: rec.Script, ToolVersion: tool, Evaluations: evs, Figures: extra,
+		ScatterMatrix: isDOE(r),
+	})
+}
+
+// isDOE reports a design of experiments (its result stops "complete").
+func isDOE(r *mdo.Result) bool { return r.Stop == "complete" }
+
+// Close closes the stores.
+func (o *RunOutputs) Close() error {
+	o.mu.Lock()
+	defer o.mu.Unlock()
+	var first error
+	for _, s := range o.stores {
+		if err := s.Close(); err != nil && first == nil {
+			first = err
+		}
+	}
+	o.stores = nil
+	return first
+}
