@@ -266,18 +266,21 @@ func MixedFlowTurbofan(c CycleComponents, mach, t0, pic, alpha, tt4 float64) (Cy
 		return CycleResult{}, inputErr("engine.turbine_temperature", tt4, "K", "high enough for the turbine to drive the compressor")
 	}
 	pib := c.BurnerPressureRatio
-	pif := 1.0
+	pif, tauf := 1.0, 1.0
 	taut := 1 - A
+	var pit float64
 	if alpha > 0 {
 		x, ok := solveMixer(math.Log(pic*pib), A, B, kf, mt)
 		if !ok {
 			return CycleResult{}, inputErr("engine.bypass_ratio", alpha, "", "low enough for the core to balance the bypass stream at the mixer (Pt16 = Pt6)")
 		}
 		pif = math.Exp(x)
-		taut = 1 - A - B*(math.Exp(kf*x)-1)
+		tauf = math.Exp(kf * x)
+		taut = 1 - A - B*(tauf-1)
+		pit = pif / (pic * pib) // the mixer condition Pt16 = Pt6
+	} else {
+		pit = math.Pow(taut, mt)
 	}
-	pit := math.Pow(taut, mt)
-	tauf := math.Pow(pif, kf)
 	// constant-pressure mixing with mass-weighted properties
 	mix := massf + alpha
 	cp6 := (massf*c.CpT + alpha*c.CpC) / mix
@@ -322,7 +325,8 @@ func solveMixer(lnPc, A, B, kf, mt float64) (float64, bool) {
 	hi := lnPc + mt*math.Log(1-A) // solution without bypass work
 	x := hi
 	for i := 0; i < 60; i++ {
-		t := taut(x)
+		e := math.Exp(kf * x)
+		t := 1 - A - B*(e-1)
 		hx := math.Inf(1)
 		if t > 0 {
 			hx = x - lnPc - mt*math.Log(t)
@@ -337,7 +341,7 @@ func solveMixer(lnPc, A, B, kf, mt float64) (float64, bool) {
 		}
 		next := 0.5 * (lo + hi)
 		if t > 0 {
-			d := 1 + mt*B*kf*math.Exp(kf*x)/t
+			d := 1 + mt*B*kf*e/t
 			if n := x - hx/d; n > lo && n < hi {
 				next = n
 			}
