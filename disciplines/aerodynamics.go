@@ -436,18 +436,19 @@ func (m *AeroModel) Polar(c *Configuration, fc FlightCondition, cl float64) (Pol
 	if err != nil {
 		return Polar{}, err
 	}
-	return m.polar(c, atm, fc.Mach, cl, true)
+	return m.polar(c, atm, fc.Mach, cl, true, nil)
 }
 
 // polar is Polar at a known atmosphere; the area-rule lift term is
-// computed only when withLift is set.
-func (m *AeroModel) polar(c *Configuration, atm Atmosphere, mach, cl float64, withLift bool) (Polar, error) {
+// computed only when withLift is set; aw, if not nil, is the airframe's
+// area rule at this Mach number (the pods are added to it).
+func (m *AeroModel) polar(c *Configuration, atm Atmosphere, mach, cl float64, withLift bool, aw *AirframeWave) (Polar, error) {
 	p := Polar{Mach: mach}
 	p.CDFriction = m.parasite(c, atm, mach)
 	w := c.Wing
 	p.MachDD = KornDragDivergence(m.Geometry.KornFactor, w.ThicknessRatio, w.Sweep, cl)
 	p.MachCrit = CriticalMach(p.MachDD)
-	p.CDWave, p.KWaveLift = m.waveDrag(c, mach, p.MachDD, withLift)
+	p.CDWave, p.KWaveLift = m.waveDrag(c, mach, p.MachDD, withLift, aw)
 	p.CD0 = p.CDFriction + p.CDWave
 	p.K = DragDueToLift(w, mach, 0)
 	cla, err := LiftSlope(w, mach, m.Options.Kappa)
@@ -481,13 +482,18 @@ func (m *AeroModel) parasite(c *Configuration, atm Atmosphere, mach float64) flo
 	// surfaces' form factors
 	comp := math.Pow(1+0.144*mach*mach, 0.65)
 	cut := blend(mach, 0.9, 1.2, 38.21, 44.62*math.Pow(math.Max(mach, 1.2), 1.16))
+	// in logarithms: ln Re = ln(Re/m) + ln l, cut-off ln Re = ln C + 1.053(ln l − ln k)
 	lnK := math.Log(o.Roughness)
+	lnCut := math.Log(cut)
+	lnRePerM := math.Log(math.Max(rePerM, 1e-300))
+	const lnMin = 11.512925464970229 // ln 1e5
 	cf := func(l float64) float64 {
-		re := math.Max(rePerM*l, 1e5)
-		re = math.Min(re, cut*math.Exp(1.053*(math.Log(l)-lnK)))
-		t := 0.455 / (math.Exp(2.58*math.Log(math.Log10(re))) * comp)
+		lnL := math.Log(l)
+		lnRe := math.Max(lnRePerM+lnL, lnMin)
+		lnRe = math.Min(lnRe, lnCut+1.053*(lnL-lnK))
+		t := 0.455 / (math.Exp(2.58*math.Log(lnRe/math.Ln10)) * comp)
 		if o.LaminarFraction > 0 {
-			t = o.LaminarFraction*LaminarSkinFriction(re) + (1-o.LaminarFraction)*t
+			t = o.LaminarFraction*LaminarSkinFriction(math.Exp(lnRe)) + (1-o.LaminarFraction)*t
 		}
 		return t
 	}
@@ -572,13 +578,112 @@ func (m *AeroModel) VolumeWaveDragArea(c *Configuration, mach float64, withLift 
 	return dq, kLift
 }
 
+// RollAngles is the number of roll angles of the supersonic area rule's
+// average.
+const RollAngles = len(rollNodes)
+
+// AirframeWave holds the supersonic area rule of the airframe without its
+// pods at one Mach number: for each roll angle the start and length of
+// the Mach-plane cut range and the Fourier coefficients ℓ·An of the
+// airframe's area distribution. The coefficients are linear in the areas,
+// so the pods' share can be added later without cutting the airframe
+// again (the split that keeps the airframe's area rule out of the coupled
+// loop, where only the pods change).
+type AirframeWave struct {
+	Mach   float64
+	Start  [RollAngles]float64
+	Length [RollAngles]float64
+	A      [RollAngles][waveHarmonics]float64
+}
+
+// AirframeWave returns the airframe part of the supersonic area rule of c
+// (its pods are ignored) at mach >= 1; below Mach 1 the zero value.
+func (wd *WaveDragIntegrator) AirframeWave(c *Configuration, mach float64) AirframeWave {
+	aw := AirframeWave{Mach: mach}
+	if mach < 1 {
+		return aw
+	}
+	air := *c
+	air.Nacelles = Nacelles{}
+	b := math.Sqrt(mach*mach - 1)
+	var sc areaScratch
+	for r, th := range rollNodes {
+		k := b * math.Cos(th)
+		lo, hi := air.CutRange(k)
+		wd.Stations(lo, hi, sc.x[:])
+		air.AreaDistribution(k, sc.x[:], sc.s[:], nil)
+		aw.Start[r], aw.Length[r] = lo, hi-lo
+		for j, sj := range sc.s {
+			row := &wd.w[j]
+			for m := range aw.A[r] {
+				aw.A[r][m] += row[m] * sj
+			}
+		}
+	}
+	return aw
+}
+
+// WaveDragWithPods returns the volume wave drag D/q [m2] of the airframe
+// of aw with the pods n added, by the supersonic area rule at aw.Mach.
+// The pods are cut over the airframe's cut range; a pod reaching beyond
+// it (ahead of the nose or behind the last airframe cut) is clipped. With
+// the pods inside the range the result equals VolumeWaveDragArea of the
+// whole configuration.
+func (wd *WaveDragIntegrator) WaveDragWithPods(aw *AirframeWave, n *Nacelles) float64 {
+	if aw.Mach < 1 {
+		return 0
+	}
+	b := math.Sqrt(aw.Mach*aw.Mach - 1)
+	dq := 0.0
+	amax := nacelleNetArea(n.Diameter)
+	for r, th := range rollNodes {
+		k := b * math.Cos(th)
+		a := aw.A[r]
+		lo, l := aw.Start[r], aw.Length[r]
+		if n.Count > 0 && n.Length > 0 {
+			for p := 0; p < n.n; p++ {
+				mult := 1.0
+				if n.Y[p] == 0 {
+					mult = 0.5
+				}
+				for side := -1.0; side <= 1; side += 2 {
+					x0 := n.X[p] - k*side*n.Y[p]
+					j := firstAbove(wd.xi[:], (x0-lo)/l)
+					for ; j < WaveStations; j++ {
+						x := lo + l*wd.xi[j]
+						if x >= x0+n.Length {
+							break
+						}
+						xi := (x - x0) / n.Length
+						bb := xi * (1 - xi)
+						sn := mult * amax * 16 * bb * bb
+						row := &wd.w[j]
+						for m := range a {
+							a[m] += row[m] * sn
+						}
+					}
+				}
+			}
+		}
+		sum := 0.0
+		for m, am := range a {
+			sum += float64(m+1) * am * am
+		}
+		dq += rollWeights[r] * math.Pi / 4 * sum / (l * l)
+	}
+	return dq
+}
+
 // waveDrag returns the volume wave-drag coefficient at mach and the
 // area-rule lift factor: zero below the critical Mach number, the Lock
 // rise to the drag-divergence Mach number (held at or below 0.95), a cubic
 // fairing to the area-rule value at Mach 1 (zero slope there), the
 // supersonic area rule above.
-func (m *AeroModel) waveDrag(c *Configuration, mach, mdd float64, withLift bool) (float64, float64) {
+func (m *AeroModel) waveDrag(c *Configuration, mach, mdd float64, withLift bool, aw *AirframeWave) (float64, float64) {
 	s := c.Wing.Area
+	if mach >= 1 && aw != nil && !withLift {
+		return m.wave.WaveDragWithPods(aw, &c.Nacelles) / s, 0
+	}
 	if mach >= 1 {
 		dq, kl := m.VolumeWaveDragArea(c, mach, withLift)
 		return dq / s, kl
@@ -647,6 +752,10 @@ func (m *AeroModel) TrimmedDrag(c *Configuration, p Polar, cl, tailLift, q float
 // flaps at take-off, gear up (second segment); aero.cd0_landing is landing
 // flaps, gear down.
 //
+// The airframe's supersonic area rule at cruise Mach comes from geometry
+// (geometry.area_rule_*); aerodynamics adds the pods, which propulsion
+// sizes inside the coupled loop.
+//
 // Outputs beyond the fixed aircraft names: aero.trim_drag_cruise,
 // aero.cd_friction_cruise, aero.mach_drag_divergence,
 // aero.cd0_landing, aero.k_landing, aero.cl_takeoff (at V2).
@@ -687,7 +796,8 @@ const (
 	aeroInFlapLanding
 	aeroInElevation
 	aeroInDT
-	aeroNumIn
+	aeroInWave // RollAngles × (start, length, waveHarmonics coefficients)
+	aeroNumIn  = aeroInWave + RollAngles*areaRulePerRoll
 )
 
 // Output indices of the aerodynamics discipline.
@@ -742,6 +852,7 @@ func (a *Aerodynamics) Inputs() []mdo.Var {
 	v(aeroInFlapLanding, "flap.cl_increment_landing", "-", "CLmax increment of the landing high-lift setting (unswept wing)", 0.8, 0, 3, 0)
 	v(aeroInElevation, "airport.elevation", "m", "airport elevation", 0, -400, 4500, 1000)
 	v(aeroInDT, "airport.temperature_offset", "K", "airport temperature above the standard day", 0, -50, 50, 10)
+	copy(in[aeroInWave:], areaRuleVars())
 	return in
 }
 
@@ -795,6 +906,8 @@ func (a *Aerodynamics) Compute(in, out []float64) error {
 	if !(mach > 0 && mach <= MaxMach) {
 		return inputErr("cruise.mach", mach, "", "(0, 2.5]")
 	}
+	var aw AirframeWave
+	unpackAreaRule(in[aeroInWave:], mach, &aw)
 	atm, err := StandardAtmosphere(in[aeroInAltitude])
 	if err != nil {
 		return renameInput(err, "cruise.altitude")
@@ -804,7 +917,7 @@ func (a *Aerodynamics) Compute(in, out []float64) error {
 	mStart := in[aeroInMassStart]
 	mMid := 0.5 * (mStart + in[aeroInMassEnd])
 	cl := mMid * G0 / (q * s)
-	p, err := m.polar(&c, atm, mach, cl, false)
+	p, err := m.polar(&c, atm, mach, cl, false, &aw)
 	if err != nil {
 		return err
 	}
@@ -829,7 +942,7 @@ func (a *Aerodynamics) Compute(in, out []float64) error {
 		return renameInput(err, "airport.elevation")
 	}
 	o := &m.Options
-	pl, err := m.polar(&c, atmTO, o.TakeoffMach, 0.5, false)
+	pl, err := m.polar(&c, atmTO, o.TakeoffMach, 0.5, false, nil)
 	if err != nil {
 		return err
 	}

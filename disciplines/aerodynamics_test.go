@@ -386,3 +386,59 @@ func BenchmarkGeometryCompute(b *testing.B) {
 		_ = g.Compute(in, out)
 	}
 }
+
+func TestAirframeWaveSplit(t *testing.T) {
+	// The area-rule coefficients are linear in the areas: the airframe's
+	// coefficients plus the pods' give the wave drag of the whole
+	// configuration (pods inside the airframe's cut range).
+	m := NewAeroModel(DefaultGeometryOptions(), DefaultAeroOptions())
+	for _, sweep := range []float64{50, -35} {
+		c := testConfiguration(t, sweep, true)
+		for _, mach := range []float64{1.1, 1.5, 2.2} {
+			aw := m.wave.AirframeWave(&c, mach)
+			split := m.wave.WaveDragWithPods(&aw, &c.Nacelles)
+			whole, _ := m.VolumeWaveDragArea(&c, mach, false)
+			if relErr(split, whole) > 1e-9 {
+				t.Errorf("sweep %g, M %g: split %g, whole %g", sweep, mach, split, whole)
+			}
+		}
+	}
+}
+
+func TestGeometryFeedsAerodynamics(t *testing.T) {
+	// The discipline chain geometry → aerodynamics gives the wave drag of
+	// the aerodynamic model for the same configuration.
+	o := DefaultGeometryOptions()
+	g := NewGeometry(o)
+	a := NewAerodynamics(o, DefaultAeroOptions())
+	gin := defaultValues(g.Inputs())
+	gout := make([]float64, len(g.Outputs()))
+	if err := g.Compute(gin, gout); err != nil {
+		t.Fatal(err)
+	}
+	ain := defaultValues(a.Inputs())
+	for i, v := range a.Inputs() {
+		if k := varPosition(g.Outputs(), v.Name); k >= 0 {
+			ain[i] = gout[k]
+		} else if k := varPosition(g.Inputs(), v.Name); k >= 0 {
+			ain[i] = gin[k]
+		}
+	}
+	aout := make([]float64, len(a.Outputs()))
+	if err := a.Compute(ain, aout); err != nil {
+		t.Fatal(err)
+	}
+	conf, err := g.Layout(gin)
+	if err != nil {
+		t.Fatal(err)
+	}
+	f, _ := FuselageFromDimensions(conf.Fuselage.Length, conf.Fuselage.Diameter, conf.Fuselage.NoseLength, conf.Fuselage.TailLength)
+	c, err := AssembleConfiguration(conf.Wing, gin[geoInPosition], f, conf.HTailArea(), conf.VTailArea(), 2, ain[aeroInNacDiameter], ain[aeroInNacLength], o)
+	if err != nil {
+		t.Fatal(err)
+	}
+	dq, _ := a.Model().VolumeWaveDragArea(&c, ain[aeroInMach], false)
+	if got := aout[varPosition(a.Outputs(), "aero.wave_drag_cruise")]; relErr(got, dq/c.Wing.Area) > 1e-9 {
+		t.Errorf("wave drag %g, model %g", got, dq/c.Wing.Area)
+	}
+}

@@ -1,6 +1,7 @@
 package disciplines
 
 import (
+	"fmt"
 	"math"
 
 	"couplet/mdo"
@@ -721,14 +722,21 @@ func addFin(w *Wing, apex float64, strips int, x, s []float64) {
 // wing.exposed_area, wing.fuel_volume, fuselage.nose_length,
 // fuselage.tail_length, fuselage.cabin_length, fuselage.fineness,
 // htail.span, htail.mac, htail.wetted_area, vtail.height, vtail.mac,
-// vtail.wetted_area and aircraft.wetted_area.
+// vtail.wetted_area and aircraft.wetted_area, and the airframe's
+// supersonic area rule at cruise.mach for aerodynamics: for each roll
+// angle r of the average, geometry.area_rule_r_start and _length [m] (the
+// Mach-plane cut range) and geometry.area_rule_r_a01 … a16 [m2] (Fourier
+// coefficients ℓ·An of the area distribution; all zero below Mach 1).
 type Geometry struct {
 	opts GeometryOptions
+	wave *WaveDragIntegrator
 }
 
 // NewGeometry returns the geometry discipline with the given layout
 // options.
-func NewGeometry(o GeometryOptions) *Geometry { return &Geometry{opts: o} }
+func NewGeometry(o GeometryOptions) *Geometry {
+	return &Geometry{opts: o, wave: NewWaveDragIntegrator()}
+}
 
 // Options returns the layout options.
 func (g *Geometry) Options() GeometryOptions { return g.opts }
@@ -751,6 +759,7 @@ const (
 	geoInPitch
 	geoInNoseFineness
 	geoInTailFineness
+	geoInMach
 	geoNumIn
 )
 
@@ -788,8 +797,50 @@ const (
 	geoOutVolume
 	geoOutMaxSection
 	geoOutWetted
-	geoNumOut
+	geoOutWave // RollAngles × (start, length, waveHarmonics coefficients)
+	geoNumOut  = geoOutWave + RollAngles*areaRulePerRoll
 )
+
+// areaRulePerRoll is the number of area-rule variables per roll angle.
+const areaRulePerRoll = 2 + waveHarmonics
+
+// areaRuleVars returns the specifications of the airframe area-rule
+// variables, RollAngles × (start, length, coefficients).
+func areaRuleVars() []mdo.Var {
+	out := make([]mdo.Var, 0, RollAngles*areaRulePerRoll)
+	for r := 1; r <= RollAngles; r++ {
+		p := fmt.Sprintf("geometry.area_rule_%d_", r)
+		out = append(out,
+			mdo.Var{Name: p + "start", Unit: "m", Description: fmt.Sprintf("start of the Mach-plane cuts, roll angle %d, cruise Mach", r), Default: 0, Scale: 10},
+			mdo.Var{Name: p + "length", Unit: "m", Description: fmt.Sprintf("length of the Mach-plane cut range, roll angle %d, cruise Mach", r), Default: 30, Scale: 10})
+		for m := 1; m <= waveHarmonics; m++ {
+			out = append(out, mdo.Var{Name: fmt.Sprintf("%sa%02d", p, m), Unit: "m2",
+				Description: fmt.Sprintf("airframe area-rule Fourier coefficient %d (ℓ·A%d), roll angle %d", m, m, r), Default: 0, Scale: 1})
+		}
+	}
+	return out
+}
+
+// packAreaRule writes aw into out in the order of areaRuleVars.
+func packAreaRule(aw *AirframeWave, out []float64) {
+	k := 0
+	for r := 0; r < RollAngles; r++ {
+		out[k], out[k+1] = aw.Start[r], aw.Length[r]
+		k += 2
+		k += copy(out[k:k+waveHarmonics], aw.A[r][:])
+	}
+}
+
+// unpackAreaRule reads aw from in (order of areaRuleVars).
+func unpackAreaRule(in []float64, mach float64, aw *AirframeWave) {
+	aw.Mach = mach
+	k := 0
+	for r := 0; r < RollAngles; r++ {
+		aw.Start[r], aw.Length[r] = in[k], in[k+1]
+		k += 2
+		k += copy(aw.A[r][:], in[k:k+waveHarmonics])
+	}
+}
 
 // Parameter specifications shared by geometry and aerodynamics.
 func wingParamVars() [6]mdo.Var {
@@ -815,6 +866,7 @@ func (g *Geometry) Inputs() []mdo.Var {
 	in[geoInPitch] = mdo.Var{Name: "cabin.seat_pitch", Unit: "m", Description: "seat pitch", Default: 0.95, Min: 0.5, Max: 2.5}
 	in[geoInNoseFineness] = mdo.Var{Name: "fuselage.nose_fineness", Unit: "-", Description: "nose cone length / fuselage diameter", Default: 3.5, Min: 0.5, Max: 10}
 	in[geoInTailFineness] = mdo.Var{Name: "fuselage.tail_fineness", Unit: "-", Description: "tail cone length / fuselage diameter", Default: 4, Min: 0.5, Max: 10}
+	in[geoInMach] = mdo.Var{Name: "cruise.mach", Unit: "-", Description: "cruise Mach number", Default: 1.5, Min: 0.3, Max: MaxMach}
 	return in
 }
 
@@ -856,6 +908,7 @@ func (g *Geometry) Outputs() []mdo.Var {
 	m(geoOutVolume, "aircraft.volume", "m3", "airframe volume without pods", 65, 0, 1e5)
 	m(geoOutMaxSection, "aircraft.max_cross_section", "m2", "largest normal cross-section of the airframe without pods", 5, 0, 1000)
 	m(geoOutWetted, "aircraft.wetted_area", "m2", "airframe wetted area without pods", 350, 0, 1e5)
+	copy(o[geoOutWave:], areaRuleVars())
 	return o
 }
 
@@ -923,6 +976,12 @@ func (g *Geometry) Compute(in, out []float64) error {
 	out[geoOutVolume] = c.Volume()
 	out[geoOutMaxSection] = c.MaxCrossSection()
 	out[geoOutWetted] = sw + sf + sh + sv
+	mach := in[geoInMach]
+	if !(mach >= 0 && mach <= MaxMach) {
+		return inputErr("cruise.mach", mach, "", "[0, 2.5]")
+	}
+	aw := g.wave.AirframeWave(&c, mach)
+	packAreaRule(&aw, out[geoOutWave:])
 	return nil
 }
 
