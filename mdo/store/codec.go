@@ -43,6 +43,21 @@ func appendJSONFloat(b []byte, x float64) []byte {
 	return strconv.AppendFloat(b, x, 'g', -1, 64)
 }
 
+// appendSQLJSONFloat appends x as a JSON number that SQLite's
+// json_extract reads back exactly as a REAL: NaN as null (SQL NULL), ±Inf
+// as ±9e999 (which overflows to ±Inf).
+func appendSQLJSONFloat(b []byte, x float64) []byte {
+	switch {
+	case math.IsNaN(x):
+		return append(b, "null"...)
+	case math.IsInf(x, 1):
+		return append(b, "9e999"...)
+	case math.IsInf(x, -1):
+		return append(b, "-9e999"...)
+	}
+	return strconv.AppendFloat(b, x, 'g', -1, 64)
+}
+
 // outputKeys returns the JSON-quoted keys `"name":` of the outputs.
 func outputKeys(names []string) [][]byte {
 	keys := make([][]byte, len(names))

@@ -36,21 +36,13 @@ func (s *Store) Scan(fn func(*mdo.Evaluation) error) error {
 		}
 	}
 	l := s.lay
-	cols := l.columns()
-	quoted := ""
-	for i, c := range cols {
-		if i > 0 {
-			quoted += ", "
-		}
-		quoted += quote(c)
-	}
-	rows, err := s.conn.QueryContext(context.Background(), "SELECT "+quoted+" FROM evaluations ORDER BY id")
+	rows, err := s.conn.QueryContext(context.Background(),
+		"SELECT id, feasible, converged, violation, error, iterations, discipline_calls, wall_seconds, outputs, vectors FROM evaluation_data ORDER BY id")
 	if err != nil {
 		return fmt.Errorf("store: reading the evaluations of %s: %w", s.path, err)
 	}
 	defer rows.Close()
 	nd, no, nc := len(l.design), len(l.objectives), len(l.constraints)
-	nf := nd + no + 2*nc
 	var (
 		id, iters, calls    int64
 		feasible, converged bool
@@ -60,36 +52,22 @@ func (s *Store) Scan(fn func(*mdo.Evaluation) error) error {
 		outputs             string
 		vectors             []byte
 	)
-	floats := make([]sql.NullFloat64, nf)
-	dest := []any{&id, &feasible, &converged, &viol, &errText, &iters, &calls, &wall}
-	for k := range floats {
-		dest = append(dest, &floats[k])
-	}
-	dest = append(dest, &outputs, &vectors)
 	for rows.Next() {
-		if err := rows.Scan(dest...); err != nil {
+		if err := rows.Scan(&id, &feasible, &converged, &viol, &errText, &iters, &calls, &wall, &outputs, &vectors); err != nil {
 			return fmt.Errorf("store: reading the evaluations of %s: %w", s.path, err)
 		}
 		e := &mdo.Evaluation{
 			ID: int(id), Feasible: feasible, Converged: converged, Violation: nullNaN(viol), Err: errText,
 			Iterations: int(iters), DisciplineCalls: int(calls), Wall: time.Duration(math.Round(wall * 1e9)),
 		}
-		vals := make([]float64, nf)
-		for k, f := range floats {
-			vals[k] = nullNaN(f)
-		}
-		e.Design, vals = vals[:nd:nd], vals[nd:]
-		e.Objectives, vals = vals[:no:no], vals[no:]
-		e.Constraints, vals = vals[:nc:nc], vals[nc:]
-		e.Margins = vals[:nc:nc]
 		off := 0
-		if e.X, off, err = readFloats(vectors, off, nd); err == nil {
-			if e.F, off, err = readFloats(vectors, off, no); err == nil {
-				e.G, _, err = readFloats(vectors, off, nc)
+		for _, dst := range []struct {
+			p *[]float64
+			n int
+		}{{&e.X, nd}, {&e.Design, nd}, {&e.Objectives, no}, {&e.F, no}, {&e.Constraints, nc}, {&e.Margins, nc}, {&e.G, nc}} {
+			if *dst.p, off, err = readFloats(vectors, off, dst.n); err != nil {
+				return fmt.Errorf("store: %s: evaluation %d: %v: %w", s.path, id, err, ErrDamaged)
 			}
-		}
-		if err != nil {
-			return fmt.Errorf("store: %s: evaluation %d: %v: %w", s.path, id, err, ErrDamaged)
 		}
 		if e.Outputs, err = parseOutputs(outputs, l.outIndex, len(l.outputs)); err != nil {
 			return fmt.Errorf("store: %s: evaluation %d: %v: %w", s.path, id, err, ErrDamaged)

@@ -186,7 +186,7 @@ func writeVariables(ctx context.Context, s *Store, lay *layout, outputs []mdo.Va
 // prepare prepares the insert statements of the layout.
 func (s *Store) prepare() error {
 	ctx := context.Background()
-	ncols := len(s.lay.columns())
+	ncols := len(s.lay.stored())
 	s.batchRows = min(maxBatchRows, s.opt.BatchSize, maxVariables/ncols)
 	err := s.conn.Raw(func(dc any) error {
 		pc, ok := dc.(driver.ConnPrepareContext)
@@ -347,38 +347,35 @@ func (s *Store) add(vs ...driver.Value) {
 	}
 }
 
-// addFloats appends float arguments; NaN becomes NULL.
-func (s *Store) addFloats(xs []float64) {
-	for _, x := range xs {
-		var v driver.Value = x
-		if x != x {
-			v = nil
-		}
-		s.args = append(s.args, driver.NamedValue{Ordinal: len(s.args) + 1, Value: v})
-	}
-}
-
-// bind fills the argument list of an insert of evs. The vectors blob
-// and the outputs text are cut from one arena per call; the driver copies
-// them when it binds.
+// bind fills the argument list of an insert of evs. The numbers and
+// outputs texts and the vectors blob are cut from one arena per call; the
+// driver copies them when it binds.
 func (s *Store) bind(evs []*mdo.Evaluation) []driver.NamedValue {
 	s.args = s.args[:0]
 	s.arena = s.arena[:0]
 	for _, e := range evs {
 		s.add(int64(e.ID), e.Feasible, e.Converged, e.Violation, e.Err,
 			int64(e.Iterations), int64(e.DisciplineCalls), e.Wall.Seconds())
-		s.addFloats(e.Design)
-		s.addFloats(e.Objectives)
-		s.addFloats(e.Constraints)
-		s.addFloats(e.Margins)
 		start := len(s.arena)
+		s.arena = append(s.arena, '[')
+		for _, xs := range [4][]float64{e.Design, e.Objectives, e.Constraints, e.Margins} {
+			for _, x := range xs {
+				if len(s.arena) > start+1 {
+					s.arena = append(s.arena, ',')
+				}
+				s.arena = appendSQLJSONFloat(s.arena, x)
+			}
+		}
+		s.arena = append(s.arena, ']')
+		numbers := string(s.arena[start:])
+		start = len(s.arena)
 		s.arena = appendOutputs(s.arena, s.lay.outKeys, e.Outputs)
 		outputs := string(s.arena[start:])
 		start = len(s.arena)
-		s.arena = appendFloats(s.arena, e.X)
-		s.arena = appendFloats(s.arena, e.F)
-		s.arena = appendFloats(s.arena, e.G)
-		s.add(outputs, s.arena[start:len(s.arena):len(s.arena)])
+		for _, xs := range [7][]float64{e.X, e.Design, e.Objectives, e.F, e.Constraints, e.Margins, e.G} {
+			s.arena = appendFloats(s.arena, xs)
+		}
+		s.add(numbers, outputs, s.arena[start:len(s.arena):len(s.arena)])
 	}
 	return s.args
 }

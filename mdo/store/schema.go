@@ -133,20 +133,30 @@ func newLayout(design []mdo.DesignSpec, objectives, constraints []string, output
 	return l
 }
 
-// columns returns every column of the evaluations table in order.
-func (l *layout) columns() []string {
-	cols := append([]string(nil), fixedCols...)
+// stored returns the columns of evaluation_data, in order.
+func (l *layout) stored() []string {
+	return append(append([]string(nil), fixedCols...), "numbers", "outputs", "vectors")
+}
+
+// named returns the per-name columns of the evaluations view, in the
+// order of the numbers array.
+func (l *layout) named() []string {
+	var cols []string
 	cols = append(cols, l.designCols...)
 	cols = append(cols, l.objCols...)
 	cols = append(cols, l.consCols...)
-	cols = append(cols, l.marginCols...)
-	return append(cols, "outputs", "vectors")
+	return append(cols, l.marginCols...)
 }
 
-// createEvaluations is the DDL of the evaluations table.
+// createEvaluations is the DDL of the evaluations: the table
+// evaluation_data, where the design, objective, constraint and margin
+// values of a row are kept once, as the JSON array numbers, and the view
+// evaluations, which shows them as one column each. Reading a value
+// through the view parses the array; writing a row costs no more than
+// the array.
 func (l *layout) createEvaluations() string {
 	var b strings.Builder
-	b.WriteString(`CREATE TABLE evaluations (
+	b.WriteString(`CREATE TABLE evaluation_data (
 	id INTEGER PRIMARY KEY,
 	feasible INTEGER NOT NULL,
 	converged INTEGER NOT NULL,
@@ -154,26 +164,29 @@ func (l *layout) createEvaluations() string {
 	error TEXT NOT NULL,
 	iterations INTEGER NOT NULL,
 	discipline_calls INTEGER NOT NULL,
-	wall_seconds REAL NOT NULL`)
-	for _, group := range [][]string{l.designCols, l.objCols, l.consCols, l.marginCols} {
-		for _, c := range group {
-			fmt.Fprintf(&b, ",\n\t%s REAL", quote(c))
-		}
+	wall_seconds REAL NOT NULL,
+	numbers TEXT NOT NULL,
+	outputs TEXT NOT NULL,
+	vectors BLOB NOT NULL
+);
+CREATE VIEW evaluations AS SELECT id, feasible, converged, violation, error, iterations, discipline_calls, wall_seconds`)
+	for k, c := range l.named() {
+		fmt.Fprintf(&b, ",\n\tjson_extract(numbers, '$[%d]') AS %s", k, quote(c))
 	}
-	b.WriteString(",\n\toutputs TEXT NOT NULL,\n\tvectors BLOB NOT NULL\n)")
+	b.WriteString(",\n\toutputs\nFROM evaluation_data")
 	return b.String()
 }
 
 // insertSQL is an INSERT of rows rows into the evaluations table.
 func (l *layout) insertSQL(rows int) string {
-	cols := l.columns()
+	cols := l.stored()
 	quoted := make([]string, len(cols))
 	for i, c := range cols {
 		quoted[i] = quote(c)
 	}
 	one := "(" + strings.TrimSuffix(strings.Repeat("?,", len(cols)), ",") + ")"
 	var b strings.Builder
-	b.WriteString("INSERT OR REPLACE INTO evaluations (" + strings.Join(quoted, ", ") + ") VALUES ")
+	b.WriteString("INSERT OR REPLACE INTO evaluation_data (" + strings.Join(quoted, ", ") + ") VALUES ")
 	for r := 0; r < rows; r++ {
 		if r > 0 {
 			b.WriteByte(',')

@@ -296,7 +296,7 @@ func (s *Store) loadMeta() error {
 	if err != nil {
 		return err
 	}
-	if err := s.conn.QueryRowContext(ctx, "SELECT count(*) FROM evaluations").Scan(&m.Rows); err != nil {
+	if err := s.conn.QueryRowContext(ctx, "SELECT count(*) FROM evaluation_data").Scan(&m.Rows); err != nil {
 		return fmt.Errorf("store: counting the evaluations of %s: %w", s.path, err)
 	}
 	s.rows = m.Rows

@@ -242,6 +242,21 @@ func TestNonFiniteValuesSurvive(t *testing.T) {
 	if f := sameEvaluation(evs[0], &e); f != "" {
 		t.Errorf("failed evaluation differs in %s after reload", f)
 	}
+	// in SQL, NaN is NULL and the infinities are ±Inf
+	db, err := sql.Open("sqlite", "file:"+path+"?mode=ro")
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer db.Close()
+	var objNull, marginNegInf, violPosInf, designOK bool
+	err = db.QueryRow(`SELECT "objective:mass.takeoff" IS NULL, "margin:perf.c0" = -9e999, violation = 9e999, "design:wing.x2" = ? FROM evaluations`, e.Design[2]).
+		Scan(&objNull, &marginNegInf, &violPosInf, &designOK)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !objNull || !marginNegInf || !violPosInf || !designOK {
+		t.Errorf("SQL view of a failed evaluation: objective NULL %v, margin -Inf %v, violation +Inf %v, design exact %v", objNull, marginNegInf, violPosInf, designOK)
+	}
 }
 
 func TestCreateRefusesExistingFile(t *testing.T) {
