@@ -97,7 +97,7 @@ func BenchmarkRecord(b *testing.B) {
 	}
 	b.StopTimer()
 	// CPU time is less disturbed than wall time by other work on the machine
-	b.ReportMetric(float64((cpuTime() - cpu0).Nanoseconds())/float64(b.N), "cpu-ns/op")
+	b.ReportMetric(float64((cpuTime()-cpu0).Nanoseconds())/float64(b.N), "cpu-ns/op")
 }
 
 // cpuTime returns the process's user plus system CPU time.
