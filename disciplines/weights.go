@@ -156,6 +156,7 @@ const (
 	wtInEnginePosition
 	wtInFuelVolume
 	wtInGuess
+	wtInFusTankShare
 	wtNumIn
 )
 
@@ -194,7 +195,9 @@ const (
 // Added variables: inputs mission.fuel_fraction, mission.reserve_fraction,
 // mission.climb_fuel_fraction, mission.cruise_end_fuel_fraction,
 // mission.trip_fuel_fraction (fuel as fractions of the take-off mass, from
-// mission), cg.engine_position (engine group CG over fuselage length);
+// mission), cg.engine_position (engine group CG over fuselage length),
+// weights.fuselage_tank_share (fuselage fuel volume over π/4·D²·L; the
+// fuel capacity is wing.fuel_volume plus that share, at FuelDensity);
 // outputs mass.cruise_start, mass.cruise_end, mass.fuel_capacity,
 // cg.empty, the component masses mass.wing, mass.fuselage, mass.htail,
 // mass.vtail, mass.landing_gear, mass.propulsion_group, mass.systems,
@@ -233,9 +236,6 @@ type Weights struct {
 	HydraulicFunctions float64
 	// FuelDensity [kg/m3], 800 (kerosene).
 	FuelDensity float64
-	// FuselageTankShare is the fuel volume in the fuselage as a share of
-	// the fuselage volume, 0.04 (common practice, no source).
-	FuselageTankShare float64
 }
 
 // NewWeights returns the weights discipline with aluminium 7075-T6 and the
@@ -244,7 +244,7 @@ func NewWeights() *Weights {
 	return &Weights{
 		Material: Aluminium7075(), UltimateLoadFactor: 3.75, ForwardSweepStiffening: 0.5, CoverShare: 0.45,
 		FlightCrew: 2, CrewMass: 95, PassengersPerAttendant: 50, SeatMass: 25, AvionicsMass: 360,
-		ElectricalRating: 50, HydraulicFunctions: 7, FuelDensity: 800, FuselageTankShare: 0.04,
+		ElectricalRating: 50, HydraulicFunctions: 7, FuelDensity: 800,
 	}
 }
 
@@ -293,6 +293,7 @@ func (w *Weights) Inputs() []mdo.Var {
 	in[wtInEnginePosition] = mdo.Var{Name: "cg.engine_position", Unit: "-", Description: "engine group CG over fuselage length", Default: 0.75, Min: 0, Max: 1.2}
 	in[wtInFuelVolume] = mdo.Var{Name: "wing.fuel_volume", Unit: "m3", Description: "wing-box fuel volume", Default: 15, Min: 0, Max: 2000}
 	in[wtInGuess] = massTakeoffVar()
+	in[wtInFusTankShare] = mdo.Var{Name: "weights.fuselage_tank_share", Unit: "-", Description: "fuel volume in the fuselage over the fuselage volume π/4·D²·L", Default: 0.05, Min: 0, Max: 0.5}
 	return in
 }
 
@@ -583,7 +584,7 @@ func (w *Weights) Compute(in, out []float64) error {
 	box := SizeWingBox(w.Material, nz*(w0-wingTotal)*G0, span, sweep, in[wtInRootChord], tc, df, kfs)
 
 	// fuel capacity: the wing-box volume of geometry and a fuselage share
-	fusVol := w.FuselageTankShare * math.Pi / 4 * df * df * lf
+	fusVol := in[wtInFusTankShare] * math.Pi / 4 * df * df * lf
 	capacity := (in[wtInFuelVolume] + fusVol) * w.FuelDensity
 
 	// centres of gravity (x from the nose; common practice, no source)
