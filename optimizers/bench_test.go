@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"testing"
 
+	"couplet/disciplines"
 	"couplet/mdo"
 )
 
@@ -26,10 +27,16 @@ func benchGA(b *testing.B, mk func() (*mdo.Study, error), workers int) {
 }
 
 // BenchmarkGAPopulation measures GA generations, whose populations are
-// evaluated as batches on the study's workers, with 1 and 2 workers.
+// evaluated as batches on the study's workers, with 1 and 2 workers: on
+// Sellar (an analysis of a few microseconds, where the pool's overhead
+// shows) and on the business jet (an analysis of about a millisecond).
 func BenchmarkGAPopulation(b *testing.B) {
+	bizjet := func() (*mdo.Study, error) { return bizjetStudy(disciplines.Swiftlet(), 45, 65) }
 	for _, w := range []int{1, 2} {
 		b.Run(fmt.Sprintf("sellar/workers=%d", w), func(b *testing.B) { benchGA(b, SellarMDF, w) })
+	}
+	for _, w := range []int{1, 2} {
+		b.Run(fmt.Sprintf("bizjet/workers=%d", w), func(b *testing.B) { benchGA(b, bizjet, w) })
 	}
 }
 
