@@ -338,7 +338,11 @@ func LiftSlope(w Wing, mach, kappa float64) (float64, error) {
 // oswaldReduction for deflected flaps), SupersonicDragDueToLift above
 // 1.2, a smooth step between.
 func DragDueToLift(w Wing, mach, oswaldReduction float64) float64 {
-	e := OswaldEfficiency(w.AspectRatio, w.SweepLE) - oswaldReduction
+	return dragDueToLift(w, mach, OswaldEfficiency(w.AspectRatio, w.SweepLE)-oswaldReduction)
+}
+
+// dragDueToLift is DragDueToLift with the span efficiency e given.
+func dragDueToLift(w Wing, mach, e float64) float64 {
 	sub := 1 / (math.Pi * w.AspectRatio * e)
 	wt := smoothstep(mach, blendLow, blendHigh)
 	if wt == 0 {
@@ -443,14 +447,21 @@ func (m *AeroModel) Polar(c *Configuration, fc FlightCondition, cl float64) (Pol
 // computed only when withLift is set; aw, if not nil, is the airframe's
 // area rule at this Mach number (the pods are added to it).
 func (m *AeroModel) polar(c *Configuration, atm Atmosphere, mach, cl float64, withLift bool, aw *AirframeWave) (Polar, error) {
+	t := m.components(c)
+	return m.polarFrom(c, &t, atm, mach, cl, withLift, aw, OswaldEfficiency(c.Wing.AspectRatio, c.Wing.SweepLE))
+}
+
+// polarFrom is polar with the component table and the wing's Oswald
+// efficiency already computed.
+func (m *AeroModel) polarFrom(c *Configuration, t *dragComponents, atm Atmosphere, mach, cl float64, withLift bool, aw *AirframeWave, e float64) (Polar, error) {
 	p := Polar{Mach: mach}
-	p.CDFriction = m.parasite(c, atm, mach)
+	p.CDFriction = m.parasite(t, atm, mach)
 	w := c.Wing
 	p.MachDD = KornDragDivergence(m.Geometry.KornFactor, w.ThicknessRatio, w.Sweep, cl)
 	p.MachCrit = CriticalMach(p.MachDD)
 	p.CDWave, p.KWaveLift = m.waveDrag(c, mach, p.MachDD, withLift, aw)
 	p.CD0 = p.CDFriction + p.CDWave
-	p.K = DragDueToLift(w, mach, 0)
+	p.K = dragDueToLift(w, mach, e)
 	cla, err := LiftSlope(w, mach, m.Options.Kappa)
 	if err != nil {
 		return p, err
@@ -473,8 +484,52 @@ func wingBodyLiftFactor(c *Configuration) float64 {
 // Mach 0.95, 0 (form factor 1: thickness drag is wave drag) above 1.2.
 func formFactorWeight(mach float64) float64 { return 1 - smoothstep(mach, blendLow, blendHigh) }
 
-// parasite returns the friction, form and interference drag coefficient.
-func (m *AeroModel) parasite(c *Configuration, atm Atmosphere, mach float64) float64 {
+// dragComponents are the Mach-independent data of the component drag
+// build-up of one configuration: for each component the logarithm of its
+// reference length, its wetted area times its interference factor, and
+// the Mach-independent part of its form factor (surfaces: the thickness
+// term times (cos Λm)^0.28; bodies: the excess over 1).
+type dragComponents struct {
+	n       int
+	surface [5]bool
+	lnL     [5]float64
+	swetQ   [5]float64
+	ff      [5]float64
+	sref    float64
+}
+
+// components tabulates the drag build-up data of c.
+func (m *AeroModel) components(c *Configuration) dragComponents {
+	o := &m.Options
+	xm := m.Geometry.MaxThicknessChord
+	var t dragComponents
+	t.sref = c.Wing.Area
+	add := func(surface bool, l, swetQ, ff float64) {
+		t.surface[t.n], t.lnL[t.n], t.swetQ[t.n], t.ff[t.n] = surface, math.Log(l), swetQ, ff
+		t.n++
+	}
+	surf := func(w *Wing) float64 {
+		tc := w.ThicknessRatio
+		return (1 + 0.6/xm*tc + 100*tc*tc*tc*tc) * math.Pow(math.Cos(w.SweepAt(xm)*math.Pi/180), 0.28)
+	}
+	swW, swF, swH, swV, swN := c.WettedAreas()
+	add(true, c.Wing.MAC, swW*o.QWing, surf(&c.Wing))
+	if swH > 0 {
+		add(true, c.HTail.MAC, swH*o.QTail, surf(&c.HTail))
+	}
+	add(true, c.VTail.MAC, swV*o.QTail, surf(&c.VTail))
+	f := c.Fuselage.Fineness
+	add(false, c.Fuselage.Length, swF*o.QFuselage, 60/(f*f*f)+f/400)
+	if swN > 0 {
+		n := &c.Nacelles
+		add(false, n.Length, swN*o.QNacelle, 0.35/(n.Length/n.Diameter))
+	}
+	return t
+}
+
+// parasite returns the friction, form and interference drag coefficient
+// of the tabulated components at mach in the atmosphere atm.
+func (m *AeroModel) parasite(t *dragComponents, atm Atmosphere, mach float64) float64 {
 	o := &m.Options
 	rePerM := atm.Reynolds(mach)
 	// factors common to every component: compressibility of the skin
@@ -487,43 +542,25 @@ func (m *AeroModel) parasite(c *Configuration, atm Atmosphere, mach float64) flo
 	lnCut := math.Log(cut)
 	lnRePerM := math.Log(math.Max(rePerM, 1e-300))
 	const lnMin = 11.512925464970229 // ln 1e5
-	cf := func(l float64) float64 {
-		lnL := math.Log(l)
-		lnRe := math.Max(lnRePerM+lnL, lnMin)
-		lnRe = math.Min(lnRe, lnCut+1.053*(lnL-lnK))
-		t := 0.455 / (math.Exp(2.58*math.Log(lnRe/math.Ln10)) * comp)
-		if o.LaminarFraction > 0 {
-			t = o.LaminarFraction*LaminarSkinFriction(math.Exp(lnRe)) + (1-o.LaminarFraction)*t
-		}
-		return t
-	}
 	fw := formFactorWeight(mach)
 	mff := math.Max(math.Min(mach, blendLow), 0.2)
 	machFF := 1.34 * math.Pow(mff, 0.18)
-	xm := m.Geometry.MaxThicknessChord
-	surfFF := func(w *Wing) float64 {
-		if fw == 0 {
-			return 1
+	sum := 0.0
+	for i := 0; i < t.n; i++ {
+		lnL := t.lnL[i]
+		lnRe := math.Max(lnRePerM+lnL, lnMin)
+		lnRe = math.Min(lnRe, lnCut+1.053*(lnL-lnK))
+		cf := 0.455 / (math.Exp(2.58*math.Log(lnRe/math.Ln10)) * comp)
+		if o.LaminarFraction > 0 {
+			cf = o.LaminarFraction*LaminarSkinFriction(math.Exp(lnRe)) + (1-o.LaminarFraction)*cf
 		}
-		tc := w.ThicknessRatio
-		sub := (1 + 0.6/xm*tc + 100*tc*tc*tc*tc) * machFF * math.Pow(math.Cos(w.SweepAt(xm)*math.Pi/180), 0.28)
-		return 1 + fw*(sub-1)
+		ff := 1 + fw*t.ff[i]
+		if t.surface[i] {
+			ff = 1 + fw*(t.ff[i]*machFF-1)
+		}
+		sum += cf * ff * t.swetQ[i]
 	}
-	swW, swF, swH, swV, swN := c.WettedAreas()
-	sum := cf(c.Wing.MAC) * surfFF(&c.Wing) * o.QWing * swW
-	if swH > 0 {
-		sum += cf(c.HTail.MAC) * surfFF(&c.HTail) * o.QTail * swH
-	}
-	sum += cf(c.VTail.MAC) * surfFF(&c.VTail) * o.QTail * swV
-	f := c.Fuselage.Fineness
-	ffF := 1 + fw*(60/(f*f*f)+f/400)
-	sum += cf(c.Fuselage.Length) * ffF * o.QFuselage * swF
-	if swN > 0 {
-		n := &c.Nacelles
-		ffN := 1 + fw*0.35/(n.Length/n.Diameter)
-		sum += cf(n.Length) * ffN * o.QNacelle * swN
-	}
-	return (1 + o.Miscellaneous) * sum / c.Wing.Area
+	return (1 + o.Miscellaneous) * sum / t.sref
 }
 
 // areaScratch holds the area distribution of one cut.
@@ -534,7 +571,7 @@ type areaScratch struct {
 // VolumeWaveDragArea returns the volume wave drag D/q [m2] of c at
 // mach >= 1 by the supersonic area rule: the slender-body wave drag of
 // the area distribution cut by Mach planes x = x0 + β·cos θ·y, averaged
-// over roll angle θ (three-point Gauss–Legendre on [0, π/2]; the
+// over roll angle θ (two-point Gauss–Legendre on [0, π/2]; the
 // configuration is symmetric), and the lift factor KWaveLift of the
 // equivalent area due to lift, S_L' = (β cos θ/2)·(L/q)·l(x)/L with l the
 // lift per unit length along the cut, taking a uniform spanwise lift
@@ -726,12 +763,20 @@ func CLMaxFlapped(w Wing, dcl float64) float64 {
 // It returns the total CD and the trim drag (CD minus the untrimmed
 // CD0 + K·CL²).
 func (m *AeroModel) TrimmedDrag(c *Configuration, p Polar, cl, tailLift, q float64) (cd, trim float64) {
+	kt := 0.0
+	if c.HTail.Area > 0 {
+		kt = DragDueToLift(c.HTail, p.Mach, 0)
+	}
+	return trimmedDrag(c, p, cl, tailLift, q, kt)
+}
+
+// trimmedDrag is TrimmedDrag with the tail's drag-due-to-lift factor kt.
+func trimmedDrag(c *Configuration, p Polar, cl, tailLift, q, kt float64) (cd, trim float64) {
 	s := c.Wing.Area
 	clt := tailLift / (q * s)
 	clw := cl - clt
 	cd = p.CD0 + p.K*clw*clw
 	if c.HTail.Area > 0 {
-		kt := DragDueToLift(c.HTail, p.Mach, 0)
 		ct := tailLift / (q * c.HTail.Area)
 		cd += kt * ct * ct * c.HTail.Area / s
 	}
@@ -917,14 +962,20 @@ func (a *Aerodynamics) Compute(in, out []float64) error {
 	mStart := in[aeroInMassStart]
 	mMid := 0.5 * (mStart + in[aeroInMassEnd])
 	cl := mMid * G0 / (q * s)
-	p, err := m.polar(&c, atm, mach, cl, false, &aw)
+	tab := m.components(&c)
+	e := OswaldEfficiency(w.AspectRatio, w.SweepLE)
+	p, err := m.polarFrom(&c, &tab, atm, mach, cl, false, &aw, e)
 	if err != nil {
 		return err
 	}
 	lt := in[aeroInTailLift]
-	cd, trim := m.TrimmedDrag(&c, p, cl, lt, q)
+	kt := 0.0
+	if c.HTail.Area > 0 {
+		kt = DragDueToLift(c.HTail, mach, 0)
+	}
+	cd, trim := trimmedDrag(&c, p, cl, lt, q, kt)
 	clStart := mStart * G0 / (q * s)
-	cdStart, _ := m.TrimmedDrag(&c, p, clStart, lt, q)
+	cdStart, _ := trimmedDrag(&c, p, clStart, lt, q, kt)
 	out[aeroOutCD0] = p.CD0
 	out[aeroOutK] = p.K
 	out[aeroOutCL] = cl
@@ -942,7 +993,7 @@ func (a *Aerodynamics) Compute(in, out []float64) error {
 		return renameInput(err, "airport.elevation")
 	}
 	o := &m.Options
-	pl, err := m.polar(&c, atmTO, o.TakeoffMach, 0.5, false, nil)
+	pl, err := m.polarFrom(&c, &tab, atmTO, o.TakeoffMach, 0.5, false, nil, e)
 	if err != nil {
 		return err
 	}
@@ -950,7 +1001,7 @@ func (a *Aerodynamics) Compute(in, out []float64) error {
 	clTO := CLMaxFlapped(w, in[aeroInFlapTakeoff])
 	clL := CLMaxFlapped(w, in[aeroInFlapLanding])
 	cd0TO := pl.CD0 + o.FlapDragPerCL*in[aeroInFlapTakeoff]
-	kTO := DragDueToLift(w, o.TakeoffMach, o.OswaldReductionTakeoff)
+	kTO := dragDueToLift(w, o.TakeoffMach, e-o.OswaldReductionTakeoff)
 	cl2 := clTO / (1.13 * 1.13)
 	out[aeroOutCD0TO] = cd0TO
 	out[aeroOutKTO] = kTO
@@ -961,6 +1012,6 @@ func (a *Aerodynamics) Compute(in, out []float64) error {
 	out[aeroOutCLMaxLdg] = clL
 	out[aeroOutCLALow] = pl.CLAlpha
 	out[aeroOutCD0Ldg] = pl.CD0 + o.FlapDragPerCL*in[aeroInFlapLanding] + o.GearDrag
-	out[aeroOutKLdg] = DragDueToLift(w, o.TakeoffMach, o.OswaldReductionLanding)
+	out[aeroOutKLdg] = dragDueToLift(w, o.TakeoffMach, e-o.OswaldReductionLanding)
 	return nil
 }
