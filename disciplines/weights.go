@@ -536,14 +536,17 @@ func (w *Weights) Compute(in, out []float64) error {
 		w0 = g
 	}
 	converged := false
+	var mt [numTerms]float64 // term masses at the last evaluated W0
 	for it := 0; it < 50; it++ {
 		lw := math.Log(w0)
 		sum, dsum := 0.0, 0.0
-		for _, t := range terms {
+		for i, t := range terms {
 			if t.coef == 0 {
+				mt[i] = 0
 				continue
 			}
 			v := t.value(lw)
+			mt[i] = v
 			sum += v
 			dsum += t.exp * v
 		}
@@ -558,19 +561,18 @@ func (w *Weights) Compute(in, out []float64) error {
 		}
 		w0 -= step
 		if math.Abs(step) <= 1e-13*w0 {
+			// move the term masses to the final W0 to first order (exact
+			// to round-off for a step this small)
+			r := -step / (w0 + step)
+			for i, t := range terms {
+				mt[i] *= 1 + t.exp*r
+			}
 			converged = true
 			break
 		}
 	}
 	if !converged || !(w0 > 0) || w0 > massTakeoffVar().Max {
 		return inputErr("mass.takeoff", w0, "kg", "a take-off mass closure below 1e6 kg (mission fuel fraction too large?)")
-	}
-	lw := math.Log(w0)
-	var mt [numTerms]float64
-	for i, t := range terms {
-		if t.coef != 0 {
-			mt[i] = t.value(lw)
-		}
 	}
 	wingTotal := mt[termWing]
 	penMass := wingTotal * penalty / (1 + penalty)
