@@ -43,7 +43,7 @@ func ExampleSweptBeam_DivergenceDynamicPressure() {
 
 // The refined empty-mass-fraction regression, jet-fighter row.
 func ExampleEmptyFractionRow_EmptyMassFraction() {
-	f := disciplines.EmptyFractionJetFighter.EmptyMassFraction(20000*0.45359237, 5, 0.6, 25*47.880258980336, 2)
+	f := disciplines.EmptyFractionJetFighter().EmptyMassFraction(20000*0.45359237, 5, 0.6, 25*47.880258980336, 2)
 	fmt.Printf("We/W0 = %.4f\n", f)
 	// Output:
 	// We/W0 = 0.8109

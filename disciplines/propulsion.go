@@ -492,10 +492,6 @@ func PartThrottle(c CycleComponents, mach, t0, pic, alpha, tt4max, target float6
 	return r, x1, nil
 }
 
-// Throttle fractions of the cruise part-throttle nodes: Tt4 = Tt3 +
-// frac·(Tt4,max − Tt3), tried in order until the cycle runs.
-var cruiseNodeFractions = [...][2]float64{{0.8, 0.6}, {0.85, 0.7}, {0.9, 0.8}, {0.95, 0.9}}
-
 // Indices of the engine_cycle discipline's variables.
 const (
 	cycInBypass = iota
@@ -635,7 +631,10 @@ func (e *EngineCycle) Compute(in, out []float64) error {
 	out[cycOutFanPressureRatio] = sls.FanPressureRatio
 	// part-throttle nodes at cruise
 	tt3 := cruise.Temperature * cr.RamTempRatio * math.Pow(pic, (c.GammaC-1)/(c.GammaC*c.CompressorPolytropic))
-	for _, fr := range cruiseNodeFractions {
+	// throttle fractions of the two nodes, Tt4 = Tt3 + frac·(Tt4,max − Tt3),
+	// tried in order until the cycle runs at both
+	nodes := [...][2]float64{{0.8, 0.6}, {0.85, 0.7}, {0.9, 0.8}, {0.95, 0.9}}
+	for _, fr := range nodes {
 		t1 := tt3 + fr[0]*(tt4-tt3)
 		t2 := tt3 + fr[1]*(tt4-tt3)
 		n1, err1 := MixedFlowTurbofan(*c, mach, cruise.Temperature, pic, bpr, t1)

@@ -39,13 +39,19 @@ import (
 // lbf/ft²; Raymer, conceptual-design textbooks).
 type EmptyFractionRow struct{ A, B, C, D, E, F, G float64 }
 
-// Rows of the refined empty-mass-fraction regression (from memory).
-var (
-	// EmptyFractionJetFighter is the jet-fighter row.
-	EmptyFractionJetFighter = EmptyFractionRow{-0.02, 2.16, -0.10, 0.20, 0.04, -0.10, 0.08}
-	// EmptyFractionJetTransport is the jet-transport row.
-	EmptyFractionJetTransport = EmptyFractionRow{0.32, 0.66, -0.13, 0.30, 0.06, -0.05, 0.05}
-)
+// EmptyFractionJetFighter returns the jet-fighter row of the refined
+// empty-mass-fraction regression (a = −0.02, b = 2.16, c = −0.10,
+// d = 0.20, e = 0.04, f = −0.10, g = 0.08).
+func EmptyFractionJetFighter() EmptyFractionRow {
+	return EmptyFractionRow{-0.02, 2.16, -0.10, 0.20, 0.04, -0.10, 0.08}
+}
+
+// EmptyFractionJetTransport returns the jet-transport row of the refined
+// empty-mass-fraction regression (from memory: a = 0.32, b = 0.66,
+// c = −0.13, d = 0.30, e = 0.06, f = −0.05, g = 0.05).
+func EmptyFractionJetTransport() EmptyFractionRow {
+	return EmptyFractionRow{0.32, 0.66, -0.13, 0.30, 0.06, -0.05, 0.05}
+}
 
 // EmptyMassFraction returns We/W0 of the refined regression for take-off
 // mass w0 [kg], aspect ratio, thrust-to-weight ratio tw, wing loading ws

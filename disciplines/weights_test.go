@@ -14,7 +14,7 @@ func TestEmptyMassFractionWorkedExample(t *testing.T) {
 	// Refined empty-mass-fraction regression, jet-fighter row, published
 	// worked example (conceptual-design textbooks, project reference):
 	// W0 = 20 000 lb, A = 5, T/W = 0.6, W/S = 25 lbf/ft², Mmax = 2 → 0.8109.
-	got := EmptyFractionJetFighter.EmptyMassFraction(20000*unitLb, 5, 0.6, 25*unitPsf, 2)
+	got := EmptyFractionJetFighter().EmptyMassFraction(20000*unitLb, 5, 0.6, 25*unitPsf, 2)
 	if math.Abs(got-0.8109) > 5e-5 {
 		t.Errorf("We/W0 = %.5f, want 0.8109", got)
 	}
