@@ -582,10 +582,8 @@ func (c *Configuration) AreaDistribution(k float64, x, s, planform []float64) {
 	for i, xi := range x {
 		s[i] = f.CrossSection(xi)
 	}
-	if planform != nil {
-		for i := range planform {
-			planform[i] = 0
-		}
+	for i := range planform {
+		planform[i] = 0
 	}
 	r := 0.5 * f.Diameter
 	addSurface(&c.Wing, c.WingApex, r, wingStrips, k, x, s, planform)
