@@ -200,3 +200,43 @@ func BenchmarkMissionCompute(b *testing.B) {
 		}
 	}
 }
+
+// Engine sizing and mission performance use the same take-off parameter:
+// when take-off field length sizes the engines, the mission's take-off
+// field length is the sizing field length (and shorter for a larger
+// engine).
+func TestSizingAndPerformanceAgree(t *testing.T) {
+	sys, err := mdo.NewSystem(NewEngineCycle(), NewPropulsion(), NewMission())
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, scale := range []float64{1, 1.2} {
+		ws := sys.NewWorkspace()
+		in := missionInputs()
+		delete(in, "engine.thrust_takeoff")
+		delete(in, "engine.thrust_climb")
+		delete(in, "engine.tsfc_cruise")
+		in["aero.drag_cruise"] = 20000 // cruise does not size the engine
+		in["aero.ld_takeoff"] = 12
+		in["engine.sizing_field_length"] = 1800
+		in["engine.thrust_scale"] = scale
+		for k, v := range in {
+			if err := ws.Set(k, v); err != nil {
+				t.Fatal(err)
+			}
+		}
+		if err := ws.Analyze(context.Background()); err != nil {
+			t.Fatal(err)
+		}
+		if c := get(t, ws, "engine.sizing_case"); c != SizingTakeoff {
+			t.Fatalf("sizing case %g, want take-off", c)
+		}
+		tofl := get(t, ws, "perf.takeoff_field_length")
+		if scale == 1 && math.Abs(tofl-1800) > 1e-9 {
+			t.Errorf("take-off field length %g m, sized for 1800 m", tofl)
+		}
+		if scale > 1 && !(tofl < 1800) {
+			t.Errorf("a larger engine needs %g m", tofl)
+		}
+	}
+}
