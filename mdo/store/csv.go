@@ -174,13 +174,11 @@ func ReadCSV(r io.Reader) (Columns, []*mdo.Evaluation, error) {
 		}
 	}
 	var c Columns
-	var order []string
 	for i, h := range head[len(fixed):] {
 		role, name, unit, ok := splitHeader(h)
 		if !ok {
 			return Columns{}, nil, fmt.Errorf("store: CSV column %d %q is not of the form role:name [unit]", i+len(fixed)+1, h)
 		}
-		order = append(order, role)
 		switch role {
 		case "design":
 			c.Design = append(c.Design, mdo.DesignSpec{Name: name, Unit: unit})
