@@ -64,7 +64,7 @@ func slowStudy() (*mdo.Study, error) {
 func TestCancelLatency(t *testing.T) {
 	for _, o := range []Optimizer{
 		NelderMead{}, CMAES{}, GA{Generations: 10000}, DifferentialEvolution{Generations: 10000},
-		ParticleSwarm{Generations: 10000}, NSGA2{Generations: 10000}, LatinHypercube{Samples: 100000},
+		ParticleSwarm{Generations: 10000}, NSGA2{Generations: 10000}, LatinHypercube{Samples: 20000},
 	} {
 		s, err := slowStudy()
 		if err != nil {
@@ -80,8 +80,8 @@ func TestCancelLatency(t *testing.T) {
 		if err != nil {
 			t.Fatalf("%s: %v", o.Name(), err)
 		}
-		if res.Stop != StopCancelled || res.Best == nil {
-			t.Fatalf("%s: stop %q, best %v; want cancelled with a best point", o.Name(), res.Stop, res.Best)
+		if res.Stop != StopCancelled || (res.Evaluations > 0 && res.Best == nil) {
+			t.Fatalf("%s: stop %q after %d evaluations, best %v; want cancelled with the best point so far", o.Name(), res.Stop, res.Evaluations, res.Best)
 		}
 		if lat := returned.Sub(cancelled); lat > 100*time.Millisecond {
 			t.Errorf("%s returned %v after the cancel, want within 100 ms", o.Name(), lat)
