@@ -276,7 +276,7 @@ func KornDragDivergence(kornFactor, tc, sweep, cl float64) float64 {
 
 // lockOffset is Mdd − Mcrit for the Lock-type rise 20(M − Mcrit)⁴ when
 // the drag divergence is defined by dCD/dM = 0.1: (0.1/80)^(1/3).
-var lockOffset = math.Cbrt(0.1 / 80)
+const lockOffset = 0.10772173450159418
 
 // CriticalMach returns the critical Mach number belonging to a
 // drag-divergence Mach number, Mcrit = Mdd − (0.1/80)^(1/3) (Korn–Lock
@@ -422,12 +422,16 @@ type Polar struct {
 // CD returns the drag coefficient at lift coefficient cl.
 func (p Polar) CD(cl float64) float64 { return p.CD0 + p.K*cl*cl }
 
-// roll angles (Gauss–Legendre nodes on [0, π/2]) and weights of the
-// roll-angle average of the supersonic area rule.
-var (
-	rollNodes   = [2]float64{math.Pi / 4 * (1 - 1/math.Sqrt(3)), math.Pi / 4 * (1 + 1/math.Sqrt(3))}
-	rollWeights = [2]float64{0.5, 0.5}
+// Roll angles of the supersonic area rule's average: the two-point
+// Gauss–Legendre nodes on [0, π/2], π/4·(1 ∓ 1/√3), with weights ½.
+const (
+	rollNode1  = 0.33194832233889376
+	rollNode2  = 1.2388480044560026
+	rollWeight = 0.5
 )
+
+// rollNodes returns the roll angles [rad] of the area-rule average.
+func rollNodes() [2]float64 { return [2]float64{rollNode1, rollNode2} }
 
 // Polar returns the drag polar of c at fc; cl is the lift coefficient
 // used by the Korn equation (the drag-divergence Mach number falls with
@@ -592,7 +596,7 @@ func (m *AeroModel) VolumeWaveDragArea(c *Configuration, mach float64, withLift 
 		c.AreaDistribution(0, sc.x[:], sc.s[:], nil)
 		return m.wave.DragArea(sc.s[:], hi-lo), 0
 	}
-	for r, th := range rollNodes {
+	for _, th := range rollNodes() {
 		cth := math.Cos(th)
 		k := b * cth
 		lo, hi := c.CutRange(k)
@@ -603,13 +607,13 @@ func (m *AeroModel) VolumeWaveDragArea(c *Configuration, mach float64, withLift 
 		}
 		c.AreaDistribution(k, sc.x[:], sc.s[:], p)
 		l := hi - lo
-		dq += rollWeights[r] * m.wave.DragArea(sc.s[:], l)
+		dq += rollWeight * m.wave.DragArea(sc.s[:], l)
 		if pe := c.Wing.ExposedArea(c.Fuselage.Diameter); withLift && pe > 0 {
 			for i := range sc.p {
 				sc.p[i] /= pe
 			}
 			// S_L' = (k/2)·CL·S·l/L: D/(qS) = (k²/4)·CL²·S·D[l/L]
-			kLift += rollWeights[r] * 0.25 * k * k * c.Wing.Area * m.wave.DragAreaFromSlope(sc.p[:])
+			kLift += rollWeight * 0.25 * k * k * c.Wing.Area * m.wave.DragAreaFromSlope(sc.p[:])
 		}
 	}
 	return dq, kLift
@@ -617,7 +621,7 @@ func (m *AeroModel) VolumeWaveDragArea(c *Configuration, mach float64, withLift 
 
 // RollAngles is the number of roll angles of the supersonic area rule's
 // average.
-const RollAngles = len(rollNodes)
+const RollAngles = 2
 
 // AirframeWave holds the supersonic area rule of the airframe without its
 // pods at one Mach number: for each roll angle the start and length of
@@ -644,7 +648,7 @@ func (wd *WaveDragIntegrator) AirframeWave(c *Configuration, mach float64) Airfr
 	air.Nacelles = Nacelles{}
 	b := math.Sqrt(mach*mach - 1)
 	var sc areaScratch
-	for r, th := range rollNodes {
+	for r, th := range rollNodes() {
 		k := b * math.Cos(th)
 		lo, hi := air.CutRange(k)
 		wd.Stations(lo, hi, sc.x[:])
@@ -673,7 +677,7 @@ func (wd *WaveDragIntegrator) WaveDragWithPods(aw *AirframeWave, n *Nacelles) fl
 	b := math.Sqrt(aw.Mach*aw.Mach - 1)
 	dq := 0.0
 	amax := nacelleNetArea(n.Diameter)
-	for r, th := range rollNodes {
+	for r, th := range rollNodes() {
 		k := b * math.Cos(th)
 		a := aw.A[r]
 		lo, l := aw.Start[r], aw.Length[r]
@@ -706,7 +710,7 @@ func (wd *WaveDragIntegrator) WaveDragWithPods(aw *AirframeWave, n *Nacelles) fl
 		for m, am := range a {
 			sum += float64(m+1) * am * am
 		}
-		dq += rollWeights[r] * math.Pi / 4 * sum / (l * l)
+		dq += rollWeight * math.Pi / 4 * sum / (l * l)
 	}
 	return dq
 }

@@ -442,3 +442,12 @@ func TestGeometryFeedsAerodynamics(t *testing.T) {
 		t.Errorf("wave drag %g, model %g", got, dq/c.Wing.Area)
 	}
 }
+
+func TestPolarAllocatesNothing(t *testing.T) {
+	c := testConfiguration(t, 50, true)
+	m := NewAeroModel(DefaultGeometryOptions(), DefaultAeroOptions())
+	fc := FlightCondition{Mach: 1.6, Altitude: 16000}
+	if n := testing.AllocsPerRun(50, func() { _, _ = m.Polar(&c, fc, 0.2) }); n != 0 {
+		t.Errorf("Polar allocates %v times", n)
+	}
+}

@@ -61,22 +61,21 @@ type atmLayer struct {
 	h, t, p, lapse float64 // base geopotential altitude, base T, base p, dT/dH [K/m]
 }
 
-// stdLayers are the layers of the 1976 standard; the base pressures are
-// integrated from the hydrostatic equation so that p is continuous.
-var stdLayers = buildLayers()
-
-func buildLayers() [8]atmLayer {
-	base := [8]float64{0, 11000, 20000, 32000, 47000, 51000, 71000, 84852}
-	lapse := [8]float64{-6.5e-3, 0, 1.0e-3, 2.8e-3, 0, -2.8e-3, -2.0e-3, 0}
-	var ls [8]atmLayer
-	t, p := SeaLevelTemperature, SeaLevelPressure
-	for i := range ls {
-		ls[i] = atmLayer{h: base[i], t: t, p: p, lapse: lapse[i]}
-		if i+1 < len(ls) {
-			t, p = layerTP(ls[i], base[i+1])
-		}
+// stdLayer returns layer i (0…7) of the 1976 standard. The base
+// pressures were integrated from the hydrostatic equation layer by layer
+// from 101 325 Pa (a test checks the continuity of p at every boundary).
+func stdLayer(i int) atmLayer {
+	layers := [8]atmLayer{
+		{0, 288.15, 101325, -6.5e-3},
+		{11000, 216.65, 22632.040095007789, 0},
+		{20000, 216.65, 5474.8774242810432, 1.0e-3},
+		{32000, 228.65, 868.01577662021418, 2.8e-3},
+		{47000, 270.65, 110.90577336731003, 0},
+		{51000, 270.65, 66.938528121179729, -2.8e-3},
+		{71000, 214.65, 3.956392160396605, -2.0e-3},
+		{84852, 186.946, 0.37338030188215005, 0},
 	}
-	return ls
+	return layers[i]
 }
 
 // layerTP returns the molecular-scale temperature and the pressure at
@@ -90,12 +89,14 @@ func layerTP(l atmLayer, h float64) (float64, float64) {
 	return t, l.p * math.Pow(t/l.t, -G0/(RAir*l.lapse))
 }
 
-// molecularWeightRatio is M/M0 of the 1976 standard from 80 to 86 km
-// geometric in 500 m steps (Table 8 of the standard, from memory). The
+// molecularWeightRatio returns M/M0 of the 1976 standard from 80 to 86
+// km geometric in 500 m steps (Table 8 of the standard, from memory). The
 // kinetic temperature is the molecular-scale temperature times this ratio.
-var molecularWeightRatio = [13]float64{
-	1.000000, 0.999996, 0.999989, 0.999971, 0.999941, 0.999909, 0.999870,
-	0.999829, 0.999786, 0.999741, 0.999694, 0.999641, 0.999579,
+func molecularWeightRatio() [13]float64 {
+	return [13]float64{
+		1.000000, 0.999996, 0.999989, 0.999971, 0.999941, 0.999909, 0.999870,
+		0.999829, 0.999786, 0.999741, 0.999694, 0.999641, 0.999579,
+	}
 }
 
 // GeopotentialAltitude converts geometric altitude z [m] to geopotential
@@ -132,19 +133,20 @@ func OffsetAtmosphere(z, dT float64) (Atmosphere, error) {
 		return Atmosphere{}, inputErr("temperature_offset", dT, "K", "[-100, 100]")
 	}
 	h := GeopotentialAltitude(z)
-	i := len(stdLayers) - 2
-	for i > 0 && h < stdLayers[i].h {
+	i := 6
+	for i > 0 && h < stdLayer(i).h {
 		i--
 	}
-	tm, p := layerTP(stdLayers[i], h)
+	tm, p := layerTP(stdLayer(i), h)
 	t := tm
 	if z > 80000 {
+		mw := molecularWeightRatio()
 		f := (z - 80000) / 500
 		k := int(f)
-		if k >= len(molecularWeightRatio)-1 {
-			k = len(molecularWeightRatio) - 2
+		if k >= len(mw)-1 {
+			k = len(mw) - 2
 		}
-		r := molecularWeightRatio[k] + (f-float64(k))*(molecularWeightRatio[k+1]-molecularWeightRatio[k])
+		r := mw[k] + (f-float64(k))*(mw[k+1]-mw[k])
 		t = tm * r
 	}
 	// R*T/M = R0·Tm: density and speed of sound use the molecular-scale

@@ -126,3 +126,11 @@ func BenchmarkStandardAtmosphere(b *testing.B) {
 		z = math.Mod(z+997, 80000) + at.Temperature*0
 	}
 }
+
+func TestAtmosphereAllocatesNothing(t *testing.T) {
+	// Deterministic count: the hot path allocates nothing.
+	z := 12000.0
+	if n := testing.AllocsPerRun(100, func() { _, _ = OffsetAtmosphere(z, 10) }); n != 0 {
+		t.Errorf("%v allocations", n)
+	}
+}
