@@ -66,7 +66,6 @@ type run struct {
 	name     string
 	maxEvals int
 	iter     int
-	stop     string
 }
 
 // begin validates the study, makes its evaluator and starts the record.
