@@ -192,6 +192,16 @@ const (
 	wtOutCrew
 	wtOutPenalty
 	wtOutCoverThickness
+	wtOutCGWing
+	wtOutCGFuselage
+	wtOutCGHtail
+	wtOutCGVtail
+	wtOutCGGear
+	wtOutCGPropulsion
+	wtOutCGSystems
+	wtOutCGCabin
+	wtOutCGCrew
+	wtOutCGFuel
 	wtNumOut
 )
 
@@ -207,8 +217,10 @@ const (
 // outputs mass.cruise_start, mass.cruise_end, mass.fuel_capacity,
 // cg.empty, the component masses mass.wing, mass.fuselage, mass.htail,
 // mass.vtail, mass.landing_gear, mass.propulsion_group, mass.systems,
-// mass.furnishings, mass.crew, mass.forward_sweep_penalty, and
-// wing.box_cover_thickness. mass.empty is the operating empty mass
+// mass.furnishings, mass.crew, mass.forward_sweep_penalty, their centres
+// of gravity cg.wing, cg.fuselage, cg.htail, cg.vtail, cg.landing_gear,
+// cg.propulsion_group, cg.systems, cg.cabin (furnishings and payload),
+// cg.crew, cg.fuel, and wing.box_cover_thickness. mass.empty is the operating empty mass
 // (including crew). mass.takeoff is also an input (a self-coupling): its
 // current value only starts the Newton iteration of the mass closure, so
 // that inside a converging coupled group the closure takes one or two
@@ -337,6 +349,16 @@ func (w *Weights) Outputs() []mdo.Var {
 	out[wtOutCrew] = m("mass.crew", "flight and cabin crew with bags", 190)
 	out[wtOutPenalty] = m("mass.forward_sweep_penalty", "wing cover stiffening of a forward-swept wing", 0)
 	out[wtOutCoverThickness] = mdo.Var{Name: "wing.box_cover_thickness", Unit: "m", Description: "root cover skin thickness of the sized wing box", Default: 0.005, Min: 0, Max: 1, Scale: 0.001}
+	out[wtOutCGWing] = x("cg.wing", "CG of the wing (40 % MAC)", 19)
+	out[wtOutCGFuselage] = x("cg.fuselage", "CG of the fuselage structure (45 % length)", 15)
+	out[wtOutCGHtail] = x("cg.htail", "CG of the horizontal tail (its quarter-chord MAC point)", 30)
+	out[wtOutCGVtail] = x("cg.vtail", "CG of the vertical tail (its quarter-chord MAC point)", 29)
+	out[wtOutCGGear] = x("cg.landing_gear", "CG of the main and nose gear (main at 55 % MAC, nose at 12 % length)", 18)
+	out[wtOutCGPropulsion] = x("cg.propulsion_group", "CG of the propulsion group (cg.engine_position)", 25)
+	out[wtOutCGSystems] = x("cg.systems", "CG of the systems (45 % length)", 15)
+	out[wtOutCGCabin] = x("cg.cabin", "CG of furnishings and payload (45 % length)", 15)
+	out[wtOutCGCrew] = x("cg.crew", "CG of the crew (flight deck at 6 % length, cabin crew in the cabin)", 3)
+	out[wtOutCGFuel] = x("cg.fuel", "CG of the fuel (45 % MAC)", 19.5)
 	return out
 }
 
@@ -643,5 +665,15 @@ func (w *Weights) Compute(in, out []float64) error {
 	out[wtOutCrew] = crew
 	out[wtOutPenalty] = penMass
 	out[wtOutCoverThickness] = box.CoverThickness
+	out[wtOutCGWing] = xWing
+	out[wtOutCGFuselage] = 0.45 * lf
+	out[wtOutCGHtail] = xHt
+	out[wtOutCGVtail] = xVt
+	out[wtOutCGGear] = (mGearMain*xMain + mGearNose*xNose) / gear
+	out[wtOutCGPropulsion] = xProp
+	out[wtOutCGSystems] = 0.45 * lf
+	out[wtOutCGCabin] = xCabin
+	out[wtOutCGCrew] = xCrew
+	out[wtOutCGFuel] = xFuel
 	return nil
 }

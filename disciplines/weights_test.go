@@ -208,3 +208,26 @@ func BenchmarkWeightsCompute(b *testing.B) {
 		}
 	}
 }
+
+// The aircraft CGs are the mass-weighted means of the component CGs.
+func TestWeightsComponentCG(t *testing.T) {
+	ws := weightsSystem(t, nil)
+	parts := [][2]string{{"mass.wing", "cg.wing"}, {"mass.fuselage", "cg.fuselage"}, {"mass.htail", "cg.htail"},
+		{"mass.vtail", "cg.vtail"}, {"mass.landing_gear", "cg.landing_gear"}, {"mass.propulsion_group", "cg.propulsion_group"},
+		{"mass.systems", "cg.systems"}, {"mass.furnishings", "cg.cabin"}, {"mass.crew", "cg.crew"}}
+	m, mx := 0.0, 0.0
+	for _, p := range parts {
+		m += get(t, ws, p[0])
+		mx += get(t, ws, p[0]) * get(t, ws, p[1])
+	}
+	if x := get(t, ws, "cg.empty"); math.Abs(mx/m-x) > 1e-9 {
+		t.Errorf("empty CG %g, component mean %g", x, mx/m)
+	}
+	m += 1300
+	mx += 1300 * get(t, ws, "cg.cabin")
+	fuel := 0.42 * get(t, ws, "mass.takeoff")
+	want := (mx + fuel*get(t, ws, "cg.fuel")) / (m + fuel)
+	if x := get(t, ws, "cg.takeoff"); math.Abs(want-x) > 1e-9 {
+		t.Errorf("take-off CG %g, component mean %g", x, want)
+	}
+}
