@@ -3,6 +3,7 @@ package store
 import (
 	"encoding/binary"
 	"encoding/json"
+	"errors"
 	"fmt"
 	"math"
 	"strconv"
@@ -56,6 +57,35 @@ func appendSQLJSONFloat(b []byte, x float64) []byte {
 		return append(b, "-9e999"...)
 	}
 	return strconv.AppendFloat(b, x, 'g', -1, 64)
+}
+
+// parseNumbers reads a JSON array of n numbers written with
+// appendSQLJSONFloat (null is NaN, ±9e999 is ±Inf).
+func parseNumbers(s string, n int) ([]float64, error) {
+	body, ok1 := strings.CutPrefix(s, "[")
+	body, ok2 := strings.CutSuffix(body, "]")
+	if !ok1 || !ok2 {
+		return nil, fmt.Errorf("numbers is not a JSON array: %.40q", s)
+	}
+	out := make([]float64, 0, n)
+	for body != "" {
+		item, rest, _ := strings.Cut(body, ",")
+		body = rest
+		item = strings.TrimSpace(item)
+		if item == "null" {
+			out = append(out, math.NaN())
+			continue
+		}
+		x, err := strconv.ParseFloat(item, 64)
+		if err != nil && !(errors.Is(err, strconv.ErrRange) && math.IsInf(x, 0)) {
+			return nil, fmt.Errorf("numbers: %q is not a number", item)
+		}
+		out = append(out, x)
+	}
+	if len(out) != n {
+		return nil, fmt.Errorf("numbers holds %d values, the run has %d", len(out), n)
+	}
+	return out, nil
 }
 
 // outputKeys returns the JSON-quoted keys `"name":` of the outputs.

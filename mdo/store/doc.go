@@ -13,21 +13,31 @@
 // Python's sqlite3 module:
 //
 //	store_info(key, value)          format marker and schema version
-//	run(...)                        one row: provenance and final counters
+//	run(...)                        one row: provenance (study, script and
+//	                                its SHA-256, tool and Go versions, seed,
+//	                                optimiser, settings, start, end) and the
+//	                                final counters and best_id
 //	sessions(n, started, ended, …)  one row per Begin (a resume adds one)
-//	variables(role, position, name, unit, …, column_name)
-//	evaluations(id, feasible, converged, violation, error, iterations,
-//	            discipline_calls, wall_seconds,
-//	            "design:NAME"…, "objective:NAME"…, "constraint:NAME"…,
-//	            "margin:NAME"…, outputs, vectors)
-//	iterations(n, session, iteration, evaluations, best, feasible, violation, at)
+//	variables(role, position, name, unit, description, lower, upper,
+//	          is_integer, relation, column_name)
+//	evaluation_data(id, feasible, converged, violation, error, iterations,
+//	          discipline_calls, wall_seconds, numbers, outputs, vectors)
+//	evaluations                     a view of evaluation_data with one column
+//	                                per value: "design:NAME"…,
+//	                                "objective:NAME"…, "constraint:NAME"…,
+//	                                "margin:NAME"…, and outputs
+//	iterations(n, session, optimizer, iteration, evaluations, best,
+//	          feasible, violation, at)
 //	front(eval_id, rank)            the Pareto front of a multi-objective run
 //
-// outputs is a JSON object name → value (non-finite values as the strings
-// "NaN", "Infinity", "-Infinity"), so that json_extract(outputs,
-// '$."wing.area"') works; vectors packs the unit-box point, the minimised
-// objectives and the scaled constraints as little-endian float64 for an
-// exact resume.
+// So SELECT "design:wing.area", "objective:mass.takeoff" FROM evaluations
+// WHERE feasible works as it reads. Each row keeps its design, objective,
+// constraint and margin values once, as the JSON array numbers (NaN as
+// null, ±Inf as ±9e999), which the view takes apart; outputs is a JSON
+// object name → value (non-finite values as the strings "NaN",
+// "Infinity", "-Infinity"), so that json_extract(outputs, '$."wing.area"')
+// works; vectors packs the unit-box point, the minimised objectives and
+// the scaled constraints as little-endian float64, for an exact resume.
 //
 // The package also exports evaluations to CSV (WriteCSV, ReadCSV) and
 // writes the run's summary.json (WriteSummary).

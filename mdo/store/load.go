@@ -37,7 +37,7 @@ func (s *Store) Scan(fn func(*mdo.Evaluation) error) error {
 	}
 	l := s.lay
 	rows, err := s.conn.QueryContext(context.Background(),
-		"SELECT id, feasible, converged, violation, error, iterations, discipline_calls, wall_seconds, outputs, vectors FROM evaluation_data ORDER BY id")
+		"SELECT id, feasible, converged, violation, error, iterations, discipline_calls, wall_seconds, numbers, outputs, vectors FROM evaluation_data ORDER BY id")
 	if err != nil {
 		return fmt.Errorf("store: reading the evaluations of %s: %w", s.path, err)
 	}
@@ -49,11 +49,11 @@ func (s *Store) Scan(fn func(*mdo.Evaluation) error) error {
 		viol                sql.NullFloat64
 		errText             string
 		wall                float64
-		outputs             string
+		numbers, outputs    string
 		vectors             []byte
 	)
 	for rows.Next() {
-		if err := rows.Scan(&id, &feasible, &converged, &viol, &errText, &iters, &calls, &wall, &outputs, &vectors); err != nil {
+		if err := rows.Scan(&id, &feasible, &converged, &viol, &errText, &iters, &calls, &wall, &numbers, &outputs, &vectors); err != nil {
 			return fmt.Errorf("store: reading the evaluations of %s: %w", s.path, err)
 		}
 		e := &mdo.Evaluation{
@@ -64,11 +64,19 @@ func (s *Store) Scan(fn func(*mdo.Evaluation) error) error {
 		for _, dst := range []struct {
 			p *[]float64
 			n int
-		}{{&e.X, nd}, {&e.Design, nd}, {&e.Objectives, no}, {&e.F, no}, {&e.Constraints, nc}, {&e.Margins, nc}, {&e.G, nc}} {
+		}{{&e.X, nd}, {&e.F, no}, {&e.G, nc}} {
 			if *dst.p, off, err = readFloats(vectors, off, dst.n); err != nil {
 				return fmt.Errorf("store: %s: evaluation %d: %v: %w", s.path, id, err, ErrDamaged)
 			}
 		}
+		vals, err := parseNumbers(numbers, nd+no+2*nc)
+		if err != nil {
+			return fmt.Errorf("store: %s: evaluation %d: %v: %w", s.path, id, err, ErrDamaged)
+		}
+		e.Design, vals = vals[:nd:nd], vals[nd:]
+		e.Objectives, vals = vals[:no:no], vals[no:]
+		e.Constraints, vals = vals[:nc:nc], vals[nc:]
+		e.Margins = vals[:nc:nc]
 		if e.Outputs, err = parseOutputs(outputs, l.outIndex, len(l.outputs)); err != nil {
 			return fmt.Errorf("store: %s: evaluation %d: %v: %w", s.path, id, err, ErrDamaged)
 		}

@@ -372,7 +372,7 @@ func (s *Store) bind(evs []*mdo.Evaluation) []driver.NamedValue {
 		s.arena = appendOutputs(s.arena, s.lay.outKeys, e.Outputs)
 		outputs := string(s.arena[start:])
 		start = len(s.arena)
-		for _, xs := range [7][]float64{e.X, e.Design, e.Objectives, e.F, e.Constraints, e.Margins, e.G} {
+		for _, xs := range [3][]float64{e.X, e.F, e.G} {
 			s.arena = appendFloats(s.arena, xs)
 		}
 		s.add(numbers, outputs, s.arena[start:len(s.arena):len(s.arena)])
