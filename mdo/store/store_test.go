@@ -429,3 +429,44 @@ func TestResumeRefusesOtherScriptOrSeed(t *testing.T) {
 		t.Errorf("rows after mismatched attempts = %d, want 5 (nothing mixed in)", r.Rows())
 	}
 }
+
+func TestDamagedRows(t *testing.T) {
+	tests := []struct {
+		name, update, want string
+	}{
+		{"numbers not an array", `UPDATE evaluation_data SET numbers = 'oops' WHERE id = 2`, "numbers is not a JSON array"},
+		{"numbers too short", `UPDATE evaluation_data SET numbers = '[1,2]' WHERE id = 2`, "numbers holds 2 values, the run has 8"},
+		{"numbers not a number", `UPDATE evaluation_data SET numbers = '[1,2,3,4,x,6,7,8]' WHERE id = 2`, `"x" is not a number`},
+		{"short blob", `UPDATE evaluation_data SET vectors = x'0001' WHERE id = 2`, "vectors blob holds 2 bytes"},
+		{"outputs not an object", `UPDATE evaluation_data SET outputs = '[1]' WHERE id = 2`, "outputs is not a JSON object"},
+	}
+	for _, tc := range tests {
+		path := filepath.Join(t.TempDir(), "d.db")
+		s, err := Create(path, Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		ev := sellarEvaluator(t, s, 1, sellarScript)
+		if _, err := ev.Evaluate(context.Background(), grid(4, 3)); err != nil {
+			t.Fatal(err)
+		}
+		s.Close()
+		db, err := sql.Open("sqlite", path)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if _, err := db.Exec(tc.update); err != nil {
+			t.Fatal(err)
+		}
+		db.Close()
+		r, err := Open(path)
+		if err != nil {
+			t.Fatal(err)
+		}
+		_, err = r.Evaluations()
+		r.Close()
+		if !errors.Is(err, ErrDamaged) || !strings.Contains(err.Error(), tc.want) || !strings.Contains(err.Error(), "evaluation 2") {
+			t.Errorf("%s: err = %v; want ErrDamaged naming evaluation 2 and saying %q", tc.name, err, tc.want)
+		}
+	}
+}
