@@ -168,3 +168,63 @@ func BenchmarkStabilityCompute(b *testing.B) {
 		}
 	}
 }
+
+// One System shared by goroutines, each with its own workspace, gives the
+// serial results (the disciplines keep no state; run with -race).
+func TestDisciplinesShareAcrossWorkspaces(t *testing.T) {
+	sys, err := mdo.NewSystem(NewWeights(), NewStability())
+	if err != nil {
+		t.Fatal(err)
+	}
+	in := weightsInputs()
+	for k, v := range stabilityInputs() {
+		if sys.IsParameter(k) {
+			in[k] = v
+		}
+	}
+	run := func(scale float64) ([]float64, error) {
+		ws := sys.NewWorkspace()
+		for k, v := range in {
+			if err := ws.Set(k, v); err != nil {
+				return nil, err
+			}
+		}
+		if err := ws.Set("wing.area", 120*scale); err != nil {
+			return nil, err
+		}
+		for i := 0; i < 50; i++ {
+			if err := ws.Analyze(context.Background()); err != nil {
+				return nil, err
+			}
+		}
+		return append([]float64(nil), ws.Values()...), nil
+	}
+	want := make([][]float64, 4)
+	for g := range want {
+		if want[g], err = run(1 + 0.05*float64(g)); err != nil {
+			t.Fatal(err)
+		}
+	}
+	got := make([][]float64, 4)
+	errs := make([]error, 4)
+	done := make(chan int)
+	for g := 0; g < 4; g++ {
+		go func(g int) {
+			got[g], errs[g] = run(1 + 0.05*float64(g))
+			done <- g
+		}(g)
+	}
+	for range got {
+		<-done
+	}
+	for g := range got {
+		if errs[g] != nil {
+			t.Fatal(errs[g])
+		}
+		for i := range got[g] {
+			if got[g][i] != want[g][i] {
+				t.Fatalf("workspace %d: %s = %g concurrently, %g serially", g, sys.Vars().At(i).Name, got[g][i], want[g][i])
+			}
+		}
+	}
+}
