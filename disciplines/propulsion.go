@@ -3,7 +3,8 @@ package disciplines
 // Propulsion: parametric (on-design) cycle analysis of the turbojet and
 // the low-bypass mixed-flow turbofan after J. D. Mattingly, "Elements of
 // Gas Turbine Propulsion" (McGraw-Hill, 1996), chapters 5 (ideal cycles)
-// and 7 (cycles with component losses), inlet recovery per MIL-E-5007D,
+// and 7 (cycles with component losses; edition and chapter numbers from
+// memory), inlet recovery per MIL-E-5007D,
 // engine sizing against the hardest thrust requirement, and engine mass
 // and nacelle size from the sized mass flow.
 //
@@ -213,9 +214,11 @@ func Turbojet(c CycleComponents, mach, t0, pic, tt4 float64) (CycleResult, error
 // core air (ṁ0/(1+α)) is further compressed to the overall pressure ratio
 // πc, burnt to Tt4, and expanded through one turbine that drives fan and
 // compressor; core and bypass streams meet at equal total pressure
-// (Pt16 = Pt6, which fixes πf for the given bypass ratio α), mix at
-// constant pressure with mass-weighted gas properties, and leave through a
-// perfectly expanded nozzle (P9 = P0). With α = 0 it is the turbojet.
+// (Pt16 = Pt6, which fixes πf for the given bypass ratio α), mix by the
+// energy balance with mass-weighted gas properties at that common total
+// pressure less the mixer loss πM (no momentum analysis of a constant-area
+// mixer), and leave through a perfectly expanded nozzle (P9 = P0). With
+// α = 0 it is the turbojet.
 //
 // mach is the flight Mach number, t0 the ambient temperature [K], pic the
 // overall compressor pressure ratio, alpha the bypass ratio and tt4 the
