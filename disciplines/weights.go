@@ -17,8 +17,9 @@ package disciplines
 // Closure: every W0-dependent term is a power law of the design gross
 // mass W0 (the landing mass and the fuel are fixed fractions of W0 given
 // by the mission), so W0 = Σ Ci·W0^ei + (fixed masses) + φ·W0 is solved by
-// Newton's method inside Compute; the function is convex in W0 and the
-// iteration converges monotonically.
+// Newton's method inside Compute; the residual is convex in W0 with one
+// root, so the iteration converges (monotonically once it is to the right
+// of the root).
 //
 // Forward-sweep penalty (modelling assumption, no source): a forward-swept
 // wing (Λ < 0) is stiffened against bending–torsion divergence by
