@@ -5,6 +5,8 @@ import (
 	"math"
 	"reflect"
 	"strconv"
+
+	"couplet/mdo"
 )
 
 // declType is the type of the value the interpreter returns for a
@@ -30,6 +32,10 @@ func formatValue(v reflect.Value) (string, any, bool) {
 		return "error: " + t.Error(), x, true
 	case fmt.Stringer:
 		return t.String(), x, true
+	case []mdo.Var:
+		return mdo.FormatVars(t), x, true
+	case mdo.Var:
+		return mdo.FormatVars([]mdo.Var{t}), x, true
 	case string:
 		return t, x, true
 	case float64:

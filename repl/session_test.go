@@ -44,6 +44,8 @@ func TestSessionShowsTrailingExpressions(t *testing.T) {
 		{"multi-line cell", "func sq(a float64) float64 {\n\treturn a *\n\t\ta\n}\nsq(1.5)\n", "2.25\n"},
 		{"imports with statements in one cell", "import \"math\"\nr := math.Sqrt(2)\nr * r > 1.99\n", "true\n"},
 		{"framework type via String", "import \"couplet/mdo\"\nmdo.Minimize(\"mass.takeoff\")\n", "minimise mass.takeoff\n"},
+		{"variable listing as a table", "import \"couplet/mdo\"\n[]mdo.Var{{Name: \"wing.area\", Unit: \"m2\", Default: 100, Min: 10, Max: 900, Description: \"reference area\"}}\n",
+			"name       unit  default  range      description\nwing.area  m2    100      [10, 900]  reference area\n"},
 		{"error value", "import \"errors\"\nerrors.New(\"no lift\")\n", "error: no lift\n"},
 		{"slice", "[]float64{1, 2.5}\n", "[1 2.5]\n"},
 		{"void call shows nothing", "func hush() {}\nhush()\n", ""},

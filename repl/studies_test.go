@@ -81,21 +81,80 @@ func TestSeedOverride(t *testing.T) {
 	}
 }
 
+// exampleChecks are the checks of each example study beyond running.
+var exampleChecks = map[string]func(t *testing.T, sum map[string]any){
+	"sellar.study": func(t *testing.T, sum map[string]any) {}, // checked in TestSellarStudyFindsPublishedOptimum
+	"business_jet.study": func(t *testing.T, sum map[string]any) {
+		best := sum["best"].(map[string]any)
+		if best["feasible"] != true {
+			t.Errorf("no feasible design: %v", best)
+		}
+		// Every constraint is met at the best design.
+		for name, v := range best["margins"].(map[string]any) {
+			if v.(float64) < 0 {
+				t.Errorf("constraint %s violated by %g", name, v)
+			}
+		}
+	},
+	"regional_jet.study": func(t *testing.T, sum map[string]any) {
+		best := sum["best"].(map[string]any)
+		// The Kestrel R76 baseline wing (78 m², A = 9, 25°, t/c 0.12)
+		// meets every constraint with 7 058 kg of fuel (disciplines
+		// package, Kestrel scenario); the optimum must not be worse.
+		if best["feasible"] != true || best["objective"].(float64) > 7058.4 {
+			t.Errorf("best %v: want a feasible design burning at most the baseline's 7 058 kg", best)
+		}
+	},
+	"business_jet_wing_doe.study": func(t *testing.T, sum map[string]any) {
+		// A Latin hypercube of 60 samples evaluates exactly 60 points.
+		if n := sum["evaluations"].(float64); n != 60 {
+			t.Errorf("evaluations %g, want the 60 samples", n)
+		}
+		if sum["stop"] != "complete" {
+			t.Errorf("stop %v, want complete", sum["stop"])
+		}
+	},
+	"business_jet_front.study": func(t *testing.T, sum map[string]any) {
+		front, _ := sum["front"].([]any)
+		if len(front) < 5 {
+			t.Fatalf("front of %d points, want at least 5", len(front))
+		}
+		// Sorted by take-off mass, a Pareto front of two minimised
+		// objectives has a falling field length.
+		prevM, prevL := math.Inf(-1), math.Inf(1)
+		for _, p := range front {
+			o := p.(map[string]any)["objectives"].(map[string]any)
+			m, l := o["mass.takeoff"].(float64), o["perf.takeoff_field_length"].(float64)
+			if m < prevM || l >= prevL {
+				t.Errorf("front point (%g kg, %g m) after (%g kg, %g m) is dominated or out of order", m, l, prevM, prevL)
+			}
+			prevM, prevL = m, l
+		}
+	},
+}
+
 func TestEveryStudyRunsHeadless(t *testing.T) {
 	files, err := filepath.Glob(filepath.Join("..", "studies", "*.study"))
 	if err != nil {
 		t.Fatal(err)
 	}
-	if len(files) == 0 {
-		t.Fatal("no example studies")
+	if len(files) < 5 {
+		t.Fatalf("%d example studies, want at least 5", len(files))
 	}
 	for _, f := range files {
 		name := filepath.Base(f)
+		check, ok := exampleChecks[name]
+		if !ok {
+			t.Errorf("example study %s has no checks", name)
+			continue
+		}
 		t.Run(name, func(t *testing.T) {
+			t.Parallel()
 			sum, raw := runStudy(t, name)
 			if sum["best"] == nil && sum["front"] == nil {
-				t.Errorf("%s handed over no result: %s", name, raw)
+				t.Fatalf("%s handed over no result: %s", name, raw)
 			}
+			check(t, sum)
 		})
 	}
 }

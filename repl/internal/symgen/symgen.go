@@ -25,6 +25,7 @@ import (
 var Framework = []string{
 	"couplet/mdo",
 	"couplet/optimizers",
+	"couplet/disciplines",
 }
 
 // Curated lists the standard packages a sandboxed script may import:
