@@ -20,7 +20,7 @@ type GA struct {
 	// Population is the number of individuals; default 20 per variable,
 	// at least 40 and at most 200.
 	Population int
-	// Generations after the first population; default 150.
+	// Generations after the first population; default 200.
 	Generations int
 	// MaxEvaluations caps the evaluations (0: no cap besides
 	// Generations); a generation that would pass it is not run.
@@ -147,6 +147,6 @@ func (o GA) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error) {
 		}
 		return e.survivors(pop, off, n), nil
 	}
-	stop, err := e.evolve(n, or(o.Generations, 150), newRand(r.ev.Seed(), 1))
+	stop, err := e.evolve(n, or(o.Generations, 200), newRand(r.ev.Seed(), 1))
 	return r.finish(stop, err)
 }
