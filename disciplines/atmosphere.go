@@ -65,17 +65,23 @@ type atmLayer struct {
 // pressures were integrated from the hydrostatic equation layer by layer
 // from 101 325 Pa (a test checks the continuity of p at every boundary).
 func stdLayer(i int) atmLayer {
-	layers := [8]atmLayer{
-		{0, 288.15, 101325, -6.5e-3},
-		{11000, 216.65, 22632.040095007789, 0},
-		{20000, 216.65, 5474.8774242810432, 1.0e-3},
-		{32000, 228.65, 868.01577662021418, 2.8e-3},
-		{47000, 270.65, 110.90577336731003, 0},
-		{51000, 270.65, 66.938528121179729, -2.8e-3},
-		{71000, 214.65, 3.956392160396605, -2.0e-3},
-		{84852, 186.946, 0.37338030188215005, 0},
+	switch i {
+	case 0:
+		return atmLayer{0, 288.15, 101325, -6.5e-3}
+	case 1:
+		return atmLayer{11000, 216.65, 22632.040095007789, 0}
+	case 2:
+		return atmLayer{20000, 216.65, 5474.8774242810432, 1.0e-3}
+	case 3:
+		return atmLayer{32000, 228.65, 868.01577662021418, 2.8e-3}
+	case 4:
+		return atmLayer{47000, 270.65, 110.90577336731003, 0}
+	case 5:
+		return atmLayer{51000, 270.65, 66.938528121179729, -2.8e-3}
+	case 6:
+		return atmLayer{71000, 214.65, 3.956392160396605, -2.0e-3}
 	}
-	return layers[i]
+	return atmLayer{84852, 186.946, 0.37338030188215005, 0}
 }
 
 // layerTP returns the molecular-scale temperature and the pressure at
