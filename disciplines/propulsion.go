@@ -224,87 +224,117 @@ func Turbojet(c CycleComponents, mach, t0, pic, tt4 float64) (CycleResult, error
 // overall compressor pressure ratio, alpha the bypass ratio and tt4 the
 // turbine-entry total temperature [K].
 func MixedFlowTurbofan(c CycleComponents, mach, t0, pic, alpha, tt4 float64) (CycleResult, error) {
-	if err := c.validate(); err != nil {
+	k, err := newCycleCondition(&c, mach, t0, pic, alpha)
+	if err != nil {
 		return CycleResult{}, err
 	}
-	if err := checkCycleInputs(mach, t0, pic, alpha, tt4); err != nil {
-		return CycleResult{}, err
+	return k.run(tt4)
+}
+
+// cycleCondition is the part of a cycle analysis fixed by the components,
+// the flight condition and the design choices; run completes it for one
+// turbine-entry temperature (so that throttle points share it).
+type cycleCondition struct {
+	c                               *CycleComponents
+	mach, t0, pic, alpha            float64
+	rc, rt, v0, taur, pir, pid      float64
+	tauc, kf, mt, lnPcPb, hb, pinoz float64
+}
+
+// newCycleCondition validates and prepares a cycle analysis.
+func newCycleCondition(c *CycleComponents, mach, t0, pic, alpha float64) (cycleCondition, error) {
+	if err := c.validate(); err != nil {
+		return cycleCondition{}, err
+	}
+	if err := checkCycleInputs(mach, t0, pic, alpha, 1500); err != nil {
+		return cycleCondition{}, err
 	}
 	gc, gt := c.GammaC, c.GammaT
-	rc := (gc - 1) / gc * c.CpC
-	rt := (gt - 1) / gt * c.CpT
-	a0 := math.Sqrt(gc * rc * t0)
-	v0 := a0 * mach
-	taur := 1 + 0.5*(gc-1)*mach*mach
-	pir := math.Pow(taur, gc/(gc-1))
-	pid := c.InletRecoveryMax
+	k := cycleCondition{c: c, mach: mach, t0: t0, pic: pic, alpha: alpha}
+	k.rc = (gc - 1) / gc * c.CpC
+	k.rt = (gt - 1) / gt * c.CpT
+	k.v0 = math.Sqrt(gc*k.rc*t0) * mach
+	k.taur = 1 + 0.5*(gc-1)*mach*mach
+	k.pir = math.Pow(k.taur, gc/(gc-1))
+	k.pid = c.InletRecoveryMax
 	if c.MilSpecRecovery && mach > 1 {
-		pid *= 1 - 0.075*math.Pow(mach-1, 1.35)
+		k.pid *= 1 - 0.075*math.Pow(mach-1, 1.35)
 	}
+	k.tauc = math.Pow(pic, (gc-1)/(gc*c.CompressorPolytropic))
+	k.kf = (gc - 1) / (gc * c.FanPolytropic)
+	k.mt = gt / ((gt - 1) * c.TurbinePolytropic)
+	k.lnPcPb = math.Log(pic * c.BurnerPressureRatio)
+	k.hb = c.BurnerEfficiency * c.HeatingValue / (c.CpC * t0)
+	k.pinoz = k.pir * k.pid * pic * c.BurnerPressureRatio * c.MixerPressureRatio * c.NozzlePressureRatio
+	return k, nil
+}
+
+// run completes the cycle at turbine-entry temperature tt4 [K].
+func (k *cycleCondition) run(tt4 float64) (CycleResult, error) {
+	c := k.c
+	if !(tt4 >= 600 && tt4 <= 2600) {
+		return CycleResult{}, inputErr("engine.turbine_temperature", tt4, "K", "[600, 2600]")
+	}
+	t0, taur, tauc, alpha := k.t0, k.taur, k.tauc, k.alpha
 	taul := c.CpT * tt4 / (c.CpC * t0)
-	tauc := math.Pow(pic, (gc-1)/(gc*c.CompressorPolytropic))
 	if taul <= taur*tauc {
 		return CycleResult{}, inputErr("engine.turbine_temperature", tt4, "K", "above the compressor exit total temperature "+fmtG(t0*taur*tauc)+" K")
 	}
 	var f, massf float64 // fuel-air ratio of the core; hot-gas mass per core air
-	hb := c.BurnerEfficiency * c.HeatingValue / (c.CpC * t0)
 	if c.NeglectFuelMass {
-		f = (taul - taur*tauc) / hb
+		f = (taul - taur*tauc) / k.hb
 		massf = 1
 	} else {
-		if hb <= taul {
+		if k.hb <= taul {
 			return CycleResult{}, inputErr("engine.turbine_temperature", tt4, "K", "below the stoichiometric limit of the fuel")
 		}
-		f = (taul - taur*tauc) / (hb - taul)
+		f = (taul - taur*tauc) / (k.hb - taul)
 		massf = 1 + f
 	}
 	// Turbine power balance per unit core air:
 	// τt = 1 − A − B(πf^kf − 1), A = τr(τc − 1)/(ηm·massf·τλ), B = α·τr/(ηm·massf·τλ).
-	kf := (gc - 1) / (gc * c.FanPolytropic)
-	mt := gt / ((gt - 1) * c.TurbinePolytropic)
 	den := c.MechanicalEfficiency * massf * taul
 	A := taur * (tauc - 1) / den
 	B := alpha * taur / den
 	if A >= 1 {
 		return CycleResult{}, inputErr("engine.turbine_temperature", tt4, "K", "high enough for the turbine to drive the compressor")
 	}
-	pib := c.BurnerPressureRatio
 	pif, tauf := 1.0, 1.0
 	taut := 1 - A
 	var pit float64
 	if alpha > 0 {
-		x, ok := solveMixer(math.Log(pic*pib), A, B, kf, mt)
+		x, ok := solveMixer(k.lnPcPb, A, B, k.kf, k.mt)
 		if !ok {
 			return CycleResult{}, inputErr("engine.bypass_ratio", alpha, "", "low enough for the core to balance the bypass stream at the mixer (Pt16 = Pt6)")
 		}
 		pif = math.Exp(x)
-		tauf = math.Exp(kf * x)
+		tauf = math.Exp(k.kf * x)
 		taut = 1 - A - B*(tauf-1)
-		pit = pif / (pic * pib) // the mixer condition Pt16 = Pt6
+		pit = pif / (k.pic * c.BurnerPressureRatio) // the mixer condition Pt16 = Pt6
 	} else {
-		pit = math.Pow(taut, mt)
+		pit = math.Pow(taut, k.mt)
 	}
-	// constant-pressure mixing with mass-weighted properties
+	// mixing by the energy balance with mass-weighted properties
 	mix := massf + alpha
 	cp6 := (massf*c.CpT + alpha*c.CpC) / mix
-	r6 := (massf*rt + alpha*rc) / mix
+	r6 := (massf*k.rt + alpha*k.rc) / mix
 	g6 := cp6 / (cp6 - r6)
 	tt6 := (massf*c.CpT*tt4*taut + alpha*c.CpC*t0*taur*tauf) / (mix * cp6)
-	prt := pir * pid * pic * pib * pit * c.MixerPressureRatio * c.NozzlePressureRatio // Pt9/P9
+	prt := k.pinoz * pit // Pt9/P9
 	if prt <= 1 {
-		return CycleResult{}, inputErr("engine.pressure_ratio", pic, "", "high enough for a nozzle pressure ratio above 1")
+		return CycleResult{}, inputErr("engine.pressure_ratio", k.pic, "", "high enough for a nozzle pressure ratio above 1")
 	}
 	t9 := tt6 * math.Pow(prt, -(g6-1)/g6)
 	v9 := math.Sqrt(2 * cp6 * (tt6 - t9))
-	fs := mix/(1+alpha)*v9 - v0
+	fs := mix/(1+alpha)*v9 - k.v0
 	if fs <= 0 {
-		return CycleResult{}, inputErr("engine.turbine_temperature", tt4, "K", "high enough for net thrust at Mach "+fmtG(mach))
+		return CycleResult{}, inputErr("engine.turbine_temperature", tt4, "K", "high enough for net thrust at Mach "+fmtG(k.mach))
 	}
 	f0 := f / (1 + alpha)
 	return CycleResult{
 		SpecificThrust: fs, FuelAirRatio: f0, TSFC: f0 / fs, FanPressureRatio: pif,
-		TurbineTempRatio: taut, ExitVelocity: v9, ExitTemperature: t9, InletRecovery: pid,
-		RamTempRatio: taur, RamPressureRatio: pir, FlightVelocity: v0,
+		TurbineTempRatio: taut, ExitVelocity: v9, ExitTemperature: t9, InletRecovery: k.pid,
+		RamTempRatio: taur, RamPressureRatio: k.pir, FlightVelocity: k.v0,
 	}, nil
 }
 
@@ -450,7 +480,11 @@ func NacelleSize(mdot, t, mach float64) (diameter, length float64) {
 // above the maximum-Tt4 specific thrust is an error. The root is found by
 // a secant iteration on (F/ṁ0 + V0)², which is nearly linear in Tt4.
 func PartThrottle(c CycleComponents, mach, t0, pic, alpha, tt4max, target float64) (CycleResult, float64, error) {
-	hi, err := MixedFlowTurbofan(c, mach, t0, pic, alpha, tt4max)
+	k, err := newCycleCondition(&c, mach, t0, pic, alpha)
+	if err != nil {
+		return CycleResult{}, 0, err
+	}
+	hi, err := k.run(tt4max)
 	if err != nil {
 		return CycleResult{}, 0, err
 	}
@@ -473,7 +507,7 @@ func PartThrottle(c CycleComponents, mach, t0, pic, alpha, tt4max, target float6
 	}
 	var r CycleResult
 	for i := 0; i < 40; i++ {
-		r, err = MixedFlowTurbofan(c, mach, t0, pic, alpha, x1)
+		r, err = k.run(x1)
 		if err != nil {
 			// below the running line of the cycle: move towards full throttle
 			x1 = 0.5 * (x1 + x0)
@@ -619,7 +653,11 @@ func (e *EngineCycle) Compute(in, out []float64) error {
 	if err != nil {
 		return err
 	}
-	cr, err := MixedFlowTurbofan(*c, mach, cruise.Temperature, pic, bpr, tt4)
+	crc, err := newCycleCondition(c, mach, cruise.Temperature, pic, bpr)
+	if err != nil {
+		return err
+	}
+	cr, err := crc.run(tt4)
 	if err != nil {
 		return err
 	}
@@ -640,8 +678,8 @@ func (e *EngineCycle) Compute(in, out []float64) error {
 	for _, fr := range nodes {
 		t1 := tt3 + fr[0]*(tt4-tt3)
 		t2 := tt3 + fr[1]*(tt4-tt3)
-		n1, err1 := MixedFlowTurbofan(*c, mach, cruise.Temperature, pic, bpr, t1)
-		n2, err2 := MixedFlowTurbofan(*c, mach, cruise.Temperature, pic, bpr, t2)
+		n1, err1 := crc.run(t1)
+		n2, err2 := crc.run(t2)
 		if err1 != nil || err2 != nil {
 			continue
 		}
