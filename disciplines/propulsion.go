@@ -838,8 +838,8 @@ func (p *Propulsion) Inputs() []mdo.Var {
 // Outputs implements mdo.Discipline.
 func (p *Propulsion) Outputs() []mdo.Var {
 	out := make([]mdo.Var, propNumOut)
-	out[propOutThrustSLS] = mdo.Var{Name: "engine.thrust_sea_level", Unit: "N", Description: "sea-level-static thrust per engine (ISA, sized)", Default: 60000, Min: 0, Max: 2e6, Scale: 1e4}
-	out[propOutMassFlow] = mdo.Var{Name: "engine.mass_flow", Unit: "kg/s", Description: "sea-level-static air mass flow per engine", Default: 80, Min: 0, Max: 5000, Scale: 10}
+	out[propOutThrustSLS] = mdo.Var{Name: "engine.thrust_sea_level", Unit: "N", Description: "sea-level-static thrust per engine (ISA, sized)", Default: 60000, Min: 0, Max: 2e6, Scale: 1e5}
+	out[propOutMassFlow] = mdo.Var{Name: "engine.mass_flow", Unit: "kg/s", Description: "sea-level-static air mass flow per engine", Default: 80, Min: 0, Max: 5000, Scale: 100}
 	out[propOutMass] = engineMassVar()
 	out[propOutTSFCCruise] = mdo.Var{Name: "engine.tsfc_cruise", Unit: "kg/(N s)", Description: "thrust-specific fuel consumption at cruise (part throttle, thrust = drag)", Default: 2.8e-5, Min: 1e-6, Max: 1e-3, Scale: 1e-5}
 	out[propOutThrustCruise] = mdo.Var{Name: "engine.thrust_cruise_available", Unit: "N", Description: "maximum thrust per engine at cruise Mach and altitude", Default: 25000, Min: 0, Max: 2e6, Scale: 1e4}
@@ -974,9 +974,9 @@ func nacelleLengthVar() mdo.Var {
 }
 
 func engineThrustTakeoffVar() mdo.Var {
-	return mdo.Var{Name: "engine.thrust_takeoff", Unit: "N", Description: "static thrust per engine at the airport", Default: 60000, Min: 0, Max: 2e6, Scale: 1e4}
+	return mdo.Var{Name: "engine.thrust_takeoff", Unit: "N", Description: "static thrust per engine at the airport", Default: 60000, Min: 0, Max: 2e6, Scale: 1e5}
 }
 
 func engineThrustClimbVar() mdo.Var {
-	return mdo.Var{Name: "engine.thrust_climb", Unit: "N", Description: "thrust per engine at the airport at the second-segment Mach number", Default: 50000, Min: 0, Max: 2e6, Scale: 1e4}
+	return mdo.Var{Name: "engine.thrust_climb", Unit: "N", Description: "thrust per engine at the airport at the second-segment Mach number", Default: 50000, Min: 0, Max: 2e6, Scale: 1e5}
 }

@@ -337,8 +337,8 @@ func (w *Weights) Outputs() []mdo.Var {
 	out[wtOutCGCruiseStart] = x("cg.cruise_start", "aircraft CG at the start of cruise, from the nose", 20)
 	out[wtOutCGCruiseEnd] = x("cg.cruise_end", "aircraft CG at the end of cruise, from the nose", 19.5)
 	out[wtOutCGEmpty] = x("cg.empty", "CG of the operating empty aircraft, from the nose", 19)
-	out[wtOutGJ] = mdo.Var{Name: "wing.box_torsional_stiffness", Unit: "N m2", Description: "torsional stiffness GJ of the sized wing box at the root", Default: 5e7, Min: 0, Max: 1e13, Scale: 1e7}
-	out[wtOutEI] = mdo.Var{Name: "wing.box_bending_stiffness", Unit: "N m2", Description: "bending stiffness EI of the sized wing box at the root", Default: 1e8, Min: 0, Max: 1e13, Scale: 1e7}
+	out[wtOutGJ] = mdo.Var{Name: "wing.box_torsional_stiffness", Unit: "N m2", Description: "torsional stiffness GJ of the sized wing box at the root", Default: 1e8, Min: 0, Max: 1e13, Scale: 1e8}
+	out[wtOutEI] = mdo.Var{Name: "wing.box_bending_stiffness", Unit: "N m2", Description: "bending stiffness EI of the sized wing box at the root", Default: 1e8, Min: 0, Max: 1e13, Scale: 1e8}
 	out[wtOutWing] = m("mass.wing", "wing structure (Raymer transport equation)", 3500)
 	out[wtOutFuselage] = m("mass.fuselage", "fuselage structure (Raymer transport equation)", 3500)
 	out[wtOutHtail] = m("mass.htail", "horizontal tail (Raymer transport equation)", 400)
