@@ -433,6 +433,9 @@ const (
 // rollNodes returns the roll angles [rad] of the area-rule average.
 func rollNodes() [2]float64 { return [2]float64{rollNode1, rollNode2} }
 
+// rollCosines returns the cosines of the roll angles (a test checks them).
+func rollCosines() [2]float64 { return [2]float64{0.94540920808797713, 0.3258856076332064} }
+
 // Polar returns the drag polar of c at fc; cl is the lift coefficient
 // used by the Korn equation (the drag-divergence Mach number falls with
 // lift). Bad input is an error naming the variable.
@@ -514,7 +517,9 @@ func (m *AeroModel) components(c *Configuration) dragComponents {
 	}
 	surf := func(w *Wing) float64 {
 		tc := w.ThicknessRatio
-		return (1 + 0.6/xm*tc + 100*tc*tc*tc*tc) * math.Pow(math.Cos(w.SweepAt(xm)*math.Pi/180), 0.28)
+		// (cos Λm)^0.28 = (1 + tan²Λm)^−0.14
+		t := w.tanSweepAt(xm)
+		return (1 + 0.6/xm*tc + 100*tc*tc*tc*tc) * math.Exp(-0.14*math.Log1p(t*t))
 	}
 	swW, swF, swH, swV, swN := c.WettedAreas()
 	add(true, c.Wing.MAC, swW*o.QWing, surf(&c.Wing))
@@ -596,8 +601,7 @@ func (m *AeroModel) VolumeWaveDragArea(c *Configuration, mach float64, withLift 
 		c.AreaDistribution(0, sc.x[:], sc.s[:], nil)
 		return m.wave.DragArea(sc.s[:], hi-lo), 0
 	}
-	for _, th := range rollNodes() {
-		cth := math.Cos(th)
+	for _, cth := range rollCosines() {
 		k := b * cth
 		lo, hi := c.CutRange(k)
 		m.wave.Stations(lo, hi, sc.x[:])
@@ -648,8 +652,8 @@ func (wd *WaveDragIntegrator) AirframeWave(c *Configuration, mach float64) Airfr
 	air.Nacelles = Nacelles{}
 	b := math.Sqrt(mach*mach - 1)
 	var sc areaScratch
-	for r, th := range rollNodes() {
-		k := b * math.Cos(th)
+	for r, cth := range rollCosines() {
+		k := b * cth
 		lo, hi := air.CutRange(k)
 		wd.Stations(lo, hi, sc.x[:])
 		air.AreaDistribution(k, sc.x[:], sc.s[:], nil)
@@ -677,8 +681,8 @@ func (wd *WaveDragIntegrator) WaveDragWithPods(aw *AirframeWave, n *Nacelles) fl
 	b := math.Sqrt(aw.Mach*aw.Mach - 1)
 	dq := 0.0
 	amax := nacelleNetArea(n.Diameter)
-	for r, th := range rollNodes() {
-		k := b * math.Cos(th)
+	for r, cth := range rollCosines() {
+		k := b * cth
 		a := aw.A[r]
 		lo, l := aw.Start[r], aw.Length[r]
 		if n.Count > 0 && n.Length > 0 {

@@ -451,3 +451,18 @@ func TestPolarAllocatesNothing(t *testing.T) {
 		t.Errorf("Polar allocates %v times", n)
 	}
 }
+
+func TestRollNodes(t *testing.T) {
+	// Two-point Gauss–Legendre nodes on [0, π/2]: π/4·(1 ∓ 1/√3), and
+	// their cosines as tabulated.
+	n, c := rollNodes(), rollCosines()
+	want := [2]float64{math.Pi / 4 * (1 - 1/math.Sqrt(3)), math.Pi / 4 * (1 + 1/math.Sqrt(3))}
+	for i := range n {
+		if math.Abs(n[i]-want[i]) > 1e-15 || math.Abs(c[i]-math.Cos(want[i])) > 1e-15 {
+			t.Errorf("node %d: %v (cos %v), want %v", i, n[i], c[i], want[i])
+		}
+	}
+	if math.Abs(lockOffset-math.Cbrt(0.1/80)) > 1e-16 {
+		t.Errorf("lockOffset %v", lockOffset)
+	}
+}

@@ -74,8 +74,12 @@ func newSurface(prefix string, area, ar, taper, sweep, tc float64) (Wing, error)
 // leading edge, 0.25 = quarter chord, 1 = trailing edge):
 // tan Λf = tan Λc/4 − (4/A)(f − ¼)(1 − λ)/(1 + λ).
 func (w Wing) SweepAt(f float64) float64 {
-	t := math.Tan(w.Sweep*math.Pi/180) - 4/w.AspectRatio*(f-0.25)*(1-w.Taper)/(1+w.Taper)
-	return math.Atan(t) * 180 / math.Pi
+	return math.Atan(w.tanSweepAt(f)) * 180 / math.Pi
+}
+
+// tanSweepAt returns the tangent of the sweep at chord fraction f.
+func (w *Wing) tanSweepAt(f float64) float64 {
+	return w.tanLE - 4/w.AspectRatio*f*(1-w.Taper)/(1+w.Taper)
 }
 
 // ChordAt returns the chord at spanwise station y [m] (|y| <= b/2).
