@@ -1,10 +1,12 @@
 package disciplines_test
 
 import (
+	"context"
 	"fmt"
 	"math"
 
 	"couplet/disciplines"
+	"couplet/mdo"
 )
 
 // The jet Breguet range.
@@ -47,4 +49,43 @@ func ExampleEmptyFractionRow_EmptyMassFraction() {
 	fmt.Printf("We/W0 = %.4f\n", f)
 	// Output:
 	// We/W0 = 0.8109
+}
+
+// The mission discipline on its own: fuel for the design range and the
+// field performance of an invented supersonic business jet.
+func ExampleNewMission() {
+	sys, err := mdo.NewSystem(disciplines.NewMission())
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	ws := sys.NewWorkspace()
+	for _, p := range []struct {
+		name  string
+		value float64
+	}{
+		{"mass.takeoff", 45000}, {"mass.landing", 25500}, {"mass.zero_fuel", 23500}, {"mass.fuel_capacity", 22000},
+		{"aero.ld_cruise", 7.8}, {"engine.tsfc_cruise", 3.2e-5}, {"cruise.mach", 1.5}, {"cruise.altitude", 15500},
+		{"mission.range", 6.5e6}, {"engine.thrust_takeoff", 85000}, {"engine.thrust_climb", 78000},
+		{"wing.area", 120}, {"aero.cl_max_takeoff", 1.5}, {"aero.cl_max_landing", 1.7},
+	} {
+		if err := ws.Set(p.name, p.value); err != nil {
+			fmt.Println(err)
+			return
+		}
+	}
+	if err := ws.Analyze(context.Background()); err != nil {
+		fmt.Println(err)
+		return
+	}
+	for _, n := range []string{"mass.fuel", "perf.range_full_fuel", "perf.takeoff_field_length", "perf.landing_field_length", "perf.v2"} {
+		v, _ := ws.Get(n)
+		fmt.Printf("%-26s %.4g\n", n, v)
+	}
+	// Output:
+	// mass.fuel                  2.466e+04
+	// perf.range_full_fuel       5.169e+06
+	// perf.takeoff_field_length  1519
+	// perf.landing_field_length  1322
+	// perf.v2                    71.49
 }
