@@ -36,11 +36,11 @@ func runStudy(t *testing.T, name string) (map[string]any, []byte) {
 	return sum, stripped
 }
 
-func TestSellarStudyFindsPublishedOptimum(t *testing.T) {
-	sum, first := runStudy(t, "sellar.study")
+// checkSellar checks the Sellar study's summary.
+func checkSellar(t *testing.T, sum map[string]any) {
 	best, ok := sum["best"].(map[string]any)
 	if !ok {
-		t.Fatalf("summary has no best point: %s", first)
+		t.Fatalf("summary has no best point: %v", sum)
 	}
 	// Sellar, Batill & Renaud, AIAA 96-0714 (1996): f* = 3.18339 at
 	// z = (1.97764, 0), x = 0, with g1 (y1 >= 3.16) active.
@@ -54,36 +54,51 @@ func TestSellarStudyFindsPublishedOptimum(t *testing.T) {
 		t.Errorf("z1 = %.5f, want 1.97764 ± 0.01", z1)
 	}
 	if sum["study"] != "sellar" || sum["evaluations"].(float64) < 1 || sum["seed"].(float64) != 1 {
-		t.Errorf("summary %s", first)
+		t.Errorf("summary %v", sum)
 	}
-	// A second run gives the same summary apart from its timestamps.
+}
+
+func TestSellarStudyRunsIdentically(t *testing.T) {
+	_, first := runStudy(t, "sellar.study")
 	_, second := runStudy(t, "sellar.study")
+	// Two runs give the same summary apart from its timestamps.
 	if !bytes.Equal(first, second) {
 		t.Errorf("two runs differ:\n%s\n%s", first, second)
 	}
 }
 
 func TestSeedOverride(t *testing.T) {
-	out := t.TempDir()
-	if _, err := Run(context.Background(), RunOptions{File: filepath.Join("..", "studies", "sellar.study"), OutDir: out, Seed: 99, SeedSet: true}); err != nil {
-		t.Fatal(err)
+	tests := []struct {
+		seed    uint64
+		seedSet bool
+		want    uint64
+	}{
+		{0, false, 3}, // the script's own seed
+		{99, true, 99},
+		{0, true, 0},
 	}
-	b, err := os.ReadFile(filepath.Join(out, "summary.json"))
-	if err != nil {
-		t.Fatal(err)
-	}
-	var sum struct{ Seed uint64 }
-	if err := json.Unmarshal(b, &sum); err != nil {
-		t.Fatal(err)
-	}
-	if sum.Seed != 99 {
-		t.Errorf("seed in summary %d, want the override 99", sum.Seed)
+	for _, tc := range tests {
+		out := t.TempDir()
+		if _, err := Run(context.Background(), RunOptions{File: filepath.Join("testdata", "seeded_doe.study"), OutDir: out, Seed: tc.seed, SeedSet: tc.seedSet}); err != nil {
+			t.Fatal(err)
+		}
+		b, err := os.ReadFile(filepath.Join(out, "summary.json"))
+		if err != nil {
+			t.Fatal(err)
+		}
+		var sum struct{ Seed uint64 }
+		if err := json.Unmarshal(b, &sum); err != nil {
+			t.Fatal(err)
+		}
+		if sum.Seed != tc.want {
+			t.Errorf("seed override %d (set %v): summary seed %d, want %d", tc.seed, tc.seedSet, sum.Seed, tc.want)
+		}
 	}
 }
 
 // exampleChecks are the checks of each example study beyond running.
 var exampleChecks = map[string]func(t *testing.T, sum map[string]any){
-	"sellar.study": func(t *testing.T, sum map[string]any) {}, // checked in TestSellarStudyFindsPublishedOptimum
+	"sellar.study": checkSellar,
 	"business_jet.study": func(t *testing.T, sum map[string]any) {
 		best := sum["best"].(map[string]any)
 		if best["feasible"] != true {
