@@ -275,7 +275,7 @@ const (
 //   - landing climb, 25.119: all engines, landing configuration, at VREF =
 //     1.23·VSR0 (25.125 minimum) and landing mass;
 //   - thrust at speed V: linear in Mach between the static thrust and the
-//     thrust at the second-segment Mach 0.25 (engine.thrust_takeoff,
+//     thrust at the second-segment Mach ClimbMach (engine.thrust_takeoff,
 //     engine.thrust_climb); windmilling drag of the failed engine ignored;
 //   - v_stall is VSR0 (landing configuration, landing mass, airport),
 //     v_stall_takeoff VSR1 (take-off flaps, take-off mass), v_approach =
@@ -292,7 +292,8 @@ const (
 type Mission struct {
 	Profile MissionProfile
 	Landing LandingSettings
-	// ClimbMach is the Mach number of engine.thrust_climb; 0.25.
+	// ClimbMach is the Mach number of engine.thrust_climb; 0.25, the
+	// ClimbMach of NewEngineCycle (keep the two equal).
 	ClimbMach float64
 }
 

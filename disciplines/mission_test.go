@@ -277,3 +277,36 @@ func TestDisciplinesFiniteOverRanges(t *testing.T) {
 		t.Logf("%s: %d of 3000 random points computed, the rest refused", d.Name(), nOK)
 	}
 }
+
+// With the take-off L/D of the same polar at V2, engines sized by the
+// one-engine-inoperative second segment give the mission exactly the
+// 14 CFR 25.121(b) minimum gradient of 2.4 %.
+func TestSecondSegmentSizingAgrees(t *testing.T) {
+	sys, err := mdo.NewSystem(NewEngineCycle(), NewPropulsion(), NewMission())
+	if err != nil {
+		t.Fatal(err)
+	}
+	ws := sys.NewWorkspace()
+	in := missionInputs()
+	delete(in, "engine.thrust_takeoff")
+	delete(in, "engine.thrust_climb")
+	delete(in, "engine.tsfc_cruise")
+	cl := in["aero.cl_max_takeoff"] / (V2MinRatio * V2MinRatio)
+	in["aero.ld_takeoff"] = cl / (in["aero.cd0_takeoff"] + in["aero.k_takeoff"]*cl*cl)
+	in["aero.drag_cruise"] = 20000
+	in["engine.sizing_field_length"] = 4500
+	for k, v := range in {
+		if err := ws.Set(k, v); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if err := ws.Analyze(context.Background()); err != nil {
+		t.Fatal(err)
+	}
+	if c := get(t, ws, "engine.sizing_case"); c != SizingSecondSegment {
+		t.Fatalf("sizing case %g, want the second segment", c)
+	}
+	if g := get(t, ws, "perf.climb_gradient_second_segment"); math.Abs(g-0.024) > 1e-12 {
+		t.Errorf("second-segment gradient %.12g, want 0.024", g)
+	}
+}

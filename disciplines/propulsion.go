@@ -555,6 +555,7 @@ const (
 	cycOutTt4Node1
 	cycOutTt4Node2
 	cycOutFanPressureRatio
+	cycOutClimbMach
 	cycNumOut
 )
 
@@ -621,6 +622,7 @@ func (e *EngineCycle) Outputs() []mdo.Var {
 	out[cycOutTt4Node1] = r("engine.tt4_ratio_node1", "Tt4 over maximum Tt4 at the first cruise node", 0.9)
 	out[cycOutTt4Node2] = r("engine.tt4_ratio_node2", "Tt4 over maximum Tt4 at the second cruise node", 0.8)
 	out[cycOutFanPressureRatio] = mdo.Var{Name: "engine.fan_pressure_ratio", Unit: "-", Description: "fan pressure ratio balancing the mixer at sea-level static", Default: 3.5, Min: 1, Max: 45}
+	out[cycOutClimbMach] = mdo.Var{Name: "engine.climb_mach", Unit: "-", Description: "Mach number of engine.unit_thrust_climb", Default: 0.25, Min: 0.05, Max: 0.6}
 	return out
 }
 
@@ -670,6 +672,7 @@ func (e *EngineCycle) Compute(in, out []float64) error {
 	out[cycOutTSFCTakeoff] = to.TSFC
 	out[cycOutTSFCCruiseMax] = cr.TSFC
 	out[cycOutFanPressureRatio] = sls.FanPressureRatio
+	out[cycOutClimbMach] = e.ClimbMach
 	// part-throttle nodes at cruise
 	tt3 := cruise.Temperature * cr.RamTempRatio * math.Pow(pic, (c.GammaC-1)/(c.GammaC*c.CompressorPolytropic))
 	// throttle fractions of the two nodes, Tt4 = Tt3 + frac·(Tt4,max − Tt3),
@@ -731,6 +734,7 @@ const (
 	propInThrustNode2
 	propInTt4Node1
 	propInTt4Node2
+	propInClimbMach
 	propNumIn
 )
 
@@ -773,7 +777,8 @@ const (
 //     thrust at the airport;
 //   - second segment, one engine inoperative (14 CFR 25.121(b)): gradient
 //     2.4/2.7/3.0 % for 2/3/4 engines: (n−1)·T = W·(γ + 1/(L/D)TO), thrust
-//     at the airport at the second-segment Mach number;
+//     at V2 = 1.13·VSR1 at the airport, linear in Mach between the static
+//     thrust and that at engine.climb_mach (as in the mission discipline);
 //   - top of climb: T = (D + W·ROC/V)/n at cruise Mach and altitude with
 //     W the mass after take-off and climb (historical fractions);
 //   - cruise: T = D·(1 + CruiseThrustMargin)/n.
@@ -784,7 +789,7 @@ const (
 // part-throttle nodes of engine_cycle. engine.count is rounded. The
 // engine mass is Raymer's dry-engine regression; nacelle, controls and
 // starter are added by weights. Added variables: engine.sizing_field_length
-// (input); engine.thrust_takeoff, engine.thrust_climb,
+// and engine.climb_mach (inputs); engine.thrust_takeoff, engine.thrust_climb,
 // engine.cruise_throttle, engine.sizing_case (outputs).
 type Propulsion struct {
 	// TopOfClimbRate is the residual rate of climb required at the top of
@@ -832,6 +837,7 @@ func (p *Propulsion) Inputs() []mdo.Var {
 	in[propInThrustNode2] = cyc[cycOutThrustNode2]
 	in[propInTt4Node1] = cyc[cycOutTt4Node1]
 	in[propInTt4Node2] = cyc[cycOutTt4Node2]
+	in[propInClimbMach] = cyc[cycOutClimbMach]
 	return in
 }
 
@@ -883,9 +889,16 @@ func (p *Propulsion) Compute(in, out []float64) error {
 	wsPsf := w / in[propInWingArea] / unitPsf
 	tofFt := in[propInFieldLength] / unitFt
 	tw := RoskamTakeoffParameter * wsPsf / (sigma * in[propInCLmaxTakeoff] * tofFt)
+	// thrust at V2 = 1.13 VSR1: linear in Mach between static and the
+	// second-segment Mach number (the model of the mission discipline)
+	v2 := V2MinRatio * StallSpeed(in[propInMassTakeoff], apt.Density, in[propInWingArea], in[propInCLmaxTakeoff])
+	availV2 := availTO + (availCl-availTO)*v2/(apt.SpeedOfSound*in[propInClimbMach])
+	if !(availV2 > 0) {
+		return inputErr("engine.unit_thrust_climb", availCl, "N s/kg", "a positive thrust at V2")
+	}
 	req := [4]float64{
 		w * tw / n / availTO,
-		w * (grad + 1/in[propInLDTakeoff]) / (n - 1) / availCl,
+		w * (grad + 1/in[propInLDTakeoff]) / (n - 1) / availV2,
 		(drag + w*WarmupTakeoffFraction*ClimbFraction(mach)*p.TopOfClimbRate/vCruise) / n / availCr,
 		drag * (1 + p.CruiseThrustMargin) / n / availCr,
 	}
