@@ -191,3 +191,49 @@ func TestSummary(t *testing.T) {
 		t.Errorf("NaN encodes as %s, %v; want null", b, err)
 	}
 }
+
+func TestResultFromStore(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "r.db")
+	s, err := Create(path, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	st, err := mdo.SellarStudy(mdo.MDF)
+	if err != nil {
+		t.Fatal(err)
+	}
+	st.Recorder, st.Seed = s, 9
+	st.Constraints[0] = st.Constraints[0].WithScale(2)
+	want := runSellar(t, st, 40)
+	s.Close()
+	r, err := Open(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer r.Close()
+	got, err := r.Result()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got.Best == nil || got.Best.ID != want.Best.ID || got.Objective() != want.Objective() {
+		t.Fatalf("rebuilt best %+v, want #%d", got.Best, want.Best.ID)
+	}
+	if got.EvalCounters != want.EvalCounters || got.Stop != want.Stop || got.Seed != 9 || got.Optimizer != "grid" {
+		t.Errorf("rebuilt counters %+v stop %q seed %d, want %+v %q 9", got.EvalCounters, got.Stop, got.Seed, want.EvalCounters, want.Stop)
+	}
+	if len(got.Constraints) != 2 {
+		t.Fatalf("rebuilt %d constraints", len(got.Constraints))
+	}
+	for k := range want.Constraints {
+		g, w := got.Constraints[k], want.Constraints[k]
+		if g.String() != w.String() || g.Scale != w.Scale || g.Tolerance != w.Tolerance {
+			t.Errorf("constraint %d rebuilt as %v (scale %g), want %v (scale %g)", k, g, g.Scale, w, w.Scale)
+		}
+	}
+	if len(got.History) != len(want.History) {
+		t.Errorf("rebuilt history has %d steps, want %d", len(got.History), len(want.History))
+	}
+	if a, b := got.Active(1e-3), want.Active(1e-3); len(a) != len(b) {
+		t.Errorf("active constraints %v, want %v", a, b)
+	}
+}

@@ -436,7 +436,8 @@ func (s *Store) End(r *mdo.Result) error {
 			default:
 				lo, hi = c.Lower, c.Upper
 			}
-			if _, err := s.conn.ExecContext(ctx, `UPDATE variables SET relation = ?, lower = ?, upper = ? WHERE role = 'constraint' AND position = ?`, c.String(), lo, hi, k); err != nil {
+			if _, err := s.conn.ExecContext(ctx, `UPDATE variables SET relation = ?, kind = ?, lower = ?, upper = ?, tolerance = ?, scale = ? WHERE role = 'constraint' AND position = ?`,
+				c.String(), c.Kind.String(), lo, hi, c.Tolerance, c.Scale, k); err != nil {
 				return err
 			}
 		}

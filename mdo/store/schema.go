@@ -60,6 +60,9 @@ CREATE TABLE variables (
 	upper REAL,
 	is_integer INTEGER NOT NULL DEFAULT 0,
 	relation TEXT,
+	kind TEXT,
+	tolerance REAL,
+	scale REAL,
 	column_name TEXT,
 	PRIMARY KEY (role, position)
 );
