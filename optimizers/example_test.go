@@ -121,3 +121,73 @@ func ExampleOptimizer_cancel() {
 	fmt.Println(res.Stop, err, res.Best != nil)
 	// Output: cancelled <nil> true
 }
+
+// CMA-ES on the Rosenbrock function; every generation is one batch on the
+// study's workers.
+func ExampleCMAES() {
+	s, err := optimizers.Rosenbrock(2)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	s.Seed = 1
+	res, err := optimizers.CMAES{}.Minimize(context.Background(), s)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	d := res.DesignValues()
+	fmt.Printf("x1 = %.3f, x2 = %.3f, f below 1e-8: %v\n", d["x1"], d["x2"], res.Objective() < 1e-8)
+	// Output: x1 = 1.000, x2 = 1.000, f below 1e-8: true
+}
+
+// Differential evolution on CEC 2006 g08, with Deb's feasibility rules.
+func ExampleDifferentialEvolution() {
+	s, err := optimizers.G08()
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	s.Seed = 1
+	res, err := optimizers.DifferentialEvolution{}.Minimize(context.Background(), s)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Printf("f = %.7f, feasible %v\n", res.Objective(), res.Feasible())
+	// Output: f = -0.0958250, feasible true
+}
+
+// A particle swarm on CEC 2006 g11, whose equality constraint the swarm
+// follows with the ε-level comparison and the gradient-based mutation.
+func ExampleParticleSwarm() {
+	s, err := optimizers.G11()
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	s.Seed = 1
+	res, err := optimizers.ParticleSwarm{}.Minimize(context.Background(), s)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Printf("f = %.3f, feasible %v\n", res.Objective(), res.Feasible())
+	// Output: f = 0.750, feasible true
+}
+
+// A full-factorial design with 5 levels of x1 and 3 of x2.
+func ExampleFullFactorial() {
+	s, err := optimizers.Rosenbrock(2)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	res, err := optimizers.FullFactorial{Levels: 3, VariableLevels: map[string]int{"x1": 5}}.Minimize(context.Background(), s)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Println(res.Evaluations, res.Stop)
+	// Output: 15 complete
+}
