@@ -153,10 +153,7 @@ func TestResumeAfterSIGKILL(t *testing.T) {
 		t.Fatal(err)
 	}
 	defer s.Close()
-	if err := s.Check(sellarScript, 2026); err != nil {
-		t.Fatal(err)
-	}
-	prev, err := s.Evaluations()
+	prev, err := s.Restorable(sellarScript, 2026)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -422,3 +422,14 @@ func (s *Store) Close() error {
 
 // goVersion is the Go version recorded in the provenance.
 func goVersion() string { return runtime.Version() }
+
+// Restorable checks that the stored run came from script and seed (see
+// Check) and returns its evaluations for mdo.Evaluator.Restore. It is the
+// one call a resuming caller needs; a store in which no run has begun
+// gives none.
+func (s *Store) Restorable(script string, seed uint64) ([]*mdo.Evaluation, error) {
+	if err := s.Check(script, seed); err != nil {
+		return nil, err
+	}
+	return s.Evaluations()
+}

@@ -410,6 +410,9 @@ func TestResumeRefusesOtherScriptOrSeed(t *testing.T) {
 				t.Errorf("%s: Check err = %v, want it to name %q", tc.name, err, w)
 			}
 		}
+		if evs, err := r.Restorable(tc.script, tc.seed); err == nil || evs != nil {
+			t.Errorf("%s: Restorable gave %d evaluations, err %v; want a refusal", tc.name, len(evs), err)
+		}
 		// and Begin refuses it too, so a recorder cannot mix runs
 		ev := sellarEvaluator(t, r, tc.seed, tc.script)
 		if _, err := ev.Evaluate(context.Background(), grid(1, 3)); err == nil || !strings.Contains(err.Error(), "refusing to mix") {
