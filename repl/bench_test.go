@@ -87,3 +87,73 @@ func BenchmarkNewSession(b *testing.B) {
 		}
 	}
 }
+
+// jetSetup builds, in a session, a maker of the business-jet study (the
+// invented Swiftlet S12) with declared or scripted objective and
+// constraints.
+const jetSetup = `import (
+	"context"
+
+	"couplet/disciplines"
+	"couplet/mdo"
+	"couplet/optimizers"
+)
+
+jet := disciplines.Swiftlet()
+jetSys, err := jet.NewSystem()
+if err != nil {
+	panic(err)
+}
+func makeJet(scripted bool) *mdo.Study {
+	st := &mdo.Study{
+		Name:    "jet",
+		System:  jetSys,
+		Design:  []mdo.DesignVar{mdo.Continuous("wing.area", 100, 220), mdo.Continuous("wing.aspect_ratio", 1.8, 3.6)},
+		Fixed:   jet.Parameters,
+		Seed:    1,
+		Workers: 1,
+	}
+	if !scripted {
+		st.Objectives = []mdo.Objective{mdo.Minimize("mass.takeoff")}
+		st.Constraints = []mdo.Constraint{mdo.AtMost("perf.takeoff_field_length", 2400), mdo.AtLeast("stability.static_margin_takeoff", 0.05)}
+		return st
+	}
+	st.Objectives = []mdo.Objective{mdo.MinimizeFunc("mass.takeoff", func(v mdo.Values) float64 { return v.Get("mass.takeoff") })}
+	st.Constraints = []mdo.Constraint{
+		mdo.AtMost("perf.takeoff_field_length", 2400).WithFunc(func(v mdo.Values) float64 { return v.Get("perf.takeoff_field_length") }),
+		mdo.AtLeast("stability.static_margin_takeoff", 0.05).WithFunc(func(v mdo.Values) float64 { return v.Get("stability.static_margin_takeoff") }),
+	}
+	return st
+}
+`
+
+// benchmarkJet runs a fixed-budget Nelder–Mead on the business jet.
+func benchmarkJet(b *testing.B, scripted string) {
+	s, err := NewSession(Options{})
+	if err != nil {
+		b.Fatal(err)
+	}
+	if c := s.Exec(context.Background(), jetSetup); c.Err != nil {
+		b.Fatal(c.Err)
+	}
+	run := "res, err := optimizers.NelderMead{MaxEvaluations: 100}.Minimize(context.Background(), makeJet(" + scripted + "))\nif err != nil {\n\tpanic(err)\n}\nres.Evaluations"
+	b.ResetTimer()
+	evals := 0
+	for i := 0; i < b.N; i++ {
+		c := s.Exec(context.Background(), run)
+		if c.Err != nil {
+			b.Fatal(c.Err)
+		}
+		evals = c.Value.(int)
+	}
+	b.ReportMetric(float64(evals), "evals/op")
+	b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N*evals), "ns/eval")
+}
+
+// BenchmarkBusinessJetDeclared: a coupled aircraft analysis per point,
+// objective and constraints declared as system variables.
+func BenchmarkBusinessJetDeclared(b *testing.B) { benchmarkJet(b, "false") }
+
+// BenchmarkBusinessJetScripted: the same with interpreted objective and
+// constraints (aim: at most 1.5 times the declared time).
+func BenchmarkBusinessJetScripted(b *testing.B) { benchmarkJet(b, "true") }
