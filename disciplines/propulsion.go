@@ -993,3 +993,39 @@ func engineThrustTakeoffVar() mdo.Var {
 func engineThrustClimbVar() mdo.Var {
 	return mdo.Var{Name: "engine.thrust_climb", Unit: "N", Description: "thrust per engine at the airport at the second-segment Mach number", Default: 50000, Min: 0, Max: 2e6, Scale: 1e5}
 }
+
+// EngineOperatingPoint is the installed-free performance of a sized
+// engine at one flight condition.
+type EngineOperatingPoint struct {
+	Thrust   float64 // net thrust [N]
+	TSFC     float64 // [kg/(N s)]
+	MassFlow float64 // air mass flow [kg/s]
+	FuelFlow float64 // [kg/s]
+	Tt4      float64 // turbine-entry temperature [K]
+}
+
+// EngineAt returns the thrust and fuel consumption of an engine of
+// sea-level-static air mass flow mdotSLS [kg/s] (bypass ratio bpr,
+// overall pressure ratio pic, maximum turbine-entry temperature tt4max
+// [K]) at Mach number mach, geometric altitude [m] on a day dT [K] off
+// standard, and throttle = Tt4/Tt4,max in (0, 1] — the throttle model of
+// this file (parametric cycle at reduced Tt4, corrected-flow lapse).
+func EngineAt(c CycleComponents, bpr, pic, tt4max, mdotSLS, mach, altitude, dT, throttle float64) (EngineOperatingPoint, error) {
+	if !(throttle > 0 && throttle <= 1) {
+		return EngineOperatingPoint{}, inputErr("engine.throttle", throttle, "", "(0, 1] (Tt4 over maximum Tt4)")
+	}
+	if !(mdotSLS > 0) || math.IsInf(mdotSLS, 0) {
+		return EngineOperatingPoint{}, inputErr("engine.mass_flow", mdotSLS, "kg/s", "> 0")
+	}
+	atm, err := OffsetAtmosphere(altitude, dT)
+	if err != nil {
+		return EngineOperatingPoint{}, renameInput(err, "altitude")
+	}
+	r, err := MixedFlowTurbofan(c, mach, atm.Temperature, pic, bpr, throttle*tt4max)
+	if err != nil {
+		return EngineOperatingPoint{}, err
+	}
+	mdot := mdotSLS * CorrectedFlowLapse(atm.Pressure, atm.Temperature, mach, c.MilSpecRecovery)
+	t := mdot * r.SpecificThrust
+	return EngineOperatingPoint{Thrust: t, TSFC: r.TSFC, MassFlow: mdot, FuelFlow: r.TSFC * t, Tt4: throttle * tt4max}, nil
+}

@@ -60,3 +60,20 @@ func ExampleNewPropulsion() {
 	// Output:
 	// SLS thrust per engine 88.2 kN, sized by case 3
 }
+
+// Thrust lapse of a sized engine with altitude at Mach 0.9.
+func ExampleEngineAt() {
+	c := disciplines.TypicalComponents()
+	for _, h := range []float64{0, 6000, 11000} {
+		p, err := disciplines.EngineAt(c, 0.8, 20, 1750, 100, 0.9, h, 0, 1)
+		if err != nil {
+			fmt.Println(err)
+			return
+		}
+		fmt.Printf("altitude %5.0f m: %5.1f kN, TSFC %.3g kg/(N s)\n", h, p.Thrust/1000, p.TSFC)
+	}
+	// Output:
+	// altitude     0 m:  89.0 kN, TSFC 3.16e-05 kg/(N s)
+	// altitude  6000 m:  50.4 kN, TSFC 3.05e-05 kg/(N s)
+	// altitude 11000 m:  28.5 kN, TSFC 2.98e-05 kg/(N s)
+}

@@ -375,3 +375,46 @@ func BenchmarkPropulsionCompute(b *testing.B) {
 		}
 	}
 }
+
+// A sized engine: full throttle at sea-level static reproduces the
+// rating; thrust lapses with altitude; throttling lowers thrust; fuel
+// flow is TSFC times thrust.
+func TestEngineAt(t *testing.T) {
+	c := TypicalComponents()
+	sls, err := MixedFlowTurbofan(c, 0, SeaLevelTemperature, 20, 0.8, 1750)
+	if err != nil {
+		t.Fatal(err)
+	}
+	p0, err := EngineAt(c, 0.8, 20, 1750, 100, 0, 0, 0, 1)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if e := propRel(p0.Thrust, 100*sls.SpecificThrust); e > 1e-12 {
+		t.Errorf("SLS thrust %g, want %g", p0.Thrust, 100*sls.SpecificThrust)
+	}
+	prev := math.Inf(1)
+	for _, h := range []float64{0, 5000, 11000, 16000} {
+		p, err := EngineAt(c, 0.8, 20, 1750, 100, 0.9, h, 0, 1)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !(p.Thrust < prev) {
+			t.Errorf("h=%g: thrust %g not below %g", h, p.Thrust, prev)
+		}
+		if e := propRel(p.FuelFlow, p.TSFC*p.Thrust); e > 1e-14 {
+			t.Error("fuel flow is not TSFC × thrust")
+		}
+		prev = p.Thrust
+	}
+	pt, err := EngineAt(c, 0.8, 20, 1750, 100, 0.9, 11000, 0, 0.85)
+	if err != nil {
+		t.Fatal(err)
+	}
+	full, _ := EngineAt(c, 0.8, 20, 1750, 100, 0.9, 11000, 0, 1)
+	if !(pt.Thrust < full.Thrust) {
+		t.Error("part throttle does not lower thrust")
+	}
+	if _, err := EngineAt(c, 0.8, 20, 1750, 100, 0.9, 11000, 0, 1.2); err == nil || !strings.Contains(err.Error(), "engine.throttle") {
+		t.Errorf("throttle 1.2: err = %v", err)
+	}
+}
