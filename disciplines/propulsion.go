@@ -994,7 +994,7 @@ func engineThrustClimbVar() mdo.Var {
 	return mdo.Var{Name: "engine.thrust_climb", Unit: "N", Description: "thrust per engine at the airport at the second-segment Mach number", Default: 50000, Min: 0, Max: 2e6, Scale: 1e5}
 }
 
-// EngineOperatingPoint is the installed-free performance of a sized
+// EngineOperatingPoint is the uninstalled performance of a sized
 // engine at one flight condition.
 type EngineOperatingPoint struct {
 	Thrust   float64 // net thrust [N]
