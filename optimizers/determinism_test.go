@@ -90,6 +90,24 @@ func TestSameSeedSameResultAnyWorkers(t *testing.T) {
 			}
 		})
 	}
+	// under IDF, through the ε-level comparison and the gradient repairs
+	for _, o := range []Optimizer{GA{Population: 20, Generations: 10}, DifferentialEvolution{Population: 20, Generations: 10},
+		ParticleSwarm{Population: 20, Generations: 10}, CMAES{MaxEvaluations: 800}, NelderMead{MaxEvaluations: 300}} {
+		var res [2]*mdo.Result
+		for i, w := range []int{1, 2} {
+			s, err := SellarIDF()
+			if err != nil {
+				t.Fatal(err)
+			}
+			s.Seed, s.Workers = 5, w
+			if res[i], err = o.Minimize(context.Background(), s); err != nil {
+				t.Fatal(err)
+			}
+		}
+		if d := sameResult(res[0], res[1]); d != "" {
+			t.Errorf("%s under IDF, workers 1 and 2 differ: %s", o.Name(), d)
+		}
+	}
 	// and a multi-objective front
 	var res [2]*mdo.Result
 	for i, w := range []int{1, 2} {
