@@ -4,11 +4,13 @@ import (
 	"context"
 	"database/sql"
 	"errors"
+	"fmt"
 	"math"
 	"os"
 	"path/filepath"
 	"strings"
 	"testing"
+	"time"
 
 	"couplet/mdo"
 )
@@ -470,6 +472,49 @@ func TestDamagedRows(t *testing.T) {
 		r.Close()
 		if !errors.Is(err, ErrDamaged) || !strings.Contains(err.Error(), tc.want) || !strings.Contains(err.Error(), "evaluation 2") {
 			t.Errorf("%s: err = %v; want ErrDamaged naming evaluation 2 and saying %q", tc.name, err, tc.want)
+		}
+	}
+}
+
+func TestCommitCadence(t *testing.T) {
+	tests := []struct {
+		name     string
+		batch    int
+		interval time.Duration
+		records  int
+		commits  []int // rows after each commit, End's included
+	}{
+		{"by count", 3, time.Hour, 7, []int{3, 6, 7}},
+		{"one at a time", 1, time.Hour, 3, []int{1, 2, 3}},
+		{"by time", 1000, time.Nanosecond, 3, []int{1, 2, 3}},
+		{"only at End", 1000, time.Hour, 5, []int{5}},
+	}
+	for _, tc := range tests {
+		var got []int
+		s, err := Create(filepath.Join(t.TempDir(), "c.db"), Options{BatchSize: tc.batch, FlushInterval: tc.interval,
+			OnCommit: func(rows int) { got = append(got, rows) }})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if err := s.Begin(syntheticRun()); err != nil {
+			t.Fatal(err)
+		}
+		for i := 0; i < tc.records; i++ {
+			var e mdo.Evaluation
+			syntheticEval(&e, i)
+			if tc.interval == time.Nanosecond {
+				time.Sleep(time.Microsecond)
+			}
+			if err := s.Record(&e); err != nil {
+				t.Fatal(err)
+			}
+		}
+		if err := s.End(nil); err != nil {
+			t.Fatal(err)
+		}
+		s.Close()
+		if fmt.Sprint(got) != fmt.Sprint(tc.commits) {
+			t.Errorf("%s: commits after %v rows, want %v", tc.name, got, tc.commits)
 		}
 	}
 }
