@@ -25,6 +25,7 @@ func optimumCases() []optimumCase {
 	return []optimumCase{
 		{"sellar MDF/Nelder-Mead", SellarMDF, NelderMead{}, SellarOptimum, 1e-3, false, sellar},
 		{"sellar MDF/CMA-ES", SellarMDF, CMAES{}, SellarOptimum, 1e-3, false, sellar},
+		{"sellar MDF/Nelder-Mead, quadratic penalty", SellarMDF, NelderMead{Penalty: Penalty{Method: QuadraticPenalty}}, SellarOptimum, 1e-3, false, sellar},
 		{"sellar MDF/GA", SellarMDF, GA{}, SellarOptimum, 1e-2, false, sellar},
 		{"sellar MDF/DE", SellarMDF, DifferentialEvolution{}, SellarOptimum, 1e-2, false, sellar},
 		{"sellar MDF/PSO", SellarMDF, ParticleSwarm{}, SellarOptimum, 1e-2, false, sellar},
@@ -37,6 +38,7 @@ func optimumCases() []optimumCase {
 		// g06: within 0.1 % of f* = −6961.81388
 		{"g06/Nelder-Mead", G06, NelderMead{}, G06Optimum, 1e-3, true, cec + ", g06"},
 		{"g06/CMA-ES", G06, CMAES{}, G06Optimum, 1e-3, true, cec + ", g06"},
+		{"g06/Nelder-Mead, quadratic penalty", G06, NelderMead{Penalty: Penalty{Method: QuadraticPenalty}}, G06Optimum, 1e-3, true, cec + ", g06"},
 		{"g06/PSO", G06, ParticleSwarm{Repair: Reflect, Generations: 400}, G06Optimum, 1e-3, true, cec + ", g06"},
 		// g08: within 1e-3 of f* = −0.0958250, taken relative (1e-4 absolute)
 		{"g08/Nelder-Mead", G08, NelderMead{}, G08Optimum, 1e-3, true, cec + ", g08"},

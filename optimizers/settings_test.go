@@ -2,6 +2,7 @@ package optimizers
 
 import (
 	"context"
+	"errors"
 	"strings"
 	"testing"
 
@@ -137,5 +138,39 @@ func TestSettingsMap(t *testing.T) {
 	m := settingsMap(NelderMead{MaxEvaluations: 10, Penalty: Penalty{Weight: 5}})
 	if m["MaxEvaluations"] != "10" || m["Penalty.Weight"] != "5" {
 		t.Errorf("settings map %v", m)
+	}
+}
+
+// failingRecorder fails on the n-th record.
+type failingRecorder struct{ n int }
+
+func (f *failingRecorder) Begin(mdo.RunInfo) error { return nil }
+func (f *failingRecorder) Record(*mdo.Evaluation) error {
+	f.n--
+	if f.n == 0 {
+		return errRecorder
+	}
+	return nil
+}
+func (f *failingRecorder) End(*mdo.Result) error { return nil }
+
+var errRecorder = errors.New("disk full")
+
+// A failing recorder stops the run with an error wrapping the recorder's,
+// and the result so far.
+func TestRecorderFailure(t *testing.T) {
+	for _, o := range allOptimizers() {
+		s, err := SellarMDF()
+		if err != nil {
+			t.Fatal(err)
+		}
+		s.Recorder = &failingRecorder{n: 5}
+		res, err := o.Minimize(context.Background(), s)
+		if !errors.Is(err, errRecorder) {
+			t.Errorf("%s: error %v, want one wrapping %v", o.Name(), err, errRecorder)
+		}
+		if res == nil {
+			t.Errorf("%s: no result with the recorder error", o.Name())
+		}
 	}
 }
