@@ -3,6 +3,7 @@ package repl
 import (
 	"context"
 	"fmt"
+	"os"
 	"path/filepath"
 	"sort"
 	"strconv"
@@ -29,6 +30,7 @@ func commands() []command {
 		{"save", "FILE", "save the successful cells as a study file (.study)", (*Session).cmdSave},
 		{"replay", "FILE", "run the cells of a study file in this session", (*Session).cmdReplay},
 		{"coupling", "EXPR", "show the design structure matrix of a system (or of a study's system)", (*Session).cmdCoupling},
+		{"report", "EXPR", "write the report, plots and summary of a result into the output folder (--out)", (*Session).cmdReport},
 		{"vars", "", "list the session's variables", (*Session).cmdVars},
 		{"imports", "", "list the packages a script may import", (*Session).cmdImports},
 		{"fresh", "", "start afresh: forget every cell and variable", (*Session).cmdFresh},
@@ -266,5 +268,36 @@ func (s *Session) cmdFresh(_ context.Context, _ string) bool {
 		return false
 	}
 	fmt.Fprintln(s.opts.Stdout, "fresh session: every cell and variable forgotten")
+	return false
+}
+
+func (s *Session) cmdReport(ctx context.Context, arg string) bool {
+	if arg == "" {
+		fmt.Fprintf(s.opts.Stderr, "%sreport needs a result, e.g. %sreport result\n", CommandPrefix, CommandPrefix)
+		return false
+	}
+	if s.opts.Outputs == nil || s.opts.OutDir == "" {
+		fmt.Fprintf(s.opts.Stderr, "%sreport: this session has no output folder; start it with --out DIR\n", CommandPrefix)
+		return false
+	}
+	v, err := s.Eval(ctx, arg)
+	if err != nil {
+		fmt.Fprintf(s.opts.Stderr, "%sreport %s: %v\n", CommandPrefix, arg, err)
+		return false
+	}
+	r, ok := v.(*mdo.Result)
+	if !ok || r == nil {
+		fmt.Fprintf(s.opts.Stderr, "%sreport %s: want a *mdo.Result, got %T\n", CommandPrefix, arg, v)
+		return false
+	}
+	if err := os.MkdirAll(s.opts.OutDir, 0o755); err != nil {
+		fmt.Fprintf(s.opts.Stderr, "%sreport: %v\n", CommandPrefix, err)
+		return false
+	}
+	if err := s.opts.Outputs.WriteArtifacts(s.opts.OutDir, &RunRecord{Script: s.Script(), Result: r}); err != nil {
+		fmt.Fprintf(s.opts.Stderr, "%sreport: %v\n", CommandPrefix, err)
+		return false
+	}
+	fmt.Fprintf(s.opts.Stdout, "wrote %s\n", filepath.Join(s.opts.OutDir, "report.html"))
 	return false
 }

@@ -94,7 +94,7 @@ func Run(ctx context.Context, opts RunOptions) (*RunRecord, error) {
 	defer outs.Close()
 	s, err := NewSession(Options{
 		Policy: opts.Policy, Stdout: out, Stderr: errw, NoErrorEcho: true, OutDir: opts.OutDir,
-		Seed: opts.Seed, SeedSet: opts.SeedSet, Progress: opts.Progress, Recorder: outs.Recorder, Grace: opts.Grace,
+		Seed: opts.Seed, SeedSet: opts.SeedSet, Progress: opts.Progress, Outputs: outs, Grace: opts.Grace,
 	})
 	if err != nil {
 		return nil, err

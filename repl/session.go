@@ -42,6 +42,10 @@ type Options struct {
 	NoErrorEcho bool
 	// Recorder, if not nil, makes the recorder cell.Attach installs.
 	Recorder func(st *mdo.Study) (mdo.Recorder, error)
+	// Outputs, if not nil, records the attached studies and writes the
+	// report on demand (@report); with OutDir set and neither Recorder
+	// nor Outputs given, the session makes its own.
+	Outputs *RunOutputs
 	// Grace is how long a cancelled cell may take to come back (an
 	// optimiser returning its best point) before the interpreter is
 	// stopped; default 2 s.
@@ -97,6 +101,12 @@ func NewSession(opts Options) (*Session, error) {
 	if opts.Grace <= 0 {
 		opts.Grace = 2 * time.Second
 	}
+	if opts.Outputs == nil && opts.Recorder == nil && opts.OutDir != "" {
+		opts.Outputs = NewRunOutputs(opts.OutDir)
+	}
+	if opts.Recorder == nil && opts.Outputs != nil {
+		opts.Recorder = opts.Outputs.Recorder
+	}
 	s := &Session{opts: opts}
 	if err := s.reset(); err != nil {
 		return nil, err
@@ -141,6 +151,14 @@ func (s *Session) progressFor() func(string) func(mdo.Progress) {
 		return nil
 	}
 	return s.opts.Progress.For
+}
+
+// Close closes the session's case stores.
+func (s *Session) Close() error {
+	if s.opts.Outputs == nil {
+		return nil
+	}
+	return s.opts.Outputs.Close()
 }
 
 // Env returns the session's cell environment (published results, seed).

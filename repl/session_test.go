@@ -430,3 +430,36 @@ func TestInterruptedOptimisationReturnsItsBest(t *testing.T) {
 		t.Fatalf("published %v, want one result with its best point after a few evaluations", pub)
 	}
 }
+
+func TestReportOnDemand(t *testing.T) {
+	dir := t.TempDir()
+	s, out, errb := newTest(t, Options{OutDir: dir})
+	defer s.Close()
+	serve(t, s, `import (
+	"couplet/mdo"
+	"couplet/optimizers"
+	"couplet/repl/cell"
+)
+st, err := mdo.SellarStudy(mdo.MDF)
+cell.Attach(st)
+res, err := optimizers.RandomDesign{Samples: 6}.Minimize(cell.Context(), st)
+@report res
+`)
+	if errb.Len() > 0 {
+		t.Fatalf("stderr: %s", errb)
+	}
+	if !strings.Contains(out.String(), "report.html") {
+		t.Errorf("output %q", out)
+	}
+	for _, name := range []string{"report.html", "summary.json", "results.db", "evaluations.csv"} {
+		if _, err := os.Stat(filepath.Join(dir, name)); err != nil {
+			t.Errorf("@report left no %s: %v", name, err)
+		}
+	}
+	// Without an output folder the command says how to get one.
+	s2, _, errb2 := newTest(t, Options{})
+	serve(t, s2, "x := 1\n@report x\n")
+	if !strings.Contains(errb2.String(), "--out DIR") {
+		t.Errorf("stderr %q", errb2)
+	}
+}

@@ -219,6 +219,7 @@ func interactive(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		fmt.Fprintln(stderr, "couplet:", err)
 		return 1
 	}
+	defer s.Close()
 	// Ctrl-C while a cell runs cancels the cell, never the session.
 	sig := make(chan os.Signal, 1)
 	signal.Notify(sig, os.Interrupt)
