@@ -166,14 +166,14 @@ func Create(path string, opt Options) (*Store, error) {
 	if err != nil {
 		return nil, err
 	}
-	if _, err := os.Stat(path); err == nil {
-		if !opt.Overwrite {
-			return nil, fmt.Errorf("store: %s already exists; resume it, remove it, or choose another file", path)
-		}
-		for _, p := range []string{path, path + "-wal", path + "-shm"} {
-			if err := os.Remove(p); err != nil && !errors.Is(err, os.ErrNotExist) {
-				return nil, fmt.Errorf("store: replacing %s: %w", path, err)
-			}
+	if _, err := os.Stat(path); err == nil && !opt.Overwrite {
+		return nil, fmt.Errorf("store: %s already exists; resume it, remove it, or choose another file", path)
+	}
+	// also a write-ahead log left beside a removed file, which SQLite
+	// would otherwise replay into the new one
+	for _, p := range []string{path, path + "-wal", path + "-shm"} {
+		if err := os.Remove(p); err != nil && !errors.Is(err, os.ErrNotExist) {
+			return nil, fmt.Errorf("store: replacing %s: %w", path, err)
 		}
 	}
 	db, conn, err := openDB(path, opt.Durable)

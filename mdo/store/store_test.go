@@ -518,3 +518,38 @@ func TestCommitCadence(t *testing.T) {
 		}
 	}
 }
+
+func TestCreateIgnoresStaleLog(t *testing.T) {
+	dir := t.TempDir()
+	old := filepath.Join(dir, "old.db")
+	s, err := Create(old, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	ev := sellarEvaluator(t, s, 1, sellarScript)
+	if _, err := ev.Evaluate(context.Background(), grid(20, 3)); err != nil {
+		t.Fatal(err)
+	}
+	if err := s.Flush(); err != nil {
+		t.Fatal(err)
+	}
+	// copy the live write-ahead log beside a new name, as if its database
+	// had been deleted, then create a store there
+	wal, err := os.ReadFile(old + "-wal")
+	if err != nil {
+		t.Skipf("no write-ahead log to copy: %v", err)
+	}
+	s.Close()
+	path := filepath.Join(dir, "new.db")
+	if err := os.WriteFile(path+"-wal", wal, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	n, err := Create(path, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer n.Close()
+	if _, ok := n.Run(); ok || n.Rows() != 0 {
+		t.Errorf("a new store picked up %d rows of a stale log", n.Rows())
+	}
+}
