@@ -237,3 +237,23 @@ func TestResultFromStore(t *testing.T) {
 		t.Errorf("active constraints %v, want %v", a, b)
 	}
 }
+
+func TestCSVHeaderUnits(t *testing.T) {
+	info := syntheticRun()
+	info.Outputs = append(info.Outputs, mdo.Var{Name: "mass.takeoff", Unit: "kg"}, mdo.Var{Name: "perf.c0", Unit: "m"})
+	cols := Columns{Design: info.Design, Objectives: info.Objectives, Constraints: info.Constraints, Outputs: info.Outputs}
+	var buf bytes.Buffer
+	if err := WriteCSV(&buf, cols, nil); err != nil {
+		t.Fatal(err)
+	}
+	head := strings.TrimSpace(buf.String())
+	for _, w := range []string{"design:wing.x0 [m]", "objective:mass.takeoff [kg]", "constraint:perf.c0 [m]", "margin:perf.c0 [m]", "constraint:perf.c1 [-]", "output:out.v3 [kg]", "x:wing.x5 [-]", "f:mass.takeoff [-]", "g:perf.c3 [-]"} {
+		if !strings.Contains(head, w) {
+			t.Errorf("CSV header lacks %q:\n%s", w, head)
+		}
+	}
+	back, evs, err := ReadCSV(strings.NewReader(buf.String()))
+	if err != nil || len(evs) != 0 || back.Design[0].Unit != "m" || back.Outputs[len(back.Outputs)-1].Unit != "m" {
+		t.Errorf("read back %+v, %d rows, %v", back, len(evs), err)
+	}
+}
