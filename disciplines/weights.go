@@ -384,18 +384,24 @@ const (
 
 // Constants of the statistical equations (logarithms of fixed parameters).
 const (
-	cos35  = 0.8191520442889918
-	cos40  = 0.766044443118978
-	ln0p09 = -2.4079456086518722
-	ln0p15 = -1.8971199848858813
-	ln0p3  = -1.2039728043259361
-	ln1p25 = 0.22314355131420976
-	ln1p3  = 0.26236426446749106
-	ln1p5  = 0.4054651081081644
-	ln2    = 0.6931471805599453
-	ln4    = 1.3862943611198906
-	ln4p5  = 1.5040773967762742
-	ln6    = 1.791759469228055
+	ln0p7x12PerFt   = 3.3163311610189137
+	ln1000          = 6.907755278982137
+	ln2p331         = 0.8462973600536201
+	lnFtUnit        = -1.1880994551696458
+	lnPi            = 1.1447298858494002
+	lnPi4x0p8PerFt3 = 3.099590338924237
+	cos35           = 0.8191520442889918
+	cos40           = 0.766044443118978
+	ln0p09          = -2.4079456086518722
+	ln0p15          = -1.8971199848858813
+	ln0p3           = -1.2039728043259361
+	ln1p25          = 0.22314355131420976
+	ln1p3           = 0.26236426446749106
+	ln1p5           = 0.4054651081081644
+	ln2             = 0.6931471805599453
+	ln4             = 1.3862943611198906
+	ln4p5           = 1.5040773967762742
+	ln6             = 1.791759469228055
 )
 
 // Compute implements mdo.Discipline.
@@ -433,10 +439,11 @@ func (w *Weights) Compute(in, out []float64) error {
 	weLb := in[wtInEngineMass] / unitLb
 	lnFt := in[wtInNacelleLength] / unitFt
 	dnFt := in[wtInNacelleDia] / unitFt
-	gearIn := 0.7 * df / unitFt * 12 // gear strut length [in], 0.7 fuselage diameters (no source)
-	const lb = -0.7905563476977234   // ln(unitLb): W0[lb] = W0[kg]/unitLb
+	// gear strut length [in]: 0.7 fuselage diameters (no source)
+	const lb = -0.7905563476977234 // ln(unitLb): W0[lb] = W0[kg]/unitLb
 	lnS, lnNz, lnLh, lnLf, lnSf, lnNen := math.Log(sFt), math.Log(nz), math.Log(math.Max(lhFt, 1e-3)), math.Log(lfFt), math.Log(sfFt), math.Log(nen)
-	lnGear, lnLB := math.Log(gearIn), math.Log(lfFt+bFt)
+	lnDf := math.Log(df)
+	lnGear, lnLB := lnDf+ln0p7x12PerFt, math.Log(lfFt+bFt)
 
 	kfs := 1.0
 	if sweep < 0 {
@@ -477,7 +484,7 @@ func (w *Weights) Compute(in, out []float64) error {
 	kws := 0.75 * (1 + 2*taper) / (1 + taper) * bFt * math.Abs(math.Tan(sweep)) / lfFt
 	terms[termFuselage] = weightTerm{
 		coef: unitLb * 0.3280 * 1.06 * math.Exp(0.5*lnNz+0.25*lnLf+0.302*lnSf+
-			0.04*math.Log(1+kws)+0.10*math.Log(lf/df)-0.5*lb),
+			0.04*math.Log(1+kws)+0.10*(lnLf+lnFtUnit-lnDf)-0.5*lb),
 		exp: 0.5,
 	}
 	// Landing mass Wl = (1 − trip)·W0; stall speed in landing configuration
@@ -514,11 +521,12 @@ func (w *Weights) Compute(in, out []float64) error {
 	// Kng = 1, Wec = 2.331 We^0.901 (no reverser), Sn = π Dn Ln.
 	var nacelle, starter float64
 	if weLb > 0 && lnFt > 0 && dnFt > 0 {
-		wec := 2.331 * math.Exp(0.901*math.Log(weLb))
-		nacelle = unitLb * 0.6724 * math.Exp(0.10*math.Log(lnFt)+0.294*math.Log(dnFt)+0.119*lnNz+
-			0.611*math.Log(wec)+0.984*lnNen+0.224*math.Log(math.Pi*dnFt*lnFt))
+		lnWe, lnNL, lnND := math.Log(weLb), math.Log(lnFt), math.Log(dnFt)
+		lnWec := ln2p331 + 0.901*lnWe // ln Wec
+		nacelle = unitLb * 0.6724 * math.Exp(0.10*lnNL+0.294*lnND+0.119*lnNz+
+			0.611*lnWec+0.984*lnNen+0.224*(lnPi+lnND+lnNL))
 		// Starter (pneumatic): 49.19 (Nen·We/1000)^0.541
-		starter = unitLb * 49.19 * math.Exp(0.541*math.Log(nen*weLb/1000))
+		starter = unitLb * 49.19 * math.Exp(0.541*(lnNen+lnWe-ln1000))
 	}
 	// Engine controls: 5 Nen + 0.80 Lec, Lec = Nen × engine-to-cockpit length.
 	lec := nen * in[wtInEnginePosition] * lfFt
@@ -541,8 +549,8 @@ func (w *Weights) Compute(in, out []float64) error {
 	// Avionics (installed): 1.73 Wuav^0.983.
 	avion := unitLb * 1.73 * math.Exp(0.983*lnWuav)
 	// Air conditioning: 62.36 Np^0.25 (Vpr/1000)^0.604 Wuav^0.10, Vpr = π/4 D² (0.8 Lf) [ft³].
-	vpr := math.Pi / 4 * df * df * 0.8 * lf / (unitFt2 * unitFt)
-	aircond := unitLb * 62.36 * math.Exp(0.25*math.Log(npax+nCrew)+0.604*math.Log(vpr/1000)+0.10*lnWuav)
+	lnVpr := lnPi4x0p8PerFt3 + 2*lnDf + lnLf + lnFtUnit // ln Vpr[ft³]
+	aircond := unitLb * 62.36 * math.Exp(0.25*math.Log(npax+nCrew)+0.604*(lnVpr-ln1000)+0.10*lnWuav)
 	apu := 2.2 * w.APUMass
 	systemsFixed := instr + hydr + elec + avion + aircond + apu
 	// Furnishings: 0.0577 Nc^0.1 Wc^0.393 Sf^0.75 (Wc = baggage, 20 kg per passenger)
