@@ -26,7 +26,7 @@ type Options struct {
 	// in the provenance (for example the couplet command's version).
 	ToolVersion string
 	// BatchSize is the number of evaluations committed together; default
-	// 256.
+	// 4096 (the flush interval bounds what a crash can lose).
 	BatchSize int
 	// FlushInterval commits the pending evaluations when this long has
 	// passed since the last commit (checked as each evaluation arrives);
@@ -47,7 +47,7 @@ type Options struct {
 // normalized fills in the defaults and checks the values.
 func (o Options) normalized() (Options, error) {
 	if o.BatchSize == 0 {
-		o.BatchSize = 256
+		o.BatchSize = 4096
 	}
 	if o.FlushInterval == 0 {
 		o.FlushInterval = 250 * time.Millisecond
