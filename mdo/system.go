@@ -2,6 +2,7 @@ package mdo
 
 import (
 	"fmt"
+	"math"
 	"sort"
 	"strings"
 
@@ -20,12 +21,14 @@ import (
 type System struct {
 	discs    []Discipline
 	vars     *VarTable
-	producer []int   // variable -> producing discipline, or -1
-	inIdx    [][]int // discipline -> input variable indices
-	outIdx   [][]int // discipline -> output variable indices
-	inSpec   [][]Var // discipline -> declared input specs (ranges checked)
-	groups   []group // execution order
-	params   []int   // variables nobody produces
+	producer []int       // variable -> producing discipline, or -1
+	inIdx    [][]int     // discipline -> input variable indices
+	outIdx   [][]int     // discipline -> output variable indices
+	inSpec   [][]Var     // discipline -> declared input specs (ranges checked)
+	inLo     [][]float64 // discipline -> input lower bounds (−MaxFloat64 if open)
+	inHi     [][]float64 // discipline -> input upper bounds (+MaxFloat64 if open)
+	groups   []group     // execution order
+	params   []int       // variables nobody produces
 	settings []SolverSettings
 }
 
@@ -100,6 +103,15 @@ func NewSystem(ds ...Discipline) (*System, error) {
 		}
 		s.inIdx = append(s.inIdx, ins)
 		s.inSpec = append(s.inSpec, append([]Var(nil), d.Inputs()...))
+		lo, hi := make([]float64, len(ins)), make([]float64, len(ins))
+		for k, v := range d.Inputs() {
+			lo[k], hi[k] = v.Min, v.Max
+			if v.Unbounded() {
+				lo[k], hi[k] = -math.MaxFloat64, math.MaxFloat64
+			}
+		}
+		s.inLo = append(s.inLo, lo)
+		s.inHi = append(s.inHi, hi)
 	}
 	vt, err := NewVarTable(specs...)
 	if err != nil {

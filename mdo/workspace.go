@@ -211,21 +211,28 @@ func (w *Workspace) ConsistencyResiduals(dst []float64) {
 	}
 }
 
-// gather copies discipline d's inputs into its buffer, checking ranges.
+// gather copies discipline d's inputs into its buffer, checking ranges
+// (one comparison pair per input: NaN and ±Inf fail it too).
 func (w *Workspace) gather(d int) error {
 	in := w.inBuf[d]
-	spec := w.sys.inSpec[d]
+	lo, hi := w.sys.inLo[d], w.sys.inHi[d]
 	for k, v := range w.sys.inIdx[d] {
 		x := w.val[v]
-		if !spec[k].InRange(x) {
-			if math.IsNaN(x) || math.IsInf(x, 0) {
-				return &NonFiniteError{Discipline: w.sys.Producer(spec[k].Name), Var: spec[k].Name, Value: x}
-			}
-			return &RangeError{Discipline: w.sys.discs[d].Name(), Var: spec[k].Name, Value: x, Min: spec[k].Min, Max: spec[k].Max, Unit: spec[k].Unit}
+		if !(x >= lo[k] && x <= hi[k]) {
+			return w.inputError(d, k, x)
 		}
 		in[k] = x
 	}
 	return nil
+}
+
+// inputError builds the error for input k of discipline d.
+func (w *Workspace) inputError(d, k int, x float64) error {
+	spec := w.sys.inSpec[d][k]
+	if math.IsNaN(x) || math.IsInf(x, 0) {
+		return &NonFiniteError{Discipline: w.sys.Producer(spec.Name), Var: spec.Name, Value: x}
+	}
+	return &RangeError{Discipline: w.sys.discs[d].Name(), Var: spec.Name, Value: x, Min: spec.Min, Max: spec.Max, Unit: spec.Unit}
 }
 
 // compute runs discipline d on its gathered inputs into its output buffer.
