@@ -17,9 +17,10 @@ package disciplines
 // Closure: every W0-dependent term is a power law of the design gross
 // mass W0 (the landing mass and the fuel are fixed fractions of W0 given
 // by the mission), so W0 = Σ Ci·W0^ei + (fixed masses) + φ·W0 is solved by
-// Newton's method inside Compute; the residual is convex in W0 with one
-// root, so the iteration converges (monotonically once it is to the right
-// of the root).
+// Newton's method inside Compute; the residual is convex in W0, negative
+// at zero, with one positive root, so the iteration (doubling W0 while the
+// slope is not positive) converges, monotonically once it is to the right
+// of the root.
 //
 // Forward-sweep penalty (modelling assumption, no source): a forward-swept
 // wing (Λ < 0) is stiffened against bending–torsion divergence by
@@ -590,7 +591,10 @@ func (w *Weights) Compute(in, out []float64) error {
 		f := a*w0 - sum - fixed
 		df := a - dsum/w0
 		if !(df > 0) {
-			return inputErr("mass.takeoff", w0, "kg", "a converged mass closure (the empty mass grows faster than the take-off mass)")
+			// left of the minimum of the convex residual: the root lies to
+			// the right
+			w0 *= 2
+			continue
 		}
 		step := f / df
 		if step > 0.9*w0 {
