@@ -127,7 +127,7 @@ func (o *RunOutputs) WriteArtifacts(dir string, rec *RunRecord) error {
 		if err != nil {
 			return err
 		}
-		if err := st.WriteCSV(f); err != nil {
+		if err := store.WriteCSV(f, st.Columns(), evs); err != nil {
 			f.Close()
 			return err
 		}

@@ -1,0 +1,63 @@
+package cell_test
+
+import (
+	"context"
+	"fmt"
+	"os"
+	"path/filepath"
+
+	"couplet/mdo"
+	"couplet/repl/cell"
+)
+
+// A script declares its seed with cell.Seed; `couplet run --seed N`
+// overrides it.
+func ExampleEnv_Seed() {
+	plain := cell.NewEnv(cell.Host{})
+	overridden := cell.NewEnv(cell.Host{Seed: 42, SeedSet: true})
+	fmt.Println(plain.Seed(7), overridden.Seed(7))
+	// Output: 7 42
+}
+
+// cell.Attach readies a study for the run: seed override, progress,
+// recorder and the script text for provenance.
+func ExampleEnv_Attach() {
+	env := cell.NewEnv(cell.Host{Seed: 9, SeedSet: true, Script: func() string { return "// the study" }})
+	st, err := mdo.SellarStudy(mdo.MDF)
+	if err != nil {
+		panic(err)
+	}
+	if err := env.Attach(st); err != nil {
+		panic(err)
+	}
+	fmt.Println(st.Seed, st.Script)
+	// Output: 9 // the study
+}
+
+// cell.Context is cancelled when the user presses Ctrl-C or the run's
+// time limit passes; pass it to optimisers.
+func ExampleEnv_Context() {
+	ctx, cancel := context.WithCancel(context.Background())
+	env := cell.NewEnv(cell.Host{Context: func() context.Context { return ctx }})
+	cancel()
+	fmt.Println(env.Context().Err())
+	// Output: context canceled
+}
+
+// cell.WriteFile writes into the study's output folder and refuses paths.
+func ExampleEnv_WriteFile() {
+	dir, err := os.MkdirTemp("", "cell-example")
+	if err != nil {
+		panic(err)
+	}
+	defer os.RemoveAll(dir)
+	env := cell.NewEnv(cell.Host{OutDir: dir})
+	fmt.Println(env.WriteFile("wing.csv", []byte("area,span\n115,18.6\n")))
+	_, err = os.Stat(filepath.Join(dir, "wing.csv"))
+	fmt.Println(err)
+	fmt.Println(env.WriteFile("../escape.txt", nil))
+	// Output:
+	// <nil>
+	// <nil>
+	// cell: file name "../escape.txt" is not allowed: use a plain name such as "wing.csv"
+}
