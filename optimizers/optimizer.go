@@ -156,3 +156,17 @@ func (r *run) finish(stop string, err error) (*mdo.Result, error) {
 
 // clip01 clips u into [0, 1].
 func clip01(u float64) float64 { return math.Max(0, math.Min(1, u)) }
+
+// Every method implements the contract.
+var (
+	_ Optimizer = NelderMead{}
+	_ Optimizer = CMAES{}
+	_ Optimizer = GA{}
+	_ Optimizer = DifferentialEvolution{}
+	_ Optimizer = ParticleSwarm{}
+	_ Optimizer = NSGA2{}
+	_ Optimizer = RandomDesign{}
+	_ Optimizer = LatinHypercube{}
+	_ Optimizer = Halton{}
+	_ Optimizer = FullFactorial{}
+)
