@@ -321,7 +321,7 @@ func (s *Store) flush() error {
 		s.err = fmt.Errorf("store: %s: committing %d evaluations: %w", s.path, len(s.pending), err)
 		return s.err
 	}
-	s.rows += len(s.pending) // INSERT OR REPLACE of an existing id is rare; Rows() recounts on open
+	s.rows += len(s.pending) // a replaced row counts too until End recounts
 	clear(s.pending)
 	s.pending = s.pending[:0]
 	s.pendingIt = s.pendingIt[:0]
@@ -412,6 +412,11 @@ func (s *Store) End(r *mdo.Result) error {
 			return err
 		}
 		if _, err := s.conn.ExecContext(ctx, `UPDATE sessions SET ended = ? WHERE n = ?`, now.Format(time.RFC3339Nano), s.session); err != nil {
+			return err
+		}
+		// recount: a replaced row (an evaluation ID recorded twice) was
+		// counted as new by flush
+		if err := s.conn.QueryRowContext(ctx, `SELECT count(*) FROM evaluation_data`).Scan(&s.rows); err != nil {
 			return err
 		}
 		if r == nil {

@@ -553,3 +553,33 @@ func TestCreateIgnoresStaleLog(t *testing.T) {
 		t.Errorf("a new store picked up %d rows of a stale log", n.Rows())
 	}
 }
+
+func TestSameIDRecordedTwice(t *testing.T) {
+	s, err := Create(filepath.Join(t.TempDir(), "twice.db"), Options{BatchSize: 1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer s.Close()
+	if err := s.Begin(syntheticRun()); err != nil {
+		t.Fatal(err)
+	}
+	var a, b mdo.Evaluation
+	syntheticEval(&a, 4)
+	syntheticEval(&b, 5)
+	b.ID = 4 // a resumed run that diverged re-uses the number
+	for _, e := range []*mdo.Evaluation{&a, &b} {
+		if err := s.Record(e); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if err := s.End(nil); err != nil {
+		t.Fatal(err)
+	}
+	evs, err := s.Evaluations()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if s.Rows() != 1 || len(evs) != 1 || sameEvaluation(evs[0], &b) != "" {
+		t.Errorf("rows %d, %d evaluations; want the later record of ID 4 alone", s.Rows(), len(evs))
+	}
+}
