@@ -583,3 +583,29 @@ func TestSameIDRecordedTwice(t *testing.T) {
 		t.Errorf("rows %d, %d evaluations; want the later record of ID 4 alone", s.Rows(), len(evs))
 	}
 }
+
+func TestPragmas(t *testing.T) {
+	tests := []struct {
+		name    string
+		durable bool
+		sync    int // PRAGMA synchronous: 1 NORMAL, 2 FULL
+	}{{"default", false, 1}, {"durable", true, 2}}
+	for _, tc := range tests {
+		s, err := Create(filepath.Join(t.TempDir(), "p.db"), Options{Durable: tc.durable})
+		if err != nil {
+			t.Fatal(err)
+		}
+		var mode string
+		var sync int
+		if err := s.conn.QueryRowContext(context.Background(), "PRAGMA journal_mode").Scan(&mode); err != nil {
+			t.Fatal(err)
+		}
+		if err := s.conn.QueryRowContext(context.Background(), "PRAGMA synchronous").Scan(&sync); err != nil {
+			t.Fatal(err)
+		}
+		s.Close()
+		if mode != "wal" || sync != tc.sync {
+			t.Errorf("%s: journal_mode %q, synchronous %d; want wal, %d", tc.name, mode, sync, tc.sync)
+		}
+	}
+}
