@@ -166,16 +166,18 @@ func TestTerminalSession(t *testing.T) {
 	tm.expect(`true\r\n`)
 	tm.expect(`c8> `)
 	// Ctrl-C stops a runaway loop (after the grace period) and the session goes on.
-	tm.send("for {\r")
+	tm.send("import \"fmt\"\r")
+	tm.expect(`c8> `)
+	tm.send("fmt.Println(\"spinning\"); for {\r")
 	tm.send("}\r")
-	time.Sleep(300 * time.Millisecond)
+	tm.expect(`spinning`)
 	tm.send("\x03")
 	tm.expect(`cancelling the cell`)
-	tm.expect(`cell 8, line 1: stopped: interrupted`)
-	tm.expect(`c9> `)
+	tm.expect(`cell 9, line 1: stopped: interrupted`)
+	tm.expect(`c10> `)
 	tm.send("6 * 7\r")
 	tm.expect(`42\r\n`)
-	tm.expect(`c10> `)
+	tm.expect(`c11> `)
 	// Ctrl-C twice at an empty prompt leaves cleanly.
 	tm.send("\x03")
 	tm.expect(`press Ctrl-C again`)
@@ -189,7 +191,8 @@ func TestTerminalInterruptsOptimisation(t *testing.T) {
 	tm := startTerm(t)
 	tm.expect(`c1> `)
 	tm.send("@replay ../../testdata/slow_optimisation.study\r")
-	time.Sleep(1 * time.Second)
+	// The progress line shows while the optimiser runs.
+	tm.expect(`Nelder-Mead iteration \d+  best`)
 	tm.send("\x03")
 	// The optimiser returns its best point so far and the cell ends.
 	tm.expect(`cancelled`)
