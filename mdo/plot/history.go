@@ -16,7 +16,8 @@ import (
 // the best feasible objective so far; below, the constraint violation of
 // the best point so far and the best and worst violation in each block
 // of evaluations. evs are the run's evaluations in any order (they are
-// taken by ID).
+// taken by ID). Beyond 4000 evaluations the markers are thinned evenly;
+// the lines are exact.
 func History(r *mdo.Result, evs []*mdo.Evaluation) (*Figure, error) {
 	if r == nil || len(r.Objectives) == 0 {
 		return nil, fmt.Errorf("plot: History needs a result with an objective")
@@ -30,23 +31,37 @@ func History(r *mdo.Result, evs []*mdo.Evaluation) (*Figure, error) {
 
 	var feas, infeas, bestLine, bestViol plotter.XYs
 	var best *mdo.Evaluation
+	step := thinStep(len(ordered), maxScatterPoints)
 	for i, e := range ordered {
 		n := float64(i + 1)
-		if len(e.Objectives) > 0 && finite(e.Objectives[0]) {
+		if i%step == 0 && len(e.Objectives) > 0 && finite(e.Objectives[0]) {
 			if e.Feasible {
 				feas = append(feas, plotter.XY{X: n, Y: e.Objectives[0]})
 			} else {
 				infeas = append(infeas, plotter.XY{X: n, Y: e.Objectives[0]})
 			}
 		}
-		if mdo.Better(e, best) {
+		changed := mdo.Better(e, best)
+		if changed {
+			// the best-so-far lines are steps: a point where they change
+			// and one before it keep them exact with few vertices
+			if best != nil && i > 0 {
+				if best.Feasible {
+					bestLine = append(bestLine, plotter.XY{X: n - 1, Y: best.Objectives[0]})
+				}
+				if finite(best.Violation) {
+					bestViol = append(bestViol, plotter.XY{X: n - 1, Y: best.Violation})
+				}
+			}
 			best = e
 		}
-		if best.Feasible {
-			bestLine = append(bestLine, plotter.XY{X: n, Y: best.Objectives[0]})
-		}
-		if finite(best.Violation) {
-			bestViol = append(bestViol, plotter.XY{X: n, Y: best.Violation})
+		if changed || i == len(ordered)-1 {
+			if best.Feasible {
+				bestLine = append(bestLine, plotter.XY{X: n, Y: best.Objectives[0]})
+			}
+			if finite(best.Violation) {
+				bestViol = append(bestViol, plotter.XY{X: n, Y: best.Violation})
+			}
 		}
 	}
 	top := newPlot("", "evaluations", ylab)
@@ -102,6 +117,18 @@ func History(r *mdo.Result, evs []*mdo.Evaluation) (*Figure, error) {
 		top.Draw(cs[0][0])
 		bottom.Draw(cs[1][0])
 	}), nil
+}
+
+// maxScatterPoints caps the points drawn as markers in one plot; larger
+// runs are thinned evenly so that the SVG stays small.
+const maxScatterPoints = 4000
+
+// thinStep returns the stride that keeps at most max of n points.
+func thinStep(n, max int) int {
+	if n <= max {
+		return 1
+	}
+	return (n + max - 1) / max
 }
 
 // byID returns the evaluations sorted by ID (nil entries dropped).

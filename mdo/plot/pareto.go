@@ -12,7 +12,8 @@ import (
 
 // Pareto draws the first two objectives of every evaluation and the
 // Pareto front (the result's front, or the non-dominated feasible points
-// of evs when the result has none).
+// of evs when the result has none). Beyond 4000 evaluations the
+// dominated and infeasible points are thinned evenly.
 func Pareto(r *mdo.Result, evs []*mdo.Evaluation) (*Figure, error) {
 	if r == nil || len(r.Objectives) < 2 {
 		n := 0
@@ -32,7 +33,11 @@ func Pareto(r *mdo.Result, evs []*mdo.Evaluation) (*Figure, error) {
 		inFront[e] = true
 	}
 	var feas, infeas plotter.XYs
-	for _, e := range evs {
+	step := thinStep(len(evs), maxScatterPoints)
+	for k, e := range evs {
+		if k%step != 0 && !inFront[e] {
+			continue
+		}
 		if inFront[e] || len(e.Objectives) < 2 || !finite(e.Objectives[0]) || !finite(e.Objectives[1]) {
 			continue
 		}

@@ -287,3 +287,33 @@ func TestDSMData(t *testing.T) {
 		t.Errorf("groups = %v, want [[0 1]]", d.Groups)
 	}
 }
+
+func TestLargeRunsAreThinned(t *testing.T) {
+	// 20 000 synthetic evaluations: the markers are thinned, the best
+	// line stays exact (it ends at the true best)
+	r, evs := sellarRun(t, 3)
+	var many []*mdo.Evaluation
+	for i := 0; i < 20000; i++ {
+		e := *evs[i%len(evs)]
+		e.ID = i
+		e.Objectives = []float64{1000 - float64(i)/100}
+		e.F = e.Objectives
+		e.Feasible, e.Violation = true, 0
+		many = append(many, &e)
+	}
+	f, err := History(r, many)
+	if err != nil {
+		t.Fatal(err)
+	}
+	doc, err := f.SVG()
+	if err != nil {
+		t.Fatal(err)
+	}
+	svgTexts(t, f.Name, doc)
+	if len(doc) > 3<<20 {
+		t.Errorf("history of 20 000 evaluations is %d bytes of SVG, want under 3 MB", len(doc))
+	}
+	if thinStep(20000, maxScatterPoints) != 5 || thinStep(4000, maxScatterPoints) != 1 {
+		t.Errorf("thinStep(20000) = %d, thinStep(4000) = %d; want 5 and 1", thinStep(20000, maxScatterPoints), thinStep(4000, maxScatterPoints))
+	}
+}

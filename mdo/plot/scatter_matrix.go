@@ -61,7 +61,8 @@ func studyColumns(r *mdo.Result, evs []*mdo.Evaluation, maxDesign int) []column 
 // ScatterMatrix draws the design-of-experiments scatter matrix: every
 // pair of design variables and the first objective against each other,
 // feasible and infeasible points apart, with each variable's histogram on
-// the diagonal. At most the first six design variables are shown.
+// the diagonal. At most the first six design variables are shown, and at
+// most 1000 points per panel (thinned evenly; the histograms count all).
 func ScatterMatrix(r *mdo.Result, evs []*mdo.Evaluation) (*Figure, error) {
 	if r == nil || len(r.Design) == 0 {
 		return nil, fmt.Errorf("plot: ScatterMatrix needs a result with design variables")
@@ -107,7 +108,11 @@ func ScatterMatrix(r *mdo.Result, evs []*mdo.Evaluation) (*Figure, error) {
 			} else {
 				p.Y.Min, p.Y.Max = cols[i].lo, cols[i].hi
 				var feas, infeas plotter.XYs
-				for _, e := range evs {
+				step := thinStep(len(evs), maxScatterPoints/4)
+				for k, e := range evs {
+					if k%step != 0 {
+						continue
+					}
 					x, y := cols[j].value(e), cols[i].value(e)
 					if !finite(x) || !finite(y) {
 						continue
