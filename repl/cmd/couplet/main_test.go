@@ -364,3 +364,40 @@ func TestRunShowsProgressOnTerminalOnly(t *testing.T) {
 		t.Errorf("exit %d; output %q %q should hold no progress", code, out, errs)
 	}
 }
+
+func TestOtherCommands(t *testing.T) {
+	tests := []struct {
+		name    string
+		args    []string
+		stdin   string
+		code    int
+		want    []string
+		notWant []string
+	}{
+		{"version", []string{"version"}, "", 0, []string{"couplet 0.1.0"}, nil},
+		{"imports in the sandbox", []string{"imports"}, "", 0, []string{"couplet/mdo", "couplet/optimizers", "couplet/disciplines", "couplet/repl/cell", "math"}, []string{"os\n", "os/exec"}},
+		{"imports trusted", []string{"imports", "--trust-script"}, "", 0, []string{"os\n", "os/exec", "math"}, nil},
+		{"help", []string{"help"}, "", 0, []string{"couplet run FILE.study --out DIR", "airworthiness"}, nil},
+		{"piped session", nil, "x := 2\nx * 21\n@quit\nx\n", 0, []string{"42\n"}, []string{"c1> "}},
+		{"unexpected argument", []string{"--out", "d", "extra"}, "", 2, nil, nil},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			var out, errb bytes.Buffer
+			code := run(tc.args, strings.NewReader(tc.stdin), &out, &errb)
+			if code != tc.code {
+				t.Errorf("exit %d, want %d (stderr %q)", code, tc.code, errb.String())
+			}
+			for _, w := range tc.want {
+				if !strings.Contains(out.String(), w) {
+					t.Errorf("output lacks %q:\n%s", w, out.String())
+				}
+			}
+			for _, w := range tc.notWant {
+				if strings.Contains(out.String(), w) {
+					t.Errorf("output has %q:\n%s", w, out.String())
+				}
+			}
+		})
+	}
+}
