@@ -14,33 +14,45 @@ import (
 	"couplet/mdo"
 )
 
-// nOut is the number of outputs of the synthetic run.
-var nOut = 24
+// shape is the size of a synthetic run.
+type shape struct{ design, cons, outputs int }
 
-// syntheticRun describes a run shaped like a small aircraft study: 6
-// design variables, 1 objective, 4 constraints, 24 outputs.
-func syntheticRun() mdo.RunInfo {
+// Run shapes: the Sellar problem's, a small aircraft study's and a wide one.
+var (
+	sellarShape   = shape{3, 2, 8}
+	aircraftShape = shape{6, 4, 24}
+	wideShape     = shape{10, 8, 100}
+)
+
+// syntheticRunOf describes a run of the given shape with one objective.
+func syntheticRunOf(sh shape) mdo.RunInfo {
 	info := mdo.RunInfo{Study: "bench", Script: "// bench", Optimizer: "synthetic", Seed: 1, Started: time.Now()}
-	for k := 0; k < 6; k++ {
+	for k := 0; k < sh.design; k++ {
 		info.Design = append(info.Design, mdo.DesignSpec{Name: fmt.Sprintf("wing.x%d", k), Unit: "m", Lower: 0, Upper: 10})
 	}
 	info.Objectives = []string{"mass.takeoff"}
-	for k := 0; k < 4; k++ {
+	for k := 0; k < sh.cons; k++ {
 		info.Constraints = append(info.Constraints, fmt.Sprintf("perf.c%d", k))
 	}
-	for k := 0; k < nOut; k++ {
+	for k := 0; k < sh.outputs; k++ {
 		info.Outputs = append(info.Outputs, mdo.Var{Name: fmt.Sprintf("out.v%d", k), Unit: "kg"})
 	}
 	return info
 }
 
-// syntheticEval fills an evaluation of syntheticRun with id i.
-func syntheticEval(e *mdo.Evaluation, i int) {
+// syntheticRun is the aircraft-shaped run used by the tests.
+func syntheticRun() mdo.RunInfo { return syntheticRunOf(aircraftShape) }
+
+// syntheticEval fills an evaluation of an aircraft-shaped run with id i.
+func syntheticEval(e *mdo.Evaluation, i int) { syntheticEvalOf(e, i, aircraftShape) }
+
+// syntheticEvalOf fills an evaluation of a run of shape sh with id i.
+func syntheticEvalOf(e *mdo.Evaluation, i int, sh shape) {
 	if e.X == nil {
-		e.X, e.Design = make([]float64, 6), make([]float64, 6)
+		e.X, e.Design = make([]float64, sh.design), make([]float64, sh.design)
 		e.Objectives, e.F = make([]float64, 1), make([]float64, 1)
-		e.Constraints, e.Margins, e.G = make([]float64, 4), make([]float64, 4), make([]float64, 4)
-		e.Outputs = make([]float64, nOut)
+		e.Constraints, e.Margins, e.G = make([]float64, sh.cons), make([]float64, sh.cons), make([]float64, sh.cons)
+		e.Outputs = make([]float64, sh.outputs)
 	}
 	e.ID = i
 	f := float64(i)
@@ -62,15 +74,21 @@ func syntheticEval(e *mdo.Evaluation, i int) {
 }
 
 // BenchmarkRecord measures the amortised cost of recording one
-// evaluation (batches of 256 committed in WAL mode).
-//
-// The run has 6 design variables, 1 objective, 4 constraints and 24
-// outputs; COUPLET_BENCH_OUTPUTS changes the number of outputs and
-// COUPLET_BENCH_BATCH the batch size.
+// evaluation (committed in batches of 4096 in WAL mode) for runs shaped
+// like the Sellar problem (3 design variables, 2 constraints, 8 outputs),
+// a small aircraft study (6, 4, 24) and a wide study (10, 8, 100).
+// COUPLET_BENCH_BATCH changes the batch size.
 func BenchmarkRecord(b *testing.B) {
-	if v := os.Getenv("COUPLET_BENCH_OUTPUTS"); v != "" {
-		nOut, _ = strconv.Atoi(v)
+	for _, tc := range []struct {
+		name string
+		sh   shape
+	}{{"sellar", sellarShape}, {"aircraft", aircraftShape}, {"wide", wideShape}} {
+		b.Run(tc.name, func(b *testing.B) { benchRecord(b, tc.sh) })
 	}
+}
+
+// benchRecord records b.N evaluations of a run of shape sh.
+func benchRecord(b *testing.B, sh shape) {
 	path := filepath.Join(b.TempDir(), "bench.db")
 	batch, _ := strconv.Atoi(os.Getenv("COUPLET_BENCH_BATCH"))
 	s, err := Create(path, Options{ToolVersion: "bench", BatchSize: batch})
@@ -78,7 +96,7 @@ func BenchmarkRecord(b *testing.B) {
 		b.Fatal(err)
 	}
 	defer s.Close()
-	if err := s.Begin(syntheticRun()); err != nil {
+	if err := s.Begin(syntheticRunOf(sh)); err != nil {
 		b.Fatal(err)
 	}
 	// the store keeps the evaluations of a batch by reference until it
@@ -89,7 +107,7 @@ func BenchmarkRecord(b *testing.B) {
 	b.ResetTimer()
 	for i := 0; i < b.N; i++ {
 		e := &evs[i%len(evs)]
-		syntheticEval(e, i)
+		syntheticEvalOf(e, i, sh)
 		if err := s.Record(e); err != nil {
 			b.Fatal(err)
 		}
@@ -111,8 +129,9 @@ func cpuTime() time.Duration {
 	return time.Duration(ru.Utime.Nano() + ru.Stime.Nano())
 }
 
-// BenchmarkRecordMillion records a million evaluations and reports the
-// peak heap and the peak resident set size as metrics.
+// BenchmarkRecordMillion records a million evaluations of the
+// aircraft-shaped run (6 design variables, 4 constraints, 24 outputs) and
+// reports the peak heap and the peak resident set size as metrics.
 func BenchmarkRecordMillion(b *testing.B) {
 	const n = 1_000_000
 	for it := 0; it < b.N; it++ {
