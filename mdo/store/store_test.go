@@ -609,3 +609,44 @@ func TestPragmas(t *testing.T) {
 		}
 	}
 }
+
+func TestAwkwardNames(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "names.db")
+	s, err := Create(path, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	info := syntheticRunOf(shape{2, 2, 2})
+	// labels of function objectives and constraints are free text
+	info.Objectives = []string{`cost "total"; DROP TABLE run`}
+	info.Constraints = []string{"Range", "range"}
+	if err := s.Begin(info); err != nil {
+		t.Fatal(err)
+	}
+	var e mdo.Evaluation
+	syntheticEvalOf(&e, 0, shape{2, 2, 2})
+	e.Constraints = []float64{1, 2}
+	if err := s.Record(&e); err != nil {
+		t.Fatal(err)
+	}
+	if err := s.End(nil); err != nil {
+		t.Fatal(err)
+	}
+	s.Close()
+	db, err := sql.Open("sqlite", "file:"+path+"?mode=ro")
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer db.Close()
+	var obj, c1, c2 float64
+	if err := db.QueryRow(`SELECT "objective:cost ""total""; DROP TABLE run", "constraint:Range", "constraint:range#2" FROM evaluations`).Scan(&obj, &c1, &c2); err != nil {
+		t.Fatal(err)
+	}
+	if obj != e.Objectives[0] || c1 != 1 || c2 != 2 {
+		t.Errorf("read %g, %g, %g; want %g, 1, 2", obj, c1, c2, e.Objectives[0])
+	}
+	var n int
+	if err := db.QueryRow(`SELECT count(*) FROM run`).Scan(&n); err != nil || n != 1 {
+		t.Errorf("run table: %d rows, %v", n, err)
+	}
+}
