@@ -19,21 +19,24 @@ package disciplines
 // Aft sweep (tanΛ > 0): upward bending washes the tips out and relieves
 // the load, raising q_D, beyond some sweep to no divergence at all;
 // forward sweep washes them in and lowers q_D. The equations are solved
-// by a three-term Rayleigh–Ritz/Galerkin method: twist sin(πη/2) (the
+// by a four-term Rayleigh–Ritz/Galerkin method: twist sin(πη/2) (the
 // exact straight-wing mode, so an unswept wing gives the classical
-// q_D = π²·GJ/(4·ℓ²·c·e·a0) exactly) and bending η², η³ (η = y/ℓ). The
-// divergence dynamic pressure is the smallest positive real q of
-// det(K − q·A) = 0.
+// q_D = π²·GJ/(4·ℓ²·c·e·a0) exactly) and bending η², η³, η⁴ (η = y/ℓ;
+// the torsionally rigid forward-swept beam comes within 0.05 % of its
+// exact eigenvalue). The divergence dynamic pressure is the smallest
+// positive real q of det(K − q·A) = 0.
 
 import "math"
 
-// Integrals of the Ritz shapes f = sin(aη), a = π/2, g1 = η², g2 = η³
-// over η in [0, 1]: ∫η·f = 1/a², ∫η²·f = 2/a² − 2/a³, ∫η³·f = 3/a² − 6/a⁴.
+// Integrals of the Ritz shapes f = sin(aη), a = π/2, and g = η², η³, η⁴
+// over η in [0, 1]: ∫η·f = 1/a², ∫η²·f = 2/a² − 2/a³,
+// ∫η³·f = 3/a² − 6/a⁴, ∫η⁴·f = 4/a² − 12·(∫η²·f)/a².
 const (
 	ritzA  = math.Pi / 2
 	ritzI1 = 1 / (ritzA * ritzA)
 	ritzI2 = 2/(ritzA*ritzA) - 2/(ritzA*ritzA*ritzA)
 	ritzI3 = 3/(ritzA*ritzA) - 6/(ritzA*ritzA*ritzA*ritzA)
+	ritzI4 = 4/(ritzA*ritzA) - 12*ritzI2/(ritzA*ritzA)
 )
 
 // NoDivergence is the divergence dynamic pressure [Pa] reported when the
@@ -96,83 +99,198 @@ func (b SweptBeam) DivergenceDynamicPressure() (float64, error) {
 	l := b.Length
 	se := k * l * l * b.Offset / b.GJ // torsion-row factor [1/Pa]
 	sb := k * l * l * l / b.EI        // bending-row factor [1/Pa]
-	// A (generalised aerodynamic stiffness per unit q) in rows θ, b1, b2
-	a := [3][3]float64{
-		{se / 2, -se * t * 2 * ritzI1, -se * t * 3 * ritzI2},
-		{sb * ritzI2, -sb * t / 2, -sb * t * 3 / 5},
-		{sb * ritzI3, -sb * t * 2 / 5, -sb * t / 2},
+	// A (generalised aerodynamic stiffness per unit q) in rows θ, b2, b3,
+	// b4 (bending shapes η^k): ∫f·g′ = k·∫η^(k−1)·f, ∫g_j·g_l′ = k_l/(k_j + k_l)
+	fi := [3]float64{2 * ritzI1, 3 * ritzI2, 4 * ritzI3} // ∫f·g′
+	gi := [3]float64{ritzI2, ritzI3, ritzI4}             // ∫g·f
+	var a [4][4]float64
+	a[0][0] = se / 2
+	for l := 0; l < 3; l++ {
+		a[0][l+1] = -se * t * fi[l]
 	}
-	// K⁻¹: torsion 8/π²; bending [[4, 6], [6, 12]]⁻¹ = [[1, −1/2], [−1/2, 1/3]]
-	var m [3][3]float64
-	kt := 8 / (math.Pi * math.Pi)
 	for j := 0; j < 3; j++ {
-		m[0][j] = kt * a[0][j]
-		m[1][j] = a[1][j] - 0.5*a[2][j]
-		m[2][j] = -0.5*a[1][j] + a[2][j]/3
+		kj := float64(j + 2)
+		a[j+1][0] = sb * gi[j]
+		for l := 0; l < 3; l++ {
+			kl := float64(l + 2)
+			a[j+1][l+1] = -sb * t * kl / (kj + kl)
+		}
+	}
+	// K⁻¹: torsion 8/π²; bending ∫g_j″g_l″ = [[4, 6, 8], [6, 12, 18], [8, 18, 28.8]],
+	// whose inverse is [[9/4, −3, 5/4], [−3, 16/3, −5/2], [5/4, −5/2, 5/4]]
+	kinv := [3][3]float64{{2.25, -3, 1.25}, {-3, 16.0 / 3, -2.5}, {1.25, -2.5, 1.25}}
+	var m [4][4]float64
+	kt := 8 / (math.Pi * math.Pi)
+	for c := 0; c < 4; c++ {
+		m[0][c] = kt * a[0][c]
+		for r := 0; r < 3; r++ {
+			m[r+1][c] = kinv[r][0]*a[1][c] + kinv[r][1]*a[2][c] + kinv[r][2]*a[3][c]
+		}
 	}
 	// largest positive real eigenvalue μ of M; q_D = 1/μ
-	mu := largestPositiveEigen3(m)
+	mu := largestPositiveEigen4(m)
 	if !(mu > 0) {
 		return math.Inf(1), nil
 	}
 	return 1 / mu, nil
 }
 
-// largestPositiveEigen3 returns the largest real eigenvalue of a 3×3
-// matrix if it is positive (0 otherwise), from its characteristic
-// polynomial μ³ − c2·μ² + c1·μ − c0 solved in closed form (Cardano or the
-// trigonometric form) and polished by Newton.
-func largestPositiveEigen3(m [3][3]float64) float64 {
+// cubicRealRoots returns the real roots, ascending, of x³ + b·x² + c·x + d
+// (Cardano's formula or the trigonometric form, each polished by Newton).
+func cubicRealRoots(b, c, d float64) (roots [3]float64, n int) {
+	p := c - b*b/3
+	q := 2*b*b*b/27 - b*c/3 + d
+	disc := q*q/4 + p*p*p/27
+	switch {
+	case disc > 0:
+		sq := math.Sqrt(disc)
+		roots[0] = math.Cbrt(-q/2+sq) + math.Cbrt(-q/2-sq) - b/3
+		n = 1
+	case p == 0:
+		roots[0] = -b / 3
+		n = 1
+	default:
+		rho := 2 * math.Sqrt(-p/3)
+		th := math.Acos(math.Max(-1, math.Min(1, 3*q/(p*rho)))) / 3
+		// cos(th − 2πk/3) for k = 2, 1, 0 ascends for th in [0, π/3]
+		roots[0] = rho*math.Cos(th-4*math.Pi/3) - b/3
+		roots[1] = rho*math.Cos(th-2*math.Pi/3) - b/3
+		roots[2] = rho*math.Cos(th) - b/3
+		n = 3
+	}
+	for k := 0; k < n; k++ {
+		x := roots[k]
+		for it := 0; it < 2; it++ {
+			f := ((x+b)*x+c)*x + d
+			df := (3*x+2*b)*x + c
+			if df == 0 {
+				break
+			}
+			x -= f / df
+		}
+		roots[k] = x
+	}
+	return roots, n
+}
+
+// largestPositiveEigen4 returns the largest real eigenvalue of a 4×4
+// matrix if it is positive (0 otherwise). The characteristic polynomial
+// comes from the Faddeev–LeVerrier recursion; its real roots lie on the
+// monotone pieces between the roots of its derivative (a cubic, solved in
+// closed form), searched from the right by Newton's method safeguarded by
+// bisection.
+func largestPositiveEigen4(m [4][4]float64) float64 {
 	s := 0.0
 	for i := range m {
 		for j := range m[i] {
-			s = math.Max(s, math.Abs(m[i][j]))
+			if v := math.Abs(m[i][j]); v > s {
+				s = v
+			}
 		}
 	}
 	if s == 0 {
 		return 0
 	}
-	var n [3][3]float64
+	var a [4][4]float64
+	inv := 1 / s
 	for i := range m {
 		for j := range m[i] {
-			n[i][j] = m[i][j] / s
+			a[i][j] = m[i][j] * inv
 		}
 	}
-	c2 := n[0][0] + n[1][1] + n[2][2]
-	c1 := n[0][0]*n[1][1] - n[0][1]*n[1][0] + n[0][0]*n[2][2] - n[0][2]*n[2][0] + n[1][1]*n[2][2] - n[1][2]*n[2][1]
-	c0 := n[0][0]*(n[1][1]*n[2][2]-n[1][2]*n[2][1]) - n[0][1]*(n[1][0]*n[2][2]-n[1][2]*n[2][0]) + n[0][2]*(n[1][0]*n[2][1]-n[1][1]*n[2][0])
-	// depressed cubic x = μ − c2/3: x³ + p·x + r = 0
-	p := c1 - c2*c2/3
-	r := -2*c2*c2*c2/27 + c2*c1/3 - c0
-	// largest real root: the single real root of Cardano's formula, or the
-	// first of the trigonometric three
-	var x float64
-	disc := r*r/4 + p*p*p/27
-	switch {
-	case disc > 0:
-		sq := math.Sqrt(disc)
-		x = math.Cbrt(-r/2+sq) + math.Cbrt(-r/2-sq)
-	case p == 0:
-		x = 0
-	default:
-		rho := 2 * math.Sqrt(-p/3)
-		arg := math.Max(-1, math.Min(1, 3*r/(p*rho)))
-		x = rho * math.Cos(math.Acos(arg)/3)
+	// Faddeev–LeVerrier: M1 = I, c3 = −tr(A); Mk = A·Mk−1 + c(5−k)·I,
+	// c(4−k) = −tr(A·Mk)/k; the last step needs only the trace
+	var c [4]float64 // p(μ) = μ⁴ + c[3]μ³ + c[2]μ² + c[1]μ + c[0]
+	c[3] = -(a[0][0] + a[1][1] + a[2][2] + a[3][3])
+	mk := a
+	for i := 0; i < 4; i++ {
+		mk[i][i] += c[3]
 	}
-	best := x + c2/3
-	for it := 0; it < 2; it++ { // Newton polish on the characteristic polynomial
-		f := ((best-c2)*best+c1)*best - c0
-		d := (3*best-2*c2)*best + c1
-		if d == 0 {
-			break
+	for k := 2; k <= 3; k++ {
+		var am [4][4]float64
+		tr := 0.0
+		for i := 0; i < 4; i++ {
+			ai := &a[i]
+			for j := 0; j < 4; j++ {
+				am[i][j] = ai[0]*mk[0][j] + ai[1]*mk[1][j] + ai[2]*mk[2][j] + ai[3]*mk[3][j]
+			}
+			tr += am[i][i]
 		}
-		best -= f / d
+		c[4-k] = -tr / float64(k)
+		mk = am
+		for i := 0; i < 4; i++ {
+			mk[i][i] += c[4-k]
+		}
 	}
-	// eigenvalues this small are round-off of a zero eigenvalue
-	if best < 1e-12 {
+	tr := 0.0
+	for i := 0; i < 4; i++ {
+		tr += a[i][0]*mk[0][i] + a[i][1]*mk[1][i] + a[i][2]*mk[2][i] + a[i][3]*mk[3][i]
+	}
+	c[0] = -tr / 4
+	poly := func(x float64) (float64, float64) {
+		f := (((x+c[3])*x+c[2])*x+c[1])*x + c[0]
+		d := ((4*x+3*c[3])*x+2*c[2])*x + c[1]
+		return f, d
+	}
+	bound := 1.0
+	for _, v := range c {
+		bound = math.Max(bound, 1+math.Abs(v)) // Cauchy bound on the roots
+	}
+	crit, nc := cubicRealRoots(0.75*c[3], 0.5*c[2], 0.25*c[1])
+	// monotone pieces from the right: [crit[nc−1], bound], …, [−bound, crit[0]];
+	// on the first with a sign change, Newton safeguarded by bisection
+	hi := bound
+	for k := nc; k >= 0; k-- {
+		lo := -bound
+		if k > 0 {
+			lo = math.Max(-bound, crit[k-1])
+		}
+		if lo >= hi {
+			continue
+		}
+		flo, _ := poly(lo)
+		fhi, _ := poly(hi)
+		if (flo <= 0) == (fhi <= 0) && flo != 0 {
+			hi = lo
+			continue
+		}
+		x := 0.5 * (lo + hi)
+		for it := 0; it < 100; it++ {
+			f, d := poly(x)
+			if f == 0 {
+				break
+			}
+			if (f <= 0) == (flo <= 0) {
+				lo = x
+			} else {
+				hi = x
+			}
+			next := 0.5 * (lo + hi)
+			if d != 0 {
+				if n := x - f/d; n > lo && n < hi {
+					next = n
+				}
+			}
+			// the polynomial's coefficients are O(1): roots to 1e-12 relative
+			// (1e-14 absolute) are at the round-off of its evaluation
+			if tol := 1e-14 + 1e-12*math.Abs(x); math.Abs(next-x) <= tol || hi-lo <= tol {
+				x = next
+				break
+			}
+			x = next
+		}
+		return positiveOrZero(x * s)
+	}
+	return 0
+}
+
+// positiveOrZero returns x if it is clearly positive (above the round-off
+// of a zero eigenvalue), else 0.
+func positiveOrZero(x float64) float64 {
+	if x < 1e-12 {
 		return 0
 	}
-	return best * s
+	return x
 }
 
 // Rayleigh-equivalent uniform stiffness of a tapered box whose stiffness

@@ -40,7 +40,7 @@ func ExampleSweptBeam_DivergenceDynamicPressure() {
 	}
 	// Output:
 	// sweep   0°: q_D = 135386 Pa
-	// sweep -30°: q_D = 47721 Pa
+	// sweep -30°: q_D = 48383 Pa
 }
 
 // The refined empty-mass-fraction regression, jet-fighter row.
