@@ -384,12 +384,13 @@ func (r *scripted) ReadLine(string) (string, error) {
 func TestComplete(t *testing.T) {
 	s, _, _ := newTest(t, Options{})
 	s.Exec(context.Background(), "import \"couplet/mdo\"\nwingArea := 21.5\nwingSpan := 15.0")
+	s.Exec(context.Background(), "func wingLoading(m float64) float64 { return m / wingArea }\ntype wingSpec struct{}")
 	tests := []struct {
 		text string
 		want []string
 	}{
 		{"x := mdo.Minim", []string{"mdo.Minimize", "mdo.MinimizeFunc"}},
-		{"wing", []string{"wingArea", "wingSpan"}},
+		{"wing", []string{"wingArea", "wingLoading", "wingSpan", "wingSpec"}},
 		{"@sa", []string{"@save"}},
 		{"strings.HasP", []string{"strings.HasPrefix"}},
 		{"cell.Pub", []string{"cell.Publish"}},

@@ -101,6 +101,11 @@ func (s *Session) Complete(text string) []string {
 		for n := range s.Globals() {
 			cands = append(cands, n)
 		}
+		for _, c := range s.cells {
+			if c.Err == nil {
+				cands = append(cands, declaredNames(c.Source)...)
+			}
+		}
 		cands = append(cands, s.packageNames()...)
 	}
 	var out []string
