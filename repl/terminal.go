@@ -58,6 +58,10 @@ type completer struct{ s *Session }
 // Do implements readline.AutoCompleter.
 func (c *completer) Do(line []rune, pos int) ([][]rune, int) {
 	head := string(line[:pos])
+	if strings.TrimSpace(head) == "" {
+		// Tab at the start of a line indents it.
+		return [][]rune{[]rune("\t")}, 0
+	}
 	cands := c.s.Complete(head)
 	word := lastWord(head)
 	var out [][]rune

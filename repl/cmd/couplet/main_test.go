@@ -217,8 +217,18 @@ func TestTerminalSaveAndReplay(t *testing.T) {
 	tm.expect(`c3> `)
 	tm.send("q\r")
 	tm.expect(`6125\r\n`)
+	// Tab at the start of a line indents it rather than completing.
+	tm.send("func half(x float64) float64 {\r")
+	tm.expect(`\| `)
+	tm.send("\treturn x / 2\r")
+	tm.expect(`\| `)
+	tm.send("}\r")
+	tm.expect(`c5> `)
 	tm.send("@save " + path + "\r")
-	tm.expect(`saved 3 cells`)
+	tm.expect(`saved 4 cells`)
+	if b, err := os.ReadFile(path); err != nil || !strings.Contains(string(b), "{\n\treturn x / 2\n}") {
+		t.Errorf("saved study %q (%v) lacks the indented function", b, err)
+	}
 	tm.send("@fresh\r")
 	tm.expect(`fresh session`)
 	tm.send("@replay " + path + "\r")
