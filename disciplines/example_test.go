@@ -35,13 +35,13 @@ func ExampleNewAircraft() {
 	// Output:
 	// design structure matrix: 7 disciplines, 3 groups (row feeds column)
 	//                      1  2  3  4  5  6  7   group
-	//   1 geometry         ■  .  >  .  >  >  .   A
+	//   1 geometry         ■  .  >  .  .  >  >   A
 	//   2 engine_cycle     .  ■  .  >  .  .  .   B
 	//   3 aerodynamics     .  .  ■  >  >  >  >   C coupled, aitken-gauss-seidel
-	//   4 propulsion       .  .  <  ■  >  .  >   C coupled, aitken-gauss-seidel
-	//   5 weights          .  .  <  <  ■  >  >   C coupled, aitken-gauss-seidel
-	//   6 stability        .  .  <  .  .  ■  .   C coupled, aitken-gauss-seidel
-	//   7 mission          .  .  .  .  <  .  ■   C coupled, aitken-gauss-seidel
+	//   4 propulsion       .  .  <  ■  >  >  .   C coupled, aitken-gauss-seidel
+	//   5 mission          .  .  .  .  ■  >  .   C coupled, aitken-gauss-seidel
+	//   6 weights          .  .  <  <  <  ■  >   C coupled, aitken-gauss-seidel
+	//   7 stability        .  .  <  .  .  .  ■   C coupled, aitken-gauss-seidel
 	// converged: true, take-off mass about 40 t, cruise L/D about 10
 }
 
