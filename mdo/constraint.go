@@ -116,6 +116,10 @@ func (c Constraint) validate() error {
 	return nil
 }
 
+// EffectiveScale returns the scale that normalises the constraint: Scale
+// when set, else max(|bound|, 1).
+func (c Constraint) EffectiveScale() float64 { return c.scale() }
+
 // scale returns the normalising scale.
 func (c Constraint) scale() float64 {
 	if c.Scale > 0 {

@@ -119,13 +119,25 @@ func (s *Study) NewEvaluator() (*Evaluator, error) {
 		if tol == 0 {
 			tol = 1e-4
 		}
+		isCoupling := map[string]bool{}
 		for _, v := range sys.CouplingVars() {
-			if v.Unbounded() {
-				return nil, fmt.Errorf("mdo: IDF needs bounds for coupling variable %s; give it a validity range [Min, Max] in its discipline", v.Name)
+			isCoupling[v.Name] = true
+		}
+		for name := range s.CouplingBounds {
+			if !isCoupling[name] {
+				return nil, fmt.Errorf("mdo: coupling bounds given for %s, which is not a coupling variable of the system", name)
+			}
+		}
+		for _, v := range sys.CouplingVars() {
+			lo, hi := v.Min, v.Max
+			if b, ok := s.CouplingBounds[v.Name]; ok {
+				lo, hi = b[0], b[1]
+			} else if v.Unbounded() {
+				return nil, fmt.Errorf("mdo: IDF needs bounds for coupling variable %s; give it a validity range in its discipline or Study.CouplingBounds", v.Name)
 			}
 			i := sys.Index(v.Name)
 			e.coupling = append(e.coupling, i)
-			e.slots = append(e.slots, designSlot{name: v.Name, unit: v.Unit, idx: i, lower: v.Min, upper: v.Max, coupling: true})
+			e.slots = append(e.slots, designSlot{name: v.Name, unit: v.Unit, idx: i, lower: lo, upper: hi, coupling: true})
 			c := EqualTo("consistency."+v.Name, 0, tol)
 			c.Scale = 1
 			e.cons = append(e.cons, c)

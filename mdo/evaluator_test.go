@@ -173,3 +173,20 @@ func TestParetoArchive(t *testing.T) {
 		t.Errorf("front %v", front)
 	}
 }
+
+func TestCouplingBounds(t *testing.T) {
+	st, _ := SellarStudy(IDF)
+	st.CouplingBounds = map[string][2]float64{"y1": {1, 30}, "y2": {1, 30}}
+	ev, err := st.NewEvaluator()
+	if err != nil {
+		t.Fatal(err)
+	}
+	specs := ev.DesignSpecs()
+	if got := specs[3]; got.Name != "y1" || got.Lower != 1 || got.Upper != 30 {
+		t.Errorf("coupling slot %+v", got)
+	}
+	st.CouplingBounds = map[string][2]float64{"x": {0, 1}}
+	if _, err := st.NewEvaluator(); err == nil || !strings.Contains(err.Error(), "not a coupling variable") {
+		t.Errorf("bounds on a parameter accepted: %v", err)
+	}
+}

@@ -13,6 +13,9 @@ import "math"
 // Design bounds are 0 ≤ x ≤ 10, −10 ≤ z1 ≤ 10, 0 ≤ z2 ≤ 10; the published
 // optimum is z = (1.97764, 0), x = 0, y1 = 3.16, y2 = 3.75528, f = 3.18339.
 // Defaults (the usual starting point) are x = 1, z = (5, 2), y1 = y2 = 1.
+// The problem has a second, local optimum near z1 = −1.72 with f ≈ 4.13
+// inside the same bounds; local optimisers started far from the global
+// one may end there.
 func Sellar() []Discipline {
 	x := Var{Name: "x", Description: "local design variable", Default: 1, Min: 0, Max: 10}
 	z1 := Var{Name: "z1", Description: "shared design variable 1", Default: 5, Min: -10, Max: 10}

@@ -69,6 +69,10 @@ type Study struct {
 	// Workers is the number of parallel analyses; 0 means all cores.
 	// Results do not depend on it.
 	Workers int
+	// CouplingBounds overrides, under IDF, the bounds of coupling
+	// variables (name → [lower, upper]); the others take their validity
+	// ranges. Tight, physically sensible bounds shorten the search.
+	CouplingBounds map[string][2]float64
 	// ConsistencyTolerance is the tolerance of the IDF consistency
 	// constraints on the scaled coupling residual; default 1e-4.
 	ConsistencyTolerance float64
@@ -144,6 +148,14 @@ func (s *Study) validate() error {
 			if _, err := s.System.Var(c.Name); err != nil {
 				return fmt.Errorf("mdo: constraint: %w", err)
 			}
+		}
+	}
+	for name, b := range s.CouplingBounds {
+		if _, err := s.System.Var(name); err != nil {
+			return fmt.Errorf("mdo: coupling bounds: %w", err)
+		}
+		if !(b[0] < b[1]) || math.IsInf(b[0], 0) || math.IsInf(b[1], 0) {
+			return fmt.Errorf("mdo: coupling bounds of %s: [%g, %g] must be finite with lower < upper", name, b[0], b[1])
 		}
 	}
 	if s.Workers < 0 {
