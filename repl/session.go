@@ -282,7 +282,7 @@ func (s *Session) exec(ctx context.Context, c *Cell) error {
 			return s.cellError(c, ch, err, trace)
 		}
 		if ch.expr && !ch.quiet {
-			if text, val, ok := formatValue(v); ok {
+			if text, val, ok := formatValue(v); ok && !(ch.call && val == nil) {
 				c.Value = val
 				s.out.writeValue(text)
 			}

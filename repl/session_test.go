@@ -49,6 +49,8 @@ func TestSessionShowsTrailingExpressions(t *testing.T) {
 		{"error value", "import \"errors\"\nerrors.New(\"no lift\")\n", "error: no lift\n"},
 		{"slice", "[]float64{1, 2.5}\n", "[1 2.5]\n"},
 		{"void call shows nothing", "func hush() {}\nhush()\n", ""},
+		{"nil error of a call not shown", "func check() error { return nil }\ncheck()\n", ""},
+		{"nil variable shown", "var e error\ne\n", "<nil>\n"},
 		{"value after print on the same line", "import \"fmt\"\nfmt.Print(\"a\")\n7\n", "a7\n"},
 	}
 	for _, tc := range tests {

@@ -32,6 +32,9 @@ type chunk struct {
 	// shown; quiet when it is a call to a printing function.
 	expr  bool
 	quiet bool
+	// call is set when the expression is a function call: a nil result
+	// (an error that did not happen) is not shown.
+	call bool
 }
 
 // importRef is one import of a cell with the line it is on.
@@ -153,6 +156,7 @@ func splitCell(src string) ([]chunk, []importRef, error) {
 					if es, ok := body[0].(*ast.ExprStmt); ok {
 						c.expr = true
 						c.quiet = isPrintCall(es.X)
+						_, c.call = es.X.(*ast.CallExpr)
 					}
 				}
 			}
