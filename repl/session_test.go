@@ -215,6 +215,9 @@ func TestStudyFileFormat(t *testing.T) {
 	if _, err := ParseStudy(Header() + "\n\n"); err == nil {
 		t.Error("a study file without code parsed without error")
 	}
+	if _, err := ParseStudy(HeaderPrefix + " 2 (couplet 9.0.0)\nx := 1\n"); err == nil || !strings.Contains(err.Error(), "newer couplet") {
+		t.Errorf("a study file of a newer format: error %v", err)
+	}
 }
 
 func TestSandboxRefusesBeforeRunning(t *testing.T) {

@@ -62,6 +62,10 @@ func ParseStudy(text string) (*StudyFile, error) {
 	startLine := 1
 	if len(lines) > 0 && strings.HasPrefix(lines[0], HeaderPrefix) {
 		f.Header = lines[0]
+		var v int
+		if _, err := fmt.Sscanf(strings.TrimPrefix(lines[0], HeaderPrefix), "%d", &v); err == nil && v > FormatVersion {
+			return nil, fmt.Errorf("repl: the study file is in format %d, written by a newer couplet; this is couplet %s, which reads format %d", v, Version, FormatVersion)
+		}
 		lines = lines[1:]
 		startLine = 2
 	}
