@@ -2,7 +2,6 @@ package optimizers
 
 import (
 	"context"
-	"math"
 	"math/rand"
 
 	"couplet/mdo"
@@ -48,20 +47,11 @@ func (DifferentialEvolution) Name() string { return "differential evolution" }
 // validate checks the settings.
 func (o DifferentialEvolution) validate() error {
 	const m = "DifferentialEvolution"
-	if err := checkInt(m, "Population", o.Population, 4); err != nil {
+	if err := checkBudget(m, o.Population, 4, o.Generations, o.MaxEvaluations); err != nil {
 		return err
 	}
-	if err := checkInt(m, "Generations", o.Generations, 1); err != nil {
+	if err := checkEquality(m, o.GradientRate, o.Relax); err != nil {
 		return err
-	}
-	if err := checkInt(m, "MaxEvaluations", o.MaxEvaluations, 1); err != nil {
-		return err
-	}
-	if o.GradientRate > 1 || math.IsNaN(o.GradientRate) {
-		return settingError(m, "GradientRate", o.GradientRate, "must be at most 1 (0 means the default 0.05, negative means none)")
-	}
-	if o.Relax > 1 || math.IsNaN(o.Relax) {
-		return settingError(m, "Relax", o.Relax, "must be at most 1 (0 means the default 0.5, negative means no relaxation)")
 	}
 	if err := checkRange(m, "Weight", o.Weight, 0, 2, true); err != nil {
 		return err

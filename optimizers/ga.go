@@ -2,7 +2,6 @@ package optimizers
 
 import (
 	"context"
-	"math"
 	"math/rand"
 
 	"github.com/MaxHalford/eaopt"
@@ -24,6 +23,7 @@ type GA struct {
 	Generations int
 	// MaxEvaluations caps the evaluations (0: no cap besides
 	// Generations); a generation that would pass it is not run.
+	MaxEvaluations int
 	// GradientRate is the probability that an infeasible offspring of a
 	// study with an equality constraint gets the gradient-based mutation
 	// (up to 3 forward-difference Newton steps on its constraint
@@ -32,8 +32,7 @@ type GA struct {
 	// Relax is the fraction of the generations during which constraints
 	// are relaxed by the ε-level comparison; default 0.5, negative for
 	// Deb's rules throughout.
-	Relax          float64
-	MaxEvaluations int
+	Relax float64
 	// Tournament is the number of contestants per selection; default 2.
 	Tournament int
 	// CrossoverRate is the probability that a pair is crossed; default 0.9.
@@ -54,20 +53,11 @@ func (GA) Name() string { return "GA" }
 // validate checks the settings.
 func (o GA) validate() error {
 	const m = "GA"
-	if err := checkInt(m, "Population", o.Population, 4); err != nil {
+	if err := checkBudget(m, o.Population, 4, o.Generations, o.MaxEvaluations); err != nil {
 		return err
 	}
-	if err := checkInt(m, "Generations", o.Generations, 1); err != nil {
+	if err := checkEquality(m, o.GradientRate, o.Relax); err != nil {
 		return err
-	}
-	if err := checkInt(m, "MaxEvaluations", o.MaxEvaluations, 1); err != nil {
-		return err
-	}
-	if o.GradientRate > 1 || math.IsNaN(o.GradientRate) {
-		return settingError(m, "GradientRate", o.GradientRate, "must be at most 1 (0 means the default 0.05, negative means none)")
-	}
-	if o.Relax > 1 || math.IsNaN(o.Relax) {
-		return settingError(m, "Relax", o.Relax, "must be at most 1 (0 means the default 0.5, negative means no relaxation)")
 	}
 	if err := checkInt(m, "Tournament", o.Tournament, 1); err != nil {
 		return err

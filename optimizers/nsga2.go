@@ -45,13 +45,7 @@ func (NSGA2) Name() string { return "NSGA-II" }
 // validate checks the settings.
 func (o NSGA2) validate() error {
 	const m = "NSGA2"
-	if err := checkInt(m, "Population", o.Population, 4); err != nil {
-		return err
-	}
-	if err := checkInt(m, "Generations", o.Generations, 1); err != nil {
-		return err
-	}
-	if err := checkInt(m, "MaxEvaluations", o.MaxEvaluations, 1); err != nil {
+	if err := checkBudget(m, o.Population, 4, o.Generations, o.MaxEvaluations); err != nil {
 		return err
 	}
 	if err := checkRange(m, "CrossoverRate", o.CrossoverRate, 0, 1, false); err != nil {

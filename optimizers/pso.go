@@ -2,7 +2,6 @@ package optimizers
 
 import (
 	"context"
-	"math"
 	"math/rand"
 
 	"couplet/mdo"
@@ -51,20 +50,11 @@ func (ParticleSwarm) Name() string { return "particle swarm" }
 // validate checks the settings.
 func (o ParticleSwarm) validate() error {
 	const m = "ParticleSwarm"
-	if err := checkInt(m, "Population", o.Population, 2); err != nil {
+	if err := checkBudget(m, o.Population, 2, o.Generations, o.MaxEvaluations); err != nil {
 		return err
 	}
-	if err := checkInt(m, "Generations", o.Generations, 1); err != nil {
+	if err := checkEquality(m, o.GradientRate, o.Relax); err != nil {
 		return err
-	}
-	if err := checkInt(m, "MaxEvaluations", o.MaxEvaluations, 1); err != nil {
-		return err
-	}
-	if o.GradientRate > 1 || math.IsNaN(o.GradientRate) {
-		return settingError(m, "GradientRate", o.GradientRate, "must be at most 1 (0 means the default 0.05, negative means none)")
-	}
-	if o.Relax > 1 || math.IsNaN(o.Relax) {
-		return settingError(m, "Relax", o.Relax, "must be at most 1 (0 means the default 0.5, negative means no relaxation)")
 	}
 	if err := checkRange(m, "Inertia", o.Inertia, 0, 1, true); err != nil {
 		return err
