@@ -78,14 +78,8 @@ func (o CMAES) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error) 
 	if err := o.validate(); err != nil {
 		return nil, err
 	}
-	r, err := begin(ctx, s, o.Name(), o)
+	r, err := beginLocal(ctx, s, o.Name(), o)
 	if err != nil {
-		return nil, err
-	}
-	if err := r.refuseIntegers(); err != nil {
-		return nil, err
-	}
-	if err := r.refuseMultiObjective(); err != nil {
 		return nil, err
 	}
 	r.maxEvals = or(o.MaxEvaluations, 20000)

@@ -59,14 +59,8 @@ func (o NelderMead) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, er
 	if err := o.validate(); err != nil {
 		return nil, err
 	}
-	r, err := begin(ctx, s, o.Name(), o)
+	r, err := beginLocal(ctx, s, o.Name(), o)
 	if err != nil {
-		return nil, err
-	}
-	if err := r.refuseIntegers(); err != nil {
-		return nil, err
-	}
-	if err := r.refuseMultiObjective(); err != nil {
 		return nil, err
 	}
 	r.maxEvals = or(o.MaxEvaluations, 5000)

@@ -85,6 +85,23 @@ func begin(ctx context.Context, s *mdo.Study, name string, settings any) (*run, 
 	return &run{ctx: ctx, ev: ev, name: name}, nil
 }
 
+// beginLocal is begin for the single-objective, continuous-only methods
+// (Nelder–Mead, CMA-ES): it refuses integer variables and several
+// objectives.
+func beginLocal(ctx context.Context, s *mdo.Study, name string, settings any) (*run, error) {
+	r, err := begin(ctx, s, name, settings)
+	if err != nil {
+		return nil, err
+	}
+	if err := r.refuseIntegers(); err != nil {
+		return nil, err
+	}
+	if err := r.refuseMultiObjective(); err != nil {
+		return nil, err
+	}
+	return r, nil
+}
+
 // refuseIntegers returns an error when the study has an integer design
 // variable (for methods that only work on continuous variables).
 func (r *run) refuseIntegers() error {
