@@ -2,7 +2,6 @@ package store
 
 import (
 	"encoding/binary"
-	"encoding/json"
 	"errors"
 	"fmt"
 	"math"
@@ -30,20 +29,6 @@ func readFloats(b []byte, off, n int) ([]float64, int, error) {
 	return out, off + 8*n, nil
 }
 
-// appendJSONFloat appends x as a JSON value that round-trips exactly;
-// non-finite values become the strings "NaN", "Infinity", "-Infinity".
-func appendJSONFloat(b []byte, x float64) []byte {
-	switch {
-	case math.IsNaN(x):
-		return append(b, `"NaN"`...)
-	case math.IsInf(x, 1):
-		return append(b, `"Infinity"`...)
-	case math.IsInf(x, -1):
-		return append(b, `"-Infinity"`...)
-	}
-	return strconv.AppendFloat(b, x, 'g', -1, 64)
-}
-
 // appendSQLJSONFloat appends x as a JSON number that SQLite's
 // json_extract reads back exactly as a REAL: NaN as null (SQL NULL), ±Inf
 // as ±9e999 (which overflows to ±Inf).
@@ -59,13 +44,30 @@ func appendSQLJSONFloat(b []byte, x float64) []byte {
 	return strconv.AppendFloat(b, x, 'g', -1, 64)
 }
 
-// parseNumbers reads a JSON array of n numbers written with
-// appendSQLJSONFloat (null is NaN, ±9e999 is ±Inf).
-func parseNumbers(s string, n int) ([]float64, error) {
+// appendNumbers appends xs as a JSON array written with
+// appendSQLJSONFloat.
+func appendNumbers(b []byte, xs ...[]float64) []byte {
+	b = append(b, '[')
+	first := true
+	for _, v := range xs {
+		for _, x := range v {
+			if !first {
+				b = append(b, ',')
+			}
+			first = false
+			b = appendSQLJSONFloat(b, x)
+		}
+	}
+	return append(b, ']')
+}
+
+// parseNumbers reads the JSON array column what of n numbers written
+// with appendNumbers (null is NaN, ±9e999 is ±Inf).
+func parseNumbers(what, s string, n int) ([]float64, error) {
 	body, ok1 := strings.CutPrefix(s, "[")
 	body, ok2 := strings.CutSuffix(body, "]")
 	if !ok1 || !ok2 {
-		return nil, fmt.Errorf("numbers is not a JSON array: %.40q", s)
+		return nil, fmt.Errorf("%s is not a JSON array: %.40q", what, s)
 	}
 	out := make([]float64, 0, n)
 	for body != "" {
@@ -78,89 +80,14 @@ func parseNumbers(s string, n int) ([]float64, error) {
 		}
 		x, err := strconv.ParseFloat(item, 64)
 		if err != nil && !(errors.Is(err, strconv.ErrRange) && math.IsInf(x, 0)) {
-			return nil, fmt.Errorf("numbers: %q is not a number", item)
+			return nil, fmt.Errorf("%s: %q is not a number", what, item)
 		}
 		out = append(out, x)
 	}
 	if len(out) != n {
-		return nil, fmt.Errorf("numbers holds %d values, the run has %d", len(out), n)
+		return nil, fmt.Errorf("%s holds %d values, the run has %d", what, len(out), n)
 	}
 	return out, nil
-}
-
-// outputKeys returns the JSON-quoted keys `"name":` of the outputs.
-func outputKeys(names []string) [][]byte {
-	keys := make([][]byte, len(names))
-	for i, n := range names {
-		q, _ := json.Marshal(n)
-		keys[i] = append(q, ':')
-	}
-	return keys
-}
-
-// appendOutputs appends the JSON object key → value.
-func appendOutputs(b []byte, keys [][]byte, vals []float64) []byte {
-	b = append(b, '{')
-	for i, k := range keys {
-		if i >= len(vals) {
-			break
-		}
-		if i > 0 {
-			b = append(b, ',')
-		}
-		b = append(b, k...)
-		b = appendJSONFloat(b, vals[i])
-	}
-	return append(b, '}')
-}
-
-// parseOutputs decodes an outputs object into the values of names, in
-// order; a name missing from the object is NaN.
-func parseOutputs(s string, index map[string]int, n int) ([]float64, error) {
-	out := make([]float64, n)
-	for i := range out {
-		out[i] = math.NaN()
-	}
-	if s == "" {
-		return out, nil
-	}
-	dec := json.NewDecoder(strings.NewReader(s))
-	dec.UseNumber()
-	if t, err := dec.Token(); err != nil || t != json.Delim('{') {
-		return nil, fmt.Errorf("outputs is not a JSON object: %.40q", s)
-	}
-	for dec.More() {
-		t, err := dec.Token()
-		if err != nil {
-			return nil, fmt.Errorf("outputs: %w", err)
-		}
-		key, _ := t.(string)
-		t, err = dec.Token()
-		if err != nil {
-			return nil, fmt.Errorf("outputs: value of %q: %w", key, err)
-		}
-		x, err := jsonFloat(t)
-		if err != nil {
-			return nil, fmt.Errorf("outputs: value of %q: %w", key, err)
-		}
-		if i, ok := index[key]; ok {
-			out[i] = x
-		}
-	}
-	return out, nil
-}
-
-// jsonFloat converts a decoded JSON token to a float.
-func jsonFloat(t json.Token) (float64, error) {
-	switch v := t.(type) {
-	case json.Number:
-		return strconv.ParseFloat(string(v), 64)
-	case string:
-		return parseFloat(v)
-	case nil:
-		return math.NaN(), nil
-	}
-	return 0, fmt.Errorf("%v is not a number", t)
 }
 
 // formatFloat formats x for CSV so that parseFloat gives it back exactly.

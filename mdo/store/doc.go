@@ -25,19 +25,24 @@
 //	evaluations                     a view of evaluation_data with one column
 //	                                per value: "design:NAME"…,
 //	                                "objective:NAME"…, "constraint:NAME"…,
-//	                                "margin:NAME"…, and outputs
+//	                                "margin:NAME"…, and outputs as a JSON
+//	                                object name → value
+//	outputs(eval_id, name, unit, value)  a view: one row per evaluation and
+//	                                output
 //	iterations(n, session, optimizer, iteration, evaluations, best,
 //	          feasible, violation, at)
 //	front(eval_id, rank)            the Pareto front of a multi-objective run
 //
 // So SELECT "design:wing.area", "objective:mass.takeoff" FROM evaluations
-// WHERE feasible works as it reads. Each row keeps its design, objective,
-// constraint and margin values once, as the JSON array numbers (NaN as
-// null, ±Inf as ±9e999), which the view takes apart; outputs is a JSON
-// object name → value (non-finite values as the strings "NaN",
-// "Infinity", "-Infinity"), so that json_extract(outputs, '$."wing.area"')
-// works; vectors packs the unit-box point, the minimised objectives and
-// the scaled constraints as little-endian float64, for an exact resume.
+// WHERE feasible works as it reads, and so does SELECT name, value, unit
+// FROM outputs WHERE eval_id = (SELECT best_id FROM run). A row of
+// evaluation_data keeps its design, objective, constraint and margin
+// values once, as the JSON array numbers, and the outputs as the JSON
+// array outputs in the order of the variables table (NaN as null, ±Inf as
+// ±9e999, numbers in their shortest exact form), which the views take
+// apart when read; vectors packs the unit-box point, the minimised
+// objectives and the scaled constraints as little-endian float64, for an
+// exact resume.
 //
 // The package also exports evaluations to CSV (WriteCSV, ReadCSV) and
 // writes the run's summary.json (WriteSummary).

@@ -69,7 +69,7 @@ func (s *Store) Scan(fn func(*mdo.Evaluation) error) error {
 				return fmt.Errorf("store: %s: evaluation %d: %v: %w", s.path, id, err, ErrDamaged)
 			}
 		}
-		vals, err := parseNumbers(numbers, nd+no+2*nc)
+		vals, err := parseNumbers("numbers", numbers, nd+no+2*nc)
 		if err != nil {
 			return fmt.Errorf("store: %s: evaluation %d: %v: %w", s.path, id, err, ErrDamaged)
 		}
@@ -77,7 +77,7 @@ func (s *Store) Scan(fn func(*mdo.Evaluation) error) error {
 		e.Objectives, vals = vals[:no:no], vals[no:]
 		e.Constraints, vals = vals[:nc:nc], vals[nc:]
 		e.Margins = vals[:nc:nc]
-		if e.Outputs, err = parseOutputs(outputs, l.outIndex, len(l.outputs)); err != nil {
+		if e.Outputs, err = parseNumbers("outputs", outputs, len(l.outputs)); err != nil {
 			return fmt.Errorf("store: %s: evaluation %d: %v: %w", s.path, id, err, ErrDamaged)
 		}
 		if err := fn(e); err != nil {

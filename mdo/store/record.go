@@ -348,8 +348,8 @@ func (s *Store) add(vs ...driver.Value) {
 }
 
 // bind fills the argument list of an insert of evs. The numbers and
-// outputs texts and the vectors blob are cut from one arena per call; the
-// driver copies them when it binds.
+// outputs arrays and the vectors blob are cut from one arena per call;
+// the driver copies them when it binds.
 func (s *Store) bind(evs []*mdo.Evaluation) []driver.NamedValue {
 	s.args = s.args[:0]
 	s.arena = s.arena[:0]
@@ -357,19 +357,10 @@ func (s *Store) bind(evs []*mdo.Evaluation) []driver.NamedValue {
 		s.add(int64(e.ID), e.Feasible, e.Converged, e.Violation, e.Err,
 			int64(e.Iterations), int64(e.DisciplineCalls), e.Wall.Seconds())
 		start := len(s.arena)
-		s.arena = append(s.arena, '[')
-		for _, xs := range [4][]float64{e.Design, e.Objectives, e.Constraints, e.Margins} {
-			for _, x := range xs {
-				if len(s.arena) > start+1 {
-					s.arena = append(s.arena, ',')
-				}
-				s.arena = appendSQLJSONFloat(s.arena, x)
-			}
-		}
-		s.arena = append(s.arena, ']')
+		s.arena = appendNumbers(s.arena, e.Design, e.Objectives, e.Constraints, e.Margins)
 		numbers := string(s.arena[start:])
 		start = len(s.arena)
-		s.arena = appendOutputs(s.arena, s.lay.outKeys, e.Outputs)
+		s.arena = appendNumbers(s.arena, e.Outputs)
 		outputs := string(s.arena[start:])
 		start = len(s.arena)
 		for _, xs := range [3][]float64{e.X, e.F, e.G} {

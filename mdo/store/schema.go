@@ -93,8 +93,6 @@ type layout struct {
 	outputs     []mdo.Var
 
 	designCols, objCols, consCols, marginCols []string
-	outIndex                                  map[string]int
-	outKeys                                   [][]byte
 }
 
 // newLayout derives the column names of a run.
@@ -126,13 +124,6 @@ func newLayout(design []mdo.DesignSpec, objectives, constraints []string, output
 	for _, c := range constraints {
 		l.marginCols = append(l.marginCols, name("margin", c))
 	}
-	names := make([]string, len(outputs))
-	l.outIndex = make(map[string]int, len(outputs))
-	for i, v := range outputs {
-		names[i] = v.Name
-		l.outIndex[v.Name] = i
-	}
-	l.outKeys = outputKeys(names)
 	return l
 }
 
@@ -153,10 +144,12 @@ func (l *layout) named() []string {
 
 // createEvaluations is the DDL of the evaluations: the table
 // evaluation_data, where the design, objective, constraint and margin
-// values of a row are kept once, as the JSON array numbers, and the view
-// evaluations, which shows them as one column each. Reading a value
-// through the view parses the array; writing a row costs no more than
-// the array.
+// values of a row are kept once, as the JSON array numbers, and the
+// outputs as the JSON array outputs (in the order of the variables
+// table); the view evaluations, which shows one column per value and the
+// outputs as a JSON object; and the view outputs, one row per evaluation
+// and output. Reading through a view parses the arrays; writing a row
+// costs no more than the arrays.
 func (l *layout) createEvaluations() string {
 	var b strings.Builder
 	b.WriteString(`CREATE TABLE evaluation_data (
@@ -172,11 +165,19 @@ func (l *layout) createEvaluations() string {
 	outputs TEXT NOT NULL,
 	vectors BLOB NOT NULL
 );
-CREATE VIEW evaluations AS SELECT id, feasible, converged, violation, error, iterations, discipline_calls, wall_seconds`)
+CREATE VIEW evaluations AS SELECT d.id AS id, d.feasible AS feasible, d.converged AS converged, d.violation AS violation,
+	d.error AS error, d.iterations AS iterations, d.discipline_calls AS discipline_calls, d.wall_seconds AS wall_seconds`)
 	for k, c := range l.named() {
-		fmt.Fprintf(&b, ",\n\tjson_extract(numbers, '$[%d]') AS %s", k, quote(c))
+		fmt.Fprintf(&b, ",\n\tjson_extract(d.numbers, '$[%d]') AS %s", k, quote(c))
 	}
-	b.WriteString(",\n\toutputs\nFROM evaluation_data")
+	// outputs as a JSON object name → value, built when it is read
+	b.WriteString(`,
+	(SELECT json_group_object(v.name, json_extract(d.outputs, '$[' || v.position || ']'))
+		FROM variables v WHERE v.role = 'output') AS outputs
+FROM evaluation_data d;
+CREATE VIEW outputs AS SELECT d.id AS eval_id, v.name AS name, v.unit AS unit,
+	json_extract(d.outputs, '$[' || v.position || ']') AS value
+FROM evaluation_data d JOIN variables v ON v.role = 'output'`)
 	return b.String()
 }
 

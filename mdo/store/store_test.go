@@ -199,6 +199,18 @@ func TestRecordAndReload(t *testing.T) {
 	if want, _ := res.Output("y1"); y1 != want {
 		t.Errorf("json_extract y1 = %g, want %g", y1, want)
 	}
+	// the long view of the outputs
+	var y2 float64
+	var n int
+	if err := db.QueryRow(`SELECT value FROM outputs WHERE eval_id = (SELECT best_id FROM run) AND name = 'y2'`).Scan(&y2); err != nil {
+		t.Fatal(err)
+	}
+	if want, _ := res.Output("y2"); y2 != want {
+		t.Errorf("outputs view y2 = %g, want %g", y2, want)
+	}
+	if err := db.QueryRow(`SELECT count(*) FROM outputs`).Scan(&n); err != nil || n != 40*len(res.Outputs) {
+		t.Errorf("outputs view has %d rows (%v), want %d", n, err, 40*len(res.Outputs))
+	}
 	var unit, rel string
 	if err := db.QueryRow(`SELECT unit, relation FROM variables WHERE role = 'constraint' AND name = 'g1'`).Scan(&unit, &rel); err != nil {
 		t.Fatal(err)
@@ -251,13 +263,16 @@ func TestNonFiniteValuesSurvive(t *testing.T) {
 	}
 	defer db.Close()
 	var objNull, marginNegInf, violPosInf, designOK bool
-	err = db.QueryRow(`SELECT "objective:mass.takeoff" IS NULL, "margin:perf.c0" = -9e999, violation = 9e999, "design:wing.x2" = ? FROM evaluations`, e.Design[2]).
-		Scan(&objNull, &marginNegInf, &violPosInf, &designOK)
+	var outNaN, outInf bool
+	err = db.QueryRow(`SELECT "objective:mass.takeoff" IS NULL, "margin:perf.c0" = -9e999, violation = 9e999, "design:wing.x2" = ?,
+		(SELECT value IS NULL FROM outputs WHERE name = 'out.v3'), (SELECT value = 9e999 FROM outputs WHERE name = 'out.v4') FROM evaluations`, e.Design[2]).
+		Scan(&objNull, &marginNegInf, &violPosInf, &designOK, &outNaN, &outInf)
 	if err != nil {
 		t.Fatal(err)
 	}
-	if !objNull || !marginNegInf || !violPosInf || !designOK {
-		t.Errorf("SQL view of a failed evaluation: objective NULL %v, margin -Inf %v, violation +Inf %v, design exact %v", objNull, marginNegInf, violPosInf, designOK)
+	if !objNull || !marginNegInf || !violPosInf || !designOK || !outNaN || !outInf {
+		t.Errorf("SQL view of a failed evaluation: objective NULL %v, margin -Inf %v, violation +Inf %v, design exact %v, output NaN as NULL %v, output +Inf %v",
+			objNull, marginNegInf, violPosInf, designOK, outNaN, outInf)
 	}
 }
 
@@ -443,7 +458,8 @@ func TestDamagedRows(t *testing.T) {
 		{"numbers too short", `UPDATE evaluation_data SET numbers = '[1,2]' WHERE id = 2`, "numbers holds 2 values, the run has 8"},
 		{"numbers not a number", `UPDATE evaluation_data SET numbers = '[1,2,3,4,x,6,7,8]' WHERE id = 2`, `"x" is not a number`},
 		{"short blob", `UPDATE evaluation_data SET vectors = x'0001' WHERE id = 2`, "vectors blob holds 2 bytes"},
-		{"outputs not an object", `UPDATE evaluation_data SET outputs = '[1]' WHERE id = 2`, "outputs is not a JSON object"},
+		{"outputs not an array", `UPDATE evaluation_data SET outputs = '{"y1": 1}' WHERE id = 2`, "outputs is not a JSON array"},
+		{"outputs too short", `UPDATE evaluation_data SET outputs = '[1]' WHERE id = 2`, "outputs holds 1 values, the run has 8"},
 	}
 	for _, tc := range tests {
 		path := filepath.Join(t.TempDir(), "d.db")
