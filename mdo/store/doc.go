@@ -26,9 +26,10 @@
 //	                                per value: "design:NAME"…,
 //	                                "objective:NAME"…, "constraint:NAME"…,
 //	                                "margin:NAME"…, and outputs as a JSON
-//	                                object name → value
+//	                                object name → value (older SQLite
+//	                                versions print it with 15 digits)
 //	outputs(eval_id, name, unit, value)  a view: one row per evaluation and
-//	                                output
+//	                                output, values exact
 //	iterations(n, session, optimizer, iteration, evaluations, best,
 //	          feasible, violation, at)
 //	front(eval_id, rank)            the Pareto front of a multi-objective run
