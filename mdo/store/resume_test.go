@@ -82,7 +82,7 @@ func TestCrashHelper(t *testing.T) {
 		os.Exit(3)
 	}
 	ev := sellarEvaluator(t, s, 2026, sellarScript)
-	if _, err := randomSearch(context.Background(), ev, 20*time.Millisecond); err != nil {
+	if _, err := randomSearch(context.Background(), ev, 50*time.Millisecond); err != nil {
 		fmt.Println("error", err)
 		os.Exit(3)
 	}
