@@ -78,7 +78,8 @@ func HelpText() string {
 Scripts reach the session through package couplet/repl/cell: cell.Context() for the
 running cell's context, cell.Attach(study) for seed, progress display and recording,
 cell.Publish(result) to hand the result to 'couplet run', cell.WriteFile(name, data)
-to write into the study's output folder.
+to write into the study's output folder. The packages mdo, disciplines, optimizers,
+cell, fmt and math are imported in every session; import others as usual.
 
 Results are conceptual-design estimates from simplified methods. They are not for
 certification, flight or airworthiness decisions: defer to the applicable regulations

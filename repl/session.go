@@ -79,8 +79,9 @@ type Session struct {
 	out    *cellWriter
 	errBuf *lockedBuffer
 
-	cells []*Cell
-	next  int
+	cells    []*Cell
+	next     int
+	imported map[string]bool // imports the interpreter already has
 
 	mu         sync.Mutex
 	running    bool
@@ -142,7 +143,7 @@ func (s *Session) reset() error {
 	s.it = it
 	s.cells = nil
 	s.next = 1
-	return nil
+	return s.importPrelude()
 }
 
 // progressFor is the progress factory handed to the cell package.
@@ -271,8 +272,25 @@ func (s *Session) exec(ctx context.Context, c *Cell) error {
 		if hard.Err() != nil {
 			return s.stopped(ctx, c, ch.line)
 		}
+		src := ch.src
+		var newImports []string
+		if ch.kind == chunkImport {
+			fresh, keys, err := s.freshImports(src)
+			if err != nil {
+				return s.cellError(c, ch, err, "")
+			}
+			if fresh == "" {
+				continue
+			}
+			src, newImports = fresh, keys
+		}
 		s.errBuf.reset()
-		v, err := s.it.EvalWithContext(hard, ch.src)
+		v, err := s.it.EvalWithContext(hard, src)
+		if err == nil {
+			for _, k := range newImports {
+				s.imported[k] = true
+			}
+		}
 		trace := s.errBuf.take()
 		s.forwardStderr(trace)
 		if err != nil {
