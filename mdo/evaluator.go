@@ -159,6 +159,13 @@ func (s *Study) NewEvaluator() (*Evaluator, error) {
 		e.study.CacheLimit = 50000
 	}
 	e.started = time.Now()
+	if r, ok := s.Recorder.(Restorer); ok {
+		prev, err := r.Restorable(s.Script, s.Seed)
+		if err != nil {
+			return nil, fmt.Errorf("mdo: study %q: resuming from the recorder: %w", s.Name, err)
+		}
+		e.Restore(prev)
+	}
 	return e, nil
 }
 

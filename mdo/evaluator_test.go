@@ -2,6 +2,7 @@ package mdo
 
 import (
 	"context"
+	"fmt"
 	"math"
 	"math/rand/v2"
 	"reflect"
@@ -188,5 +189,62 @@ func TestCouplingBounds(t *testing.T) {
 	st.CouplingBounds = map[string][2]float64{"x": {0, 1}}
 	if _, err := st.NewEvaluator(); err == nil || !strings.Contains(err.Error(), "not a coupling variable") {
 		t.Errorf("bounds on a parameter accepted: %v", err)
+	}
+}
+
+// memRecorder keeps evaluations in memory and can hand them back.
+type memRecorder struct {
+	evals  []*Evaluation
+	script string
+	seed   uint64
+}
+
+func (m *memRecorder) Begin(RunInfo) error        { return nil }
+func (m *memRecorder) Record(e *Evaluation) error { m.evals = append(m.evals, e); return nil }
+func (m *memRecorder) End(*Result) error          { return nil }
+func (m *memRecorder) Restorable(script string, seed uint64) ([]*Evaluation, error) {
+	if script != m.script || seed != m.seed {
+		return nil, fmt.Errorf("recorded run is of another script or seed")
+	}
+	return m.evals, nil
+}
+
+func TestResumeFromRestorer(t *testing.T) {
+	xs := randomPoints(40, 3, 3)
+	full := func(rec Recorder, points [][]float64) (*Evaluator, []*Evaluation) {
+		st, _ := SellarStudy(MDF)
+		st.Script, st.Seed, st.Recorder, st.Workers = "s", 9, rec, 1
+		ev, err := st.NewEvaluator()
+		if err != nil {
+			t.Fatal(err)
+		}
+		out, err := ev.Evaluate(context.Background(), points)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return ev, out
+	}
+	// an interrupted run recorded the first 25 points
+	partial := &memRecorder{script: "s", seed: 9}
+	full(partial, xs[:25])
+	// the resumed run asks for all 40 again
+	resumed, got := full(partial, xs)
+	ref, want := full(nil, xs)
+	if c := resumed.Counters(); c.Restored != 25 || c.Analyses != 15 {
+		t.Errorf("resumed counters %+v, want 25 restored and 15 analysed", c)
+	}
+	for i := range want {
+		if got[i].ID != want[i].ID || !reflect.DeepEqual(got[i].Design, want[i].Design) || got[i].F[0] != want[i].F[0] {
+			t.Fatalf("point %d differs after resume: %+v vs %+v", i, got[i], want[i])
+		}
+	}
+	if resumed.Best().ID != ref.Best().ID {
+		t.Errorf("best %d after resume, %d without", resumed.Best().ID, ref.Best().ID)
+	}
+	// another seed is refused
+	st, _ := SellarStudy(MDF)
+	st.Script, st.Seed, st.Recorder = "s", 10, partial
+	if _, err := st.NewEvaluator(); err == nil || !strings.Contains(err.Error(), "another script or seed") {
+		t.Errorf("foreign record accepted: %v", err)
 	}
 }

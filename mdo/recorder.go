@@ -40,3 +40,13 @@ type Recorder interface {
 type IterationRecorder interface {
 	Iteration(p Progress) error
 }
+
+// Restorer is implemented by recorders that can answer points of an
+// earlier, interrupted run of the same script and seed (a case store
+// opened to resume). NewEvaluator asks it for those evaluations and puts
+// them in its cache, so the optimiser retraces its path without analysing
+// them again and reaches the same result. A store of another script or
+// seed must return an error, not mix runs.
+type Restorer interface {
+	Restorable(script string, seed uint64) ([]*Evaluation, error)
+}

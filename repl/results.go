@@ -22,6 +22,10 @@ import (
 // itself as an ArtifactWriter, then Close it.
 type RunOutputs struct {
 	dir string
+	// PickUp makes each run continue the store an earlier, interrupted
+	// replay of the same script and seed left in dir: its evaluations
+	// answer the optimiser's points again without analysis.
+	PickUp bool
 
 	mu      sync.Mutex
 	runs    int
@@ -44,8 +48,8 @@ func (o *RunOutputs) Recorder(st *mdo.Study) (mdo.Recorder, error) {
 	return &runRecorder{o: o}, nil
 }
 
-// newStore creates the next store file.
-func (o *RunOutputs) newStore() (*store.Store, error) {
+// nextPath reserves the store file of the next run.
+func (o *RunOutputs) nextPath() string {
 	o.mu.Lock()
 	defer o.mu.Unlock()
 	o.runs++
@@ -53,25 +57,70 @@ func (o *RunOutputs) newStore() (*store.Store, error) {
 	if o.runs > 1 {
 		name = fmt.Sprintf("results-%d.db", o.runs)
 	}
-	s, err := store.Create(filepath.Join(o.dir, name), store.Options{ToolVersion: "couplet " + Version, Overwrite: true})
+	return filepath.Join(o.dir, name)
+}
+
+// options are the store options of every run.
+func (o *RunOutputs) options() store.Options {
+	return store.Options{ToolVersion: "couplet " + Version, Overwrite: true}
+}
+
+// keep registers a store for Close.
+func (o *RunOutputs) keep(s *store.Store) {
+	o.mu.Lock()
+	o.stores = append(o.stores, s)
+	o.mu.Unlock()
+}
+
+// runRecorder records each run of an optimiser on one study in a store of
+// its own; with PickUp it first reopens the store of an interrupted run.
+type runRecorder struct {
+	o       *RunOutputs
+	path    string       // store file reserved by Restorable
+	pending *store.Store // store reopened by Restorable
+	cur     *store.Store
+}
+
+// Restorable implements mdo.Restorer: it reserves the run's store file
+// and, with PickUp and an existing file, reopens it and returns its
+// evaluations (refusing a store of another script or seed).
+func (r *runRecorder) Restorable(script string, seed uint64) ([]*mdo.Evaluation, error) {
+	r.path = r.o.nextPath()
+	if !r.o.PickUp {
+		return nil, nil
+	}
+	if _, err := os.Stat(r.path); errors.Is(err, os.ErrNotExist) {
+		return nil, nil
+	}
+	s, err := store.Resume(r.path, r.o.options())
 	if err != nil {
 		return nil, err
 	}
-	o.stores = append(o.stores, s)
-	return s, nil
-}
-
-// runRecorder opens a store at each Begin.
-type runRecorder struct {
-	o   *RunOutputs
-	cur *store.Store
+	evs, err := s.Restorable(script, seed)
+	if err != nil {
+		s.Close()
+		return nil, err
+	}
+	r.o.keep(s)
+	r.pending = s
+	return evs, nil
 }
 
 func (r *runRecorder) Begin(info mdo.RunInfo) error {
-	s, err := r.o.newStore()
-	if err != nil {
-		return err
+	s := r.pending
+	r.pending = nil
+	if s == nil {
+		path := r.path
+		if path == "" {
+			path = r.o.nextPath()
+		}
+		var err error
+		if s, err = store.Create(path, r.o.options()); err != nil {
+			return err
+		}
+		r.o.keep(s)
 	}
+	r.path = ""
 	r.cur = s
 	return s.Begin(info)
 }

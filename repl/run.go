@@ -35,6 +35,9 @@ type RunOptions struct {
 	Artifacts []ArtifactWriter
 	// Grace is the time a cancelled cell has to come back (default 2 s).
 	Grace time.Duration
+	// PickUp continues the case stores an interrupted replay of the same
+	// script and seed left in OutDir (see RunOutputs.PickUp).
+	PickUp bool
 }
 
 // RunRecord is what a replay produced.
@@ -91,6 +94,7 @@ func Run(ctx context.Context, opts RunOptions) (*RunRecord, error) {
 		errw = io.Discard
 	}
 	outs := NewRunOutputs(opts.OutDir)
+	outs.PickUp = opts.PickUp
 	defer outs.Close()
 	s, err := NewSession(Options{
 		Policy: opts.Policy, Stdout: out, Stderr: errw, NoErrorEcho: true, OutDir: opts.OutDir,

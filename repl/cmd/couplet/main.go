@@ -2,7 +2,7 @@
 // framework.
 //
 //	couplet [--out DIR] [--seed N] [--trust-script]      interactive notebook session
-//	couplet run FILE.study --out DIR [--seed N] [--timeout D] [--trust-script] [--quiet]
+//	couplet run FILE.study --out DIR [--seed N] [--timeout D] [--trust-script] [--quiet] [--pick-up]
 //	couplet imports [--trust-script]                      list the importable packages
 //	couplet version
 //
@@ -36,6 +36,7 @@ type settings struct {
 	timeout time.Duration
 	trust   bool
 	quiet   bool
+	pickUp  bool
 }
 
 // parse parses flags placed before or after the positional arguments.
@@ -48,6 +49,7 @@ func parse(name string, args []string, stderr io.Writer) (*settings, []string, e
 	fs.DurationVar(&st.timeout, "timeout", 0, "time limit of the whole replay, e.g. 90s or 5m (run only)")
 	fs.BoolVar(&st.trust, strings.TrimPrefix(repl.TrustFlag, "--"), false, "lift the sandbox: the script may use files and processes (trusted scripts only)")
 	fs.BoolVar(&st.quiet, "quiet", false, "do not echo the cells' output (run only)")
+	fs.BoolVar(&st.pickUp, "pick-up", false, "continue the results.db an interrupted run of the same script and seed left in --out (run only)")
 	var pos []string
 	for {
 		if err := fs.Parse(args); err != nil {
@@ -80,7 +82,7 @@ func usage(w io.Writer) {
 
 usage:
   couplet [--out DIR] [--seed N] [%s]       interactive notebook session
-  couplet run FILE.study --out DIR [--seed N] [--timeout D] [%s] [--quiet]
+  couplet run FILE.study --out DIR [--seed N] [--timeout D] [%s] [--quiet] [--pick-up]
                                                    replay a saved study headless
   couplet imports [%s]                    list the packages a script may import
   couplet version
@@ -144,7 +146,7 @@ func replay(args []string, stdout, stderr io.Writer) int {
 	}
 	opts := repl.RunOptions{
 		File: pos[0], OutDir: st.out, Seed: seed, SeedSet: seedSet, Timeout: st.timeout,
-		Policy: repl.Policy{Trusted: st.trust}, Stdout: stdout, Stderr: stderr,
+		Policy: repl.Policy{Trusted: st.trust}, Stdout: stdout, Stderr: stderr, PickUp: st.pickUp,
 	}
 	if st.quiet {
 		opts.Stdout = io.Discard
