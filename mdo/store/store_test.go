@@ -430,10 +430,15 @@ func TestResumeRefusesOtherScriptOrSeed(t *testing.T) {
 		if evs, err := r.Restorable(tc.script, tc.seed); err == nil || evs != nil {
 			t.Errorf("%s: Restorable gave %d evaluations, err %v; want a refusal", tc.name, len(evs), err)
 		}
-		// and Begin refuses it too, so a recorder cannot mix runs
-		ev := sellarEvaluator(t, r, tc.seed, tc.script)
-		if _, err := ev.Evaluate(context.Background(), grid(1, 3)); err == nil || !strings.Contains(err.Error(), "refusing to mix") {
-			t.Errorf("%s: Evaluate through a mismatched store: err = %v, want a refusal", tc.name, err)
+		// and a study recording into it is refused when its evaluator is
+		// made (the store is an mdo.Restorer), so a recorder cannot mix runs
+		st, err := mdo.SellarStudy(mdo.MDF)
+		if err != nil {
+			t.Fatal(err)
+		}
+		st.Seed, st.Script, st.Recorder = tc.seed, tc.script, r
+		if _, err := st.NewEvaluator(); err == nil || !strings.Contains(err.Error(), "refusing to mix") {
+			t.Errorf("%s: evaluator on a mismatched store: err = %v, want a refusal", tc.name, err)
 		}
 		r.Close()
 	}

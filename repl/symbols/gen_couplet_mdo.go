@@ -70,6 +70,7 @@ func init() {
 		"RangeError":        reflect.ValueOf((*mdo.RangeError)(nil)),
 		"Recorder":          reflect.ValueOf((*mdo.Recorder)(nil)),
 		"Report":            reflect.ValueOf((*mdo.Report)(nil)),
+		"Restorer":          reflect.ValueOf((*mdo.Restorer)(nil)),
 		"Result":            reflect.ValueOf((*mdo.Result)(nil)),
 		"RunInfo":           reflect.ValueOf((*mdo.RunInfo)(nil)),
 		"Solution":          reflect.ValueOf((*mdo.Solution)(nil)),
@@ -86,6 +87,7 @@ func init() {
 		"_Discipline":        reflect.ValueOf((*_couplet_mdo_Discipline)(nil)),
 		"_IterationRecorder": reflect.ValueOf((*_couplet_mdo_IterationRecorder)(nil)),
 		"_Recorder":          reflect.ValueOf((*_couplet_mdo_Recorder)(nil)),
+		"_Restorer":          reflect.ValueOf((*_couplet_mdo_Restorer)(nil)),
 	}
 }
 
@@ -137,4 +139,14 @@ func (W _couplet_mdo_Recorder) End(r *mdo.Result) error {
 }
 func (W _couplet_mdo_Recorder) Record(e *mdo.Evaluation) error {
 	return W.WRecord(e)
+}
+
+// _couplet_mdo_Restorer is an interface wrapper for Restorer type
+type _couplet_mdo_Restorer struct {
+	IValue      interface{}
+	WRestorable func(script string, seed uint64) ([]*mdo.Evaluation, error)
+}
+
+func (W _couplet_mdo_Restorer) Restorable(script string, seed uint64) ([]*mdo.Evaluation, error) {
+	return W.WRestorable(script, seed)
 }
