@@ -81,7 +81,7 @@ func (s *System) DSM() string {
 		return pos[keys[i][1]] < pos[keys[j][1]]
 	})
 	for _, k := range keys {
-		fmt.Fprintf(&b, "  %s -> %s: %s\n", s.discs[k[0]].Name(), s.discs[k[1]].Name(), strings.Join(feeds[k], ", "))
+		fmt.Fprintf(&b, "  %s -> %s: %s\n", s.discs[k[0]].Name(), s.discs[k[1]].Name(), listNames(feeds[k], dsmListLimit))
 	}
 	return b.String()
 }
@@ -99,4 +99,16 @@ func (s *System) String() string {
 		fmt.Fprintf(&b, "  %c: {%s} (%s)\n", 'A'+rune(gi%26), strings.Join(g.names, ", "), kind)
 	}
 	return b.String()
+}
+
+// dsmListLimit is the number of coupling variables a DSM line names before
+// it summarises the rest.
+const dsmListLimit = 12
+
+// listNames joins names, summarising those beyond limit as "… and N more".
+func listNames(names []string, limit int) string {
+	if len(names) <= limit {
+		return strings.Join(names, ", ")
+	}
+	return fmt.Sprintf("%s, … and %d more", strings.Join(names[:limit], ", "), len(names)-limit)
 }

@@ -3,6 +3,7 @@ package mdo
 import (
 	"context"
 	"errors"
+	"fmt"
 	"math"
 	"reflect"
 	"strings"
@@ -372,5 +373,22 @@ func TestSolutionSnapshot(t *testing.T) {
 	}
 	if _, err := sol.Get("nope"); err == nil {
 		t.Error("unknown name accepted")
+	}
+}
+
+func TestDSMSummarisesLongLists(t *testing.T) {
+	var outs []string
+	for i := 0; i < 15; i++ {
+		outs = append(outs, fmt.Sprintf("v%02d", i))
+	}
+	src := Func("src", []string{"p"}, outs, func(in, out []float64) error { return nil })
+	sink := Func("sink", outs, []string{"s"}, func(in, out []float64) error { return nil })
+	sys, err := NewSystem(src, sink)
+	if err != nil {
+		t.Fatal(err)
+	}
+	dsm := sys.DSM()
+	if !strings.Contains(dsm, "src -> sink: v00, v01") || !strings.Contains(dsm, "v11, … and 3 more") || strings.Contains(dsm, "v12") {
+		t.Errorf("long coupling list not summarised:\n%s", dsm)
 	}
 }
