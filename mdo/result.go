@@ -165,6 +165,9 @@ func (r *Result) Active(tol float64) []string {
 // String formats the result as tables: the best design, its objectives and
 // its constraints with margins, and the front of a multi-objective study.
 func (r *Result) String() string {
+	if r == nil {
+		return "no result (nil *mdo.Result)"
+	}
 	var b strings.Builder
 	fmt.Fprintf(&b, "study %q by %s (%s, seed %d): %s after %d evaluations (%d analyses, %d cached, %d failed)\n",
 		r.Study, r.Optimizer, r.Formulation, r.Seed, r.Stop, r.Evaluations, r.Analyses, r.CacheHits+r.Restored, r.Failed)

@@ -17,10 +17,19 @@ var declType = reflect.TypeOf((*any)(nil))
 // Framework types show through their String methods (tables for results,
 // variable listings, the design structure matrix); strings are shown as
 // they are, floats in the shortest form that reads back exactly.
-func formatValue(v reflect.Value) (string, any, bool) {
+func formatValue(v reflect.Value) (text string, val any, ok bool) {
 	if !v.IsValid() || v.Type() == declType {
 		return "", nil, false
 	}
+	if k := v.Kind(); (k == reflect.Pointer || k == reflect.Interface || k == reflect.Map || k == reflect.Slice || k == reflect.Func) && v.IsNil() {
+		return fmt.Sprintf("<nil %s>", v.Type()), nil, true
+	}
+	defer func() {
+		// a value's own String method may fail; the session goes on
+		if r := recover(); r != nil {
+			text, val, ok = fmt.Sprintf("<%s that cannot be shown: %v>", v.Type(), r), nil, true
+		}
+	}()
 	if !v.CanInterface() {
 		return v.String(), nil, true
 	}

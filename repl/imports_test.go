@@ -39,3 +39,21 @@ func TestPreludeAndRepeatedImports(t *testing.T) {
 		t.Errorf("after a reset: %v %v", c.Value, c.Err)
 	}
 }
+
+func TestNilResultShownNotCrashing(t *testing.T) {
+	s, err := NewSession(Options{OutDir: t.TempDir() + "/not/yet/there"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	ctx := context.Background()
+	// a typed nil of a framework type with a String method is shown, not
+	// dereferenced
+	if c := s.Exec(ctx, "var r *mdo.Result\nr"); c.Err != nil {
+		t.Fatalf("showing a nil result: %v", c.Err)
+	}
+	// the output folder is created on first use by the recorder
+	src := "study, _ := mdo.SellarStudy(mdo.MDF)\ncell.Attach(study)\nres, err := optimizers.NelderMead{MaxEvaluations: 50}.Minimize(cell.Context(), study)\nerr"
+	if c := s.Exec(ctx, src); c.Err != nil || c.Value != nil {
+		t.Fatalf("optimisation with an output folder to create: value %v, err %v", c.Value, c.Err)
+	}
+}

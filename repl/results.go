@@ -48,16 +48,20 @@ func (o *RunOutputs) Recorder(st *mdo.Study) (mdo.Recorder, error) {
 	return &runRecorder{o: o}, nil
 }
 
-// nextPath reserves the store file of the next run.
-func (o *RunOutputs) nextPath() string {
+// nextPath reserves the store file of the next run, creating the output
+// folder if need be.
+func (o *RunOutputs) nextPath() (string, error) {
 	o.mu.Lock()
 	defer o.mu.Unlock()
+	if err := os.MkdirAll(o.dir, 0o755); err != nil {
+		return "", fmt.Errorf("repl: creating the output folder: %w", err)
+	}
 	o.runs++
 	name := "results.db"
 	if o.runs > 1 {
 		name = fmt.Sprintf("results-%d.db", o.runs)
 	}
-	return filepath.Join(o.dir, name)
+	return filepath.Join(o.dir, name), nil
 }
 
 // options are the store options of every run.
@@ -85,7 +89,11 @@ type runRecorder struct {
 // and, with PickUp and an existing file, reopens it and returns its
 // evaluations (refusing a store of another script or seed).
 func (r *runRecorder) Restorable(script string, seed uint64) ([]*mdo.Evaluation, error) {
-	r.path = r.o.nextPath()
+	path, err := r.o.nextPath()
+	if err != nil {
+		return nil, err
+	}
+	r.path = path
 	if !r.o.PickUp {
 		return nil, nil
 	}
@@ -111,10 +119,12 @@ func (r *runRecorder) Begin(info mdo.RunInfo) error {
 	r.pending = nil
 	if s == nil {
 		path := r.path
-		if path == "" {
-			path = r.o.nextPath()
-		}
 		var err error
+		if path == "" {
+			if path, err = r.o.nextPath(); err != nil {
+				return err
+			}
+		}
 		if s, err = store.Create(path, r.o.options()); err != nil {
 			return err
 		}
