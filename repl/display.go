@@ -22,7 +22,7 @@ func formatValue(v reflect.Value) (text string, val any, ok bool) {
 		return "", nil, false
 	}
 	if k := v.Kind(); (k == reflect.Pointer || k == reflect.Interface || k == reflect.Map || k == reflect.Slice || k == reflect.Func) && v.IsNil() {
-		return fmt.Sprintf("<nil %s>", v.Type()), nil, true
+		return "<nil>", nil, true
 	}
 	defer func() {
 		// a value's own String method may fail; the session goes on
