@@ -122,7 +122,7 @@ func (l *sizingLookup) optional(name string, def float64) float64 {
 
 func sizingPositive(x float64) bool    { return x > 0 }
 func sizingNonNegative(x float64) bool { return x >= 0 }
-func sizingAny(float64) bool      { return true }
+func sizingAny(float64) bool           { return true }
 
 // NewSizingDiagram builds the sizing diagram of a converged aircraft
 // analysis from its variable values (get returns a variable's value and
