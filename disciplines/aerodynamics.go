@@ -539,37 +539,86 @@ func (m *AeroModel) components(c *Configuration) dragComponents {
 // parasite returns the friction, form and interference drag coefficient
 // of the tabulated components at mach in the atmosphere atm.
 func (m *AeroModel) parasite(t *dragComponents, atm Atmosphere, mach float64) float64 {
+	fc := m.frictionAt(atm.Reynolds(mach), mach, true)
+	return m.frictionCoefficient(m.dragArea(t, &fc), t.sref)
+}
+
+// frictionCoefficient returns the friction, form and interference drag
+// coefficient (1 + miscellaneous)·D/q/S of the drag area dq [m2].
+func (m *AeroModel) frictionCoefficient(dq, sref float64) float64 {
+	return (1 + m.Options.Miscellaneous) * dq / sref
+}
+
+// frictionCondition holds the factors of the component drag build-up
+// that are common to every component at one flight condition: the
+// compressibility factor of the skin friction, the logarithms of the
+// cut-off Reynolds number's Mach factor, of the roughness and of the
+// Reynolds number per metre, the weight of the subsonic form factors and
+// the Mach factor of the surfaces' form factors.
+type frictionCondition struct {
+	comp, lnCut, lnK, lnRePerM, fw, machFF float64
+}
+
+// frictionAt returns the common factors at mach with the Reynolds number
+// per metre rePerM [1/m]; the surfaces' Mach factor only when surfaces is
+// set.
+func (m *AeroModel) frictionAt(rePerM, mach float64, surfaces bool) frictionCondition {
 	o := &m.Options
-	rePerM := atm.Reynolds(mach)
-	// factors common to every component: compressibility of the skin
-	// friction, Mach factor of the cut-off Reynolds number and of the
-	// surfaces' form factors
-	comp := math.Pow(1+0.144*mach*mach, 0.65)
-	cut := blend(mach, 0.9, 1.2, 38.21, 44.62*math.Pow(math.Max(mach, 1.2), 1.16))
+	var fc frictionCondition
+	fc.comp = math.Pow(1+0.144*mach*mach, 0.65)
+	// blend(mach, 0.9, 1.2, 38.21, 44.62·max(M, 1.2)^1.16), the power
+	// skipped where its weight is zero
+	cut := 38.21
+	if mach > 0.9 {
+		cut = blend(mach, 0.9, 1.2, 38.21, 44.62*math.Pow(math.Max(mach, 1.2), 1.16))
+	}
 	// in logarithms: ln Re = ln(Re/m) + ln l, cut-off ln Re = ln C + 1.053(ln l − ln k)
-	lnK := math.Log(o.Roughness)
-	lnCut := math.Log(cut)
-	lnRePerM := math.Log(math.Max(rePerM, 1e-300))
-	const lnMin = 11.512925464970229 // ln 1e5
-	fw := formFactorWeight(mach)
-	mff := math.Max(math.Min(mach, blendLow), 0.2)
-	machFF := 1.34 * math.Pow(mff, 0.18)
+	fc.lnK = math.Log(o.Roughness)
+	fc.lnCut = math.Log(cut)
+	fc.lnRePerM = math.Log(math.Max(rePerM, 1e-300))
+	fc.fw = formFactorWeight(mach)
+	if surfaces {
+		mff := math.Max(math.Min(mach, blendLow), 0.2)
+		fc.machFF = 1.34 * math.Pow(mff, 0.18)
+	}
+	return fc
+}
+
+// dragArea returns Σ Cf·FF·Q·S_wet [m2] of the tabulated components (the
+// friction, form and interference drag area without the miscellaneous
+// share).
+func (m *AeroModel) dragArea(t *dragComponents, fc *frictionCondition) float64 {
 	sum := 0.0
 	for i := 0; i < t.n; i++ {
-		lnL := t.lnL[i]
-		lnRe := math.Max(lnRePerM+lnL, lnMin)
-		lnRe = math.Min(lnRe, lnCut+1.053*(lnL-lnK))
-		cf := 0.455 / (math.Exp(2.58*math.Log(lnRe/math.Ln10)) * comp)
-		if o.LaminarFraction > 0 {
-			cf = o.LaminarFraction*LaminarSkinFriction(math.Exp(lnRe)) + (1-o.LaminarFraction)*cf
-		}
-		ff := 1 + fw*t.ff[i]
-		if t.surface[i] {
-			ff = 1 + fw*(t.ff[i]*machFF-1)
-		}
-		sum += cf * ff * t.swetQ[i]
+		sum += m.componentDragArea(fc, t.surface[i], t.lnL[i], t.swetQ[i], t.ff[i])
 	}
-	return (1 + o.Miscellaneous) * sum / t.sref
+	return sum
+}
+
+// componentDragArea returns Cf·FF·Q·S_wet [m2] of one component of
+// reference length e^lnL, wetted area times interference factor swetQ and
+// Mach-independent form-factor part ff (see dragComponents).
+func (m *AeroModel) componentDragArea(fc *frictionCondition, surface bool, lnL, swetQ, ff float64) float64 {
+	const lnMin = 11.512925464970229 // ln 1e5
+	o := &m.Options
+	lnRe := math.Max(fc.lnRePerM+lnL, lnMin)
+	lnRe = math.Min(lnRe, fc.lnCut+1.053*(lnL-fc.lnK))
+	cf := 0.455 / (math.Exp(2.58*math.Log(lnRe/math.Ln10)) * fc.comp)
+	if o.LaminarFraction > 0 {
+		cf = o.LaminarFraction*LaminarSkinFriction(math.Exp(lnRe)) + (1-o.LaminarFraction)*cf
+	}
+	f := 1 + fc.fw*ff
+	if surface {
+		f = 1 + fc.fw*(ff*fc.machFF-1)
+	}
+	return cf * f * swetQ
+}
+
+// nacelleDragData returns the drag build-up data of the pods n (as
+// components tabulates them): ln l, S_wet·Q and the form-factor excess.
+func (m *AeroModel) nacelleDragData(n *Nacelles) (lnL, swetQ, ff float64) {
+	swN := float64(n.Count) * NacelleWettedArea(n.Diameter, n.Length)
+	return math.Log(n.Length), swN * m.Options.QNacelle, 0.35 / (n.Length / n.Diameter)
 }
 
 // areaScratch holds the area distribution of one cut.
@@ -791,27 +840,32 @@ func trimmedDrag(c *Configuration, p Polar, cl, tailLift, q, kt float64) (cd, tr
 	return cd, cd - p.CD(cl)
 }
 
-// Aerodynamics is the "aerodynamics" discipline: the drag polar at cruise
-// and at low speed, maximum lift, lift-curve slopes and the trimmed cruise
-// drag. It rebuilds the configuration (with the pods sized by propulsion)
-// from the geometry outputs and the wing parameters.
+// Aerodynamics is the "aerodynamics" discipline: the parts of the drag
+// polar that change inside the coupled loop. The airframe's own share
+// (friction, form and interference drag of wing, fuselage and tails, the
+// drag-due-to-lift factors, lift-curve slopes and maximum lift) depends on
+// the design parameters only and comes from the "airframe_aero"
+// discipline (AirframeAerodynamics), which runs once before the loop;
+// aerodynamics adds the pods that propulsion sizes (their friction and
+// their share of the supersonic area rule), the lift that the masses of
+// weights ask for and the trim drag of the tail load of stability.
 //
 // Cruise lift: aero.cl_cruise, cd_cruise and ld_cruise are at the
 // mid-cruise mass, the mean of mass.cruise_start and mass.cruise_end (from
 // weights); aero.drag_cruise is the trimmed drag at the start of cruise
-// (the engine-sizing case). Low-speed values are
-// at Mach AeroOptions.TakeoffMach at the airport; aero.ld_takeoff is at
-// V2 = 1.13·VSR (14 CFR 25.107), CL = CLmax,TO/1.13². aero.cd0_takeoff is
+// (the engine-sizing case). Low-speed values are at Mach
+// AeroOptions.TakeoffMach at the airport; aero.ld_takeoff is at V2 =
+// 1.13·VSR (14 CFR 25.107), CL = aero.cl_takeoff. aero.cd0_takeoff is
 // flaps at take-off, gear up (second segment); aero.cd0_landing is landing
 // flaps, gear down.
 //
 // The airframe's supersonic area rule at cruise Mach comes from geometry
-// (geometry.area_rule_*); aerodynamics adds the pods, which propulsion
-// sizes inside the coupled loop.
+// (geometry.area_rule_*); aerodynamics adds the pods. In the transonic
+// fairing (between the drag-divergence Mach number and Mach 1) the whole
+// configuration is cut again.
 //
 // Outputs beyond the fixed aircraft names: aero.trim_drag_cruise,
-// aero.cd_friction_cruise, aero.mach_drag_divergence,
-// aero.cd0_landing, aero.k_landing, aero.cl_takeoff (at V2).
+// aero.cd_friction_cruise, aero.mach_drag_divergence, aero.cd0_landing.
 type Aerodynamics struct {
 	model *AeroModel
 }
@@ -841,14 +895,20 @@ const (
 	aeroInNacDiameter
 	aeroInNacLength
 	aeroInMach
-	aeroInAltitude
 	aeroInMassStart
 	aeroInMassEnd
 	aeroInTailLift
 	aeroInFlapTakeoff
 	aeroInFlapLanding
-	aeroInElevation
-	aeroInDT
+	aeroInAirframeCruise
+	aeroInAirframeLow
+	aeroInReCruise
+	aeroInReLow
+	aeroInQ
+	aeroInK
+	aeroInKTail
+	aeroInKTO
+	aeroInCLTO
 	aeroInWave // RollAngles × (start, length, waveHarmonics coefficients)
 	aeroNumIn  = aeroInWave + RollAngles*areaRulePerRoll
 )
@@ -856,26 +916,17 @@ const (
 // Output indices of the aerodynamics discipline.
 const (
 	aeroOutCD0 = iota
-	aeroOutK
 	aeroOutCL
 	aeroOutCD
 	aeroOutLD
 	aeroOutDrag
 	aeroOutCD0TO
-	aeroOutKTO
 	aeroOutLDTO
-	aeroOutCLMaxClean
-	aeroOutCLMaxTO
-	aeroOutCLMaxLdg
-	aeroOutCLACruise
-	aeroOutCLALow
 	aeroOutWave
 	aeroOutTrim
 	aeroOutFriction
 	aeroOutMDD
 	aeroOutCD0Ldg
-	aeroOutKLdg
-	aeroOutCLTO
 	aeroNumOut
 )
 
@@ -897,14 +948,19 @@ func (a *Aerodynamics) Inputs() []mdo.Var {
 	v(aeroInNacDiameter, "nacelle.diameter", "m", "nacelle maximum diameter", 1.2, 0, 6, 0)
 	v(aeroInNacLength, "nacelle.length", "m", "nacelle length (inlet to nozzle)", 6, 0, 30, 0)
 	v(aeroInMach, "cruise.mach", "-", "cruise Mach number", 1.5, 0, MaxMach, 0)
-	v(aeroInAltitude, "cruise.altitude", "m", "cruise altitude (geometric)", 15000, AtmosphereMinAltitude, AtmosphereMaxAltitude, 1000)
 	v(aeroInMassStart, "mass.cruise_start", "kg", "mass at the start of cruise", 42000, 100, 1e6, 1e4)
 	v(aeroInMassEnd, "mass.cruise_end", "kg", "mass at the end of cruise", 30000, 100, 1e6, 1e4)
 	v(aeroInTailLift, "stability.tail_lift_cruise", "N", "horizontal-tail lift in trimmed cruise (positive up)", 0, -1e7, 1e7, 1e4)
 	v(aeroInFlapTakeoff, "flap.cl_increment_takeoff", "-", "CLmax increment of the take-off high-lift setting (unswept wing)", 0.4, 0, 3, 0)
 	v(aeroInFlapLanding, "flap.cl_increment_landing", "-", "CLmax increment of the landing high-lift setting (unswept wing)", 0.8, 0, 3, 0)
-	v(aeroInElevation, "airport.elevation", "m", "airport elevation", 0, -400, 4500, 1000)
-	v(aeroInDT, "airport.temperature_offset", "K", "airport temperature above the standard day", 0, -50, 50, 10)
+	af := airframeAeroOutputs()
+	for _, k := range [...][2]int{
+		{aeroInAirframeCruise, afOutAreaCruise}, {aeroInAirframeLow, afOutAreaLow},
+		{aeroInReCruise, afOutReCruise}, {aeroInReLow, afOutReLow}, {aeroInQ, afOutQ},
+		{aeroInK, afOutK}, {aeroInKTail, afOutKTail}, {aeroInKTO, afOutKTO}, {aeroInCLTO, afOutCLTO},
+	} {
+		in[k[0]] = af[k[1]]
+	}
 	copy(in[aeroInWave:], areaRuleVars())
 	return in
 }
@@ -916,28 +972,23 @@ func (a *Aerodynamics) Outputs() []mdo.Var {
 		o[i] = mdo.Var{Name: name, Unit: unit, Description: desc, Default: def, Min: lo, Max: hi, Scale: def}
 	}
 	v(aeroOutCD0, "aero.cd0_cruise", "-", "zero-lift drag coefficient at cruise (friction, form, wave)", 0.02, 0, 1)
-	v(aeroOutK, "aero.k_cruise", "-", "drag-due-to-lift factor at cruise", 0.19, 0, 10)
 	v(aeroOutCL, "aero.cl_cruise", "-", "lift coefficient at mid-cruise mass", 0.15, -10, 10)
 	v(aeroOutCD, "aero.cd_cruise", "-", "trimmed drag coefficient at mid-cruise mass", 0.024, 0, 10)
 	v(aeroOutLD, "aero.ld_cruise", "-", "trimmed lift-to-drag ratio at mid-cruise mass", 7, -100, 100)
 	v(aeroOutDrag, "aero.drag_cruise", "N", "trimmed drag at the start of cruise", 60000, 0, 1e8)
 	v(aeroOutCD0TO, "aero.cd0_takeoff", "-", "zero-lift drag coefficient, take-off flaps, gear up", 0.03, 0, 1)
-	v(aeroOutKTO, "aero.k_takeoff", "-", "drag-due-to-lift factor, take-off flaps", 0.15, 0, 10)
 	v(aeroOutLDTO, "aero.ld_takeoff", "-", "lift-to-drag ratio at V2, take-off flaps", 7, 0, 100)
-	v(aeroOutCLMaxClean, "aero.cl_max_clean", "-", "maximum lift coefficient, clean", 0.7, 0, 5)
-	v(aeroOutCLMaxTO, "aero.cl_max_takeoff", "-", "maximum lift coefficient, take-off flaps", 1.0, 0, 6)
-	v(aeroOutCLMaxLdg, "aero.cl_max_landing", "-", "maximum lift coefficient, landing flaps", 1.3, 0, 6)
-	v(aeroOutCLACruise, "aero.cla_cruise", "1/rad", "wing-body lift-curve slope at cruise Mach", 3, 0, 20)
-	v(aeroOutCLALow, "aero.cla_low_speed", "1/rad", "wing-body lift-curve slope at low speed", 2.7, 0, 20)
 	v(aeroOutWave, "aero.wave_drag_cruise", "-", "volume wave-drag coefficient at cruise", 0.01, 0, 1)
 	v(aeroOutTrim, "aero.trim_drag_cruise", "-", "trim drag coefficient at mid-cruise mass", 0.0005, -1, 1)
 	v(aeroOutFriction, "aero.cd_friction_cruise", "-", "friction, form and interference drag coefficient at cruise", 0.01, 0, 1)
 	v(aeroOutMDD, "aero.mach_drag_divergence", "-", "drag-divergence Mach number (Korn) at cruise lift", 1.2, -10, 10)
 	v(aeroOutCD0Ldg, "aero.cd0_landing", "-", "zero-lift drag coefficient, landing flaps, gear down", 0.05, 0, 1)
-	v(aeroOutKLdg, "aero.k_landing", "-", "drag-due-to-lift factor, landing flaps", 0.16, 0, 10)
-	v(aeroOutCLTO, "aero.cl_takeoff", "-", "lift coefficient at V2 (CLmax,TO/1.13²)", 0.8, 0, 6)
 	return o
 }
+
+// lowSpeedLift is the lift coefficient of the low-speed polar's Korn
+// estimate.
+const lowSpeedLift = 0.5
 
 // Compute implements mdo.Discipline. It allocates nothing.
 func (a *Aerodynamics) Compute(in, out []float64) error {
@@ -950,42 +1001,64 @@ func (a *Aerodynamics) Compute(in, out []float64) error {
 	if err != nil {
 		return err
 	}
-	c, err := AssembleConfiguration(w, in[geoInPosition], f, in[aeroInHTailArea], in[aeroInVTailArea],
-		roundCount(in[aeroInEngines]), in[aeroInNacDiameter], in[aeroInNacLength], m.Geometry)
-	if err != nil {
-		return err
+	pos := in[geoInPosition]
+	if !(pos >= 0.05 && pos <= 0.9) {
+		return inputErr("wing.position", pos, "", "[0.05, 0.9] (apex x / fuselage length)")
 	}
 	mach := in[aeroInMach]
 	if !(mach > 0 && mach <= MaxMach) {
 		return inputErr("cruise.mach", mach, "", "(0, 2.5]")
 	}
-	var aw AirframeWave
-	unpackAreaRule(in[aeroInWave:], mach, &aw)
-	atm, err := StandardAtmosphere(in[aeroInAltitude])
-	if err != nil {
-		return renameInput(err, "cruise.altitude")
+	// the pods and the parts of the configuration the polar reads; the
+	// whole configuration only in the transonic fairing
+	c := Configuration{Wing: w, WingApex: pos * f.Length, Fuselage: f}
+	c.HTail.Area = in[aeroInHTailArea]
+	if c.Nacelles, err = placeNacelles(&c.Wing, c.WingApex, &c.Fuselage, roundCount(in[aeroInEngines]),
+		in[aeroInNacDiameter], in[aeroInNacLength], &m.Geometry); err != nil {
+		return err
 	}
-	q := atm.DynamicPressure(mach)
+	kf := m.Geometry.KornFactor
 	s := w.Area
+	q := in[aeroInQ]
 	mStart := in[aeroInMassStart]
 	mMid := 0.5 * (mStart + in[aeroInMassEnd])
 	cl := mMid * G0 / (q * s)
-	tab := m.components(&c)
-	e := OswaldEfficiency(w.AspectRatio, w.SweepLE)
-	p, err := m.polarFrom(&c, &tab, atm, mach, cl, false, &aw, e)
-	if err != nil {
-		return err
+	mdd := KornDragDivergence(kf, w.ThicknessRatio, w.Sweep, cl)
+	o := &m.Options
+	mddLow := KornDragDivergence(kf, w.ThicknessRatio, w.Sweep, lowSpeedLift)
+	if inFairing(mach, mdd) || inFairing(o.TakeoffMach, mddLow) {
+		if c, err = AssembleConfiguration(w, pos, f, in[aeroInHTailArea], in[aeroInVTailArea],
+			roundCount(in[aeroInEngines]), in[aeroInNacDiameter], in[aeroInNacLength], m.Geometry); err != nil {
+			return err
+		}
 	}
+	var aw AirframeWave
+	unpackAreaRule(in[aeroInWave:], mach, &aw)
+
+	// friction: the airframe's drag area plus the pods'
+	n := &c.Nacelles
+	hasPods := n.Count > 0 && n.Length > 0 && n.Diameter > 0
+	var lnN, swN, ffN float64
+	if hasPods {
+		lnN, swN, ffN = m.nacelleDragData(n)
+	}
+	dq := in[aeroInAirframeCruise]
+	if hasPods {
+		fc := m.frictionAt(in[aeroInReCruise], mach, false)
+		dq += m.componentDragArea(&fc, false, lnN, swN, ffN)
+	}
+	var p Polar
+	p.CDFriction = m.frictionCoefficient(dq, s)
+	p.MachDD = mdd
+	p.CDWave, _ = m.waveDrag(&c, mach, mdd, false, &aw)
+	p.CD0 = p.CDFriction + p.CDWave
+	p.K = in[aeroInK]
 	lt := in[aeroInTailLift]
-	kt := 0.0
-	if c.HTail.Area > 0 {
-		kt = DragDueToLift(c.HTail, mach, 0)
-	}
+	kt := in[aeroInKTail]
 	cd, trim := trimmedDrag(&c, p, cl, lt, q, kt)
 	clStart := mStart * G0 / (q * s)
 	cdStart, _ := trimmedDrag(&c, p, clStart, lt, q, kt)
 	out[aeroOutCD0] = p.CD0
-	out[aeroOutK] = p.K
 	out[aeroOutCL] = cl
 	out[aeroOutCD] = cd
 	out[aeroOutLD] = cl / cd
@@ -994,32 +1067,25 @@ func (a *Aerodynamics) Compute(in, out []float64) error {
 	out[aeroOutTrim] = trim
 	out[aeroOutFriction] = p.CDFriction
 	out[aeroOutMDD] = p.MachDD
-	out[aeroOutCLACruise] = p.CLAlpha
 
-	atmTO, err := OffsetAtmosphere(in[aeroInElevation], in[aeroInDT])
-	if err != nil {
-		return renameInput(err, "airport.elevation")
+	dqLow := in[aeroInAirframeLow]
+	if hasPods {
+		fc := m.frictionAt(in[aeroInReLow], o.TakeoffMach, false)
+		dqLow += m.componentDragArea(&fc, false, lnN, swN, ffN)
 	}
-	o := &m.Options
-	pl, err := m.polarFrom(&c, &tab, atmTO, o.TakeoffMach, 0.5, false, nil, e)
-	if err != nil {
-		return err
-	}
-	clmax := CLMaxClean(w)
-	clTO := CLMaxFlapped(w, in[aeroInFlapTakeoff])
-	clL := CLMaxFlapped(w, in[aeroInFlapLanding])
-	cd0TO := pl.CD0 + o.FlapDragPerCL*in[aeroInFlapTakeoff]
-	kTO := dragDueToLift(w, o.TakeoffMach, e-o.OswaldReductionTakeoff)
-	cl2 := clTO / (1.13 * 1.13)
+	waveLow, _ := m.waveDrag(&c, o.TakeoffMach, mddLow, false, nil)
+	cd0Low := m.frictionCoefficient(dqLow, s) + waveLow
+	cd0TO := cd0Low + o.FlapDragPerCL*in[aeroInFlapTakeoff]
+	cl2 := in[aeroInCLTO]
 	out[aeroOutCD0TO] = cd0TO
-	out[aeroOutKTO] = kTO
-	out[aeroOutLDTO] = cl2 / (cd0TO + kTO*cl2*cl2)
-	out[aeroOutCLTO] = cl2
-	out[aeroOutCLMaxClean] = clmax
-	out[aeroOutCLMaxTO] = clTO
-	out[aeroOutCLMaxLdg] = clL
-	out[aeroOutCLALow] = pl.CLAlpha
-	out[aeroOutCD0Ldg] = pl.CD0 + o.FlapDragPerCL*in[aeroInFlapLanding] + o.GearDrag
-	out[aeroOutKLdg] = dragDueToLift(w, o.TakeoffMach, e-o.OswaldReductionLanding)
+	out[aeroOutLDTO] = cl2 / (cd0TO + in[aeroInKTO]*cl2*cl2)
+	out[aeroOutCD0Ldg] = cd0Low + o.FlapDragPerCL*in[aeroInFlapLanding] + o.GearDrag
 	return nil
+}
+
+// inFairing reports whether mach lies in the transonic fairing of the
+// wave drag (above the drag-divergence Mach number mdd, held at or below
+// 0.95, and below Mach 1), where the whole configuration is cut.
+func inFairing(mach, mdd float64) bool {
+	return mach < 1 && mach > math.Min(mdd, blendLow)
 }

@@ -4,6 +4,8 @@ import (
 	"errors"
 	"math"
 	"testing"
+
+	"couplet/mdo"
 )
 
 func TestSearsHaackWaveDrag(t *testing.T) {
@@ -319,31 +321,64 @@ func TestAeroRefusesBadInput(t *testing.T) {
 			t.Errorf("%s: err = %v, want an InputError naming %s", cs.name, err, cs.wantVar)
 		}
 	}
-	// The discipline names the aircraft variable.
-	a := NewAerodynamics(DefaultGeometryOptions(), DefaultAeroOptions())
-	in := defaultValues(a.Inputs())
-	out := make([]float64, len(a.Outputs()))
-	in[aeroInAltitude] = 90000
-	err := a.Compute(in, out)
+	// The disciplines name the aircraft variable.
+	af := NewAirframeAerodynamics(DefaultGeometryOptions(), DefaultAeroOptions())
+	in := defaultValues(af.Inputs())
+	out := make([]float64, len(af.Outputs()))
+	in[afInAltitude] = 90000
+	err := af.Compute(in, out)
 	var ie *InputError
 	if !errors.As(err, &ie) || ie.Var != "cruise.altitude" {
 		t.Errorf("cruise altitude 90 km: err = %v", err)
 	}
-	in = defaultValues(a.Inputs())
-	in[geoInArea] = 0
-	if err := a.Compute(in, out); !errors.As(err, &ie) || ie.Var != "wing.area" {
-		t.Errorf("zero area: err = %v", err)
+	for _, d := range []mdo.Discipline{af, NewAerodynamics(DefaultGeometryOptions(), DefaultAeroOptions())} {
+		in := defaultValues(d.Inputs())
+		out := make([]float64, len(d.Outputs()))
+		in[geoInArea] = 0
+		if err := d.Compute(in, out); !errors.As(err, &ie) || ie.Var != "wing.area" {
+			t.Errorf("%s, zero area: err = %v", d.Name(), err)
+		}
 	}
 }
 
-func TestAerodynamicsDiscipline(t *testing.T) {
+// feedByName copies the values src (of the variables srcVars) into dst
+// (of dstVars) where the names match.
+func feedByName(dst []float64, dstVars []mdo.Var, src []float64, srcVars []mdo.Var) {
+	for i, v := range dstVars {
+		if k := varPosition(srcVars, v.Name); k >= 0 {
+			dst[i] = src[k]
+		}
+	}
+}
+
+// airframeThenAero runs airframe_aero on its defaults and returns the
+// inputs of aerodynamics (defaults, with the airframe's outputs fed in),
+// the airframe's outputs and the two disciplines.
+func airframeThenAero(t *testing.T) (*AirframeAerodynamics, []float64, *Aerodynamics, []float64) {
+	t.Helper()
+	af := NewAirframeAerodynamics(DefaultGeometryOptions(), DefaultAeroOptions())
+	afOut := make([]float64, len(af.Outputs()))
+	if err := af.Compute(defaultValues(af.Inputs()), afOut); err != nil {
+		t.Fatal(err)
+	}
 	a := NewAerodynamics(DefaultGeometryOptions(), DefaultAeroOptions())
 	in := defaultValues(a.Inputs())
+	feedByName(in, a.Inputs(), afOut, af.Outputs())
+	return af, afOut, a, in
+}
+
+func TestAerodynamicsDiscipline(t *testing.T) {
+	af, afOut, a, in := airframeThenAero(t)
 	out := make([]float64, len(a.Outputs()))
 	if err := a.Compute(in, out); err != nil {
 		t.Fatal(err)
 	}
-	get := func(name string) float64 { return out[varPosition(a.Outputs(), name)] }
+	get := func(name string) float64 {
+		if k := varPosition(a.Outputs(), name); k >= 0 {
+			return out[k]
+		}
+		return afOut[varPosition(af.Outputs(), name)]
+	}
 	// Internal consistency: L/D = CL/CD, CD = CD0 + K·CL² + trim, and the
 	// high-lift settings order the maximum lift coefficients.
 	if relErr(get("aero.ld_cruise"), get("aero.cl_cruise")/get("aero.cd_cruise")) > 1e-12 {
@@ -365,10 +400,99 @@ func TestAerodynamicsDiscipline(t *testing.T) {
 	if n := testing.AllocsPerRun(100, func() { _ = a.Compute(in, out) }); n != 0 {
 		t.Errorf("Compute allocates %v times", n)
 	}
+	afIn := defaultValues(af.Inputs())
+	if n := testing.AllocsPerRun(100, func() { _ = af.Compute(afIn, afOut) }); n != 0 {
+		t.Errorf("airframe_aero Compute allocates %v times", n)
+	}
+}
+
+func TestAerodynamicsSplitMatchesPolar(t *testing.T) {
+	// airframe_aero followed by aerodynamics gives the polar of the
+	// aerodynamic model for the whole configuration (pods included), at
+	// supersonic, transonic-fairing and subsonic cruise: the split only
+	// moves the pods-free parts out of the coupled loop.
+	o := DefaultGeometryOptions()
+	g := NewGeometry(o)
+	af := NewAirframeAerodynamics(o, DefaultAeroOptions())
+	a := NewAerodynamics(o, DefaultAeroOptions())
+	for _, mach := range []float64{1.5, 0.97, 0.7} {
+		gin := defaultValues(g.Inputs())
+		gin[geoInMach] = mach
+		gout := make([]float64, len(g.Outputs()))
+		if err := g.Compute(gin, gout); err != nil {
+			t.Fatal(err)
+		}
+		afIn := defaultValues(af.Inputs())
+		feedByName(afIn, af.Inputs(), gin, g.Inputs())
+		feedByName(afIn, af.Inputs(), gout, g.Outputs())
+		afOut := make([]float64, len(af.Outputs()))
+		if err := af.Compute(afIn, afOut); err != nil {
+			t.Fatal(err)
+		}
+		in := defaultValues(a.Inputs())
+		feedByName(in, a.Inputs(), gin, g.Inputs())
+		feedByName(in, a.Inputs(), gout, g.Outputs())
+		feedByName(in, a.Inputs(), afOut, af.Outputs())
+		out := make([]float64, len(a.Outputs()))
+		if err := a.Compute(in, out); err != nil {
+			t.Fatal(err)
+		}
+		conf, err := g.Layout(gin)
+		if err != nil {
+			t.Fatal(err)
+		}
+		c, err := AssembleConfiguration(conf.Wing, gin[geoInPosition], conf.Fuselage, conf.HTailArea(), conf.VTailArea(),
+			roundCount(in[aeroInEngines]), in[aeroInNacDiameter], in[aeroInNacLength], o)
+		if err != nil {
+			t.Fatal(err)
+		}
+		cl := out[aeroOutCL]
+		p, err := a.Model().Polar(&c, FlightCondition{Mach: mach, Altitude: afIn[afInAltitude]}, cl)
+		if err != nil {
+			t.Fatal(err)
+		}
+		pl, err := a.Model().Polar(&c, FlightCondition{Mach: a.Model().Options.TakeoffMach, Altitude: afIn[afInElevation], TemperatureOffset: afIn[afInDT]}, lowSpeedLift)
+		if err != nil {
+			t.Fatal(err)
+		}
+		checks := []struct {
+			name      string
+			got, want float64
+		}{
+			{"aero.cd_friction_cruise", out[aeroOutFriction], p.CDFriction},
+			{"aero.wave_drag_cruise", out[aeroOutWave], p.CDWave},
+			{"aero.mach_drag_divergence", out[aeroOutMDD], p.MachDD},
+			{"aero.k_cruise", afOut[afOutK], p.K},
+			{"aero.cla_cruise", afOut[afOutCLACruise], p.CLAlpha},
+			{"aero.cla_low_speed", afOut[afOutCLALow], pl.CLAlpha},
+			{"aero.cd0_takeoff", out[aeroOutCD0TO], pl.CD0 + a.Model().Options.FlapDragPerCL*in[aeroInFlapTakeoff]},
+		}
+		for _, ck := range checks {
+			// the area rule of the whole configuration is cut over the
+			// pods' range too, so the wave drag agrees to the quadrature
+			tol := 1e-12
+			if ck.name == "aero.wave_drag_cruise" {
+				tol = 1e-9
+			}
+			if relErr(ck.got, ck.want) > tol {
+				t.Errorf("M %g: %s = %.15g, the model's polar gives %.15g", mach, ck.name, ck.got, ck.want)
+			}
+		}
+	}
 }
 
 func BenchmarkAerodynamicsCompute(b *testing.B) {
 	a := NewAerodynamics(DefaultGeometryOptions(), DefaultAeroOptions())
+	in := defaultValues(a.Inputs())
+	out := make([]float64, len(a.Outputs()))
+	b.ReportAllocs()
+	for i := 0; i < b.N; i++ {
+		_ = a.Compute(in, out)
+	}
+}
+
+func BenchmarkAirframeAerodynamicsCompute(b *testing.B) {
+	a := NewAirframeAerodynamics(DefaultGeometryOptions(), DefaultAeroOptions())
 	in := defaultValues(a.Inputs())
 	out := make([]float64, len(a.Outputs()))
 	b.ReportAllocs()
@@ -416,7 +540,16 @@ func TestGeometryFeedsAerodynamics(t *testing.T) {
 	if err := g.Compute(gin, gout); err != nil {
 		t.Fatal(err)
 	}
+	af := NewAirframeAerodynamics(o, DefaultAeroOptions())
+	afIn := defaultValues(af.Inputs())
+	feedByName(afIn, af.Inputs(), gin, g.Inputs())
+	feedByName(afIn, af.Inputs(), gout, g.Outputs())
+	afOut := make([]float64, len(af.Outputs()))
+	if err := af.Compute(afIn, afOut); err != nil {
+		t.Fatal(err)
+	}
 	ain := defaultValues(a.Inputs())
+	feedByName(ain, a.Inputs(), afOut, af.Outputs())
 	for i, v := range a.Inputs() {
 		if k := varPosition(g.Outputs(), v.Name); k >= 0 {
 			ain[i] = gout[k]

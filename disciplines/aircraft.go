@@ -21,14 +21,18 @@ func DefaultAircraftConfig() AircraftConfig {
 }
 
 // AircraftDisciplines returns the disciplines of the aircraft model in
-// their Gauss–Seidel order: geometry, aerodynamics, engine_cycle,
-// propulsion, mission, weights, stability. Mission runs before weights so
+// their Gauss–Seidel order: geometry, airframe_aero, aerodynamics,
+// engine_cycle, propulsion, mission, weights, stability. The airframe's
+// aerodynamics (airframe_aero) depends on the design parameters only and
+// runs once ahead of the coupled group; aerodynamics adds what the loop
+// changes (pods, lift, trim). Mission runs before weights so
 // that the fuel fractions reach the mass closure in the same sweep; this
 // order needs less than half the iterations of weights-before-mission and
 // converges to the same state.
 func AircraftDisciplines(cfg AircraftConfig) []mdo.Discipline {
 	return []mdo.Discipline{
 		NewGeometry(cfg.Geometry),
+		NewAirframeAerodynamics(cfg.Geometry, cfg.Aero),
 		NewAerodynamics(cfg.Geometry, cfg.Aero),
 		NewEngineCycle(),
 		NewPropulsion(),
@@ -38,8 +42,8 @@ func AircraftDisciplines(cfg AircraftConfig) []mdo.Discipline {
 	}
 }
 
-// NewAircraft builds the coupled System of the whole aircraft. Geometry
-// and the engine cycle run first; aerodynamics, propulsion, weights,
+// NewAircraft builds the coupled System of the whole aircraft. Geometry,
+// the airframe's aerodynamics and the engine cycle run first; aerodynamics, propulsion, weights,
 // stability and mission form one coupled group (mass ↔ aerodynamics ↔
 // propulsion ↔ stability ↔ mission) that the System's solver converges.
 func NewAircraft(cfg AircraftConfig) (*mdo.System, error) {

@@ -444,28 +444,35 @@ func AssembleConfiguration(w Wing, wingPosition float64, f Fuselage, htailArea, 
 		return c, err
 	}
 	c.VTailApex = o.VTailPosition*L - c.VTail.MACX - 0.25*c.VTail.MAC
-	if nacelleDiameter > 0 && engineCount > 0 {
-		if engineCount > 5 {
-			return c, inputErr("engine.count", float64(engineCount), "", "integer in [1, 5]")
-		}
-		if !(nacelleLength > 0) {
-			return c, inputErr("nacelle.length", nacelleLength, "m", "> 0")
-		}
-		n := Nacelles{Count: engineCount, Diameter: nacelleDiameter, Length: nacelleLength}
-		for p := 0; p < engineCount/2; p++ {
-			y := o.NacelleSpan[p] * 0.5 * w.Span
-			n.Y[n.n] = y
-			n.X[n.n] = c.WingApex + w.LeadingEdgeX(y) + o.NacelleInlet*w.ChordAt(y)
-			n.n++
-		}
-		if engineCount%2 == 1 {
-			n.Y[n.n] = 0
-			n.X[n.n] = L - f.TailLength - 0.5*nacelleLength
-			n.n++
-		}
-		c.Nacelles = n
+	c.Nacelles, err = placeNacelles(&c.Wing, c.WingApex, &c.Fuselage, engineCount, nacelleDiameter, nacelleLength, &o)
+	return c, err
+}
+
+// placeNacelles places engineCount pods of the given size on a wing with
+// its apex at x = apex on fuselage f (diameter 0 or no engines = no pods).
+func placeNacelles(w *Wing, apex float64, f *Fuselage, engineCount int, nacelleDiameter, nacelleLength float64, o *GeometryOptions) (Nacelles, error) {
+	if !(nacelleDiameter > 0 && engineCount > 0) {
+		return Nacelles{}, nil
 	}
-	return c, nil
+	if engineCount > 5 {
+		return Nacelles{}, inputErr("engine.count", float64(engineCount), "", "integer in [1, 5]")
+	}
+	if !(nacelleLength > 0) {
+		return Nacelles{}, inputErr("nacelle.length", nacelleLength, "m", "> 0")
+	}
+	n := Nacelles{Count: engineCount, Diameter: nacelleDiameter, Length: nacelleLength}
+	for p := 0; p < engineCount/2; p++ {
+		y := o.NacelleSpan[p] * 0.5 * w.Span
+		n.Y[n.n] = y
+		n.X[n.n] = apex + w.LeadingEdgeX(y) + o.NacelleInlet*w.ChordAt(y)
+		n.n++
+	}
+	if engineCount%2 == 1 {
+		n.Y[n.n] = 0
+		n.X[n.n] = f.Length - f.TailLength - 0.5*nacelleLength
+		n.n++
+	}
+	return n, nil
 }
 
 // HTailArm returns the distance from the wing's MAC quarter chord to the

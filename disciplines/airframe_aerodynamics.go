@@ -1,0 +1,203 @@
+package disciplines
+
+import (
+	"couplet/mdo"
+)
+
+// AirframeAerodynamics is the "airframe_aero" discipline: the part of the
+// aerodynamics that depends on the design parameters only, so that it runs
+// once before the coupled loop instead of in every coupling iteration. It
+// builds the airframe (wing, fuselage, tails; no pods) from the geometry
+// outputs and the wing parameters and gives
+//
+//   - the friction, form and interference drag area Σ Cf·FF·Q·S_wet of
+//     the airframe at cruise and at the low-speed condition
+//     (aero.airframe_drag_area_cruise, aero.airframe_drag_area_low_speed;
+//     without the miscellaneous share, which aerodynamics applies after
+//     adding the pods), with the Reynolds numbers per metre of both
+//     conditions (aero.reynolds_per_metre_cruise, _low_speed) for the
+//     pods' skin friction and the cruise dynamic pressure
+//     (aero.dynamic_pressure_cruise);
+//   - the drag-due-to-lift factors aero.k_cruise, aero.k_takeoff,
+//     aero.k_landing and the horizontal tail's at cruise,
+//     aero.k_htail_cruise (for the trim drag);
+//   - the wing-body lift-curve slopes aero.cla_cruise and
+//     aero.cla_low_speed;
+//   - the maximum lift coefficients aero.cl_max_clean, _takeoff, _landing
+//     and the lift coefficient at V2 = 1.13·VSR (14 CFR 25.107),
+//     aero.cl_takeoff = CLmax,TO/1.13².
+//
+// The methods are those of the aerodynamic model (AeroModel); the low-speed
+// condition is Mach AeroOptions.TakeoffMach at the airport.
+type AirframeAerodynamics struct {
+	model *AeroModel
+}
+
+// NewAirframeAerodynamics returns the airframe_aero discipline; the layout
+// options must be those of the geometry discipline.
+func NewAirframeAerodynamics(g GeometryOptions, a AeroOptions) *AirframeAerodynamics {
+	return &AirframeAerodynamics{model: NewAeroModel(g, a)}
+}
+
+// Model returns the aerodynamic model the discipline uses.
+func (a *AirframeAerodynamics) Model() *AeroModel { return a.model }
+
+// Name implements mdo.Discipline.
+func (a *AirframeAerodynamics) Name() string { return "airframe_aero" }
+
+// Input indices of the airframe_aero discipline (the wing parameters come
+// first, in the order of the geometry discipline).
+const (
+	afInFusLength = 6 + iota
+	afInFusDiameter
+	afInNoseLength
+	afInTailLength
+	afInHTailArea
+	afInVTailArea
+	afInMach
+	afInAltitude
+	afInFlapTakeoff
+	afInFlapLanding
+	afInElevation
+	afInDT
+	afNumIn
+)
+
+// Output indices of the airframe_aero discipline.
+const (
+	afOutAreaCruise = iota
+	afOutAreaLow
+	afOutReCruise
+	afOutReLow
+	afOutQ
+	afOutK
+	afOutKTail
+	afOutKTO
+	afOutKLdg
+	afOutCLACruise
+	afOutCLALow
+	afOutCLMaxClean
+	afOutCLMaxTO
+	afOutCLMaxLdg
+	afOutCLTO
+	afNumOut
+)
+
+// Inputs implements mdo.Discipline.
+func (a *AirframeAerodynamics) Inputs() []mdo.Var {
+	in := make([]mdo.Var, afNumIn)
+	w := wingParamVars()
+	copy(in, w[:])
+	v := func(i int, name, unit, desc string, def, lo, hi, scale float64) {
+		in[i] = mdo.Var{Name: name, Unit: unit, Description: desc, Default: def, Min: lo, Max: hi, Scale: scale}
+	}
+	v(afInFusLength, "fuselage.length", "m", "fuselage length", 22, 0, 200, 0)
+	v(afInFusDiameter, "fuselage.diameter", "m", "fuselage outer diameter", 1.9, 0, 20, 0)
+	v(afInNoseLength, "fuselage.nose_length", "m", "nose cone length", 6.5, 0, 100, 0)
+	v(afInTailLength, "fuselage.tail_length", "m", "tail cone length", 7.5, 0, 100, 0)
+	v(afInHTailArea, "htail.area", "m2", "horizontal-tail area", 20, 0, 1000, 0)
+	v(afInVTailArea, "vtail.area", "m2", "vertical-tail (fin) area", 15, 0, 1000, 0)
+	v(afInMach, "cruise.mach", "-", "cruise Mach number", 1.5, 0, MaxMach, 0)
+	v(afInAltitude, "cruise.altitude", "m", "cruise altitude (geometric)", 15000, AtmosphereMinAltitude, AtmosphereMaxAltitude, 1000)
+	v(afInFlapTakeoff, "flap.cl_increment_takeoff", "-", "CLmax increment of the take-off high-lift setting (unswept wing)", 0.4, 0, 3, 0)
+	v(afInFlapLanding, "flap.cl_increment_landing", "-", "CLmax increment of the landing high-lift setting (unswept wing)", 0.8, 0, 3, 0)
+	v(afInElevation, "airport.elevation", "m", "airport elevation", 0, -400, 4500, 1000)
+	v(afInDT, "airport.temperature_offset", "K", "airport temperature above the standard day", 0, -50, 50, 10)
+	return in
+}
+
+// airframeAeroOutputs returns the specifications of the airframe_aero
+// outputs (aerodynamics reads some of them).
+func airframeAeroOutputs() []mdo.Var {
+	o := make([]mdo.Var, afNumOut)
+	v := func(i int, name, unit, desc string, def, lo, hi float64) {
+		o[i] = mdo.Var{Name: name, Unit: unit, Description: desc, Default: def, Min: lo, Max: hi, Scale: def}
+	}
+	v(afOutAreaCruise, "aero.airframe_drag_area_cruise", "m2", "friction, form and interference drag area of wing, fuselage and tails at cruise (no pods, no miscellaneous share)", 1, 0, 1e4)
+	v(afOutAreaLow, "aero.airframe_drag_area_low_speed", "m2", "friction, form and interference drag area of wing, fuselage and tails at low speed (no pods, no miscellaneous share)", 1.5, 0, 1e4)
+	v(afOutReCruise, "aero.reynolds_per_metre_cruise", "1/m", "Reynolds number per metre at cruise", 5e6, 0, 1e10)
+	v(afOutReLow, "aero.reynolds_per_metre_low_speed", "1/m", "Reynolds number per metre of the low-speed polar at the airport", 4.5e6, 0, 1e10)
+	v(afOutQ, "aero.dynamic_pressure_cruise", "Pa", "dynamic pressure at cruise", 25000, 0, 1e7)
+	v(afOutK, "aero.k_cruise", "-", "drag-due-to-lift factor at cruise", 0.19, 0, 10)
+	v(afOutKTail, "aero.k_htail_cruise", "-", "drag-due-to-lift factor of the horizontal tail at cruise (0 = no tail)", 0.2, 0, 10)
+	v(afOutKTO, "aero.k_takeoff", "-", "drag-due-to-lift factor, take-off flaps", 0.15, 0, 10)
+	v(afOutKLdg, "aero.k_landing", "-", "drag-due-to-lift factor, landing flaps", 0.16, 0, 10)
+	v(afOutCLACruise, "aero.cla_cruise", "1/rad", "wing-body lift-curve slope at cruise Mach", 3, 0, 20)
+	v(afOutCLALow, "aero.cla_low_speed", "1/rad", "wing-body lift-curve slope at low speed", 2.7, 0, 20)
+	v(afOutCLMaxClean, "aero.cl_max_clean", "-", "maximum lift coefficient, clean", 0.7, 0, 5)
+	v(afOutCLMaxTO, "aero.cl_max_takeoff", "-", "maximum lift coefficient, take-off flaps", 1.0, 0, 6)
+	v(afOutCLMaxLdg, "aero.cl_max_landing", "-", "maximum lift coefficient, landing flaps", 1.3, 0, 6)
+	v(afOutCLTO, "aero.cl_takeoff", "-", "lift coefficient at V2 (CLmax,TO/1.13²)", 0.8, 0, 6)
+	return o
+}
+
+// Outputs implements mdo.Discipline.
+func (a *AirframeAerodynamics) Outputs() []mdo.Var { return airframeAeroOutputs() }
+
+// Compute implements mdo.Discipline. It allocates nothing.
+func (a *AirframeAerodynamics) Compute(in, out []float64) error {
+	m := a.model
+	w, err := NewWing(in[geoInArea], in[geoInAspect], in[geoInTaper], in[geoInSweep], in[geoInTC])
+	if err != nil {
+		return err
+	}
+	f, err := FuselageFromDimensions(in[afInFusLength], in[afInFusDiameter], in[afInNoseLength], in[afInTailLength])
+	if err != nil {
+		return err
+	}
+	c, err := AssembleConfiguration(w, in[geoInPosition], f, in[afInHTailArea], in[afInVTailArea], 0, 0, 0, m.Geometry)
+	if err != nil {
+		return err
+	}
+	mach := in[afInMach]
+	if !(mach > 0 && mach <= MaxMach) {
+		return inputErr("cruise.mach", mach, "", "(0, 2.5]")
+	}
+	atm, err := StandardAtmosphere(in[afInAltitude])
+	if err != nil {
+		return renameInput(err, "cruise.altitude")
+	}
+	atmTO, err := OffsetAtmosphere(in[afInElevation], in[afInDT])
+	if err != nil {
+		return renameInput(err, "airport.elevation")
+	}
+	o := &m.Options
+	tab := m.components(&c)
+	e := OswaldEfficiency(w.AspectRatio, w.SweepLE)
+
+	re := atm.Reynolds(mach)
+	fc := m.frictionAt(re, mach, true)
+	out[afOutAreaCruise] = m.dragArea(&tab, &fc)
+	out[afOutReCruise] = re
+	out[afOutQ] = atm.DynamicPressure(mach)
+	out[afOutK] = dragDueToLift(w, mach, e)
+	kt := 0.0
+	if c.HTail.Area > 0 {
+		kt = DragDueToLift(c.HTail, mach, 0)
+	}
+	out[afOutKTail] = kt
+	bf := wingBodyLiftFactor(&c)
+	cla, err := LiftSlope(w, mach, o.Kappa)
+	if err != nil {
+		return err
+	}
+	out[afOutCLACruise] = cla * bf
+
+	reLow := atmTO.Reynolds(o.TakeoffMach)
+	fcLow := m.frictionAt(reLow, o.TakeoffMach, true)
+	out[afOutAreaLow] = m.dragArea(&tab, &fcLow)
+	out[afOutReLow] = reLow
+	claLow, err := LiftSlope(w, o.TakeoffMach, o.Kappa)
+	if err != nil {
+		return err
+	}
+	out[afOutCLALow] = claLow * bf
+	clTO := CLMaxFlapped(w, in[afInFlapTakeoff])
+	out[afOutCLMaxClean] = CLMaxClean(w)
+	out[afOutCLMaxTO] = clTO
+	out[afOutCLMaxLdg] = CLMaxFlapped(w, in[afInFlapLanding])
+	out[afOutCLTO] = clTO / (1.13 * 1.13)
+	out[afOutKTO] = dragDueToLift(w, o.TakeoffMach, e-o.OswaldReductionTakeoff)
+	out[afOutKLdg] = dragDueToLift(w, o.TakeoffMach, e-o.OswaldReductionLanding)
+	return nil
+}
