@@ -101,7 +101,7 @@ func benchRecord(b *testing.B, sh shape) {
 	}
 	// the store keeps the evaluations of a batch by reference until it
 	// commits them, so the ring of records outlasts a batch
-	evs := make([]mdo.Evaluation, 2*s.opt.BatchSize)
+	evs := make([]mdo.Evaluation, s.inFlight()+1)
 	b.ReportAllocs()
 	cpu0 := cpuTime()
 	b.ResetTimer()
@@ -143,7 +143,7 @@ func BenchmarkRecordMillion(b *testing.B) {
 		if err := s.Begin(syntheticRun()); err != nil {
 			b.Fatal(err)
 		}
-		evs := make([]mdo.Evaluation, 2*s.opt.BatchSize)
+		evs := make([]mdo.Evaluation, s.inFlight()+1)
 		var ms runtime.MemStats
 		peakHeap := uint64(0)
 		start := time.Now()

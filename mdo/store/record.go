@@ -87,7 +87,7 @@ func (s *Store) Begin(info mdo.RunInfo) error {
 		return err
 	}
 	s.began = true
-	s.lastFlush = time.Now()
+	s.startWriter(s.rows)
 	return nil
 }
 
@@ -223,16 +223,17 @@ func (s *Store) prepare() error {
 	return nil
 }
 
-// Record queues one evaluation and commits the batch when it is full or
-// the flush interval has passed. The evaluation is kept by reference
-// until it is committed (mdo's evaluations are not modified after they
-// are recorded).
+// Record queues one evaluation for the background writer and returns;
+// the writer commits it with its batch (see Options). The evaluation is
+// kept by reference until it is committed (mdo's evaluations are not
+// modified after they are recorded). A failed commit is returned by the
+// next Record, Iteration, Flush, End or Close.
 func (s *Store) Record(e *mdo.Evaluation) error {
 	if err := s.usable(); err != nil {
 		return err
 	}
-	if !s.began {
-		return fmt.Errorf("store: %s: Record before Begin", s.path)
+	if s.w == nil {
+		return s.notWriting("Record")
 	}
 	if e == nil {
 		return fmt.Errorf("store: %s: Record(nil)", s.path)
@@ -240,11 +241,7 @@ func (s *Store) Record(e *mdo.Evaluation) error {
 	if err := s.lay.fits(e); err != nil {
 		return fmt.Errorf("store: %s: evaluation %d: %w", s.path, e.ID, err)
 	}
-	s.pending = append(s.pending, e)
-	if len(s.pending) >= s.opt.BatchSize || time.Since(s.lastFlush) >= s.opt.FlushInterval {
-		return s.flush()
-	}
-	return nil
+	return s.w.push(e, s.opt.BatchSize)
 }
 
 // fits checks an evaluation's lengths against the layout.
@@ -261,22 +258,20 @@ func (l *layout) fits(e *mdo.Evaluation) error {
 	return nil
 }
 
-// Iteration queues one optimiser iteration.
+// Iteration queues one optimiser iteration; it is committed with the
+// evaluations recorded before it.
 func (s *Store) Iteration(p mdo.Progress) error {
 	if err := s.usable(); err != nil {
 		return err
 	}
-	if !s.began {
-		return fmt.Errorf("store: %s: Iteration before Begin", s.path)
+	if s.w == nil {
+		return s.notWriting("Iteration")
 	}
-	s.pendingIt = append(s.pendingIt, iterRow{p: p, at: time.Now()})
-	if time.Since(s.lastFlush) >= s.opt.FlushInterval {
-		return s.flush()
-	}
-	return nil
+	return s.w.pushIteration(p)
 }
 
-// Flush commits the pending evaluations and iterations now.
+// Flush commits the queued evaluations and iterations now and waits
+// until they are committed.
 func (s *Store) Flush() error {
 	if err := s.usable(); err != nil {
 		return err
@@ -284,52 +279,35 @@ func (s *Store) Flush() error {
 	return s.flush()
 }
 
-// flush commits what is pending in one transaction. An error is sticky:
-// the store refuses further records.
-func (s *Store) flush() error {
-	if len(s.pending) == 0 && len(s.pendingIt) == 0 {
-		s.lastFlush = time.Now()
+// notWriting is the error of a Record or Iteration outside Begin … End.
+func (s *Store) notWriting(what string) error {
+	if s.ended {
+		return fmt.Errorf("store: %s: %s after End", s.path, what)
+	}
+	return fmt.Errorf("store: %s: %s before Begin", s.path, what)
+}
+
+// stopWriter commits what is queued and stops the writer, if it runs; a
+// write error becomes the store's error.
+func (s *Store) stopWriter() error {
+	if s.w == nil {
 		return nil
 	}
-	ctx := context.Background()
-	err := s.inTx(func() error {
-		return s.conn.Raw(func(any) error {
-			p := s.pending
-			for s.stmtBatch != nil && len(p) >= s.batchRows {
-				if _, err := s.stmtBatch.ExecContext(ctx, s.bind(p[:s.batchRows])); err != nil {
-					return err
-				}
-				p = p[s.batchRows:]
-			}
-			for k := range p {
-				if _, err := s.stmtOne.ExecContext(ctx, s.bind(p[k:k+1])); err != nil {
-					return err
-				}
-			}
-			for _, it := range s.pendingIt {
-				s.args = s.args[:0]
-				s.add(int64(s.session), it.p.Optimizer, int64(it.p.Iteration), int64(it.p.Evaluations),
-					nanNull(it.p.Best), it.p.Feasible, nanNull(it.p.Violation), it.at.UTC().Format(time.RFC3339Nano))
-				if _, err := s.stmtIt.ExecContext(ctx, s.args); err != nil {
-					return err
-				}
-			}
-			return nil
-		})
-	})
+	err := s.w.close()
+	s.rows = s.w.committedRows()
+	s.w = nil
 	if err != nil {
-		s.err = fmt.Errorf("store: %s: committing %d evaluations: %w", s.path, len(s.pending), err)
-		return s.err
+		s.err = err
 	}
-	s.rows += len(s.pending) // a replaced row counts too until End recounts
-	clear(s.pending)
-	s.pending = s.pending[:0]
-	s.pendingIt = s.pendingIt[:0]
-	s.lastFlush = time.Now()
-	if s.opt.OnCommit != nil {
-		s.opt.OnCommit(s.rows)
+	return err
+}
+
+// flush waits for the writer, if it runs, to commit what is queued.
+func (s *Store) flush() error {
+	if s.w == nil {
+		return nil
 	}
-	return nil
+	return s.w.flush()
 }
 
 // nanNull maps NaN to SQL NULL.
@@ -381,7 +359,7 @@ func (s *Store) End(r *mdo.Result) error {
 	if !s.began {
 		return fmt.Errorf("store: %s: End before Begin", s.path)
 	}
-	if err := s.flush(); err != nil {
+	if err := s.stopWriter(); err != nil {
 		return err
 	}
 	ctx := context.Background()

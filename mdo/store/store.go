@@ -13,6 +13,7 @@ import (
 	"os"
 	"runtime"
 	"strconv"
+	"sync"
 	"time"
 
 	"couplet/mdo"
@@ -25,11 +26,16 @@ type Options struct {
 	// ToolVersion is the version of the program writing the store, kept
 	// in the provenance (for example the couplet command's version).
 	ToolVersion string
-	// BatchSize is the number of evaluations committed together; default
-	// 4096 (the flush interval bounds what a crash can lose).
+	// BatchSize is the most evaluations committed together; default
+	// 4096 (the flush interval bounds what a crash can lose). Record
+	// queues evaluations for the store's writer goroutine, which commits
+	// them as soon as BatchSize are waiting; the queue holds up to
+	// max(BatchSize, 256) evaluations, beyond which Record waits for the
+	// writer.
 	BatchSize int
-	// FlushInterval commits the pending evaluations when this long has
-	// passed since the last commit (checked as each evaluation arrives);
+	// FlushInterval bounds how long a recorded evaluation waits for its
+	// commit: the writer commits what is queued when this long has passed
+	// since its last commit, whether or not more evaluations arrive;
 	// default 250 ms.
 	FlushInterval time.Duration
 	// Durable asks SQLite to sync the write-ahead log at every commit
@@ -40,7 +46,8 @@ type Options struct {
 	// Overwrite lets Create replace an existing file.
 	Overwrite bool
 	// OnCommit, if not nil, is called after each committed batch with the
-	// number of evaluation rows the store holds.
+	// number of evaluation rows the store holds. It is called from the
+	// store's writer goroutine.
 	OnCommit func(rows int)
 }
 
@@ -82,7 +89,9 @@ type RunMeta struct {
 }
 
 // Store is a SQLite case store. It implements mdo.Recorder and
-// mdo.IterationRecorder. A Store is used from one goroutine.
+// mdo.IterationRecorder. A Store is used from one goroutine; between
+// Begin and End it runs a writer goroutine of its own, which encodes and
+// commits the recorded rows in the background.
 type Store struct {
 	path     string
 	opt      Options
@@ -94,9 +103,8 @@ type Store struct {
 	lay     *layout
 	session int
 
-	pending   []*mdo.Evaluation
-	pendingIt []iterRow
-	lastFlush time.Time
+	w         *writer // the background writer, between Begin and End
+	txMu      sync.Mutex
 	batchRows int
 	stmts     []driver.Stmt
 	stmtBatch driver.StmtExecContext
@@ -108,12 +116,6 @@ type Store struct {
 	began     bool
 	ended     bool
 	err       error
-}
-
-// iterRow is a pending optimiser iteration.
-type iterRow struct {
-	p  mdo.Progress
-	at time.Time
 }
 
 // Compile-time checks of the interfaces.
@@ -349,12 +351,17 @@ func (s *Store) Run() (m RunMeta, ok bool) {
 		return RunMeta{}, false
 	}
 	m = *s.meta
-	m.Rows = s.rows
+	m.Rows = s.Rows()
 	return m, true
 }
 
 // Rows returns the number of committed evaluation rows.
-func (s *Store) Rows() int { return s.rows }
+func (s *Store) Rows() int {
+	if s.w != nil {
+		return s.w.committedRows()
+	}
+	return s.rows
+}
 
 // Check refuses a store whose run came from another script or seed: the
 // error names both hashes or both seeds. A store in which no run has
@@ -374,6 +381,8 @@ func (s *Store) Check(script string, seed uint64) error {
 
 // inTx runs fn inside BEGIN IMMEDIATE … COMMIT on the pinned connection.
 func (s *Store) inTx(fn func() error) error {
+	s.txMu.Lock()
+	defer s.txMu.Unlock()
 	ctx := context.Background()
 	if _, err := s.conn.ExecContext(ctx, "BEGIN IMMEDIATE"); err != nil {
 		return err
@@ -395,10 +404,7 @@ func (s *Store) Close() error {
 	if s.db == nil {
 		return nil
 	}
-	var first error
-	if !s.readOnly && s.began && !s.ended {
-		first = s.flush()
-	}
+	first := s.stopWriter()
 	if len(s.stmts) > 0 {
 		_ = s.conn.Raw(func(any) error {
 			for _, st := range s.stmts {

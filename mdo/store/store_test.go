@@ -9,6 +9,7 @@ import (
 	"os"
 	"path/filepath"
 	"strings"
+	"sync"
 	"testing"
 	"time"
 
@@ -507,13 +508,26 @@ func TestCommitCadence(t *testing.T) {
 	}{
 		{"by count", 3, time.Hour, 7, []int{3, 6, 7}},
 		{"one at a time", 1, time.Hour, 3, []int{1, 2, 3}},
+		// the writer commits a lone evaluation once the interval has
+		// passed, without waiting for another one or for End: each record
+		// waits for its commit before the next is made
 		{"by time", 1000, time.Nanosecond, 3, []int{1, 2, 3}},
 		{"only at End", 1000, time.Hour, 5, []int{5}},
 	}
 	for _, tc := range tests {
+		var mu sync.Mutex
 		var got []int
+		commits := func() []int {
+			mu.Lock()
+			defer mu.Unlock()
+			return append([]int(nil), got...)
+		}
 		s, err := Create(filepath.Join(t.TempDir(), "c.db"), Options{BatchSize: tc.batch, FlushInterval: tc.interval,
-			OnCommit: func(rows int) { got = append(got, rows) }})
+			OnCommit: func(rows int) {
+				mu.Lock()
+				got = append(got, rows)
+				mu.Unlock()
+			}})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -523,19 +537,21 @@ func TestCommitCadence(t *testing.T) {
 		for i := 0; i < tc.records; i++ {
 			var e mdo.Evaluation
 			syntheticEval(&e, i)
-			if tc.interval == time.Nanosecond {
-				time.Sleep(time.Microsecond)
-			}
 			if err := s.Record(&e); err != nil {
 				t.Fatal(err)
+			}
+			if tc.interval == time.Nanosecond {
+				for deadline := time.Now().Add(10 * time.Second); len(commits()) < i+1 && time.Now().Before(deadline); {
+					time.Sleep(time.Millisecond)
+				}
 			}
 		}
 		if err := s.End(nil); err != nil {
 			t.Fatal(err)
 		}
 		s.Close()
-		if fmt.Sprint(got) != fmt.Sprint(tc.commits) {
-			t.Errorf("%s: commits after %v rows, want %v", tc.name, got, tc.commits)
+		if fmt.Sprint(commits()) != fmt.Sprint(tc.commits) {
+			t.Errorf("%s: commits after %v rows, want %v", tc.name, commits(), tc.commits)
 		}
 	}
 }
