@@ -32,11 +32,12 @@ type RunOutputs struct {
 	stores  []*store.Store
 	ended   map[*mdo.Result]*store.Store
 	systems map[string]*mdo.System // study name → system, for the DSM
+	studies map[string]*mdo.Study  // study name → study, for the aircraft figures
 }
 
 // NewRunOutputs returns the outputs of a run into dir.
 func NewRunOutputs(dir string) *RunOutputs {
-	return &RunOutputs{dir: dir, ended: map[*mdo.Result]*store.Store{}, systems: map[string]*mdo.System{}}
+	return &RunOutputs{dir: dir, ended: map[*mdo.Result]*store.Store{}, systems: map[string]*mdo.System{}, studies: map[string]*mdo.Study{}}
 }
 
 // Recorder makes the recorder cell.Attach installs in a study: each run
@@ -44,6 +45,7 @@ func NewRunOutputs(dir string) *RunOutputs {
 func (o *RunOutputs) Recorder(st *mdo.Study) (mdo.Recorder, error) {
 	o.mu.Lock()
 	o.systems[st.Name] = st.System
+	o.studies[st.Name] = st
 	o.mu.Unlock()
 	return &runRecorder{o: o}, nil
 }
@@ -209,7 +211,10 @@ func (o *RunOutputs) WriteArtifacts(dir string, rec *RunRecord) error {
 			figs = append(figs, p)
 		}
 	}
-	var extra []*plot.Figure
+	// an aircraft study's best design: planform, top view, constraint
+	// diagram, coupling-solver residuals (aircraft_figures.go)
+	extra, notes := o.aircraftFigures(r)
+	figs = append(figs, extra...)
 	if sys != nil {
 		d, err := plot.DSM(sys)
 		if err != nil {
@@ -223,7 +228,7 @@ func (o *RunOutputs) WriteArtifacts(dir string, rec *RunRecord) error {
 	}
 	return report.WriteFile(filepath.Join(dir, "report.html"), r, report.Options{
 		Script: rec.Script, ToolVersion: tool, Evaluations: evs, Figures: extra,
-		ScatterMatrix: isDOE(r),
+		ScatterMatrix: isDOE(r), Notes: notes,
 	})
 }
 

@@ -1,0 +1,237 @@
+package repl
+
+import (
+	"context"
+	"fmt"
+	"math"
+	"time"
+
+	"couplet/disciplines"
+	"couplet/mdo"
+	"couplet/mdo/plot"
+)
+
+// aircraftGeometry are the outputs that mark a result as an aircraft
+// study: without all of them no aircraft figure is drawn.
+var aircraftGeometry = []string{
+	"wing.span", "wing.root_chord", "wing.tip_chord", "wing.sweep_le", "wing.apex_x",
+	"fuselage.length", "fuselage.diameter",
+}
+
+// reanalysisTimeout bounds the one analysis of the best design that the
+// residual plot needs.
+const reanalysisTimeout = time.Minute
+
+// aircraftFigures returns the figures of the best design of an aircraft
+// study: wing planform, top view, constraint diagram and the
+// coupling-solver residuals of one re-analysis of the best design (its
+// parameters on the study's Fixed values). A result without the aircraft
+// geometry outputs gets none. A figure that cannot be drawn is left out
+// with a note saying why, so that the rest of the run's output is still
+// written; st may be nil (then there are no residuals).
+func aircraftFigures(ctx context.Context, r *mdo.Result, st *mdo.Study) (figs []*plot.Figure, notes []string) {
+	if r == nil || r.Best == nil || len(r.Best.Outputs) != len(r.Outputs) {
+		return nil, nil
+	}
+	get := func(name string) (float64, bool) {
+		x, err := r.Output(name)
+		return x, err == nil && !math.IsNaN(x) && !math.IsInf(x, 0)
+	}
+	for _, name := range aircraftGeometry {
+		if _, ok := get(name); !ok {
+			return nil, nil
+		}
+	}
+	var sys *mdo.System
+	if st != nil {
+		sys = st.System
+	}
+	label := fmt.Sprintf("best design #%d", r.Best.ID)
+	add := func(what string, f *plot.Figure, err error) {
+		if err != nil {
+			notes = append(notes, fmt.Sprintf("%s left out: %v", what, err))
+			return
+		}
+		figs = append(figs, f)
+	}
+	a := aircraftOf(get, geometryOptions(sys))
+	a.Name = label
+	f, err := plot.Planform(a)
+	add("wing planform", f, err)
+	f, err = plot.TopView(a)
+	add("top view", f, err)
+	f, err = constraintDiagram(get, r, label)
+	add("constraint diagram", f, err)
+	if st != nil && sys != nil {
+		sol, err := reanalyse(ctx, r, st)
+		if err == nil {
+			f, err = plot.Residuals(shortGroupNames(sol.Reports))
+		}
+		add("coupling-solver residuals", f, err)
+	}
+	return figs, notes
+}
+
+// geometryOptions returns the layout options of the system's geometry
+// discipline (tail taper and sweep are options, not variables), or the
+// defaults when there is none.
+func geometryOptions(sys *mdo.System) disciplines.GeometryOptions {
+	if sys != nil {
+		for _, d := range sys.Disciplines() {
+			if g, ok := d.(*disciplines.Geometry); ok {
+				return g.Options()
+			}
+		}
+	}
+	return disciplines.DefaultGeometryOptions()
+}
+
+// aircraftOf assembles the plotted geometry from the outputs: the wing
+// from its own variables, the tails (when their area and span are there)
+// as straight-tapered surfaces of the layout options' taper and sweep,
+// placed by their arms from the wing's MAC quarter chord as the geometry
+// discipline places them.
+func aircraftOf(get func(string) (float64, bool), o disciplines.GeometryOptions) plot.Aircraft {
+	v := func(name string) float64 { x, _ := get(name); return x }
+	a := plot.Aircraft{
+		WingSpan: v("wing.span"), WingRootChord: v("wing.root_chord"), WingTipChord: v("wing.tip_chord"),
+		WingSweepLE: v("wing.sweep_le"), WingApex: v("wing.apex_x"),
+		FuselageLength: v("fuselage.length"), FuselageDiameter: v("fuselage.diameter"),
+		CG: v("cg.takeoff"),
+	}
+	mac, okMAC := get("wing.mac")
+	macX, okX := get("wing.mac_x")
+	if !okMAC || !okX {
+		return a
+	}
+	wingAC := macX + 0.25*mac
+	if s, ok := get("htail.area"); ok && s > 0 {
+		b, okB := get("htail.span")
+		arm, okA := get("htail.arm")
+		if okB && okA && b > 0 {
+			if t, err := disciplines.NewWing(s, b*b/s, o.HTailTaper, o.HTailSweep, o.HTailThickness); err == nil {
+				a.HTailSpan, a.HTailRootChord, a.HTailTipChord, a.HTailSweepLE = t.Span, t.RootChord, t.TipChord, t.SweepLE
+				a.HTailApex = wingAC + arm - t.MACX - 0.25*t.MAC
+			}
+		}
+	}
+	if s, ok := get("vtail.area"); ok && s > 0 {
+		h, okH := get("vtail.height")
+		arm, okA := get("vtail.arm")
+		if okH && okA && h > 0 {
+			// the fin as one half of a mirrored surface of twice its area
+			if t, err := disciplines.NewWing(2*s, 4*h*h/(2*s), o.VTailTaper, o.VTailSweep, o.VTailThickness); err == nil {
+				a.VTailHeight, a.VTailRootChord, a.VTailTipChord, a.VTailSweepLE = h, t.RootChord, t.TipChord, t.SweepLE
+				a.VTailApex = wingAC + arm - t.MACX - 0.25*t.MAC
+			}
+		}
+	}
+	return a
+}
+
+// sizingLimits takes the field-length and second-segment requirements
+// from the study's constraints on those outputs; the others stay zero
+// (NewSizingDiagram's defaults) and are then set to the design's own
+// field lengths, the second-segment gradient to its 25.121(b) minimum.
+func sizingLimits(get func(string) (float64, bool), r *mdo.Result) disciplines.SizingLimits {
+	var lim disciplines.SizingLimits
+	for _, c := range r.Constraints {
+		if c.Func != nil {
+			continue
+		}
+		upper := c.Kind == mdo.LessEqual || c.Kind == mdo.InBand
+		lower := c.Kind == mdo.GreaterEqual || c.Kind == mdo.InBand
+		switch {
+		case c.Name == "perf.takeoff_field_length" && upper:
+			lim.TakeoffFieldLength = c.Upper
+		case c.Name == "perf.landing_field_length" && upper:
+			lim.LandingFieldLength = c.Upper
+		case c.Name == "perf.climb_gradient_second_segment" && lower:
+			lim.SecondSegmentGradient = c.Lower
+		}
+	}
+	if lim.TakeoffFieldLength == 0 {
+		lim.TakeoffFieldLength, _ = get("perf.takeoff_field_length")
+	}
+	if lim.LandingFieldLength == 0 {
+		lim.LandingFieldLength, _ = get("perf.landing_field_length")
+	}
+	return lim
+}
+
+// constraintDiagram draws the sizing diagram of the best design.
+func constraintDiagram(get func(string) (float64, bool), r *mdo.Result, label string) (*plot.Figure, error) {
+	sd, err := disciplines.NewSizingDiagram(get, sizingLimits(get, r))
+	if err != nil {
+		return nil, err
+	}
+	d := plot.Diagram{
+		Title:           "constraint diagram of the " + label,
+		WingLoadingUnit: "N/m2",
+		Designs:         []plot.DesignPoint{{Label: label, WingLoading: sd.WingLoading, ThrustToWeight: sd.ThrustToWeight}},
+	}
+	hi := 1.7 * sd.WingLoading
+	for _, l := range sd.Limits {
+		d.Limits = append(d.Limits, plot.WingLoadingLimit{Label: l.Name, Max: l.WingLoading})
+		hi = math.Max(hi, 1.2*l.WingLoading)
+	}
+	d.MinWingLoading, d.MaxWingLoading = 0.25*sd.WingLoading, hi
+	// the vertical range: the design and every boundary at its wing
+	// loading, with room above for the legend (the cruise boundary grows
+	// without bound towards small wing loadings and would flatten the rest)
+	top := sd.ThrustToWeight
+	for _, b := range sd.Boundaries {
+		d.Boundaries = append(d.Boundaries, plot.Boundary{Label: b.Name, MinThrustToWeight: b.ThrustToWeight})
+		if tw := b.ThrustToWeight(sd.WingLoading); !math.IsNaN(tw) && !math.IsInf(tw, 0) {
+			top = math.Max(top, tw)
+		}
+	}
+	d.MaxThrustToWeight = 2.4 * top
+	return plot.ConstraintDiagram(d)
+}
+
+// reanalyse runs the best design's analysis once more (its design values
+// over the study's Fixed parameters, the rest at their defaults, as the
+// evaluator sets them) and returns its solution with the coupling-solver
+// reports.
+func reanalyse(ctx context.Context, r *mdo.Result, st *mdo.Study) (*mdo.Solution, error) {
+	params := make(map[string]float64, len(st.Fixed)+len(r.Design))
+	for k, x := range st.Fixed {
+		params[k] = x
+	}
+	for k, x := range r.DesignValues() {
+		if st.System.IsParameter(k) {
+			params[k] = x
+		}
+	}
+	ctx, cancel := context.WithTimeout(ctx, reanalysisTimeout)
+	defer cancel()
+	sol, err := st.System.Analyze(ctx, params)
+	if err != nil {
+		return nil, fmt.Errorf("re-analysing the %s: %w", fmt.Sprintf("best design #%d", r.Best.ID), err)
+	}
+	return sol, nil
+}
+
+// shortGroupNames returns copies of the reports whose groups of more
+// than two disciplines are named by their first and last member and
+// their size, so that the residual plot's legend fits its figure.
+func shortGroupNames(reports []mdo.Report) []mdo.Report {
+	out := make([]mdo.Report, len(reports))
+	for i, r := range reports {
+		out[i] = r.Clone()
+		if n := len(r.Disciplines); n > 2 {
+			out[i].Disciplines = []string{fmt.Sprintf("%s … %s: %d disciplines", r.Disciplines[0], r.Disciplines[n-1], n)}
+		}
+	}
+	return out
+}
+
+// aircraftFigures draws the aircraft figures of a result with the study
+// the recorder saw under its name.
+func (o *RunOutputs) aircraftFigures(r *mdo.Result) ([]*plot.Figure, []string) {
+	o.mu.Lock()
+	st := o.studies[r.Study]
+	o.mu.Unlock()
+	return aircraftFigures(context.Background(), r, st)
+}

@@ -1,0 +1,267 @@
+package repl
+
+import (
+	"bytes"
+	"context"
+	"encoding/xml"
+	"io"
+	"math"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"couplet/disciplines"
+	"couplet/mdo"
+	"couplet/mdo/plot"
+	"couplet/optimizers"
+)
+
+// validSVG parses an SVG document to its end and returns its text.
+func validSVG(t *testing.T, b []byte) string {
+	t.Helper()
+	dec := xml.NewDecoder(bytes.NewReader(b))
+	root := ""
+	var text strings.Builder
+	for {
+		tok, err := dec.Token()
+		if err == io.EOF {
+			break
+		}
+		if err != nil {
+			t.Fatalf("invalid SVG: %v", err)
+		}
+		switch el := tok.(type) {
+		case xml.StartElement:
+			if root == "" {
+				root = el.Name.Local
+			}
+		case xml.CharData:
+			text.Write(el)
+			text.WriteByte('\n')
+		}
+	}
+	if root != "svg" {
+		t.Fatalf("root element %q, want svg", root)
+	}
+	return text.String()
+}
+
+// The aircraft figures of a run: each saved as SVG and PNG, valid SVG
+// with its title and axis labels (with units), and embedded in the
+// report; a design of experiments also has its scatter matrix in the
+// report; a study without aircraft geometry (Sellar) gets none.
+func TestRunWritesAircraftFigures(t *testing.T) {
+	figures := []struct {
+		name string
+		text []string // title, axis labels, legend entries
+	}{
+		{"planform", []string{"wing planform of best design #", "spanwise position y [m]", "position aft of the nose x [m]", "mean aerodynamic chord"}},
+		{"top_view", []string{"top view of best design #", "spanwise position y [m]", "position aft of the nose x [m]", "horizontal tail", "vertical tail"}},
+		// the requirements of the study's constraints
+		{"constraint_diagram", []string{"constraint diagram of the best design #", "wing loading W/S [N/m2]", "thrust-to-weight ratio T/W [-]",
+			"take-off field length 2400 m", "second segment 2.4 % OEI (25.121(b))", "landing field length 1950 m (121.195(b))"}},
+		{"residuals", []string{"coupling-solver residuals", "iteration", "scaled residual [-]", "converged"}},
+	}
+	tests := []struct {
+		file     string
+		aircraft bool
+		report   []string // further figure titles in the report
+	}{
+		{filepath.Join("testdata", "tiny_jet.study"), true, []string{"parallel coordinates: tiny_jet"}},
+		{filepath.Join("testdata", "tiny_jet_doe.study"), true, []string{"parallel coordinates: tiny_jet_doe", "scatter matrix: tiny_jet_doe"}},
+		{filepath.Join("..", "studies", "sellar.study"), false, nil},
+	}
+	for _, tc := range tests {
+		t.Run(filepath.Base(tc.file), func(t *testing.T) {
+			out := t.TempDir()
+			var stderr bytes.Buffer
+			if _, err := Run(context.Background(), RunOptions{File: tc.file, OutDir: out, Stdout: io.Discard, Stderr: &stderr}); err != nil {
+				t.Fatalf("%v\n%s", err, stderr.String())
+			}
+			checkOutputs(t, out)
+			html, err := os.ReadFile(filepath.Join(out, "report.html"))
+			if err != nil {
+				t.Fatal(err)
+			}
+			page := string(html)
+			for _, f := range figures {
+				svgPath := filepath.Join(out, f.name+".svg")
+				b, err := os.ReadFile(svgPath)
+				if !tc.aircraft {
+					if err == nil {
+						t.Errorf("%s written for a study without aircraft geometry", svgPath)
+					}
+					if strings.Contains(page, f.text[0]) {
+						t.Errorf("report of a non-aircraft study has %q", f.text[0])
+					}
+					continue
+				}
+				if err != nil {
+					t.Fatalf("aircraft figure %s: %v", f.name, err)
+				}
+				text := validSVG(t, b)
+				for _, want := range f.text {
+					if !strings.Contains(text, want) {
+						t.Errorf("%s.svg has no text %q", f.name, want)
+					}
+				}
+				if fi, err := os.Stat(filepath.Join(out, f.name+".png")); err != nil || fi.Size() == 0 {
+					t.Errorf("%s.png missing or empty: %v", f.name, err)
+				}
+				if !strings.Contains(page, f.text[0]) {
+					t.Errorf("report does not embed %s (no %q)", f.name, f.text[0])
+				}
+			}
+			for _, want := range tc.report {
+				if !strings.Contains(page, want) {
+					t.Errorf("report has no %q", want)
+				}
+			}
+			if strings.Contains(page, "left out") {
+				t.Errorf("report notes a figure left out")
+			}
+		})
+	}
+}
+
+// shortJetRun runs a short optimisation of the invented business jet's
+// wing in process.
+func shortJetRun(t *testing.T, constraints []mdo.Constraint) (*mdo.Result, *mdo.Study) {
+	t.Helper()
+	jet := disciplines.Swiftlet()
+	sys, err := jet.NewSystem()
+	if err != nil {
+		t.Fatal(err)
+	}
+	fixed := map[string]float64{}
+	for k, v := range jet.Parameters {
+		fixed[k] = v
+	}
+	fixed["mission.range"] = 6.5e6 // not the default: the re-analysis must use Fixed
+	st := &mdo.Study{
+		Name:        "short_jet",
+		System:      sys,
+		Design:      []mdo.DesignVar{mdo.Continuous("wing.area", 100, 160), mdo.Continuous("wing.aspect_ratio", 2, 3.4)},
+		Objectives:  []mdo.Objective{mdo.Minimize("mass.takeoff")},
+		Constraints: constraints,
+		Fixed:       fixed,
+		Seed:        5,
+		Workers:     1,
+	}
+	r, err := optimizers.NelderMead{MaxEvaluations: 20}.Minimize(context.Background(), st)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return r, st
+}
+
+// The re-analysis of the best design reproduces its recorded outputs
+// (design values over the study's Fixed parameters, as the evaluator
+// sets them), and the plotted geometry has the analysed areas.
+func TestAircraftFiguresOfBestDesign(t *testing.T) {
+	r, st := shortJetRun(t, []mdo.Constraint{mdo.AtMost("perf.takeoff_field_length", 2300)})
+	sol, err := reanalyse(context.Background(), r, st)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, name := range []string{"mass.takeoff", "mass.fuel", "engine.thrust_sea_level", "perf.landing_field_length", "wing.span"} {
+		want, err := r.Output(name)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if got := sol.Value(name); math.Abs(got-want) > 1e-8*math.Abs(want) {
+			t.Errorf("re-analysed %s = %g, recorded %g", name, got, want)
+		}
+	}
+	if len(sol.Reports) == 0 || !sol.Reports[0].Converged || len(sol.Reports[0].History) == 0 {
+		t.Errorf("re-analysis reports %v: want a converged coupled group with its history", sol.Reports)
+	}
+
+	get := func(name string) (float64, bool) { x, err := r.Output(name); return x, err == nil }
+	a := aircraftOf(get, geometryOptions(st.System))
+	// trapezoidal areas b·(c_r + c_t)/2 of the drawn surfaces against the
+	// analysed ones (the fin is one side: height·(c_r + c_t)/2)
+	areas := []struct {
+		name  string
+		drawn float64
+	}{
+		{"wing.area", a.WingArea()},
+		{"htail.area", a.HTailSpan * (a.HTailRootChord + a.HTailTipChord) / 2},
+		{"vtail.area", a.VTailHeight * (a.VTailRootChord + a.VTailTipChord) / 2},
+	}
+	for _, c := range areas {
+		want, _ := get(c.name)
+		if math.Abs(c.drawn-want) > 1e-9*want {
+			t.Errorf("drawn %s %g m2, analysed %g m2", c.name, c.drawn, want)
+		}
+	}
+	// the tails' MAC quarter chords lie their arms behind the wing's
+	// (each tail's MAC by plot.Aircraft.MAC of a wing of its planform; the
+	// fin as one half of a mirrored surface)
+	wingAC := func(p plot.Aircraft) float64 { c, _, x := p.MAC(); return x + c/4 }
+	tails := []struct {
+		arm  string
+		surf plot.Aircraft
+	}{
+		{"htail.arm", plot.Aircraft{WingSpan: a.HTailSpan, WingRootChord: a.HTailRootChord, WingTipChord: a.HTailTipChord, WingSweepLE: a.HTailSweepLE, WingApex: a.HTailApex}},
+		{"vtail.arm", plot.Aircraft{WingSpan: 2 * a.VTailHeight, WingRootChord: a.VTailRootChord, WingTipChord: a.VTailTipChord, WingSweepLE: a.VTailSweepLE, WingApex: a.VTailApex}},
+	}
+	for _, c := range tails {
+		want, _ := get(c.arm)
+		if got := wingAC(c.surf) - wingAC(a); math.Abs(got-want) > 1e-9*want {
+			t.Errorf("drawn %s %g m, analysed %g m", c.arm, got, want)
+		}
+	}
+
+	figs, notes := aircraftFigures(context.Background(), r, st)
+	if len(notes) > 0 {
+		t.Errorf("notes %v", notes)
+	}
+	var names []string
+	for _, f := range figs {
+		names = append(names, f.Name)
+	}
+	if got := strings.Join(names, " "); got != "planform top_view constraint_diagram residuals" {
+		t.Errorf("figures %q, want planform top_view constraint_diagram residuals", got)
+	}
+	if figs, notes := aircraftFigures(context.Background(), r, nil); len(figs) != 3 || len(notes) != 0 {
+		t.Errorf("without the study: %d figures, notes %v; want the three drawn from the outputs", len(figs), notes)
+	}
+}
+
+// The constraint diagram's requirements come from the study's
+// constraints on the field lengths and the second-segment gradient, else
+// from the design's own field lengths (the gradient then defaults to the
+// 25.121(b) minimum in the disciplines package).
+func TestSizingLimitsFromStudy(t *testing.T) {
+	own := map[string]float64{"perf.takeoff_field_length": 2211, "perf.landing_field_length": 1820}
+	outs := []mdo.Var{{Name: "perf.takeoff_field_length"}, {Name: "perf.landing_field_length"}}
+	r := &mdo.Result{Outputs: outs, Best: &mdo.Evaluation{Outputs: []float64{own["perf.takeoff_field_length"], own["perf.landing_field_length"]}}}
+	get := func(name string) (float64, bool) { x, err := r.Output(name); return x, err == nil }
+	scripted := mdo.AtMost("perf.takeoff_field_length", 1000).WithFunc(func(mdo.Values) float64 { return 0 })
+	tests := []struct {
+		name                string
+		constraints         []mdo.Constraint
+		tofl, lfl, gradient float64
+	}{
+		{"study's limits", []mdo.Constraint{mdo.AtMost("perf.takeoff_field_length", 2400), mdo.AtMost("perf.landing_field_length", 1950), mdo.AtLeast("perf.climb_gradient_second_segment", 0.03)}, 2400, 1950, 0.03},
+		{"band", []mdo.Constraint{mdo.Between("perf.landing_field_length", 1000, 1700)}, 2211, 1700, 0},
+		{"no constraint: the design's own", nil, 2211, 1820, 0},
+		{"a lower bound on a length is no requirement", []mdo.Constraint{mdo.AtLeast("perf.takeoff_field_length", 900)}, 2211, 1820, 0},
+		{"a scripted constraint is not the variable", []mdo.Constraint{scripted}, 2211, 1820, 0},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			r.Constraints = tc.constraints
+			lim := sizingLimits(get, r)
+			if lim.TakeoffFieldLength != tc.tofl || lim.LandingFieldLength != tc.lfl || lim.SecondSegmentGradient != tc.gradient {
+				t.Errorf("limits %+v, want take-off %g m, landing %g m, gradient %g", lim, tc.tofl, tc.lfl, tc.gradient)
+			}
+		})
+	}
+	// a result without the aircraft geometry gets no aircraft figure
+	if figs, notes := aircraftFigures(context.Background(), r, nil); figs != nil || notes != nil {
+		t.Errorf("figures %v, notes %v for a result without geometry", figs, notes)
+	}
+}
