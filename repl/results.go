@@ -17,7 +17,9 @@ import (
 // summary.json: the case store DIR/results.db (one row per evaluation;
 // a script that runs several optimisations gets results-2.db, ...), the
 // evaluations as CSV, the plots (optimisation history, design structure
-// matrix, Pareto front) as SVG and PNG, and the self-contained
+// matrix, Pareto front; for an aircraft study the best design's wing
+// planform, top view, constraint diagram and coupling-solver residuals)
+// as SVG and PNG, and the self-contained
 // DIR/report.html. Use Recorder as RunOptions.Recorder and the value
 // itself as an ArtifactWriter, then Close it.
 type RunOutputs struct {
