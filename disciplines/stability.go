@@ -125,22 +125,18 @@ func StaticMargin(xnp, xcg, mac float64) float64 { return (xnp - xcg) / mac }
 // Indices of the stability discipline's variables.
 const (
 	stInArea = iota
-	stInAspect
 	stInTaper
 	stInSweep
 	stInSpan
 	stInMAC
 	stInMACX
-	stInFusLength
 	stInFusDiameter
-	stInHtArea
 	stInHtArm
-	stInHtSpan
 	stInHtMAC
-	stInCLaCruise
-	stInCLaLow
 	stInMach
-	stInAltitude
+	stInQ
+	stInNP
+	stInNPLow
 	stInCGTakeoff
 	stInCGCruiseStart
 	stInCGCruiseEnd
@@ -153,23 +149,21 @@ const (
 )
 
 const (
-	stOutNP = iota
-	stOutNPLow
-	stOutSMTakeoff
+	stOutSMTakeoff = iota
 	stOutSMCruiseStart
 	stOutSMCruiseEnd
 	stOutTailLift
 	stOutQD
 	stOutDivMargin
-	stOutDownwash
 	stNumOut
 )
 
-// Stability is the "stability" discipline: neutral points (take-off at
-// Mach LowSpeedMach with aero.cla_low_speed, cruise with aero.cla_cruise),
-// the three static margins, the cruise trim load and the divergence
-// dynamic pressure of the wing (aeroelastic.go) with its margin over
-// dive.dynamic_pressure.
+// Stability is the "stability" discipline: the three static margins from
+// the neutral points of the "neutral_point" discipline (NeutralPoints,
+// which depend on the design parameters only and so run once before the
+// coupled loop) and the centres of gravity of weights, the cruise trim
+// load and the divergence dynamic pressure of the wing (aeroelastic.go)
+// with its margin over dive.dynamic_pressure.
 //
 // Divergence model of the aircraft's wing: the exposed semispan
 // (b − D)/2 along the quarter-chord sweep line (taken as the elastic axis
@@ -181,19 +175,11 @@ const (
 // (weights) reduced to the Rayleigh-equivalent uniform beam
 // (TaperedStiffnessFactors).
 //
-// Added variables: inputs htail.span, htail.mac (geometry),
-// mass.cruise_start (weights), stability.cm_ac_wing (parameter, wing
-// pitching moment at zero lift about its aerodynamic centre); outputs
-// stability.neutral_point_low_speed, stability.downwash_gradient.
+// Added variables: inputs htail.mac (geometry), mass.cruise_start
+// (weights), aero.dynamic_pressure_cruise (airframe_aero),
+// stability.cm_ac_wing (parameter, wing pitching moment at zero lift about
+// its aerodynamic centre).
 type Stability struct {
-	// TailEfficiency is ηh = qh/q; 0.9 (common practice, no source).
-	TailEfficiency float64
-	// TailSweep is the horizontal tail's quarter-chord sweep [deg]; 35.
-	TailSweep float64
-	// TailTaper is its taper ratio; 0.35.
-	TailTaper float64
-	// LowSpeedMach is the Mach number of the take-off neutral point; 0.2.
-	LowSpeedMach float64
 	// SectionLiftSlope is a0 of the divergence strip theory [1/rad]; 0.95·2π.
 	SectionLiftSlope float64
 	// ElasticAxis is the elastic axis as a fraction of chord; 0.375.
@@ -203,7 +189,7 @@ type Stability struct {
 // NewStability returns the stability discipline with the documented
 // defaults.
 func NewStability() *Stability {
-	return &Stability{TailEfficiency: 0.9, TailSweep: 35, TailTaper: 0.35, LowSpeedMach: 0.2, SectionLiftSlope: 0.95 * 2 * math.Pi, ElasticAxis: 0.375}
+	return &Stability{SectionLiftSlope: 0.95 * 2 * math.Pi, ElasticAxis: 0.375}
 }
 
 // Name implements mdo.Discipline.
@@ -213,24 +199,21 @@ func (s *Stability) Name() string { return "stability" }
 func (s *Stability) Inputs() []mdo.Var {
 	wt := NewWeights().Inputs()
 	wo := NewWeights().Outputs()
+	np := NewNeutralPoints().Outputs()
 	in := make([]mdo.Var, stNumIn)
 	in[stInArea] = wt[wtInArea]
-	in[stInAspect] = wt[wtInAspect]
 	in[stInTaper] = wt[wtInTaper]
 	in[stInSweep] = wt[wtInSweep]
 	in[stInSpan] = wt[wtInSpan]
 	in[stInMAC] = wt[wtInMAC]
 	in[stInMACX] = wt[wtInMACX]
-	in[stInFusLength] = wt[wtInFusLength]
 	in[stInFusDiameter] = wt[wtInFusDiameter]
-	in[stInHtArea] = wt[wtInHtArea]
 	in[stInHtArm] = wt[wtInHtArm]
-	in[stInHtSpan] = mdo.Var{Name: "htail.span", Unit: "m", Description: "horizontal-tail span", Default: 8, Min: 0.1, Max: 100}
-	in[stInHtMAC] = mdo.Var{Name: "htail.mac", Unit: "m", Description: "horizontal-tail mean aerodynamic chord", Default: 2.8, Min: 0.01, Max: 50}
-	in[stInCLaCruise] = mdo.Var{Name: "aero.cla_cruise", Unit: "1/rad", Description: "wing lift-curve slope at cruise Mach", Default: 2.8, Min: 0.1, Max: 10}
-	in[stInCLaLow] = mdo.Var{Name: "aero.cla_low_speed", Unit: "1/rad", Description: "wing lift-curve slope at low speed", Default: 3.0, Min: 0.1, Max: 10}
+	in[stInHtMAC] = htailMACVar()
 	in[stInMach] = cruiseMachVar()
-	in[stInAltitude] = cruiseAltitudeVar()
+	in[stInQ] = airframeAeroOutputs()[afOutQ]
+	in[stInNP] = np[npOutNP]
+	in[stInNPLow] = np[npOutNPLow]
 	in[stInCGTakeoff] = wo[wtOutCGTakeoff]
 	in[stInCGCruiseStart] = wo[wtOutCGCruiseStart]
 	in[stInCGCruiseEnd] = wo[wtOutCGCruiseEnd]
@@ -242,21 +225,24 @@ func (s *Stability) Inputs() []mdo.Var {
 	return in
 }
 
+// htailMACVar is the specification of htail.mac as stability and the
+// neutral point read it.
+func htailMACVar() mdo.Var {
+	return mdo.Var{Name: "htail.mac", Unit: "m", Description: "horizontal-tail mean aerodynamic chord", Default: 2.8, Min: 0.01, Max: 50}
+}
+
 // Outputs implements mdo.Discipline.
 func (s *Stability) Outputs() []mdo.Var {
 	sm := func(name, desc string) mdo.Var {
 		return mdo.Var{Name: name, Unit: "-", Description: desc, Default: 0.1, Min: -10, Max: 10, Scale: 0.1}
 	}
 	out := make([]mdo.Var, stNumOut)
-	out[stOutNP] = mdo.Var{Name: "stability.neutral_point", Unit: "m", Description: "neutral point at cruise, from the nose", Default: 21, Min: -100, Max: 300, Scale: 10}
-	out[stOutNPLow] = mdo.Var{Name: "stability.neutral_point_low_speed", Unit: "m", Description: "neutral point at take-off speed, from the nose", Default: 20, Min: -100, Max: 300, Scale: 10}
 	out[stOutSMTakeoff] = sm("stability.static_margin_takeoff", "static margin at take-off (fraction of MAC)")
 	out[stOutSMCruiseStart] = sm("stability.static_margin_cruise_start", "static margin at the start of cruise (fraction of MAC)")
 	out[stOutSMCruiseEnd] = sm("stability.static_margin_cruise_end", "static margin at the end of cruise (fraction of MAC)")
 	out[stOutTailLift] = mdo.Var{Name: "stability.tail_lift_cruise", Unit: "N", Description: "horizontal-tail lift that trims the start of cruise (negative = down)", Default: -20000, Min: -1e7, Max: 1e7, Scale: 1e4}
 	out[stOutQD] = mdo.Var{Name: "stability.divergence_dynamic_pressure", Unit: "Pa", Description: "wing divergence dynamic pressure (1e9 = no divergence)", Default: 1e5, Min: 0, Max: NoDivergence, Scale: 1e4}
 	out[stOutDivMargin] = mdo.Var{Name: "stability.divergence_margin", Unit: "-", Description: "q_D/dive.dynamic_pressure − 1, smoothly capped at 10", Default: 1, Min: -1, Max: DivergenceMarginCap}
-	out[stOutDownwash] = mdo.Var{Name: "stability.downwash_gradient", Unit: "-", Description: "downwash gradient at the tail at cruise", Default: 0.3, Min: 0, Max: 1}
 	return out
 }
 
@@ -267,42 +253,10 @@ func (s *Stability) Compute(in, out []float64) error {
 	}
 	mach := in[stInMach]
 	area := in[stInArea]
-	ht := in[stInHtArea]
-	fus, err := MunkFuselageTerm(in[stInFusLength], in[stInFusDiameter])
-	if err != nil {
-		return err
-	}
-	cfg := Longitudinal{
-		WingArea: area, WingAspect: in[stInAspect], MAC: in[stInMAC], MACX: in[stInMACX],
-		TailArea: ht, TailArm: in[stInHtArm], TailMAC: in[stInHtMAC],
-		TailEfficiency: s.TailEfficiency, FuselageTerm: fus,
-	}
-	var claTailLow, claTailCruise float64
-	if ht > 0 {
-		span := in[stInHtSpan]
-		tail, err := newSurface("htail", ht, span*span/ht, s.TailTaper, s.TailSweep, 0.05)
-		if err != nil {
-			return err
-		}
-		if claTailLow, err = LiftSlope(tail, s.LowSpeedMach, 0.95); err != nil {
-			return err
-		}
-		if claTailCruise, err = LiftSlope(tail, mach, 0.95); err != nil {
-			return renameInput(err, "cruise.mach")
-		}
-	}
-	low := cfg
-	low.CLaWing, low.CLaTail, low.Mach = in[stInCLaLow], claTailLow, s.LowSpeedMach
-	npLow, _ := low.NeutralPoint()
-	cr := cfg
-	cr.CLaWing, cr.CLaTail, cr.Mach = in[stInCLaCruise], claTailCruise, mach
-	np, _ := cr.NeutralPoint()
 	mac := in[stInMAC]
-	atm, err := OffsetAtmosphere(in[stInAltitude], 0)
-	if err != nil {
-		return renameInput(err, "cruise.altitude")
-	}
-	q := atm.DynamicPressure(mach)
+	cr := Longitudinal{WingArea: area, MAC: mac, MACX: in[stInMACX], TailArm: in[stInHtArm], TailMAC: in[stInHtMAC], Mach: mach}
+	np, npLow := in[stInNP], in[stInNPLow]
+	q := in[stInQ]
 
 	// divergence of the swept wing
 	sweep := in[stInSweep] * math.Pi / 180
@@ -321,14 +275,11 @@ func (s *Stability) Compute(in, out []float64) error {
 	}
 	margin := DivergenceMargin(qd, in[stInQDive])
 
-	out[stOutNP] = np
-	out[stOutNPLow] = npLow
 	out[stOutSMTakeoff] = StaticMargin(npLow, in[stInCGTakeoff], mac)
 	out[stOutSMCruiseStart] = StaticMargin(np, in[stInCGCruiseStart], mac)
 	out[stOutSMCruiseEnd] = StaticMargin(np, in[stInCGCruiseEnd], mac)
 	out[stOutTailLift] = cr.TailTrimLoad(in[stInMassCruiseStart]*G0, in[stInCGCruiseStart], q, in[stInCmac])
 	out[stOutQD] = math.Min(qd, NoDivergence)
 	out[stOutDivMargin] = margin
-	out[stOutDownwash] = DownwashGradient(cr.CLaWing, cr.WingAspect)
 	return nil
 }

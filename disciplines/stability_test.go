@@ -76,15 +76,26 @@ func stabilityInputs() map[string]float64 {
 		"wing.area": 120, "wing.aspect_ratio": 3.2, "wing.taper": 0.2, "wing.sweep": 45, "wing.span": 19.6,
 		"wing.mac": 6.9, "wing.mac_x": 16.5, "fuselage.length": 34, "fuselage.diameter": 2.2,
 		"htail.area": 22, "htail.arm": 13, "htail.span": 8.5, "htail.mac": 2.8,
-		"aero.cla_cruise": 2.6, "aero.cla_low_speed": 3.1, "cruise.mach": 1.5, "cruise.altitude": 15500,
-		"cg.takeoff": 18.6, "cg.cruise_start": 18.7, "cg.cruise_end": 18.4, "mass.cruise_start": 40000,
+		"aero.cla_cruise": 2.6, "aero.cla_low_speed": 3.1, "cruise.mach": 1.5,
+		"aero.dynamic_pressure_cruise": stabilityTestDynamicPressure(),
+		"cg.takeoff":                   18.6, "cg.cruise_start": 18.7, "cg.cruise_end": 18.4, "mass.cruise_start": 40000,
 		"wing.box_torsional_stiffness": 2e8, "wing.box_bending_stiffness": 2e8, "dive.dynamic_pressure": 45000,
 	}
 }
 
+// stabilityTestDynamicPressure is the dynamic pressure at Mach 1.5 and
+// 15 500 m of the stability tests' cruise.
+func stabilityTestDynamicPressure() float64 {
+	a, err := StandardAtmosphere(15500)
+	if err != nil {
+		panic(err)
+	}
+	return a.DynamicPressure(1.5)
+}
+
 func stabilitySystem(t *testing.T, set map[string]float64) *mdo.Workspace {
 	t.Helper()
-	sys, err := mdo.NewSystem(NewStability())
+	sys, err := mdo.NewSystem(NewNeutralPoints(), NewStability())
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -141,7 +152,7 @@ func TestStabilitySystem(t *testing.T) {
 }
 
 func TestStabilityRefusesBadInput(t *testing.T) {
-	sys, err := mdo.NewSystem(NewStability())
+	sys, err := mdo.NewSystem(NewNeutralPoints(), NewStability())
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -150,9 +161,21 @@ func TestStabilityRefusesBadInput(t *testing.T) {
 	for _, c := range []struct {
 		name string
 		v    float64
-	}{{"wing.sweep", -75}, {"cruise.mach", 2.6}, {"cruise.altitude", 30000}, {"wing.area", 0}} {
+	}{{"wing.sweep", -75}, {"cruise.mach", 2.6}, {"aero.dynamic_pressure_cruise", -1}, {"wing.area", 0}} {
 		if err := ws.Set(c.name, c.v); !errors.As(err, &re) || re.Var != c.name {
 			t.Errorf("%s = %g: err = %v, want a range error naming it", c.name, c.v, err)
+		}
+	}
+}
+
+func BenchmarkNeutralPointsCompute(b *testing.B) {
+	n := NewNeutralPoints()
+	in := varDefaults(n.Inputs())
+	out := make([]float64, npNumOut)
+	b.ReportAllocs()
+	for i := 0; i < b.N; i++ {
+		if err := n.Compute(in, out); err != nil {
+			b.Fatal(err)
 		}
 	}
 }
@@ -172,7 +195,7 @@ func BenchmarkStabilityCompute(b *testing.B) {
 // One System shared by goroutines, each with its own workspace, gives the
 // serial results (the disciplines keep no state; run with -race).
 func TestDisciplinesShareAcrossWorkspaces(t *testing.T) {
-	sys, err := mdo.NewSystem(NewWeights(), NewStability())
+	sys, err := mdo.NewSystem(NewWeights(), NewNeutralPoints(), NewStability())
 	if err != nil {
 		t.Fatal(err)
 	}

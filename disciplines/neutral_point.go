@@ -1,0 +1,132 @@
+package disciplines
+
+import "couplet/mdo"
+
+// NeutralPoints is the "neutral_point" discipline: the stick-fixed
+// neutral points of the aircraft at take-off (Mach LowSpeedMach, with
+// aero.cla_low_speed) and in cruise (aero.cla_cruise), and the downwash
+// gradient at the tail in cruise, by the method of stability.go (wing,
+// Munk's fuselage term, horizontal tail with the far-wake downwash and
+// the supersonic shift of the aerodynamic centres). They depend on the
+// design parameters only, so the discipline runs once ahead of the
+// coupled loop; stability turns them into static margins with the centres
+// of gravity of weights.
+//
+// The horizontal tail's lift slope is that of a surface of the tail's
+// area and span (aspect ratio b²/S), taper TailTaper and quarter-chord
+// sweep TailSweep, t/c 0.05, κ = 0.95 (LiftSlope).
+type NeutralPoints struct {
+	// TailEfficiency is ηh = qh/q; 0.9 (common practice, no source).
+	TailEfficiency float64
+	// TailSweep is the horizontal tail's quarter-chord sweep [deg]; 35.
+	TailSweep float64
+	// TailTaper is its taper ratio; 0.35.
+	TailTaper float64
+	// LowSpeedMach is the Mach number of the take-off neutral point; 0.2.
+	LowSpeedMach float64
+}
+
+// NewNeutralPoints returns the neutral_point discipline with the
+// documented defaults.
+func NewNeutralPoints() *NeutralPoints {
+	return &NeutralPoints{TailEfficiency: 0.9, TailSweep: 35, TailTaper: 0.35, LowSpeedMach: 0.2}
+}
+
+// Name implements mdo.Discipline.
+func (n *NeutralPoints) Name() string { return "neutral_point" }
+
+// Indices of the neutral_point discipline's variables.
+const (
+	npInArea = iota
+	npInAspect
+	npInMAC
+	npInMACX
+	npInFusLength
+	npInFusDiameter
+	npInHtArea
+	npInHtArm
+	npInHtSpan
+	npInHtMAC
+	npInCLaCruise
+	npInCLaLow
+	npInMach
+	npNumIn
+)
+
+const (
+	npOutNP = iota
+	npOutNPLow
+	npOutDownwash
+	npNumOut
+)
+
+// Inputs implements mdo.Discipline.
+func (n *NeutralPoints) Inputs() []mdo.Var {
+	wt := NewWeights().Inputs()
+	in := make([]mdo.Var, npNumIn)
+	in[npInArea] = wt[wtInArea]
+	in[npInAspect] = wt[wtInAspect]
+	in[npInMAC] = wt[wtInMAC]
+	in[npInMACX] = wt[wtInMACX]
+	in[npInFusLength] = wt[wtInFusLength]
+	in[npInFusDiameter] = wt[wtInFusDiameter]
+	in[npInHtArea] = wt[wtInHtArea]
+	in[npInHtArm] = wt[wtInHtArm]
+	in[npInHtSpan] = mdo.Var{Name: "htail.span", Unit: "m", Description: "horizontal-tail span", Default: 8, Min: 0.1, Max: 100}
+	in[npInHtMAC] = htailMACVar()
+	in[npInCLaCruise] = mdo.Var{Name: "aero.cla_cruise", Unit: "1/rad", Description: "wing lift-curve slope at cruise Mach", Default: 2.8, Min: 0.1, Max: 10}
+	in[npInCLaLow] = mdo.Var{Name: "aero.cla_low_speed", Unit: "1/rad", Description: "wing lift-curve slope at low speed", Default: 3.0, Min: 0.1, Max: 10}
+	in[npInMach] = cruiseMachVar()
+	return in
+}
+
+// Outputs implements mdo.Discipline.
+func (n *NeutralPoints) Outputs() []mdo.Var {
+	out := make([]mdo.Var, npNumOut)
+	out[npOutNP] = mdo.Var{Name: "stability.neutral_point", Unit: "m", Description: "neutral point at cruise, from the nose", Default: 21, Min: -100, Max: 300, Scale: 10}
+	out[npOutNPLow] = mdo.Var{Name: "stability.neutral_point_low_speed", Unit: "m", Description: "neutral point at take-off speed, from the nose", Default: 20, Min: -100, Max: 300, Scale: 10}
+	out[npOutDownwash] = mdo.Var{Name: "stability.downwash_gradient", Unit: "-", Description: "downwash gradient at the tail at cruise", Default: 0.3, Min: 0, Max: 1}
+	return out
+}
+
+// Compute implements mdo.Discipline. It allocates nothing.
+func (n *NeutralPoints) Compute(in, out []float64) error {
+	if len(in) != npNumIn || len(out) != npNumOut {
+		return inputErr("neutral_point.inputs", float64(len(in)), "", "the declared inputs and outputs")
+	}
+	mach := in[npInMach]
+	ht := in[npInHtArea]
+	fus, err := MunkFuselageTerm(in[npInFusLength], in[npInFusDiameter])
+	if err != nil {
+		return err
+	}
+	cfg := Longitudinal{
+		WingArea: in[npInArea], WingAspect: in[npInAspect], MAC: in[npInMAC], MACX: in[npInMACX],
+		TailArea: ht, TailArm: in[npInHtArm], TailMAC: in[npInHtMAC],
+		TailEfficiency: n.TailEfficiency, FuselageTerm: fus,
+	}
+	var claTailLow, claTailCruise float64
+	if ht > 0 {
+		span := in[npInHtSpan]
+		tail, err := newSurface("htail", ht, span*span/ht, n.TailTaper, n.TailSweep, 0.05)
+		if err != nil {
+			return err
+		}
+		if claTailLow, err = LiftSlope(tail, n.LowSpeedMach, 0.95); err != nil {
+			return err
+		}
+		if claTailCruise, err = LiftSlope(tail, mach, 0.95); err != nil {
+			return renameInput(err, "cruise.mach")
+		}
+	}
+	low := cfg
+	low.CLaWing, low.CLaTail, low.Mach = in[npInCLaLow], claTailLow, n.LowSpeedMach
+	npLow, _ := low.NeutralPoint()
+	cr := cfg
+	cr.CLaWing, cr.CLaTail, cr.Mach = in[npInCLaCruise], claTailCruise, mach
+	np, _ := cr.NeutralPoint()
+	out[npOutNP] = np
+	out[npOutNPLow] = npLow
+	out[npOutDownwash] = DownwashGradient(cr.CLaWing, cr.WingAspect)
+	return nil
+}
