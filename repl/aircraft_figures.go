@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 	"math"
+	"strings"
 	"time"
 
 	"couplet/disciplines"
@@ -60,8 +61,11 @@ func aircraftFigures(ctx context.Context, r *mdo.Result, st *mdo.Study) (figs []
 	add("wing planform", f, err)
 	f, err = plot.TopView(a)
 	add("top view", f, err)
-	f, err = constraintDiagram(get, r, label)
+	f, note, err := constraintDiagram(get, r, label)
 	add("constraint diagram", f, err)
+	if err == nil {
+		notes = append(notes, note)
+	}
 	if st != nil && sys != nil {
 		sol, err := reanalyse(ctx, r, st)
 		if err == nil {
@@ -130,11 +134,12 @@ func aircraftOf(get func(string) (float64, bool), o disciplines.GeometryOptions)
 }
 
 // sizingLimits takes the field-length and second-segment requirements
-// from the study's constraints on those outputs; the others stay zero
-// (NewSizingDiagram's defaults) and are then set to the design's own
-// field lengths, the second-segment gradient to its 25.121(b) minimum.
-func sizingLimits(get func(string) (float64, bool), r *mdo.Result) disciplines.SizingLimits {
-	var lim disciplines.SizingLimits
+// from the study's constraints on those outputs; the field lengths the
+// study does not constrain are the design's own, and a second-segment
+// gradient it does not constrain stays zero (NewSizingDiagram's default,
+// the 25.121(b) minimum). fromStudy lists the requirements taken from
+// the study.
+func sizingLimits(get func(string) (float64, bool), r *mdo.Result) (lim disciplines.SizingLimits, fromStudy []string) {
 	for _, c := range r.Constraints {
 		if c.Func != nil {
 			continue
@@ -148,7 +153,10 @@ func sizingLimits(get func(string) (float64, bool), r *mdo.Result) disciplines.S
 			lim.LandingFieldLength = c.Upper
 		case c.Name == "perf.climb_gradient_second_segment" && lower:
 			lim.SecondSegmentGradient = c.Lower
+		default:
+			continue
 		}
+		fromStudy = append(fromStudy, c.Name)
 	}
 	if lim.TakeoffFieldLength == 0 {
 		lim.TakeoffFieldLength, _ = get("perf.takeoff_field_length")
@@ -156,15 +164,24 @@ func sizingLimits(get func(string) (float64, bool), r *mdo.Result) disciplines.S
 	if lim.LandingFieldLength == 0 {
 		lim.LandingFieldLength, _ = get("perf.landing_field_length")
 	}
-	return lim
+	return lim, fromStudy
 }
 
-// constraintDiagram draws the sizing diagram of the best design.
-func constraintDiagram(get func(string) (float64, bool), r *mdo.Result, label string) (*plot.Figure, error) {
-	sd, err := disciplines.NewSizingDiagram(get, sizingLimits(get, r))
+// constraintDiagram draws the sizing diagram of the best design and
+// returns a note on where its requirements come from.
+func constraintDiagram(get func(string) (float64, bool), r *mdo.Result, label string) (*plot.Figure, string, error) {
+	lim, fromStudy := sizingLimits(get, r)
+	sd, err := disciplines.NewSizingDiagram(get, lim)
 	if err != nil {
-		return nil, err
+		return nil, "", err
 	}
+	src := "no requirement from the study's constraints"
+	if len(fromStudy) > 0 {
+		src = "the study's constraints on " + strings.Join(fromStudy, ", ")
+	}
+	note := "Constraint diagram: requirements from " + src + "; field lengths the study does not constrain are the design's own, " +
+		"climb gradients the 14 CFR 25.121/25.119 minima. The boundaries hold the best design's mass ratios, polars and thrust lapses " +
+		"fixed as the wing loading varies: a first-order picture around the design, not a re-analysis at each wing loading."
 	d := plot.Diagram{
 		Title:           "constraint diagram of the " + label,
 		WingLoadingUnit: "N/m2",
@@ -187,7 +204,8 @@ func constraintDiagram(get func(string) (float64, bool), r *mdo.Result, label st
 		}
 	}
 	d.MaxThrustToWeight = 2.4 * top
-	return plot.ConstraintDiagram(d)
+	f, err := plot.ConstraintDiagram(d)
+	return f, note, err
 }
 
 // reanalyse runs the best design's analysis once more (its design values

@@ -68,7 +68,8 @@ func TestRunWritesAircraftFigures(t *testing.T) {
 		aircraft bool
 		report   []string // further figure titles in the report
 	}{
-		{filepath.Join("testdata", "tiny_jet.study"), true, []string{"parallel coordinates: tiny_jet"}},
+		{filepath.Join("testdata", "tiny_jet.study"), true, []string{"parallel coordinates: tiny_jet",
+			"Constraint diagram: requirements from the study&#39;s constraints on perf.takeoff_field_length, perf.landing_field_length, perf.climb_gradient_second_segment;"}},
 		{filepath.Join("testdata", "tiny_jet_doe.study"), true, []string{"parallel coordinates: tiny_jet_doe", "scatter matrix: tiny_jet_doe"}},
 		{filepath.Join("..", "studies", "sellar.study"), false, nil},
 	}
@@ -117,6 +118,9 @@ func TestRunWritesAircraftFigures(t *testing.T) {
 				if !strings.Contains(page, want) {
 					t.Errorf("report has no %q", want)
 				}
+			}
+			if !tc.aircraft && strings.Contains(page, "Constraint diagram:") {
+				t.Errorf("report of a non-aircraft study has the constraint diagram's note")
 			}
 			if strings.Contains(page, "left out") {
 				t.Errorf("report notes a figure left out")
@@ -215,8 +219,8 @@ func TestAircraftFiguresOfBestDesign(t *testing.T) {
 	}
 
 	figs, notes := aircraftFigures(context.Background(), r, st)
-	if len(notes) > 0 {
-		t.Errorf("notes %v", notes)
+	if len(notes) != 1 || !strings.Contains(notes[0], "the study's constraints on perf.takeoff_field_length;") {
+		t.Errorf("notes %q, want only the constraint diagram's, naming the take-off constraint", notes)
 	}
 	var names []string
 	for _, f := range figs {
@@ -225,8 +229,8 @@ func TestAircraftFiguresOfBestDesign(t *testing.T) {
 	if got := strings.Join(names, " "); got != "planform top_view constraint_diagram residuals" {
 		t.Errorf("figures %q, want planform top_view constraint_diagram residuals", got)
 	}
-	if figs, notes := aircraftFigures(context.Background(), r, nil); len(figs) != 3 || len(notes) != 0 {
-		t.Errorf("without the study: %d figures, notes %v; want the three drawn from the outputs", len(figs), notes)
+	if figs, notes := aircraftFigures(context.Background(), r, nil); len(figs) != 3 || len(notes) != 1 {
+		t.Errorf("without the study: %d figures, notes %q; want the three drawn from the outputs", len(figs), notes)
 	}
 }
 
@@ -244,19 +248,24 @@ func TestSizingLimitsFromStudy(t *testing.T) {
 		name                string
 		constraints         []mdo.Constraint
 		tofl, lfl, gradient float64
+		from                string
 	}{
-		{"study's limits", []mdo.Constraint{mdo.AtMost("perf.takeoff_field_length", 2400), mdo.AtMost("perf.landing_field_length", 1950), mdo.AtLeast("perf.climb_gradient_second_segment", 0.03)}, 2400, 1950, 0.03},
-		{"band", []mdo.Constraint{mdo.Between("perf.landing_field_length", 1000, 1700)}, 2211, 1700, 0},
-		{"no constraint: the design's own", nil, 2211, 1820, 0},
-		{"a lower bound on a length is no requirement", []mdo.Constraint{mdo.AtLeast("perf.takeoff_field_length", 900)}, 2211, 1820, 0},
-		{"a scripted constraint is not the variable", []mdo.Constraint{scripted}, 2211, 1820, 0},
+		{"study's limits", []mdo.Constraint{mdo.AtMost("perf.takeoff_field_length", 2400), mdo.AtMost("perf.landing_field_length", 1950), mdo.AtLeast("perf.climb_gradient_second_segment", 0.03)}, 2400, 1950, 0.03,
+			"perf.takeoff_field_length perf.landing_field_length perf.climb_gradient_second_segment"},
+		{"band", []mdo.Constraint{mdo.Between("perf.landing_field_length", 1000, 1700)}, 2211, 1700, 0, "perf.landing_field_length"},
+		{"no constraint: the design's own", nil, 2211, 1820, 0, ""},
+		{"a lower bound on a length is no requirement", []mdo.Constraint{mdo.AtLeast("perf.takeoff_field_length", 900)}, 2211, 1820, 0, ""},
+		{"a scripted constraint is not the variable", []mdo.Constraint{scripted}, 2211, 1820, 0, ""},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
 			r.Constraints = tc.constraints
-			lim := sizingLimits(get, r)
+			lim, from := sizingLimits(get, r)
 			if lim.TakeoffFieldLength != tc.tofl || lim.LandingFieldLength != tc.lfl || lim.SecondSegmentGradient != tc.gradient {
 				t.Errorf("limits %+v, want take-off %g m, landing %g m, gradient %g", lim, tc.tofl, tc.lfl, tc.gradient)
+			}
+			if got := strings.Join(from, " "); got != tc.from {
+				t.Errorf("from the study %q, want %q", got, tc.from)
 			}
 		})
 	}
