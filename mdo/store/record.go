@@ -8,6 +8,7 @@ import (
 	"math"
 	"strconv"
 	"time"
+	"unsafe"
 
 	"couplet/mdo"
 )
@@ -326,8 +327,9 @@ func (s *Store) add(vs ...driver.Value) {
 }
 
 // bind fills the argument list of an insert of evs. The numbers and
-// outputs arrays and the vectors blob are cut from one arena per call;
-// the driver copies them when it binds.
+// outputs arrays and the vectors blob are cut from one arena per call,
+// the strings without a copy of their own: the driver copies them into
+// SQLite's memory when it binds them, before the arena is reused.
 func (s *Store) bind(evs []*mdo.Evaluation) []driver.NamedValue {
 	s.args = s.args[:0]
 	s.arena = s.arena[:0]
@@ -336,10 +338,10 @@ func (s *Store) bind(evs []*mdo.Evaluation) []driver.NamedValue {
 			int64(e.Iterations), int64(e.DisciplineCalls), e.Wall.Seconds())
 		start := len(s.arena)
 		s.arena = appendNumbers(s.arena, e.Design, e.Objectives, e.Constraints, e.Margins)
-		numbers := string(s.arena[start:])
+		numbers := unsafe.String(&s.arena[start], len(s.arena)-start)
 		start = len(s.arena)
 		s.arena = appendNumbers(s.arena, e.Outputs)
-		outputs := string(s.arena[start:])
+		outputs := unsafe.String(&s.arena[start], len(s.arena)-start)
 		start = len(s.arena)
 		for _, xs := range [3][]float64{e.X, e.F, e.G} {
 			s.arena = appendFloats(s.arena, xs)

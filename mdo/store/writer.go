@@ -56,7 +56,7 @@ type iterRow struct {
 // committed rows.
 func (s *Store) startWriter(rows int) {
 	w := &writer{
-		limit:  max(s.opt.BatchSize, minQueue),
+		limit:  max(4*s.opt.BatchSize, minQueue),
 		last:   time.Now(),
 		rows:   rows,
 		kick:   make(chan struct{}, 1),
@@ -69,7 +69,7 @@ func (s *Store) startWriter(rows int) {
 
 // inFlight is the most evaluations the store holds by reference: a full
 // queue and the batch being written.
-func (s *Store) inFlight() int { return max(s.opt.BatchSize, minQueue) + s.opt.BatchSize }
+func (s *Store) inFlight() int { return max(4*s.opt.BatchSize, minQueue) + s.opt.BatchSize }
 
 // wake wakes the writer goroutine without waiting.
 func (w *writer) wake() {
