@@ -671,8 +671,17 @@ func addSurface(w *Wing, apex, root float64, strips int, k float64, x, s, planfo
 	}
 }
 
-// clamp01 clamps z to [0, 1].
-func clamp01(z float64) float64 { return math.Max(0, math.Min(1, z)) }
+// clamp01 clamps z to [0, 1] (z is finite here: plain comparisons, which
+// unlike math.Max and math.Min need no NaN and signed-zero cases).
+func clamp01(z float64) float64 {
+	if z < 0 {
+		return 0
+	}
+	if z > 1 {
+		return 1
+	}
+	return z
+}
 
 // quintic is ∫₀^z ξ²(1 − ξ)² dξ = z³/3 − z⁴/2 + z⁵/5 with z clamped to [0, 1].
 func quintic(z float64) float64 {
