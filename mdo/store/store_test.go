@@ -687,3 +687,51 @@ func TestAwkwardNames(t *testing.T) {
 		t.Errorf("run table: %d rows, %v", n, err)
 	}
 }
+
+// TestWriteErrorSurfaces checks that a commit the background writer
+// cannot make comes back from the caller's next call, whichever it is,
+// and from every call after it.
+func TestWriteErrorSurfaces(t *testing.T) {
+	tests := []struct {
+		name string
+		last func(s *Store) error // the call that must report the failure
+	}{
+		{"End", func(s *Store) error { return s.End(nil) }},
+		{"Flush", (*Store).Flush},
+		{"Close", (*Store).Close},
+		{"Evaluations", func(s *Store) error { _, err := s.Evaluations(); return err }},
+	}
+	for _, tc := range tests {
+		s, err := Create(filepath.Join(t.TempDir(), "fail.db"), Options{BatchSize: 1000, FlushInterval: time.Hour})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if err := s.Begin(syntheticRun()); err != nil {
+			t.Fatal(err)
+		}
+		// every insert into the evaluations fails from now on
+		if _, err := s.conn.ExecContext(context.Background(),
+			`CREATE TRIGGER fail BEFORE INSERT ON evaluation_data BEGIN SELECT RAISE(ABORT, 'disk on fire'); END`); err != nil {
+			t.Fatal(err)
+		}
+		for i := 0; i < 3; i++ {
+			var e mdo.Evaluation
+			syntheticEval(&e, i)
+			if err := s.Record(&e); err != nil {
+				t.Fatalf("%s: Record %d before the commit: %v", tc.name, i, err)
+			}
+		}
+		err = tc.last(s)
+		if err == nil || !strings.Contains(err.Error(), "disk on fire") || !strings.Contains(err.Error(), "committing 3 evaluations") {
+			t.Errorf("%s: err = %v; want the failed commit of 3 evaluations", tc.name, err)
+		}
+		if tc.name != "Close" {
+			var e mdo.Evaluation
+			syntheticEval(&e, 9)
+			if err := s.Record(&e); err == nil || !strings.Contains(err.Error(), "disk on fire") {
+				t.Errorf("%s: Record after the failure: err = %v; want the failed commit", tc.name, err)
+			}
+		}
+		s.Close()
+	}
+}
