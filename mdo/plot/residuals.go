@@ -22,7 +22,7 @@ func Residuals(reports []mdo.Report) (*Figure, error) {
 	}
 	p := newPlot("coupling-solver residuals", "iteration", "scaled residual [-] (log scale)")
 	p.Y.Scale = plot.LogScale{}
-	p.Y.Tick.Marker = plot.LogTicks{Prec: -1}
+	p.Y.Tick.Marker = plot.LogTicks{Prec: 1}
 	lo, hi := math.Inf(1), math.Inf(-1)
 	maxIt := 1.0
 	drawn := 0
