@@ -22,32 +22,36 @@ func DefaultAircraftConfig() AircraftConfig {
 
 // AircraftDisciplines returns the disciplines of the aircraft model in
 // their Gauss–Seidel order: geometry, airframe_aero, neutral_point,
-// aerodynamics, engine_cycle, propulsion, mission, weights, stability.
-// The airframe's aerodynamics (airframe_aero) and the neutral points
-// (neutral_point) depend on the design parameters only and run once ahead
-// of the coupled group; aerodynamics adds what the loop changes (pods,
-// lift, trim) and stability the centres of gravity, the trim load and the
-// divergence of the wing box sized by weights. Mission runs before weights so
-// that the fuel fractions reach the mass closure in the same sweep; this
-// order needs less than half the iterations of weights-before-mission and
-// converges to the same state.
+// airframe_masses, aerodynamics, engine_cycle, propulsion, mission,
+// weights, stability. The airframe's aerodynamics (airframe_aero), the
+// neutral points (neutral_point) and the airframe's statistical masses
+// (airframe_masses) depend on the design parameters only and run once
+// ahead of the coupled group; inside it aerodynamics adds what the loop
+// changes (pods, lift, trim), weights the engines, gear, fuel system and
+// fuel, and stability the centres of gravity, the trim load and the
+// divergence of the wing box sized by weights. Mission runs before
+// weights so that the fuel fractions reach the mass closure in the same
+// sweep; this order needs less than half the iterations of
+// weights-before-mission and converges to the same state.
 func AircraftDisciplines(cfg AircraftConfig) []mdo.Discipline {
+	wt := NewWeights()
 	return []mdo.Discipline{
 		NewGeometry(cfg.Geometry),
 		NewAirframeAerodynamics(cfg.Geometry, cfg.Aero),
 		NewNeutralPoints(),
+		NewAirframeMasses(wt),
 		NewAerodynamics(cfg.Geometry, cfg.Aero),
 		NewEngineCycle(),
 		NewPropulsion(),
 		NewMission(),
-		NewWeights(),
+		wt,
 		NewStability(),
 	}
 }
 
 // NewAircraft builds the coupled System of the whole aircraft. Geometry,
-// the airframe's aerodynamics, the neutral points and the engine cycle
-// run first; aerodynamics, propulsion, weights,
+// the airframe's aerodynamics, neutral points and masses and the engine
+// cycle run first; aerodynamics, propulsion, weights,
 // stability and mission form one coupled group (mass ↔ aerodynamics ↔
 // propulsion ↔ stability ↔ mission) that the System's solver converges.
 func NewAircraft(cfg AircraftConfig) (*mdo.System, error) {

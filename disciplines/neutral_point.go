@@ -65,12 +65,12 @@ func (n *NeutralPoints) Inputs() []mdo.Var {
 	wt := NewWeights().Inputs()
 	in := make([]mdo.Var, npNumIn)
 	in[npInArea] = wt[wtInArea]
-	in[npInAspect] = wt[wtInAspect]
+	in[npInAspect] = wingAspectVar()
 	in[npInMAC] = wt[wtInMAC]
 	in[npInMACX] = wt[wtInMACX]
 	in[npInFusLength] = wt[wtInFusLength]
 	in[npInFusDiameter] = wt[wtInFusDiameter]
-	in[npInHtArea] = wt[wtInHtArea]
+	in[npInHtArea] = htailAreaVar()
 	in[npInHtArm] = wt[wtInHtArm]
 	in[npInHtSpan] = mdo.Var{Name: "htail.span", Unit: "m", Description: "horizontal-tail span", Default: 8, Min: 0.1, Max: 100}
 	in[npInHtMAC] = htailMACVar()

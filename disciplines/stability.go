@@ -202,7 +202,7 @@ func (s *Stability) Inputs() []mdo.Var {
 	np := NewNeutralPoints().Outputs()
 	in := make([]mdo.Var, stNumIn)
 	in[stInArea] = wt[wtInArea]
-	in[stInTaper] = wt[wtInTaper]
+	in[stInTaper] = wingTaperVar()
 	in[stInSweep] = wt[wtInSweep]
 	in[stInSpan] = wt[wtInSpan]
 	in[stInMAC] = wt[wtInMAC]

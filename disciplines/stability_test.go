@@ -195,7 +195,7 @@ func BenchmarkStabilityCompute(b *testing.B) {
 // One System shared by goroutines, each with its own workspace, gives the
 // serial results (the disciplines keep no state; run with -race).
 func TestDisciplinesShareAcrossWorkspaces(t *testing.T) {
-	sys, err := mdo.NewSystem(NewWeights(), NewNeutralPoints(), NewStability())
+	sys, err := mdo.NewSystem(append(newWeightsPair(), NewNeutralPoints(), NewStability())...)
 	if err != nil {
 		t.Fatal(err)
 	}

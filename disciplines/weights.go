@@ -134,8 +134,6 @@ func SizeWingBox(mat BoxMaterial, lift, span, sweep, rootChord, tc, fusDia, kfs 
 // Indices of the weights discipline's variables.
 const (
 	wtInArea = iota
-	wtInAspect
-	wtInTaper
 	wtInSweep
 	wtInTC
 	wtInSpan
@@ -144,16 +142,12 @@ const (
 	wtInMACX
 	wtInFusLength
 	wtInFusDiameter
-	wtInFusWetted
-	wtInHtArea
-	wtInVtArea
 	wtInHtArm
 	wtInVtArm
 	wtInEngineCount
 	wtInEngineMass
 	wtInNacelleDia
 	wtInNacelleLength
-	wtInPassengers
 	wtInPayload
 	wtInFuelFraction
 	wtInReserveFraction
@@ -165,6 +159,14 @@ const (
 	wtInFuelVolume
 	wtInGuess
 	wtInFusTankShare
+	wtInCoefWing
+	wtInCoefHtail
+	wtInCoefVtail
+	wtInCoefFuselage
+	wtInSystemsFixed
+	wtInFurnishings
+	wtInCrew
+	wtInCGCrew
 	wtNumIn
 )
 
@@ -190,8 +192,6 @@ const (
 	wtOutGear
 	wtOutPropulsion
 	wtOutSystems
-	wtOutFurnishings
-	wtOutCrew
 	wtOutPenalty
 	wtOutCoverThickness
 	wtOutCGWing
@@ -202,7 +202,6 @@ const (
 	wtOutCGPropulsion
 	wtOutCGSystems
 	wtOutCGCabin
-	wtOutCGCrew
 	wtOutCGFuel
 	wtNumOut
 )
@@ -210,23 +209,31 @@ const (
 // Weights is the "weights" discipline. Its constants are the
 // assumptions of the statistical equations; Compute does not change them.
 //
+// The W0-dependent equations of the airframe (wing, tails, fuselage) and
+// the fixed masses of systems, furnishings and crew depend on the design
+// parameters only; the "airframe_masses" discipline (AirframeMasses, made
+// from the same Weights by NewAirframeMasses) evaluates them once before
+// the coupled loop, and weights closes the mass balance with the engines,
+// the landing gear, the fuel system and the fuel fractions that change
+// inside it.
+//
 // Added variables: inputs mission.fuel_fraction, mission.reserve_fraction,
 // mission.climb_fuel_fraction, mission.cruise_end_fuel_fraction,
 // mission.trip_fuel_fraction (fuel as fractions of the take-off mass, from
 // mission), cg.engine_position (engine group CG over fuselage length),
 // weights.fuselage_tank_share (fuselage fuel volume over π/4·D²·L; the
-// fuel capacity is wing.fuel_volume plus that share, at FuelDensity);
-// outputs mass.cruise_start, mass.cruise_end, mass.fuel_capacity,
-// cg.empty, the component masses mass.wing, mass.fuselage, mass.htail,
-// mass.vtail, mass.landing_gear, mass.propulsion_group, mass.systems,
-// mass.furnishings, mass.crew, mass.forward_sweep_penalty, their centres
-// of gravity cg.wing, cg.fuselage, cg.htail, cg.vtail, cg.landing_gear,
-// cg.propulsion_group, cg.systems, cg.cabin (furnishings and payload),
-// cg.crew, cg.fuel, and wing.box_cover_thickness. mass.empty is the operating empty mass
-// (including crew). mass.takeoff is also an input (a self-coupling): its
-// current value only starts the Newton iteration of the mass closure, so
-// that inside a converging coupled group the closure takes one or two
-// steps; the result does not depend on it.
+// fuel capacity is wing.fuel_volume plus that share, at FuelDensity), the
+// outputs of airframe_masses; outputs mass.cruise_start, mass.cruise_end,
+// mass.fuel_capacity, cg.empty, the component masses mass.wing,
+// mass.fuselage, mass.htail, mass.vtail, mass.landing_gear,
+// mass.propulsion_group, mass.systems, mass.forward_sweep_penalty, their
+// centres of gravity cg.wing, cg.fuselage, cg.htail, cg.vtail,
+// cg.landing_gear, cg.propulsion_group, cg.systems, cg.cabin (furnishings
+// and payload), cg.fuel, and wing.box_cover_thickness. mass.empty is the
+// operating empty mass (including crew). mass.takeoff is also an input (a
+// self-coupling): its current value only starts the Newton iteration of
+// the mass closure, so that inside a converging coupled group the closure
+// takes one or two steps; the result does not depend on it.
 type Weights struct {
 	Material BoxMaterial
 	// UltimateLoadFactor Nz = 1.5 × limit load factor 2.5 (14 CFR 25.337
@@ -283,26 +290,20 @@ func fracVar(name, desc string, def float64) mdo.Var {
 func (w *Weights) Inputs() []mdo.Var {
 	in := make([]mdo.Var, wtNumIn)
 	in[wtInArea] = wingAreaVar()
-	in[wtInAspect] = mdo.Var{Name: "wing.aspect_ratio", Unit: "-", Description: "wing aspect ratio b²/S", Default: 3.5, Min: 0.5, Max: 20}
-	in[wtInTaper] = mdo.Var{Name: "wing.taper", Unit: "-", Description: "wing taper ratio tip/root chord", Default: 0.25, Min: 0, Max: 1}
 	in[wtInSweep] = sweepVar()
 	in[wtInTC] = mdo.Var{Name: "wing.thickness_ratio", Unit: "-", Description: "wing thickness-to-chord ratio", Default: 0.045, Min: 0.01, Max: 0.25}
 	in[wtInSpan] = mdo.Var{Name: "wing.span", Unit: "m", Description: "wing span", Default: 19.6, Min: 0.5, Max: 120}
 	in[wtInRootChord] = mdo.Var{Name: "wing.root_chord", Unit: "m", Description: "wing root chord (centreline, streamwise)", Default: 9, Min: 0.1, Max: 60}
 	in[wtInMAC] = mdo.Var{Name: "wing.mac", Unit: "m", Description: "mean aerodynamic chord", Default: 6.2, Min: 0.1, Max: 50}
 	in[wtInMACX] = mdo.Var{Name: "wing.mac_x", Unit: "m", Description: "leading edge of the MAC from the nose", Default: 18, Min: 0, Max: 150}
-	in[wtInFusLength] = mdo.Var{Name: "fuselage.length", Unit: "m", Description: "fuselage length", Default: 33, Min: 2, Max: 150}
-	in[wtInFusDiameter] = mdo.Var{Name: "fuselage.diameter", Unit: "m", Description: "fuselage maximum diameter", Default: 2.3, Min: 0.3, Max: 12}
-	in[wtInFusWetted] = mdo.Var{Name: "fuselage.wetted_area", Unit: "m2", Description: "fuselage wetted area", Default: 190, Min: 1, Max: 5000}
-	in[wtInHtArea] = mdo.Var{Name: "htail.area", Unit: "m2", Description: "horizontal tail area", Default: 20, Min: 0, Max: 1000}
-	in[wtInVtArea] = mdo.Var{Name: "vtail.area", Unit: "m2", Description: "vertical tail area", Default: 14, Min: 0, Max: 1000}
-	in[wtInHtArm] = mdo.Var{Name: "htail.arm", Unit: "m", Description: "horizontal tail arm, wing to tail quarter-chord of the MACs", Default: 13, Min: 0.5, Max: 100}
-	in[wtInVtArm] = mdo.Var{Name: "vtail.arm", Unit: "m", Description: "vertical tail arm, wing to fin quarter-chord of the MACs", Default: 12, Min: 0.5, Max: 100}
+	in[wtInFusLength] = fuselageLengthVar()
+	in[wtInFusDiameter] = fuselageDiameterVar()
+	in[wtInHtArm] = htailArmVar()
+	in[wtInVtArm] = vtailArmVar()
 	in[wtInEngineCount] = engineCountVar()
 	in[wtInEngineMass] = engineMassVar()
 	in[wtInNacelleDia] = nacelleDiameterVar()
 	in[wtInNacelleLength] = nacelleLengthVar()
-	in[wtInPassengers] = mdo.Var{Name: "cabin.passengers", Unit: "-", Description: "number of passengers", Default: 12, Min: 1, Max: 800}
 	in[wtInPayload] = mdo.Var{Name: "mission.payload", Unit: "kg", Description: "payload (passengers and baggage, cargo)", Default: 1300, Min: 0, Max: 150000, Scale: 1000}
 	in[wtInFuelFraction] = fracVar("mission.fuel_fraction", "fuel loaded over take-off mass", 0.45)
 	in[wtInReserveFraction] = fracVar("mission.reserve_fraction", "reserve fuel over take-off mass", 0.04)
@@ -314,7 +315,38 @@ func (w *Weights) Inputs() []mdo.Var {
 	in[wtInFuelVolume] = mdo.Var{Name: "wing.fuel_volume", Unit: "m3", Description: "wing-box fuel volume", Default: 15, Min: 0, Max: 2000}
 	in[wtInGuess] = massTakeoffVar()
 	in[wtInFusTankShare] = mdo.Var{Name: "weights.fuselage_tank_share", Unit: "-", Description: "fuel volume in the fuselage over the fuselage volume π/4·D²·L", Default: 0.05, Min: 0, Max: 0.5}
+	copy(in[wtInCoefWing:], airframeMassOutputs())
 	return in
+}
+
+// Specifications of the geometry variables that weights, airframe_masses,
+// the neutral point and stability share.
+func fuselageLengthVar() mdo.Var {
+	return mdo.Var{Name: "fuselage.length", Unit: "m", Description: "fuselage length", Default: 33, Min: 2, Max: 150}
+}
+
+func fuselageDiameterVar() mdo.Var {
+	return mdo.Var{Name: "fuselage.diameter", Unit: "m", Description: "fuselage maximum diameter", Default: 2.3, Min: 0.3, Max: 12}
+}
+
+func htailArmVar() mdo.Var {
+	return mdo.Var{Name: "htail.arm", Unit: "m", Description: "horizontal tail arm, wing to tail quarter-chord of the MACs", Default: 13, Min: 0.5, Max: 100}
+}
+
+func vtailArmVar() mdo.Var {
+	return mdo.Var{Name: "vtail.arm", Unit: "m", Description: "vertical tail arm, wing to fin quarter-chord of the MACs", Default: 12, Min: 0.5, Max: 100}
+}
+
+func wingAspectVar() mdo.Var {
+	return mdo.Var{Name: "wing.aspect_ratio", Unit: "-", Description: "wing aspect ratio b²/S", Default: 3.5, Min: 0.5, Max: 20}
+}
+
+func wingTaperVar() mdo.Var {
+	return mdo.Var{Name: "wing.taper", Unit: "-", Description: "wing taper ratio tip/root chord", Default: 0.25, Min: 0, Max: 1}
+}
+
+func htailAreaVar() mdo.Var {
+	return mdo.Var{Name: "htail.area", Unit: "m2", Description: "horizontal tail area", Default: 20, Min: 0, Max: 1000}
 }
 
 // Outputs implements mdo.Discipline.
@@ -347,8 +379,6 @@ func (w *Weights) Outputs() []mdo.Var {
 	out[wtOutGear] = m("mass.landing_gear", "main and nose landing gear (Raymer transport equations)", 1500)
 	out[wtOutPropulsion] = m("mass.propulsion_group", "engines, nacelle group, engine controls, starters and fuel system", 5000)
 	out[wtOutSystems] = m("mass.systems", "flight controls, APU, instruments, hydraulics, electrical, avionics, air conditioning, anti-ice, handling", 3000)
-	out[wtOutFurnishings] = m("mass.furnishings", "furnishings, seats, galley and lavatories", 700)
-	out[wtOutCrew] = m("mass.crew", "flight and cabin crew with bags", 190)
 	out[wtOutPenalty] = m("mass.forward_sweep_penalty", "wing cover stiffening of a forward-swept wing", 0)
 	out[wtOutCoverThickness] = mdo.Var{Name: "wing.box_cover_thickness", Unit: "m", Description: "root cover skin thickness of the sized wing box", Default: 0.005, Min: 0, Max: 1, Scale: 0.001}
 	out[wtOutCGWing] = x("cg.wing", "CG of the wing (40 % MAC)", 19)
@@ -359,7 +389,6 @@ func (w *Weights) Outputs() []mdo.Var {
 	out[wtOutCGPropulsion] = x("cg.propulsion_group", "CG of the propulsion group (cg.engine_position)", 25)
 	out[wtOutCGSystems] = x("cg.systems", "CG of the systems (45 % length)", 15)
 	out[wtOutCGCabin] = x("cg.cabin", "CG of furnishings and payload (45 % length)", 15)
-	out[wtOutCGCrew] = x("cg.crew", "CG of the crew (flight deck at 6 % length, cabin crew in the cabin)", 3)
 	out[wtOutCGFuel] = x("cg.fuel", "CG of the fuel (45 % MAC)", 19.5)
 	return out
 }
@@ -411,83 +440,41 @@ func (w *Weights) Compute(in, out []float64) error {
 		return inputErr("weights.inputs", float64(len(in)), "", "the declared inputs and outputs")
 	}
 	s := in[wtInArea]
-	ar := in[wtInAspect]
-	taper := in[wtInTaper]
 	sweep := in[wtInSweep] * math.Pi / 180
 	tc := in[wtInTC]
 	span := in[wtInSpan]
 	lf := in[wtInFusLength]
 	df := in[wtInFusDiameter]
 	nen := math.Round(in[wtInEngineCount])
-	npax := in[wtInPassengers]
 	phi := in[wtInFuelFraction]
 	trip := in[wtInTripFraction]
 	nz := w.UltimateLoadFactor
-	cosL := math.Cos(sweep)
 	if phi >= 0.95 || trip > phi {
 		return inputErr("mission.fuel_fraction", phi, "", "below 0.95 and at least the trip fuel fraction")
 	}
 
 	// English-unit quantities
-	sFt := s / unitFt2
 	lfFt := lf / unitFt
-	bFt := span / unitFt
-	htFt := in[wtInHtArea] / unitFt2
-	vtFt := in[wtInVtArea] / unitFt2
-	lhFt := in[wtInHtArm] / unitFt
-	lvFt := in[wtInVtArm] / unitFt
-	sfFt := in[wtInFusWetted] / unitFt2
 	weLb := in[wtInEngineMass] / unitLb
 	lnFt := in[wtInNacelleLength] / unitFt
 	dnFt := in[wtInNacelleDia] / unitFt
 	// gear strut length [in]: 0.7 fuselage diameters (no source)
 	const lb = -0.7905563476977234 // ln(unitLb): W0[lb] = W0[kg]/unitLb
-	lnS, lnNz, lnLh, lnLf, lnSf, lnNen := math.Log(sFt), math.Log(nz), math.Log(math.Max(lhFt, 1e-3)), math.Log(lfFt), math.Log(sfFt), math.Log(nen)
+	lnNz, lnNen := math.Log(nz), math.Log(nen)
 	lnDf := math.Log(df)
-	lnGear, lnLB := lnDf+ln0p7x12PerFt, math.Log(lfFt+bFt)
+	lnGear := lnDf + ln0p7x12PerFt
 
-	kfs := 1.0
-	if sweep < 0 {
-		kfs = 1 + w.ForwardSweepStiffening*math.Sin(-sweep)
-	}
+	kfs := w.forwardSweepFactor(sweep)
 	penalty := (kfs - 1) * w.CoverShare
 
 	// W0-dependent terms as coef·W0[kg]^exp [kg]; Raymer's equations in lb
-	// with W[lb] = W[kg]/unitLb, result ×unitLb.
+	// with W[lb] = W[kg]/unitLb, result ×unitLb. The airframe's terms come
+	// from airframe_masses.
 	var terms [numTerms]weightTerm
-	// Wing: 0.0051 (Wdg·Nz)^0.557 Sw^0.649 A^0.5 (t/c)^-0.4 (1+λ)^0.1 (cosΛ)^-1 Scsw^0.1, Scsw = 0.15 Sw
-	terms[termWing] = weightTerm{
-		coef: (1 + penalty) * unitLb * 0.0051 * math.Exp(0.557*lnNz+0.649*lnS+0.5*math.Log(ar)-
-			0.4*math.Log(tc)+0.1*math.Log(1+taper)+0.1*(lnS+ln0p15)-0.557*lb) / cosL,
-		exp: 0.557,
-	}
-	// Horizontal tail: 0.0379 Kuht (1+Fw/Bh)^-0.25 Wdg^0.639 Nz^0.10 Sht^0.75 Lt^-1 Ky^0.704
-	// (cosΛht)^-1 Aht^0.166 (1+Se/Sht)^0.1; Kuht = 1, Fw/Bh = 0.25, Ky = 0.3 Lt,
-	// Λht = 35°, Aht = 4, Se/Sht = 0.3 (assumed tail layout, no source).
-	if htFt > 0 {
-		terms[termHtail] = weightTerm{
-			coef: unitLb * 0.0379 * math.Exp(-0.25*ln1p25+0.10*lnNz+0.75*math.Log(htFt)-lnLh+
-				0.704*(lnLh+ln0p3)+0.166*ln4+0.1*ln1p3-0.639*lb) / cos35,
-			exp: 0.639,
-		}
-	}
-	// Vertical tail: 0.0026 (1+Ht/Hv)^0.225 Wdg^0.556 Nz^0.536 Lt^-0.5 Svt^0.5 Kz^0.875
-	// (cosΛvt)^-1 Avt^0.35 (t/c)^-0.5; Ht/Hv = 0, Kz = Lt, Λvt = 40°, Avt = 1.5, t/c = 0.09.
-	if vtFt > 0 {
-		terms[termVtail] = weightTerm{
-			coef: unitLb * 0.0026 * math.Exp(0.536*lnNz+0.375*math.Log(lvFt)+0.5*math.Log(vtFt)+
-				0.35*ln1p5-0.5*ln0p09-0.556*lb) / cos40,
-			exp: 0.556,
-		}
-	}
-	// Fuselage: 0.3280 Kdoor Klg (Wdg·Nz)^0.5 L^0.25 Sf^0.302 (1+Kws)^0.04 (L/D)^0.10,
-	// Kdoor = 1.06, Klg = 1, Kws = 0.75 (1+2λ)/(1+λ) Bw |tanΛ|/L.
-	kws := 0.75 * (1 + 2*taper) / (1 + taper) * bFt * math.Abs(math.Tan(sweep)) / lfFt
-	terms[termFuselage] = weightTerm{
-		coef: unitLb * 0.3280 * 1.06 * math.Exp(0.5*lnNz+0.25*lnLf+0.302*lnSf+
-			0.04*math.Log(1+kws)+0.10*(lnLf+lnFtUnit-lnDf)-0.5*lb),
-		exp: 0.5,
-	}
+	terms[termWing] = weightTerm{coef: in[wtInCoefWing], exp: expWing}
+	terms[termHtail] = weightTerm{coef: in[wtInCoefHtail], exp: expHtail}
+	terms[termVtail] = weightTerm{coef: in[wtInCoefVtail], exp: expVtail}
+	terms[termFuselage] = weightTerm{coef: in[wtInCoefFuselage], exp: expFuselage}
 	// Landing mass Wl = (1 − trip)·W0; stall speed in landing configuration
 	// at sea level VS = sqrt(2 Wl g/(ρ0 S CLmax)) ∝ Wl^0.5.
 	wl := 1 - trip
@@ -534,30 +521,7 @@ func (w *Weights) Compute(in, out []float64) error {
 	engControls := unitLb * (5*nen + 0.80*lec)
 	propGroupFixed := nen*in[wtInEngineMass] + nacelle + starter + engControls
 
-	nCrew := w.FlightCrew
-	if npax >= 20 {
-		nCrew += math.Ceil(npax / w.PassengersPerAttendant)
-	}
-	crew := nCrew * w.CrewMass
-	wuavLb := w.AvionicsMass / unitLb
-	lnWuav := math.Log(wuavLb)
-	// Instruments: 4.509 Kr Ktp Nc^0.541 Nen (Lf + Bw)^0.5, Kr = Ktp = 1, Nc = flight crew.
-	instr := unitLb * 4.509 * math.Exp(0.541*math.Log(w.FlightCrew)+0.5*lnLB) * nen
-	// Hydraulics: 0.2673 Nf (Lf + Bw)^0.937.
-	hydr := unitLb * 0.2673 * w.HydraulicFunctions * math.Exp(0.937*lnLB)
-	// Electrical: 7.291 Rkva^0.782 La^0.346 Ngen^0.10, La = Lf, Ngen = Nen.
-	elec := unitLb * 7.291 * math.Exp(0.782*math.Log(w.ElectricalRating)+0.346*lnLf+0.10*lnNen)
-	// Avionics (installed): 1.73 Wuav^0.983.
-	avion := unitLb * 1.73 * math.Exp(0.983*lnWuav)
-	// Air conditioning: 62.36 Np^0.25 (Vpr/1000)^0.604 Wuav^0.10, Vpr = π/4 D² (0.8 Lf) [ft³].
-	lnVpr := lnPi4x0p8PerFt3 + 2*lnDf + lnLf + lnFtUnit // ln Vpr[ft³]
-	aircond := unitLb * 62.36 * math.Exp(0.25*math.Log(npax+nCrew)+0.604*(lnVpr-ln1000)+0.10*lnWuav)
-	apu := 2.2 * w.APUMass
-	systemsFixed := instr + hydr + elec + avion + aircond + apu
-	// Furnishings: 0.0577 Nc^0.1 Wc^0.393 Sf^0.75 (Wc = baggage, 20 kg per passenger)
-	// plus seats, galley and lavatories per passenger.
-	wcLb := 20 * npax / unitLb
-	furn := unitLb*0.0577*math.Exp(0.1*math.Log(nCrew)+0.393*math.Log(wcLb)+0.75*lnSf) + w.SeatMass*npax
+	systemsFixed, furn, crew := in[wtInSystemsFixed], in[wtInFurnishings], in[wtInCrew]
 	const linear = 0.002 + 3e-4 // anti-ice 0.002 Wdg + handling gear 3.0e-4 Wdg (Raymer)
 
 	fixed := propGroupFixed + systemsFixed + furn + crew + in[wtInPayload]
@@ -640,7 +604,7 @@ func (w *Weights) Compute(in, out []float64) error {
 	xNose := 0.12 * lf
 	xProp := in[wtInEnginePosition] * lf
 	xCabin := 0.45 * lf
-	xCrew := (w.FlightCrew*0.06*lf + (nCrew-w.FlightCrew)*xCabin) / nCrew
+	xCrew := in[wtInCGCrew]
 	xFuel := macx + 0.45*mac
 	mGearMain, mGearNose := mt[termMainGear], mt[termNoseGear]
 	moment := wingTotal*xWing + mt[termHtail]*xHt + mt[termVtail]*xVt + mt[termFuselage]*0.45*lf +
@@ -674,8 +638,6 @@ func (w *Weights) Compute(in, out []float64) error {
 	out[wtOutGear] = gear
 	out[wtOutPropulsion] = propGroup
 	out[wtOutSystems] = systems
-	out[wtOutFurnishings] = furn
-	out[wtOutCrew] = crew
 	out[wtOutPenalty] = penMass
 	out[wtOutCoverThickness] = box.CoverThickness
 	out[wtOutCGWing] = xWing
@@ -686,7 +648,6 @@ func (w *Weights) Compute(in, out []float64) error {
 	out[wtOutCGPropulsion] = xProp
 	out[wtOutCGSystems] = 0.45 * lf
 	out[wtOutCGCabin] = xCabin
-	out[wtOutCGCrew] = xCrew
 	out[wtOutCGFuel] = xFuel
 	return nil
 }

@@ -80,9 +80,16 @@ func weightsInputs() map[string]float64 {
 	}
 }
 
+// newWeightsPair returns weights and the airframe_masses discipline made
+// from it (the two halves of the mass estimate).
+func newWeightsPair() []mdo.Discipline {
+	w := NewWeights()
+	return []mdo.Discipline{NewAirframeMasses(w), w}
+}
+
 func weightsSystem(t *testing.T, set map[string]float64) *mdo.Workspace {
 	t.Helper()
-	sys, err := mdo.NewSystem(NewWeights())
+	sys, err := mdo.NewSystem(newWeightsPair()...)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -171,7 +178,7 @@ func TestForwardSweepPenalty(t *testing.T) {
 }
 
 func TestWeightsRefusesBadInput(t *testing.T) {
-	sys, err := mdo.NewSystem(NewWeights())
+	sys, err := mdo.NewSystem(newWeightsPair()...)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -199,9 +206,28 @@ func TestWeightsRefusesBadInput(t *testing.T) {
 
 // BenchmarkWeightsCompute times one call inside a converging coupled
 // group: mass.takeoff (the closure's start) already at its converged value.
+func BenchmarkAirframeMassesCompute(b *testing.B) {
+	am := NewAirframeMasses(NewWeights())
+	in := varDefaults(am.Inputs())
+	out := make([]float64, amNumOut)
+	b.ReportAllocs()
+	for i := 0; i < b.N; i++ {
+		if err := am.Compute(in, out); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
 func BenchmarkWeightsCompute(b *testing.B) {
 	w := NewWeights()
+	am := NewAirframeMasses(w)
+	amIn := varDefaults(am.Inputs())
+	amOut := make([]float64, amNumOut)
+	if err := am.Compute(amIn, amOut); err != nil {
+		b.Fatal(err)
+	}
 	in := varDefaults(w.Inputs())
+	copy(in[wtInCoefWing:], amOut)
 	out := make([]float64, wtNumOut)
 	if err := w.Compute(in, out); err != nil {
 		b.Fatal(err)
