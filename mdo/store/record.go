@@ -8,7 +8,6 @@ import (
 	"math"
 	"strconv"
 	"time"
-	"unsafe"
 
 	"couplet/mdo"
 )
@@ -326,27 +325,13 @@ func (s *Store) add(vs ...driver.Value) {
 	}
 }
 
-// bind fills the argument list of an insert of evs. The numbers and
-// outputs arrays and the vectors blob are cut from one arena per call,
-// the strings without a copy of their own: the driver copies them into
-// SQLite's memory when it binds them, before the arena is reused.
-func (s *Store) bind(evs []*mdo.Evaluation) []driver.NamedValue {
+// bind fills the argument list of an insert of encoded rows.
+func (s *Store) bind(rows []encRow) []driver.NamedValue {
 	s.args = s.args[:0]
-	s.arena = s.arena[:0]
-	for _, e := range evs {
+	for _, r := range rows {
+		e := r.e
 		s.add(int64(e.ID), e.Feasible, e.Converged, e.Violation, e.Err,
-			int64(e.Iterations), int64(e.DisciplineCalls), e.Wall.Seconds())
-		start := len(s.arena)
-		s.arena = appendNumbers(s.arena, e.Design, e.Objectives, e.Constraints, e.Margins)
-		numbers := unsafe.String(&s.arena[start], len(s.arena)-start)
-		start = len(s.arena)
-		s.arena = appendNumbers(s.arena, e.Outputs)
-		outputs := unsafe.String(&s.arena[start], len(s.arena)-start)
-		start = len(s.arena)
-		for _, xs := range [3][]float64{e.X, e.F, e.G} {
-			s.arena = appendFloats(s.arena, xs)
-		}
-		s.add(numbers, outputs, s.arena[start:len(s.arena):len(s.arena)])
+			int64(e.Iterations), int64(e.DisciplineCalls), e.Wall.Seconds(), r.numbers, r.outputs, r.vectors)
 	}
 	return s.args
 }

@@ -30,7 +30,7 @@ type Options struct {
 	// 4096 (the flush interval bounds what a crash can lose). Record
 	// queues evaluations for the store's writer goroutine, which commits
 	// them as soon as BatchSize are waiting; the queue holds up to
-	// max(BatchSize, 256) evaluations, beyond which Record waits for the
+	// max(4×BatchSize, 256) evaluations, beyond which Record waits for the
 	// writer.
 	BatchSize int
 	// FlushInterval bounds how long a recorded evaluation waits for its
@@ -111,7 +111,6 @@ type Store struct {
 	stmtOne   driver.StmtExecContext
 	stmtIt    driver.StmtExecContext
 	args      []driver.NamedValue
-	arena     []byte
 	rows      int
 	began     bool
 	ended     bool

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"sync"
 	"time"
+	"unsafe"
 
 	"couplet/mdo"
 )
@@ -14,34 +15,84 @@ import (
 const minQueue = 256
 
 // writer is the store's background writer. Record and Iteration put rows
-// in its queue under mu and return; the writer goroutine takes up to
-// BatchSize evaluations (and the iterations queued among them) at a
-// time, encodes them and commits them in one transaction: when BatchSize
-// evaluations are waiting, when FlushInterval has passed since the last
-// commit, or when a flush is asked for. The queue is bounded (limit
-// evaluations, limit iterations): a caller that outruns the writer waits
-// for room. The first write error is kept and returned by every later
-// call.
+// in its queue under mu and return. Two goroutines do the rest, as a
+// pipeline: the encoder takes up to BatchSize evaluations (and the
+// iterations queued among them) at a time, when BatchSize evaluations are
+// waiting, when FlushInterval has passed since the last batch was taken,
+// or when a flush is asked for, and formats them into an encoded batch;
+// the committer binds an encoded batch and commits it in one
+// transaction while the encoder formats the next. The queue is bounded
+// (limit evaluations, limit iterations): a caller that outruns the
+// writer waits for room. The first write error is kept and returned by
+// every later call.
 type writer struct {
 	mu   sync.Mutex
 	cond sync.Cond // broadcast when rows are taken or committed and when the writer fails or stops
 
 	evs   []*mdo.Evaluation // queued evaluations
 	its   []iterRow         // queued iterations
-	spare []*mdo.Evaluation // the writer's previous batch, reused as the next queue
+	spare []*mdo.Evaluation // a taken batch given back, reused as the next queue
 	limit int
 
 	queuedEvs int64 // evaluations queued so far
 	queued    int64 // rows (evaluations and iterations) queued so far
+	taken     int64 // rows taken by the encoder so far
 	committed int64 // rows committed so far
-	flushTo   int64 // commit at least this many rows now
+	flushTo   int64 // take at least this many rows now
 	last      time.Time
 	stop      bool
 	err       error
 	rows      int // evaluation rows the store holds
 
-	kick   chan struct{} // wakes the writer goroutine
-	exited chan struct{} // closed when the writer goroutine returns
+	kick    chan struct{}  // wakes the encoder
+	free    chan *encBatch // encoded batches the committer has finished with
+	encoded chan *encBatch // encoded batches for the committer
+	exited  chan struct{}  // closed when the committer returns
+}
+
+// encodedBatches is the number of encoded batches in the pipeline: one
+// being committed, one being encoded.
+const encodedBatches = 2
+
+// encBatch is a batch of rows formatted for the inserts. The strings of
+// its rows are cut from arena without copies of their own; the driver
+// copies them into SQLite's memory when it binds them, before the
+// encoder reuses the arena.
+type encBatch struct {
+	evs   []*mdo.Evaluation
+	rows  []encRow
+	its   []iterRow
+	arena []byte
+}
+
+// encRow is an evaluation with its numbers and outputs arrays and its
+// vectors blob.
+type encRow struct {
+	e                *mdo.Evaluation
+	numbers, outputs string
+	vectors          []byte
+}
+
+// encode formats the rows of b.evs.
+func (b *encBatch) encode() {
+	b.rows = b.rows[:0]
+	b.arena = b.arena[:0]
+	for _, e := range b.evs {
+		start := len(b.arena)
+		b.arena = appendNumbers(b.arena, e.Design, e.Objectives, e.Constraints, e.Margins)
+		mid := len(b.arena)
+		b.arena = appendNumbers(b.arena, e.Outputs)
+		end := len(b.arena)
+		for _, xs := range [3][]float64{e.X, e.F, e.G} {
+			b.arena = appendFloats(b.arena, xs)
+		}
+		// the arena may have moved: cut the row from where it is now
+		a := b.arena
+		b.rows = append(b.rows, encRow{e: e,
+			numbers: unsafe.String(&a[start], mid-start),
+			outputs: unsafe.String(&a[mid], end-mid),
+			vectors: a[end:len(a):len(a)]})
+	}
 }
 
 // iterRow is a queued optimiser iteration, after the first after
@@ -56,20 +107,28 @@ type iterRow struct {
 // committed rows.
 func (s *Store) startWriter(rows int) {
 	w := &writer{
-		limit:  max(4*s.opt.BatchSize, minQueue),
-		last:   time.Now(),
-		rows:   rows,
-		kick:   make(chan struct{}, 1),
-		exited: make(chan struct{}),
+		limit:   max(4*s.opt.BatchSize, minQueue),
+		last:    time.Now(),
+		rows:    rows,
+		kick:    make(chan struct{}, 1),
+		free:    make(chan *encBatch, encodedBatches),
+		encoded: make(chan *encBatch, encodedBatches),
+		exited:  make(chan struct{}),
 	}
 	w.cond.L = &w.mu
+	for range encodedBatches {
+		w.free <- &encBatch{}
+	}
 	s.w = w
-	go s.writeLoop(w)
+	go s.encodeLoop(w)
+	go s.commitLoop(w)
 }
 
 // inFlight is the most evaluations the store holds by reference: a full
-// queue and the batch being written.
-func (s *Store) inFlight() int { return max(4*s.opt.BatchSize, minQueue) + s.opt.BatchSize }
+// queue and the batches in the pipeline.
+func (s *Store) inFlight() int {
+	return max(4*s.opt.BatchSize, minQueue) + encodedBatches*s.opt.BatchSize
+}
 
 // wake wakes the writer goroutine without waiting.
 func (w *writer) wake() {
@@ -174,15 +233,17 @@ func (w *writer) committedRows() int {
 	return w.rows
 }
 
-// writeLoop is the writer goroutine.
-func (s *Store) writeLoop(w *writer) {
-	defer close(w.exited)
+// encodeLoop is the encoder goroutine: it takes batches from the queue,
+// formats them and hands them to the committer.
+func (s *Store) encodeLoop(w *writer) {
+	defer close(w.encoded)
 	timer := time.NewTimer(time.Hour)
 	timer.Stop()
 	defer timer.Stop()
-	var batch []*mdo.Evaluation
-	var its []iterRow
 	for {
+		// wait for a free batch first, so that rows gather in the queue
+		// while the committer is busy
+		b := <-w.free
 		w.mu.Lock()
 		for {
 			n := len(w.evs) + len(w.its)
@@ -192,7 +253,7 @@ func (s *Store) writeLoop(w *writer) {
 			}
 			if n > 0 {
 				wait := s.opt.FlushInterval - time.Since(w.last)
-				if len(w.evs) >= s.opt.BatchSize || w.flushTo > w.committed || w.stop || wait <= 0 {
+				if len(w.evs) >= s.opt.BatchSize || w.flushTo > w.taken || w.stop || wait <= 0 {
 					break
 				}
 				timer.Reset(wait)
@@ -204,12 +265,12 @@ func (s *Store) writeLoop(w *writer) {
 			}
 			w.mu.Lock()
 		}
-		// take a batch: up to BatchSize evaluations and the iterations
-		// queued before the last of them
+		// take up to BatchSize evaluations and the iterations queued
+		// before the last of them
 		if len(w.evs) <= s.opt.BatchSize {
-			batch, w.evs = w.evs, w.spare[:0]
+			b.evs, w.evs = w.evs, w.spare[:0]
 		} else {
-			batch = append(w.spare[:0], w.evs[:s.opt.BatchSize]...)
+			b.evs = append(w.spare[:0], w.evs[:s.opt.BatchSize]...)
 			rest := copy(w.evs, w.evs[s.opt.BatchSize:])
 			clear(w.evs[rest:])
 			w.evs = w.evs[:rest]
@@ -220,36 +281,61 @@ func (s *Store) writeLoop(w *writer) {
 		for k < len(w.its) && w.its[k].after <= taken {
 			k++
 		}
-		its = append(its[:0], w.its[:k]...)
+		b.its = append(b.its[:0], w.its[:k]...)
 		rest := copy(w.its, w.its[k:])
 		w.its = w.its[:rest]
+		w.taken += int64(len(b.evs) + len(b.its))
+		w.last = time.Now()
 		w.cond.Broadcast()
 		w.mu.Unlock()
 
-		err := s.commit(batch, its)
+		b.encode()
+		w.encoded <- b
+	}
+}
 
+// commitLoop is the committer goroutine: it commits the encoded batches
+// in order. After a failure it drops what is left.
+func (s *Store) commitLoop(w *writer) {
+	defer close(w.exited)
+	for b := range w.encoded {
+		w.mu.Lock()
+		failed := w.err != nil
+		w.mu.Unlock()
+		var err error
+		if !failed {
+			err = s.commit(b.rows, b.its)
+		}
 		w.mu.Lock()
 		if err != nil {
-			w.err = fmt.Errorf("store: %s: committing %d evaluations: %w", s.path, len(batch), err)
+			w.err = fmt.Errorf("store: %s: committing %d evaluations: %w", s.path, len(b.rows), err)
 			w.evs, w.its = nil, nil
-		} else {
-			w.committed += int64(len(batch) + len(its))
-			w.rows += len(batch) // a replaced row counts too until End recounts
+		} else if !failed {
+			w.committed += int64(len(b.rows) + len(b.its))
+			w.rows += len(b.rows) // a replaced row counts too until End recounts
 		}
-		w.last = time.Now()
 		rows := w.rows
-		clear(batch)
-		w.spare = batch[:0]
+		clear(b.evs)
+		if w.spare == nil {
+			w.spare = b.evs[:0]
+		}
+		b.evs = nil
+		clear(b.rows)
 		w.cond.Broadcast()
 		w.mu.Unlock()
-		if err == nil && s.opt.OnCommit != nil {
+		w.free <- b
+		// wake the encoder: after a failure it must see the error and stop
+		if err != nil {
+			w.wake()
+		}
+		if err == nil && !failed && s.opt.OnCommit != nil {
 			s.opt.OnCommit(rows)
 		}
 	}
 }
 
-// commit writes evaluations and iterations in one transaction.
-func (s *Store) commit(evs []*mdo.Evaluation, its []iterRow) error {
+// commit writes encoded evaluations and iterations in one transaction.
+func (s *Store) commit(evs []encRow, its []iterRow) error {
 	ctx := context.Background()
 	return s.inTx(func() error {
 		return s.conn.Raw(func(any) error {
