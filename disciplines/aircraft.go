@@ -23,16 +23,17 @@ func DefaultAircraftConfig() AircraftConfig {
 // AircraftDisciplines returns the disciplines of the aircraft model in
 // their Gauss–Seidel order: geometry, airframe_aero, neutral_point,
 // airframe_masses, aerodynamics, engine_cycle, propulsion, mission,
-// weights, stability. The airframe's aerodynamics (airframe_aero), the
-// neutral points (neutral_point) and the airframe's statistical masses
-// (airframe_masses) depend on the design parameters only and run once
-// ahead of the coupled group; inside it aerodynamics adds what the loop
-// changes (pods, lift, trim), weights the engines, gear, fuel system and
-// fuel, and stability the centres of gravity, the trim load and the
-// divergence of the wing box sized by weights. Mission runs before
-// weights so that the fuel fractions reach the mass closure in the same
-// sweep; this order needs less than half the iterations of
-// weights-before-mission and converges to the same state.
+// weights, stability, wing_box, wing_divergence. The airframe's
+// aerodynamics (airframe_aero), the neutral points (neutral_point) and the
+// airframe's statistical masses (airframe_masses) depend on the design
+// parameters only and run once ahead of the coupled group; inside it
+// aerodynamics adds what the loop changes (pods, lift, trim), weights the
+// engines, gear, fuel system and fuel, and stability the static margins
+// and the trim load. The wing box (wing_box) and its divergence
+// (wing_divergence) are read by nothing inside the loop and run once
+// after it. Mission runs before weights so that the fuel fractions reach
+// the mass closure in the same sweep; this order needs less than half the
+// iterations of weights-before-mission and converges to the same state.
 func AircraftDisciplines(cfg AircraftConfig) []mdo.Discipline {
 	wt := NewWeights()
 	return []mdo.Discipline{
@@ -46,6 +47,8 @@ func AircraftDisciplines(cfg AircraftConfig) []mdo.Discipline {
 		NewMission(),
 		wt,
 		NewStability(),
+		NewWingBoxSizing(wt),
+		NewWingDivergence(),
 	}
 }
 

@@ -80,8 +80,8 @@ func (a *AirframeMasses) Inputs() []mdo.Var {
 	in[amInAspect] = wingAspectVar()
 	in[amInTaper] = wingTaperVar()
 	in[amInSweep] = wt[wtInSweep]
-	in[amInTC] = wt[wtInTC]
-	in[amInSpan] = wt[wtInSpan]
+	in[amInTC] = wingThicknessVar()
+	in[amInSpan] = wingSpanVar()
 	in[amInFusLength] = fuselageLengthVar()
 	in[amInFusDiameter] = fuselageDiameterVar()
 	in[amInFusWetted] = mdo.Var{Name: "fuselage.wetted_area", Unit: "m2", Description: "fuselage wetted area", Default: 190, Min: 1, Max: 5000}

@@ -33,18 +33,20 @@ func ExampleNewAircraft() {
 	ld, _ := w.Get("aero.ld_cruise")
 	fmt.Printf("converged: %v, take-off mass about %.0f t, cruise L/D about %.0f\n", w.Reports()[0].Converged, mto/1000, ld)
 	// Output:
-	// design structure matrix: 10 disciplines, 6 groups (row feeds column)
-	//                         1  2  3  4  5  6  7  8  9 10   group
-	//   1 geometry            ■  >  >  >  .  >  .  .  >  >   A
-	//   2 airframe_aero       .  ■  >  .  .  >  >  >  >  >   B
-	//   3 neutral_point       .  .  ■  .  .  .  .  .  .  >   C
-	//   4 airframe_masses     .  .  .  ■  .  .  .  .  >  .   D
-	//   5 engine_cycle        .  .  .  .  ■  .  >  .  .  .   E
-	//   6 aerodynamics        .  .  .  .  .  ■  >  >  .  .   F coupled, aitken-gauss-seidel
-	//   7 propulsion          .  .  .  .  .  <  ■  >  >  .   F coupled, aitken-gauss-seidel
-	//   8 mission             .  .  .  .  .  .  .  ■  >  .   F coupled, aitken-gauss-seidel
-	//   9 weights             .  .  .  .  .  <  <  <  ■  >   F coupled, aitken-gauss-seidel
-	//  10 stability           .  .  .  .  .  <  .  .  .  ■   F coupled, aitken-gauss-seidel
+	// design structure matrix: 12 disciplines, 8 groups (row feeds column)
+	//                         1  2  3  4  5  6  7  8  9 10 11 12   group
+	//   1 geometry            ■  >  >  >  .  >  .  .  >  >  >  >   A
+	//   2 airframe_aero       .  ■  >  .  .  >  >  >  >  >  .  .   B
+	//   3 neutral_point       .  .  ■  .  .  .  .  .  .  >  .  .   C
+	//   4 airframe_masses     .  .  .  ■  .  .  .  .  >  .  .  .   D
+	//   5 engine_cycle        .  .  .  .  ■  .  >  .  .  .  .  .   E
+	//   6 aerodynamics        .  .  .  .  .  ■  >  >  .  .  .  .   F coupled, aitken-gauss-seidel
+	//   7 propulsion          .  .  .  .  .  <  ■  >  >  .  .  .   F coupled, aitken-gauss-seidel
+	//   8 mission             .  .  .  .  .  .  .  ■  >  .  .  .   F coupled, aitken-gauss-seidel
+	//   9 weights             .  .  .  .  .  <  <  <  ■  >  >  .   F coupled, aitken-gauss-seidel
+	//  10 stability           .  .  .  .  .  <  .  .  .  ■  .  .   F coupled, aitken-gauss-seidel
+	//  11 wing_box            .  .  .  .  .  .  .  .  .  .  ■  >   G
+	//  12 wing_divergence     .  .  .  .  .  .  .  .  .  .  .  ■   H
 	// converged: true, take-off mass about 40 t, cruise L/D about 10
 }
 

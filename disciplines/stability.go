@@ -125,12 +125,8 @@ func StaticMargin(xnp, xcg, mac float64) float64 { return (xnp - xcg) / mac }
 // Indices of the stability discipline's variables.
 const (
 	stInArea = iota
-	stInTaper
-	stInSweep
-	stInSpan
 	stInMAC
 	stInMACX
-	stInFusDiameter
 	stInHtArm
 	stInHtMAC
 	stInMach
@@ -141,9 +137,6 @@ const (
 	stInCGCruiseStart
 	stInCGCruiseEnd
 	stInMassCruiseStart
-	stInGJ
-	stInEI
-	stInQDive
 	stInCmac
 	stNumIn
 )
@@ -153,44 +146,24 @@ const (
 	stOutSMCruiseStart
 	stOutSMCruiseEnd
 	stOutTailLift
-	stOutQD
-	stOutDivMargin
 	stNumOut
 )
 
 // Stability is the "stability" discipline: the three static margins from
 // the neutral points of the "neutral_point" discipline (NeutralPoints,
 // which depend on the design parameters only and so run once before the
-// coupled loop) and the centres of gravity of weights, the cruise trim
-// load and the divergence dynamic pressure of the wing (aeroelastic.go)
-// with its margin over dive.dynamic_pressure.
-//
-// Divergence model of the aircraft's wing: the exposed semispan
-// (b − D)/2 along the quarter-chord sweep line (taken as the elastic axis
-// sweep), the mean geometric chord S/b, both normal to the axis; the
-// elastic axis at mid-box (37.5 % chord, spars at 15 and 60 %), the
-// aerodynamic centre at a quarter chord (divergence is a subsonic, high-q
-// case: the dive speed at low altitude), section lift slope
-// SectionLiftSlope; the stiffness is the root GJ and EI of the sized box
-// (weights) reduced to the Rayleigh-equivalent uniform beam
-// (TaperedStiffnessFactors).
+// coupled loop) and the centres of gravity of weights, and the cruise trim
+// load. The wing's divergence (aeroelastic.go) is the wing_divergence
+// discipline (WingDivergence), which runs after the loop.
 //
 // Added variables: inputs htail.mac (geometry), mass.cruise_start
 // (weights), aero.dynamic_pressure_cruise (airframe_aero),
 // stability.cm_ac_wing (parameter, wing pitching moment at zero lift about
 // its aerodynamic centre).
-type Stability struct {
-	// SectionLiftSlope is a0 of the divergence strip theory [1/rad]; 0.95·2π.
-	SectionLiftSlope float64
-	// ElasticAxis is the elastic axis as a fraction of chord; 0.375.
-	ElasticAxis float64
-}
+type Stability struct{}
 
-// NewStability returns the stability discipline with the documented
-// defaults.
-func NewStability() *Stability {
-	return &Stability{SectionLiftSlope: 0.95 * 2 * math.Pi, ElasticAxis: 0.375}
-}
+// NewStability returns the stability discipline.
+func NewStability() *Stability { return &Stability{} }
 
 // Name implements mdo.Discipline.
 func (s *Stability) Name() string { return "stability" }
@@ -202,12 +175,8 @@ func (s *Stability) Inputs() []mdo.Var {
 	np := NewNeutralPoints().Outputs()
 	in := make([]mdo.Var, stNumIn)
 	in[stInArea] = wt[wtInArea]
-	in[stInTaper] = wingTaperVar()
-	in[stInSweep] = wt[wtInSweep]
-	in[stInSpan] = wt[wtInSpan]
 	in[stInMAC] = wt[wtInMAC]
 	in[stInMACX] = wt[wtInMACX]
-	in[stInFusDiameter] = wt[wtInFusDiameter]
 	in[stInHtArm] = wt[wtInHtArm]
 	in[stInHtMAC] = htailMACVar()
 	in[stInMach] = cruiseMachVar()
@@ -218,9 +187,6 @@ func (s *Stability) Inputs() []mdo.Var {
 	in[stInCGCruiseStart] = wo[wtOutCGCruiseStart]
 	in[stInCGCruiseEnd] = wo[wtOutCGCruiseEnd]
 	in[stInMassCruiseStart] = wo[wtOutCruiseStart]
-	in[stInGJ] = wo[wtOutGJ]
-	in[stInEI] = wo[wtOutEI]
-	in[stInQDive] = mdo.Var{Name: "dive.dynamic_pressure", Unit: "Pa", Description: "design dive dynamic pressure", Default: 40000, Min: 1000, Max: 300000, Scale: 1e4}
 	in[stInCmac] = mdo.Var{Name: "stability.cm_ac_wing", Unit: "-", Description: "wing pitching-moment coefficient about its aerodynamic centre", Default: -0.02, Min: -0.5, Max: 0.5, Scale: 0.01}
 	return in
 }
@@ -241,8 +207,6 @@ func (s *Stability) Outputs() []mdo.Var {
 	out[stOutSMCruiseStart] = sm("stability.static_margin_cruise_start", "static margin at the start of cruise (fraction of MAC)")
 	out[stOutSMCruiseEnd] = sm("stability.static_margin_cruise_end", "static margin at the end of cruise (fraction of MAC)")
 	out[stOutTailLift] = mdo.Var{Name: "stability.tail_lift_cruise", Unit: "N", Description: "horizontal-tail lift that trims the start of cruise (negative = down)", Default: -20000, Min: -1e7, Max: 1e7, Scale: 1e4}
-	out[stOutQD] = mdo.Var{Name: "stability.divergence_dynamic_pressure", Unit: "Pa", Description: "wing divergence dynamic pressure (1e9 = no divergence)", Default: 1e5, Min: 0, Max: NoDivergence, Scale: 1e4}
-	out[stOutDivMargin] = mdo.Var{Name: "stability.divergence_margin", Unit: "-", Description: "q_D/dive.dynamic_pressure − 1, smoothly capped at 10", Default: 1, Min: -1, Max: DivergenceMarginCap}
 	return out
 }
 
@@ -258,28 +222,9 @@ func (s *Stability) Compute(in, out []float64) error {
 	np, npLow := in[stInNP], in[stInNPLow]
 	q := in[stInQ]
 
-	// divergence of the swept wing
-	sweep := in[stInSweep] * math.Pi / 180
-	cs := math.Cos(sweep)
-	span := in[stInSpan]
-	exposed := math.Max(0.5*(span-in[stInFusDiameter]), 0.05*span)
-	fgj, fei := TaperedStiffnessFactors(in[stInTaper])
-	chordN := area / span * cs
-	beam := SweptBeam{
-		Length: exposed / cs, Chord: chordN, Offset: (s.ElasticAxis - 0.25) * chordN,
-		LiftSlope: s.SectionLiftSlope, Sweep: sweep, GJ: in[stInGJ] * fgj, EI: in[stInEI] * fei,
-	}
-	qd, err := beam.DivergenceDynamicPressure()
-	if err != nil {
-		return err
-	}
-	margin := DivergenceMargin(qd, in[stInQDive])
-
 	out[stOutSMTakeoff] = StaticMargin(npLow, in[stInCGTakeoff], mac)
 	out[stOutSMCruiseStart] = StaticMargin(np, in[stInCGCruiseStart], mac)
 	out[stOutSMCruiseEnd] = StaticMargin(np, in[stInCGCruiseEnd], mac)
 	out[stOutTailLift] = cr.TailTrimLoad(in[stInMassCruiseStart]*G0, in[stInCGCruiseStart], q, in[stInCmac])
-	out[stOutQD] = math.Min(qd, NoDivergence)
-	out[stOutDivMargin] = margin
 	return nil
 }

@@ -95,7 +95,7 @@ func stabilityTestDynamicPressure() float64 {
 
 func stabilitySystem(t *testing.T, set map[string]float64) *mdo.Workspace {
 	t.Helper()
-	sys, err := mdo.NewSystem(NewNeutralPoints(), NewStability())
+	sys, err := mdo.NewSystem(NewNeutralPoints(), NewStability(), NewWingDivergence())
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -152,7 +152,7 @@ func TestStabilitySystem(t *testing.T) {
 }
 
 func TestStabilityRefusesBadInput(t *testing.T) {
-	sys, err := mdo.NewSystem(NewNeutralPoints(), NewStability())
+	sys, err := mdo.NewSystem(NewNeutralPoints(), NewStability(), NewWingDivergence())
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -195,7 +195,7 @@ func BenchmarkStabilityCompute(b *testing.B) {
 // One System shared by goroutines, each with its own workspace, gives the
 // serial results (the disciplines keep no state; run with -race).
 func TestDisciplinesShareAcrossWorkspaces(t *testing.T) {
-	sys, err := mdo.NewSystem(append(newWeightsPair(), NewNeutralPoints(), NewStability())...)
+	sys, err := mdo.NewSystem(append(newWeightsPair(), NewNeutralPoints(), NewStability(), NewWingDivergence())...)
 	if err != nil {
 		t.Fatal(err)
 	}

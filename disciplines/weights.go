@@ -135,9 +135,6 @@ func SizeWingBox(mat BoxMaterial, lift, span, sweep, rootChord, tc, fusDia, kfs 
 const (
 	wtInArea = iota
 	wtInSweep
-	wtInTC
-	wtInSpan
-	wtInRootChord
 	wtInMAC
 	wtInMACX
 	wtInFusLength
@@ -183,8 +180,6 @@ const (
 	wtOutCGCruiseStart
 	wtOutCGCruiseEnd
 	wtOutCGEmpty
-	wtOutGJ
-	wtOutEI
 	wtOutWing
 	wtOutFuselage
 	wtOutHtail
@@ -193,7 +188,6 @@ const (
 	wtOutPropulsion
 	wtOutSystems
 	wtOutPenalty
-	wtOutCoverThickness
 	wtOutCGWing
 	wtOutCGFuselage
 	wtOutCGHtail
@@ -229,7 +223,8 @@ const (
 // mass.propulsion_group, mass.systems, mass.forward_sweep_penalty, their
 // centres of gravity cg.wing, cg.fuselage, cg.htail, cg.vtail,
 // cg.landing_gear, cg.propulsion_group, cg.systems, cg.cabin (furnishings
-// and payload), cg.fuel, and wing.box_cover_thickness. mass.empty is the
+// and payload) and cg.fuel. The wing box is sized from the converged
+// masses by the wing_box discipline (WingBoxSizing). mass.empty is the
 // operating empty mass (including crew). mass.takeoff is also an input (a
 // self-coupling): its current value only starts the Newton iteration of
 // the mass closure, so that inside a converging coupled group the closure
@@ -291,9 +286,6 @@ func (w *Weights) Inputs() []mdo.Var {
 	in := make([]mdo.Var, wtNumIn)
 	in[wtInArea] = wingAreaVar()
 	in[wtInSweep] = sweepVar()
-	in[wtInTC] = mdo.Var{Name: "wing.thickness_ratio", Unit: "-", Description: "wing thickness-to-chord ratio", Default: 0.045, Min: 0.01, Max: 0.25}
-	in[wtInSpan] = mdo.Var{Name: "wing.span", Unit: "m", Description: "wing span", Default: 19.6, Min: 0.5, Max: 120}
-	in[wtInRootChord] = mdo.Var{Name: "wing.root_chord", Unit: "m", Description: "wing root chord (centreline, streamwise)", Default: 9, Min: 0.1, Max: 60}
 	in[wtInMAC] = mdo.Var{Name: "wing.mac", Unit: "m", Description: "mean aerodynamic chord", Default: 6.2, Min: 0.1, Max: 50}
 	in[wtInMACX] = mdo.Var{Name: "wing.mac_x", Unit: "m", Description: "leading edge of the MAC from the nose", Default: 18, Min: 0, Max: 150}
 	in[wtInFusLength] = fuselageLengthVar()
@@ -337,6 +329,18 @@ func vtailArmVar() mdo.Var {
 	return mdo.Var{Name: "vtail.arm", Unit: "m", Description: "vertical tail arm, wing to fin quarter-chord of the MACs", Default: 12, Min: 0.5, Max: 100}
 }
 
+func wingThicknessVar() mdo.Var {
+	return mdo.Var{Name: "wing.thickness_ratio", Unit: "-", Description: "wing thickness-to-chord ratio", Default: 0.045, Min: 0.01, Max: 0.25}
+}
+
+func wingSpanVar() mdo.Var {
+	return mdo.Var{Name: "wing.span", Unit: "m", Description: "wing span", Default: 19.6, Min: 0.5, Max: 120}
+}
+
+func wingRootChordVar() mdo.Var {
+	return mdo.Var{Name: "wing.root_chord", Unit: "m", Description: "wing root chord (centreline, streamwise)", Default: 9, Min: 0.1, Max: 60}
+}
+
 func wingAspectVar() mdo.Var {
 	return mdo.Var{Name: "wing.aspect_ratio", Unit: "-", Description: "wing aspect ratio b²/S", Default: 3.5, Min: 0.5, Max: 20}
 }
@@ -370,8 +374,6 @@ func (w *Weights) Outputs() []mdo.Var {
 	out[wtOutCGCruiseStart] = x("cg.cruise_start", "aircraft CG at the start of cruise, from the nose", 20)
 	out[wtOutCGCruiseEnd] = x("cg.cruise_end", "aircraft CG at the end of cruise, from the nose", 19.5)
 	out[wtOutCGEmpty] = x("cg.empty", "CG of the operating empty aircraft, from the nose", 19)
-	out[wtOutGJ] = mdo.Var{Name: "wing.box_torsional_stiffness", Unit: "N m2", Description: "torsional stiffness GJ of the sized wing box at the root", Default: 1e8, Min: 0, Max: 1e13, Scale: 1e8}
-	out[wtOutEI] = mdo.Var{Name: "wing.box_bending_stiffness", Unit: "N m2", Description: "bending stiffness EI of the sized wing box at the root", Default: 1e8, Min: 0, Max: 1e13, Scale: 1e8}
 	out[wtOutWing] = m("mass.wing", "wing structure (Raymer transport equation)", 3500)
 	out[wtOutFuselage] = m("mass.fuselage", "fuselage structure (Raymer transport equation)", 3500)
 	out[wtOutHtail] = m("mass.htail", "horizontal tail (Raymer transport equation)", 400)
@@ -380,7 +382,6 @@ func (w *Weights) Outputs() []mdo.Var {
 	out[wtOutPropulsion] = m("mass.propulsion_group", "engines, nacelle group, engine controls, starters and fuel system", 5000)
 	out[wtOutSystems] = m("mass.systems", "flight controls, APU, instruments, hydraulics, electrical, avionics, air conditioning, anti-ice, handling", 3000)
 	out[wtOutPenalty] = m("mass.forward_sweep_penalty", "wing cover stiffening of a forward-swept wing", 0)
-	out[wtOutCoverThickness] = mdo.Var{Name: "wing.box_cover_thickness", Unit: "m", Description: "root cover skin thickness of the sized wing box", Default: 0.005, Min: 0, Max: 1, Scale: 0.001}
 	out[wtOutCGWing] = x("cg.wing", "CG of the wing (40 % MAC)", 19)
 	out[wtOutCGFuselage] = x("cg.fuselage", "CG of the fuselage structure (45 % length)", 15)
 	out[wtOutCGHtail] = x("cg.htail", "CG of the horizontal tail (its quarter-chord MAC point)", 30)
@@ -441,8 +442,6 @@ func (w *Weights) Compute(in, out []float64) error {
 	}
 	s := in[wtInArea]
 	sweep := in[wtInSweep] * math.Pi / 180
-	tc := in[wtInTC]
-	span := in[wtInSpan]
 	lf := in[wtInFusLength]
 	df := in[wtInFusDiameter]
 	nen := math.Round(in[wtInEngineCount])
@@ -587,9 +586,6 @@ func (w *Weights) Compute(in, out []float64) error {
 	oem := wingTotal + mt[termHtail] + mt[termVtail] + mt[termFuselage] + gear + propGroup + systems + furn + crew
 	zf := oem + in[wtInPayload]
 
-	// wing box at the root
-	box := SizeWingBox(w.Material, nz*(w0-wingTotal)*G0, span, sweep, in[wtInRootChord], tc, df, kfs)
-
 	// fuel capacity: the wing-box volume of geometry and a fuselage share
 	fusVol := in[wtInFusTankShare] * math.Pi / 4 * df * df * lf
 	capacity := (in[wtInFuelVolume] + fusVol) * w.FuelDensity
@@ -629,8 +625,6 @@ func (w *Weights) Compute(in, out []float64) error {
 	out[wtOutCGCruiseStart] = cg(fuelStart)
 	out[wtOutCGCruiseEnd] = cg(fuelEnd)
 	out[wtOutCGEmpty] = xOEM
-	out[wtOutGJ] = box.TorsionalStiffness
-	out[wtOutEI] = box.BendingStiffness
 	out[wtOutWing] = wingTotal
 	out[wtOutFuselage] = mt[termFuselage]
 	out[wtOutHtail] = mt[termHtail]
@@ -639,7 +633,6 @@ func (w *Weights) Compute(in, out []float64) error {
 	out[wtOutPropulsion] = propGroup
 	out[wtOutSystems] = systems
 	out[wtOutPenalty] = penMass
-	out[wtOutCoverThickness] = box.CoverThickness
 	out[wtOutCGWing] = xWing
 	out[wtOutCGFuselage] = 0.45 * lf
 	out[wtOutCGHtail] = xHt

@@ -80,11 +80,11 @@ func weightsInputs() map[string]float64 {
 	}
 }
 
-// newWeightsPair returns weights and the airframe_masses discipline made
-// from it (the two halves of the mass estimate).
+// newWeightsPair returns weights with the airframe_masses and wing_box
+// disciplines made from it (the parts of the mass estimate).
 func newWeightsPair() []mdo.Discipline {
 	w := NewWeights()
-	return []mdo.Discipline{NewAirframeMasses(w), w}
+	return []mdo.Discipline{NewAirframeMasses(w), w, NewWingBoxSizing(w)}
 }
 
 func weightsSystem(t *testing.T, set map[string]float64) *mdo.Workspace {

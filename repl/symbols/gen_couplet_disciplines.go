@@ -99,6 +99,8 @@ func init() {
 		"NewWaveDragIntegrator":      reflect.ValueOf(disciplines.NewWaveDragIntegrator),
 		"NewWeights":                 reflect.ValueOf(disciplines.NewWeights),
 		"NewWing":                    reflect.ValueOf(disciplines.NewWing),
+		"NewWingBoxSizing":           reflect.ValueOf(disciplines.NewWingBoxSizing),
+		"NewWingDivergence":          reflect.ValueOf(disciplines.NewWingDivergence),
 		"NoDivergence":               reflect.ValueOf(constant.MakeFromLiteral("1000000000", token.FLOAT, 0)),
 		"NormalShock":                reflect.ValueOf(disciplines.NormalShock),
 		"ObliqueDeflection":          reflect.ValueOf(disciplines.ObliqueDeflection),
@@ -190,6 +192,8 @@ func init() {
 		"Weights":              reflect.ValueOf((*disciplines.Weights)(nil)),
 		"Wing":                 reflect.ValueOf((*disciplines.Wing)(nil)),
 		"WingBox":              reflect.ValueOf((*disciplines.WingBox)(nil)),
+		"WingBoxSizing":        reflect.ValueOf((*disciplines.WingBoxSizing)(nil)),
+		"WingDivergence":       reflect.ValueOf((*disciplines.WingDivergence)(nil)),
 		"WingLoadingLimit":     reflect.ValueOf((*disciplines.WingLoadingLimit)(nil)),
 	}
 }
