@@ -1,10 +1,14 @@
 // Package store keeps the evaluations of a study in a SQLite file (the
 // case store), through the pure-Go driver modernc.org/sqlite.
 //
-// A Store implements mdo.Recorder and mdo.IterationRecorder. It writes in
-// WAL mode and commits in batches (every Options.BatchSize evaluations or
-// Options.FlushInterval, and at End); every committed batch survives the
-// process being killed. A killed run is continued with Resume: the store
+// A Store implements mdo.Recorder and mdo.IterationRecorder. Record only
+// queues the evaluation (the queue is bounded) and returns; between Begin
+// and End a writer of the store's own, on two goroutines, formats the
+// queued rows and commits them in WAL mode in batches (every
+// Options.BatchSize evaluations or Options.FlushInterval, and at Flush,
+// End and Close, which wait for the commit). Every committed batch
+// survives the process being killed; a failed commit is returned by the
+// next call. A killed run is continued with Resume: the store
 // checks that the script and seed are the same, and its evaluations are
 // handed to mdo.Evaluator.Restore so that they are answered without being
 // analysed again.

@@ -47,7 +47,8 @@ type Options struct {
 	Overwrite bool
 	// OnCommit, if not nil, is called after each committed batch with the
 	// number of evaluation rows the store holds. It is called from the
-	// store's writer goroutine.
+	// store's writer goroutine and must not call the store's Flush, End
+	// or Close, which wait for that goroutine.
 	OnCommit func(rows int)
 }
 
@@ -90,7 +91,7 @@ type RunMeta struct {
 
 // Store is a SQLite case store. It implements mdo.Recorder and
 // mdo.IterationRecorder. A Store is used from one goroutine; between
-// Begin and End it runs a writer goroutine of its own, which encodes and
+// Begin and End it runs a writer of its own (two goroutines), which encodes and
 // commits the recorded rows in the background.
 type Store struct {
 	path     string
@@ -397,8 +398,9 @@ func (s *Store) inTx(fn func() error) error {
 	return nil
 }
 
-// Close commits what is pending (a run that did not reach End keeps its
-// evaluations) and closes the file.
+// Close commits what is queued (a run that did not reach End keeps its
+// evaluations), stops the writer and closes the file; it returns a
+// failed commit of the writer.
 func (s *Store) Close() error {
 	if s.db == nil {
 		return nil
