@@ -166,8 +166,7 @@ func LaminarSkinFriction(re float64) float64 { return 1.328 / math.Sqrt(re) }
 // supersonic (conceptual-design textbooks, Raymer; from memory), blended
 // between Mach 0.9 and 1.2.
 func CutoffReynolds(l, k, mach float64) float64 {
-	r := math.Pow(l/k, 1.053)
-	return r * blend(mach, 0.9, 1.2, 38.21, 44.62*math.Pow(math.Max(mach, 1.2), 1.16))
+	return math.Pow(l/k, 1.053) * cutoffFactor(mach)
 }
 
 // smoothstep is 0 below a, 1 above b and 3t² − 2t³ between.
@@ -563,25 +562,42 @@ type frictionCondition struct {
 // per metre rePerM [1/m]; the surfaces' Mach factor only when surfaces is
 // set.
 func (m *AeroModel) frictionAt(rePerM, mach float64, surfaces bool) frictionCondition {
-	o := &m.Options
-	var fc frictionCondition
-	fc.comp = math.Pow(1+0.144*mach*mach, 0.65)
-	// blend(mach, 0.9, 1.2, 38.21, 44.62·max(M, 1.2)^1.16), the power
-	// skipped where its weight is zero
-	cut := 38.21
-	if mach > 0.9 {
-		cut = blend(mach, 0.9, 1.2, 38.21, 44.62*math.Pow(math.Max(mach, 1.2), 1.16))
-	}
-	// in logarithms: ln Re = ln(Re/m) + ln l, cut-off ln Re = ln C + 1.053(ln l − ln k)
-	fc.lnK = math.Log(o.Roughness)
-	fc.lnCut = math.Log(cut)
-	fc.lnRePerM = math.Log(math.Max(rePerM, 1e-300))
-	fc.fw = formFactorWeight(mach)
+	fc := m.frictionFrom(rePerM, frictionCompressibility(mach), cutoffFactor(mach), mach)
 	if surfaces {
 		mff := math.Max(math.Min(mach, blendLow), 0.2)
 		fc.machFF = 1.34 * math.Pow(mff, 0.18)
 	}
 	return fc
+}
+
+// frictionFrom returns the common factors of the bodies (no surfaces'
+// Mach factor) from the Reynolds number per metre rePerM [1/m], the
+// compressibility factor comp of the skin friction and the cut-off
+// Reynolds number's Mach factor cut at mach.
+func (m *AeroModel) frictionFrom(rePerM, comp, cut, mach float64) frictionCondition {
+	var fc frictionCondition
+	fc.comp = comp
+	// in logarithms: ln Re = ln(Re/m) + ln l, cut-off ln Re = ln C + 1.053(ln l − ln k)
+	fc.lnK = math.Log(m.Options.Roughness)
+	fc.lnCut = math.Log(cut)
+	fc.lnRePerM = math.Log(math.Max(rePerM, 1e-300))
+	fc.fw = formFactorWeight(mach)
+	return fc
+}
+
+// frictionCompressibility returns the compressibility factor
+// (1 + 0.144M²)^0.65 that divides the turbulent skin friction.
+func frictionCompressibility(mach float64) float64 { return math.Pow(1+0.144*mach*mach, 0.65) }
+
+// cutoffFactor returns the Mach factor C of the cut-off Reynolds number
+// C·(l/k)^1.053 (CutoffReynolds): 38.21 subsonic, 44.62·M^1.16
+// supersonic, blended between Mach 0.9 and 1.2 (the power skipped where
+// its weight is zero).
+func cutoffFactor(mach float64) float64 {
+	if mach <= 0.9 {
+		return 38.21
+	}
+	return blend(mach, 0.9, 1.2, 38.21, 44.62*math.Pow(math.Max(mach, 1.2), 1.16))
 }
 
 // dragArea returns Σ Cf·FF·Q·S_wet [m2] of the tabulated components (the
@@ -904,6 +920,10 @@ const (
 	aeroInAirframeLow
 	aeroInReCruise
 	aeroInReLow
+	aeroInCompCruise
+	aeroInCompLow
+	aeroInCutCruise
+	aeroInCutLow
 	aeroInQ
 	aeroInK
 	aeroInKTail
@@ -957,6 +977,8 @@ func (a *Aerodynamics) Inputs() []mdo.Var {
 	for _, k := range [...][2]int{
 		{aeroInAirframeCruise, afOutAreaCruise}, {aeroInAirframeLow, afOutAreaLow},
 		{aeroInReCruise, afOutReCruise}, {aeroInReLow, afOutReLow}, {aeroInQ, afOutQ},
+		{aeroInCompCruise, afOutCompCruise}, {aeroInCompLow, afOutCompLow},
+		{aeroInCutCruise, afOutCutCruise}, {aeroInCutLow, afOutCutLow},
 		{aeroInK, afOutK}, {aeroInKTail, afOutKTail}, {aeroInKTO, afOutKTO}, {aeroInCLTO, afOutCLTO},
 	} {
 		in[k[0]] = af[k[1]]
@@ -1044,7 +1066,7 @@ func (a *Aerodynamics) Compute(in, out []float64) error {
 	}
 	dq := in[aeroInAirframeCruise]
 	if hasPods {
-		fc := m.frictionAt(in[aeroInReCruise], mach, false)
+		fc := m.frictionFrom(in[aeroInReCruise], in[aeroInCompCruise], in[aeroInCutCruise], mach)
 		dq += m.componentDragArea(&fc, false, lnN, swN, ffN)
 	}
 	var p Polar
@@ -1070,7 +1092,7 @@ func (a *Aerodynamics) Compute(in, out []float64) error {
 
 	dqLow := in[aeroInAirframeLow]
 	if hasPods {
-		fc := m.frictionAt(in[aeroInReLow], o.TakeoffMach, false)
+		fc := m.frictionFrom(in[aeroInReLow], in[aeroInCompLow], in[aeroInCutLow], o.TakeoffMach)
 		dqLow += m.componentDragArea(&fc, false, lnN, swN, ffN)
 	}
 	waveLow, _ := m.waveDrag(&c, o.TakeoffMach, mddLow, false, nil)

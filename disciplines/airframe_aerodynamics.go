@@ -15,8 +15,12 @@ import (
 //     (aero.airframe_drag_area_cruise, aero.airframe_drag_area_low_speed;
 //     without the miscellaneous share, which aerodynamics applies after
 //     adding the pods), with the Reynolds numbers per metre of both
-//     conditions (aero.reynolds_per_metre_cruise, _low_speed) for the
-//     pods' skin friction and the cruise dynamic pressure
+//     conditions (aero.reynolds_per_metre_cruise, _low_speed), the
+//     skin friction's compressibility factors
+//     (aero.friction_compressibility_cruise, _low_speed) and the Mach
+//     factors of the roughness cut-off Reynolds number
+//     (aero.cutoff_reynolds_factor_cruise, _low_speed) for the pods' skin
+//     friction, and the cruise dynamic pressure
 //     (aero.dynamic_pressure_cruise);
 //   - the drag-due-to-lift factors aero.k_cruise, aero.k_takeoff,
 //     aero.k_landing and the horizontal tail's at cruise,
@@ -69,6 +73,10 @@ const (
 	afOutAreaLow
 	afOutReCruise
 	afOutReLow
+	afOutCompCruise
+	afOutCompLow
+	afOutCutCruise
+	afOutCutLow
 	afOutQ
 	afOutK
 	afOutKTail
@@ -117,6 +125,10 @@ func airframeAeroOutputs() []mdo.Var {
 	v(afOutAreaLow, "aero.airframe_drag_area_low_speed", "m2", "friction, form and interference drag area of wing, fuselage and tails at low speed (no pods, no miscellaneous share)", 1.5, 0, 1e4)
 	v(afOutReCruise, "aero.reynolds_per_metre_cruise", "1/m", "Reynolds number per metre at cruise", 5e6, 0, 1e10)
 	v(afOutReLow, "aero.reynolds_per_metre_low_speed", "1/m", "Reynolds number per metre of the low-speed polar at the airport", 4.5e6, 0, 1e10)
+	v(afOutCompCruise, "aero.friction_compressibility_cruise", "-", "compressibility factor (1 + 0.144M²)^0.65 dividing the turbulent skin friction at cruise", 1.2, 1, 10)
+	v(afOutCompLow, "aero.friction_compressibility_low_speed", "-", "compressibility factor (1 + 0.144M²)^0.65 dividing the turbulent skin friction at low speed", 1, 1, 10)
+	v(afOutCutCruise, "aero.cutoff_reynolds_factor_cruise", "-", "Mach factor C of the roughness cut-off Reynolds number C·(l/k)^1.053 at cruise", 70, 1, 1000)
+	v(afOutCutLow, "aero.cutoff_reynolds_factor_low_speed", "-", "Mach factor C of the roughness cut-off Reynolds number C·(l/k)^1.053 at low speed", 38.21, 1, 1000)
 	v(afOutQ, "aero.dynamic_pressure_cruise", "Pa", "dynamic pressure at cruise", 25000, 0, 1e7)
 	v(afOutK, "aero.k_cruise", "-", "drag-due-to-lift factor at cruise", 0.19, 0, 10)
 	v(afOutKTail, "aero.k_htail_cruise", "-", "drag-due-to-lift factor of the horizontal tail at cruise (0 = no tail)", 0.2, 0, 10)
@@ -167,6 +179,7 @@ func (a *AirframeAerodynamics) Compute(in, out []float64) error {
 
 	re := atm.Reynolds(mach)
 	fc := m.frictionAt(re, mach, true)
+	out[afOutCompCruise], out[afOutCutCruise] = fc.comp, cutoffFactor(mach)
 	out[afOutAreaCruise] = m.dragArea(&tab, &fc)
 	out[afOutReCruise] = re
 	out[afOutQ] = atm.DynamicPressure(mach)
@@ -185,6 +198,7 @@ func (a *AirframeAerodynamics) Compute(in, out []float64) error {
 
 	reLow := atmTO.Reynolds(o.TakeoffMach)
 	fcLow := m.frictionAt(reLow, o.TakeoffMach, true)
+	out[afOutCompLow], out[afOutCutLow] = fcLow.comp, cutoffFactor(o.TakeoffMach)
 	out[afOutAreaLow] = m.dragArea(&tab, &fcLow)
 	out[afOutReLow] = reLow
 	claLow, err := LiftSlope(w, o.TakeoffMach, o.Kappa)
