@@ -45,6 +45,28 @@ func TestAircraftStructure(t *testing.T) {
 	if s.Producer("aero.drag_cruise") != "aerodynamics" || s.Producer("wing.span") != "geometry" || !s.IsParameter("wing.sweep") {
 		t.Error("producers")
 	}
+	// The parameter-only parts run once before the coupled group, the
+	// wing box and its divergence once after it.
+	pos := map[string]int{}
+	coupled := -1
+	for i, g := range s.Groups() {
+		for _, n := range g {
+			pos[n] = i
+		}
+		if len(g) > 1 {
+			coupled = i
+		}
+	}
+	for _, n := range []string{"geometry", "airframe_aero", "neutral_point", "airframe_masses", "engine_cycle"} {
+		if p, ok := pos[n]; !ok || p >= coupled {
+			t.Errorf("%s does not run ahead of the coupled group", n)
+		}
+	}
+	for _, n := range []string{"wing_box", "wing_divergence"} {
+		if p, ok := pos[n]; !ok || p <= coupled {
+			t.Errorf("%s does not run after the coupled group", n)
+		}
+	}
 }
 
 func TestScenariosConvergeToOneState(t *testing.T) {
