@@ -91,8 +91,8 @@ type RunMeta struct {
 
 // Store is a SQLite case store. It implements mdo.Recorder and
 // mdo.IterationRecorder. A Store is used from one goroutine; between
-// Begin and End it runs a writer of its own (two goroutines), which encodes and
-// commits the recorded rows in the background.
+// Begin and End it runs a writer of its own (two goroutines), which
+// encodes and commits the recorded rows in the background.
 type Store struct {
 	path     string
 	opt      Options
