@@ -269,7 +269,11 @@ func OswaldEfficiency(aspectRatio, sweepLE float64) float64 {
 // technology factor (0.87 conventional, 0.95 supercritical), Λ the sweep
 // [deg] (either sign) (Korn; from memory).
 func KornDragDivergence(kornFactor, tc, sweep, cl float64) float64 {
-	c := math.Cos(sweep * math.Pi / 180)
+	return kornFromCos(kornFactor, tc, math.Cos(sweep*math.Pi/180), cl)
+}
+
+// kornFromCos is KornDragDivergence with the cosine c of the sweep given.
+func kornFromCos(kornFactor, tc, c, cl float64) float64 {
 	return kornFactor/c - tc/(c*c) - cl/(10*c*c*c)
 }
 
@@ -562,7 +566,7 @@ type frictionCondition struct {
 // per metre rePerM [1/m]; the surfaces' Mach factor only when surfaces is
 // set.
 func (m *AeroModel) frictionAt(rePerM, mach float64, surfaces bool) frictionCondition {
-	fc := m.frictionFrom(rePerM, frictionCompressibility(mach), cutoffFactor(mach), mach)
+	fc := frictionFrom(rePerM, frictionCompressibility(mach), cutoffFactor(mach), mach, math.Log(m.Options.Roughness))
 	if surfaces {
 		mff := math.Max(math.Min(mach, blendLow), 0.2)
 		fc.machFF = 1.34 * math.Pow(mff, 0.18)
@@ -573,12 +577,12 @@ func (m *AeroModel) frictionAt(rePerM, mach float64, surfaces bool) frictionCond
 // frictionFrom returns the common factors of the bodies (no surfaces'
 // Mach factor) from the Reynolds number per metre rePerM [1/m], the
 // compressibility factor comp of the skin friction and the cut-off
-// Reynolds number's Mach factor cut at mach.
-func (m *AeroModel) frictionFrom(rePerM, comp, cut, mach float64) frictionCondition {
+// Reynolds number's Mach factor cut at mach, for the roughness e^lnK [m].
+func frictionFrom(rePerM, comp, cut, mach, lnK float64) frictionCondition {
 	var fc frictionCondition
 	fc.comp = comp
 	// in logarithms: ln Re = ln(Re/m) + ln l, cut-off ln Re = ln C + 1.053(ln l − ln k)
-	fc.lnK = math.Log(m.Options.Roughness)
+	fc.lnK = lnK
 	fc.lnCut = math.Log(cut)
 	fc.lnRePerM = math.Log(math.Max(rePerM, 1e-300))
 	fc.fw = formFactorWeight(mach)
@@ -1045,9 +1049,10 @@ func (a *Aerodynamics) Compute(in, out []float64) error {
 	mStart := in[aeroInMassStart]
 	mMid := 0.5 * (mStart + in[aeroInMassEnd])
 	cl := mMid * G0 / (q * s)
-	mdd := KornDragDivergence(kf, w.ThicknessRatio, w.Sweep, cl)
+	cosSweep := math.Cos(w.Sweep * math.Pi / 180)
+	mdd := kornFromCos(kf, w.ThicknessRatio, cosSweep, cl)
 	o := &m.Options
-	mddLow := KornDragDivergence(kf, w.ThicknessRatio, w.Sweep, lowSpeedLift)
+	mddLow := kornFromCos(kf, w.ThicknessRatio, cosSweep, lowSpeedLift)
 	if inFairing(mach, mdd) || inFairing(o.TakeoffMach, mddLow) {
 		if c, err = AssembleConfiguration(w, pos, f, in[aeroInHTailArea], in[aeroInVTailArea],
 			roundCount(in[aeroInEngines]), in[aeroInNacDiameter], in[aeroInNacLength], m.Geometry); err != nil {
@@ -1060,13 +1065,14 @@ func (a *Aerodynamics) Compute(in, out []float64) error {
 	// friction: the airframe's drag area plus the pods'
 	n := &c.Nacelles
 	hasPods := n.Count > 0 && n.Length > 0 && n.Diameter > 0
-	var lnN, swN, ffN float64
+	var lnN, swN, ffN, lnK float64
 	if hasPods {
 		lnN, swN, ffN = m.nacelleDragData(n)
+		lnK = math.Log(o.Roughness)
 	}
 	dq := in[aeroInAirframeCruise]
 	if hasPods {
-		fc := m.frictionFrom(in[aeroInReCruise], in[aeroInCompCruise], in[aeroInCutCruise], mach)
+		fc := frictionFrom(in[aeroInReCruise], in[aeroInCompCruise], in[aeroInCutCruise], mach, lnK)
 		dq += m.componentDragArea(&fc, false, lnN, swN, ffN)
 	}
 	var p Polar
@@ -1092,7 +1098,7 @@ func (a *Aerodynamics) Compute(in, out []float64) error {
 
 	dqLow := in[aeroInAirframeLow]
 	if hasPods {
-		fc := m.frictionFrom(in[aeroInReLow], in[aeroInCompLow], in[aeroInCutLow], o.TakeoffMach)
+		fc := frictionFrom(in[aeroInReLow], in[aeroInCompLow], in[aeroInCutLow], o.TakeoffMach, lnK)
 		dqLow += m.componentDragArea(&fc, false, lnN, swN, ffN)
 	}
 	waveLow, _ := m.waveDrag(&c, o.TakeoffMach, mddLow, false, nil)
