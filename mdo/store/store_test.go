@@ -735,3 +735,63 @@ func TestWriteErrorSurfaces(t *testing.T) {
 		s.Close()
 	}
 }
+
+// TestQueueBounds checks that Record returns without waiting for
+// commits, and that the queue is bounded: while the writer is held in its
+// first commit (OnCommit blocks), exactly inFlight()+1 records return (the
+// committed one, two encoded batches and a full queue of 256) and the next
+// waits until the writer moves on.
+func TestQueueBounds(t *testing.T) {
+	release := make(chan struct{})
+	var once sync.Once
+	s, err := Create(filepath.Join(t.TempDir(), "q.db"), Options{BatchSize: 1, FlushInterval: time.Hour,
+		OnCommit: func(int) { once.Do(func() { <-release }) }})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer s.Close()
+	if err := s.Begin(syntheticRun()); err != nil {
+		t.Fatal(err)
+	}
+	free := s.inFlight() + 1
+	if free != 259 {
+		t.Fatalf("inFlight()+1 = %d, want 259 (256 queued, two batches of 1 encoded, one committed)", free)
+	}
+	evs := make([]mdo.Evaluation, free+1)
+	for i := range evs {
+		syntheticEval(&evs[i], i)
+	}
+	done := make(chan int, len(evs))
+	go func() {
+		for i := range evs {
+			if err := s.Record(&evs[i]); err != nil {
+				t.Error(err)
+			}
+			done <- i
+		}
+	}()
+	for i := 0; i < free; i++ {
+		select {
+		case <-done:
+		case <-time.After(10 * time.Second):
+			t.Fatalf("Record %d waited for a commit", i)
+		}
+	}
+	select {
+	case i := <-done:
+		t.Errorf("Record %d returned while the queue was full", i)
+	case <-time.After(50 * time.Millisecond):
+	}
+	close(release)
+	select {
+	case <-done:
+	case <-time.After(10 * time.Second):
+		t.Fatal("the last Record still waits after the writer moved on")
+	}
+	if err := s.End(nil); err != nil {
+		t.Fatal(err)
+	}
+	if s.Rows() != len(evs) {
+		t.Errorf("rows = %d, want %d", s.Rows(), len(evs))
+	}
+}
