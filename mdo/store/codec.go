@@ -40,6 +40,10 @@ func appendSQLJSONFloat(b []byte, x float64) []byte {
 		return append(b, "9e999"...)
 	case math.IsInf(x, -1):
 		return append(b, "-9e999"...)
+	case x == math.Trunc(x) && x > -1e6 && x < 1e6 && (x != 0 || !math.Signbit(x)):
+		// an integer below a million, which 'g' writes as its digits (a
+		// larger one with an exponent, -0 as "-0"): the same text, faster
+		return strconv.AppendInt(b, int64(x), 10)
 	}
 	return strconv.AppendFloat(b, x, 'g', -1, 64)
 }
