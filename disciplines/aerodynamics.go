@@ -727,12 +727,14 @@ func (wd *WaveDragIntegrator) AirframeWave(c *Configuration, mach float64) Airfr
 		wd.Stations(lo, hi, sc.x[:])
 		air.AreaDistribution(k, sc.x[:], sc.s[:], nil)
 		aw.Start[r], aw.Length[r] = lo, hi-lo
+		var a [waveHarmonics]float64
 		for j, sj := range sc.s {
 			row := &wd.w[j]
-			for m := range aw.A[r] {
-				aw.A[r][m] += row[m] * sj
+			for m := range a {
+				a[m] += row[m] * sj
 			}
 		}
+		aw.A[r] = a
 	}
 	return aw
 }
