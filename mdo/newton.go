@@ -22,6 +22,7 @@ func (w *Workspace) newton(ctx context.Context, g *group, set SolverSettings, re
 		u[k] = w.val[v] / scale[k]
 	}
 	var evalErr error
+	first := true
 	resid := func(dst, x []float64) {
 		if evalErr != nil {
 			for k := range dst {
@@ -32,7 +33,9 @@ func (w *Workspace) newton(ctx context.Context, g *group, set SolverSettings, re
 		for k, v := range g.tear {
 			w.val[v] = x[k] * scale[k]
 		}
-		if err := w.sweep(g, true); err != nil {
+		err := w.sweep(g, true, first)
+		first = false
+		if err != nil {
 			evalErr = err
 			for k := range dst {
 				dst[k] = math.NaN()

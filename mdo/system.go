@@ -27,8 +27,12 @@ type System struct {
 	inSpec   [][]Var     // discipline -> declared input specs (ranges checked)
 	inLo     [][]float64 // discipline -> input lower bounds (−MaxFloat64 if open)
 	inHi     [][]float64 // discipline -> input upper bounds (+MaxFloat64 if open)
-	groups   []group     // execution order
-	params   []int       // variables nobody produces
+	// inLoop lists, per discipline of a coupled group, the positions of
+	// its inputs produced inside its own group: the only inputs that
+	// change between coupling iterations.
+	inLoop   [][]int
+	groups   []group // execution order
+	params   []int   // variables nobody produces
 	settings []SolverSettings
 }
 
@@ -216,6 +220,19 @@ func (s *System) buildGroups() {
 			sort.Ints(gr.tear)
 		}
 		s.groups = append(s.groups, gr)
+	}
+	s.inLoop = make([][]int, n)
+	for _, g := range s.groups {
+		if !g.coupled {
+			continue
+		}
+		for _, d := range g.discs {
+			for k, v := range s.inIdx[d] {
+				if p := s.producer[v]; p >= 0 && comp[p] == comp[d] {
+					s.inLoop[d] = append(s.inLoop[d], k)
+				}
+			}
+		}
 	}
 }
 

@@ -226,6 +226,22 @@ func (w *Workspace) gather(d int) error {
 	return nil
 }
 
+// gatherLoop refreshes only the inputs of discipline d produced inside its
+// coupled group; the others were gathered (and checked) by the group's
+// first sweep and cannot change while the group is solved.
+func (w *Workspace) gatherLoop(d int) error {
+	in := w.inBuf[d]
+	lo, hi, idx := w.sys.inLo[d], w.sys.inHi[d], w.sys.inIdx[d]
+	for _, k := range w.sys.inLoop[d] {
+		x := w.val[idx[k]]
+		if !(x >= lo[k] && x <= hi[k]) {
+			return w.inputError(d, k, x)
+		}
+		in[k] = x
+	}
+	return nil
+}
+
 // inputError builds the error for input k of discipline d.
 func (w *Workspace) inputError(d, k int, x float64) error {
 	spec := w.sys.inSpec[d][k]
@@ -272,18 +288,28 @@ func (w *Workspace) run(d int) error {
 }
 
 // sweep runs every discipline of a group once: in turn with the latest
-// values (Gauss–Seidel) or all on the values at the start (Jacobi).
-func (w *Workspace) sweep(g *group, jacobi bool) error {
+// values (Gauss–Seidel) or all on the values at the start (Jacobi). The
+// first sweep of a solve gathers every input; later ones only those
+// produced inside the group.
+func (w *Workspace) sweep(g *group, jacobi, first bool) error {
+	gather := w.gatherLoop
+	if first {
+		gather = w.gather
+	}
 	if !jacobi {
 		for _, d := range g.discs {
-			if err := w.run(d); err != nil {
+			if err := gather(d); err != nil {
 				return err
 			}
+			if err := w.compute(d); err != nil {
+				return err
+			}
+			w.scatter(d)
 		}
 		return nil
 	}
 	for _, d := range g.discs {
-		if err := w.gather(d); err != nil {
+		if err := gather(d); err != nil {
 			return err
 		}
 	}
@@ -319,7 +345,7 @@ func (w *Workspace) solve(ctx context.Context, g *group, set SolverSettings, rep
 	rep.Residual = math.Inf(1)
 
 	if w.onceMode {
-		err := w.sweep(g, true)
+		err := w.sweep(g, true, true)
 		rep.Iterations = 1
 		w.cnt.Iterations++
 		if err != nil {
@@ -341,7 +367,7 @@ func (w *Workspace) solve(ctx context.Context, g *group, set SolverSettings, rep
 		for k, v := range g.tear {
 			y[k] = w.val[v]
 		}
-		if err := w.sweep(g, jacobi); err != nil {
+		if err := w.sweep(g, jacobi, it == 1); err != nil {
 			return err
 		}
 		norm := 0.0

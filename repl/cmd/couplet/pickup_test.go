@@ -38,16 +38,23 @@ func readPickSummary(t *testing.T, dir string) pickSummary {
 	return s
 }
 
-// rowsIn counts the evaluation rows of a case store.
-func rowsIn(t *testing.T, path string) int {
-	t.Helper()
+// countRows counts the evaluation rows of a case store.
+func countRows(path string) (int, error) {
 	db, err := sql.Open("sqlite", "file:"+path+"?mode=ro")
 	if err != nil {
-		t.Fatal(err)
+		return 0, err
 	}
 	defer db.Close()
 	var n int
-	if err := db.QueryRow("SELECT count(*) FROM evaluations").Scan(&n); err != nil {
+	err = db.QueryRow("SELECT count(*) FROM evaluations").Scan(&n)
+	return n, err
+}
+
+// rowsIn counts the evaluation rows of a case store no process writes.
+func rowsIn(t *testing.T, path string) int {
+	t.Helper()
+	n, err := countRows(path)
+	if err != nil {
 		t.Fatal(err)
 	}
 	return n
@@ -72,8 +79,10 @@ func TestRunKilledAndPickedUp(t *testing.T) {
 	db := filepath.Join(dir, "results.db")
 	deadline := time.Now().Add(20 * time.Second)
 	for {
-		// wait until at least one batch is committed, then kill
-		if _, err := os.Stat(db); err == nil && rowsIn(t, db) >= 40 {
+		// wait until at least one batch is committed, then kill (while
+		// the running process creates the file and its schema, reading
+		// it may fail: try again)
+		if n, err := countRows(db); err == nil && n >= 40 {
 			break
 		}
 		if time.Now().After(deadline) {
