@@ -392,3 +392,21 @@ func TestDSMSummarisesLongLists(t *testing.T) {
 		t.Errorf("long coupling list not summarised:\n%s", dsm)
 	}
 }
+
+func TestOutOfRangeFromEarlierGroup(t *testing.T) {
+	// an output of an upstream group outside the range a coupled group's
+	// discipline accepts is caught on the group's first sweep
+	src := Func("upstream", []string{"p"}, []string{"a"}, func(in, out []float64) error { out[0] = 50; return nil })
+	loop1 := FuncVars("loop1", []Var{{Name: "a", Min: 0, Max: 10}, {Name: "v"}}, []Var{{Name: "u"}},
+		func(in, out []float64) error { out[0] = in[0] + 0.1*in[1]; return nil })
+	loop2 := Func("loop2", []string{"u"}, []string{"v"}, func(in, out []float64) error { out[0] = 0.5 * in[0]; return nil })
+	sys, err := NewSystem(src, loop1, loop2)
+	if err != nil {
+		t.Fatal(err)
+	}
+	err = sys.NewWorkspace().Analyze(context.Background())
+	var re *RangeError
+	if !errors.As(err, &re) || re.Var != "a" || re.Discipline != "loop1" || re.Value != 50 {
+		t.Fatalf("want a range error on a = 50 for loop1, got %v", err)
+	}
+}
