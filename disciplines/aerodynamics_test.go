@@ -485,30 +485,21 @@ func BenchmarkAerodynamicsCompute(b *testing.B) {
 	a := NewAerodynamics(DefaultGeometryOptions(), DefaultAeroOptions())
 	in := defaultValues(a.Inputs())
 	out := make([]float64, len(a.Outputs()))
-	b.ReportAllocs()
-	for i := 0; i < b.N; i++ {
-		_ = a.Compute(in, out)
-	}
+	benchCompute(b, a, in, out)
 }
 
 func BenchmarkAirframeAerodynamicsCompute(b *testing.B) {
 	a := NewAirframeAerodynamics(DefaultGeometryOptions(), DefaultAeroOptions())
 	in := defaultValues(a.Inputs())
 	out := make([]float64, len(a.Outputs()))
-	b.ReportAllocs()
-	for i := 0; i < b.N; i++ {
-		_ = a.Compute(in, out)
-	}
+	benchCompute(b, a, in, out)
 }
 
 func BenchmarkGeometryCompute(b *testing.B) {
 	g := NewGeometry(DefaultGeometryOptions())
 	in := defaultValues(g.Inputs())
 	out := make([]float64, len(g.Outputs()))
-	b.ReportAllocs()
-	for i := 0; i < b.N; i++ {
-		_ = g.Compute(in, out)
-	}
+	benchCompute(b, g, in, out)
 }
 
 func TestAirframeWaveSplit(t *testing.T) {

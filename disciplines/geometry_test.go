@@ -275,6 +275,17 @@ func defaultValues(vars []mdo.Var) []float64 {
 	return v
 }
 
+// benchCompute times d.Compute on fixed inputs, reporting allocations.
+func benchCompute(b *testing.B, d mdo.Discipline, in, out []float64) {
+	b.Helper()
+	b.ReportAllocs()
+	for b.Loop() {
+		if err := d.Compute(in, out); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
 // indexOf returns the position of name in vars, or -1.
 func varPosition(vars []mdo.Var, name string) int {
 	for i, v := range vars {

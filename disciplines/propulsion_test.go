@@ -156,7 +156,7 @@ func TestPartThrottle(t *testing.T) {
 // part-throttle cycle.
 func TestPartThrottleInterpolation(t *testing.T) {
 	cyc := NewEngineCycle()
-	in := varDefaults(cyc.Inputs())
+	in := defaultValues(cyc.Inputs())
 	out := make([]float64, cycNumOut)
 	if err := cyc.Compute(in, out); err != nil {
 		t.Fatal(err)
@@ -215,15 +215,6 @@ func TestEngineMassAndNacelle(t *testing.T) {
 	if !(l > d) {
 		t.Errorf("nacelle length %g not above diameter %g", l, d)
 	}
-}
-
-// varDefaults returns the defaults of a variable list.
-func varDefaults(vs []mdo.Var) []float64 {
-	out := make([]float64, len(vs))
-	for i, v := range vs {
-		out[i] = v.Default
-	}
-	return out
 }
 
 // propulsionSystem builds engine_cycle + propulsion with business-jet
@@ -342,10 +333,10 @@ func TestPropulsionRefusesBadInput(t *testing.T) {
 func propulsionBench(tb testing.TB) []float64 {
 	cyc := NewEngineCycle()
 	cout := make([]float64, cycNumOut)
-	if err := cyc.Compute(varDefaults(cyc.Inputs()), cout); err != nil {
+	if err := cyc.Compute(defaultValues(cyc.Inputs()), cout); err != nil {
 		tb.Fatal(err)
 	}
-	in := varDefaults(NewPropulsion().Inputs())
+	in := defaultValues(NewPropulsion().Inputs())
 	copy(in[propInUnitSLS:], cout[cycOutUnitSLS:cycOutUnitCruise+1])
 	copy(in[propInTSFCCruiseMax:], cout[cycOutTSFCCruiseMax:cycOutTt4Node2+1])
 	return in
@@ -353,27 +344,17 @@ func propulsionBench(tb testing.TB) []float64 {
 
 func BenchmarkEngineCycleCompute(b *testing.B) {
 	cyc := NewEngineCycle()
-	cin := varDefaults(cyc.Inputs())
+	cin := defaultValues(cyc.Inputs())
 	cin[cycInAirportElevation] = 1000
 	out := make([]float64, cycNumOut)
-	b.ReportAllocs()
-	for i := 0; i < b.N; i++ {
-		if err := cyc.Compute(cin, out); err != nil {
-			b.Fatal(err)
-		}
-	}
+	benchCompute(b, cyc, cin, out)
 }
 
 func BenchmarkPropulsionCompute(b *testing.B) {
 	p := NewPropulsion()
 	in := propulsionBench(b)
 	out := make([]float64, propNumOut)
-	b.ReportAllocs()
-	for i := 0; i < b.N; i++ {
-		if err := p.Compute(in, out); err != nil {
-			b.Fatal(err)
-		}
-	}
+	benchCompute(b, p, in, out)
 }
 
 // A sized engine: full throttle at sea-level static reproduces the

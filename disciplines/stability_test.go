@@ -170,26 +170,16 @@ func TestStabilityRefusesBadInput(t *testing.T) {
 
 func BenchmarkNeutralPointsCompute(b *testing.B) {
 	n := NewNeutralPoints()
-	in := varDefaults(n.Inputs())
+	in := defaultValues(n.Inputs())
 	out := make([]float64, npNumOut)
-	b.ReportAllocs()
-	for i := 0; i < b.N; i++ {
-		if err := n.Compute(in, out); err != nil {
-			b.Fatal(err)
-		}
-	}
+	benchCompute(b, n, in, out)
 }
 
 func BenchmarkStabilityCompute(b *testing.B) {
 	s := NewStability()
-	in := varDefaults(s.Inputs())
+	in := defaultValues(s.Inputs())
 	out := make([]float64, stNumOut)
-	b.ReportAllocs()
-	for i := 0; i < b.N; i++ {
-		if err := s.Compute(in, out); err != nil {
-			b.Fatal(err)
-		}
-	}
+	benchCompute(b, s, in, out)
 }
 
 // One System shared by goroutines, each with its own workspace, gives the

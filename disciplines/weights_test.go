@@ -208,37 +208,27 @@ func TestWeightsRefusesBadInput(t *testing.T) {
 // group: mass.takeoff (the closure's start) already at its converged value.
 func BenchmarkAirframeMassesCompute(b *testing.B) {
 	am := NewAirframeMasses(NewWeights())
-	in := varDefaults(am.Inputs())
+	in := defaultValues(am.Inputs())
 	out := make([]float64, amNumOut)
-	b.ReportAllocs()
-	for i := 0; i < b.N; i++ {
-		if err := am.Compute(in, out); err != nil {
-			b.Fatal(err)
-		}
-	}
+	benchCompute(b, am, in, out)
 }
 
 func BenchmarkWeightsCompute(b *testing.B) {
 	w := NewWeights()
 	am := NewAirframeMasses(w)
-	amIn := varDefaults(am.Inputs())
+	amIn := defaultValues(am.Inputs())
 	amOut := make([]float64, amNumOut)
 	if err := am.Compute(amIn, amOut); err != nil {
 		b.Fatal(err)
 	}
-	in := varDefaults(w.Inputs())
+	in := defaultValues(w.Inputs())
 	copy(in[wtInCoefWing:], amOut)
 	out := make([]float64, wtNumOut)
 	if err := w.Compute(in, out); err != nil {
 		b.Fatal(err)
 	}
 	in[wtInGuess] = out[wtOutTakeoff]
-	b.ReportAllocs()
-	for i := 0; i < b.N; i++ {
-		if err := w.Compute(in, out); err != nil {
-			b.Fatal(err)
-		}
-	}
+	benchCompute(b, w, in, out)
 }
 
 // The aircraft CGs are the mass-weighted means of the component CGs.
