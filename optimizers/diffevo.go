@@ -67,19 +67,15 @@ func (o DifferentialEvolution) Minimize(ctx context.Context, s *mdo.Study) (*mdo
 	if err := o.validate(); err != nil {
 		return nil, err
 	}
-	r, err := begin(ctx, s, o.Name(), o)
+	e, err := newEngine(ctx, s, o.Name(), o, o.MaxEvaluations, o.GradientRate, o.Relax)
 	if err != nil {
 		return nil, err
 	}
-	if err := r.refuseMultiObjective(); err != nil {
-		return nil, err
-	}
-	r.maxEvals = o.MaxEvaluations
+	r := e.r
 	dim := r.ev.Dim()
 	n := or(o.Population, defaultPopulation(dim))
 	f := or(o.Weight, 0.5)
 	cr := or(o.CrossoverRate, 0.9)
-	e := &engine{r: r, relax: relaxFraction(o.Relax), grad: newGradientRepair(gradientRate(o.GradientRate), r.ev.Constraints())}
 	e.initial = func(rng *rand.Rand) *member { return e.newMember(uniformPoint(dim, rng)) }
 	e.generation = func(pop []*member, rng *rand.Rand) ([]*member, error) {
 		trials := make([]*member, n)

@@ -1,6 +1,7 @@
 package optimizers
 
 import (
+	"context"
 	"errors"
 	"math"
 	"math/rand"
@@ -73,6 +74,22 @@ func (m *member) Clone() eaopt.Genome {
 // errStop ends eaopt's run when the budget is spent or the context is
 // cancelled in the middle of a generation.
 var errStop = errors.New("optimizers: evolution stopped")
+
+// newEngine starts a single-objective evolutionary run: it validates the
+// study, refuses several objectives, sets the evaluation budget and the
+// equality handling (gradient-based mutation rate and ε-level
+// relaxation, as the methods' settings give them).
+func newEngine(ctx context.Context, s *mdo.Study, name string, settings any, maxEvals int, gradRate, relax float64) (*engine, error) {
+	r, err := begin(ctx, s, name, settings)
+	if err != nil {
+		return nil, err
+	}
+	if err := r.refuseMultiObjective(); err != nil {
+		return nil, err
+	}
+	r.maxEvals = maxEvals
+	return &engine{r: r, relax: relaxFraction(relax), grad: newGradientRepair(gradientRate(gradRate), r.ev.Constraints())}, nil
+}
 
 // engine ties eaopt's GA to a run.
 type engine struct {

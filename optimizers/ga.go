@@ -85,14 +85,11 @@ func (o GA) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error) {
 	if err := o.validate(); err != nil {
 		return nil, err
 	}
-	r, err := begin(ctx, s, o.Name(), o)
+	e, err := newEngine(ctx, s, o.Name(), o, o.MaxEvaluations, o.GradientRate, o.Relax)
 	if err != nil {
 		return nil, err
 	}
-	if err := r.refuseMultiObjective(); err != nil {
-		return nil, err
-	}
-	r.maxEvals = o.MaxEvaluations
+	r := e.r
 	dim := r.ev.Dim()
 	n := or(o.Population, min(max(20*dim, 40), 200))
 	k := or(o.Tournament, 2)
@@ -103,7 +100,6 @@ func (o GA) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error) {
 	etaC := or(o.CrossoverIndex, 15)
 	pm := or(o.MutationRate, 1/float64(dim))
 	etaM := or(o.MutationIndex, 20)
-	e := &engine{r: r, relax: relaxFraction(o.Relax), grad: newGradientRepair(gradientRate(o.GradientRate), r.ev.Constraints())}
 	e.initial = func(rng *rand.Rand) *member { return e.newMember(uniformPoint(dim, rng)) }
 	sel := eaopt.SelTournament{NContestants: uint(k)}
 	e.generation = func(pop []*member, rng *rand.Rand) ([]*member, error) {

@@ -73,20 +73,16 @@ func (o ParticleSwarm) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result,
 	if err := o.validate(); err != nil {
 		return nil, err
 	}
-	r, err := begin(ctx, s, o.Name(), o)
+	e, err := newEngine(ctx, s, o.Name(), o, o.MaxEvaluations, o.GradientRate, o.Relax)
 	if err != nil {
 		return nil, err
 	}
-	if err := r.refuseMultiObjective(); err != nil {
-		return nil, err
-	}
-	r.maxEvals = o.MaxEvaluations
+	r := e.r
 	dim := r.ev.Dim()
 	n := or(o.Population, defaultPopulation(dim))
 	chi := or(o.Inertia, 0.7298)
 	c1 := or(o.Cognitive, 1.49618)
 	c2 := or(o.Social, 1.49618)
-	e := &engine{r: r, relax: relaxFraction(o.Relax), grad: newGradientRepair(gradientRate(o.GradientRate), r.ev.Constraints())}
 	e.initial = func(rng *rand.Rand) *member {
 		x := uniformPoint(dim, rng)
 		v := make([]float64, dim)
