@@ -20,7 +20,11 @@ func (e *RangeError) Error() string {
 	if e.Discipline != "" {
 		where = " (input of discipline " + e.Discipline + ")"
 	}
-	return fmt.Sprintf("mdo: %s = %g %s is outside its validity range [%g, %g]%s", e.Var, e.Value, e.Unit, e.Min, e.Max, where)
+	unit := ""
+	if e.Unit != "" && e.Unit != "-" {
+		unit = " " + e.Unit
+	}
+	return fmt.Sprintf("mdo: %s = %g%s is outside its validity range [%g, %g]%s", e.Var, e.Value, unit, e.Min, e.Max, where)
 }
 
 // NonFiniteError reports a NaN or Inf produced by a discipline.
