@@ -253,6 +253,33 @@ func newCycleCondition(c *CycleComponents, mach, t0, pic, alpha float64) (cycleC
 	k := cycleCondition{c: c, mach: mach, t0: t0, pic: pic, alpha: alpha}
 	k.rc = (gc - 1) / gc * c.CpC
 	k.rt = (gt - 1) / gt * c.CpT
+	k.tauc = math.Pow(pic, (gc-1)/(gc*c.CompressorPolytropic))
+	k.kf = (gc - 1) / (gc * c.FanPolytropic)
+	k.mt = gt / ((gt - 1) * c.TurbinePolytropic)
+	k.lnPcPb = math.Log(pic * c.BurnerPressureRatio)
+	k.setFlight()
+	return k, nil
+}
+
+// at returns the cycle condition of the same components and design
+// choices at flight Mach number mach and ambient temperature t0 [K],
+// reusing the parts that depend on neither (the same values as
+// newCycleCondition would give).
+func (k *cycleCondition) at(mach, t0 float64) (cycleCondition, error) {
+	if err := checkCycleInputs(mach, t0, k.pic, k.alpha, 1500); err != nil {
+		return cycleCondition{}, err
+	}
+	n := *k
+	n.mach, n.t0 = mach, t0
+	n.setFlight()
+	return n, nil
+}
+
+// setFlight fills the parts of k that depend on the flight Mach number
+// and the ambient temperature.
+func (k *cycleCondition) setFlight() {
+	c := k.c
+	gc, mach, t0 := c.GammaC, k.mach, k.t0
 	k.v0 = math.Sqrt(gc*k.rc*t0) * mach
 	k.taur = 1 + 0.5*(gc-1)*mach*mach
 	k.pir = math.Pow(k.taur, gc/(gc-1))
@@ -260,13 +287,8 @@ func newCycleCondition(c *CycleComponents, mach, t0, pic, alpha float64) (cycleC
 	if c.MilSpecRecovery && mach > 1 {
 		k.pid *= 1 - 0.075*math.Pow(mach-1, 1.35)
 	}
-	k.tauc = math.Pow(pic, (gc-1)/(gc*c.CompressorPolytropic))
-	k.kf = (gc - 1) / (gc * c.FanPolytropic)
-	k.mt = gt / ((gt - 1) * c.TurbinePolytropic)
-	k.lnPcPb = math.Log(pic * c.BurnerPressureRatio)
 	k.hb = c.BurnerEfficiency * c.HeatingValue / (c.CpC * t0)
-	k.pinoz = k.pir * k.pid * pic * c.BurnerPressureRatio * c.MixerPressureRatio * c.NozzlePressureRatio
-	return k, nil
+	k.pinoz = k.pir * k.pid * k.pic * c.BurnerPressureRatio * c.MixerPressureRatio * c.NozzlePressureRatio
 }
 
 // run completes the cycle at turbine-entry temperature tt4 [K].
@@ -303,12 +325,12 @@ func (k *cycleCondition) run(tt4 float64) (CycleResult, error) {
 	taut := 1 - A
 	var pit float64
 	if alpha > 0 {
-		x, ok := solveMixer(k.lnPcPb, A, B, k.kf, k.mt)
+		x, e, ok := solveMixer(k.lnPcPb, A, B, k.kf, k.mt)
 		if !ok {
 			return CycleResult{}, inputErr("engine.bypass_ratio", alpha, "", "low enough for the core to balance the bypass stream at the mixer (Pt16 = Pt6)")
 		}
 		pif = math.Exp(x)
-		tauf = math.Exp(k.kf * x)
+		tauf = e
 		taut = 1 - A - B*(tauf-1)
 		pit = pif / (k.pic * c.BurnerPressureRatio) // the mixer condition Pt16 = Pt6
 	} else {
@@ -342,23 +364,23 @@ func (k *cycleCondition) run(tt4 float64) (CycleResult, error) {
 // h(x) = x − lnPc − mt·ln τt(x) = 0, τt(x) = 1 − A − B(e^{kf·x} − 1),
 // with lnPc = ln(πc·πb). h is increasing and convex, so a Newton iteration
 // safeguarded by bisection inside [0, x(α=0)] converges in a few steps.
-func solveMixer(lnPc, A, B, kf, mt float64) (float64, bool) {
-	taut := func(x float64) float64 { return 1 - A - B*(math.Exp(kf*x)-1) }
-	h := func(x float64) float64 {
-		t := taut(x)
-		if t <= 0 {
-			return math.Inf(1)
-		}
-		return x - lnPc - mt*math.Log(t)
-	}
+// It returns x and e^{kf·x}.
+func solveMixer(lnPc, A, B, kf, mt float64) (x, e float64, ok bool) {
 	lo := 0.0
-	if h(lo) > 0 {
-		return 0, false // even πf = 1 leaves the core below the bypass pressure
+	// at x = 0, τt = 1 − A exactly (e^0 = 1); ln(1 − A) also bounds the
+	// solution from above
+	t0 := 1 - A
+	if t0 <= 0 {
+		return 0, 0, false // h(0) = +Inf
 	}
-	hi := lnPc + mt*math.Log(1-A) // solution without bypass work
-	x := hi
+	ln0 := math.Log(t0)
+	if lo-lnPc-mt*ln0 > 0 {
+		return 0, 0, false // even πf = 1 leaves the core below the bypass pressure
+	}
+	hi := lnPc + mt*ln0 // solution without bypass work
+	x = hi
 	for i := 0; i < 60; i++ {
-		e := math.Exp(kf * x)
+		e = math.Exp(kf * x)
 		t := 1 - A - B*(e-1)
 		hx := math.Inf(1)
 		if t > 0 {
@@ -370,7 +392,7 @@ func solveMixer(lnPc, A, B, kf, mt float64) (float64, bool) {
 			lo = x
 		}
 		if math.Abs(hx) < 1e-13 || hi-lo < 1e-14 {
-			return x, true
+			return x, e, true
 		}
 		next := 0.5 * (lo + hi)
 		if t > 0 {
@@ -381,7 +403,7 @@ func solveMixer(lnPc, A, B, kf, mt float64) (float64, bool) {
 		}
 		x = next
 	}
-	return x, true
+	return x, math.Exp(kf * x), true
 }
 
 // CorrectedFlowLapse returns ṁ0/ṁ0,SLS = δ0·πr·ηr/sqrt(θ0·τr) for an
@@ -641,21 +663,34 @@ func (e *EngineCycle) Compute(in, out []float64) error {
 	if err != nil {
 		return renameInput(err, "airport.elevation")
 	}
-	sls, err := MixedFlowTurbofan(*c, 0, SeaLevelTemperature, pic, bpr, tt4)
+	// the four flight conditions share the components and design choices
+	slc, err := newCycleCondition(c, 0, SeaLevelTemperature, pic, bpr)
+	if err != nil {
+		return err
+	}
+	sls, err := slc.run(tt4)
 	if err != nil {
 		return err
 	}
 	to := sls
 	if apt.Temperature != SeaLevelTemperature {
-		if to, err = MixedFlowTurbofan(*c, 0, apt.Temperature, pic, bpr, tt4); err != nil {
+		toc, err := slc.at(0, apt.Temperature)
+		if err != nil {
+			return err
+		}
+		if to, err = toc.run(tt4); err != nil {
 			return err
 		}
 	}
-	cl, err := MixedFlowTurbofan(*c, e.ClimbMach, apt.Temperature, pic, bpr, tt4)
+	clc, err := slc.at(e.ClimbMach, apt.Temperature)
 	if err != nil {
 		return err
 	}
-	crc, err := newCycleCondition(c, mach, cruise.Temperature, pic, bpr)
+	cl, err := clc.run(tt4)
+	if err != nil {
+		return err
+	}
+	crc, err := slc.at(mach, cruise.Temperature)
 	if err != nil {
 		return err
 	}
@@ -674,7 +709,7 @@ func (e *EngineCycle) Compute(in, out []float64) error {
 	out[cycOutFanPressureRatio] = sls.FanPressureRatio
 	out[cycOutClimbMach] = e.ClimbMach
 	// part-throttle nodes at cruise
-	tt3 := cruise.Temperature * cr.RamTempRatio * math.Pow(pic, (c.GammaC-1)/(c.GammaC*c.CompressorPolytropic))
+	tt3 := cruise.Temperature * cr.RamTempRatio * crc.tauc // τc = πc^((γc−1)/(γc·ec))
 	// throttle fractions of the two nodes, Tt4 = Tt3 + frac·(Tt4,max − Tt3),
 	// tried in order until the cycle runs at both
 	nodes := [...][2]float64{{0.8, 0.6}, {0.85, 0.7}, {0.9, 0.8}, {0.95, 0.9}}
