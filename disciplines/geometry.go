@@ -638,6 +638,10 @@ func addSurface(w *Wing, apex, root float64, strips int, k float64, x, s, planfo
 	}
 	dy := (h - root) / float64(strips)
 	tau := w.ThicknessRatio
+	// the cuts of the two sides coincide when the slopes do (k = 0)
+	slopeL, slopeR := w.tanLE+k, w.tanLE-k // side −1, +1
+	mirror := slopeL == slopeR && math.Float64bits(slopeL) == math.Float64bits(slopeR)
+	q1, c1 := quintic(1), cubic(1)
 	for j := 0; j < strips; j++ {
 		ya := root + float64(j)*dy
 		yb := ya + dy
@@ -645,27 +649,67 @@ func addSurface(w *Wing, apex, root float64, strips int, k float64, x, s, planfo
 		a := 20 * tau * ch * dy
 		for side := -1.0; side <= 1; side += 2 {
 			// effective leading edge along the cut: x0 = apex + |y|(tanΛ − side·k)
-			slope := w.tanLE - side*k
+			slope := slopeR
+			if side < 0 {
+				slope = slopeL
+			}
+			add := 1
+			if mirror {
+				add = 2 // both sides at once
+			}
 			xa := apex + ya*slope
 			xb := apex + yb*slope
-			lo, hi := math.Min(xa, xb), math.Max(xa, xb)+ch
+			lo, hi := min(xa, xb), max(xa, xb)+ch
 			d := (xb - xa) / ch // ξa − ξb
-			for i := firstAbove(x, lo); i < len(x) && x[i] < hi; i++ {
-				za := (x[i] - xa) / ch
-				if math.Abs(d) < 1e-9 {
-					z := clamp01(za)
+			i := firstAbove(x, lo)
+			if math.Abs(d) < 1e-9 {
+				for ; i < len(x) && x[i] < hi; i++ {
+					z := clamp01((x[i] - xa) / ch)
 					q := z * (1 - z)
-					s[i] += a * q * q
-					if planform != nil {
-						planform[i] += 6 * q * dy
+					v := a * q * q
+					for n := 0; n < add; n++ {
+						s[i] += v
 					}
-					continue
+					if planform != nil {
+						p := 6 * q * dy
+						for n := 0; n < add; n++ {
+							planform[i] += p
+						}
+					}
 				}
-				zb := za - d
-				s[i] += a * (quintic(za) - quintic(zb)) / d
-				if planform != nil {
-					planform[i] += 6 * dy * (cubic(za) - cubic(zb)) / d
+			} else {
+				// quintic and cubic vanish at z <= 0 and are constant at z >= 1
+				for ; i < len(x) && x[i] < hi; i++ {
+					za := (x[i] - xa) / ch
+					zb := za - d
+					pa, pb := q1, 0.0
+					if za < 1 {
+						pa = quintic(za)
+					}
+					if zb > 0 {
+						pb = quintic(zb)
+					}
+					v := a * (pa - pb) / d
+					for n := 0; n < add; n++ {
+						s[i] += v
+					}
+					if planform != nil {
+						ca, cb := c1, 0.0
+						if za < 1 {
+							ca = cubic(za)
+						}
+						if zb > 0 {
+							cb = cubic(zb)
+						}
+						p := 6 * dy * (ca - cb) / d
+						for n := 0; n < add; n++ {
+							planform[i] += p
+						}
+					}
 				}
+			}
+			if mirror {
+				break
 			}
 		}
 	}
