@@ -727,16 +727,33 @@ func (wd *WaveDragIntegrator) AirframeWave(c *Configuration, mach float64) Airfr
 		wd.Stations(lo, hi, sc.x[:])
 		air.AreaDistribution(k, sc.x[:], sc.s[:], nil)
 		aw.Start[r], aw.Length[r] = lo, hi-lo
-		var a [waveHarmonics]float64
-		for j, sj := range sc.s {
-			row := &wd.w[j]
-			for m := range a {
-				a[m] += row[m] * sj
-			}
-		}
-		aw.A[r] = a
+		aw.A[r] = wd.coefficients(&sc.s)
 	}
 	return aw
+}
+
+// coefficients returns the Fourier coefficients ℓ·An of the areas s at
+// the stations, Σj w[j][n]·s[j] summed in station order, eight
+// harmonics at a time in registers.
+func (wd *WaveDragIntegrator) coefficients(s *[WaveStations]float64) [waveHarmonics]float64 {
+	var a [waveHarmonics]float64
+	for m := 0; m+8 <= waveHarmonics; m += 8 {
+		var a0, a1, a2, a3, a4, a5, a6, a7 float64
+		for j, sj := range s {
+			row := (*[8]float64)(wd.w[j][m : m+8])
+			a0 += row[0] * sj
+			a1 += row[1] * sj
+			a2 += row[2] * sj
+			a3 += row[3] * sj
+			a4 += row[4] * sj
+			a5 += row[5] * sj
+			a6 += row[6] * sj
+			a7 += row[7] * sj
+		}
+		a[m], a[m+1], a[m+2], a[m+3] = a0, a1, a2, a3
+		a[m+4], a[m+5], a[m+6], a[m+7] = a4, a5, a6, a7
+	}
+	return a
 }
 
 // WaveDragWithPods returns the volume wave drag D/q [m2] of the airframe
