@@ -193,19 +193,31 @@ func blend(x, a, b, fa, fb float64) float64 {
 // section lift slope over 2π, Λ½c the half-chord sweep [deg]. mach must be
 // in [0, 1).
 func LiftSlopeSubsonic(aspectRatio, mach, sweepHalfChord, kappa float64) (float64, error) {
+	if err := checkLiftSlopeSubsonic(aspectRatio, mach, kappa); err != nil {
+		return 0, err
+	}
+	return liftSlopeSubsonicTan(aspectRatio, mach, math.Tan(sweepHalfChord*math.Pi/180), kappa), nil
+}
+
+// checkLiftSlopeSubsonic checks the inputs of LiftSlopeSubsonic.
+func checkLiftSlopeSubsonic(aspectRatio, mach, kappa float64) error {
 	if !(mach >= 0 && mach < 1) {
-		return 0, inputErr("mach", mach, "", "[0, 1) for the subsonic lift slope")
+		return inputErr("mach", mach, "", "[0, 1) for the subsonic lift slope")
 	}
 	if !(aspectRatio > 0) {
-		return 0, inputErr("wing.aspect_ratio", aspectRatio, "", "> 0")
+		return inputErr("wing.aspect_ratio", aspectRatio, "", "> 0")
 	}
 	if !(kappa > 0 && kappa <= 1.5) {
-		return 0, inputErr("kappa", kappa, "", "(0, 1.5]")
+		return inputErr("kappa", kappa, "", "(0, 1.5]")
 	}
+	return nil
+}
+
+// liftSlopeSubsonicTan is the formula of LiftSlopeSubsonic with the
+// tangent t of the half-chord sweep given (no checks).
+func liftSlopeSubsonicTan(a, mach, t, kappa float64) float64 {
 	b2 := 1 - mach*mach
-	t := math.Tan(sweepHalfChord * math.Pi / 180)
-	a := aspectRatio
-	return 2 * math.Pi * a / (2 + math.Sqrt(4+a*a/(kappa*kappa)*(b2+t*t))), nil
+	return 2 * math.Pi * a / (2 + math.Sqrt(4+a*a/(kappa*kappa)*(b2+t*t)))
 }
 
 // LiftSlopeSupersonic returns the lift-curve slope [1/rad] of a wing at
@@ -320,13 +332,25 @@ func LiftSlope(w Wing, mach, kappa float64) (float64, error) {
 	if !(mach >= 0 && mach <= MaxMach) {
 		return 0, inputErr("mach", mach, "", "[0, 2.5]")
 	}
+	tanHalf := 0.0 // needed below Mach 1.2 only
+	if smoothstep(mach, blendLow, blendHigh) < 1 {
+		tanHalf = math.Tan(w.SweepAt(0.5) * math.Pi / 180)
+	}
+	return liftSlopeTan(w, mach, kappa, tanHalf)
+}
+
+// liftSlopeTan is LiftSlope, less its Mach check, with tanHalf =
+// tan(w.SweepAt(0.5)·π/180) given (used below Mach 1.2 only).
+func liftSlopeTan(w Wing, mach, kappa, tanHalf float64) (float64, error) {
 	var sub, sup float64
 	var err error
 	wt := smoothstep(mach, blendLow, blendHigh)
 	if wt < 1 {
-		if sub, err = LiftSlopeSubsonic(w.AspectRatio, math.Min(mach, blendLow), w.SweepAt(0.5), kappa); err != nil {
+		ms := math.Min(mach, blendLow)
+		if err = checkLiftSlopeSubsonic(w.AspectRatio, ms, kappa); err != nil {
 			return 0, err
 		}
+		sub = liftSlopeSubsonicTan(w.AspectRatio, ms, tanHalf, kappa)
 	}
 	if wt > 0 {
 		if sup, err = LiftSlopeSupersonic(w, math.Max(mach, blendHigh)); err != nil {

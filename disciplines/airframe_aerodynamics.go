@@ -1,6 +1,8 @@
 package disciplines
 
 import (
+	"math"
+
 	"couplet/mdo"
 )
 
@@ -35,12 +37,28 @@ import (
 // condition is Mach AeroOptions.TakeoffMach at the airport.
 type AirframeAerodynamics struct {
 	model *AeroModel
+	// machFFHigh is the surfaces' form-factor Mach factor 1.34·M^0.18 at
+	// its upper limit M = blendLow (see frictionAt)
+	machFFHigh float64
 }
 
 // NewAirframeAerodynamics returns the airframe_aero discipline; the layout
 // options must be those of the geometry discipline.
 func NewAirframeAerodynamics(g GeometryOptions, a AeroOptions) *AirframeAerodynamics {
-	return &AirframeAerodynamics{model: NewAeroModel(g, a)}
+	return &AirframeAerodynamics{model: NewAeroModel(g, a), machFFHigh: 1.34 * math.Pow(blendLow, 0.18)}
+}
+
+// friction is the model's frictionAt(rePerM, mach, true) with the
+// cut-off factor cut = cutoffFactor(mach) and lnK, the logarithm of the
+// roughness, given (the same values).
+func (a *AirframeAerodynamics) friction(rePerM, mach, cut, lnK float64) frictionCondition {
+	fc := frictionFrom(rePerM, frictionCompressibility(mach), cut, mach, lnK)
+	if mff := math.Max(math.Min(mach, blendLow), 0.2); mff == blendLow {
+		fc.machFF = a.machFFHigh
+	} else {
+		fc.machFF = 1.34 * math.Pow(mff, 0.18)
+	}
+	return fc
 }
 
 // Model returns the aerodynamic model the discipline uses.
@@ -177,9 +195,11 @@ func (a *AirframeAerodynamics) Compute(in, out []float64) error {
 	tab := m.components(&c)
 	e := OswaldEfficiency(w.AspectRatio, w.SweepLE)
 
+	lnK := math.Log(o.Roughness)
 	re := atm.Reynolds(mach)
-	fc := m.frictionAt(re, mach, true)
-	out[afOutCompCruise], out[afOutCutCruise] = fc.comp, cutoffFactor(mach)
+	cut := cutoffFactor(mach)
+	fc := a.friction(re, mach, cut, lnK)
+	out[afOutCompCruise], out[afOutCutCruise] = fc.comp, cut
 	out[afOutAreaCruise] = m.dragArea(&tab, &fc)
 	out[afOutReCruise] = re
 	out[afOutQ] = atm.DynamicPressure(mach)
@@ -190,26 +210,35 @@ func (a *AirframeAerodynamics) Compute(in, out []float64) error {
 	}
 	out[afOutKTail] = kt
 	bf := wingBodyLiftFactor(&c)
-	cla, err := LiftSlope(w, mach, o.Kappa)
+	// the wing's half-chord sweep, for both subsonic lift slopes
+	tanHalf := math.Tan(w.SweepAt(0.5) * math.Pi / 180)
+	cla, err := liftSlopeTan(w, mach, o.Kappa, tanHalf)
 	if err != nil {
 		return err
 	}
 	out[afOutCLACruise] = cla * bf
 
 	reLow := atmTO.Reynolds(o.TakeoffMach)
-	fcLow := m.frictionAt(reLow, o.TakeoffMach, true)
-	out[afOutCompLow], out[afOutCutLow] = fcLow.comp, cutoffFactor(o.TakeoffMach)
+	cutLow := cutoffFactor(o.TakeoffMach)
+	fcLow := a.friction(reLow, o.TakeoffMach, cutLow, lnK)
+	out[afOutCompLow], out[afOutCutLow] = fcLow.comp, cutLow
 	out[afOutAreaLow] = m.dragArea(&tab, &fcLow)
 	out[afOutReLow] = reLow
-	claLow, err := LiftSlope(w, o.TakeoffMach, o.Kappa)
+	if !(o.TakeoffMach >= 0 && o.TakeoffMach <= MaxMach) {
+		return inputErr("mach", o.TakeoffMach, "", "[0, 2.5]")
+	}
+	claLow, err := liftSlopeTan(w, o.TakeoffMach, o.Kappa, tanHalf)
 	if err != nil {
 		return err
 	}
 	out[afOutCLALow] = claLow * bf
-	clTO := CLMaxFlapped(w, in[afInFlapTakeoff])
-	out[afOutCLMaxClean] = CLMaxClean(w)
+	// CLMaxClean and CLMaxFlapped, sharing cos Λc/4
+	clean := CLMaxClean(w)
+	cq := math.Cos(w.Sweep * math.Pi / 180)
+	clTO := clean + in[afInFlapTakeoff]*cq
+	out[afOutCLMaxClean] = clean
 	out[afOutCLMaxTO] = clTO
-	out[afOutCLMaxLdg] = CLMaxFlapped(w, in[afInFlapLanding])
+	out[afOutCLMaxLdg] = clean + in[afInFlapLanding]*cq
 	out[afOutCLTO] = clTO / (1.13 * 1.13)
 	out[afOutKTO] = dragDueToLift(w, o.TakeoffMach, e-o.OswaldReductionTakeoff)
 	out[afOutKLdg] = dragDueToLift(w, o.TakeoffMach, e-o.OswaldReductionLanding)
