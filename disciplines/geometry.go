@@ -553,22 +553,24 @@ const (
 func (c *Configuration) CutRange(k float64) (lo, hi float64) {
 	ak := math.Abs(k)
 	lo, hi = 0, c.Fuselage.Length
-	surf := func(w Wing, apex float64, yscale float64) {
+	// (the built-in min and max treat NaN and signed zeros as math.Min
+	// and math.Max do)
+	surf := func(w *Wing, apex float64, yscale float64) {
 		h := 0.5 * w.Span * yscale
-		tipLE := apex + w.LeadingEdgeX(0.5*w.Span)
+		tipLE := apex + math.Abs(0.5*w.Span)*w.tanLE // LeadingEdgeX
 		tipTE := tipLE + w.TipChord
-		lo = math.Min(lo, math.Min(apex, tipLE-ak*h))
-		hi = math.Max(hi, math.Max(apex+w.RootChord, tipTE+ak*h))
+		lo = min(lo, min(apex, tipLE-ak*h))
+		hi = max(hi, max(apex+w.RootChord, tipTE+ak*h))
 	}
-	surf(c.Wing, c.WingApex, 1)
+	surf(&c.Wing, c.WingApex, 1)
 	if c.HTail.Area > 0 {
-		surf(c.HTail, c.HTailApex, 1)
+		surf(&c.HTail, c.HTailApex, 1)
 	}
-	surf(c.VTail, c.VTailApex, 0) // the fin lies in the plane of symmetry
+	surf(&c.VTail, c.VTailApex, 0) // the fin lies in the plane of symmetry
 	n := &c.Nacelles
 	for i := 0; i < n.n; i++ {
-		lo = math.Min(lo, n.X[i]-ak*n.Y[i])
-		hi = math.Max(hi, n.X[i]+n.Length+ak*n.Y[i])
+		lo = min(lo, n.X[i]-ak*n.Y[i])
+		hi = max(hi, n.X[i]+n.Length+ak*n.Y[i])
 	}
 	return lo, hi
 }
