@@ -679,6 +679,8 @@ func addSurface(w *Wing, apex, root float64, strips int, k float64, x, s, planfo
 						}
 					}
 				}
+			} else if planform == nil {
+				addStripVolume(x, s, i, hi, xa, ch, d, a, mirror)
 			} else {
 				// quintic and cubic vanish at z <= 0 and are constant at z >= 1
 				for ; i < len(x) && x[i] < hi; i++ {
@@ -713,6 +715,29 @@ func addSurface(w *Wing, apex, root float64, strips int, k float64, x, s, planfo
 			if mirror {
 				break
 			}
+		}
+	}
+}
+
+// addStripVolume is the volume part of addSurface's sloped-cut loop for
+// one strip side, from station i up to hi (twice: both sides at once).
+func addStripVolume(x, s []float64, i int, hi, xa, ch, d, a float64, twice bool) {
+	q1 := quintic(1)
+	for ; i < len(x) && x[i] < hi; i++ {
+		// quintic vanishes at z <= 0 and is constant at z >= 1
+		za := (x[i] - xa) / ch
+		zb := za - d
+		pa, pb := q1, 0.0
+		if za < 1 {
+			pa = quintic(za)
+		}
+		if zb > 0 {
+			pb = quintic(zb)
+		}
+		v := a * (pa - pb) / d
+		s[i] += v
+		if twice {
+			s[i] += v
 		}
 	}
 }
