@@ -40,22 +40,68 @@ type AirframeAerodynamics struct {
 	// machFFHigh is the surfaces' form-factor Mach factor 1.34·M^0.18 at
 	// its upper limit M = blendLow (see frictionAt)
 	machFFHigh float64
+	// values for the options given to the constructor, used when the
+	// arguments match (the model's options are exported and may change)
+	low  lowSpeedFactors
+	tail tailOswald
+}
+
+// lowSpeedFactors holds frictionCompressibility(mach) and the surfaces'
+// form-factor Mach factor at one Mach number.
+type lowSpeedFactors struct {
+	mach, comp, mff, machFF float64
+}
+
+// newLowSpeedFactors evaluates lowSpeedFactors at mach as frictionAt does.
+func newLowSpeedFactors(mach float64) lowSpeedFactors {
+	mff := math.Max(math.Min(mach, blendLow), 0.2)
+	return lowSpeedFactors{mach: mach, comp: frictionCompressibility(mach), mff: mff, machFF: 1.34 * math.Pow(mff, 0.18)}
+}
+
+// tailOswald is OswaldEfficiency(ar, sweepLE) = e.
+type tailOswald struct {
+	ar, sweepLE, e float64
+}
+
+// oswald returns OswaldEfficiency(w.AspectRatio, w.SweepLE), from t when
+// the arguments are t's.
+func (t *tailOswald) oswald(w *Wing) float64 {
+	if w.AspectRatio == t.ar && w.SweepLE == t.sweepLE {
+		return t.e
+	}
+	return OswaldEfficiency(w.AspectRatio, w.SweepLE)
 }
 
 // NewAirframeAerodynamics returns the airframe_aero discipline; the layout
 // options must be those of the geometry discipline.
 func NewAirframeAerodynamics(g GeometryOptions, a AeroOptions) *AirframeAerodynamics {
-	return &AirframeAerodynamics{model: NewAeroModel(g, a), machFFHigh: 1.34 * math.Pow(blendLow, 0.18)}
+	d := &AirframeAerodynamics{model: NewAeroModel(g, a), machFFHigh: 1.34 * math.Pow(blendLow, 0.18)}
+	d.low = newLowSpeedFactors(a.TakeoffMach)
+	d.tail = tailOswald{ar: math.NaN(), sweepLE: math.NaN()} // matches nothing
+	// the sweep of the leading edge does not depend on the area
+	if t, err := newSurface("htail", 1, g.HTailAspectRatio, g.HTailTaper, g.HTailSweep, g.HTailThickness); err == nil {
+		d.tail = tailOswald{ar: t.AspectRatio, sweepLE: t.SweepLE, e: OswaldEfficiency(t.AspectRatio, t.SweepLE)}
+	}
+	return d
 }
 
 // friction is the model's frictionAt(rePerM, mach, true) with the
 // cut-off factor cut = cutoffFactor(mach) and lnK, the logarithm of the
 // roughness, given (the same values).
 func (a *AirframeAerodynamics) friction(rePerM, mach, cut, lnK float64) frictionCondition {
-	fc := frictionFrom(rePerM, frictionCompressibility(mach), cut, mach, lnK)
-	if mff := math.Max(math.Min(mach, blendLow), 0.2); mff == blendLow {
-		fc.machFF = a.machFFHigh
+	var comp float64
+	if mach == a.low.mach {
+		comp = a.low.comp
 	} else {
+		comp = frictionCompressibility(mach)
+	}
+	fc := frictionFrom(rePerM, comp, cut, mach, lnK)
+	switch mff := math.Max(math.Min(mach, blendLow), 0.2); mff {
+	case blendLow:
+		fc.machFF = a.machFFHigh
+	case a.low.mff:
+		fc.machFF = a.low.machFF
+	default:
 		fc.machFF = 1.34 * math.Pow(mff, 0.18)
 	}
 	return fc
@@ -206,7 +252,7 @@ func (a *AirframeAerodynamics) Compute(in, out []float64) error {
 	out[afOutK] = dragDueToLift(w, mach, e)
 	kt := 0.0
 	if c.HTail.Area > 0 {
-		kt = DragDueToLift(c.HTail, mach, 0)
+		kt = dragDueToLift(c.HTail, mach, a.tail.oswald(&c.HTail)) // DragDueToLift(c.HTail, mach, 0)
 	}
 	out[afOutKTail] = kt
 	bf := wingBodyLiftFactor(&c)
