@@ -38,9 +38,10 @@ type System struct {
 
 // group is one step of the execution order.
 type group struct {
-	discs   []int // disciplines in declared order
-	coupled bool  // a cycle: needs a solver
-	tear    []int // coupling variables: produced and consumed inside the group
+	discs   []int     // disciplines in declared order
+	coupled bool      // a cycle: needs a solver
+	tear    []int     // coupling variables: produced and consumed inside the group
+	scale   []float64 // residual scale of each coupling variable
 	names   []string
 }
 
@@ -218,6 +219,9 @@ func (s *System) buildGroups() {
 				}
 			}
 			sort.Ints(gr.tear)
+			for _, v := range gr.tear {
+				gr.scale = append(gr.scale, s.vars.At(v).scale())
+			}
 		}
 		s.groups = append(s.groups, gr)
 	}

@@ -260,7 +260,7 @@ func (w *Workspace) compute(d int) error {
 		return &DisciplineError{Discipline: disc.Name(), Err: err}
 	}
 	for k, x := range out {
-		if math.IsNaN(x) || math.IsInf(x, 0) {
+		if x-x != 0 { // NaN or ±Inf: x − x is 0 for every finite x
 			return &NonFiniteError{Discipline: disc.Name(), Var: w.sys.vars.At(w.sys.outIdx[d][k]).Name, Value: x}
 		}
 	}
@@ -332,9 +332,9 @@ const divergeLimit = 1e12
 func (w *Workspace) solve(ctx context.Context, g *group, set SolverSettings, rep *Report) error {
 	nt := len(g.tear)
 	y, gy, r, rPrev, scale := w.y[:nt], w.gy[:nt], w.r[:nt], w.rPrev[:nt], w.scale[:nt]
-	for k, v := range g.tear {
+	copy(scale, g.scale)
+	for _, v := range g.tear {
 		w.val[v] = w.guess[v]
-		scale[k] = w.sys.vars.At(v).scale()
 	}
 	rep.Method = set.Method
 	rep.Tolerance = set.Tolerance
