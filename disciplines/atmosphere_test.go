@@ -1,8 +1,12 @@
 package disciplines
 
 import (
+	"encoding/csv"
 	"errors"
 	"math"
+	"os"
+	"path/filepath"
+	"strconv"
 	"testing"
 )
 
@@ -13,29 +17,52 @@ func relErr(got, want float64) float64 {
 	return math.Abs(got-want) / math.Abs(want)
 }
 
-func TestStandardAtmosphereTable(t *testing.T) {
-	// U.S. Standard Atmosphere 1976, indexed by geopotential altitude H
-	// (values recomputed from the defining equations; the standard's own
-	// tables agree to the digits given).
-	cases := []struct {
-		h, t, p, rho, a float64
-	}{
-		{0, 288.15, 101325, 1.2250, 340.294},
-		{11000, 216.65, 22632.0, 0.363918, 295.069},
-		{20000, 216.65, 5474.88, 0.0880347, 295.069},
-		{32000, 228.65, 868.016, 0.0132250, 303.131},
+// readTable reads a reference table of testdata/: '#' lines are its
+// provenance, the first other line the column names, then numbers.
+func readTable(t *testing.T, name string) [][]float64 {
+	t.Helper()
+	f, err := os.Open(filepath.Join("..", "testdata", name))
+	if err != nil {
+		t.Fatal(err)
 	}
-	for _, c := range cases {
-		at, err := StandardAtmosphere(GeometricAltitude(c.h))
+	defer f.Close()
+	r := csv.NewReader(f)
+	r.Comment = '#'
+	recs, err := r.ReadAll()
+	if err != nil {
+		t.Fatalf("%s: %v", name, err)
+	}
+	var rows [][]float64
+	for _, rec := range recs[1:] {
+		row := make([]float64, len(rec))
+		for k, field := range rec {
+			if row[k], err = strconv.ParseFloat(field, 64); err != nil {
+				t.Fatalf("%s: %v", name, err)
+			}
+		}
+		rows = append(rows, row)
+	}
+	if len(rows) == 0 {
+		t.Fatalf("%s holds no rows", name)
+	}
+	return rows
+}
+
+func TestStandardAtmosphereTable(t *testing.T) {
+	// U.S. Standard Atmosphere 1976, indexed by geopotential altitude H;
+	// the table and its provenance are in testdata.
+	for _, c := range readTable(t, "us_standard_atmosphere_1976.csv") {
+		h := c[0]
+		at, err := StandardAtmosphere(GeometricAltitude(h))
 		if err != nil {
 			t.Fatal(err)
 		}
 		for _, q := range []struct {
 			name      string
 			got, want float64
-		}{{"T", at.Temperature, c.t}, {"p", at.Pressure, c.p}, {"rho", at.Density, c.rho}, {"a", at.SpeedOfSound, c.a}} {
+		}{{"T", at.Temperature, c[1]}, {"p", at.Pressure, c[2]}, {"rho", at.Density, c[3]}, {"a", at.SpeedOfSound, c[4]}} {
 			if e := relErr(q.got, q.want); e > 1e-5 {
-				t.Errorf("H = %g m: %s = %.7g, want %.7g (rel %.2g)", c.h, q.name, q.got, q.want, e)
+				t.Errorf("H = %g m: %s = %.7g, want %.7g (rel %.2g)", h, q.name, q.got, q.want, e)
 			}
 		}
 	}
