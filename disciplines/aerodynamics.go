@@ -1002,15 +1002,11 @@ func (a *Aerodynamics) Inputs() []mdo.Var {
 	in := make([]mdo.Var, aeroNumIn)
 	w := wingParamVars()
 	copy(in, w[:])
+	shape := airframeShapeVars()
+	copy(in[aeroInFusLength:], shape[:])
 	v := func(i int, name, unit, desc string, def, lo, hi, scale float64) {
 		in[i] = mdo.Var{Name: name, Unit: unit, Description: desc, Default: def, Min: lo, Max: hi, Scale: scale}
 	}
-	v(aeroInFusLength, "fuselage.length", "m", "fuselage length", 22, 0, 200, 0)
-	v(aeroInFusDiameter, "fuselage.diameter", "m", "fuselage outer diameter", 1.9, 0, 20, 0)
-	v(aeroInNoseLength, "fuselage.nose_length", "m", "nose cone length", 6.5, 0, 100, 0)
-	v(aeroInTailLength, "fuselage.tail_length", "m", "tail cone length", 7.5, 0, 100, 0)
-	v(aeroInHTailArea, "htail.area", "m2", "horizontal-tail area", 20, 0, 1000, 0)
-	v(aeroInVTailArea, "vtail.area", "m2", "vertical-tail (fin) area", 15, 0, 1000, 0)
 	v(aeroInEngines, "engine.count", "-", "number of engines (rounded)", 2, 1, 5, 0)
 	v(aeroInNacDiameter, "nacelle.diameter", "m", "nacelle maximum diameter", 1.2, 0, 6, 0)
 	v(aeroInNacLength, "nacelle.length", "m", "nacelle length (inlet to nozzle)", 6, 0, 30, 0)

@@ -160,15 +160,11 @@ func (a *AirframeAerodynamics) Inputs() []mdo.Var {
 	in := make([]mdo.Var, afNumIn)
 	w := wingParamVars()
 	copy(in, w[:])
+	shape := airframeShapeVars()
+	copy(in[afInFusLength:], shape[:])
 	v := func(i int, name, unit, desc string, def, lo, hi, scale float64) {
 		in[i] = mdo.Var{Name: name, Unit: unit, Description: desc, Default: def, Min: lo, Max: hi, Scale: scale}
 	}
-	v(afInFusLength, "fuselage.length", "m", "fuselage length", 22, 0, 200, 0)
-	v(afInFusDiameter, "fuselage.diameter", "m", "fuselage outer diameter", 1.9, 0, 20, 0)
-	v(afInNoseLength, "fuselage.nose_length", "m", "nose cone length", 6.5, 0, 100, 0)
-	v(afInTailLength, "fuselage.tail_length", "m", "tail cone length", 7.5, 0, 100, 0)
-	v(afInHTailArea, "htail.area", "m2", "horizontal-tail area", 20, 0, 1000, 0)
-	v(afInVTailArea, "vtail.area", "m2", "vertical-tail (fin) area", 15, 0, 1000, 0)
 	v(afInMach, "cruise.mach", "-", "cruise Mach number", 1.5, 0, MaxMach, 0)
 	v(afInAltitude, "cruise.altitude", "m", "cruise altitude (geometric)", 15000, AtmosphereMinAltitude, AtmosphereMaxAltitude, 1000)
 	v(afInFlapTakeoff, "flap.cl_increment_takeoff", "-", "CLmax increment of the take-off high-lift setting (unswept wing)", 0.4, 0, 3, 0)

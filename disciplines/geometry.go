@@ -943,6 +943,20 @@ func wingParamVars() [6]mdo.Var {
 	}
 }
 
+// airframeShapeVars returns the fuselage and tail inputs that both
+// aerodynamics disciplines take right after the wing parameters, in that
+// order: fuselage length, diameter, nose and tail-cone lengths, tail areas.
+func airframeShapeVars() [6]mdo.Var {
+	return [6]mdo.Var{
+		{Name: "fuselage.length", Unit: "m", Description: "fuselage length", Default: 22, Min: 0, Max: 200},
+		{Name: "fuselage.diameter", Unit: "m", Description: "fuselage outer diameter", Default: 1.9, Min: 0, Max: 20},
+		{Name: "fuselage.nose_length", Unit: "m", Description: "nose cone length", Default: 6.5, Min: 0, Max: 100},
+		{Name: "fuselage.tail_length", Unit: "m", Description: "tail cone length", Default: 7.5, Min: 0, Max: 100},
+		{Name: "htail.area", Unit: "m2", Description: "horizontal-tail area", Default: 20, Min: 0, Max: 1000},
+		{Name: "vtail.area", Unit: "m2", Description: "vertical-tail (fin) area", Default: 15, Min: 0, Max: 1000},
+	}
+}
+
 // Inputs implements mdo.Discipline.
 func (g *Geometry) Inputs() []mdo.Var {
 	in := make([]mdo.Var, geoNumIn)
