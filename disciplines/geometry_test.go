@@ -1,10 +1,12 @@
 package disciplines
 
 import (
-	"couplet/mdo"
+	"context"
 	"errors"
 	"math"
 	"testing"
+
+	"couplet/mdo"
 )
 
 func TestTrapezoidalWing(t *testing.T) {
@@ -273,6 +275,29 @@ func defaultValues(vars []mdo.Var) []float64 {
 		v[i] = x.Default
 	}
 	return v
+}
+
+// analysed builds a System of ds, sets the inputs (overridden by set) and
+// analyses it.
+func analysed(t *testing.T, inputs, set map[string]float64, ds ...mdo.Discipline) *mdo.Workspace {
+	t.Helper()
+	sys, err := mdo.NewSystem(ds...)
+	if err != nil {
+		t.Fatal(err)
+	}
+	ws := sys.NewWorkspace()
+	for k, v := range set {
+		inputs[k] = v
+	}
+	for k, v := range inputs {
+		if err := ws.Set(k, v); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if err := ws.Analyze(context.Background()); err != nil {
+		t.Fatal(err)
+	}
+	return ws
 }
 
 // benchCompute times d.Compute on fixed inputs, reporting allocations.

@@ -114,24 +114,7 @@ func missionInputs() map[string]float64 {
 
 func missionSystem(t *testing.T, set map[string]float64) *mdo.Workspace {
 	t.Helper()
-	sys, err := mdo.NewSystem(NewMission())
-	if err != nil {
-		t.Fatal(err)
-	}
-	ws := sys.NewWorkspace()
-	in := missionInputs()
-	for k, v := range set {
-		in[k] = v
-	}
-	for k, v := range in {
-		if err := ws.Set(k, v); err != nil {
-			t.Fatal(err)
-		}
-	}
-	if err := ws.Analyze(context.Background()); err != nil {
-		t.Fatal(err)
-	}
-	return ws
+	return analysed(t, missionInputs(), set, NewMission())
 }
 
 func TestMissionSystem(t *testing.T) {

@@ -95,24 +95,7 @@ func stabilityTestDynamicPressure() float64 {
 
 func stabilitySystem(t *testing.T, set map[string]float64) *mdo.Workspace {
 	t.Helper()
-	sys, err := mdo.NewSystem(NewNeutralPoints(), NewStability(), NewWingDivergence())
-	if err != nil {
-		t.Fatal(err)
-	}
-	ws := sys.NewWorkspace()
-	in := stabilityInputs()
-	for k, v := range set {
-		in[k] = v
-	}
-	for k, v := range in {
-		if err := ws.Set(k, v); err != nil {
-			t.Fatal(err)
-		}
-	}
-	if err := ws.Analyze(context.Background()); err != nil {
-		t.Fatal(err)
-	}
-	return ws
+	return analysed(t, stabilityInputs(), set, NewNeutralPoints(), NewStability(), NewWingDivergence())
 }
 
 func TestStabilitySystem(t *testing.T) {

@@ -89,24 +89,7 @@ func newWeightsPair() []mdo.Discipline {
 
 func weightsSystem(t *testing.T, set map[string]float64) *mdo.Workspace {
 	t.Helper()
-	sys, err := mdo.NewSystem(newWeightsPair()...)
-	if err != nil {
-		t.Fatal(err)
-	}
-	ws := sys.NewWorkspace()
-	in := weightsInputs()
-	for k, v := range set {
-		in[k] = v
-	}
-	for k, v := range in {
-		if err := ws.Set(k, v); err != nil {
-			t.Fatal(err)
-		}
-	}
-	if err := ws.Analyze(context.Background()); err != nil {
-		t.Fatal(err)
-	}
-	return ws
+	return analysed(t, weightsInputs(), set, newWeightsPair()...)
 }
 
 func TestWeightsSystem(t *testing.T) {
