@@ -100,7 +100,7 @@ func TestEvaluatorAtSellarOptimum(t *testing.T) {
 		if form == IDF && !e.Feasible {
 			t.Errorf("IDF at the optimum should be consistent within 1e-4: G = %v", e.G)
 		}
-		r, err := ev.Finish("test")
+		r, err := ev.Finish(StopComplete)
 		if err != nil || r.Best != e || !strings.Contains(r.String(), "g1 >= 3.16") {
 			t.Errorf("result %v:\n%s", err, r)
 		}

@@ -50,3 +50,15 @@ func ExampleFunc() {
 	//   A: {lift, weight} (coupled, aitken-gauss-seidel)
 	// cl = 0.577114
 }
+
+// A result says why its optimiser stopped with a StopReason; compare it
+// with the constants, and store or read it as text.
+func ExampleStopReason() {
+	r := &mdo.Result{Stop: mdo.StopBudget}
+	fmt.Println(r.Stop, r.Stop == mdo.StopBudget)
+	back, err := mdo.ParseStopReason("complete")
+	fmt.Println(back == mdo.StopComplete, err)
+	// Output:
+	// budget true
+	// true <nil>
+}

@@ -27,7 +27,7 @@ type Result struct {
 	History []HistoryPoint
 	EvalCounters
 	// Stop says why the optimiser stopped.
-	Stop    string
+	Stop    StopReason
 	Started time.Time
 	Elapsed time.Duration
 }
@@ -87,8 +87,8 @@ func (e *Evaluator) Iteration(it int) {
 }
 
 // Finish builds the Result and closes the recorder. stop says why the
-// optimiser stopped ("converged", "budget", "cancelled", ...).
-func (e *Evaluator) Finish(stop string) (*Result, error) {
+// optimiser stopped.
+func (e *Evaluator) Finish(stop StopReason) (*Result, error) {
 	r := &Result{
 		Study: e.study.Name, Optimizer: e.optName, Seed: e.study.Seed, Formulation: e.study.Formulation,
 		Design: e.DesignSpecs(), Objectives: append([]Objective(nil), e.study.Objectives...),

@@ -33,8 +33,8 @@ func TestCancelReturnsBestSoFar(t *testing.T) {
 			if res == nil || res.Best == nil {
 				t.Fatal("no best point after cancel")
 			}
-			if res.Stop != StopCancelled {
-				t.Errorf("Stop = %q, want %q", res.Stop, StopCancelled)
+			if res.Stop != mdo.StopCancelled {
+				t.Errorf("Stop = %q, want %q", res.Stop, mdo.StopCancelled)
 			}
 			if calls != 2 {
 				t.Errorf("%d progress reports, want the run to stop after the 2nd", calls)
@@ -80,7 +80,7 @@ func TestCancelLatency(t *testing.T) {
 		if err != nil {
 			t.Fatalf("%s: %v", o.Name(), err)
 		}
-		if res.Stop != StopCancelled || (res.Evaluations > 0 && res.Best == nil) {
+		if res.Stop != mdo.StopCancelled || (res.Evaluations > 0 && res.Best == nil) {
 			t.Fatalf("%s: stop %q after %d evaluations, best %v; want cancelled with the best point so far", o.Name(), res.Stop, res.Evaluations, res.Best)
 		}
 		if lat := returned.Sub(cancelled); lat > 100*time.Millisecond {
@@ -101,7 +101,7 @@ func TestDeadline(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if res.Stop != StopDeadline {
-		t.Errorf("Stop = %q, want %q", res.Stop, StopDeadline)
+	if res.Stop != mdo.StopDeadline {
+		t.Errorf("Stop = %q, want %q", res.Stop, mdo.StopDeadline)
 	}
 }

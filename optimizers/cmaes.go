@@ -98,13 +98,13 @@ func (o CMAES) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error) 
 			repair.steps = or(o.GradientSteps, 3)
 		}
 	}
-	inner := func(x0 []float64, m *merit, outer int) (*mdo.Evaluation, string, error) {
+	inner := func(x0 []float64, m *merit, outer int) (*mdo.Evaluation, mdo.StopReason, error) {
 		sigma := math.Max(step*math.Pow(1.0/3, float64(outer)), step/10)
 		// gonum samples from N(mean, C) with C the Cholesky factor's
 		// matrix, I by default; the step enters through C = σ² I.
 		var chol mat.Cholesky
 		if !chol.Factorize(mat.NewDiagDense(dim, fill(dim, sigma*sigma))) {
-			return nil, "", fmt.Errorf("optimizers: CMAES: step %g gives no covariance", sigma)
+			return nil, mdo.NotStopped, fmt.Errorf("optimizers: CMAES: step %g gives no covariance", sigma)
 		}
 		cma := &optimize.CmaEsChol{
 			InitStepSize: sigma,

@@ -27,7 +27,7 @@ func allOptimizers() []Optimizer {
 // sameResult reports the first difference between two results.
 func sameResult(a, b *mdo.Result) string {
 	if a.Stop != b.Stop {
-		return "stop " + a.Stop + " vs " + b.Stop
+		return "stop " + a.Stop.String() + " vs " + b.Stop.String()
 	}
 	if a.EvalCounters != b.EvalCounters {
 		return "counters differ"

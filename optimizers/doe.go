@@ -214,10 +214,10 @@ func runDesignSpecs(ctx context.Context, s *mdo.Study, name string, settings any
 	for start := 0; start < len(xs); start += b {
 		end := int(math.Min(float64(start+b), float64(len(xs))))
 		_, stop, err := r.evaluate(xs[start:end])
-		if stop != "" || err != nil {
+		if stop != mdo.NotStopped || err != nil {
 			return r.finish(stop, err)
 		}
 		r.iteration()
 	}
-	return r.finish(StopComplete, nil)
+	return r.finish(mdo.StopComplete, nil)
 }

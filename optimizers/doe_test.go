@@ -42,7 +42,7 @@ func designPoints(t *testing.T, o Optimizer, d int) ([][]float64, *mdo.Result) {
 func TestLatinHypercubeStrata(t *testing.T) {
 	const n = 40
 	xs, res := designPoints(t, LatinHypercube{Samples: n, BatchSize: 7}, 3)
-	if len(xs) != n || res.Evaluations != n || res.Stop != StopComplete {
+	if len(xs) != n || res.Evaluations != n || res.Stop != mdo.StopComplete {
 		t.Fatalf("%d points, %d evaluations, stop %q; want %d, %d, complete", len(xs), res.Evaluations, res.Stop, n, n)
 	}
 	for k := 0; k < 3; k++ {
@@ -100,7 +100,7 @@ func TestRandomDesign(t *testing.T) {
 // A full factorial evaluates every combination of levels, bounds included.
 func TestFullFactorial(t *testing.T) {
 	xs, res := designPoints(t, FullFactorial{Levels: 3, VariableLevels: map[string]int{"x2": 5}}, 2)
-	if len(xs) != 15 || res.Stop != StopComplete {
+	if len(xs) != 15 || res.Stop != mdo.StopComplete {
 		t.Fatalf("%d points, want 3 × 5 = 15", len(xs))
 	}
 	var key []string

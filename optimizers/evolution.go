@@ -96,7 +96,7 @@ type engine struct {
 	r       *run
 	dim     int
 	pending []*member
-	stop    string
+	stop    mdo.StopReason
 	err     error
 	// generation is called for each generation after the first with the
 	// population (sorted best first) and the random source; it returns
@@ -126,7 +126,7 @@ func (e *engine) evaluateAll(ms []*member) error {
 		e.err = err
 		return err
 	}
-	if stop != "" {
+	if stop != mdo.NotStopped {
 		e.stop = stop
 		return errStop
 	}
@@ -229,7 +229,7 @@ func (e *engine) Validate() error { return nil }
 // evolve runs eaopt's GA engine with popSize members for generations
 // generations (the first population counts as generation 0) and returns
 // why it stopped.
-func (e *engine) evolve(popSize, generations int, rng *rand.Rand) (string, error) {
+func (e *engine) evolve(popSize, generations int, rng *rand.Rand) (mdo.StopReason, error) {
 	e.dim = e.r.ev.Dim()
 	if e.relax > 0 && hasEquality(e.r.ev.Constraints()) {
 		e.relaxGens = int(math.Ceil(e.relax * float64(generations)))
@@ -247,11 +247,11 @@ func (e *engine) evolve(popSize, generations int, rng *rand.Rand) (string, error
 			if err := e.r.ctx.Err(); err != nil {
 				e.stop = ctxStop(err)
 			}
-			return e.stop != ""
+			return e.stop != mdo.NotStopped
 		},
 	}.NewGA()
 	if err != nil {
-		return "", err
+		return mdo.NotStopped, err
 	}
 	err = ga.Minimize(func(rng *rand.Rand) eaopt.Genome {
 		m := e.initial(rng)
@@ -261,13 +261,13 @@ func (e *engine) evolve(popSize, generations int, rng *rand.Rand) (string, error
 	})
 	switch {
 	case e.err != nil:
-		return "", e.err
-	case errors.Is(err, errStop) || e.stop != "":
+		return mdo.NotStopped, e.err
+	case errors.Is(err, errStop) || e.stop != mdo.NotStopped:
 		return e.stop, nil
 	case err != nil:
-		return "", err
+		return mdo.NotStopped, err
 	}
-	return StopIterations, nil
+	return mdo.StopIterations, nil
 }
 
 // newMember returns a member at x, tied to the engine.

@@ -5,6 +5,8 @@ import (
 	"math"
 
 	"gonum.org/v1/gonum/optimize"
+
+	"couplet/mdo"
 )
 
 // The gonum methods know no bounds. They search an unbounded space u that
@@ -38,12 +40,12 @@ func unboxPoint(x []float64) []float64 {
 }
 
 // batchFunc answers a batch of points of the method's space with function
-// values; a non-empty stop or an error ends the run.
-type batchFunc func(us [][]float64) (fs []float64, stop string, err error)
+// values; a stop reason other than mdo.NotStopped or an error ends the run.
+type batchFunc func(us [][]float64) (fs []float64, stop mdo.StopReason, err error)
 
-// majorFunc is told of each major iteration of the method; a non-empty
-// return ends the run.
-type majorFunc func(loc *optimize.Location) string
+// majorFunc is told of each major iteration of the method; a returned
+// reason other than mdo.NotStopped ends the run.
+type majorFunc func(loc *optimize.Location) mdo.StopReason
 
 // drive runs a gonum optimize.Method through its task protocol, the way
 // optimize.Minimize does, but evaluates the function itself: it collects
@@ -51,7 +53,7 @@ type majorFunc func(loc *optimize.Location) string
 // are out (a CMA-ES population, a single Nelder–Mead point) and answers
 // them as one batch. Everything happens in the order the method asks, so
 // the run is deterministic. It returns why the run stopped.
-func drive(method optimize.Method, u0 []float64, tasks int, eval batchFunc, major majorFunc) (stop string, err error) {
+func drive(method optimize.Method, u0 []float64, tasks int, eval batchFunc, major majorFunc) (stop mdo.StopReason, err error) {
 	dim := len(u0)
 	n := method.Init(dim, tasks)
 	if n < 1 {
@@ -82,19 +84,19 @@ loop:
 		if !ok {
 			select {
 			case p := <-panicked:
-				return "", fmt.Errorf("optimizers: the gonum method failed: %v", p)
+				return mdo.NotStopped, fmt.Errorf("optimizers: the gonum method failed: %v", p)
 			default:
 			}
-			return StopConverged, nil
+			return mdo.StopConverged, nil
 		}
 		switch {
 		case t.Op == optimize.MajorIteration:
-			if stop = major(t.Location); stop != "" {
+			if stop = major(t.Location); stop != mdo.NotStopped {
 				break loop
 			}
 			res <- t
 		case t.Op == optimize.MethodDone:
-			stop = StopConverged
+			stop = mdo.StopConverged
 			break loop
 		case t.Op == optimize.NoOperation:
 			res <- t
@@ -109,7 +111,7 @@ loop:
 			}
 			var fs []float64
 			fs, stop, err = eval(us)
-			if stop != "" || err != nil {
+			if stop != mdo.NotStopped || err != nil {
 				break loop
 			}
 			for i := range pending {

@@ -68,7 +68,7 @@ func (o NelderMead) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, er
 	tol := or(o.Tolerance, 1e-9)
 	stall := or(o.StallIterations, 30*dim)
 	size := or(o.SimplexSize, 0.05)
-	inner := func(x0 []float64, m *merit, outer int) (*mdo.Evaluation, string, error) {
+	inner := func(x0 []float64, m *merit, outer int) (*mdo.Evaluation, mdo.StopReason, error) {
 		s := math.Max(size*math.Pow(0.5, float64(outer)), size/10)
 		return gonumInner(r, &optimize.NelderMead{SimplexSize: s}, 1, x0, m, tol, stall, nil)
 	}
@@ -83,20 +83,20 @@ func (o NelderMead) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, er
 // gradient-based repair before its merit is taken (the method still sees
 // its own sample, with the merit of the repaired point: Baldwinian
 // repair).
-func gonumInner(r *run, method optimize.Method, tasks int, x0 []float64, m *merit, tol float64, stall int, repair *gradientRepair) (*mdo.Evaluation, string, error) {
+func gonumInner(r *run, method optimize.Method, tasks int, x0 []float64, m *merit, tol float64, stall int, repair *gradientRepair) (*mdo.Evaluation, mdo.StopReason, error) {
 	var best *mdo.Evaluation
 	bestV := math.Inf(1)
-	eval := func(us [][]float64) ([]float64, string, error) {
+	eval := func(us [][]float64) ([]float64, mdo.StopReason, error) {
 		xs := make([][]float64, len(us))
 		for i, u := range us {
 			xs[i] = boxPoint(u)
 		}
 		evs, stop, err := r.evaluate(xs)
-		if stop != "" || err != nil {
+		if stop != mdo.NotStopped || err != nil {
 			return nil, stop, err
 		}
 		if repair != nil {
-			if stop, err := repairSamples(r, repair, xs, evs); stop != "" || err != nil {
+			if stop, err := repairSamples(r, repair, xs, evs); stop != mdo.NotStopped || err != nil {
 				return nil, stop, err
 			}
 		}
@@ -107,16 +107,16 @@ func gonumInner(r *run, method optimize.Method, tasks int, x0 []float64, m *meri
 				bestV, best = fs[i], ev
 			}
 		}
-		return fs, "", nil
+		return fs, mdo.NotStopped, nil
 	}
 	conv := &optimize.FunctionConverge{Absolute: tol, Relative: tol, Iterations: stall}
 	conv.Init(len(x0))
-	major := func(loc *optimize.Location) string {
+	major := func(loc *optimize.Location) mdo.StopReason {
 		r.iteration()
 		if conv.Converged(loc) != optimize.NotTerminated {
-			return StopConverged
+			return mdo.StopConverged
 		}
-		return ""
+		return mdo.NotStopped
 	}
 	stop, err := drive(method, unboxPoint(x0), tasks, eval, major)
 	return best, stop, err
@@ -124,7 +124,7 @@ func gonumInner(r *run, method optimize.Method, tasks int, x0 []float64, m *meri
 
 // repairSamples applies the gradient-based repair to the infeasible
 // samples, replacing their evaluations by those of the repaired points.
-func repairSamples(r *run, g *gradientRepair, xs [][]float64, evs []*mdo.Evaluation) (string, error) {
+func repairSamples(r *run, g *gradientRepair, xs [][]float64, evs []*mdo.Evaluation) (mdo.StopReason, error) {
 	var chosen []*member
 	var at []int
 	for i, ev := range evs {
@@ -133,7 +133,7 @@ func repairSamples(r *run, g *gradientRepair, xs [][]float64, evs []*mdo.Evaluat
 			at = append(at, i)
 		}
 	}
-	stop := ""
+	stop := mdo.NotStopped
 	eval := func(ms []*member) error {
 		pts := make([][]float64, len(ms))
 		for i, m := range ms {
@@ -143,7 +143,7 @@ func repairSamples(r *run, g *gradientRepair, xs [][]float64, evs []*mdo.Evaluat
 		if err != nil {
 			return err
 		}
-		if st != "" {
+		if st != mdo.NotStopped {
 			stop = st
 			return errStop
 		}
@@ -152,8 +152,8 @@ func repairSamples(r *run, g *gradientRepair, xs [][]float64, evs []*mdo.Evaluat
 		}
 		return nil
 	}
-	if err := g.newton(eval, r.ev.Dim(), chosen); err != nil && stop == "" {
-		return "", err
+	if err := g.newton(eval, r.ev.Dim(), chosen); err != nil && stop == mdo.NotStopped {
+		return mdo.NotStopped, err
 	}
 	for k, i := range at {
 		if compare(chosen[k].ev, evs[i]) <= 0 {

@@ -84,7 +84,7 @@ func (o NSGA2) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error) 
 		xs[i] = uniformPoint(dim, rng)
 	}
 	evs, stop, err := r.evaluate(xs)
-	if stop != "" || err != nil {
+	if stop != mdo.NotStopped || err != nil {
 		return r.finish(stop, err)
 	}
 	pop := make([]nsgaInd, n)
@@ -94,7 +94,7 @@ func (o NSGA2) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error) 
 	assignRankCrowding(pop)
 	r.iteration()
 	gens := or(o.Generations, 200)
-	stop = StopIterations
+	stop = mdo.StopIterations
 	for g := 0; g < gens; g++ {
 		off := make([][]float64, 0, n)
 		for len(off) < n {
@@ -109,10 +109,10 @@ func (o NSGA2) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error) 
 			off = append(off, c1, c2)
 		}
 		oevs, st, err := r.evaluate(off)
-		if st != "" || err != nil {
+		if st != mdo.NotStopped || err != nil {
 			stop = st
 			if err != nil {
-				return r.finish("", err)
+				return r.finish(mdo.NotStopped, err)
 			}
 			break
 		}

@@ -29,8 +29,8 @@ import (
 // flow from s.Seed; the same study and seed give the same Result, bit for
 // bit, whatever s.Workers. When ctx is cancelled (or its deadline passes)
 // Minimize stops as soon as the running analyses return and gives the
-// best point found so far, with Result.Stop = StopCancelled (or
-// StopDeadline) and a nil error: a cancel is a normal way to stop, like an
+// best point found so far, with Result.Stop = mdo.StopCancelled (or
+// mdo.StopDeadline) and a nil error: a cancel is a normal way to stop, like an
 // exhausted budget. An error is returned for bad settings, a study that
 // does not validate or that the method cannot handle, and a failing
 // recorder (the Result is then still returned when one exists).
@@ -40,22 +40,6 @@ type Optimizer interface {
 	// Minimize runs the method on the study.
 	Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error)
 }
-
-// Reasons an optimiser stops, as given in mdo.Result.Stop.
-const (
-	// StopConverged: the method's own convergence test was met.
-	StopConverged = "converged"
-	// StopBudget: the evaluation budget (MaxEvaluations) was spent.
-	StopBudget = "budget"
-	// StopIterations: the number of generations or iterations was reached.
-	StopIterations = "iterations"
-	// StopComplete: a design of experiments evaluated all its points.
-	StopComplete = "complete"
-	// StopCancelled: the context was cancelled.
-	StopCancelled = "cancelled"
-	// StopDeadline: the context's deadline passed.
-	StopDeadline = "deadline"
-)
 
 // run is the state shared by every optimiser during one Minimize call.
 type run struct {
@@ -125,32 +109,32 @@ func (r *run) refuseMultiObjective() error {
 }
 
 // ctxStop returns the stop reason for a context error.
-func ctxStop(err error) string {
+func ctxStop(err error) mdo.StopReason {
 	if errors.Is(err, context.DeadlineExceeded) {
-		return StopDeadline
+		return mdo.StopDeadline
 	}
-	return StopCancelled
+	return mdo.StopCancelled
 }
 
-// evaluate answers a batch of unit-box points. It returns a non-empty stop
-// reason when the batch would exceed the evaluation budget (nothing is
+// evaluate answers a batch of unit-box points. It returns a stop reason
+// other than mdo.NotStopped when the batch would exceed the evaluation budget (nothing is
 // evaluated then) or when the context was cancelled during it; err is a
 // recorder failure.
-func (r *run) evaluate(xs [][]float64) ([]*mdo.Evaluation, string, error) {
+func (r *run) evaluate(xs [][]float64) ([]*mdo.Evaluation, mdo.StopReason, error) {
 	if err := r.ctx.Err(); err != nil {
 		return nil, ctxStop(err), nil
 	}
 	if r.maxEvals > 0 && r.ev.Counters().Evaluations+len(xs) > r.maxEvals {
-		return nil, StopBudget, nil
+		return nil, mdo.StopBudget, nil
 	}
 	evs, err := r.ev.Evaluate(r.ctx, xs)
 	if cerr := r.ctx.Err(); cerr != nil {
 		return evs, ctxStop(cerr), nil
 	}
 	if err != nil {
-		return evs, "", fmt.Errorf("optimizers: %s: %w", r.name, err)
+		return evs, mdo.NotStopped, fmt.Errorf("optimizers: %s: %w", r.name, err)
 	}
-	return evs, "", nil
+	return evs, mdo.NotStopped, nil
 }
 
 // iteration reports the end of an optimiser iteration.
@@ -160,7 +144,7 @@ func (r *run) iteration() {
 }
 
 // finish builds the Result.
-func (r *run) finish(stop string, err error) (*mdo.Result, error) {
+func (r *run) finish(stop mdo.StopReason, err error) (*mdo.Result, error) {
 	res, ferr := r.ev.Finish(stop)
 	if err != nil {
 		return res, err

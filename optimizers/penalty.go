@@ -209,11 +209,11 @@ func (m *merit) update(ev *mdo.Evaluation) {
 // innerFunc runs one inner minimisation from the box point x0 with the
 // given merit; it returns the best evaluation by merit, why it stopped and
 // an error.
-type innerFunc func(x0 []float64, m *merit, outer int) (best *mdo.Evaluation, stop string, err error)
+type innerFunc func(x0 []float64, m *merit, outer int) (best *mdo.Evaluation, stop mdo.StopReason, err error)
 
 // outerLoop runs the penalty or augmented-Lagrangian outer iterations
 // around inner minimisations, starting from the box point x0.
-func outerLoop(r *run, p Penalty, x0 []float64, inner innerFunc) (string, error) {
+func outerLoop(r *run, p Penalty, x0 []float64, inner innerFunc) (mdo.StopReason, error) {
 	m := newMerit(p, r.ev.Constraints())
 	outer := or(p.OuterIterations, 10)
 	if r.ev.NumConstraints() == 0 && p.OuterIterations == 0 {
@@ -223,17 +223,17 @@ func outerLoop(r *run, p Penalty, x0 []float64, inner innerFunc) (string, error)
 	prevF := math.NaN()
 	for k := 0; k < outer; k++ {
 		best, stop, err := inner(x, m, k)
-		if err != nil || (stop != "" && stop != StopConverged) {
+		if err != nil || (stop != mdo.NotStopped && stop != mdo.StopConverged) {
 			return stop, err
 		}
 		if best == nil {
-			return StopConverged, nil
+			return mdo.StopConverged, nil
 		}
 		x = append(x[:0], best.X...)
 		m.update(best)
 		f := best.F[0]
 		if best.Feasible && k > 0 && math.Abs(f-prevF) <= or(p.Tolerance, 1e-7)*math.Max(1, math.Abs(f)) {
-			return StopConverged, nil
+			return mdo.StopConverged, nil
 		}
 		if best.Feasible {
 			prevF = f
@@ -241,5 +241,5 @@ func outerLoop(r *run, p Penalty, x0 []float64, inner innerFunc) (string, error)
 			prevF = math.NaN()
 		}
 	}
-	return StopIterations, nil
+	return mdo.StopIterations, nil
 }

@@ -235,7 +235,7 @@ func (o *RunOutputs) WriteArtifacts(dir string, rec *RunRecord) error {
 }
 
 // isDOE reports a design of experiments (its result stops "complete").
-func isDOE(r *mdo.Result) bool { return r.Stop == "complete" }
+func isDOE(r *mdo.Result) bool { return r.Stop == mdo.StopComplete }
 
 // Close closes the stores.
 func (o *RunOutputs) Close() error {

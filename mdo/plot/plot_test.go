@@ -109,7 +109,7 @@ func sellarRun(t *testing.T, n int, objs ...mdo.Objective) (*mdo.Result, []*mdo.
 	if err != nil {
 		t.Fatal(err)
 	}
-	r, err := ev.Finish("budget")
+	r, err := ev.Finish(mdo.StopBudget)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -22,7 +22,7 @@ func ExampleWrite() {
 		e, _ := ev.EvaluateOne(context.Background(), []float64{float64(i) / 20, 0.6, 0.1})
 		evs = append(evs, e)
 	}
-	r, _ := ev.Finish("budget")
+	r, _ := ev.Finish(mdo.StopBudget)
 	top, err := plot.TopView(plot.Aircraft{WingSpan: 16, WingRootChord: 4.5, WingTipChord: 1.2, WingSweepLE: 35, WingApex: 10,
 		FuselageLength: 26, FuselageDiameter: 2.2})
 	if err != nil {

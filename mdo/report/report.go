@@ -170,7 +170,7 @@ func build(r *mdo.Result, opt Options) (*view, error) {
 		{"optimiser", r.Optimizer},
 		{"formulation", r.Formulation.String()},
 		{"seed", strconv.FormatUint(r.Seed, 10)},
-		{"stopped", r.Stop},
+		{"stopped", r.Stop.String()},
 		{"evaluations", fmt.Sprintf("%d answered: %d analysed, %d from the cache, %d restored from a store, %d failed", r.Evaluations, r.Analyses, r.CacheHits, r.Restored, r.Failed)},
 		{"work", fmt.Sprintf("%d discipline calls, %d coupling iterations", r.DisciplineCalls, r.CouplingIterations)},
 		{"started", r.Started.UTC().Format(time.RFC3339)},

@@ -45,7 +45,7 @@ func sellarResult(t testing.TB, n int, objs ...mdo.Objective) (*mdo.Result, []*m
 	if err != nil {
 		t.Fatal(err)
 	}
-	r, err := ev.Finish("budget")
+	r, err := ev.Finish(mdo.StopBudget)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -37,7 +37,7 @@ func TestWriteRun(t *testing.T) {
 			t.Fatal(err)
 		}
 	}
-	r, err := ev.Finish("budget")
+	r, err := ev.Finish(mdo.StopBudget)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -31,7 +31,7 @@ func runGrid(rec mdo.Recorder, restore []*mdo.Evaluation, n int) (*mdo.Result, e
 			return nil, err
 		}
 	}
-	return ev.Finish("budget")
+	return ev.Finish(mdo.StopBudget)
 }
 
 // A run records every evaluation into results.db, then exports them.

@@ -109,7 +109,7 @@ func runSellar(t *testing.T, st *mdo.Study, n int) *mdo.Result {
 	if _, err := ev.Evaluate(context.Background(), grid(n, 3)); err != nil {
 		t.Fatal(err)
 	}
-	r, err := ev.Finish("budget")
+	r, err := ev.Finish(mdo.StopBudget)
 	if err != nil {
 		t.Fatal(err)
 	}

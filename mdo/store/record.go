@@ -353,7 +353,7 @@ func (s *Store) End(r *mdo.Result) error {
 	now := time.Now().UTC()
 	err := s.inTx(func() error {
 		var best any
-		stop, elapsed := "", 0.0
+		stop, elapsed := mdo.NotStopped, 0.0
 		var cnt mdo.EvalCounters
 		if r != nil {
 			if r.Best != nil {
@@ -363,7 +363,7 @@ func (s *Store) End(r *mdo.Result) error {
 		}
 		if _, err := s.conn.ExecContext(ctx, `UPDATE run SET ended = ?, stop = ?, elapsed_seconds = ?, evaluations = ?, analyses = ?, cache_hits = ?,
 			restored = ?, failed = ?, discipline_calls = ?, coupling_iterations = ?, best_id = ? WHERE id = 1`,
-			now.Format(time.RFC3339Nano), stop, elapsed, cnt.Evaluations, cnt.Analyses, cnt.CacheHits, cnt.Restored, cnt.Failed,
+			now.Format(time.RFC3339Nano), stop.String(), elapsed, cnt.Evaluations, cnt.Analyses, cnt.CacheHits, cnt.Restored, cnt.Failed,
 			cnt.DisciplineCalls, cnt.CouplingIterations, best); err != nil {
 			return err
 		}

@@ -66,7 +66,7 @@ func randomSearch(ctx context.Context, ev *mdo.Evaluator, pause time.Duration) (
 			time.Sleep(pause)
 		}
 	}
-	return ev.Finish("budget")
+	return ev.Finish(mdo.StopBudget)
 }
 
 // TestCrashHelper is the helper process; it does nothing in a normal run.

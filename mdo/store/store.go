@@ -81,10 +81,10 @@ type RunMeta struct {
 	Formulation  string
 	Settings     map[string]string
 	Started      time.Time
-	// Ended is zero and Stop empty while the run has not ended (or when it
-	// was killed).
+	// Ended is zero and Stop mdo.NotStopped while the run has not ended
+	// (or when it was killed).
 	Ended time.Time
-	Stop  string
+	Stop  mdo.StopReason
 	// Rows is the number of evaluation rows.
 	Rows int
 }
@@ -293,7 +293,9 @@ func (s *Store) loadMeta() error {
 	if ended.Valid {
 		m.Ended, _ = time.Parse(time.RFC3339Nano, ended.String)
 	}
-	m.Stop = stop.String
+	if m.Stop, err = mdo.ParseStopReason(stop.String); err != nil {
+		return fmt.Errorf("store: %s: run.stop: %v: %w", s.path, err, ErrDamaged)
+	}
 	lay, err := s.loadLayout()
 	if err != nil {
 		return err

@@ -118,7 +118,7 @@ func TestRecordAndReload(t *testing.T) {
 		t.Fatal(err)
 	}
 	ev.Iteration(1)
-	res, err := ev.Finish("budget")
+	res, err := ev.Finish(mdo.StopBudget)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -144,7 +144,7 @@ func TestRecordAndReload(t *testing.T) {
 		{"script hash", meta.ScriptSHA256, ScriptHash(sellarScript)},
 		{"tool version", meta.ToolVersion, "test-1"},
 		{"optimizer", meta.Optimizer, "grid"},
-		{"stop", meta.Stop, "budget"},
+		{"stop", meta.Stop, mdo.StopBudget},
 		{"settings", meta.Settings["points"], "40"},
 		{"rows", meta.Rows, 40},
 		{"formulation", meta.Formulation, "MDF"},
@@ -310,22 +310,31 @@ func TestOptionsValidation(t *testing.T) {
 	}
 }
 
-func TestBadFiles(t *testing.T) {
-	dir := t.TempDir()
-	// a real store, closed, to truncate
-	good := filepath.Join(dir, "good.db")
-	s, err := Create(good, Options{})
+// endedRun writes a closed store at path holding a Sellar run of n
+// evaluations that ended with stop.
+func endedRun(t *testing.T, path string, n int, stop mdo.StopReason) {
+	t.Helper()
+	s, err := Create(path, Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
 	ev := sellarEvaluator(t, s, 1, sellarScript)
-	if _, err := ev.Evaluate(context.Background(), grid(300, 3)); err != nil {
+	if _, err := ev.Evaluate(context.Background(), grid(n, 3)); err != nil {
 		t.Fatal(err)
 	}
-	if _, err := ev.Finish("budget"); err != nil {
+	if _, err := ev.Finish(stop); err != nil {
 		t.Fatal(err)
 	}
-	s.Close()
+	if err := s.Close(); err != nil {
+		t.Fatal(err)
+	}
+}
+
+func TestBadFiles(t *testing.T) {
+	dir := t.TempDir()
+	// a real store, closed, to truncate
+	good := filepath.Join(dir, "good.db")
+	endedRun(t, good, 300, mdo.StopBudget)
 	data, err := os.ReadFile(good)
 	if err != nil {
 		t.Fatal(err)
@@ -495,6 +504,25 @@ func TestDamagedRows(t *testing.T) {
 		if !errors.Is(err, ErrDamaged) || !strings.Contains(err.Error(), tc.want) || !strings.Contains(err.Error(), "evaluation 2") {
 			t.Errorf("%s: err = %v; want ErrDamaged naming evaluation 2 and saying %q", tc.name, err, tc.want)
 		}
+	}
+}
+
+// A run row whose stop text is none of mdo's stop reasons is a damaged
+// store, named as such, not a silently unknown reason.
+func TestDamagedStop(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "d.db")
+	endedRun(t, path, 2, mdo.StopComplete)
+	db, err := sql.Open("sqlite", path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, err := db.Exec(`UPDATE run SET stop = 'finished' WHERE id = 1`); err != nil {
+		t.Fatal(err)
+	}
+	db.Close()
+	_, err = Open(path)
+	if !errors.Is(err, ErrDamaged) || !strings.Contains(err.Error(), `"finished"`) || !strings.Contains(err.Error(), "run.stop") {
+		t.Errorf("Open with run.stop = 'finished': err = %v; want ErrDamaged naming run.stop and the text", err)
 	}
 }
 

@@ -101,7 +101,7 @@ func NewSummary(r *mdo.Result, opt SummaryOptions) Summary {
 	s := Summary{
 		Study: r.Study, Seed: r.Seed, Optimizer: r.Optimizer, Formulation: r.Formulation.String(),
 		Evaluations: r.Analyses + r.Restored, Requests: r.Evaluations, Analyses: r.Analyses,
-		CacheHits: r.CacheHits, Restored: r.Restored, Failed: r.Failed, Stop: r.Stop, ToolVersion: opt.ToolVersion,
+		CacheHits: r.CacheHits, Restored: r.Restored, Failed: r.Failed, Stop: r.Stop.String(), ToolVersion: opt.ToolVersion,
 	}
 	if opt.Script != "" {
 		s.ScriptSHA256 = ScriptHash(opt.Script)

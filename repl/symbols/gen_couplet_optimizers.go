@@ -30,12 +30,6 @@ func init() {
 		"SellarIDF":           reflect.ValueOf(optimizers.SellarIDF),
 		"SellarMDF":           reflect.ValueOf(optimizers.SellarMDF),
 		"SellarOptimum":       reflect.ValueOf(constant.MakeFromLiteral("3.183390000000000000061894933622852477128617465496063232421875", token.FLOAT, 0)),
-		"StopBudget":          reflect.ValueOf(constant.MakeFromLiteral("\"budget\"", token.STRING, 0)),
-		"StopCancelled":       reflect.ValueOf(constant.MakeFromLiteral("\"cancelled\"", token.STRING, 0)),
-		"StopComplete":        reflect.ValueOf(constant.MakeFromLiteral("\"complete\"", token.STRING, 0)),
-		"StopConverged":       reflect.ValueOf(constant.MakeFromLiteral("\"converged\"", token.STRING, 0)),
-		"StopDeadline":        reflect.ValueOf(constant.MakeFromLiteral("\"deadline\"", token.STRING, 0)),
-		"StopIterations":      reflect.ValueOf(constant.MakeFromLiteral("\"iterations\"", token.STRING, 0)),
 		"ZDT1":                reflect.ValueOf(optimizers.ZDT1),
 		"ZDT1Hypervolume":     reflect.ValueOf(constant.MakeFromLiteral("0.6666666666666666666847367028747584072334575466811656951904296875", token.FLOAT, 0)),
 
