@@ -6,8 +6,9 @@ import "couplet/mdo"
 // neutral points of the aircraft at take-off (Mach LowSpeedMach, with
 // aero.cla_low_speed) and in cruise (aero.cla_cruise), and the downwash
 // gradient at the tail in cruise, by the method of stability.go (wing,
-// Munk's fuselage term, horizontal tail with the far-wake downwash and
-// the supersonic shift of the aerodynamic centres). They depend on the
+// Munk's fuselage term, horizontal tail with the lifting-line downwash
+// subsonic and linear theory's reduced downwash supersonic, the
+// supersonic shift of the aerodynamic centres). They depend on the
 // design parameters only, so the discipline runs once ahead of the
 // coupled loop; stability turns them into static margins with the centres
 // of gravity of weights.
@@ -127,6 +128,6 @@ func (n *NeutralPoints) Compute(in, out []float64) error {
 	np, _ := cr.NeutralPoint()
 	out[npOutNP] = np
 	out[npOutNPLow] = npLow
-	out[npOutDownwash] = DownwashGradient(cr.CLaWing, cr.WingAspect)
+	out[npOutDownwash] = DownwashGradient(cr.CLaWing, cr.WingAspect, mach)
 	return nil
 }

@@ -16,16 +16,29 @@ package disciplines
 // the destabilising side. The fuselage volume is 0.7·(π/4)·D²·L (common
 // practice, no source).
 //
-// Downwash: dε/dα = 2·CLα,w/(π·A), the far-wake downwash of the wing's
-// trailing vortex sheet (lifting-line theory); it is used at supersonic
-// speed too, with the (lower) supersonic lift slope, since the trailing
-// vortex system and so the far-wake downwash do not depend on Mach number
-// (documented assumption). Limited to 0.95.
+// Downwash at the tail: below Mach 0.9, dε/dα = 2·CLα,w/(π·A), the
+// far-wake downwash of the wing's trailing vortex sheet (lifting-line
+// theory). Above Mach 1.3, dε/dα = 1.62·CLα,w/(π·A), the reduced downwash
+// behind a wing in supersonic flow that linear theory gives (a tail inside
+// the wing's Mach cones sees only part of the trailing vortex system;
+// the coefficient 1.62 in the form D. P. Raymer, "Aircraft Design: A
+// Conceptual Approach", ch. 16, gives it; from memory), with the
+// supersonic lift slope of linear theory (LiftSlopeSupersonic). Between,
+// the coefficient falls from 2 to 1.62 by the smooth step of the
+// aerodynamic centre. Limited to 0.95. The tail's own effectiveness is its
+// lift slope at the same Mach number, by the same linear theory.
 //
-// Aerodynamic centre: a quarter of the MAC subsonic, moving to mid-chord
-// (Ackeret: centre of pressure at mid-chord in linear supersonic theory)
-// by a smooth step between Mach 0.9 and 1.3 (common practice, no source);
-// the tail's centre moves likewise on its own MAC.
+// Aerodynamic centre: a quarter of the MAC subsonic, 45 % of the MAC at
+// and above Mach 1.3. Linear supersonic theory loads a trapezoidal wing
+// nearly uniformly (Ackeret's flat plate: centre of pressure at mid-chord;
+// the conical-flow delta: at the area centroid, which for any trapezoid is
+// at mid-MAC), less the lift lost in the tip Mach cones, which lie on the
+// aft part of the tips and so move the centre forward of 50 %. D. P.
+// Raymer, "Aircraft Design: A Conceptual Approach", ch. 16 (from memory),
+// puts the supersonic aerodynamic centre at about 40–50 % MAC, an aft
+// shift of 0.15–0.25 MAC (SupersonicACShiftBand); 45 % is the middle of
+// that band. Between Mach 0.9 and 1.3 a smooth (cubic) step (common
+// practice, no source); the tail's centre moves likewise on its own MAC.
 
 import (
 	"math"
@@ -63,24 +76,42 @@ func MunkFuselageTerm(l, d float64) (float64, error) {
 	return 2 * (k2 - k1) * 0.7 * math.Pi / 4 * d * d * l, nil
 }
 
-// DownwashGradient returns dε/dα = 2·CLα,w/(π·A), limited to 0.95.
-func DownwashGradient(claWing, aspect float64) float64 {
-	return math.Min(2*claWing/(math.Pi*aspect), 0.95)
+// Downwash coefficients k of dε/dα = k·CLα,w/(π·A): lifting-line far
+// wake subsonic, Raymer's supersonic value (from memory) above Mach 1.3.
+const (
+	downwashSubsonic   = 2.0
+	downwashSupersonic = 1.62
+)
+
+// DownwashGradient returns dε/dα at the tail for a wing of lift slope
+// claWing [1/rad] (at mach) and aspect ratio A: k·CLα,w/(π·A) with k = 2
+// below Mach 0.9, 1.62 above Mach 1.3 and the smooth step of ACFraction
+// between; limited to 0.95.
+func DownwashGradient(claWing, aspect, mach float64) float64 {
+	k := blend(mach, transonicStart, transonicEnd, downwashSubsonic, downwashSupersonic)
+	return math.Min(k*claWing/(math.Pi*aspect), 0.95)
 }
 
+// Mach numbers of the transonic step of the aerodynamic centre and the
+// downwash coefficient.
+const (
+	transonicStart = 0.9
+	transonicEnd   = 1.3
+)
+
 // ACFraction returns the aerodynamic centre as a fraction of the MAC: 0.25
-// at and below Mach 0.9, 0.5 at and above Mach 1.3, a smooth (cubic)
-// step between (common practice, no source).
+// at and below Mach 0.9, 0.45 (the middle of Raymer's supersonic band, see
+// SupersonicACShiftBand) at and above Mach 1.3, a smooth (cubic) step
+// between (common practice, no source).
 func ACFraction(mach float64) float64 {
-	x := (mach - 0.9) / 0.4
-	switch {
-	case x <= 0:
-		return 0.25
-	case x >= 1:
-		return 0.5
-	}
-	return 0.25 + 0.25*x*x*(3-2*x)
+	return blend(mach, transonicStart, transonicEnd, 0.25, 0.45)
 }
+
+// SupersonicACShiftBand returns the band of the aft shift of a wing's
+// aerodynamic centre from subsonic to supersonic flow, as fractions of
+// the MAC: from about 25 % to about 40–50 % MAC (D. P. Raymer, "Aircraft
+// Design: A Conceptual Approach", ch. 16; from memory).
+func SupersonicACShiftBand() (lo, hi float64) { return 0.15, 0.25 }
 
 // Longitudinal is the layout data of a neutral-point estimate. Lengths are
 // x from the nose [m].
@@ -102,7 +133,7 @@ func (c Longitudinal) NeutralPoint() (xnp, cla float64) {
 	ac := ACFraction(c.Mach)
 	xw := c.MACX + ac*c.MAC
 	xh := c.MACX + 0.25*c.MAC + c.TailArm + (ac-0.25)*c.TailMAC
-	de := DownwashGradient(c.CLaWing, c.WingAspect)
+	de := DownwashGradient(c.CLaWing, c.WingAspect, c.Mach)
 	th := c.TailEfficiency * c.CLaTail * c.TailArea / c.WingArea * (1 - de)
 	cla = c.CLaWing + th
 	xnp = (c.CLaWing*xw + th*xh - c.FuselageTerm/c.WingArea) / cla

@@ -22,8 +22,8 @@ func ExampleLongitudinal_NeutralPoint() {
 	fmt.Printf("static margin with the CG at 18.2 m: %.3f, %.3f\n",
 		disciplines.StaticMargin(low, 18.2, 6.9), disciplines.StaticMargin(cruise, 18.2, 6.9))
 	// Output:
-	// x_np 18.53 m at take-off, 20.25 m in cruise
-	// static margin with the CG at 18.2 m: 0.048, 0.297
+	// x_np 18.53 m at take-off, 20.08 m in cruise
+	// static margin with the CG at 18.2 m: 0.048, 0.272
 }
 
 // The root wing box sized for the ultimate bending moment, and its

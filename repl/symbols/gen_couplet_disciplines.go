@@ -130,6 +130,7 @@ func init() {
 		"StaticMargin":               reflect.ValueOf(disciplines.StaticMargin),
 		"SubsonicGeometryOptions":    reflect.ValueOf(disciplines.SubsonicGeometryOptions),
 		"SubsonicLeadingEdge":        reflect.ValueOf(disciplines.SubsonicLeadingEdge),
+		"SupersonicACShiftBand":      reflect.ValueOf(disciplines.SupersonicACShiftBand),
 		"SupersonicDragDueToLift":    reflect.ValueOf(disciplines.SupersonicDragDueToLift),
 		"SutherlandBeta":             reflect.ValueOf(constant.MakeFromLiteral("1.458000000000000000023488117748243341614822199403533886652439833e-06", token.FLOAT, 0)),
 		"SutherlandS":                reflect.ValueOf(constant.MakeFromLiteral("110.400000000000000001387778780781445675529539585113525390625", token.FLOAT, 0)),
