@@ -799,21 +799,15 @@ func (wd *WaveDragIntegrator) WaveDragWithPods(aw *AirframeWave, n *Nacelles) fl
 		lo, l := aw.Start[r], aw.Length[r]
 		if n.Count > 0 && n.Length > 0 {
 			for p := 0; p < n.n; p++ {
-				mult := 1.0
-				if n.Y[p] == 0 {
-					mult = 0.5
-				}
 				for side := -1.0; side <= 1; side += 2 {
-					x0 := n.X[p] - k*side*n.Y[p]
+					x0, share := n.cutInlet(p, side, k)
 					j := firstAbove(wd.xi[:], (x0-lo)/l)
 					for ; j < WaveStations; j++ {
 						x := lo + l*wd.xi[j]
 						if x >= x0+n.Length {
 							break
 						}
-						xi := (x - x0) / n.Length
-						bb := xi * (1 - xi)
-						sn := mult * amax * 16 * bb * bb
+						sn := share * n.podSection(amax, x0, x)
 						row := &wd.w[j]
 						for m := range a {
 							a[m] += row[m] * sn

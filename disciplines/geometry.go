@@ -150,9 +150,14 @@ func AisleWidth(passengers int) (low, high float64) {
 }
 
 // MaxSeatsAbreast returns the most seats one row may hold with the given
-// number of aisles: 14 CFR 25.817 allows at most three seats on each side
-// of an aisle, so 6 with one aisle and 12 with two (3 + 6 + 3).
+// number of aisles. With one aisle 14 CFR 25.817 allows at most three seats
+// on each side of it, so 6. The rule says nothing of cabins with two
+// aisles; the 12 this layout allows there (3 + 6 + 3) is our own
+// assumption of the widest twin-aisle row it lays out, not a rule.
 func MaxSeatsAbreast(aisles int) int { return 6 * aisles }
+
+// singleAisleRule is the refusal of 14 CFR 25.817 for a single-aisle row.
+const singleAisleRule = "at most 6 with a single aisle: 14 CFR 25.817 allows at most 3 seats on each side of a single aisle (set cabin.aisles = 2 for a twin-aisle cabin)"
 
 // Fuselage is a circular fuselage of a pointed nose cone, a cylindrical
 // cabin section and a tail cone.
@@ -194,12 +199,11 @@ func NewFuselage(c Cabin, noseFineness, tailFineness float64) (Fuselage, error) 
 		return Fuselage{}, inputErr("cabin.passengers", float64(c.Passengers), "", "integer in [1, 1000]")
 	case c.SeatsAbreast < 1 || c.SeatsAbreast > MaxSeatsAbreast(2):
 		return Fuselage{}, inputErr("cabin.seats_abreast", float64(c.SeatsAbreast), "",
-			"integer in [1, 12]: 14 CFR 25.817 allows at most 3 seats on each side of an aisle and this layout has at most two aisles")
+			"integer in [1, 12]: 14 CFR 25.817 allows at most 6 with one aisle; 12 with two aisles is this layout's own limit (an assumption, not a rule)")
 	case c.Aisles < 0 || c.Aisles > 2:
 		return Fuselage{}, inputErr("cabin.aisles", float64(c.Aisles), "", "0 (automatic), 1 or 2")
 	case c.Aisles > 0 && c.SeatsAbreast > MaxSeatsAbreast(c.Aisles):
-		return Fuselage{}, inputErr("cabin.seats_abreast", float64(c.SeatsAbreast), "",
-			"at most 6 with a single aisle: 14 CFR 25.817 allows at most 3 seats on each side of a single aisle")
+		return Fuselage{}, inputErr("cabin.seats_abreast", float64(c.SeatsAbreast), "", singleAisleRule)
 	case !(c.SeatPitch >= 0.5 && c.SeatPitch <= 2.5):
 		return Fuselage{}, inputErr("cabin.seat_pitch", c.SeatPitch, "m", "[0.5, 2.5]")
 	case !(c.SeatWidth >= 0.35 && c.SeatWidth <= 1.2):
@@ -575,9 +579,6 @@ func (c *Configuration) CutRange(k float64) (lo, hi float64) {
 	return lo, hi
 }
 
-// Pods have the net area profile Amax·16ξ²(1 − ξ)² (smooth at both
-// ends; mean 8/15 Amax).
-//
 // AreaDistribution writes into s[i] the cross-section area [m2] cut from
 // the aircraft by the plane x = x[i] + k·y, projected on the plane normal
 // to the flight direction: k = 0 gives the normal cuts of the transonic
@@ -586,10 +587,11 @@ func (c *Configuration) CutRange(k float64) (lo, hi float64) {
 // density of the wing along the cut (for the equivalent area due to
 // lift: the exposed planform's width along the cut weighted by a
 // parabolic chordwise loading 6ξ(1 − ξ), whose integral over x is the
-// exposed planform area [m]). The fuselage, the exposed wing and tails (parabolic-arc sections
-// integrated over spanwise strips) and the pods (net of the captured
-// stream tube) contribute; the fin is taken in the plane of symmetry.
-// Nothing is allocated.
+// exposed planform area [m]). The fuselage, the exposed wing and tails
+// (parabolic-arc sections integrated over spanwise strips) and the pods
+// (net of the captured
+// stream tube, podSection) contribute; the fin is taken in the plane of
+// symmetry. Nothing is allocated.
 func (c *Configuration) AreaDistribution(k float64, x, s, planform []float64) {
 	f := &c.Fuselage
 	for i, xi := range x {
@@ -610,19 +612,35 @@ func (c *Configuration) AreaDistribution(k float64, x, s, planform []float64) {
 	}
 	amax := nacelleNetArea(n.Diameter)
 	for p := 0; p < n.n; p++ {
-		mult := 1.0
-		if n.Y[p] == 0 {
-			mult = 0.5 // centre-line pod: counted once below over ±y
-		}
 		for side := -1.0; side <= 1; side += 2 {
-			x0 := n.X[p] - k*side*n.Y[p]
+			x0, share := n.cutInlet(p, side, k)
 			for i := firstAbove(x, x0); i < len(x) && x[i] < x0+n.Length; i++ {
-				xi := (x[i] - x0) / n.Length
-				b := xi * (1 - xi)
-				s[i] += mult * amax * 16 * b * b
+				s[i] += share * n.podSection(amax, x0, x[i])
 			}
 		}
 	}
+}
+
+// cutInlet returns where the cut x = x0 + k·y meets the inlet of pod
+// position p on the given side (−1 port, +1 starboard), and the share of
+// the pod that side carries: 1, or ½ for a centre-line pod, which both
+// sides count.
+func (n *Nacelles) cutInlet(p int, side, k float64) (x0, share float64) {
+	share = 1
+	if n.Y[p] == 0 {
+		share = 0.5
+	}
+	return n.X[p] - k*side*n.Y[p], share
+}
+
+// podSection returns the net area cut from a pod of net maximum section
+// amax [m2] with its inlet at x0, at x inside the pod: the profile
+// Amax·16ξ²(1 − ξ)², ξ = (x − x0)/length (smooth at both ends; mean
+// 8/15 Amax).
+func (n *Nacelles) podSection(amax, x0, x float64) float64 {
+	xi := (x - x0) / n.Length
+	b := xi * (1 - xi)
+	return amax * 16 * b * b
 }
 
 // addSurface adds the cross-section of a lifting surface's exposed part
@@ -643,7 +661,6 @@ func addSurface(w *Wing, apex, root float64, strips int, k float64, x, s, planfo
 	// the cuts of the two sides coincide when the slopes do (k = 0)
 	slopeL, slopeR := w.tanLE+k, w.tanLE-k // side −1, +1
 	mirror := slopeL == slopeR && math.Float64bits(slopeL) == math.Float64bits(slopeR)
-	q1, c1 := quintic(1), cubic(1)
 	for j := 0; j < strips; j++ {
 		ya := root + float64(j)*dy
 		yb := ya + dy
@@ -679,37 +696,10 @@ func addSurface(w *Wing, apex, root float64, strips int, k float64, x, s, planfo
 						}
 					}
 				}
-			} else if planform == nil {
-				addStripVolume(x, s, i, hi, xa, ch, d, a, mirror)
 			} else {
-				// quintic and cubic vanish at z <= 0 and are constant at z >= 1
-				for ; i < len(x) && x[i] < hi; i++ {
-					za := (x[i] - xa) / ch
-					zb := za - d
-					pa, pb := q1, 0.0
-					if za < 1 {
-						pa = quintic(za)
-					}
-					if zb > 0 {
-						pb = quintic(zb)
-					}
-					v := a * (pa - pb) / d
-					for n := 0; n < add; n++ {
-						s[i] += v
-					}
-					if planform != nil {
-						ca, cb := c1, 0.0
-						if za < 1 {
-							ca = cubic(za)
-						}
-						if zb > 0 {
-							cb = cubic(zb)
-						}
-						p := 6 * dy * (ca - cb) / d
-						for n := 0; n < add; n++ {
-							planform[i] += p
-						}
-					}
+				addStripVolume(x, s, i, hi, xa, ch, d, a, mirror)
+				if planform != nil {
+					addStripLift(x, planform, i, hi, xa, ch, d, dy, mirror)
 				}
 			}
 			if mirror {
@@ -738,6 +728,19 @@ func addStripVolume(x, s []float64, i int, hi, xa, ch, d, a float64, twice bool)
 		s[i] += v
 		if twice {
 			s[i] += v
+		}
+	}
+}
+
+// addStripLift is the lift-density part of the same loop: 6·Δy·[C(ξa) −
+// C(ξb)]/(ξa − ξb) with C the integral of ξ(1 − ξ) (cubic clamps ξ).
+func addStripLift(x, planform []float64, i int, hi, xa, ch, d, dy float64, twice bool) {
+	for ; i < len(x) && x[i] < hi; i++ {
+		za := (x[i] - xa) / ch
+		p := 6 * dy * (cubic(za) - cubic(za-d)) / d
+		planform[i] += p
+		if twice {
+			planform[i] += p
 		}
 	}
 }
@@ -846,6 +849,7 @@ const (
 	geoInPassengers
 	geoInAbreast
 	geoInPitch
+	geoInAisles
 	geoInNoseFineness
 	geoInTailFineness
 	geoInMach
@@ -965,7 +969,8 @@ func (g *Geometry) Inputs() []mdo.Var {
 	in[geoInHTailVolume] = mdo.Var{Name: "htail.volume", Unit: "-", Description: "horizontal-tail volume coefficient S_h·l_h/(S·c̄)", Default: 0.15, Min: 0, Max: 3}
 	in[geoInVTailVolume] = mdo.Var{Name: "vtail.volume", Unit: "-", Description: "vertical-tail volume coefficient S_v·l_v/(S·b)", Default: 0.05, Min: 0.005, Max: 1}
 	in[geoInPassengers] = mdo.Var{Name: "cabin.passengers", Unit: "-", Description: "passenger seats (rounded)", Default: 12, Min: 1, Max: 1000, Scale: 10}
-	in[geoInAbreast] = mdo.Var{Name: "cabin.seats_abreast", Unit: "-", Description: "seats per row (rounded; 25.817: at most 6 with one aisle, 12 with two)", Default: 2, Min: 1, Max: 12}
+	in[geoInAbreast] = mdo.Var{Name: "cabin.seats_abreast", Unit: "-", Description: "seats per row (rounded; 14 CFR 25.817: at most 6 with one aisle; 12 with two is this layout's limit)", Default: 2, Min: 1, Max: 12}
+	in[geoInAisles] = mdo.Var{Name: "cabin.aisles", Unit: "-", Description: "aisles of the cabin (rounded: 1 or 2)", Default: 1, Min: 1, Max: 2}
 	in[geoInPitch] = mdo.Var{Name: "cabin.seat_pitch", Unit: "m", Description: "seat pitch", Default: 0.95, Min: 0.5, Max: 2.5}
 	in[geoInNoseFineness] = mdo.Var{Name: "fuselage.nose_fineness", Unit: "-", Description: "nose cone length / fuselage diameter", Default: 3.5, Min: 0.5, Max: 10}
 	in[geoInTailFineness] = mdo.Var{Name: "fuselage.tail_fineness", Unit: "-", Description: "tail cone length / fuselage diameter", Default: 4, Min: 0.5, Max: 10}
@@ -1027,6 +1032,7 @@ func (g *Geometry) Layout(in []float64) (Configuration, error) {
 	}
 	f, err := NewFuselage(Cabin{
 		Passengers: roundCount(in[geoInPassengers]), SeatsAbreast: roundCount(in[geoInAbreast]),
+		Aisles:    roundCount(in[geoInAisles]),
 		SeatPitch: in[geoInPitch], SeatWidth: g.opts.SeatWidth,
 	}, in[geoInNoseFineness], in[geoInTailFineness])
 	if err != nil {
