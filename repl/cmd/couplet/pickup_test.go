@@ -8,6 +8,7 @@ import (
 	"os/exec"
 	"path/filepath"
 	"reflect"
+	"strconv"
 	"testing"
 	"time"
 
@@ -60,48 +61,71 @@ func rowsIn(t *testing.T, path string) int {
 	return n
 }
 
+// holdAt is the analysis at which the killed run of resumable.study stops
+// for good (COUPLET_TEST_HOLD): the differential evolution analyses 20
+// points a generation, so the 300 before it are recorded first.
+const holdAt = 301
+
+// waitRows waits until the case store at path holds at least n rows, as
+// long as the command runs.
+func waitRows(t *testing.T, cmd *exec.Cmd, exited <-chan struct{}, path string, n int) {
+	t.Helper()
+	deadline := time.Now().Add(2 * time.Minute)
+	for {
+		// while the running process creates the file and its schema,
+		// reading it may fail: try again
+		if got, err := countRows(path); err == nil && got >= n {
+			return
+		}
+		select {
+		case <-exited:
+			t.Fatalf("the run ended before its store held %d rows", n)
+		case <-time.After(20 * time.Millisecond):
+		}
+		if time.Now().After(deadline) {
+			cmd.Process.Kill()
+			t.Fatalf("the store did not reach %d rows", n)
+		}
+	}
+}
+
 // A replay killed with SIGKILL part-way and picked up with --pick-up ends
 // with the same best design as an uninterrupted replay, having analysed
 // only the points the killed run had not recorded.
 func TestRunKilledAndPickedUp(t *testing.T) {
 	study := filepath.Join("..", "..", "testdata", "resumable.study")
 	whole := t.TempDir()
-	if out, err := exec.Command(binary, "run", study, "--out", whole).CombinedOutput(); err != nil {
+	if out, err := exec.Command(binary, "run", study, "--out", whole, "--trust-script").CombinedOutput(); err != nil {
 		t.Fatalf("uninterrupted run: %v\n%s", err, out)
 	}
 	ref := readPickSummary(t, whole)
+	if ref.Evaluations < holdAt {
+		t.Fatalf("the uninterrupted run made %d evaluations, fewer than the hold at %d", ref.Evaluations, holdAt)
+	}
 
+	// The killed run holds at its 301st analysis: it cannot end before
+	// the kill, which comes once the store holds 200 rows.
 	dir := t.TempDir()
-	cmd := exec.Command(binary, "run", study, "--out", dir)
+	cmd := exec.Command(binary, "run", study, "--out", dir, "--trust-script")
+	cmd.Env = append(os.Environ(), "COUPLET_TEST_HOLD="+strconv.Itoa(holdAt))
 	if err := cmd.Start(); err != nil {
 		t.Fatal(err)
 	}
+	exited := make(chan struct{})
+	go func() { _ = cmd.Wait(); close(exited) }()
 	db := filepath.Join(dir, "results.db")
-	deadline := time.Now().Add(20 * time.Second)
-	for {
-		// wait until at least one batch is committed, then kill (while
-		// the running process creates the file and its schema, reading
-		// it may fail: try again)
-		if n, err := countRows(db); err == nil && n >= 40 {
-			break
-		}
-		if time.Now().After(deadline) {
-			cmd.Process.Kill()
-			t.Fatal("no batch committed within 20 s")
-		}
-		time.Sleep(50 * time.Millisecond)
-	}
+	waitRows(t, cmd, exited, db, 200)
 	if err := cmd.Process.Kill(); err != nil {
 		t.Fatal(err)
 	}
-	_ = cmd.Wait()
+	<-exited
 	kept := rowsIn(t, db)
-	if kept >= ref.Evaluations {
-		t.Skipf("the run finished (%d rows) before it was killed; nothing to pick up", kept)
+	if kept < 200 || kept >= holdAt {
+		t.Fatalf("the killed run kept %d rows, want from 200 to %d", kept, holdAt-1)
 	}
 
 	var stderr bytes.Buffer
-	pick := exec.Command(binary, "run", study, "--out", dir, "--pick-up")
+	pick := exec.Command(binary, "run", study, "--out", dir, "--pick-up", "--trust-script")
 	pick.Stderr = &stderr
 	if err := pick.Run(); err != nil {
 		t.Fatalf("pick-up run: %v\n%s", err, stderr.String())
@@ -121,7 +145,7 @@ func TestRunKilledAndPickedUp(t *testing.T) {
 
 	// another seed is refused with a clear message, not mixed in
 	var errOut bytes.Buffer
-	other := exec.Command(binary, "run", study, "--out", dir, "--pick-up", "--seed", "12")
+	other := exec.Command(binary, "run", study, "--out", dir, "--pick-up", "--trust-script", "--seed", "12")
 	other.Stderr = &errOut
 	if err := other.Run(); err == nil {
 		t.Fatal("pick-up with another seed accepted")
