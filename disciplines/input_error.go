@@ -24,6 +24,11 @@ func (e *InputError) Error() string {
 	return fmt.Sprintf("disciplines: %s = %g%s is not allowed (allowed: %s)", e.Var, e.Value, unit, e.Allowed)
 }
 
+// Variable returns the name of the refused variable; the coupled
+// solver uses it to tell a balance that runs away from a failed
+// discipline.
+func (e *InputError) Variable() string { return e.Var }
+
 // inputErr builds an *InputError.
 func inputErr(name string, v float64, unit, allowed string) error {
 	return &InputError{Var: name, Value: v, Unit: unit, Allowed: allowed}

@@ -60,15 +60,12 @@ func (d *FuncDiscipline) Inputs() []Var { return d.inputs }
 // Outputs implements Discipline.
 func (d *FuncDiscipline) Outputs() []Var { return d.outputs }
 
-// Compute implements Discipline; a panic in the function becomes an error.
-func (d *FuncDiscipline) Compute(in, out []float64) (err error) {
+// Compute implements Discipline. A panic in the function is not
+// recovered here: Workspace.Analyze recovers it, once per analysis, as it
+// does for every discipline.
+func (d *FuncDiscipline) Compute(in, out []float64) error {
 	if d.fn == nil {
 		return fmt.Errorf("discipline %s has no function", d.name)
 	}
-	defer func() {
-		if r := recover(); r != nil {
-			err = fmt.Errorf("panic: %v", r)
-		}
-	}()
 	return d.fn(in, out)
 }

@@ -12,6 +12,9 @@ type RangeError struct {
 	Value      float64
 	Min, Max   float64
 	Unit       string
+	// Produced is true when the value was computed by a discipline (a
+	// coupling iterate or an output) rather than given by the user.
+	Produced bool
 }
 
 // Error implements error.
@@ -39,14 +42,26 @@ func (e *NonFiniteError) Error() string {
 	return fmt.Sprintf("mdo: discipline %s produced %s = %g (not finite)", e.Discipline, e.Var, e.Value)
 }
 
-// DisciplineError wraps an error returned by a discipline's Compute.
+// DisciplineError wraps an error returned by a discipline's Compute (or
+// a panic in it).
 type DisciplineError struct {
 	Discipline string
 	Err        error
+	// Var is set when the discipline, inside a coupled group, refused a
+	// coupling variable of that group (its error has a Variable method
+	// naming it): the balance of Var leaves the region where the
+	// discipline is defined, and the design does not close. Group lists
+	// the group's disciplines.
+	Var   string
+	Group []string
 }
 
 // Error implements error.
 func (e *DisciplineError) Error() string {
+	if e.Var != "" {
+		return fmt.Sprintf("does not close: the balance of %s in {%s} leaves the region where discipline %s is defined: %v; remedy: %s",
+			e.Var, strings.Join(e.Group, ", "), e.Discipline, e.Err, DoesNotClose.Remedy())
+	}
 	return fmt.Sprintf("mdo: discipline %s: %v", e.Discipline, e.Err)
 }
 

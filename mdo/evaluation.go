@@ -27,6 +27,13 @@ type Evaluation struct {
 	// Converged is false when the analysis failed; Err gives the reason.
 	Converged bool
 	Err       string
+	// Failure classifies a failed analysis (NotFailed when it converged,
+	// or when it converged but could not be scored); Err ends with its
+	// remedy.
+	Failure FailureClass
+	// Path names the solver path that converged the analysis: the
+	// configured solver's name, or the fallback that succeeded.
+	Path string
 	// Work of this evaluation.
 	Iterations      int
 	DisciplineCalls int

@@ -158,6 +158,7 @@ func (s *Study) NewEvaluator() (*Evaluator, error) {
 	if e.study.CacheLimit == 0 {
 		e.study.CacheLimit = 50000
 	}
+	e.setReference()
 	e.started = time.Now()
 	if r, ok := s.Recorder.(Restorer); ok {
 		prev, err := r.Restorable(s.Script, s.Seed)
@@ -478,16 +479,43 @@ func (e *Evaluator) analyse(ctx context.Context, w int, ev *Evaluation) (ok bool
 			return false
 		}
 		ev.failed(err.Error())
+		ev.Failure = Classify(err)
 		ev.Outputs = append([]float64(nil), ws.val...)
 		return true
 	}
 	ev.Converged = true
+	ev.Path = ws.Path()
 	ev.Outputs = append([]float64(nil), ws.val...)
 	vals := Values{sys: e.sys, val: ws.val}
 	if reason := e.score(vals, ws, w, ev); reason != "" {
 		ev.failed(reason)
 	}
 	return true
+}
+
+// setReference analyses the study's reference point (Start: the fixed
+// values or defaults of the design variables) from the default guesses
+// and, when it converges, makes its state the reference of every
+// workspace's fallback chain (Workspace.SetReference). It depends on the
+// study alone, so every point's answer stays independent of the
+// evaluation order. IDF studies solve no coupled group and keep none.
+func (e *Evaluator) setReference() {
+	if len(e.coupling) > 0 || len(e.sys.CoupledGroups()) == 0 {
+		return
+	}
+	ws := e.spaces[0]
+	copy(ws.val, e.base)
+	copy(ws.guess, e.guess)
+	start := e.Start()
+	for k, s := range e.slots {
+		ws.val[s.idx] = s.physical(start[k])
+	}
+	if ws.Analyze(context.Background()) != nil {
+		return
+	}
+	for _, w := range e.spaces {
+		_ = w.SetReference(ws.val)
+	}
 }
 
 // score computes objectives and constraints; a non-empty return is the

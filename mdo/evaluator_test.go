@@ -55,19 +55,19 @@ func TestEvaluatorWorkersIdentical(t *testing.T) {
 }
 
 func TestEvaluatorFailureIsInfeasible(t *testing.T) {
-	st, _ := SellarStudy(MDF)
+	// The runaway loop does not close at any p: the evaluation fails,
+	// is infeasible and says why.
+	st := &Study{Name: "runaway", System: runaway(t), Design: []DesignVar{Continuous("p", 0, 10)},
+		Objectives: []Objective{Minimize("y2")}, Workers: 1}
 	ev, err := st.NewEvaluator()
 	if err != nil {
 		t.Fatal(err)
 	}
-	// x = 0, z1 = −10 (unit 0), z2 = 10 (unit 1): y1 = 100 + 10 − 0.2·y2
-	// stays positive, fine; z1 = 0, z2 = 0, x = 0 drives y1 negative and
-	// sellar2's sqrt input out of range.
-	e, err := ev.EvaluateOne(context.Background(), []float64{0, 0.5, 0})
+	e, err := ev.EvaluateOne(context.Background(), []float64{0.5})
 	if err != nil {
 		t.Fatal(err)
 	}
-	if e.Converged || e.Feasible || !math.IsInf(e.Violation, 1) || !strings.Contains(e.Err, "y1") {
+	if e.Converged || e.Feasible || !math.IsInf(e.Violation, 1) || !strings.Contains(e.Err, "y1") || e.Failure != DoesNotClose {
 		t.Errorf("failed point recorded as %+v", e)
 	}
 	if ev.Counters().Failed != 1 {

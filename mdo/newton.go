@@ -5,123 +5,218 @@ import (
 	"fmt"
 	"math"
 
-	"gonum.org/v1/gonum/diff/fd"
 	"gonum.org/v1/gonum/mat"
 )
 
+// newtonScratch holds Newton's buffers for groups of n coupling variables,
+// allocated the first time Newton runs on a workspace.
+type newtonScratch struct {
+	n                                int
+	u, r, trial, rTrial, col, du, jr []float64
+	jac                              *mat.Dense
+	lu                               mat.LU
+	rhs, dx                          *mat.VecDense
+}
+
+// newNewtonScratch allocates the buffers for n coupling variables.
+func newNewtonScratch(n int) *newtonScratch {
+	f := func() []float64 { return make([]float64, n) }
+	return &newtonScratch{n: n, u: f(), r: f(), trial: f(), rTrial: f(), col: f(), du: f(), jr: f(),
+		jac: mat.NewDense(n, n, nil), rhs: mat.NewVecDense(n, nil), dx: mat.NewVecDense(n, nil)}
+}
+
 // newton converges a coupled group by Newton's method on the scaled
-// coupling residual R(u) = (G(y) − y)/scale, u = y/scale, where G is one
-// Jacobi sweep of the group. The Jacobian comes from forward finite
-// differences (gonum diff/fd); the step is solved by LU (gonum mat) and
-// halved while it does not reduce the residual.
-func (w *Workspace) newton(ctx context.Context, g *group, set SolverSettings, rep *Report) error {
+// coupling residual R(u) = P(G(y))/scale − u, u = y/scale, where G is one
+// Jacobi sweep of the group and P the projection onto the validity
+// ranges (see solve).
+//
+//   - Scaling: every coupling variable is divided by its scale, so the
+//     residual and the step are dimensionless and of order one.
+//   - Jacobian: forward finite differences (step 1e-7 in scaled units,
+//     backward where the forward step would leave the range), computed at
+//     the first iteration and then kept up to date by Broyden's rank-one
+//     update; a fresh finite-difference Jacobian is computed only when the
+//     line search fails with an updated one. One Jacobian costs n sweeps,
+//     an update none.
+//   - Globalisation: a backtracking line search on ‖R‖₂ (Armijo test with
+//     c = 1e-4, at most 12 halvings); each trial point is clipped into the
+//     scaled ranges, and a trial on which a discipline fails counts as no
+//     decrease. When even a fresh Jacobian gives no decrease the step
+//     falls back to one fixed-point sweep u ← u + R(u).
+func (w *Workspace) newton(ctx context.Context, g *group, set SolverSettings, p solvePath, rep *Report) error {
 	nt := len(g.tear)
+	if w.nw == nil || w.nw.n != nt {
+		w.nw = newNewtonScratch(nt)
+	}
+	s := w.nw
 	scale := w.scale[:nt]
-	u := make([]float64, nt)
+	u, r, trial, rTrial := s.u, s.r, s.trial, s.rTrial
+	lo := func(k int) float64 { return g.lo[k] / scale[k] }
+	hi := func(k int) float64 { return g.hi[k] / scale[k] }
 	for k, v := range g.tear {
 		u[k] = w.val[v] / scale[k]
 	}
-	var evalErr error
 	first := true
-	resid := func(dst, x []float64) {
-		if evalErr != nil {
-			for k := range dst {
-				dst[k] = math.NaN()
-			}
-			return
-		}
+	resid := func(dst, x []float64) error {
 		for k, v := range g.tear {
 			w.val[v] = x[k] * scale[k]
 		}
-		err := w.sweep(g, true, first)
+		if err := w.sweep(g, true, first); err != nil {
+			return err
+		}
 		first = false
-		if err != nil {
-			evalErr = err
-			for k := range dst {
-				dst[k] = math.NaN()
-			}
-			return
-		}
 		for k, v := range g.tear {
-			dst[k] = w.val[v]/scale[k] - x[k]
+			dst[k] = math.Max(g.lo[k], math.Min(g.hi[k], w.val[v]))/scale[k] - x[k]
 		}
+		return nil
 	}
-	norm := func(r []float64) float64 {
-		m := 0.0
-		for _, x := range r {
-			if a := math.Abs(x); a > m || math.IsNaN(a) {
-				m = a
-			}
-		}
-		return m
+	if err := resid(r, u); err != nil {
+		return w.loopError(g, err, p)
 	}
-	r := make([]float64, nt)
-	trial := make([]float64, nt)
-	rTrial := make([]float64, nt)
-	jac := mat.NewDense(nt, nt, nil)
-	step := make([]float64, nt)
-	var lu mat.LU
-	resid(r, u)
-	if evalErr != nil {
-		return evalErr
-	}
+	fresh, haveJac := false, false
 	for it := 1; it <= set.MaxIterations; it++ {
 		if err := ctx.Err(); err != nil {
 			return fmt.Errorf("mdo: coupled group {%s} cancelled at iteration %d: %w", joinNames(g.names), it, err)
 		}
-		n0 := norm(r)
+		n0 := infNorm(r)
 		rep.Iterations = it
 		rep.Residual = n0
 		rep.History = append(rep.History, n0)
 		w.cnt.Iterations++
 		if n0 <= set.Tolerance {
+			// the values are those of the last sweep, G(u)
 			rep.Converged = true
 			w.fillWorst(g, r, rep)
-			// leave the values at G(u): one last sweep from u
-			resid(r, u)
-			return evalErr
+			return w.closure(g, p)
 		}
 		if !(n0 < divergeLimit) {
 			rep.Diverged = true
 			break
 		}
-		fd.Jacobian(jac, resid, u, &fd.JacobianSettings{Formula: fd.Forward, OriginValue: r, Step: 1e-7})
-		if evalErr != nil {
-			return evalErr
+		if !haveJac {
+			if err := w.fdJacobian(g, resid, u, r, lo, hi); err != nil {
+				return w.loopError(g, err, p)
+			}
+			haveJac, fresh = true, true
 		}
-		lu.Factorize(jac)
-		rhs := mat.NewVecDense(nt, nil)
+		s.lu.Factorize(s.jac)
 		for k := range r {
-			rhs.SetVec(k, -r[k])
+			s.rhs.SetVec(k, -r[k])
 		}
-		var dx mat.VecDense
-		if err := lu.SolveVecTo(&dx, false, rhs); err != nil {
-			// singular Jacobian: fall back to a fixed-point step
-			for k := range step {
-				step[k] = r[k]
-			}
+		if err := s.lu.SolveVecTo(s.dx, false, s.rhs); err != nil {
+			copy(s.du, r) // singular: a fixed-point step
 		} else {
-			for k := range step {
-				step[k] = dx.AtVec(k)
+			for k := range s.du {
+				s.du[k] = s.dx.AtVec(k)
 			}
 		}
+		m0 := twoNorm(r)
+		accepted := false
 		lambda := 1.0
-		for tries := 0; tries < 20; tries++ {
+		for tries := 0; tries < 12; tries++ {
 			for k := range u {
-				trial[k] = u[k] + lambda*step[k]
+				trial[k] = math.Max(lo(k), math.Min(hi(k), u[k]+lambda*s.du[k]))
 			}
-			resid(rTrial, trial)
-			if evalErr != nil {
-				return evalErr
-			}
-			if norm(rTrial) < n0 || tries == 19 {
+			if err := resid(rTrial, trial); err == nil && twoNorm(rTrial) <= (1-1e-4*lambda)*m0 {
+				accepted = true
 				break
 			}
 			lambda /= 2
 		}
+		if !accepted && !fresh {
+			haveJac = false // retry this iterate with a fresh Jacobian
+			continue
+		}
+		if !accepted {
+			for k := range u {
+				trial[k] = math.Max(lo(k), math.Min(hi(k), u[k]+r[k]))
+			}
+			if err := resid(rTrial, trial); err != nil {
+				return w.loopError(g, err, p)
+			}
+		}
+		w.broyden(trial, rTrial)
 		copy(u, trial)
 		copy(r, rTrial)
+		fresh = false
 	}
 	w.fillWorst(g, r, rep)
+	if err := w.closure(g, p); err != nil {
+		return err
+	}
 	return &ConvergenceError{Report: rep.Clone()}
+}
+
+// fdJacobian fills the Newton Jacobian by finite differences at u, where
+// the residual is r.
+func (w *Workspace) fdJacobian(g *group, resid func(dst, x []float64) error, u, r []float64, lo, hi func(int) float64) error {
+	s := w.nw
+	copy(s.trial, u)
+	for j := range u {
+		h := 1e-7 * math.Max(1, math.Abs(u[j]))
+		if u[j]+h > hi(j) {
+			h = -h
+		}
+		s.trial[j] = u[j] + h
+		err := resid(s.col, s.trial)
+		if err != nil {
+			h = -h
+			s.trial[j] = u[j] + h
+			err = resid(s.col, s.trial)
+		}
+		s.trial[j] = u[j]
+		if err != nil {
+			return err
+		}
+		for i := range r {
+			s.jac.Set(i, j, (s.col[i]-r[i])/h)
+		}
+	}
+	return nil
+}
+
+// broyden applies Broyden's rank-one update for the step from s.u (where
+// the residual is s.r) to x (residual rx): J += (Δr − J Δu) Δuᵀ / (Δuᵀ Δu).
+func (w *Workspace) broyden(x, rx []float64) {
+	s := w.nw
+	den := 0.0
+	for k := range x {
+		s.du[k] = x[k] - s.u[k]
+		den += s.du[k] * s.du[k]
+	}
+	if !(den > 0) {
+		return
+	}
+	for i := range x {
+		jd := 0.0
+		for j := range x {
+			jd += s.jac.At(i, j) * s.du[j]
+		}
+		s.jr[i] = (rx[i] - s.r[i] - jd) / den
+	}
+	for i := range x {
+		for j := range x {
+			s.jac.Set(i, j, s.jac.At(i, j)+s.jr[i]*s.du[j])
+		}
+	}
+}
+
+// infNorm is the largest magnitude of r (NaN when any entry is NaN).
+func infNorm(r []float64) float64 {
+	m := 0.0
+	for _, x := range r {
+		if a := math.Abs(x); a > m || math.IsNaN(a) {
+			m = a
+		}
+	}
+	return m
+}
+
+// twoNorm is the Euclidean norm of r.
+func twoNorm(r []float64) float64 {
+	s := 0.0
+	for _, x := range r {
+		s += x * x
+	}
+	return math.Sqrt(s)
 }

@@ -60,6 +60,10 @@ type SolverSettings struct {
 	// Relaxation is the initial (Aitken) or fixed relaxation factor in
 	// (0, 1]; default 1.
 	Relaxation float64
+	// NoFallback turns the fallback chain off: a failure of this solver
+	// is the analysis's failure (see Workspace.Analyze). The chain runs
+	// when any coupled group of the workspace allows it.
+	NoFallback bool
 }
 
 // DefaultSolver returns the default settings: Aitken-relaxed Gauss–Seidel,
@@ -109,6 +113,9 @@ type Report struct {
 	Tolerance   float64   // the tolerance asked for
 	History     []float64 // scaled residual after each iteration
 	Worst       []VarResidual
+	// Path names the solver path of the last attempt: the configured
+	// method, or the fallback that ran (see Workspace.Path).
+	Path string
 }
 
 // Clone returns a deep copy of the report.

@@ -31,8 +31,9 @@ type System struct {
 	// its inputs produced inside its own group: the only inputs that
 	// change between coupling iterations.
 	inLoop   [][]int
-	groups   []group // execution order
-	params   []int   // variables nobody produces
+	loopIn   [][]bool // discipline -> input position -> produced inside its own group
+	groups   []group  // execution order
+	params   []int    // variables nobody produces
 	settings []SolverSettings
 }
 
@@ -42,7 +43,12 @@ type group struct {
 	coupled bool      // a cycle: needs a solver
 	tear    []int     // coupling variables: produced and consumed inside the group
 	scale   []float64 // residual scale of each coupling variable
-	names   []string
+	// lo and hi bound each coupling variable by the intersection of the
+	// validity ranges its consumers inside the group declare; loDisc and
+	// hiDisc name the discipline whose range gives each bound.
+	lo, hi         []float64
+	loDisc, hiDisc []int
+	names          []string
 }
 
 // NewSystem builds a System from disciplines. Each variable must have
@@ -221,11 +227,31 @@ func (s *System) buildGroups() {
 			sort.Ints(gr.tear)
 			for _, v := range gr.tear {
 				gr.scale = append(gr.scale, s.vars.At(v).scale())
+				lo, hi, ld, hd := -math.MaxFloat64, math.MaxFloat64, -1, -1
+				for _, d := range m {
+					for k, u := range s.inIdx[d] {
+						if u != v {
+							continue
+						}
+						if s.inLo[d][k] > lo {
+							lo, ld = s.inLo[d][k], d
+						}
+						if s.inHi[d][k] < hi {
+							hi, hd = s.inHi[d][k], d
+						}
+					}
+				}
+				gr.lo, gr.hi = append(gr.lo, lo), append(gr.hi, hi)
+				gr.loDisc, gr.hiDisc = append(gr.loDisc, ld), append(gr.hiDisc, hd)
 			}
 		}
 		s.groups = append(s.groups, gr)
 	}
 	s.inLoop = make([][]int, n)
+	s.loopIn = make([][]bool, n)
+	for d := range s.loopIn {
+		s.loopIn[d] = make([]bool, len(s.inIdx[d]))
+	}
 	for _, g := range s.groups {
 		if !g.coupled {
 			continue
@@ -234,6 +260,7 @@ func (s *System) buildGroups() {
 			for k, v := range s.inIdx[d] {
 				if p := s.producer[v]; p >= 0 && comp[p] == comp[d] {
 					s.inLoop[d] = append(s.inLoop[d], k)
+					s.loopIn[d][k] = true
 				}
 			}
 		}

@@ -2,6 +2,7 @@ package mdo
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"math"
 )
@@ -29,6 +30,17 @@ type Workspace struct {
 	// scratch per group, sized to the largest group
 	y, gy, r, rPrev, scale []float64
 	onceMode               bool
+	// solving is true while a coupled group is solved: loop inputs are
+	// then projected onto their ranges.
+	solving bool
+	// loopFailed is true when the last analyzeWith failed in a coupled
+	// group (the failures a fallback may cure).
+	loopFailed bool
+	cur        int       // discipline being computed, for a panic
+	path       solvePath // the path that converged the last analysis
+	ref        []float64 // reference state for continuation, nil if none
+	nw         *newtonScratch
+	fb         *fallbackScratch
 }
 
 // NewWorkspace returns a fresh workspace with every variable and guess at
@@ -163,11 +175,34 @@ func (w *Workspace) Counters() Counters { return w.cnt }
 
 // Analyze runs the system: each group in execution order, each coupled
 // group converged by its solver from the current guesses. Parameters keep
-// the values set with Set. A failure is returned as an error: a
-// *ConvergenceError carrying the report, a *RangeError, a
-// *NonFiniteError or a *DisciplineError.
-func (w *Workspace) Analyze(ctx context.Context) error {
+// the values set with Set. While a group is solved its iterates are kept
+// inside the validity ranges (see solve); when the configured solver fails
+// the deterministic fallback chain of fallback.go runs. A failure is
+// returned as an error: a *NotClosingError (no solution inside the
+// ranges), a *ConvergenceError carrying the report, a *RangeError, a
+// *NonFiniteError or a *DisciplineError; Classify names its class. A
+// panic in a discipline is recovered here, once per analysis, and
+// returned as a *DisciplineError.
+func (w *Workspace) Analyze(ctx context.Context) (err error) {
 	w.cnt.Analyses++
+	w.cur = -1
+	defer func() {
+		if r := recover(); r != nil {
+			err = w.panicked(r)
+		}
+	}()
+	w.path = pathConfigured
+	err = w.analyzeWith(ctx, pathConfigured)
+	if err == nil || w.onceMode || !w.loopFailed || ctx.Err() != nil {
+		return err
+	}
+	return w.fallback(ctx, err)
+}
+
+// analyzeWith runs every group once, the coupled ones with the solver of
+// path p.
+func (w *Workspace) analyzeWith(ctx context.Context, p solvePath) error {
+	w.loopFailed = false
 	k := 0
 	for gi := range w.sys.groups {
 		g := &w.sys.groups[gi]
@@ -179,12 +214,26 @@ func (w *Workspace) Analyze(ctx context.Context) error {
 			}
 			continue
 		}
-		if err := w.solve(ctx, g, w.settings[gi], &w.reports[k]); err != nil {
+		if err := w.solve(ctx, g, p.settings(w.settings[gi]), p, &w.reports[k]); err != nil {
+			if ctx.Err() == nil {
+				w.loopFailed = true
+			}
 			return err
 		}
 		k++
 	}
 	return nil
+}
+
+// panicked turns a recovered panic into the error of the discipline that
+// was running.
+func (w *Workspace) panicked(r any) error {
+	w.solving = false
+	name := "(none)"
+	if w.cur >= 0 {
+		name = w.sys.discs[w.cur].Name()
+	}
+	return &DisciplineError{Discipline: name, Err: fmt.Errorf("panic: %v", r)}
 }
 
 // AnalyzeOnce evaluates every coupled group once, Jacobi-style, with its
@@ -219,7 +268,10 @@ func (w *Workspace) gather(d int) error {
 	for k, v := range w.sys.inIdx[d] {
 		x := w.val[v]
 		if !(x >= lo[k] && x <= hi[k]) {
-			return w.inputError(d, k, x)
+			if !w.solving || !w.sys.loopIn[d][k] || x != x {
+				return w.inputError(d, k, x)
+			}
+			x = math.Max(lo[k], math.Min(hi[k], x))
 		}
 		in[k] = x
 	}
@@ -235,7 +287,11 @@ func (w *Workspace) gatherLoop(d int) error {
 	for _, k := range w.sys.inLoop[d] {
 		x := w.val[idx[k]]
 		if !(x >= lo[k] && x <= hi[k]) {
-			return w.inputError(d, k, x)
+			if !w.solving || x != x {
+				return w.inputError(d, k, x)
+			}
+			// project the iterate onto the discipline's range
+			x = math.Max(lo[k], math.Min(hi[k], x))
 		}
 		in[k] = x
 	}
@@ -248,16 +304,17 @@ func (w *Workspace) inputError(d, k int, x float64) error {
 	if math.IsNaN(x) || math.IsInf(x, 0) {
 		return &NonFiniteError{Discipline: w.sys.Producer(spec.Name), Var: spec.Name, Value: x}
 	}
-	return &RangeError{Discipline: w.sys.discs[d].Name(), Var: spec.Name, Value: x, Min: spec.Min, Max: spec.Max, Unit: spec.Unit}
+	return &RangeError{Discipline: w.sys.discs[d].Name(), Var: spec.Name, Value: x, Min: spec.Min, Max: spec.Max, Unit: spec.Unit, Produced: w.sys.producer[w.sys.inIdx[d][k]] >= 0}
 }
 
 // compute runs discipline d on its gathered inputs into its output buffer.
 func (w *Workspace) compute(d int) error {
 	w.cnt.DisciplineCalls++
+	w.cur = d
 	disc := w.sys.discs[d]
 	out := w.outBuf[d]
 	if err := disc.Compute(w.inBuf[d], out); err != nil {
-		return &DisciplineError{Discipline: disc.Name(), Err: err}
+		return w.disciplineError(d, err)
 	}
 	for k, x := range out {
 		if x-x != 0 { // NaN or ±Inf: x − x is 0 for every finite x
@@ -328,13 +385,25 @@ func (w *Workspace) sweep(g *group, jacobi, first bool) error {
 // divergent.
 const divergeLimit = 1e12
 
-// solve converges one coupled group.
-func (w *Workspace) solve(ctx context.Context, g *group, set SolverSettings, rep *Report) error {
+// solve converges one coupled group by the method of set.
+//
+// Iterates stay where the disciplines are defined: an input produced
+// inside the group that leaves the consuming discipline's validity range
+// is projected onto the range (clipped to the nearer limit) when it is
+// gathered, and a relaxed iterate is clipped to the intersection of its
+// consumers' ranges. The solver thus converges a fixed point of G∘P, with
+// P the projection, and measures the residual on P∘G: (P(G(y)) − y)/scale.
+// When the fixed point's outputs G(y) lie inside every range it is a
+// solution of the group; when a coupling variable's output sits beyond a
+// limit the disciplines never saw that value, so no state inside the
+// ranges closes the balance: solve returns a *NotClosingError naming the
+// variable and how far beyond the limit it runs.
+func (w *Workspace) solve(ctx context.Context, g *group, set SolverSettings, p solvePath, rep *Report) error {
 	nt := len(g.tear)
 	y, gy, r, rPrev, scale := w.y[:nt], w.gy[:nt], w.r[:nt], w.rPrev[:nt], w.scale[:nt]
 	copy(scale, g.scale)
-	for _, v := range g.tear {
-		w.val[v] = w.guess[v]
+	for k, v := range g.tear {
+		w.val[v] = math.Max(g.lo[k], math.Min(g.hi[k], w.guess[v]))
 	}
 	rep.Method = set.Method
 	rep.Tolerance = set.Tolerance
@@ -343,6 +412,7 @@ func (w *Workspace) solve(ctx context.Context, g *group, set SolverSettings, rep
 	rep.History = rep.History[:0]
 	rep.Worst = rep.Worst[:0]
 	rep.Residual = math.Inf(1)
+	rep.Path = p.String()
 
 	if w.onceMode {
 		err := w.sweep(g, true, true)
@@ -354,11 +424,14 @@ func (w *Workspace) solve(ctx context.Context, g *group, set SolverSettings, rep
 		rep.Converged = true
 		return nil
 	}
+	w.solving = true
+	defer func() { w.solving = false }()
 	if set.Method == Newton {
-		return w.newton(ctx, g, set, rep)
+		return w.newton(ctx, g, set, p, rep)
 	}
 	jacobi := set.Method == Jacobi || set.Method == AitkenJacobi
 	aitken := set.Method == AitkenGaussSeidel || set.Method == AitkenJacobi
+	damped := p.damped()
 	omega := set.Relaxation
 	for it := 1; it <= set.MaxIterations; it++ {
 		if err := ctx.Err(); err != nil {
@@ -368,11 +441,11 @@ func (w *Workspace) solve(ctx context.Context, g *group, set SolverSettings, rep
 			y[k] = w.val[v]
 		}
 		if err := w.sweep(g, jacobi, it == 1); err != nil {
-			return err
+			return w.loopError(g, err, p)
 		}
 		norm := 0.0
 		for k, v := range g.tear {
-			gy[k] = w.val[v]
+			gy[k] = math.Max(g.lo[k], math.Min(g.hi[k], w.val[v]))
 			r[k] = (gy[k] - y[k]) / scale[k]
 			if a := math.Abs(r[k]); a > norm || math.IsNaN(a) {
 				norm = a
@@ -385,7 +458,7 @@ func (w *Workspace) solve(ctx context.Context, g *group, set SolverSettings, rep
 		if norm <= set.Tolerance {
 			rep.Converged = true
 			w.fillWorst(g, r, rep)
-			return nil
+			return w.closure(g, p)
 		}
 		if !(norm < divergeLimit) {
 			rep.Diverged = true
@@ -401,22 +474,81 @@ func (w *Workspace) solve(ctx context.Context, g *group, set SolverSettings, rep
 			if den > 0 {
 				omega = -omega * num / den
 			}
-			// keep the factor in a sane band so that one bad step cannot
-			// throw the iteration away
-			omega = math.Max(-2, math.Min(2, omega))
-			if math.Abs(omega) < 1e-3 {
-				omega = math.Copysign(1e-3, omega)
+			if damped {
+				// the fallback keeps the factor an under-relaxation
+				omega = math.Max(0.05, math.Min(1, omega))
+			} else {
+				// keep the factor in a sane band so that one bad step
+				// cannot throw the iteration away
+				omega = math.Max(-2, math.Min(2, omega))
+				if math.Abs(omega) < 1e-3 {
+					omega = math.Copysign(1e-3, omega)
+				}
 			}
 		}
 		if aitken || omega != 1 {
 			for k, v := range g.tear {
-				w.val[v] = y[k] + omega*(gy[k]-y[k])
+				w.val[v] = math.Max(g.lo[k], math.Min(g.hi[k], y[k]+omega*(gy[k]-y[k])))
 			}
 		}
 		copy(rPrev, r)
 	}
 	w.fillWorst(g, r, rep)
+	if err := w.closure(g, p); err != nil {
+		return err
+	}
 	return &ConvergenceError{Report: rep.Clone()}
+}
+
+// closure checks the coupling variables of group g against the ranges of
+// their consumers: the first one beyond a limit (the largest excess in
+// units of its scale) is returned as a *NotClosingError.
+func (w *Workspace) closure(g *group, p solvePath) error {
+	worst, excess, limit, disc := -1, 0.0, 0.0, -1
+	for k, v := range g.tear {
+		x := w.val[v]
+		var e float64
+		var l float64
+		var d int
+		switch {
+		case x < g.lo[k]:
+			e, l, d = (g.lo[k]-x)/g.scale[k], g.lo[k], g.loDisc[k]
+		case x > g.hi[k]:
+			e, l, d = (x-g.hi[k])/g.scale[k], g.hi[k], g.hiDisc[k]
+		default:
+			continue
+		}
+		if e > excess {
+			worst, excess, limit, disc = k, e, l, d
+		}
+	}
+	if worst < 0 {
+		return nil
+	}
+	spec := w.sys.vars.At(g.tear[worst])
+	return &NotClosingError{Group: g.names, Var: spec.Name, Desc: spec.Description, Unit: spec.Unit,
+		Value: w.val[g.tear[worst]], Limit: limit, Discipline: w.sys.discs[disc].Name(), Path: p.String()}
+}
+
+// loopError completes an error raised while a coupled group was solved: a
+// discipline that refuses a coupling variable of its group (its error has
+// a Variable method naming one) marks a balance that leaves the region
+// where the discipline is defined, which Classify reports as not closing.
+func (w *Workspace) loopError(g *group, err error, p solvePath) error {
+	var de *DisciplineError
+	if errors.As(err, &de) && de.Var == "" {
+		var named interface{ Variable() string }
+		if errors.As(de.Err, &named) {
+			v := w.sys.Index(named.Variable())
+			for _, t := range g.tear {
+				if t == v {
+					de.Var = named.Variable()
+					de.Group = g.names
+				}
+			}
+		}
+	}
+	return err
 }
 
 // fillWorst records the three coupling variables with the largest residual.
@@ -448,4 +580,9 @@ func joinNames(names []string) string {
 		s += n
 	}
 	return s
+}
+
+// disciplineError wraps the error of discipline d.
+func (w *Workspace) disciplineError(d int, err error) error {
+	return &DisciplineError{Discipline: w.sys.discs[d].Name(), Err: err}
 }

@@ -1,0 +1,308 @@
+package disciplines
+
+import (
+	"context"
+	"fmt"
+	"math"
+	"math/rand/v2"
+	"sort"
+	"strings"
+	"testing"
+	"time"
+
+	"couplet/mdo"
+)
+
+// The convergence benchmark: for every demonstration aircraft a grid over
+// wing area and aspect ratio at two sweeps, and a Latin hypercube over the
+// design box of every example study, each point analysed by every coupling
+// solver through the Evaluator, as a study would. TestConvergence runs a
+// small version and asserts what the solvers promise; BenchmarkConvergence
+// runs the full sweep and prints the table.
+
+// convBox is one design variable's range in a convergence case.
+type convBox struct {
+	name      string
+	lower, hi float64
+}
+
+// convCase is one family of points: a scenario, fixed overrides, the
+// design box and the points (physical values in the box's order).
+type convCase struct {
+	label  string
+	scen   Scenario
+	fixed  map[string]float64
+	box    []convBox
+	points [][]float64
+	grid   [2]int // the grid's shape (aspect ratios, areas) per sweep; zero for a hypercube
+}
+
+// gridCase is an n × n grid over wing area and aspect ratio at each sweep.
+func gridCase(label string, s Scenario, area, ar [2]float64, sweeps [2]float64, n int) convCase {
+	c := convCase{label: label, scen: s, box: []convBox{{"wing.area", area[0], area[1]}, {"wing.aspect_ratio", ar[0], ar[1]}, {"wing.sweep", math.Min(sweeps[0], sweeps[1]), math.Max(sweeps[0], sweeps[1])}}, grid: [2]int{n, n}}
+	for _, sw := range sweeps {
+		for i := 0; i < n; i++ {
+			for j := 0; j < n; j++ {
+				a := area[0] + (area[1]-area[0])*float64(j)/float64(n-1)
+				r := ar[0] + (ar[1]-ar[0])*float64(i)/float64(n-1)
+				c.points = append(c.points, []float64{a, r, sw})
+			}
+		}
+	}
+	return c
+}
+
+// lhsCase is an n-point Latin hypercube over a study's design box, drawn
+// from a fixed seed.
+func lhsCase(label string, s Scenario, fixed map[string]float64, box []convBox, n int, seed uint64) convCase {
+	rng := rand.New(rand.NewPCG(seed, 0x5eed))
+	c := convCase{label: label, scen: s, fixed: fixed, box: box}
+	perm := make([][]int, len(box))
+	for k := range box {
+		perm[k] = rng.Perm(n)
+	}
+	for i := 0; i < n; i++ {
+		p := make([]float64, len(box))
+		for k, b := range box {
+			u := (float64(perm[k][i]) + rng.Float64()) / float64(n)
+			p[k] = b.lower + u*(b.hi-b.lower)
+		}
+		c.points = append(c.points, p)
+	}
+	return c
+}
+
+// convergenceCases returns the cases: n × n grids and m-point hypercubes.
+func convergenceCases(n, m int) []convCase {
+	short := map[string]float64{"mission.range": 5.5e6}
+	jetBox := []convBox{{"wing.area", 100, 220}, {"wing.aspect_ratio", 1.8, 3.6}, {"wing.sweep", 52, 64}, {"wing.thickness_ratio", 0.024, 0.05}}
+	doeBox := []convBox{{"wing.area", 100, 220}, {"wing.aspect_ratio", 1.8, 3.6}, {"wing.sweep", 52, 64}, {"wing.thickness_ratio", 0.03, 0.05}}
+	frontBox := []convBox{{"wing.area", 100, 220}, {"wing.aspect_ratio", 1.8, 2.8}, {"wing.thickness_ratio", 0.036, 0.05}}
+	rjBox := []convBox{{"wing.area", 60, 110}, {"wing.aspect_ratio", 7, 12}, {"wing.sweep", 15, 32}, {"wing.thickness_ratio", 0.09, 0.15}}
+	return []convCase{
+		gridCase("business jet grid", Swiftlet(), [2]float64{100, 220}, [2]float64{1.8, 3.6}, [2]float64{52, 64}, n),
+		gridCase("forward-swept jet grid", SwiftletForwardSwept(), [2]float64{100, 220}, [2]float64{1.8, 3.6}, [2]float64{-40, -50}, n),
+		gridCase("three-engine jet grid", SwiftletTrijet(), [2]float64{100, 220}, [2]float64{1.8, 3.6}, [2]float64{52, 64}, n),
+		gridCase("regional jet grid", Kestrel(), [2]float64{60, 110}, [2]float64{7, 12}, [2]float64{15, 32}, n),
+		gridCase("supersonic airliner grid", Condor(), [2]float64{150, 260}, [2]float64{1.8, 3.2}, [2]float64{55, 65}, n),
+		lhsCase("business_jet.study box", Swiftlet(), nil, jetBox, m, 1),
+		lhsCase("business_jet_wing_doe.study box", Swiftlet(), short, doeBox, m, 2),
+		lhsCase("business_jet_front.study box", Swiftlet(), short, frontBox, m, 3),
+		lhsCase("regional_jet.study box", Kestrel(), nil, rjBox, m, 4),
+	}
+}
+
+// convTally sums the outcomes of one case under one solver.
+type convTally struct {
+	points, converged, notClosing, solverFailed, other int
+	unclassified                                       int
+	iterations                                         int // coupling iterations of converged points
+	wall                                               time.Duration
+	jumps                                              int
+	reasons                                            map[string]int
+}
+
+// add counts one evaluation.
+func (t *convTally) add(ev *mdo.Evaluation) {
+	t.points++
+	if t.reasons == nil {
+		t.reasons = map[string]int{}
+	}
+	if ev.Converged {
+		t.converged++
+		t.iterations += ev.Iterations
+		t.wall += ev.Wall
+		return
+	}
+	switch mdo.ClassOf(ev) {
+	case mdo.DoesNotClose:
+		t.notClosing++
+	case mdo.SolverFailed:
+		t.solverFailed++
+	case mdo.NotFailed:
+		t.unclassified++
+		t.other++
+	default:
+		t.other++
+	}
+	t.reasons[shortReason(ev.Err)]++
+}
+
+// shortReason cuts a failure message to its kind for the tally.
+func shortReason(s string) string {
+	if i := strings.Index(s, " = "); i > 0 && i < 80 {
+		return s[:i]
+	}
+	if len(s) > 70 {
+		return s[:70]
+	}
+	return s
+}
+
+// runCase evaluates a case's points with one solver through an Evaluator
+// with the given number of workers and returns the evaluations in the
+// order of the points.
+func runCase(ctx context.Context, c convCase, m mdo.Method, workers int) ([]*mdo.Evaluation, error) {
+	sys, err := c.scen.NewSystem()
+	if err != nil {
+		return nil, err
+	}
+	set := mdo.DefaultSolver()
+	set.Method = m
+	if err := sys.SetSolver(set); err != nil {
+		return nil, err
+	}
+	fixed := copyMap(c.scen.Parameters)
+	for k, v := range c.fixed {
+		fixed[k] = v
+	}
+	st := &mdo.Study{Name: c.label, System: sys, Objectives: []mdo.Objective{mdo.Minimize("mass.takeoff")}, Fixed: fixed, Workers: workers, CacheLimit: -1}
+	for _, b := range c.box {
+		st.Design = append(st.Design, mdo.Continuous(b.name, b.lower, b.hi))
+	}
+	ev, err := st.NewEvaluator()
+	if err != nil {
+		return nil, err
+	}
+	xs := make([][]float64, len(c.points))
+	for i, p := range c.points {
+		xs[i] = ev.ToUnit(p)
+	}
+	return ev.Evaluate(ctx, xs)
+}
+
+// branchJumps counts neighbouring grid points (one step of aspect ratio or
+// area apart, both converged) whose take-off masses differ by more than
+// three times the largest such difference among their other neighbours
+// and by more than 10 %: the signature of a jump between solution
+// branches.
+func branchJumps(c convCase, evs []*mdo.Evaluation, mto int) int {
+	if c.grid[0] == 0 {
+		return 0
+	}
+	n := c.grid[0]
+	jumps := 0
+	mass := func(s, i, j int) float64 {
+		ev := evs[s*n*n+i*n+j]
+		if !ev.Converged {
+			return math.NaN()
+		}
+		return ev.Outputs[mto]
+	}
+	for s := 0; s < 2; s++ {
+		for i := 0; i < n; i++ {
+			for j := 0; j < n; j++ {
+				a := mass(s, i, j)
+				for _, d := range [][2]int{{0, 1}, {1, 0}} {
+					i2, j2 := i+d[0], j+d[1]
+					if i2 >= n || j2 >= n {
+						continue
+					}
+					b := mass(s, i2, j2)
+					if math.Abs(a-b) > 0.1*math.Min(a, b) {
+						jumps++
+					}
+				}
+			}
+		}
+	}
+	return jumps
+}
+
+// convTable runs every case under every solver and returns the table and
+// the tallies per solver.
+func convTable(ctx context.Context, cases []convCase) (string, map[mdo.Method]*convTally, error) {
+	var b strings.Builder
+	fmt.Fprintf(&b, "%-34s %-20s %6s %9s %11s %13s %7s %10s %11s %6s\n", "case", "solver", "points", "converged", "not closing", "solver failed", "other", "mean iter", "mean time", "jumps")
+	total := map[mdo.Method]*convTally{}
+	reasons := map[string]int{}
+	for _, m := range mdo.Methods() {
+		total[m] = &convTally{}
+		for _, c := range cases {
+			evs, err := runCase(ctx, c, m, 1)
+			if err != nil {
+				return "", nil, err
+			}
+			var t convTally
+			for _, ev := range evs {
+				t.add(ev)
+			}
+			sys, _ := c.scen.NewSystem()
+			t.jumps = branchJumps(c, evs, sys.Index("mass.takeoff"))
+			b.WriteString(t.row(c.label, m.String()))
+			tt := total[m]
+			tt.points += t.points
+			tt.converged += t.converged
+			tt.notClosing += t.notClosing
+			tt.solverFailed += t.solverFailed
+			tt.other += t.other
+			tt.unclassified += t.unclassified
+			tt.iterations += t.iterations
+			tt.wall += t.wall
+			tt.jumps += t.jumps
+			for r, k := range t.reasons {
+				reasons[m.String()+": "+r] += k
+			}
+		}
+	}
+	for _, m := range mdo.Methods() {
+		b.WriteString(total[m].row("ALL", m.String()))
+	}
+	keys := make([]string, 0, len(reasons))
+	for k := range reasons {
+		keys = append(keys, k)
+	}
+	sort.Strings(keys)
+	b.WriteString("failure reasons:\n")
+	for _, k := range keys {
+		fmt.Fprintf(&b, "  %5d  %s\n", reasons[k], k)
+	}
+	return b.String(), total, nil
+}
+
+// row formats one line of the table.
+func (t *convTally) row(label, solver string) string {
+	share := func(k int) string { return fmt.Sprintf("%.1f%%", 100*float64(k)/float64(t.points)) }
+	iter, wall := 0.0, time.Duration(0)
+	if t.converged > 0 {
+		iter = float64(t.iterations) / float64(t.converged)
+		wall = t.wall / time.Duration(t.converged)
+	}
+	return fmt.Sprintf("%-34s %-20s %6d %9s %11s %13s %7s %10.1f %11s %6d\n", label, solver, t.points, share(t.converged), share(t.notClosing), share(t.solverFailed), share(t.other), iter, wall.Round(100*time.Nanosecond), t.jumps)
+}
+
+// TestConvergence runs a small version of the benchmark (3 × 3 grids, 12
+// hypercube points per study box) and prints its table with -v.
+func TestConvergence(t *testing.T) {
+	table, total, err := convTable(context.Background(), convergenceCases(3, 12))
+	if err != nil {
+		t.Fatal(err)
+	}
+	t.Log("\n" + table)
+	for _, m := range mdo.Methods() {
+		tt := total[m]
+		if tt.unclassified > 0 {
+			t.Errorf("%s: %d failed evaluations carry no failure class", m, tt.unclassified)
+		}
+		// at most 2 % of the points may be solver failures
+		if 50*tt.solverFailed > tt.points {
+			t.Errorf("%s: %d of %d points are solver failures", m, tt.solverFailed, tt.points)
+		}
+	}
+}
+
+// BenchmarkConvergence runs the full sweep (11 × 11 grids at two sweeps
+// for each aircraft, 200 hypercube points per example study box) once per
+// iteration and prints the table.
+func BenchmarkConvergence(b *testing.B) {
+	cases := convergenceCases(11, 200)
+	for i := 0; i < b.N; i++ {
+		table, _, err := convTable(context.Background(), cases)
+		if err != nil {
+			b.Fatal(err)
+		}
+		if i == 0 {
+			fmt.Print(table)
+		}
+	}
+}

@@ -1,0 +1,229 @@
+package mdo
+
+import (
+	"context"
+	"errors"
+	"math"
+)
+
+// solvePath is one way of solving the coupled groups of an analysis.
+type solvePath int
+
+const (
+	// pathConfigured is each group's configured solver.
+	pathConfigured solvePath = iota
+	// pathRelaxed is Aitken-relaxed Gauss–Seidel with the relaxation
+	// factor kept in [0.05, 1] (an adaptive under-relaxation), starting
+	// from at most 0.7.
+	pathRelaxed
+	// pathNewton is Newton's method with a backtracking line search and
+	// Broyden-updated Jacobians (newton.go).
+	pathNewton
+	// pathContinuation marches the parameters from the reference state to
+	// the point (continuation below).
+	pathContinuation
+)
+
+var pathNames = [...]string{"configured", "fallback: relaxed gauss-seidel", "fallback: newton", "fallback: continuation"}
+
+// String names the path.
+func (p solvePath) String() string { return pathNames[p] }
+
+// damped reports whether the path keeps Aitken's factor an
+// under-relaxation.
+func (p solvePath) damped() bool { return p == pathRelaxed || p == pathContinuation }
+
+// settings returns the solver settings of a group on this path.
+func (p solvePath) settings(s SolverSettings) SolverSettings {
+	switch p {
+	case pathRelaxed, pathContinuation:
+		s.Method = AitkenGaussSeidel
+		s.Relaxation = math.Min(s.Relaxation, 0.7)
+	case pathNewton:
+		s.Method = Newton
+		if s.MaxIterations > 100 {
+			s.MaxIterations = 100
+		}
+	}
+	return s
+}
+
+// Path names the solver path that converged the last Analyze: the
+// configured method's name, or the fallback that succeeded
+// ("fallback: relaxed gauss-seidel", "fallback: newton",
+// "fallback: continuation").
+func (w *Workspace) Path() string {
+	if w.path == pathConfigured {
+		for gi, g := range w.sys.groups {
+			if g.coupled {
+				return w.settings[gi].Method.String()
+			}
+		}
+		return "direct"
+	}
+	return w.path.String()
+}
+
+// fallbackScratch holds the buffers of the fallback chain, allocated the
+// first time a fallback runs.
+type fallbackScratch struct {
+	target, guess, state []float64
+}
+
+// fallback runs the fallback chain after the configured solver failed
+// with first. The chain is fixed and every attempt starts from the
+// workspace's own guesses (or from the reference state), so the answer
+// depends on the point alone, never on what was analysed before:
+//
+//  1. relaxed Gauss–Seidel: Aitken relaxation kept in [0.05, 1], from
+//     a factor of at most 0.7;
+//  2. Newton with a line search (skipped when Newton was the configured
+//     solver of every group);
+//  3. continuation from the reference state, when one is set
+//     (SetReference).
+//
+// When the configured solver converged onto a range limit (a balance
+// that runs away, *NotClosingError) only the continuation runs: it is the one path
+// that can still reach a solution on the branch of the reference state.
+//
+// When every attempt fails the most informative error is returned: a
+// balance that runs away (not closing) before a numerical failure.
+func (w *Workspace) fallback(ctx context.Context, first error) error {
+	best := first
+	allNewton, allowed := true, false
+	for gi, g := range w.sys.groups {
+		if g.coupled && w.settings[gi].Method != Newton {
+			allNewton = false
+		}
+		if g.coupled && !w.settings[gi].NoFallback {
+			allowed = true
+		}
+	}
+	if !allowed {
+		return first
+	}
+	// a balance that runs away is physics, not numerics: only the march
+	// from the reference state may still find the branch it connects to
+	var nc *NotClosingError
+	physical := errors.As(first, &nc)
+	for _, p := range []solvePath{pathRelaxed, pathNewton} {
+		if physical || (p == pathNewton && allNewton) {
+			continue
+		}
+		err := w.analyzeWith(ctx, p)
+		if err == nil {
+			w.path = p
+			return nil
+		}
+		if ctx.Err() != nil {
+			return err
+		}
+		best = moreInformative(best, err)
+	}
+	if w.ref != nil {
+		err := w.continuation(ctx)
+		if err == nil {
+			w.path = pathContinuation
+			return nil
+		}
+		if ctx.Err() != nil {
+			return err
+		}
+		best = moreInformative(best, err)
+	}
+	return best
+}
+
+// moreInformative returns the error that says more about the design: one
+// classed as not closing over any other, else the earlier one.
+func moreInformative(a, b error) error {
+	if Classify(a) != DoesNotClose && Classify(b) == DoesNotClose {
+		return b
+	}
+	return a
+}
+
+// continuationSteps bounds the number of continuation steps.
+const continuationSteps = 64
+
+// continuation marches the parameters from the reference state to the
+// workspace's parameters: p(t) = p_ref + t (p − p_ref), first in steps of
+// t = 1/4, each solve (relaxed Gauss–Seidel) starting from the coupling
+// state of the last converged step; a step that fails is halved, a step
+// that succeeds lets the next one double (at most 1/4). A parameter whose
+// reference and target are both whole numbers takes rounded values. The
+// parameters and guesses are restored afterwards.
+func (w *Workspace) continuation(ctx context.Context) error {
+	if w.fb == nil {
+		n := len(w.val)
+		w.fb = &fallbackScratch{target: make([]float64, n), guess: make([]float64, n), state: make([]float64, n)}
+	}
+	fb := w.fb
+	copy(fb.target, w.val)
+	copy(fb.guess, w.guess)
+	copy(fb.state, w.ref)
+	defer func() {
+		for _, i := range w.sys.params {
+			w.val[i] = fb.target[i]
+		}
+		copy(w.guess, fb.guess)
+	}()
+	t, h := 0.0, 0.25
+	var err error
+	for steps := 0; steps < continuationSteps; steps++ {
+		tn := math.Min(1, t+h)
+		for _, i := range w.sys.params {
+			a, b := w.ref[i], fb.target[i]
+			v := a + tn*(b-a)
+			if tn == 1 {
+				v = b
+			} else if a == math.Trunc(a) && b == math.Trunc(b) {
+				v = math.Round(v)
+			}
+			w.val[i] = v
+		}
+		for _, g := range w.sys.groups {
+			for _, v := range g.tear {
+				w.guess[v] = fb.state[v]
+			}
+		}
+		err = w.analyzeWith(ctx, pathContinuation)
+		if err == nil {
+			if tn == 1 {
+				return nil
+			}
+			t = tn
+			copy(fb.state, w.val)
+			h = math.Min(0.25, 2*h)
+			continue
+		}
+		if ctx.Err() != nil || !w.loopFailed {
+			return err
+		}
+		h /= 2
+		if h < 1.0/256 {
+			break
+		}
+	}
+	if err == nil {
+		err = errors.New("mdo: continuation did not reach the point")
+	}
+	return err
+}
+
+// SetReference makes the workspace's current values the reference state
+// of its fallback chain: when an analysis fails, continuation marches the
+// parameters from these values to the point's, each step starting from
+// the last converged coupling state. Call it after a successful Analyze
+// of the study's reference point; nil removes the reference.
+func (w *Workspace) SetReference(state []float64) error {
+	if state == nil {
+		w.ref = nil
+		return nil
+	}
+	if len(state) != len(w.val) {
+		return errors.New("mdo: a reference state needs one value per variable of the system")
+	}
+	w.ref = append(w.ref[:0], state...)
+	return nil
+}
