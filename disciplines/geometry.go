@@ -328,8 +328,13 @@ type GeometryOptions struct {
 	HTailAspectRatio, HTailTaper, HTailSweep, HTailThickness float64
 	VTailAspectRatio, VTailTaper, VTailSweep, VTailThickness float64 // aspect ratio h²/S_v
 	// HTailPosition, VTailPosition: x of the tail's MAC quarter chord as a
-	// fraction of the fuselage length.
+	// fraction of the fuselage length, where the root fits on the
+	// fuselage. HTailEnd, VTailEnd: the aft-most station of the tail's
+	// root trailing edge as a fraction of the fuselage length (1 = the
+	// fuselage end); a tail too large to fit at its position moves forward
+	// to it (layout.go).
 	HTailPosition, VTailPosition float64
+	HTailEnd, VTailEnd           float64
 
 	// NacelleSpan: spanwise station of the inner and outer pod pairs as
 	// fractions of the semi-span. NacelleInlet: inlet x relative to the
@@ -352,7 +357,7 @@ func DefaultGeometryOptions() GeometryOptions {
 		SeatWidth:        0.55,
 		HTailAspectRatio: 3, HTailTaper: 0.3, HTailSweep: 45, HTailThickness: 0.04,
 		VTailAspectRatio: 1.2, VTailTaper: 0.35, VTailSweep: 50, VTailThickness: 0.04,
-		HTailPosition: 0.92, VTailPosition: 0.88,
+		HTailPosition: 0.92, VTailPosition: 0.88, HTailEnd: 1, VTailEnd: 1,
 		NacelleSpan: [2]float64{0.30, 0.55}, NacelleInlet: 0.25,
 		KornFactor: 0.87, MaxThicknessChord: 0.5,
 	}
@@ -365,7 +370,7 @@ func SubsonicGeometryOptions() GeometryOptions {
 		SeatWidth:        0.50,
 		HTailAspectRatio: 4.5, HTailTaper: 0.4, HTailSweep: 30, HTailThickness: 0.10,
 		VTailAspectRatio: 1.5, VTailTaper: 0.5, VTailSweep: 38, VTailThickness: 0.10,
-		HTailPosition: 0.93, VTailPosition: 0.90,
+		HTailPosition: 0.93, VTailPosition: 0.90, HTailEnd: 1, VTailEnd: 1,
 		NacelleSpan: [2]float64{0.33, 0.62}, NacelleInlet: -0.9,
 		KornFactor: 0.95, MaxThicknessChord: 0.35,
 	}
@@ -398,22 +403,16 @@ type ConfigurationSpec struct {
 	NacelleDiameter, NacelleLength float64 // 0 = no nacelles
 }
 
-// NewConfiguration places the wing, sizes and places the tails from their
-// volume coefficients and places the nacelles.
+// NewConfiguration places the wing, sizes the tails to their volume
+// coefficients with their arms as they sit on the fuselage (each at its
+// position of the options, or forward with its root trailing edge at the
+// options' end station when it does not fit; TailAreaForVolume) and
+// places the nacelles.
 func NewConfiguration(s ConfigurationSpec, o GeometryOptions) (Configuration, error) {
 	c := Configuration{Wing: s.Wing, Fuselage: s.Fuselage}
 	L := s.Fuselage.Length
 	if !(s.WingPosition >= 0.05 && s.WingPosition <= 0.9) {
 		return c, inputErr("wing.position", s.WingPosition, "", "[0.05, 0.9] (apex x / fuselage length)")
-	}
-	xac := s.WingPosition*L + s.Wing.MACX + 0.25*s.Wing.MAC
-	armH := o.HTailPosition*L - xac
-	armV := o.VTailPosition*L - xac
-	if !(armH > 0.05*L) {
-		return c, inputErr("htail.arm", armH, "m", "> 5 % of the fuselage length (move the wing forward: wing.position)")
-	}
-	if !(armV > 0.05*L) {
-		return c, inputErr("vtail.arm", armV, "m", "> 5 % of the fuselage length (move the wing forward: wing.position)")
 	}
 	if !(s.HTailVolume >= 0 && s.HTailVolume <= 3) {
 		return c, inputErr("htail.volume", s.HTailVolume, "", "[0, 3]")
@@ -421,15 +420,31 @@ func NewConfiguration(s ConfigurationSpec, o GeometryOptions) (Configuration, er
 	if !(s.VTailVolume > 0 && s.VTailVolume <= 1) {
 		return c, inputErr("vtail.volume", s.VTailVolume, "", "(0, 1]")
 	}
-	sh := TailVolumeArea(s.HTailVolume, s.Wing.Area, s.Wing.MAC, armH)
-	sv := TailVolumeArea(s.VTailVolume, s.Wing.Area, s.Wing.Span, armV)
+	xac := s.WingPosition*L + s.Wing.MACX + 0.25*s.Wing.MAC
+	hUnit, err := newSurface("htail", 1, o.HTailAspectRatio, o.HTailTaper, o.HTailSweep, o.HTailThickness)
+	if err != nil {
+		return c, err
+	}
+	vUnit, err := newSurface("vtail", 2, 2*o.VTailAspectRatio, o.VTailTaper, o.VTailSweep, o.VTailThickness)
+	if err != nil {
+		return c, err
+	}
+	sh, _, err := TailAreaForVolume("htail.volume", s.HTailVolume, s.HTailVolume*s.Wing.Area*s.Wing.MAC, hUnit, o.HTailPosition*L, o.HTailEnd*L, xac)
+	if err != nil {
+		return c, err
+	}
+	sv, _, err := TailAreaForVolume("vtail.volume", s.VTailVolume, s.VTailVolume*s.Wing.Area*s.Wing.Span, vUnit, o.VTailPosition*L, o.VTailEnd*L, xac)
+	if err != nil {
+		return c, err
+	}
 	return AssembleConfiguration(s.Wing, s.WingPosition, s.Fuselage, sh, sv, s.EngineCount, s.NacelleDiameter, s.NacelleLength, o)
 }
 
 // AssembleConfiguration places a wing (apex at wingPosition × fuselage
 // length), tails of the given areas [m2] (horizontal-tail area 0 = no
-// horizontal tail) at the positions of the options, and engineCount pods
-// of the given size (diameter 0 = no pods).
+// horizontal tail) at the positions of the options, or forward with
+// their root trailing edges at the options' end stations where they do
+// not fit, and engineCount pods of the given size (diameter 0 = no pods).
 func AssembleConfiguration(w Wing, wingPosition float64, f Fuselage, htailArea, vtailArea float64, engineCount int, nacelleDiameter, nacelleLength float64, o GeometryOptions) (Configuration, error) {
 	c := Configuration{Wing: w, Fuselage: f}
 	L := f.Length
@@ -442,12 +457,12 @@ func AssembleConfiguration(w Wing, wingPosition float64, f Fuselage, htailArea, 
 		if c.HTail, err = newSurface("htail", htailArea, o.HTailAspectRatio, o.HTailTaper, o.HTailSweep, o.HTailThickness); err != nil {
 			return c, err
 		}
-		c.HTailApex = o.HTailPosition*L - c.HTail.MACX - 0.25*c.HTail.MAC
+		c.HTailApex = tailApex(&c.HTail, o.HTailPosition*L, o.HTailEnd*L)
 	}
 	if c.VTail, err = newSurface("vtail", 2*vtailArea, 2*o.VTailAspectRatio, o.VTailTaper, o.VTailSweep, o.VTailThickness); err != nil {
 		return c, err
 	}
-	c.VTailApex = o.VTailPosition*L - c.VTail.MACX - 0.25*c.VTail.MAC
+	c.VTailApex = tailApex(&c.VTail, o.VTailPosition*L, o.VTailEnd*L)
 	c.Nacelles, err = placeNacelles(&c.Wing, c.WingApex, &c.Fuselage, engineCount, nacelleDiameter, nacelleLength, &o)
 	return c, err
 }
@@ -890,6 +905,10 @@ const (
 	geoOutVolume
 	geoOutMaxSection
 	geoOutWetted
+	geoOutClearance
+	geoOutTailSpanRatio
+	geoOutWingOverhang
+	geoOutTailOverhang
 	geoOutWave // RollAngles × (start, length, waveHarmonics coefficients)
 	geoNumOut  = geoOutWave + RollAngles*areaRulePerRoll
 )
@@ -1016,6 +1035,10 @@ func (g *Geometry) Outputs() []mdo.Var {
 	m(geoOutVolume, "aircraft.volume", "m3", "airframe volume without pods", 65, 0, 1e5)
 	m(geoOutMaxSection, "aircraft.max_cross_section", "m2", "largest normal cross-section of the airframe without pods", 5, 0, 1000)
 	m(geoOutWetted, "aircraft.wetted_area", "m2", "airframe wetted area without pods", 350, 0, 1e5)
+	m(geoOutClearance, "layout.wing_tail_clearance", "m", "least gap from the wing trailing edge to the horizontal-tail leading edge (negative = overlap in the top view)", 2, -200, 200)
+	m(geoOutTailSpanRatio, "layout.tail_span_ratio", "-", "horizontal-tail span over wing span", 0.4, 0, 10)
+	m(geoOutWingOverhang, "layout.wing_overhang", "m", "wing's aft-most point behind the fuselage end (negative = inside)", -3, -200, 200)
+	m(geoOutTailOverhang, "layout.tail_overhang", "m", "tails' aft-most point behind the fuselage end (negative = inside)", 1, -200, 200)
 	copy(o[geoOutWave:], areaRuleVars())
 	return o
 }
@@ -1085,6 +1108,10 @@ func (g *Geometry) Compute(in, out []float64) error {
 	out[geoOutVolume] = c.Volume()
 	out[geoOutMaxSection] = c.MaxCrossSection()
 	out[geoOutWetted] = sw + sf + sh + sv
+	out[geoOutClearance] = min(c.WingTailClearance(), 200)
+	out[geoOutTailSpanRatio] = c.TailSpanRatio()
+	out[geoOutWingOverhang] = c.WingOverhang()
+	out[geoOutTailOverhang] = c.TailOverhang()
 	mach := in[geoInMach]
 	if !(mach >= 0 && mach <= MaxMach) {
 		return inputErr("cruise.mach", mach, "", "[0, 2.5]")
