@@ -1,6 +1,6 @@
 package disciplines
 
-// Sizing (constraint) diagram of a converged aircraft analysis: the least
+// Sizing diagram of a converged aircraft analysis: the least
 // sea-level-static thrust-to-weight ratio each requirement asks for as a
 // function of the take-off wing loading, and the wing loadings the landing
 // field length allows, by the same methods the propulsion and mission
@@ -77,7 +77,8 @@ type SizingLimits struct {
 	Mission    *Mission
 }
 
-// SizingDiagram is the sizing (constraint) diagram of one analysed design.
+// SizingDiagram is the sizing diagram of one analysed design (drawn by
+// package disciplines/drawings).
 type SizingDiagram struct {
 	Boundaries []SizingBoundary
 	Limits     []WingLoadingLimit

@@ -1,52 +1,59 @@
 package repl
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"os"
 	"path/filepath"
 	"sync"
 
+	"couplet/disciplines/drawings"
 	"couplet/mdo"
-	"couplet/mdo/plot"
 	"couplet/mdo/report"
 	"couplet/mdo/store"
 )
 
-// RunOutputs writes what `couplet run` leaves in its output folder beside
-// summary.json: the case store DIR/results.db (one row per evaluation;
-// a script that runs several optimisations gets results-2.db, ...), the
-// evaluations as CSV, the plots (optimisation history, design structure
-// matrix, Pareto front; for an aircraft study the best design's wing
-// planform, top view, constraint diagram and coupling-solver residuals)
-// as SVG and PNG, and the self-contained
-// DIR/report.html. Use Recorder as RunOptions.Recorder and the value
-// itself as an ArtifactWriter, then Close it.
+// RunOutputs records the runs of a session's studies into its output
+// folder, the case store DIR/results.db (one row per evaluation; a
+// script that runs several optimisations gets results-2.db, ...), and
+// writes the run folder of a result with report.WriteRun: summary.json,
+// the evaluations as CSV, the plots as SVG and PNG (with the study's
+// further figures from Figures) and the self-contained DIR/report.html.
+// Use Recorder as the session's recorder, then Close it.
 type RunOutputs struct {
 	dir string
 	// PickUp makes each run continue the store an earlier, interrupted
 	// replay of the same script and seed left in dir: its evaluations
 	// answer the optimiser's points again without analysis.
 	PickUp bool
+	// Figures are the sources of a study's further figures; nil takes
+	// DefaultFigures.
+	Figures []report.FigureSource
 
 	mu      sync.Mutex
 	runs    int
 	stores  []*store.Store
 	ended   map[*mdo.Result]*store.Store
-	systems map[string]*mdo.System // study name → system, for the DSM
-	studies map[string]*mdo.Study  // study name → study, for the aircraft figures
+	studies map[string]*mdo.Study // study name → study, for the DSM and further figures
+}
+
+// DefaultFigures are the further figures of a run folder when none are
+// given: the aircraft drawings, which a study without aircraft geometry
+// does not get.
+func DefaultFigures() []report.FigureSource {
+	return []report.FigureSource{drawings.Figures}
 }
 
 // NewRunOutputs returns the outputs of a run into dir.
 func NewRunOutputs(dir string) *RunOutputs {
-	return &RunOutputs{dir: dir, ended: map[*mdo.Result]*store.Store{}, systems: map[string]*mdo.System{}, studies: map[string]*mdo.Study{}}
+	return &RunOutputs{dir: dir, ended: map[*mdo.Result]*store.Store{}, studies: map[string]*mdo.Study{}}
 }
 
 // Recorder makes the recorder cell.Attach installs in a study: each run
 // of an optimiser on it is recorded in a store of its own.
 func (o *RunOutputs) Recorder(st *mdo.Study) (mdo.Recorder, error) {
 	o.mu.Lock()
-	o.systems[st.Name] = st.System
 	o.studies[st.Name] = st
 	o.mu.Unlock()
 	return &runRecorder{o: o}, nil
@@ -70,7 +77,7 @@ func (o *RunOutputs) nextPath() (string, error) {
 
 // options are the store options of every run.
 func (o *RunOutputs) options() store.Options {
-	return store.Options{ToolVersion: "couplet " + Version, Overwrite: true}
+	return store.Options{ToolVersion: toolVersion(), Overwrite: true}
 }
 
 // keep registers a store for Close.
@@ -164,75 +171,26 @@ func (r *runRecorder) End(res *mdo.Result) error {
 	return err
 }
 
-// WriteArtifacts implements ArtifactWriter: summary.json from the case
-// store's summary, evaluations.csv, the plots and report.html of the
-// result the script handed over.
-func (o *RunOutputs) WriteArtifacts(dir string, rec *RunRecord) error {
-	r := rec.Result
-	if r == nil {
-		return nil
-	}
-	tool := "couplet " + Version
-	if err := store.WriteSummary(filepath.Join(dir, "summary.json"), r, store.SummaryOptions{Script: rec.Script, ToolVersion: tool}); err != nil {
-		return err
-	}
+// WriteRun writes the run folder of a result into dir with
+// report.WriteRun, from the store that recorded it and the study of its
+// name, and returns the files written.
+func (o *RunOutputs) WriteRun(ctx context.Context, dir, script string, r *mdo.Result) ([]string, error) {
 	o.mu.Lock()
 	st := o.ended[r]
-	sys := o.systems[r.Study]
+	study := o.studies[r.Study]
+	figs := o.Figures
 	o.mu.Unlock()
-	var evs []*mdo.Evaluation
-	if st != nil {
-		var err error
-		if evs, err = st.Evaluations(); err != nil {
-			return err
-		}
-		f, err := os.Create(filepath.Join(dir, "evaluations.csv"))
-		if err != nil {
-			return err
-		}
-		if err := store.WriteCSV(f, st.Columns(), evs); err != nil {
-			f.Close()
-			return err
-		}
-		if err := f.Close(); err != nil {
-			return err
-		}
+	if figs == nil {
+		figs = DefaultFigures()
 	}
-	var figs []*plot.Figure
-	if len(evs) > 0 {
-		h, err := plot.History(r, evs)
-		if err != nil {
-			return err
-		}
-		figs = append(figs, h)
-		if len(r.Objectives) > 1 {
-			p, err := plot.Pareto(r, evs)
-			if err != nil {
-				return err
-			}
-			figs = append(figs, p)
-		}
-	}
-	// an aircraft study's best design: planform, top view, constraint
-	// diagram, coupling-solver residuals (aircraft_figures.go)
-	extra, notes := o.aircraftFigures(r)
-	figs = append(figs, extra...)
-	if sys != nil {
-		d, err := plot.DSM(sys)
-		if err != nil {
-			return err
-		}
-		figs = append(figs, d)
-		extra = append(extra, d)
-	}
-	if _, err := plot.SaveAll(dir, figs...); err != nil {
-		return err
-	}
-	return report.WriteFile(filepath.Join(dir, "report.html"), r, report.Options{
-		Script: rec.Script, ToolVersion: tool, Evaluations: evs, Figures: extra,
-		ScatterMatrix: isDOE(r), Notes: notes,
+	return report.WriteRun(ctx, dir, report.Run{
+		Result: r, Study: study, Store: st, Script: script, ToolVersion: toolVersion(),
+		ScatterMatrix: isDOE(r), Figures: figs,
 	})
 }
+
+// toolVersion names the program in the files it writes.
+func toolVersion() string { return "couplet " + Version }
 
 // isDOE reports a design of experiments (its result stops "complete").
 func isDOE(r *mdo.Result) bool { return r.Stop == mdo.StopComplete }

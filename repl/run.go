@@ -10,6 +10,7 @@ import (
 	"time"
 
 	"couplet/mdo"
+	"couplet/mdo/report"
 	"couplet/mdo/store"
 )
 
@@ -29,10 +30,9 @@ type RunOptions struct {
 	Stdout, Stderr io.Writer
 	// Progress, if not nil, draws the progress of optimisations.
 	Progress *Progress
-	// Artifacts are further outputs written into OutDir after the
-	// standard ones (summary.json, results.db, evaluations.csv, the plots
-	// and report.html, see RunOutputs).
-	Artifacts []ArtifactWriter
+	// Figures are the sources of a study's further figures in the run
+	// folder; nil takes DefaultFigures.
+	Figures []report.FigureSource
 	// Grace is the time a cancelled cell has to come back (default 2 s).
 	Grace time.Duration
 	// PickUp continues the case stores an interrupted replay of the same
@@ -49,11 +49,6 @@ type RunRecord struct {
 	// Summary is what summary.json holds when there is a result.
 	Summary *store.Summary
 	Cells   []*Cell
-}
-
-// ArtifactWriter writes further output of a run into its folder.
-type ArtifactWriter interface {
-	WriteArtifacts(dir string, rec *RunRecord) error
 }
 
 // UsageError is an error in how the tool was called (exit status 2).
@@ -95,6 +90,7 @@ func Run(ctx context.Context, opts RunOptions) (*RunRecord, error) {
 	}
 	outs := NewRunOutputs(opts.OutDir)
 	outs.PickUp = opts.PickUp
+	outs.Figures = opts.Figures
 	defer outs.Close()
 	s, err := NewSession(Options{
 		Policy: opts.Policy, Stdout: out, Stderr: errw, NoErrorEcho: true, OutDir: opts.OutDir,
@@ -141,24 +137,18 @@ func Run(ctx context.Context, opts RunOptions) (*RunRecord, error) {
 	rec.Result = resultOf(s)
 	if rec.Result == nil {
 		fmt.Fprintf(errw, "%s: the script handed over no result (call cell.Publish(result)); summary.json has no best point\n", opts.File)
-		var seed *uint64
-		if v, ok := s.Env().SeedUsed(); ok {
-			seed = &v
-		}
-		if err := writeEmptySummary(opts.OutDir, trimExt(filepath.Base(opts.File)), seed, len(f.Cells), started); err != nil {
+		seed, _ := s.Env().SeedUsed()
+		run := report.Run{Name: trimExt(filepath.Base(opts.File)), Seed: seed, Cells: len(f.Cells), Started: started,
+			Script: rec.Script, ToolVersion: toolVersion()}
+		if _, err := report.WriteRun(ctx, opts.OutDir, run); err != nil {
 			return rec, err
 		}
 		return rec, nil
 	}
-	sum := store.NewSummary(rec.Result, store.SummaryOptions{Script: rec.Script, ToolVersion: "couplet " + Version})
+	sum := store.NewSummary(rec.Result, store.SummaryOptions{Script: rec.Script, ToolVersion: toolVersion()})
 	rec.Summary = &sum
-	if err := outs.WriteArtifacts(opts.OutDir, rec); err != nil {
+	if _, err := outs.WriteRun(ctx, opts.OutDir, rec.Script, rec.Result); err != nil {
 		return rec, fmt.Errorf("writing the run's output: %w", err)
-	}
-	for _, a := range opts.Artifacts {
-		if err := a.WriteArtifacts(opts.OutDir, rec); err != nil {
-			return rec, fmt.Errorf("writing the run's output: %w", err)
-		}
 	}
 	return rec, nil
 }

@@ -93,7 +93,7 @@ func DSMFigure(d DSMData) (*Figure, error) {
 	if len(d.Links) != n {
 		return nil, fmt.Errorf("plot: the design structure matrix has %d disciplines but %d rows of links", n, len(d.Links))
 	}
-	p := newPlot("design structure matrix", "consumer (inputs from the row)", "producer (outputs to the column)")
+	p := NewPlot("design structure matrix", "consumer (inputs from the row)", "producer (outputs to the column)")
 	var ticks []plot.Tick
 	for i, name := range d.Names {
 		ticks = append(ticks, plot.Tick{Value: float64(i) + 0.5, Label: name})
@@ -107,7 +107,7 @@ func DSMFigure(d DSMData) (*Figure, error) {
 	p.Y.Scale = plot.InvertedScale{Normalizer: plot.LinearScale{}}
 	p.Add(dsmGrid{d})
 	side := max(12*vg.Centimeter, vg.Length(n)*2.4*vg.Centimeter)
-	return newFigure("dsm", p.Title.Text, side+2*vg.Centimeter, side, func(dc draw.Canvas) { p.Draw(dc) }), nil
+	return NewFigure("dsm", p.Title.Text, side+2*vg.Centimeter, side, func(dc draw.Canvas) { p.Draw(dc) }), nil
 }
 
 // dsmGrid is the plotter that draws the matrix cells.

@@ -4,9 +4,10 @@ import (
 	"bytes"
 	"fmt"
 	"io"
-	"os"
 	"path/filepath"
 	"strings"
+
+	"couplet/mdo/runfolder"
 
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
@@ -14,19 +15,36 @@ import (
 	"gonum.org/v1/plot/vg/vgsvg"
 )
 
-// Figure is a drawing ready to be written as SVG or PNG.
+// Figure is a picture ready to be written as SVG or PNG.
 type Figure struct {
 	// Title is the figure's title, also drawn on it.
 	Title string
-	// Name is a file-name stem for the figure ("history", "dsm", ...).
+	// Name is a file-name stem for the figure ("history", "dsm", ...):
+	// lower-case letters, digits and underscores.
 	Name string
 	// Width and Height are the figure's size.
 	Width, Height vg.Length
-	draw          func(draw.Canvas)
+	// Reason, when not nil, says why the figure could not be drawn (see
+	// LeftOut): writing it returns the reason.
+	Reason error
+	draw   func(draw.Canvas)
 }
 
-// newFigure returns a figure of the given size drawn by fn.
-func newFigure(name, title string, w, h vg.Length, fn func(draw.Canvas)) *Figure {
+// LeftOut returns the stand-in of a figure that could not be drawn, with
+// the reason: a report shows the reason in the figure's place, and a run
+// folder saves no file for it.
+func LeftOut(name, title string, reason error) *Figure {
+	if reason == nil {
+		reason = fmt.Errorf("plot: figure %s left out for no stated reason", name)
+	}
+	return &Figure{Name: name, Title: title, Reason: reason}
+}
+
+// NewFigure returns a figure of the given size drawn by fn: the builder
+// of every figure of this package, and of figures drawn elsewhere (an
+// application's own pictures). A panic in fn while the figure is written is
+// returned as an error naming the figure.
+func NewFigure(name, title string, w, h vg.Length, fn func(draw.Canvas)) *Figure {
 	return &Figure{Name: name, Title: title, Width: w, Height: h, draw: fn}
 }
 
@@ -34,9 +52,12 @@ func newFigure(name, title string, w, h vg.Length, fn func(draw.Canvas)) *Figure
 func (f *Figure) WriteSVG(w io.Writer) (err error) {
 	defer func() {
 		if r := recover(); r != nil {
-			err = fmt.Errorf("plot: drawing %s: %v", f.Name, r)
+			err = fmt.Errorf("plot: rendering %s: %v", f.Name, r)
 		}
 	}()
+	if f.Reason != nil {
+		return f.Reason
+	}
 	c := vgsvg.New(f.Width, f.Height)
 	f.draw(draw.New(c))
 	if _, err := c.WriteTo(w); err != nil {
@@ -49,9 +70,12 @@ func (f *Figure) WriteSVG(w io.Writer) (err error) {
 func (f *Figure) WritePNG(w io.Writer) (err error) {
 	defer func() {
 		if r := recover(); r != nil {
-			err = fmt.Errorf("plot: drawing %s: %v", f.Name, r)
+			err = fmt.Errorf("plot: rendering %s: %v", f.Name, r)
 		}
 	}()
+	if f.Reason != nil {
+		return f.Reason
+	}
 	c := vgimg.NewWith(vgimg.UseWH(f.Width, f.Height), vgimg.UseDPI(96))
 	f.draw(draw.New(c))
 	if _, err := (vgimg.PngCanvas{Canvas: c}).WriteTo(w); err != nil {
@@ -82,7 +106,7 @@ func (f *Figure) InlineSVG() (string, error) {
 }
 
 // Save writes the figure to path, as SVG or PNG by the extension (.svg,
-// .png).
+// .png), atomically and never through a symbolic link named path.
 func (f *Figure) Save(path string) error {
 	var write func(io.Writer) error
 	switch ext := strings.ToLower(filepath.Ext(path)); ext {
@@ -93,15 +117,11 @@ func (f *Figure) Save(path string) error {
 	default:
 		return fmt.Errorf("plot: cannot save %s: extension %q, allowed .svg and .png", path, ext)
 	}
-	file, err := os.Create(path)
-	if err != nil {
-		return fmt.Errorf("plot: saving %s: %w", path, err)
-	}
-	if err := write(file); err != nil {
-		file.Close()
+	var b bytes.Buffer
+	if err := write(&b); err != nil {
 		return err
 	}
-	if err := file.Close(); err != nil {
+	if err := runfolder.WriteFile(path, b.Bytes()); err != nil {
 		return fmt.Errorf("plot: saving %s: %w", path, err)
 	}
 	return nil

@@ -2,6 +2,7 @@ package plot
 
 import (
 	"fmt"
+	"image/color"
 	"math"
 
 	"couplet/mdo"
@@ -27,7 +28,7 @@ func History(r *mdo.Result, evs []*mdo.Evaluation) (*Figure, error) {
 	}
 	ordered := byID(evs)
 	obj := r.Objectives[0]
-	ylab := label(obj.Name, unitOf(r, obj.Name))
+	ylab := AxisLabel(obj.Name, unitOf(r, obj.Name))
 
 	var feas, infeas, bestLine, bestViol plotter.XYs
 	var best *mdo.Evaluation
@@ -64,15 +65,15 @@ func History(r *mdo.Result, evs []*mdo.Evaluation) (*Figure, error) {
 			}
 		}
 	}
-	top := newPlot("", "evaluations", ylab)
+	top := NewPlot("", "evaluations", ylab)
 	top.Title.Text = "objective"
-	if err := addScatter(top, infeas, infeasibleColor, draw.CrossGlyph{}, "infeasible"); err != nil {
+	if err := AddScatter(top, infeas, infeasibleColor, draw.CrossGlyph{}, "infeasible"); err != nil {
 		return nil, err
 	}
-	if err := addScatter(top, feas, feasibleColor, draw.CircleGlyph{}, "feasible"); err != nil {
+	if err := AddScatter(top, feas, feasibleColor, draw.CircleGlyph{}, "feasible"); err != nil {
 		return nil, err
 	}
-	if err := addLine(top, bestLine, bestColor, 2, "best feasible so far"); err != nil {
+	if err := AddLine(top, bestLine, bestColor, 2, "best feasible so far"); err != nil {
 		return nil, err
 	}
 
@@ -92,24 +93,24 @@ func History(r *mdo.Result, evs []*mdo.Evaluation) (*Figure, error) {
 			least = append(least, plotter.XY{X: n, Y: lo})
 		}
 	}
-	bottom := newPlot("", "evaluations", "constraint violation [-]")
+	bottom := NewPlot("", "evaluations", "constraint violation [-]")
 	bottom.Title.Text = "violation"
 	blockName := "evaluation"
 	if block > 1 {
 		blockName = fmt.Sprintf("block of %d evaluations", block)
 	}
-	if err := addLine(bottom, worst, infeasibleColor, 1, "worst of each "+blockName); err != nil {
+	if err := AddLine(bottom, worst, infeasibleColor, 1, "worst of each "+blockName); err != nil {
 		return nil, err
 	}
-	if err := addLine(bottom, least, feasibleColor, 1, "best of each "+blockName); err != nil {
+	if err := AddLine(bottom, least, feasibleColor, 1, "best of each "+blockName); err != nil {
 		return nil, err
 	}
-	if err := addLine(bottom, bestViol, bestColor, 2, "best point so far"); err != nil {
+	if err := AddLine(bottom, bestViol, bestColor, 2, "best point so far"); err != nil {
 		return nil, err
 	}
 	bottom.Y.Min = 0
 	title := fmt.Sprintf("optimisation history: %s (%s, %d evaluations)", r.Study, r.Optimizer, len(ordered))
-	return newFigure("history", title, 16*vg.Centimeter, 16*vg.Centimeter, func(dc draw.Canvas) {
+	return NewFigure("history", title, 16*vg.Centimeter, 16*vg.Centimeter, func(dc draw.Canvas) {
 		dc = drawTitle(dc, title)
 		plots := [][]*plot.Plot{{top}, {bottom}}
 		tiles := draw.Tiles{Rows: 2, Cols: 1, PadY: vg.Points(10), PadTop: vg.Points(2), PadBottom: vg.Points(4), PadLeft: vg.Points(4), PadRight: vg.Points(8)}
@@ -143,8 +144,8 @@ func byID(evs []*mdo.Evaluation) []*mdo.Evaluation {
 	return out
 }
 
-// addScatter adds points if there are any.
-func addScatter(p *plot.Plot, xys plotter.XYs, c interface{ RGBA() (r, g, b, a uint32) }, shape draw.GlyphDrawer, name string) error {
+// AddScatter adds points with a legend entry to p if there are any.
+func AddScatter(p *plot.Plot, xys plotter.XYs, c color.Color, shape draw.GlyphDrawer, name string) error {
 	if len(xys) == 0 {
 		return nil
 	}
@@ -160,8 +161,9 @@ func addScatter(p *plot.Plot, xys plotter.XYs, c interface{ RGBA() (r, g, b, a u
 	return nil
 }
 
-// addLine adds a line if there are points.
-func addLine(p *plot.Plot, xys plotter.XYs, c interface{ RGBA() (r, g, b, a uint32) }, width float64, name string) error {
+// AddLine adds a line of the given colour and width [pt] to p if there
+// are points, with a legend entry unless name is empty.
+func AddLine(p *plot.Plot, xys plotter.XYs, c color.Color, width float64, name string) error {
 	if len(xys) == 0 {
 		return nil
 	}

@@ -27,7 +27,7 @@ func ParallelCoordinates(r *mdo.Result, evs []*mdo.Evaluation) (*Figure, error) 
 		return nil, fmt.Errorf("plot: ParallelCoordinates of study %q needs at least one evaluation, got none", r.Study)
 	}
 	cols := studyColumns(r, evs, len(r.Design))
-	p := newPlot(fmt.Sprintf("parallel coordinates: %s", r.Study), "variable [bounds]", "normalised value [-] (lower bound 0, upper bound 1)")
+	p := NewPlot(fmt.Sprintf("parallel coordinates: %s", r.Study), "variable [bounds]", "normalised value [-] (lower bound 0, upper bound 1)")
 	var ticks []plot.Tick
 	for k, c := range cols {
 		ticks = append(ticks, plot.Tick{Value: float64(k), Label: fmt.Sprintf("%s\n[%.4g, %.4g] %s", c.name, c.lo, c.hi, unitText(c.unit))})
@@ -103,7 +103,7 @@ func ParallelCoordinates(r *mdo.Result, evs []*mdo.Evaluation) (*Figure, error) 
 		p.Add(l)
 	}
 	w := max(16*vg.Centimeter, vg.Length(len(cols))*2.6*vg.Centimeter)
-	return newFigure("parallel_coordinates", p.Title.Text, w, 11*vg.Centimeter, func(dc draw.Canvas) { p.Draw(dc) }), nil
+	return NewFigure("parallel_coordinates", p.Title.Text, w, 11*vg.Centimeter, func(dc draw.Canvas) { p.Draw(dc) }), nil
 }
 
 // unitText formats a unit for tick labels.

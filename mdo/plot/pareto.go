@@ -23,7 +23,7 @@ func Pareto(r *mdo.Result, evs []*mdo.Evaluation) (*Figure, error) {
 		return nil, fmt.Errorf("plot: Pareto needs a study with at least two objectives, this one has %d", n)
 	}
 	o1, o2 := r.Objectives[0], r.Objectives[1]
-	p := newPlot(fmt.Sprintf("Pareto front: %s", r.Study), label(o1.String(), unitOf(r, o1.Name)), label(o2.String(), unitOf(r, o2.Name)))
+	p := NewPlot(fmt.Sprintf("Pareto front: %s", r.Study), AxisLabel(o1.String(), unitOf(r, o1.Name)), AxisLabel(o2.String(), unitOf(r, o2.Name)))
 	front := r.Front
 	if len(front) == 0 {
 		front = nonDominated(evs)
@@ -48,10 +48,10 @@ func Pareto(r *mdo.Result, evs []*mdo.Evaluation) (*Figure, error) {
 			infeas = append(infeas, xy)
 		}
 	}
-	if err := addScatter(p, infeas, infeasibleColor, draw.CrossGlyph{}, "infeasible"); err != nil {
+	if err := AddScatter(p, infeas, infeasibleColor, draw.CrossGlyph{}, "infeasible"); err != nil {
 		return nil, err
 	}
-	if err := addScatter(p, feas, mutedColor, draw.CircleGlyph{}, "feasible, dominated"); err != nil {
+	if err := AddScatter(p, feas, mutedColor, draw.CircleGlyph{}, "feasible, dominated"); err != nil {
 		return nil, err
 	}
 	var fr plotter.XYs
@@ -80,7 +80,7 @@ func Pareto(r *mdo.Result, evs []*mdo.Evaluation) (*Figure, error) {
 	if len(fr)+len(feas)+len(infeas) == 0 {
 		return nil, fmt.Errorf("plot: Pareto of study %q: no evaluation has finite values of both objectives", r.Study)
 	}
-	return newFigure("pareto", p.Title.Text, 16*vg.Centimeter, 12*vg.Centimeter, func(dc draw.Canvas) { p.Draw(dc) }), nil
+	return NewFigure("pareto", p.Title.Text, 16*vg.Centimeter, 12*vg.Centimeter, func(dc draw.Canvas) { p.Draw(dc) }), nil
 }
 
 // nonDominated returns the feasible evaluations no other dominates.

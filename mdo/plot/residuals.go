@@ -1,9 +1,11 @@
 package plot
 
 import (
+	"context"
 	"fmt"
 	"math"
 	"strings"
+	"time"
 
 	"couplet/mdo"
 	"gonum.org/v1/plot"
@@ -20,7 +22,7 @@ func Residuals(reports []mdo.Report) (*Figure, error) {
 	if len(reports) == 0 {
 		return nil, fmt.Errorf("plot: Residuals needs at least one solver report (the system has no coupled group?)")
 	}
-	p := newPlot("coupling-solver residuals", "iteration", "scaled residual [-] (log scale)")
+	p := NewPlot("coupling-solver residuals", "iteration", "scaled residual [-] (log scale)")
 	p.Y.Scale = plot.LogScale{}
 	p.Y.Tick.Marker = plot.LogTicks{Prec: 1}
 	lo, hi := math.Inf(1), math.Inf(-1)
@@ -79,5 +81,65 @@ func Residuals(reports []mdo.Report) (*Figure, error) {
 	p.Y.Min, p.Y.Max = lo/3, hi*3
 	p.X.Min, p.X.Max = 0, maxIt+1
 	p.Legend.Left = false
-	return newFigure("residuals", p.Title.Text, 16*vg.Centimeter, 11*vg.Centimeter, func(dc draw.Canvas) { p.Draw(dc) }), nil
+	return NewFigure("residuals", p.Title.Text, 16*vg.Centimeter, 11*vg.Centimeter, func(dc draw.Canvas) { p.Draw(dc) }), nil
+}
+
+// reanalysisTimeout bounds the one analysis of the best design that
+// BestResiduals runs.
+const reanalysisTimeout = time.Minute
+
+// BestResiduals draws the coupling-solver residuals of one re-analysis of
+// a result's best design: its design values over the study's Fixed
+// parameters, the rest at their defaults, as the evaluator sets them.
+// Coupled groups of more than two disciplines are named by their first
+// and last member and their size, so that the legend fits.
+func BestResiduals(ctx context.Context, r *mdo.Result, st *mdo.Study) (*Figure, error) {
+	if r == nil || r.Best == nil {
+		return nil, fmt.Errorf("plot: BestResiduals needs a result with a best design")
+	}
+	if st == nil || st.System == nil {
+		return nil, fmt.Errorf("plot: BestResiduals needs the study of the result, with its system")
+	}
+	sol, err := Reanalyse(ctx, r, st)
+	if err != nil {
+		return nil, err
+	}
+	return Residuals(shortGroupNames(sol.Reports))
+}
+
+// Reanalyse runs the analysis of a result's best design once more (its
+// design values over the study's Fixed parameters, the rest at their
+// defaults, as the evaluator sets them) and returns its solution with the
+// coupling-solver reports. The analysis is bounded to a minute.
+func Reanalyse(ctx context.Context, r *mdo.Result, st *mdo.Study) (*mdo.Solution, error) {
+	params := make(map[string]float64, len(st.Fixed)+len(r.Design))
+	for k, x := range st.Fixed {
+		params[k] = x
+	}
+	for k, x := range r.DesignValues() {
+		if st.System.IsParameter(k) {
+			params[k] = x
+		}
+	}
+	ctx, cancel := context.WithTimeout(ctx, reanalysisTimeout)
+	defer cancel()
+	sol, err := st.System.Analyze(ctx, params)
+	if err != nil {
+		return nil, fmt.Errorf("plot: re-analysing the best design #%d: %w", r.Best.ID, err)
+	}
+	return sol, nil
+}
+
+// shortGroupNames returns copies of the reports whose groups of more
+// than two disciplines are named by their first and last member and
+// their size.
+func shortGroupNames(reports []mdo.Report) []mdo.Report {
+	out := make([]mdo.Report, len(reports))
+	for i, r := range reports {
+		out[i] = r.Clone()
+		if n := len(r.Disciplines); n > 2 {
+			out[i].Disciplines = []string{fmt.Sprintf("%s … %s: %d disciplines", r.Disciplines[0], r.Disciplines[n-1], n)}
+		}
+	}
+	return out
 }

@@ -81,7 +81,7 @@ func ScatterMatrix(r *mdo.Result, evs []*mdo.Evaluation) (*Figure, error) {
 			p.X.Tick.Label.Font.Size = vg.Points(7)
 			p.Y.Tick.Label.Font.Size = vg.Points(7)
 			if i == n-1 {
-				p.X.Label.Text = label(cols[j].name, cols[j].unit)
+				p.X.Label.Text = AxisLabel(cols[j].name, cols[j].unit)
 			} else {
 				p.X.Tick.Marker = plot.ConstantTicks{}
 			}
@@ -123,17 +123,17 @@ func ScatterMatrix(r *mdo.Result, evs []*mdo.Evaluation) (*Figure, error) {
 						infeas = append(infeas, plotter.XY{X: x, Y: y})
 					}
 				}
-				if err := addScatter(p, infeas, infeasibleColor, draw.CrossGlyph{}, "infeasible"); err != nil {
+				if err := AddScatter(p, infeas, infeasibleColor, draw.CrossGlyph{}, "infeasible"); err != nil {
 					return nil, err
 				}
-				if err := addScatter(p, feas, feasibleColor, draw.CircleGlyph{}, "feasible"); err != nil {
+				if err := AddScatter(p, feas, feasibleColor, draw.CircleGlyph{}, "feasible"); err != nil {
 					return nil, err
 				}
 				p.Legend = plot.NewLegend()
 				// the first row's scale is shown on its second tile, as
 				// the first holds a histogram
 				if j == 0 || i == 0 && j == 1 {
-					p.Y.Label.Text = label(cols[i].name, cols[i].unit)
+					p.Y.Label.Text = AxisLabel(cols[i].name, cols[i].unit)
 				}
 			}
 			if j != 0 && !(i == 0 && j == 1) {
@@ -146,7 +146,7 @@ func ScatterMatrix(r *mdo.Result, evs []*mdo.Evaluation) (*Figure, error) {
 	}
 	title := fmt.Sprintf("scatter matrix: %s, %d evaluations (blue feasible, red infeasible)", r.Study, len(evs))
 	side := max(14*vg.Centimeter, vg.Length(n)*4*vg.Centimeter)
-	return newFigure("scatter_matrix", title, side, side, func(dc draw.Canvas) {
+	return NewFigure("scatter_matrix", title, side, side, func(dc draw.Canvas) {
 		dc = drawTitle(dc, title)
 		tiles := draw.Tiles{Rows: n, Cols: n, PadX: vg.Points(4), PadY: vg.Points(4), PadLeft: vg.Points(4), PadRight: vg.Points(6), PadBottom: vg.Points(4)}
 		cs := plot.Align(plots, tiles, dc)

@@ -20,7 +20,7 @@ var (
 	regionColor     = color.NRGBA{R: 44, G: 160, B: 44, A: 60}   // translucent green
 )
 
-// palette gives distinct line colours.
+// palette gives distinct line colours (see LineColor).
 var palette = []color.Color{
 	color.RGBA{R: 31, G: 119, B: 180, A: 255},
 	color.RGBA{R: 214, G: 39, B: 40, A: 255},
@@ -32,16 +32,18 @@ var palette = []color.Color{
 	color.RGBA{R: 188, G: 189, B: 34, A: 255},
 }
 
-// label formats an axis label "name [unit]".
-func label(name, unit string) string {
+// AxisLabel formats an axis label "name [unit]" ("-" for no unit).
+func AxisLabel(name, unit string) string {
 	if unit == "" {
 		unit = "-"
 	}
 	return name + " [" + unit + "]"
 }
 
-// newPlot returns a plot with a title and axis labels.
-func newPlot(title, x, y string) *plot.Plot {
+// NewPlot returns a gonum plot in this package's style, with a title,
+// axis labels and the legend at the top: the start of a figure drawn
+// with NewFigure.
+func NewPlot(title, x, y string) *plot.Plot {
 	p := plot.New()
 	p.Title.Text = title
 	p.X.Label.Text = x
@@ -49,6 +51,21 @@ func newPlot(title, x, y string) *plot.Plot {
 	p.Legend.Top = true
 	return p
 }
+
+// LineColor returns the i-th of a cycle of distinct line colours, the
+// one every figure of the package draws its series with.
+func LineColor(i int) color.Color {
+	if i < 0 {
+		i = -i
+	}
+	return palette[i%len(palette)]
+}
+
+// BestColor is the colour that marks the best design on a figure.
+func BestColor() color.Color { return bestColor }
+
+// RegionColor is the translucent fill of a feasible region.
+func RegionColor() color.Color { return regionColor }
 
 // unitOf finds the unit of a name among a result's outputs.
 func unitOf(r *mdo.Result, name string) string {

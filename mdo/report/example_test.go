@@ -4,14 +4,18 @@ import (
 	"bytes"
 	"context"
 	"fmt"
+	"os"
+	"path/filepath"
 	"strings"
 
 	"couplet/mdo"
 	"couplet/mdo/plot"
 	"couplet/mdo/report"
+	"couplet/mdo/store"
 )
 
-// A report of a small run with the standard plots and a top view.
+// A report of a small run with the standard plots and the design
+// structure matrix.
 func ExampleWrite() {
 	st, _ := mdo.SellarStudy(mdo.MDF)
 	st.Workers = 1
@@ -23,8 +27,7 @@ func ExampleWrite() {
 		evs = append(evs, e)
 	}
 	r, _ := ev.Finish(mdo.StopBudget)
-	top, err := plot.TopView(plot.Aircraft{WingSpan: 16, WingRootChord: 4.5, WingTipChord: 1.2, WingSweepLE: 35, WingApex: 10,
-		FuselageLength: 26, FuselageDiameter: 2.2})
+	top, err := plot.DSM(st.System)
 	if err != nil {
 		fmt.Println(err)
 		return
@@ -39,4 +42,45 @@ func ExampleWrite() {
 	// Output:
 	// 3 figures
 	// true
+}
+
+// A native Go program writes a run's folder: summary.json,
+// evaluations.csv, the plots and report.html, without the interpreter.
+func ExampleWriteRun() {
+	dir, err := os.MkdirTemp("", "run-")
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	defer os.RemoveAll(dir)
+	st, _ := mdo.SellarStudy(mdo.MDF)
+	db, err := store.Create(filepath.Join(dir, "results.db"), store.Options{ToolVersion: "my program"})
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	defer db.Close()
+	st.Recorder, st.Workers = db, 1
+	ev, _ := st.NewEvaluator()
+	_ = ev.Begin("grid", nil)
+	for i := 0; i < 10; i++ {
+		_, _ = ev.EvaluateOne(context.Background(), []float64{float64(i) / 10, 0.6, 0.1})
+	}
+	r, _ := ev.Finish(mdo.StopBudget)
+	files, err := report.WriteRun(context.Background(), dir, report.Run{Result: r, Study: st, Store: db, ToolVersion: "my program"})
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	for _, f := range files {
+		fmt.Println(filepath.Base(f))
+	}
+	// Output:
+	// summary.json
+	// evaluations.csv
+	// history.svg
+	// history.png
+	// dsm.svg
+	// dsm.png
+	// report.html
 }

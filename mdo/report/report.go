@@ -8,7 +8,6 @@ import (
 	"html/template"
 	"io"
 	"math"
-	"os"
 	"path/filepath"
 	"runtime"
 	"strconv"
@@ -16,6 +15,7 @@ import (
 
 	"couplet/mdo"
 	"couplet/mdo/plot"
+	"couplet/mdo/runfolder"
 )
 
 // Caution is the statement every report carries.
@@ -40,8 +40,10 @@ type Options struct {
 	ScatterMatrix bool
 	// NoStandardPlots leaves the standard plots out.
 	NoStandardPlots bool
-	// Figures are further plots (planform, constraint diagram, DSM, ...),
-	// shown after the standard ones.
+	// Figures are further plots (a study's own figures, the DSM, ...),
+	// shown after the standard ones; a figure that cannot be drawn
+	// (plot.LeftOut, or one that fails as it is drawn) has the reason written
+	// in its place.
 	Figures []*plot.Figure
 	// Notes are extra lines of text.
 	Notes []string
@@ -86,6 +88,9 @@ type frontView struct {
 type figView struct {
 	ID, Caption string
 	SVG         template.HTML
+	// LeftOut, if not empty, says why the figure could not be drawn; it
+	// stands in the figure's place.
+	LeftOut string
 }
 
 // num formats a number for a table.
@@ -143,13 +148,14 @@ func Write(w io.Writer, r *mdo.Result, opt Options) error {
 }
 
 // WriteFile writes the HTML report of a run to path (report.html in the
-// run's output folder).
+// run's output folder), atomically and never through a symbolic
+// link.
 func WriteFile(path string, r *mdo.Result, opt Options) error {
 	var b bytes.Buffer
 	if err := Write(&b, r, opt); err != nil {
 		return err
 	}
-	if err := os.WriteFile(path, b.Bytes(), 0o644); err != nil {
+	if err := runfolder.WriteFile(path, b.Bytes()); err != nil {
 		return fmt.Errorf("report: writing %s: %w", filepath.Base(path), err)
 	}
 	return nil
@@ -190,46 +196,40 @@ func build(r *mdo.Result, opt Options) (*view, error) {
 	if len(r.Objectives) >= 2 && len(r.Front) > 0 {
 		v.Front = frontOf(r)
 	}
-	figs, notes := standardFigures(r, opt)
-	v.Notes = append(v.Notes, notes...)
-	figs = append(figs, opt.Figures...)
+	figs := append(standardFigures(r, opt), opt.Figures...)
 	for i, f := range figs {
 		if f == nil {
 			continue
 		}
-		svg, err := f.InlineSVG()
-		if err != nil {
-			return nil, fmt.Errorf("report: figure %d (%s): %w", i, f.Name, err)
+		n := len(v.Figures) + 1
+		fv := figView{ID: fmt.Sprintf("%d-%s", i+1, f.Name), Caption: fmt.Sprintf("Figure %d. %s", n, f.Title)}
+		if svg, err := f.InlineSVG(); err != nil {
+			// the reason in the figure's place; the report is still written
+			fv.LeftOut = fmt.Sprintf("Figure %d (%s) could not be drawn: %v", n, f.Name, err)
+		} else {
+			fv.SVG = template.HTML(svg)
 		}
-		v.Figures = append(v.Figures, figView{ID: fmt.Sprintf("%d-%s", i+1, f.Name), Caption: fmt.Sprintf("Figure %d. %s", len(v.Figures)+1, f.Title), SVG: template.HTML(svg)})
+		v.Figures = append(v.Figures, fv)
 	}
 	return v, nil
 }
 
 // standardFigures draws the plots every run gets; a plot that cannot be
-// drawn becomes a note.
-func standardFigures(r *mdo.Result, opt Options) ([]*plot.Figure, []string) {
+// drawn is its stand-in with the reason (plot.LeftOut).
+func standardFigures(r *mdo.Result, opt Options) []*plot.Figure {
 	if opt.NoStandardPlots || len(opt.Evaluations) == 0 {
-		return nil, nil
+		return nil
 	}
-	var figs []*plot.Figure
-	var notes []string
-	add := func(f *plot.Figure, err error) {
-		if err != nil {
-			notes = append(notes, "plot left out: "+err.Error())
-			return
-		}
-		figs = append(figs, f)
-	}
-	add(plot.History(r, opt.Evaluations))
+	evs := opt.Evaluations
+	figs := []*plot.Figure{drawn("history", "optimisation history", func() (*plot.Figure, error) { return plot.History(r, evs) })}
 	if len(r.Objectives) >= 2 {
-		add(plot.Pareto(r, opt.Evaluations))
+		figs = append(figs, drawn("pareto", "Pareto front", func() (*plot.Figure, error) { return plot.Pareto(r, evs) }))
 	}
-	add(plot.ParallelCoordinates(r, opt.Evaluations))
+	figs = append(figs, drawn("parallel_coordinates", "parallel coordinates", func() (*plot.Figure, error) { return plot.ParallelCoordinates(r, evs) }))
 	if opt.ScatterMatrix {
-		add(plot.ScatterMatrix(r, opt.Evaluations))
+		figs = append(figs, drawn("scatter_matrix", "scatter matrix", func() (*plot.Figure, error) { return plot.ScatterMatrix(r, evs) }))
 	}
-	return figs, notes
+	return figs
 }
 
 // bestOf tabulates the best design.

@@ -3,6 +3,7 @@ package report
 import (
 	"bytes"
 	"context"
+	"errors"
 	"math"
 	"regexp"
 	"strings"
@@ -11,6 +12,9 @@ import (
 
 	"couplet/mdo"
 	"couplet/mdo/plot"
+	"gonum.org/v1/plot/plotter"
+	"gonum.org/v1/plot/vg"
+	"gonum.org/v1/plot/vg/draw"
 )
 
 // script is an invented study script shown in the report.
@@ -64,10 +68,7 @@ func demoReport(t testing.TB) string {
 	if err != nil {
 		t.Fatal(err)
 	}
-	top, err := plot.TopView(plot.Aircraft{WingSpan: 16, WingRootChord: 4.5, WingTipChord: 1.2, WingSweepLE: 35, WingApex: 10, FuselageLength: 26, FuselageDiameter: 2.2})
-	if err != nil {
-		t.Fatal(err)
-	}
+	top := ownFigure(t)
 	var b bytes.Buffer
 	err = Write(&b, r, Options{Script: script, ToolVersion: "couplet test", Evaluations: evs, ScatterMatrix: true,
 		Figures: []*plot.Figure{dsm, top}, Generated: time.Date(2026, 12, 1, 12, 0, 0, 0, time.UTC)})
@@ -75,6 +76,43 @@ func demoReport(t testing.TB) string {
 		t.Fatal(err)
 	}
 	return b.String()
+}
+
+// ownFigure is a figure an application draws on the package plot's
+// builder.
+func ownFigure(t testing.TB) *plot.Figure {
+	t.Helper()
+	p := plot.NewPlot("a figure of our own", plot.AxisLabel("angle", "deg"), plot.AxisLabel("value", ""))
+	if err := plot.AddLine(p, plotter.XYs{{X: 0, Y: 0}, {X: 10, Y: 1}}, plot.LineColor(0), 1.5, "line"); err != nil {
+		t.Fatal(err)
+	}
+	return plot.NewFigure("own", "a figure of our own", 10*vg.Centimeter, 8*vg.Centimeter, func(c draw.Canvas) { p.Draw(c) })
+}
+
+// A figure that cannot be drawn, because its maker said so or because
+// its drawing fails, is left out with the reason written in its place;
+// the rest of the report is written.
+func TestReportFigureLeftOut(t *testing.T) {
+	r, evs := sellarResult(t, 20)
+	broken := plot.NewFigure("broken", "a broken figure", vg.Centimeter, vg.Centimeter, func(draw.Canvas) { panic("no axes to draw on") })
+	missing := plot.LeftOut("front", "front of a failed study", errors.New("plot: no feasible evaluation to draw"))
+	var b bytes.Buffer
+	if err := Write(&b, r, Options{Evaluations: evs, Figures: []*plot.Figure{missing, ownFigure(t), broken}}); err != nil {
+		t.Fatalf("report not written: %v", err)
+	}
+	html := b.String()
+	for _, w := range []string{
+		"Figure 3 (front) could not be drawn: plot: no feasible evaluation to draw",
+		"Figure 5 (broken) could not be drawn: plot: rendering broken: no axes to draw on",
+		"Figure 4. a figure of our own", "Best design",
+	} {
+		if !strings.Contains(html, w) {
+			t.Errorf("report lacks %q", w)
+		}
+	}
+	if n := strings.Count(html, "<svg"); n != 3 {
+		t.Errorf("report embeds %d SVG figures, want 3 (history, parallel coordinates, our own)", n)
+	}
 }
 
 func TestReportContent(t *testing.T) {
@@ -87,7 +125,7 @@ func TestReportContent(t *testing.T) {
 		"not fit for certification, flight or airworthiness decisions",
 		"applicable regulations and licensed engineering practice",
 		"// a &lt;comment&gt; &amp; &#34;quotes&#34;", // the script, escaped
-		"optimisation history", "parallel coordinates", "scatter matrix", "design structure matrix", "top view",
+		"optimisation history", "parallel coordinates", "scatter matrix", "design structure matrix", "a figure of our own",
 	}
 	for _, w := range wants {
 		if !strings.Contains(html, w) {

@@ -24,6 +24,7 @@ pre { background: #f6f6f6; border: 1px solid #ddd; padding: .8em; overflow-x: au
 figure { margin: 1.2em 0; }
 figure svg { max-width: 100%; height: auto; border: 1px solid #e4e4e4; }
 figcaption { font-size: .9em; color: #555; margin-top: .3em; }
+.left-out { border: 1px dashed #b21d1d; color: #b21d1d; padding: .8em; }
 .caution { border-left: 5px solid #c98a00; background: #fff8e6; padding: .7em 1em; margin: 1.2em 0; }
 .verdict-feasible { color: #1f6f1f; font-weight: bold; }
 .verdict-infeasible { color: #b21d1d; font-weight: bold; }
@@ -71,8 +72,8 @@ figcaption { font-size: .9em; color: #555; margin-top: .3em; }
 {{if .Figures}}
 <h2 id="plots">Plots</h2>
 {{range .Figures}}<figure id="fig-{{.ID}}">
-{{.SVG}}
-<figcaption>{{.Caption}}</figcaption>
+{{if .LeftOut}}<p class="left-out">{{.LeftOut}}</p>{{else}}{{.SVG}}
+<figcaption>{{.Caption}}</figcaption>{{end}}
 </figure>
 {{end}}
 {{end}}

@@ -71,21 +71,36 @@ func (c Columns) header() []string {
 	return h
 }
 
-// WriteCSV writes evaluations as CSV with a header naming units.
-func WriteCSV(w io.Writer, c Columns, evs []*mdo.Evaluation) error {
-	cw := csv.NewWriter(w)
-	if err := cw.Write(c.header()); err != nil {
+// csvWriter writes one CSV export: the header, then a row per
+// evaluation.
+type csvWriter struct {
+	c   Columns
+	cw  *csv.Writer
+	row []string
+}
+
+// newCSVWriter writes the header of an export of columns c to w.
+func newCSVWriter(w io.Writer, c Columns) (*csvWriter, error) {
+	x := &csvWriter{c: c, cw: csv.NewWriter(w)}
+	if err := x.cw.Write(c.header()); err != nil {
+		return nil, fmt.Errorf("store: writing CSV: %w", err)
+	}
+	return x, nil
+}
+
+// write writes the row of one evaluation.
+func (x *csvWriter) write(e *mdo.Evaluation) error {
+	x.row = x.c.appendRow(x.row[:0], e)
+	if err := x.cw.Write(x.row); err != nil {
 		return fmt.Errorf("store: writing CSV: %w", err)
 	}
-	var row []string
-	for _, e := range evs {
-		row = c.appendRow(row[:0], e)
-		if err := cw.Write(row); err != nil {
-			return fmt.Errorf("store: writing CSV: %w", err)
-		}
-	}
-	cw.Flush()
-	if err := cw.Error(); err != nil {
+	return nil
+}
+
+// flush ends the export.
+func (x *csvWriter) flush() error {
+	x.cw.Flush()
+	if err := x.cw.Error(); err != nil {
 		return fmt.Errorf("store: writing CSV: %w", err)
 	}
 	return nil
@@ -115,27 +130,17 @@ func (c Columns) appendRow(row []string, e *mdo.Evaluation) []string {
 	return row
 }
 
-// WriteCSV streams the store's evaluations as CSV (see the package
-// function WriteCSV for the layout).
+// WriteCSV streams the store's evaluations, in the order they were
+// recorded, as CSV with a header naming units (the layout above).
 func (s *Store) WriteCSV(w io.Writer) error {
-	c := s.Columns()
-	cw := csv.NewWriter(w)
-	if err := cw.Write(c.header()); err != nil {
-		return fmt.Errorf("store: writing CSV: %w", err)
-	}
-	var row []string
-	err := s.Scan(func(e *mdo.Evaluation) error {
-		row = c.appendRow(row[:0], e)
-		return cw.Write(row)
-	})
+	x, err := newCSVWriter(w, s.Columns())
 	if err != nil {
-		return fmt.Errorf("store: writing CSV: %w", err)
+		return err
 	}
-	cw.Flush()
-	if err := cw.Error(); err != nil {
-		return fmt.Errorf("store: writing CSV: %w", err)
+	if err := s.Scan(x.write); err != nil {
+		return err
 	}
-	return nil
+	return x.flush()
 }
 
 // splitHeader splits "role:name [unit]" into its parts.
@@ -155,7 +160,7 @@ func splitHeader(h string) (role, name, unit string, ok bool) {
 	return role, name, unit, true
 }
 
-// ReadCSV reads a CSV written by WriteCSV back into columns and
+// ReadCSV reads a CSV written by Store.WriteCSV back into columns and
 // evaluations. An unexpected header or a malformed number is an error
 // naming the line and the column.
 func ReadCSV(r io.Reader) (Columns, []*mdo.Evaluation, error) {

@@ -38,7 +38,7 @@
 //	          feasible, violation, at)
 //	front(eval_id, rank)            the Pareto front of a multi-objective run
 //
-// So SELECT "design:wing.area", "objective:mass.takeoff" FROM evaluations
+// So SELECT "design:z1", "objective:f" FROM evaluations
 // WHERE feasible works as it reads, and so does SELECT name, value, unit
 // FROM outputs WHERE eval_id = (SELECT best_id FROM run). A row of
 // evaluation_data keeps its design, objective, constraint and margin
@@ -49,6 +49,6 @@
 // objectives and the scaled constraints as little-endian float64, for an
 // exact resume.
 //
-// The package also exports evaluations to CSV (WriteCSV, ReadCSV) and
+// The package also exports evaluations to CSV (Store.WriteCSV, ReadCSV) and
 // writes the run's summary.json (WriteSummary).
 package store

@@ -49,7 +49,7 @@ func ExampleCreate() {
 		fmt.Println(err)
 		return
 	}
-	if err := store.WriteSummary(filepath.Join(dir, "summary.json"), r, store.SummaryOptions{Script: "// the study script\n"}); err != nil {
+	if err := store.WriteSummary(filepath.Join(dir, "summary.json"), store.NewSummary(r, store.SummaryOptions{Script: "// the study script\n"})); err != nil {
 		fmt.Println(err)
 		return
 	}

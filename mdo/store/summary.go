@@ -5,11 +5,11 @@ import (
 	"fmt"
 	"math"
 	"os"
-	"path/filepath"
 	"strconv"
 	"time"
 
 	"couplet/mdo"
+	"couplet/mdo/runfolder"
 )
 
 // Summary is the content of a run's summary.json. Apart from Timestamps,
@@ -35,8 +35,12 @@ type Summary struct {
 	Best         *SummaryPoint  `json:"best,omitempty"`
 	Front        []SummaryPoint `json:"front,omitempty"`
 	ScriptSHA256 string         `json:"script_sha256,omitempty"`
-	ToolVersion  string         `json:"tool_version,omitempty"`
-	Timestamps   Timestamps     `json:"timestamps"`
+	// Cells and Note describe a run whose script handed over no result
+	// (NoResultSummary): the cells it ran and what to do about it.
+	Cells       int        `json:"cells,omitempty"`
+	Note        string     `json:"note,omitempty"`
+	ToolVersion string     `json:"tool_version,omitempty"`
+	Timestamps  Timestamps `json:"timestamps"`
 }
 
 // SummaryPoint is one design point of a summary.
@@ -123,6 +127,23 @@ func NewSummary(r *mdo.Result, opt SummaryOptions) Summary {
 	return s
 }
 
+// NoResultSummary is the summary of a run whose script handed over no
+// result: the study's name, the seed it used (0 if it attached no study),
+// no evaluation and no best point, the number of cells run and a note.
+func NoResultSummary(study string, seed uint64, cells int, started time.Time, opt SummaryOptions) Summary {
+	s := Summary{Study: study, Seed: seed, Cells: cells, ToolVersion: opt.ToolVersion,
+		Note: "the script handed over no result: call cell.Publish(result)"}
+	if opt.Script != "" {
+		s.ScriptSHA256 = ScriptHash(opt.Script)
+	}
+	fin := opt.Finished
+	if fin.IsZero() {
+		fin = started
+	}
+	s.Timestamps = Timestamps{Started: started.UTC().Format(time.RFC3339Nano), Finished: fin.UTC().Format(time.RFC3339Nano), ElapsedSeconds: fin.Sub(started).Seconds()}
+	return s
+}
+
 // summaryPoint describes one evaluation by name.
 func summaryPoint(r *mdo.Result, e *mdo.Evaluation) SummaryPoint {
 	p := SummaryPoint{ID: e.ID, Objective: Number(math.NaN()), Objectives: map[string]Number{}, Design: map[string]Number{},
@@ -149,39 +170,16 @@ func summaryPoint(r *mdo.Result, e *mdo.Evaluation) SummaryPoint {
 	return p
 }
 
-// WriteSummary writes the summary of a result to path (summary.json in
-// the run's output folder), atomically: a temporary file renamed into
-// place.
-func WriteSummary(path string, r *mdo.Result, opt SummaryOptions) error {
-	if r == nil {
-		return fmt.Errorf("store: WriteSummary(%s): the result is nil", path)
-	}
-	b, err := json.MarshalIndent(NewSummary(r, opt), "", "  ")
+// WriteSummary writes a summary to path (summary.json in the run's
+// output folder), atomically and never through a symbolic link: a
+// temporary file renamed into place.
+func WriteSummary(path string, s Summary) error {
+	b, err := json.MarshalIndent(s, "", "  ")
 	if err != nil {
 		return fmt.Errorf("store: encoding the summary: %w", err)
 	}
-	b = append(b, '\n')
-	tmp, err := os.CreateTemp(filepath.Dir(path), ".summary-*.json")
-	if err != nil {
-		return fmt.Errorf("store: writing %s: %w", path, err)
-	}
-	if err := tmp.Chmod(0o644); err != nil {
-		tmp.Close()
-		os.Remove(tmp.Name())
-		return fmt.Errorf("store: writing %s: %w", path, err)
-	}
-	if _, err := tmp.Write(b); err != nil {
-		tmp.Close()
-		os.Remove(tmp.Name())
-		return fmt.Errorf("store: writing %s: %w", path, err)
-	}
-	if err := tmp.Close(); err != nil {
-		os.Remove(tmp.Name())
-		return fmt.Errorf("store: writing %s: %w", path, err)
-	}
-	if err := os.Rename(tmp.Name(), path); err != nil {
-		os.Remove(tmp.Name())
-		return fmt.Errorf("store: writing %s: %w", path, err)
+	if err := runfolder.WriteFile(path, append(b, '\n')); err != nil {
+		return fmt.Errorf("store: %w", err)
 	}
 	return nil
 }

@@ -178,7 +178,7 @@ func (e *Env) OutDir() string { return e.host.OutDir }
 // checkName accepts plain file names only.
 func checkName(name string) error {
 	if name == "" || name == "." || name == ".." || strings.HasPrefix(name, ".") {
-		return fmt.Errorf("cell: file name %q is not allowed: use a plain name such as \"wing.csv\"", name)
+		return fmt.Errorf("cell: file name %q is not allowed: use a plain name such as \"points.csv\"", name)
 	}
 	for _, r := range name {
 		if !(r >= 'a' && r <= 'z' || r >= 'A' && r <= 'Z' || r >= '0' && r <= '9' || r == '.' || r == '-' || r == '_') {

@@ -52,12 +52,12 @@ func ExampleEnv_WriteFile() {
 	}
 	defer os.RemoveAll(dir)
 	env := cell.NewEnv(cell.Host{OutDir: dir})
-	fmt.Println(env.WriteFile("wing.csv", []byte("area,span\n115,18.6\n")))
-	_, err = os.Stat(filepath.Join(dir, "wing.csv"))
+	fmt.Println(env.WriteFile("points.csv", []byte("area,span\n115,18.6\n")))
+	_, err = os.Stat(filepath.Join(dir, "points.csv"))
 	fmt.Println(err)
 	fmt.Println(env.WriteFile("../escape.txt", nil))
 	// Output:
 	// <nil>
 	// <nil>
-	// cell: file name "../escape.txt" is not allowed: use a plain name such as "wing.csv"
+	// cell: file name "../escape.txt" is not allowed: use a plain name such as "points.csv"
 }

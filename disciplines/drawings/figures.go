@@ -1,11 +1,10 @@
-package repl
+package drawings
 
 import (
 	"context"
 	"fmt"
 	"math"
 	"strings"
-	"time"
 
 	"couplet/disciplines"
 	"couplet/mdo"
@@ -19,18 +18,16 @@ var aircraftGeometry = []string{
 	"fuselage.length", "fuselage.diameter",
 }
 
-// reanalysisTimeout bounds the one analysis of the best design that the
-// residual plot needs.
-const reanalysisTimeout = time.Minute
-
-// aircraftFigures returns the figures of the best design of an aircraft
-// study: wing planform, top view, constraint diagram and the
-// coupling-solver residuals of one re-analysis of the best design (its
-// parameters on the study's Fixed values). A result without the aircraft
-// geometry outputs gets none. A figure that cannot be drawn is left out
-// with a note saying why, so that the rest of the run's output is still
-// written; st may be nil (then there are no residuals).
-func aircraftFigures(ctx context.Context, r *mdo.Result, st *mdo.Study) (figs []*plot.Figure, notes []string) {
+// Figures returns the figures of the best design of an aircraft study:
+// wing planform, top view, sizing diagram and the coupling-solver
+// residuals of one re-analysis of the best design (its parameters on the
+// study's Fixed values). A result without the aircraft geometry outputs
+// gets none. A figure that cannot be drawn is its stand-in
+// (plot.LeftOut) with the reason, so that the rest of the run's output is
+// still written; st may be nil (then there are no residuals). Its signature is that of
+// report.FigureSource, the hook through which a run folder gets a
+// study's further figures.
+func Figures(ctx context.Context, r *mdo.Result, st *mdo.Study) (figs []*plot.Figure, notes []string) {
 	if r == nil || r.Best == nil || len(r.Best.Outputs) != len(r.Outputs) {
 		return nil, nil
 	}
@@ -48,30 +45,26 @@ func aircraftFigures(ctx context.Context, r *mdo.Result, st *mdo.Study) (figs []
 		sys = st.System
 	}
 	label := fmt.Sprintf("best design #%d", r.Best.ID)
-	add := func(what string, f *plot.Figure, err error) {
+	add := func(name, what string, f *plot.Figure, err error) {
 		if err != nil {
-			notes = append(notes, fmt.Sprintf("%s left out: %v", what, err))
-			return
+			f = plot.LeftOut(name, what+" of the "+label, err)
 		}
 		figs = append(figs, f)
 	}
 	a := aircraftOf(get, geometryOptions(sys))
 	a.Name = label
-	f, err := plot.Planform(a)
-	add("wing planform", f, err)
-	f, err = plot.TopView(a)
-	add("top view", f, err)
-	f, note, err := constraintDiagram(get, r, label)
-	add("constraint diagram", f, err)
+	f, err := Planform(a)
+	add("planform", "wing planform", f, err)
+	f, err = TopView(a)
+	add("top_view", "top view", f, err)
+	f, note, err := sizingDiagram(get, r, label)
+	add("sizing_diagram", "sizing diagram", f, err)
 	if err == nil {
 		notes = append(notes, note)
 	}
 	if st != nil && sys != nil {
-		sol, err := reanalyse(ctx, r, st)
-		if err == nil {
-			f, err = plot.Residuals(shortGroupNames(sol.Reports))
-		}
-		add("coupling-solver residuals", f, err)
+		f, err := plot.BestResiduals(ctx, r, st)
+		add("residuals", "coupling-solver residuals", f, err)
 	}
 	return figs, notes
 }
@@ -95,9 +88,9 @@ func geometryOptions(sys *mdo.System) disciplines.GeometryOptions {
 // as straight-tapered surfaces of the layout options' taper and sweep,
 // placed by their arms from the wing's MAC quarter chord as the geometry
 // discipline places them.
-func aircraftOf(get func(string) (float64, bool), o disciplines.GeometryOptions) plot.Aircraft {
+func aircraftOf(get func(string) (float64, bool), o disciplines.GeometryOptions) Aircraft {
 	v := func(name string) float64 { x, _ := get(name); return x }
-	a := plot.Aircraft{
+	a := Aircraft{
 		WingSpan: v("wing.span"), WingRootChord: v("wing.root_chord"), WingTipChord: v("wing.tip_chord"),
 		WingSweepLE: v("wing.sweep_le"), WingApex: v("wing.apex_x"),
 		FuselageLength: v("fuselage.length"), FuselageDiameter: v("fuselage.diameter"),
@@ -167,9 +160,9 @@ func sizingLimits(get func(string) (float64, bool), r *mdo.Result) (lim discipli
 	return lim, fromStudy
 }
 
-// constraintDiagram draws the sizing diagram of the best design and
-// returns a note on where its requirements come from.
-func constraintDiagram(get func(string) (float64, bool), r *mdo.Result, label string) (*plot.Figure, string, error) {
+// sizingDiagram draws the sizing diagram of the best design and returns
+// a note on where its requirements come from.
+func sizingDiagram(get func(string) (float64, bool), r *mdo.Result, label string) (*plot.Figure, string, error) {
 	lim, fromStudy := sizingLimits(get, r)
 	sd, err := disciplines.NewSizingDiagram(get, lim)
 	if err != nil {
@@ -179,77 +172,9 @@ func constraintDiagram(get func(string) (float64, bool), r *mdo.Result, label st
 	if len(fromStudy) > 0 {
 		src = "the study's constraints on " + strings.Join(fromStudy, ", ")
 	}
-	note := "Constraint diagram: requirements from " + src + "; field lengths the study does not constrain are the design's own, " +
+	note := "Sizing diagram: requirements from " + src + "; field lengths the study does not constrain are the design's own, " +
 		"climb gradients the 14 CFR 25.121/25.119 minima. The boundaries hold the best design's mass ratios, polars and thrust lapses " +
 		"fixed as the wing loading varies: a first-order picture around the design, not a re-analysis at each wing loading."
-	d := plot.Diagram{
-		Title:           "constraint diagram of the " + label,
-		WingLoadingUnit: "N/m2",
-		Designs:         []plot.DesignPoint{{Label: label, WingLoading: sd.WingLoading, ThrustToWeight: sd.ThrustToWeight}},
-	}
-	hi := 1.7 * sd.WingLoading
-	for _, l := range sd.Limits {
-		d.Limits = append(d.Limits, plot.WingLoadingLimit{Label: l.Name, Max: l.WingLoading})
-		hi = math.Max(hi, 1.2*l.WingLoading)
-	}
-	d.MinWingLoading, d.MaxWingLoading = 0.25*sd.WingLoading, hi
-	// the vertical range: the design and every boundary at its wing
-	// loading, with room above for the legend (the cruise boundary grows
-	// without bound towards small wing loadings and would flatten the rest)
-	top := sd.ThrustToWeight
-	for _, b := range sd.Boundaries {
-		d.Boundaries = append(d.Boundaries, plot.Boundary{Label: b.Name, MinThrustToWeight: b.ThrustToWeight})
-		if tw := b.ThrustToWeight(sd.WingLoading); !math.IsNaN(tw) && !math.IsInf(tw, 0) {
-			top = math.Max(top, tw)
-		}
-	}
-	d.MaxThrustToWeight = 2.4 * top
-	f, err := plot.ConstraintDiagram(d)
+	f, err := SizingDiagram(sd, SizingView{Title: "sizing diagram of the " + label, Design: label})
 	return f, note, err
-}
-
-// reanalyse runs the best design's analysis once more (its design values
-// over the study's Fixed parameters, the rest at their defaults, as the
-// evaluator sets them) and returns its solution with the coupling-solver
-// reports.
-func reanalyse(ctx context.Context, r *mdo.Result, st *mdo.Study) (*mdo.Solution, error) {
-	params := make(map[string]float64, len(st.Fixed)+len(r.Design))
-	for k, x := range st.Fixed {
-		params[k] = x
-	}
-	for k, x := range r.DesignValues() {
-		if st.System.IsParameter(k) {
-			params[k] = x
-		}
-	}
-	ctx, cancel := context.WithTimeout(ctx, reanalysisTimeout)
-	defer cancel()
-	sol, err := st.System.Analyze(ctx, params)
-	if err != nil {
-		return nil, fmt.Errorf("re-analysing the %s: %w", fmt.Sprintf("best design #%d", r.Best.ID), err)
-	}
-	return sol, nil
-}
-
-// shortGroupNames returns copies of the reports whose groups of more
-// than two disciplines are named by their first and last member and
-// their size, so that the residual plot's legend fits its figure.
-func shortGroupNames(reports []mdo.Report) []mdo.Report {
-	out := make([]mdo.Report, len(reports))
-	for i, r := range reports {
-		out[i] = r.Clone()
-		if n := len(r.Disciplines); n > 2 {
-			out[i].Disciplines = []string{fmt.Sprintf("%s … %s: %d disciplines", r.Disciplines[0], r.Disciplines[n-1], n)}
-		}
-	}
-	return out
-}
-
-// aircraftFigures draws the aircraft figures of a result with the study
-// the recorder saw under its name.
-func (o *RunOutputs) aircraftFigures(r *mdo.Result) ([]*plot.Figure, []string) {
-	o.mu.Lock()
-	st := o.studies[r.Study]
-	o.mu.Unlock()
-	return aircraftFigures(context.Background(), r, st)
 }

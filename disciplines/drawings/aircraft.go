@@ -1,4 +1,4 @@
-package plot
+package drawings
 
 import (
 	"fmt"
@@ -41,15 +41,15 @@ func (s surface) check() error {
 	}
 	switch {
 	case !(s.span > 0) || !finite(s.span):
-		return fmt.Errorf("plot: %s span = %g m, must be > 0 (or 0 to leave it out)", s.name, s.span)
+		return fmt.Errorf("drawings: %s span = %g m, must be > 0 (or 0 to leave it out)", s.name, s.span)
 	case !(s.root > 0) || !finite(s.root):
-		return fmt.Errorf("plot: %s root chord = %g m, must be > 0", s.name, s.root)
+		return fmt.Errorf("drawings: %s root chord = %g m, must be > 0", s.name, s.root)
 	case !(s.tip >= 0) || !finite(s.tip):
-		return fmt.Errorf("plot: %s tip chord = %g m, must be >= 0", s.name, s.tip)
+		return fmt.Errorf("drawings: %s tip chord = %g m, must be >= 0", s.name, s.tip)
 	case !(math.Abs(s.sweep) < 80):
-		return fmt.Errorf("plot: %s leading-edge sweep = %g deg, allowed (-80, 80)", s.name, s.sweep)
+		return fmt.Errorf("drawings: %s leading-edge sweep = %g deg, allowed (-80, 80)", s.name, s.sweep)
 	case !finite(s.x0):
-		return fmt.Errorf("plot: %s apex = %g m, must be finite", s.name, s.x0)
+		return fmt.Errorf("drawings: %s apex = %g m, must be finite", s.name, s.x0)
 	}
 	return nil
 }
@@ -73,14 +73,14 @@ func (a Aircraft) Validate() error {
 	}
 	if a.FuselageLength != 0 || a.FuselageDiameter != 0 {
 		if !(a.FuselageLength > 0) || !finite(a.FuselageLength) {
-			return fmt.Errorf("plot: fuselage length = %g m, must be > 0 (or 0 to leave it out)", a.FuselageLength)
+			return fmt.Errorf("drawings: fuselage length = %g m, must be > 0 (or 0 to leave it out)", a.FuselageLength)
 		}
 		if !(a.FuselageDiameter > 0) || !(a.FuselageDiameter < a.FuselageLength) {
-			return fmt.Errorf("plot: fuselage diameter = %g m, must be > 0 and below the length %g m", a.FuselageDiameter, a.FuselageLength)
+			return fmt.Errorf("drawings: fuselage diameter = %g m, must be > 0 and below the length %g m", a.FuselageDiameter, a.FuselageLength)
 		}
 	}
 	if !finite(a.CG) {
-		return fmt.Errorf("plot: CG = %g m, must be finite", a.CG)
+		return fmt.Errorf("drawings: CG = %g m, must be finite", a.CG)
 	}
 	return nil
 }
@@ -145,3 +145,6 @@ func (a Aircraft) fuselageOutline() (ys, xs []float64) {
 	}
 	return ys, xs
 }
+
+// finite reports whether x is a finite number.
+func finite(x float64) bool { return !math.IsNaN(x) && !math.IsInf(x, 0) }
