@@ -123,4 +123,9 @@ func ExampleAeroModel_Polar() {
 		}
 		fmt.Printf("M %.1f: CD0 %.4f (wave %.4f), K %.3f, CLα %.2f /rad\n", mach, p.CD0, p.CDWave, p.K, p.CLAlpha)
 	}
+	// Output:
+	// M 0.8: CD0 0.0123 (wave 0.0000), K 0.169, CLα 2.62 /rad
+	// M 1.0: CD0 0.0195 (wave 0.0079), K 0.162, CLα 2.74 /rad
+	// M 1.5: CD0 0.0137 (wave 0.0050), K 0.155, CLα 2.57 /rad
+	// M 2.0: CD0 0.0120 (wave 0.0046), K 0.227, CLα 2.17 /rad
 }

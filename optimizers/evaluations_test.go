@@ -2,8 +2,10 @@ package optimizers
 
 import (
 	"context"
+	"flag"
 	"fmt"
 	"math"
+	"os"
 	"strings"
 	"testing"
 
@@ -65,13 +67,14 @@ func countRuns() []countRun {
 	return runs
 }
 
-// TestEvaluationCounts prints, per optimiser and problem, the number of
+// TestEvaluationCounts measures, per optimiser and problem, the number of
 // evaluations after which the best point reached the published optimum
 // (seed 1; default settings, but a larger evaluation budget for
 // Nelder–Mead and CMA-ES; each run is stopped at the end of the iteration
 // that reached it). The evolutionary methods' defaults fix their budget
-// (generations × population) and, under IDF, the length of the ε schedule. The counts are deterministic;
-// run with -v to see the table kept in EVALUATIONS.md.
+// (generations × population) and, under IDF, the length of the ε
+// schedule. The counts are deterministic: the test fails when they differ
+// from the table kept in EVALUATIONS.md, which -update rewrites.
 func TestEvaluationCounts(t *testing.T) {
 	if testing.Short() {
 		t.Skip("long: runs every optimiser to a large budget")
@@ -114,5 +117,49 @@ func TestEvaluationCounts(t *testing.T) {
 			t.Errorf("%s on %s did not reach %.8g ± %g (best %.8g)", name, c.problem, c.want, c.tol, res.Objective())
 		}
 	}
-	t.Log("\n" + b.String())
+	got := b.String()
+	path := "EVALUATIONS.md"
+	doc, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	before, table, after, err := splitTable(string(doc))
+	if err != nil {
+		t.Fatalf("%s: %v", path, err)
+	}
+	if *update {
+		if err := os.WriteFile(path, []byte(before+got+after), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		return
+	}
+	if table != got {
+		t.Errorf("the counts differ from %s (run go test -run TestEvaluationCounts ./optimizers -update to rewrite its table, and check its remarks):\n%s", path, got)
+	}
+}
+
+// update rewrites the table of EVALUATIONS.md from TestEvaluationCounts.
+var update = flag.Bool("update", false, "rewrite the table of EVALUATIONS.md with the counts measured")
+
+// splitTable splits a Markdown text around its one table: the text before
+// it, the table's lines and the text after.
+func splitTable(doc string) (before, table, after string, err error) {
+	start := strings.Index(doc, "\n|")
+	if start < 0 {
+		return "", "", "", fmt.Errorf("no table")
+	}
+	start++
+	end := start
+	for end < len(doc) && doc[end] == '|' {
+		nl := strings.IndexByte(doc[end:], '\n')
+		if nl < 0 {
+			end = len(doc)
+			break
+		}
+		end += nl + 1
+	}
+	if strings.Contains(doc[end:], "\n|") {
+		return "", "", "", fmt.Errorf("more than one table")
+	}
+	return doc[:start], doc[start:end], doc[end:], nil
 }

@@ -1,8 +1,8 @@
 // Package symbols holds the generated yaegi symbol tables of everything a
 // sandboxed study script may import: the couplet framework packages and a
 // curated set of standard packages. Regenerate with `go generate` after an
-// exported API of the framework changes; a test fails when the tables are
-// stale.
+// exported API of the framework changes (`go generate ./...`); CI
+// regenerates them and fails when the committed ones differ.
 package symbols
 
 import "reflect"

@@ -192,6 +192,15 @@ func historyFile() string {
 	return filepath.Join(home, ".couplet-notebook-history")
 }
 
+// banner is what the notebook prints on a terminal before its first
+// prompt.
+func banner(w io.Writer, trusted bool) {
+	fmt.Fprintf(w, "couplet %s notebook. @help for commands. Results are conceptual estimates,\nnot for certification, flight or airworthiness decisions.\n", repl.Version)
+	if trusted {
+		fmt.Fprintf(w, "sandbox lifted (%s): scripts may use files and processes.\n", repl.TrustFlag)
+	}
+}
+
 // interactive is the notebook session.
 func interactive(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	st, pos, err := parse("couplet", args, stderr)
@@ -235,10 +244,7 @@ func interactive(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	}()
 	var in repl.LineReader
 	if term {
-		fmt.Fprintf(stdout, "couplet %s notebook. @help for commands. Results are conceptual estimates,\nnot for certification, flight or airworthiness decisions.\n", repl.Version)
-		if st.trust {
-			fmt.Fprintf(stdout, "sandbox lifted (%s): scripts may use files and processes.\n", repl.TrustFlag)
-		}
+		banner(stdout, st.trust)
 		tr, err := repl.NewTermReader(s, historyFile())
 		if err != nil {
 			fmt.Fprintln(stderr, "couplet:", err)

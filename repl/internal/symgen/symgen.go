@@ -82,7 +82,7 @@ const prefix = "gen_"
 
 // buildTag matches the Go-version constraint that extract writes for
 // standard packages; it is dropped so the tables compile with any newer
-// toolchain (the freshness test regenerates them with the current one).
+// toolchain (CI regenerates them with the current one and compares).
 var buildTag = regexp.MustCompile(`(?m)^//(go:build| \+build) [^\n]*\n`)
 
 // Generate writes the sandbox tables (framework and curated packages) as
@@ -131,12 +131,16 @@ func writeSet(dir, dest string, pkgs []string) error {
 		if errs[i] != nil {
 			return errs[i]
 		}
-		name := prefix + strings.NewReplacer("/", "_", ".", "_").Replace(p) + ".go"
-		if err := os.WriteFile(filepath.Join(dir, name), srcs[i], 0o644); err != nil {
+		if err := os.WriteFile(filepath.Join(dir, fileName(p)), srcs[i], 0o644); err != nil {
 			return fmt.Errorf("symgen: %w", err)
 		}
 	}
 	return nil
+}
+
+// fileName is the name of the generated table of package p.
+func fileName(p string) string {
+	return prefix + strings.NewReplacer("/", "_", ".", "_").Replace(p) + ".go"
 }
 
 // extractOne returns the formatted table of one package.
