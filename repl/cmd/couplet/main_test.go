@@ -165,7 +165,8 @@ func TestTerminalSession(t *testing.T) {
 	tm.send("(\"wing\", \"wi\")\r")
 	tm.expect(`true\r\n`)
 	tm.expect(`c8> `)
-	// Ctrl-C stops a runaway loop (after the grace period) and the session
+	// Ctrl-C twice stops a runaway loop at once (one waits for a grace
+	// period, see repl's TestInterruptStopsRunawayLoop) and the session
 	// goes on. The cell first prints a value it computes (1042), which the
 	// echo of the typed text cannot hold, so the Ctrl-C is sent only once
 	// the cell runs and the line editor has given the terminal back.
@@ -177,6 +178,7 @@ func TestTerminalSession(t *testing.T) {
 	tm.expect(`\n1042\r\n`)
 	tm.send("\x03")
 	tm.expect(`cancelling the cell`)
+	tm.send("\x03")
 	tm.expect(`cell 9, line 1: stopped: interrupted`)
 	tm.expect(`c10> `)
 	tm.send("6 * 7\r")
