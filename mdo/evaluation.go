@@ -34,15 +34,17 @@ type Evaluation struct {
 	// Path names the solver path that converged the analysis: the
 	// configured solver's name, or the fallback that succeeded.
 	Path string
-	// Work of this evaluation.
+	// Iterations are the coupling iterations, DisciplineCalls the
+	// discipline calls and Wall the wall time of this evaluation's analysis.
 	Iterations      int
 	DisciplineCalls int
 	Wall            time.Duration
-	// Outputs are the values of Evaluator.OutputNames after the analysis.
+	// Outputs are the values of Evaluator.OutputVars after the analysis.
 	Outputs []float64
-	// Cached is true when the point was answered from the cache or a
-	// store rather than analysed.
-	Cached bool
+	// PickedUp is true when the point was analysed by an earlier session
+	// of the run and read from its store (see Evaluator.PickUp) rather
+	// than analysed by this one.
+	PickedUp bool
 }
 
 // Better reports whether a is better than b by Deb's feasibility rules on

@@ -33,7 +33,7 @@ type Evaluator struct {
 	outputs   []Var
 
 	cache    map[string]*Evaluation
-	restored map[*Evaluation]bool
+	pickedUp map[*Evaluation]bool // picked-up points not yet asked for
 	nextID   int
 	best     *Evaluation
 	archive  []*Evaluation
@@ -58,20 +58,35 @@ type designSlot struct {
 }
 
 // EvalCounters count the work of an Evaluator.
+//
+// An evaluation is a design point answered by an analysis: one run by
+// this Evaluator (an analysis) or one run by the earlier session of a run
+// this one picks up (a picked-up point, read from its store). Evaluations
+// is therefore Analyses + PickedUp, one row each in the store, and it is
+// what the optimisers' budgets (MaxEvaluations) count. A repeat is a point
+// asked for again and answered from the cache: it costs nothing and is not
+// an evaluation.
 type EvalCounters struct {
-	Evaluations        int // points answered (analysed, cached or restored)
-	Analyses           int // coupled analyses actually run
-	CacheHits          int
-	Restored           int // points answered from a store on resume
-	Failed             int // analyses that failed (infeasible with a reason)
+	Evaluations        int // Analyses + PickedUp
+	Analyses           int // coupled analyses run by this Evaluator
+	PickedUp           int // points answered from the store of the run picked up
+	Repeats            int // points asked for again, answered from the cache
+	Failed             int // evaluations whose analysis failed (infeasible with a reason)
 	DisciplineCalls    int
 	CouplingIterations int
+}
+
+// String says the counts in the words of the type's doc: "1476
+// evaluations (1476 analysed, 0 picked up, 0 failed), 18 repeats".
+func (c EvalCounters) String() string {
+	return fmt.Sprintf("%d evaluations (%d analysed, %d picked up, %d failed), %d repeats",
+		c.Evaluations, c.Analyses, c.PickedUp, c.Failed, c.Repeats)
 }
 
 // HistoryPoint is one step of the best-so-far history: recorded whenever
 // the best point changes.
 type HistoryPoint struct {
-	Evaluations int
+	Evaluations int     // evaluations so far (see EvalCounters)
 	Best        float64 // first objective in minimised sense
 	Violation   float64
 	Feasible    bool
@@ -160,12 +175,12 @@ func (s *Study) NewEvaluator() (*Evaluator, error) {
 	}
 	e.setReference()
 	e.started = time.Now()
-	if r, ok := s.Recorder.(Restorer); ok {
-		prev, err := r.Restorable(s.Script, s.Seed)
+	if r, ok := s.Recorder.(PickUpRecorder); ok {
+		prev, err := r.PickedUp(s.Script, s.Seed)
 		if err != nil {
-			return nil, fmt.Errorf("mdo: study %q: resuming from the recorder: %w", s.Name, err)
+			return nil, fmt.Errorf("mdo: study %q: picking up the recorder's run: %w", s.Name, err)
 		}
-		e.Restore(prev)
+		e.PickUp(prev)
 	}
 	return e, nil
 }
@@ -293,12 +308,13 @@ func (e *Evaluator) Best() *Evaluation { return e.best }
 // multi-objective studies), sorted by the first objective.
 func (e *Evaluator) Front() []*Evaluation { return append([]*Evaluation(nil), e.archive...) }
 
-// Restore adds recorded evaluations (from a store, on resume) to the
-// cache: when the optimiser asks for one of their points again it is
-// answered without analysis or re-recording, and counted as restored.
-func (e *Evaluator) Restore(evals []*Evaluation) {
-	if e.restored == nil {
-		e.restored = map[*Evaluation]bool{}
+// PickUp adds the recorded evaluations of an earlier session of the run
+// (read from its store, to pick the run up) to the cache: when the
+// optimiser asks for one of their points again it is answered without
+// analysis or re-recording, and counted as an evaluation, picked up.
+func (e *Evaluator) PickUp(evals []*Evaluation) {
+	if e.pickedUp == nil {
+		e.pickedUp = map[*Evaluation]bool{}
 	}
 	for _, ev := range evals {
 		key := designKey(ev.Design)
@@ -306,9 +322,9 @@ func (e *Evaluator) Restore(evals []*Evaluation) {
 			continue
 		}
 		c := *ev
-		c.Cached = true
+		c.PickedUp = true
 		e.cache[key] = &c
-		e.restored[&c] = true
+		e.pickedUp[&c] = true
 	}
 }
 
@@ -322,6 +338,40 @@ func designKey(d []float64) string {
 		}
 	}
 	return string(b)
+}
+
+// Cost returns how many evaluations answering xs would add to
+// Counters().Evaluations: the points neither answered before nor repeated
+// earlier in xs (a picked-up point costs one the first time it is asked
+// for). Repeats cost nothing. Optimisers check their budgets with it.
+func (e *Evaluator) Cost(xs [][]float64) int {
+	n := 0
+	seen := make(map[string]bool, len(xs))
+	for _, x := range xs {
+		if len(x) != len(e.slots) {
+			n++ // Evaluate refuses it
+			continue
+		}
+		key := designKey(e.physicalKey(x))
+		if seen[key] {
+			continue
+		}
+		seen[key] = true
+		if c, ok := e.cache[key]; !ok || e.pickedUp[c] {
+			n++
+		}
+	}
+	return n
+}
+
+// physicalKey returns the physical design of a unit-box point, as the
+// cache keys it.
+func (e *Evaluator) physicalKey(x []float64) []float64 {
+	d := make([]float64, len(x))
+	for k, s := range e.slots {
+		d[k] = s.physical(x[k])
+	}
+	return d
 }
 
 // Evaluate answers a batch of unit-box points, in order. Points seen
@@ -366,8 +416,7 @@ func (e *Evaluator) Evaluate(ctx context.Context, xs [][]float64) ([]*Evaluation
 		case dupOf[i] >= 0:
 			if fresh[dupOf[i]] != nil && !cancelled[dupOf[i]] {
 				out[i] = fresh[dupOf[i]]
-				e.cnt.Evaluations++
-				e.cnt.CacheHits++
+				e.cnt.Repeats++
 			}
 		case cancelled[i]:
 			// left nil
@@ -570,20 +619,20 @@ func (e *Evaluator) score(vals Values, ws *Workspace, w int, ev *Evaluation) (re
 	return ""
 }
 
-// answerCached accounts for a cache hit.
+// answerCached accounts for a point answered from the cache: the first
+// ask of a picked-up point is an evaluation, any other a repeat.
 func (e *Evaluator) answerCached(c *Evaluation) *Evaluation {
-	if e.restored[c] {
-		delete(e.restored, c)
+	if e.pickedUp[c] {
+		delete(e.pickedUp, c)
 		if c.ID >= e.nextID {
 			e.nextID = c.ID + 1
 		}
 		e.cnt.Evaluations++
-		e.cnt.Restored++
+		e.cnt.PickedUp++
 		e.track(c)
 		return c
 	}
-	e.cnt.Evaluations++
-	e.cnt.CacheHits++
+	e.cnt.Repeats++
 	return c
 }
 

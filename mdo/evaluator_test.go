@@ -40,7 +40,7 @@ func TestEvaluatorWorkersIdentical(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		if c := ev.Counters(); c.CacheHits != 1 || c.Analyses != 64 || c.Evaluations != 65 {
+		if c := ev.Counters(); c.Repeats != 1 || c.Analyses != 64 || c.Evaluations != 64 {
 			t.Errorf("workers %d: counters %+v", workers, c)
 		}
 		for _, e := range out {
@@ -202,14 +202,14 @@ type memRecorder struct {
 func (m *memRecorder) Begin(RunInfo) error        { return nil }
 func (m *memRecorder) Record(e *Evaluation) error { m.evals = append(m.evals, e); return nil }
 func (m *memRecorder) End(*Result) error          { return nil }
-func (m *memRecorder) Restorable(script string, seed uint64) ([]*Evaluation, error) {
+func (m *memRecorder) PickedUp(script string, seed uint64) ([]*Evaluation, error) {
 	if script != m.script || seed != m.seed {
 		return nil, fmt.Errorf("recorded run is of another script or seed")
 	}
 	return m.evals, nil
 }
 
-func TestResumeFromRestorer(t *testing.T) {
+func TestPickUpFromRecorder(t *testing.T) {
 	xs := randomPoints(40, 3, 3)
 	full := func(rec Recorder, points [][]float64) (*Evaluator, []*Evaluation) {
 		st, _ := SellarStudy(MDF)
@@ -227,24 +227,73 @@ func TestResumeFromRestorer(t *testing.T) {
 	// an interrupted run recorded the first 25 points
 	partial := &memRecorder{script: "s", seed: 9}
 	full(partial, xs[:25])
-	// the resumed run asks for all 40 again
-	resumed, got := full(partial, xs)
+	// the picked-up run asks for all 40 again
+	pickedUp, got := full(partial, xs)
 	ref, want := full(nil, xs)
-	if c := resumed.Counters(); c.Restored != 25 || c.Analyses != 15 {
-		t.Errorf("resumed counters %+v, want 25 restored and 15 analysed", c)
+	if c := pickedUp.Counters(); c.PickedUp != 25 || c.Analyses != 15 {
+		t.Errorf("picked-up counters %+v, want 25 picked up and 15 analysed", c)
 	}
 	for i := range want {
 		if got[i].ID != want[i].ID || !reflect.DeepEqual(got[i].Design, want[i].Design) || got[i].F[0] != want[i].F[0] {
-			t.Fatalf("point %d differs after resume: %+v vs %+v", i, got[i], want[i])
+			t.Fatalf("point %d differs after picking up: %+v vs %+v", i, got[i], want[i])
 		}
 	}
-	if resumed.Best().ID != ref.Best().ID {
-		t.Errorf("best %d after resume, %d without", resumed.Best().ID, ref.Best().ID)
+	if pickedUp.Best().ID != ref.Best().ID {
+		t.Errorf("best %d after picking up, %d without", pickedUp.Best().ID, ref.Best().ID)
 	}
 	// another seed is refused
 	st, _ := SellarStudy(MDF)
 	st.Script, st.Seed, st.Recorder = "s", 10, partial
 	if _, err := st.NewEvaluator(); err == nil || !strings.Contains(err.Error(), "another script or seed") {
 		t.Errorf("foreign record accepted: %v", err)
+	}
+}
+
+// Cost counts what a batch would add to the evaluations: new points once
+// each, a picked-up point the first time it is asked for; repeats nothing.
+func TestEvaluatorCost(t *testing.T) {
+	st, err := SellarStudy(MDF)
+	if err != nil {
+		t.Fatal(err)
+	}
+	ev, err := st.NewEvaluator()
+	if err != nil {
+		t.Fatal(err)
+	}
+	xs := randomPoints(6, 3, 11)
+	earlier, err := st.NewEvaluator()
+	if err != nil {
+		t.Fatal(err)
+	}
+	prev, err := earlier.Evaluate(context.Background(), xs[4:6])
+	if err != nil {
+		t.Fatal(err)
+	}
+	ev.PickUp(prev)
+	if _, err := ev.Evaluate(context.Background(), xs[:2]); err != nil {
+		t.Fatal(err)
+	}
+	tests := []struct {
+		name string
+		xs   [][]float64
+		want int
+	}{
+		{"answered before", [][]float64{xs[0], xs[1]}, 0},
+		{"new", [][]float64{xs[2], xs[3]}, 2},
+		{"new, twice in the batch", [][]float64{xs[2], xs[2], xs[0]}, 1},
+		{"picked up, not yet asked for", [][]float64{xs[4], xs[4], xs[5]}, 2},
+	}
+	for _, tc := range tests {
+		if got := ev.Cost(tc.xs); got != tc.want {
+			t.Errorf("%s: Cost = %d, want %d", tc.name, got, tc.want)
+		}
+	}
+	before := ev.Counters()
+	if _, err := ev.Evaluate(context.Background(), [][]float64{xs[4], xs[4], xs[2], xs[0]}); err != nil {
+		t.Fatal(err)
+	}
+	c := ev.Counters()
+	if c.Evaluations-before.Evaluations != 2 || c.PickedUp != 1 || c.Analyses != 3 || c.Repeats-before.Repeats != 2 || c.Evaluations != c.Analyses+c.PickedUp {
+		t.Errorf("after a batch costing 2: counters %+v (before %+v); want 2 more evaluations (1 picked up, 1 analysed) and 2 more repeats", c, before)
 	}
 }

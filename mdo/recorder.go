@@ -41,12 +41,13 @@ type IterationRecorder interface {
 	Iteration(p Progress) error
 }
 
-// Restorer is implemented by recorders that can answer points of an
-// earlier, interrupted run of the same script and seed (a case store
-// opened to resume). NewEvaluator asks it for those evaluations and puts
-// them in its cache, so the optimiser retraces its path without analysing
-// them again and reaches the same result. A store of another script or
-// seed must return an error, not mix runs.
-type Restorer interface {
-	Restorable(script string, seed uint64) ([]*Evaluation, error)
+// PickUpRecorder is implemented by recorders that can pick up an earlier,
+// interrupted run of the same script and seed (a case store opened with
+// store.PickUp). NewEvaluator asks it for that run's evaluations and puts
+// them in its cache (Evaluator.PickUp), so the optimiser retraces its path
+// without analysing them again and reaches the same result. A store of
+// another script or seed must return an error, not mix runs.
+type PickUpRecorder interface {
+	// PickedUp returns the evaluations of the run to pick up.
+	PickedUp(script string, seed uint64) ([]*Evaluation, error)
 }

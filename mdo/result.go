@@ -169,8 +169,8 @@ func (r *Result) String() string {
 		return "no result (nil *mdo.Result)"
 	}
 	var b strings.Builder
-	fmt.Fprintf(&b, "study %q by %s (%s, seed %d): %s after %d evaluations (%d analyses, %d cached, %d failed)\n",
-		r.Study, r.Optimizer, r.Formulation, r.Seed, r.Stop, r.Evaluations, r.Analyses, r.CacheHits+r.Restored, r.Failed)
+	fmt.Fprintf(&b, "study %q by %s (%s, seed %d): %s after %s\n",
+		r.Study, r.Optimizer, r.Formulation, r.Seed, r.Stop, r.EvalCounters)
 	if r.Best == nil {
 		b.WriteString("no point was evaluated\n")
 		return b.String()

@@ -117,14 +117,15 @@ func ctxStop(err error) mdo.StopReason {
 }
 
 // evaluate answers a batch of unit-box points. It returns a stop reason
-// other than mdo.NotStopped when the batch would exceed the evaluation budget (nothing is
-// evaluated then) or when the context was cancelled during it; err is a
-// recorder failure.
+// other than mdo.NotStopped when the batch would take the evaluations
+// past the budget (nothing is evaluated then; repeats cost nothing, see
+// mdo.Evaluator.Cost) or when the context was cancelled during it; err is
+// a recorder failure.
 func (r *run) evaluate(xs [][]float64) ([]*mdo.Evaluation, mdo.StopReason, error) {
 	if err := r.ctx.Err(); err != nil {
 		return nil, ctxStop(err), nil
 	}
-	if r.maxEvals > 0 && r.ev.Counters().Evaluations+len(xs) > r.maxEvals {
+	if r.maxEvals > 0 && r.ev.Counters().Evaluations+r.ev.Cost(xs) > r.maxEvals {
 		return nil, mdo.StopBudget, nil
 	}
 	evs, err := r.ev.Evaluate(r.ctx, xs)

@@ -91,15 +91,15 @@ func (o *RunOutputs) keep(s *store.Store) {
 // its own; with PickUp it first reopens the store of an interrupted run.
 type runRecorder struct {
 	o       *RunOutputs
-	path    string       // store file reserved by Restorable
-	pending *store.Store // store reopened by Restorable
+	path    string       // store file reserved by PickedUp
+	pending *store.Store // store reopened by PickedUp
 	cur     *store.Store
 }
 
-// Restorable implements mdo.Restorer: it reserves the run's store file
+// PickedUp implements mdo.PickUpRecorder: it reserves the run's store file
 // and, with PickUp and an existing file, reopens it and returns its
 // evaluations (refusing a store of another script or seed).
-func (r *runRecorder) Restorable(script string, seed uint64) ([]*mdo.Evaluation, error) {
+func (r *runRecorder) PickedUp(script string, seed uint64) ([]*mdo.Evaluation, error) {
 	path, err := r.o.nextPath()
 	if err != nil {
 		return nil, err
@@ -111,11 +111,11 @@ func (r *runRecorder) Restorable(script string, seed uint64) ([]*mdo.Evaluation,
 	if _, err := os.Stat(r.path); errors.Is(err, os.ErrNotExist) {
 		return nil, nil
 	}
-	s, err := store.Resume(r.path, r.o.options())
+	s, err := store.PickUp(r.path, r.o.options())
 	if err != nil {
 		return nil, err
 	}
-	evs, err := s.Restorable(script, seed)
+	evs, err := s.PickedUp(script, seed)
 	if err != nil {
 		s.Close()
 		return nil, err

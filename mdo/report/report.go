@@ -177,7 +177,7 @@ func build(r *mdo.Result, opt Options) (*view, error) {
 		{"formulation", r.Formulation.String()},
 		{"seed", strconv.FormatUint(r.Seed, 10)},
 		{"stopped", r.Stop.String()},
-		{"evaluations", fmt.Sprintf("%d answered: %d analysed, %d from the cache, %d restored from a store, %d failed", r.Evaluations, r.Analyses, r.CacheHits, r.Restored, r.Failed)},
+		{"evaluations", r.EvalCounters.String()},
 		{"work", fmt.Sprintf("%d discipline calls, %d coupling iterations", r.DisciplineCalls, r.CouplingIterations)},
 		{"started", r.Started.UTC().Format(time.RFC3339)},
 		{"elapsed", r.Elapsed.Round(time.Millisecond).String()},

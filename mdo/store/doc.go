@@ -8,10 +8,10 @@
 // Options.BatchSize evaluations or Options.FlushInterval, and at Flush,
 // End and Close, which wait for the commit). Every committed batch
 // survives the process being killed; a failed commit is returned by the
-// next call. A killed run is continued with Resume: the store
-// checks that the script and seed are the same, and its evaluations are
-// handed to mdo.Evaluator.Restore so that they are answered without being
-// analysed again.
+// next call. A killed run is picked up with PickUp: the store checks that
+// the script and seed are the same, and its evaluations are handed to
+// mdo.Evaluator.PickUp so that they are answered without being analysed
+// again.
 //
 // The schema is plain SQL, meant to be read with the sqlite3 shell or
 // Python's sqlite3 module:
@@ -20,8 +20,11 @@
 //	run(...)                        one row: provenance (study, script and
 //	                                its SHA-256, tool and Go versions, seed,
 //	                                optimiser, settings, start, end) and the
-//	                                final counters and best_id
-//	sessions(n, started, ended, …)  one row per Begin (a resume adds one)
+//	                                final counters (evaluations, analyses,
+//	                                cache_hits: the repeats, restored: the
+//	                                picked-up points, failed, …) and best_id
+//	sessions(n, started, ended, …)  one row per Begin (picking the run up
+//	                                adds one; resumed_rows: the rows then)
 //	variables(role, position, name, unit, description, lower, upper,
 //	          is_integer, relation, column_name)
 //	evaluation_data(id, feasible, converged, violation, error, iterations,
@@ -46,8 +49,8 @@
 // array outputs in the order of the variables table (NaN as null, ±Inf as
 // ±9e999, numbers in their shortest exact form), which the views take
 // apart when read; vectors packs the unit-box point, the minimised
-// objectives and the scaled constraints as little-endian float64, for an
-// exact resume.
+// objectives and the scaled constraints as little-endian float64, so that
+// a picked-up run continues exactly.
 //
 // The package also exports evaluations to CSV (Store.WriteCSV, ReadCSV) and
 // writes the run's summary.json (WriteSummary).

@@ -11,7 +11,7 @@ import (
 )
 
 // runGrid evaluates n points of the Sellar study through a recorder.
-func runGrid(rec mdo.Recorder, restore []*mdo.Evaluation, n int) (*mdo.Result, error) {
+func runGrid(rec mdo.Recorder, earlier []*mdo.Evaluation, n int) (*mdo.Result, error) {
 	st, err := mdo.SellarStudy(mdo.MDF)
 	if err != nil {
 		return nil, err
@@ -21,7 +21,7 @@ func runGrid(rec mdo.Recorder, restore []*mdo.Evaluation, n int) (*mdo.Result, e
 	if err != nil {
 		return nil, err
 	}
-	ev.Restore(restore)
+	ev.PickUp(earlier)
 	if err := ev.Begin("grid", nil); err != nil {
 		return nil, err
 	}
@@ -65,8 +65,8 @@ func ExampleCreate() {
 }
 
 // A killed run is continued: the same script and seed are checked, the
-// recorded evaluations restored, and only the missing ones analysed.
-func ExampleResume() {
+// recorded evaluations picked up, and only the missing ones analysed.
+func ExamplePickUp() {
 	dir, _ := os.MkdirTemp("", "couplet-example")
 	defer os.RemoveAll(dir)
 	path := filepath.Join(dir, "results.db")
@@ -77,7 +77,7 @@ func ExampleResume() {
 	}
 	first.Close()
 
-	s, err := store.Resume(path, store.Options{})
+	s, err := store.PickUp(path, store.Options{})
 	if err != nil {
 		fmt.Println(err)
 		return
@@ -97,7 +97,7 @@ func ExampleResume() {
 		fmt.Println(err)
 		return
 	}
-	fmt.Println("restored:", r.Restored, "analysed:", r.Analyses, "rows:", s.Rows())
+	fmt.Println("picked up:", r.PickedUp, "analysed:", r.Analyses, "rows:", s.Rows())
 	// Output:
-	// restored: 6 analysed: 4 rows: 10
+	// picked up: 6 analysed: 4 rows: 10
 }

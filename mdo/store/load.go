@@ -11,7 +11,7 @@ import (
 )
 
 // Evaluations returns every recorded evaluation in ID order, ready for
-// mdo.Evaluator.Restore. A store in which no run has begun has none.
+// mdo.Evaluator.PickUp. A store in which no run has begun has none.
 func (s *Store) Evaluations() ([]*mdo.Evaluation, error) {
 	var out []*mdo.Evaluation
 	err := s.Scan(func(e *mdo.Evaluation) error {

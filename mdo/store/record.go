@@ -20,7 +20,7 @@ const maxVariables = 32000
 const maxBatchRows = 64
 
 // Begin starts the run: on a new store it writes the provenance and the
-// variables and creates the evaluations table; on a resumed store it
+// variables and creates the evaluations table; on a store opened to pick its run up it
 // checks that the script, seed and variables are those of the stored run
 // and opens a new session.
 func (s *Store) Begin(info mdo.RunInfo) error {
@@ -32,8 +32,8 @@ func (s *Store) Begin(info mdo.RunInfo) error {
 	}
 	ctx := context.Background()
 	lay := newLayout(info.Design, info.Objectives, info.Constraints, info.Outputs)
-	resumed := s.meta != nil
-	if resumed {
+	pickingUp := s.meta != nil
+	if pickingUp {
 		if err := s.Check(info.Script, info.Seed); err != nil {
 			return err
 		}
@@ -47,7 +47,7 @@ func (s *Store) Begin(info mdo.RunInfo) error {
 	}
 	now := time.Now().UTC().Format(time.RFC3339Nano)
 	err := s.inTx(func() error {
-		if !resumed {
+		if !pickingUp {
 			settings, err := json.Marshal(nonNil(info.Settings))
 			if err != nil {
 				return err
@@ -77,7 +77,7 @@ func (s *Store) Begin(info mdo.RunInfo) error {
 	if err != nil {
 		return fmt.Errorf("store: %s: beginning the run: %w", s.path, err)
 	}
-	if !resumed {
+	if !pickingUp {
 		s.meta = &RunMeta{Study: info.Study, Script: info.Script, ScriptSHA256: ScriptHash(info.Script), ToolVersion: s.opt.ToolVersion,
 			GoVersion: goVersion(), Seed: info.Seed, Optimizer: info.Optimizer, Formulation: info.Formulation.String(),
 			Settings: nonNil(info.Settings), Started: started}
@@ -97,7 +97,7 @@ func (s *Store) usable() error {
 	case s.db == nil:
 		return fmt.Errorf("store: %s is closed", s.path)
 	case s.readOnly:
-		return fmt.Errorf("store: %s was opened read-only (use Resume to append)", s.path)
+		return fmt.Errorf("store: %s was opened read-only (use PickUp to append)", s.path)
 	}
 	return s.err
 }
@@ -110,7 +110,7 @@ func nonNil(m map[string]string) map[string]string {
 	return m
 }
 
-// sameLayout refuses a resumed run whose variables differ from the stored ones.
+// sameLayout refuses a picked-up run whose variables differ from the stored ones.
 func sameLayout(stored, now *layout) error {
 	if len(stored.design) != len(now.design) {
 		return fmt.Errorf("the stored run has %d design variables, this run %d", len(stored.design), len(now.design))
@@ -363,7 +363,7 @@ func (s *Store) End(r *mdo.Result) error {
 		}
 		if _, err := s.conn.ExecContext(ctx, `UPDATE run SET ended = ?, stop = ?, elapsed_seconds = ?, evaluations = ?, analyses = ?, cache_hits = ?,
 			restored = ?, failed = ?, discipline_calls = ?, coupling_iterations = ?, best_id = ? WHERE id = 1`,
-			now.Format(time.RFC3339Nano), stop.String(), elapsed, cnt.Evaluations, cnt.Analyses, cnt.CacheHits, cnt.Restored, cnt.Failed,
+			now.Format(time.RFC3339Nano), stop.String(), elapsed, cnt.Evaluations, cnt.Analyses, cnt.Repeats, cnt.PickedUp, cnt.Failed,
 			cnt.DisciplineCalls, cnt.CouplingIterations, best); err != nil {
 			return err
 		}

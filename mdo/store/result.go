@@ -51,12 +51,15 @@ func (s *Store) Result() (*mdo.Result, error) {
 	r.Best = best
 	r.Evaluations, r.Analyses = len(evs), len(evs)
 	var (
-		bestID                                          sql.NullInt64
-		elapsed                                         sql.NullFloat64
-		nEval, nAn, nCache, nRest, nFail, nCalls, nIter sql.NullInt64
+		bestID                                      sql.NullInt64
+		elapsed                                     sql.NullFloat64
+		nAn, nRepeat, nPicked, nFail, nCalls, nIter sql.NullInt64
 	)
-	err = s.conn.QueryRowContext(ctx, `SELECT best_id, elapsed_seconds, evaluations, analyses, cache_hits, restored, failed, discipline_calls, coupling_iterations FROM run WHERE id = 1`).
-		Scan(&bestID, &elapsed, &nEval, &nAn, &nCache, &nRest, &nFail, &nCalls, &nIter)
+	// run.cache_hits holds the repeats and run.restored the picked-up
+	// points; run.evaluations is not read, since stores written before
+	// repeats stopped counting as evaluations hold the requests there
+	err = s.conn.QueryRowContext(ctx, `SELECT best_id, elapsed_seconds, analyses, cache_hits, restored, failed, discipline_calls, coupling_iterations FROM run WHERE id = 1`).
+		Scan(&bestID, &elapsed, &nAn, &nRepeat, &nPicked, &nFail, &nCalls, &nIter)
 	if err != nil {
 		return nil, fmt.Errorf("store: reading the run of %s: %w", s.path, err)
 	}
@@ -65,7 +68,7 @@ func (s *Store) Result() (*mdo.Result, error) {
 			r.Best = e
 		}
 		r.Elapsed = time.Duration(elapsed.Float64 * 1e9)
-		r.EvalCounters = mdo.EvalCounters{Evaluations: int(nEval.Int64), Analyses: int(nAn.Int64), CacheHits: int(nCache.Int64), Restored: int(nRest.Int64),
+		r.EvalCounters = mdo.EvalCounters{Evaluations: int(nAn.Int64 + nPicked.Int64), Analyses: int(nAn.Int64), Repeats: int(nRepeat.Int64), PickedUp: int(nPicked.Int64),
 			Failed: int(nFail.Int64), DisciplineCalls: int(nCalls.Int64), CouplingIterations: int(nIter.Int64)}
 	}
 	rows, err := s.conn.QueryContext(ctx, `SELECT eval_id FROM front ORDER BY rank`)

@@ -169,7 +169,7 @@ func Create(path string, opt Options) (*Store, error) {
 		return nil, err
 	}
 	if _, err := os.Stat(path); err == nil && !opt.Overwrite {
-		return nil, fmt.Errorf("store: %s already exists; resume it, remove it, or choose another file", path)
+		return nil, fmt.Errorf("store: %s already exists; pick its run up, remove it, or choose another file", path)
 	}
 	// also a write-ahead log left beside a removed file, which SQLite
 	// would otherwise replay into the new one
@@ -199,12 +199,12 @@ func Create(path string, opt Options) (*Store, error) {
 	return s, nil
 }
 
-// Resume opens an existing case store to continue its run. Check the
-// script and seed with Check, hand Evaluations to mdo.Evaluator.Restore,
+// PickUp opens an existing case store to pick up its run. Check the
+// script and seed with Check, hand Evaluations to mdo.Evaluator.PickUp,
 // then give the store to the study as its recorder: new evaluations are
 // appended. A truncated or damaged file wraps ErrDamaged; a file that is
 // not a case store wraps ErrNotStore.
-func Resume(path string, opt Options) (*Store, error) {
+func PickUp(path string, opt Options) (*Store, error) {
 	opt, err := opt.normalized()
 	if err != nil {
 		return nil, err
@@ -432,11 +432,11 @@ func (s *Store) Close() error {
 // goVersion is the Go version recorded in the provenance.
 func goVersion() string { return runtime.Version() }
 
-// Restorable checks that the stored run came from script and seed (see
-// Check) and returns its evaluations for mdo.Evaluator.Restore. It is the
-// one call a resuming caller needs; a store in which no run has begun
-// gives none.
-func (s *Store) Restorable(script string, seed uint64) ([]*mdo.Evaluation, error) {
+// PickedUp implements mdo.PickUpRecorder: it checks that the stored run
+// came from script and seed (see Check) and returns its evaluations for
+// mdo.Evaluator.PickUp. It is the one call a caller picking a run up
+// needs; a store in which no run has begun gives none.
+func (s *Store) PickedUp(script string, seed uint64) ([]*mdo.Evaluation, error) {
 	if err := s.Check(script, seed); err != nil {
 		return nil, err
 	}

@@ -383,7 +383,7 @@ func TestBadFiles(t *testing.T) {
 		for _, open := range []struct {
 			how string
 			fn  func(string) (*Store, error)
-		}{{"Open", Open}, {"Resume", func(p string) (*Store, error) { return Resume(p, Options{}) }}} {
+		}{{"Open", Open}, {"PickUp", func(p string) (*Store, error) { return PickUp(p, Options{}) }}} {
 			st, err := open.fn(tc.path)
 			if err == nil {
 				st.Close()
@@ -406,7 +406,7 @@ func TestBadFiles(t *testing.T) {
 	st.Close()
 }
 
-func TestResumeRefusesOtherScriptOrSeed(t *testing.T) {
+func TestPickUpRefusesOtherScriptOrSeed(t *testing.T) {
 	path := filepath.Join(t.TempDir(), "r.db")
 	s, err := Create(path, Options{})
 	if err != nil {
@@ -427,7 +427,7 @@ func TestResumeRefusesOtherScriptOrSeed(t *testing.T) {
 		{"other seed", sellarScript, 8, []string{"seed 7", "seed 8"}},
 	}
 	for _, tc := range tests {
-		r, err := Resume(path, Options{})
+		r, err := PickUp(path, Options{})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -437,11 +437,11 @@ func TestResumeRefusesOtherScriptOrSeed(t *testing.T) {
 				t.Errorf("%s: Check err = %v, want it to name %q", tc.name, err, w)
 			}
 		}
-		if evs, err := r.Restorable(tc.script, tc.seed); err == nil || evs != nil {
-			t.Errorf("%s: Restorable gave %d evaluations, err %v; want a refusal", tc.name, len(evs), err)
+		if evs, err := r.PickedUp(tc.script, tc.seed); err == nil || evs != nil {
+			t.Errorf("%s: PickedUp gave %d evaluations, err %v; want a refusal", tc.name, len(evs), err)
 		}
 		// and a study recording into it is refused when its evaluator is
-		// made (the store is an mdo.Restorer), so a recorder cannot mix runs
+		// made (the store is an mdo.PickUpRecorder), so a recorder cannot mix runs
 		st, err := mdo.SellarStudy(mdo.MDF)
 		if err != nil {
 			t.Fatal(err)
@@ -452,7 +452,7 @@ func TestResumeRefusesOtherScriptOrSeed(t *testing.T) {
 		}
 		r.Close()
 	}
-	r, err := Resume(path, Options{})
+	r, err := PickUp(path, Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -631,7 +631,7 @@ func TestSameIDRecordedTwice(t *testing.T) {
 	var a, b mdo.Evaluation
 	syntheticEval(&a, 4)
 	syntheticEval(&b, 5)
-	b.ID = 4 // a resumed run that diverged re-uses the number
+	b.ID = 4 // a picked-up run that diverged re-uses the number
 	for _, e := range []*mdo.Evaluation{&a, &b} {
 		if err := s.Record(e); err != nil {
 			t.Fatal(err)

@@ -19,17 +19,15 @@ type Summary struct {
 	Seed        uint64 `json:"seed"`
 	Optimizer   string `json:"optimizer"`
 	Formulation string `json:"formulation"`
-	// Evaluations is the number of distinct evaluations recorded (one
-	// row each in results.db): analysed plus restored on resume.
-	Evaluations int `json:"evaluations"`
-	// Requests counts every point the optimiser asked for, repeats
-	// answered from the cache included.
-	Requests  int    `json:"requests"`
-	Analyses  int    `json:"analyses"`
-	CacheHits int    `json:"cache_hits"`
-	Restored  int    `json:"restored"`
-	Failed    int    `json:"failed"`
-	Stop      string `json:"stop"`
+	// Evaluations counts the evaluations (see mdo.EvalCounters), one row
+	// each in results.db: Analyses + PickedUp. Repeats were answered
+	// from the cache and are not evaluations.
+	Evaluations int    `json:"evaluations"`
+	Analyses    int    `json:"analyses"`
+	PickedUp    int    `json:"picked_up"`
+	Repeats     int    `json:"repeats"`
+	Failed      int    `json:"failed"`
+	Stop        string `json:"stop"`
 	// Best is the best point of a single-objective study; a study with
 	// several objectives gives Front instead.
 	Best         *SummaryPoint  `json:"best,omitempty"`
@@ -104,8 +102,7 @@ type SummaryOptions struct {
 func NewSummary(r *mdo.Result, opt SummaryOptions) Summary {
 	s := Summary{
 		Study: r.Study, Seed: r.Seed, Optimizer: r.Optimizer, Formulation: r.Formulation.String(),
-		Evaluations: r.Analyses + r.Restored, Requests: r.Evaluations, Analyses: r.Analyses,
-		CacheHits: r.CacheHits, Restored: r.Restored, Failed: r.Failed, Stop: r.Stop.String(), ToolVersion: opt.ToolVersion,
+		Evaluations: r.Evaluations, Analyses: r.Analyses, PickedUp: r.PickedUp, Repeats: r.Repeats, Failed: r.Failed, Stop: r.Stop.String(), ToolVersion: opt.ToolVersion,
 	}
 	if opt.Script != "" {
 		s.ScriptSHA256 = ScriptHash(opt.Script)

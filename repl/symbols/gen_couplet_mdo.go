@@ -84,11 +84,11 @@ func init() {
 		"NonFiniteError":    reflect.ValueOf((*mdo.NonFiniteError)(nil)),
 		"NotClosingError":   reflect.ValueOf((*mdo.NotClosingError)(nil)),
 		"Objective":         reflect.ValueOf((*mdo.Objective)(nil)),
+		"PickUpRecorder":    reflect.ValueOf((*mdo.PickUpRecorder)(nil)),
 		"Progress":          reflect.ValueOf((*mdo.Progress)(nil)),
 		"RangeError":        reflect.ValueOf((*mdo.RangeError)(nil)),
 		"Recorder":          reflect.ValueOf((*mdo.Recorder)(nil)),
 		"Report":            reflect.ValueOf((*mdo.Report)(nil)),
-		"Restorer":          reflect.ValueOf((*mdo.Restorer)(nil)),
 		"Result":            reflect.ValueOf((*mdo.Result)(nil)),
 		"RunInfo":           reflect.ValueOf((*mdo.RunInfo)(nil)),
 		"Solution":          reflect.ValueOf((*mdo.Solution)(nil)),
@@ -105,8 +105,8 @@ func init() {
 		// interface wrapper definitions
 		"_Discipline":        reflect.ValueOf((*_couplet_mdo_Discipline)(nil)),
 		"_IterationRecorder": reflect.ValueOf((*_couplet_mdo_IterationRecorder)(nil)),
+		"_PickUpRecorder":    reflect.ValueOf((*_couplet_mdo_PickUpRecorder)(nil)),
 		"_Recorder":          reflect.ValueOf((*_couplet_mdo_Recorder)(nil)),
-		"_Restorer":          reflect.ValueOf((*_couplet_mdo_Restorer)(nil)),
 	}
 }
 
@@ -142,6 +142,16 @@ func (W _couplet_mdo_IterationRecorder) Iteration(p mdo.Progress) error {
 	return W.WIteration(p)
 }
 
+// _couplet_mdo_PickUpRecorder is an interface wrapper for PickUpRecorder type
+type _couplet_mdo_PickUpRecorder struct {
+	IValue    interface{}
+	WPickedUp func(script string, seed uint64) ([]*mdo.Evaluation, error)
+}
+
+func (W _couplet_mdo_PickUpRecorder) PickedUp(script string, seed uint64) ([]*mdo.Evaluation, error) {
+	return W.WPickedUp(script, seed)
+}
+
 // _couplet_mdo_Recorder is an interface wrapper for Recorder type
 type _couplet_mdo_Recorder struct {
 	IValue  interface{}
@@ -158,14 +168,4 @@ func (W _couplet_mdo_Recorder) End(r *mdo.Result) error {
 }
 func (W _couplet_mdo_Recorder) Record(e *mdo.Evaluation) error {
 	return W.WRecord(e)
-}
-
-// _couplet_mdo_Restorer is an interface wrapper for Restorer type
-type _couplet_mdo_Restorer struct {
-	IValue      interface{}
-	WRestorable func(script string, seed uint64) ([]*mdo.Evaluation, error)
-}
-
-func (W _couplet_mdo_Restorer) Restorable(script string, seed uint64) ([]*mdo.Evaluation, error) {
-	return W.WRestorable(script, seed)
 }

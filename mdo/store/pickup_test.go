@@ -20,7 +20,7 @@ import (
 
 // The crash test re-executes the test binary as a helper process that
 // runs a study recording to a store; the parent kills it with SIGKILL
-// after some batches are committed and resumes the run.
+// after some batches are committed and picks the run up.
 const (
 	helperEnv   = "COUPLET_STORE_CRASH_HELPER"
 	helperBatch = 5 // evaluations per store commit in the helper
@@ -34,8 +34,8 @@ const (
 
 // randomSearch is a small deterministic optimiser: a (1+λ) search in the
 // unit box whose step adapts to success, drawing from a PCG seeded by the
-// study's seed. The points it asks for depend on the answers, so a resume
-// only reproduces the uninterrupted run if restored evaluations are exact.
+// study's seed. The points it asks for depend on the answers, so picking up
+// only reproduces the uninterrupted run if picked-up evaluations are exact.
 func randomSearch(ctx context.Context, ev *mdo.Evaluator, pause time.Duration) (*mdo.Result, error) {
 	rng := rand.New(rand.NewPCG(ev.Seed(), 0x5eed))
 	if err := ev.Begin("test-random-search", map[string]string{"lambda": strconv.Itoa(searchLambda)}); err != nil {
@@ -73,7 +73,7 @@ func randomSearch(ctx context.Context, ev *mdo.Evaluator, pause time.Duration) (
 func TestCrashHelper(t *testing.T) {
 	path := os.Getenv(helperEnv)
 	if path == "" {
-		t.Skip("helper process for TestResumeAfterSIGKILL")
+		t.Skip("helper process for TestPickUpAfterSIGKILL")
 	}
 	s, err := Create(path, Options{ToolVersion: "crash-helper", BatchSize: helperBatch, FlushInterval: time.Hour,
 		OnCommit: func(rows int) { fmt.Printf("committed %d\n", rows) }})
@@ -91,7 +91,7 @@ func TestCrashHelper(t *testing.T) {
 	os.Exit(0)
 }
 
-func TestResumeAfterSIGKILL(t *testing.T) {
+func TestPickUpAfterSIGKILL(t *testing.T) {
 	if testing.Short() {
 		t.Skip("starts a helper process")
 	}
@@ -147,13 +147,13 @@ func TestResumeAfterSIGKILL(t *testing.T) {
 		t.Fatalf("helper was not killed by SIGKILL: %v", err)
 	}
 
-	// resume: refuse nothing, restore everything committed
-	s, err := Resume(path, Options{BatchSize: helperBatch})
+	// pick up: refuse nothing, pick up everything committed
+	s, err := PickUp(path, Options{BatchSize: helperBatch})
 	if err != nil {
 		t.Fatal(err)
 	}
 	defer s.Close()
-	prev, err := s.Restorable(sellarScript, 2026)
+	prev, err := s.PickedUp(sellarScript, 2026)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -162,7 +162,7 @@ func TestResumeAfterSIGKILL(t *testing.T) {
 	}
 	t.Logf("killed after %d committed rows; store holds %d; the uninterrupted run analysed %d", killedAt, len(prev), want.Analyses)
 	ev := sellarEvaluator(t, s, 2026, sellarScript)
-	ev.Restore(prev)
+	ev.PickUp(prev)
 	got, err := randomSearch(context.Background(), ev, 0)
 	if err != nil {
 		t.Fatal(err)
@@ -171,18 +171,18 @@ func TestResumeAfterSIGKILL(t *testing.T) {
 		t.Fatal("no best point")
 	}
 	if f := sameEvaluation(got.Best, want.Best); f != "" && f != "Wall" {
-		t.Errorf("resumed best #%d differs from the uninterrupted best #%d in %s: %v vs %v", got.Best.ID, want.Best.ID, f, got.Best.Design, want.Best.Design)
+		t.Errorf("picked-up best #%d differs from the uninterrupted best #%d in %s: %v vs %v", got.Best.ID, want.Best.ID, f, got.Best.Design, want.Best.Design)
 	}
 	if got.Evaluations > want.Evaluations {
-		t.Errorf("resumed run answered %d points, the uninterrupted run %d", got.Evaluations, want.Evaluations)
+		t.Errorf("picked-up run answered %d points, the uninterrupted run %d", got.Evaluations, want.Evaluations)
 	}
-	if got.Restored != len(prev) || got.Analyses != want.Analyses-len(prev) {
-		t.Errorf("resumed run: %d restored and %d analysed; want %d restored and %d analysed", got.Restored, got.Analyses, len(prev), want.Analyses-len(prev))
+	if got.PickedUp != len(prev) || got.Analyses != want.Analyses-len(prev) {
+		t.Errorf("picked-up run: %d picked up and %d analysed; want %d picked up and %d analysed", got.PickedUp, got.Analyses, len(prev), want.Analyses-len(prev))
 	}
 	if s.Rows() != want.Analyses {
-		t.Errorf("resumed store holds %d rows, the uninterrupted one %d", s.Rows(), want.Analyses)
+		t.Errorf("picked-up store holds %d rows, the uninterrupted one %d", s.Rows(), want.Analyses)
 	}
-	// the resumed store's rows equal the uninterrupted store's, apart from wall times
+	// the picked-up store's rows equal the uninterrupted store's, apart from wall times
 	a, err := s.Evaluations()
 	if err != nil {
 		t.Fatal(err)
@@ -197,12 +197,12 @@ func TestResumeAfterSIGKILL(t *testing.T) {
 		t.Fatal(err)
 	}
 	if len(a) != len(b) {
-		t.Fatalf("resumed store has %d evaluations, uninterrupted %d", len(a), len(b))
+		t.Fatalf("picked-up store has %d evaluations, uninterrupted %d", len(a), len(b))
 	}
 	for i := range a {
 		a[i].Wall, b[i].Wall = 0, 0
 		if f := sameEvaluation(a[i], b[i]); f != "" {
-			t.Fatalf("evaluation %d differs in %s between the resumed and the uninterrupted store", i, f)
+			t.Fatalf("evaluation %d differs in %s between the picked-up and the uninterrupted store", i, f)
 		}
 	}
 }
