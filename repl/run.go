@@ -78,6 +78,11 @@ func Run(ctx context.Context, opts RunOptions) (*RunRecord, error) {
 	if err != nil {
 		return nil, &UsageError{Err: fmt.Errorf("%s: %w", opts.File, err)}
 	}
+	if opts.PickUp {
+		if err := checkPickUp(opts.OutDir, opts.File, string(text)); err != nil {
+			return nil, err
+		}
+	}
 	if err := os.MkdirAll(opts.OutDir, 0o755); err != nil {
 		return nil, &UsageError{Err: fmt.Errorf("making the output folder: %w", err)}
 	}
@@ -95,6 +100,7 @@ func Run(ctx context.Context, opts RunOptions) (*RunRecord, error) {
 	s, err := NewSession(Options{
 		Policy: opts.Policy, Stdout: out, Stderr: errw, NoErrorEcho: true, OutDir: opts.OutDir,
 		Seed: opts.Seed, SeedSet: opts.SeedSet, Progress: opts.Progress, Outputs: outs, Grace: opts.Grace,
+		Script: string(text),
 	})
 	if err != nil {
 		return nil, err
@@ -170,3 +176,29 @@ func resultOf(s *Session) *mdo.Result {
 
 // trimExt drops a file name's extension.
 func trimExt(name string) string { return name[:len(name)-len(filepath.Ext(name))] }
+
+// checkPickUp refuses a pick-up when a case store in dir recorded
+// another script than the study file's text: the whole file is the
+// identity, so any change (a constraint's bound, an optimiser setting)
+// is refused before anything runs, naming the first cell that differs.
+func checkPickUp(dir, file, text string) error {
+	paths, err := filepath.Glob(filepath.Join(dir, "results*.db"))
+	if err != nil {
+		return &UsageError{Err: fmt.Errorf("--pick-up: %w", err)}
+	}
+	for _, p := range paths {
+		st, err := store.Open(p)
+		if err != nil {
+			return &UsageError{Err: fmt.Errorf("--pick-up: %w", err)}
+		}
+		meta, ok := st.Run()
+		st.Close()
+		if !ok {
+			continue
+		}
+		if change := firstChange(meta.Script, text); change != "" {
+			return &UsageError{Err: fmt.Errorf("--pick-up: %s holds a run of another version of %s: %s; picking it up would mix the two. Run the changed study into a new folder, or restore the file", p, file, change)}
+		}
+	}
+	return nil
+}

@@ -46,6 +46,11 @@ type Options struct {
 	// report on demand (@report); with OutDir set and neither Recorder
 	// nor Outputs given, the session makes its own.
 	Outputs *RunOutputs
+	// Script, if not empty, is the whole study file a headless run
+	// replays: the identity every attached study records (Study.Script)
+	// and a pick-up compares. Empty means the cells run so far, the
+	// running one included.
+	Script string
 	// Grace is how long a cancelled cell may take to come back (an
 	// optimiser returning its best point) before the interpreter is
 	// stopped; default 2 s.
@@ -82,6 +87,7 @@ type Session struct {
 	cells    []*Cell
 	next     int
 	imported map[string]bool // imports the interpreter already has
+	current  *Cell           // the cell Exec runs, nil between cells
 
 	mu         sync.Mutex
 	running    bool
@@ -126,7 +132,7 @@ func (s *Session) reset() error {
 		OutDir:   s.opts.OutDir,
 		Progress: s.progressFor(),
 		Recorder: s.opts.Recorder,
-		Script:   s.Script,
+		Script:   s.identity,
 	})
 	it := interp.New(interp.Options{Stdout: s.out, Stderr: s.errBuf, Stdin: strings.NewReader("")})
 	if err := it.Use(symbols.Symbols); err != nil {
@@ -182,6 +188,25 @@ func (s *Session) Script() string {
 	return FormatStudy(srcs)
 }
 
+// identity is the script an attached study records and a pick-up
+// compares: the whole file of a headless run, else the successful cells
+// so far and the running one.
+func (s *Session) identity() string {
+	if s.opts.Script != "" {
+		return s.opts.Script
+	}
+	var srcs []string
+	for _, c := range s.cells {
+		if c.Err == nil {
+			srcs = append(srcs, c.Source)
+		}
+	}
+	if s.current != nil {
+		srcs = append(srcs, s.current.Source)
+	}
+	return FormatStudy(srcs)
+}
+
 // currentContext is the context of the running cell.
 func (s *Session) currentContext() context.Context {
 	s.mu.Lock()
@@ -219,7 +244,9 @@ func (s *Session) Exec(ctx context.Context, src string) *Cell {
 	c := &Cell{Number: s.next, Source: strings.TrimRight(src, "\n")}
 	s.next++
 	start := time.Now()
+	s.current = c
 	c.Err = s.exec(ctx, c)
+	s.current = nil
 	c.Elapsed = time.Since(start)
 	s.opts.Progress.Close()
 	c.Output = s.out.take()

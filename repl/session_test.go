@@ -11,6 +11,7 @@ import (
 	"time"
 
 	"couplet/mdo"
+	"couplet/mdo/store"
 )
 
 // newTest starts a session writing to buffers.
@@ -496,5 +497,57 @@ res, err := optimizers.RandomDesign{Samples: 6}.Minimize(cell.Context(), st)
 	serve(t, s2, "x := 1\n@report x\n")
 	if !strings.Contains(errb2.String(), "--out DIR") {
 		t.Errorf("stderr %q", errb2)
+	}
+}
+
+// scriptRecorder keeps the script each run records.
+type scriptRecorder struct{ scripts []string }
+
+func (r *scriptRecorder) Begin(info mdo.RunInfo) error {
+	r.scripts = append(r.scripts, info.Script)
+	return nil
+}
+func (r *scriptRecorder) Record(*mdo.Evaluation) error { return nil }
+func (r *scriptRecorder) End(*mdo.Result) error        { return nil }
+
+// The script a study records in the session (its identity for a pick-up)
+// holds every successful cell so far and the running one that attaches
+// the study, not only the finished cells.
+func TestSessionRecordsTheRunningCell(t *testing.T) {
+	rec := &scriptRecorder{}
+	s, _, errb := newTest(t, Options{Recorder: func(*mdo.Study) (mdo.Recorder, error) { return rec, nil }})
+	cells := []string{
+		"samples := 4",
+		"bad := undefinedName",
+		"st, err := mdo.SellarStudy(mdo.MDF)\ncell.Attach(st)\nres, err := optimizers.RandomDesign{Samples: samples}.Minimize(cell.Context(), st)",
+	}
+	for _, c := range cells {
+		s.Exec(context.Background(), c)
+	}
+	want := FormatStudy([]string{cells[0], cells[2]})
+	if len(rec.scripts) != 1 || rec.scripts[0] != want {
+		t.Errorf("recorded scripts %q, want [%q] (stderr %s)", rec.scripts, want, errb)
+	}
+}
+
+// A headless run records the whole study file, cells after the one that
+// attaches the study included.
+func TestRunRecordsTheWholeFile(t *testing.T) {
+	path := filepath.Join("..", "studies", "sellar.study")
+	text, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	out := t.TempDir()
+	if _, err := Run(context.Background(), RunOptions{File: path, OutDir: out}); err != nil {
+		t.Fatal(err)
+	}
+	st, err := store.Open(filepath.Join(out, "results.db"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer st.Close()
+	if meta, ok := st.Run(); !ok || meta.Script != string(text) {
+		t.Errorf("results.db records the script %q, want the whole file %q", meta.Script, text)
 	}
 }

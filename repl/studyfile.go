@@ -146,3 +146,32 @@ func WriteStudy(path string, cells []string) error {
 	}
 	return nil
 }
+
+// firstChange describes where the study file text now differs from the
+// text recorded before ("" when they are the same): the first cell that
+// differs, one added or dropped, or the text outside the cells (header,
+// markers, blank lines, line endings).
+func firstChange(recorded, now string) string {
+	if recorded == now {
+		return ""
+	}
+	a, errA := ParseStudy(recorded)
+	b, errB := ParseStudy(now)
+	if errA != nil || errB != nil {
+		return "the file differs from the recorded script"
+	}
+	for i := 0; i < len(a.Cells) && i < len(b.Cells); i++ {
+		if a.Cells[i].Source != b.Cells[i].Source {
+			return fmt.Sprintf("cell %d (from line %d) differs from the recorded script", i+1, b.Cells[i].Line)
+		}
+	}
+	switch {
+	case len(b.Cells) > len(a.Cells):
+		return fmt.Sprintf("cell %d (from line %d) was added after the recorded script's %d cells", len(a.Cells)+1, b.Cells[len(a.Cells)].Line, len(a.Cells))
+	case len(b.Cells) < len(a.Cells):
+		return fmt.Sprintf("the file has %d cells, the recorded script %d: cell %d was removed", len(b.Cells), len(a.Cells), len(b.Cells)+1)
+	case a.Header != b.Header:
+		return fmt.Sprintf("the header line %q differs from the recorded %q", b.Header, a.Header)
+	}
+	return "the text between the cells (markers, blank lines or line endings) differs from the recorded script"
+}

@@ -9,6 +9,7 @@ import (
 	"path/filepath"
 	"reflect"
 	"strconv"
+	"strings"
 	"testing"
 	"time"
 
@@ -152,5 +153,51 @@ func TestRunKilledAndPickedUp(t *testing.T) {
 	}
 	if !bytes.Contains(errOut.Bytes(), []byte("seed")) {
 		t.Errorf("refusal does not name the seed: %s", errOut.String())
+	}
+}
+
+// A pick-up compares the whole study file with the script the killed run
+// recorded: a study whose take-off field limit was tightened from 1600 m
+// to 1200 m after the run is refused, naming the cell that differs, and
+// the folder is left as it was (picking up would report the old run's
+// points, with field lengths near 1 580 m, as feasible).
+func TestPickUpRefusesAChangedScript(t *testing.T) {
+	orig, err := os.ReadFile(filepath.Join("..", "..", "..", "studies", "regional_jet.study"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	const limit = `mdo.AtMost("perf.takeoff_field_length", 1600)`
+	if bytes.Count(orig, []byte(limit)) != 1 {
+		t.Fatalf("regional_jet.study has no single %s", limit)
+	}
+	src := t.TempDir()
+	study := filepath.Join(src, "regional_jet.study")
+	if err := os.WriteFile(study, orig, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	dir := t.TempDir()
+	if code, _, errs := runCmd("run", study, "--out", dir); code != 0 {
+		t.Fatalf("first run: exit %d\n%s", code, errs)
+	}
+	before, err := os.ReadFile(filepath.Join(dir, "summary.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	rows := rowsIn(t, filepath.Join(dir, "results.db"))
+
+	changed := bytes.Replace(orig, []byte(limit), []byte(`mdo.AtMost("perf.takeoff_field_length", 1200)`), 1)
+	if err := os.WriteFile(study, changed, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	code, _, errs := runCmd("run", study, "--out", dir, "--pick-up")
+	if code != 2 || !strings.Contains(errs, "cell 1") || !strings.Contains(errs, "--pick-up") {
+		t.Errorf("pick-up of a changed study: exit %d, stderr %q; want exit 2 naming cell 1", code, errs)
+	}
+	after, err := os.ReadFile(filepath.Join(dir, "summary.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !bytes.Equal(before, after) || rowsIn(t, filepath.Join(dir, "results.db")) != rows {
+		t.Errorf("the refused pick-up changed the folder")
 	}
 }
