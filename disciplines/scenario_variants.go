@@ -33,12 +33,13 @@ func SwiftletTrijet() Scenario {
 // cruise at Mach 1.6 and 17 km, two engines under a 60° swept wing,
 // 6 500 km range. Every number is invented for the demonstration.
 func Condor() Scenario {
-	return variant(Swiftlet(), "Condor S30", "invented 30-seat supersonic airliner, Mach 1.6, twin engines, 6 500 km",
+	s := variant(Swiftlet(), "Condor S30", "invented 30-seat supersonic airliner, Mach 1.6, twin engines, 6 500 km",
 		map[string]float64{
 			"wing.area": 190, "wing.aspect_ratio": 2.4, "wing.sweep": 60, "wing.thickness_ratio": 0.03,
 			"cabin.passengers": 30, "cabin.seats_abreast": 3, "cabin.seat_pitch": 0.86,
 			"cruise.mach": 1.6, "mission.range": 6.5e6, "mission.payload": 3000,
 			"engine.sizing_field_length": 2600,
+			"weights.calibration":        EmptyMassCalibration(ClassSupersonicCruise),
 		},
 		map[string]float64{
 			"mass.takeoff": 65000, "mass.zero_fuel": 34000, "mass.landing": 37000,
@@ -47,4 +48,6 @@ func Condor() Scenario {
 			"engine.thrust_takeoff": 150000, "engine.thrust_climb": 140000,
 			"aero.drag_cruise": 60000, "aero.ld_cruise": 8.5,
 		})
+	s.Class = ClassSupersonicCruise
+	return s
 }

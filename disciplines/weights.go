@@ -10,6 +10,14 @@ package disciplines
 // centres of gravity and the aircraft CG at take-off, start and end of
 // cruise and zero fuel.
 //
+// Calibration: the assembled equations are checked against Roskam's
+// empty-mass regressions and the common-practice empty mass per seat of
+// each aircraft class (mass_statistics.go); every statistical component
+// is multiplied by weights.calibration, which the demonstration
+// scenarios set to their class's EmptyMassCalibration (1.3 for jet
+// transports, whose passenger cabins the cargo/transport equations
+// under-weigh; 1 for business jets; 0.85 for supersonic airliners).
+//
 // Every statistical equation is evaluated in its own units (lb, ft, ft²,
 // gal, kt, in) with the conversions written out (constants unit* of
 // propulsion.go) and converted back to kg.
@@ -164,6 +172,7 @@ const (
 	wtInFurnishings
 	wtInCrew
 	wtInCGCrew
+	wtInCalibration
 	wtNumIn
 )
 
@@ -308,7 +317,15 @@ func (w *Weights) Inputs() []mdo.Var {
 	in[wtInGuess] = massTakeoffVar()
 	in[wtInFusTankShare] = mdo.Var{Name: "weights.fuselage_tank_share", Unit: "-", Description: "fuel volume in the fuselage over the fuselage volume π/4·D²·L", Default: 0.05, Min: 0, Max: 0.5}
 	copy(in[wtInCoefWing:], airframeMassOutputs())
+	in[wtInCalibration] = calibrationVar()
 	return in
+}
+
+// calibrationVar is the specification of weights.calibration.
+func calibrationVar() mdo.Var {
+	return mdo.Var{Name: "weights.calibration", Unit: "-",
+		Description: "calibration factor on the statistical empty-mass components (airframe, gear, nacelles, systems, furnishings; not the engines, crew or payload), fitted per aircraft class (EmptyMassCalibration)",
+		Default:     1, Min: 0.5, Max: 2.5}
 }
 
 // Specifications of the geometry variables that weights, airframe_masses,
@@ -502,6 +519,12 @@ func (w *Weights) Compute(in, out []float64) error {
 	// Flight controls (Torenbeek, from memory): 0.768·ksc·W0^(2/3) [kg],
 	// ksc = 0.64 (powered controls, trailing-edge high lift).
 	terms[termFlightControls] = weightTerm{coef: 0.768 * 0.64, exp: 2.0 / 3}
+	// Calibration: every statistical term scales by weights.calibration
+	// (the engines, the crew and the payload do not).
+	kc := in[wtInCalibration]
+	for i := range terms {
+		terms[i].coef *= kc
+	}
 
 	// Fixed masses [kg].
 	// Nacelle group: 0.6724 Kng NLt^0.10 Nw^0.294 Nz^0.119 Wec^0.611 Nen^0.984 Sn^0.224,
@@ -518,10 +541,10 @@ func (w *Weights) Compute(in, out []float64) error {
 	// Engine controls: 5 Nen + 0.80 Lec, Lec = Nen × engine-to-cockpit length.
 	lec := nen * in[wtInEnginePosition] * lfFt
 	engControls := unitLb * (5*nen + 0.80*lec)
-	propGroupFixed := nen*in[wtInEngineMass] + nacelle + starter + engControls
+	propGroupFixed := nen*in[wtInEngineMass] + kc*nacelle + kc*starter + kc*engControls
 
-	systemsFixed, furn, crew := in[wtInSystemsFixed], in[wtInFurnishings], in[wtInCrew]
-	const linear = 0.002 + 3e-4 // anti-ice 0.002 Wdg + handling gear 3.0e-4 Wdg (Raymer)
+	systemsFixed, furn, crew := kc*in[wtInSystemsFixed], kc*in[wtInFurnishings], in[wtInCrew]
+	linear := kc * (0.002 + 3e-4) // anti-ice 0.002 Wdg + handling gear 3.0e-4 Wdg (Raymer)
 
 	fixed := propGroupFixed + systemsFixed + furn + crew + in[wtInPayload]
 	// Newton on f(W) = (1 − φ − linear)·W − Σ ci·W^ei − fixed (convex, one root).

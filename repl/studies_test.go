@@ -115,7 +115,7 @@ var exampleChecks = map[string]func(t *testing.T, sum map[string]any){
 	},
 	"regional_jet.study": func(t *testing.T, sum map[string]any) {
 		best := sum["best"].(map[string]any)
-		// The Kestrel R76 baseline wing (78 m², A = 9, 25°, t/c 0.12,
+		// The Kestrel R76 baseline wing (84 m², A = 9, 25°, t/c 0.12,
 		// disciplines.Kestrel) meets every constraint of the study, the
 		// second-segment climb gradient exactly (the engines are sized
 		// for it, so its margin is zero up to rounding); the optimum must
