@@ -28,7 +28,10 @@
 //	variables(role, position, name, unit, description, lower, upper,
 //	          is_integer, relation, column_name)
 //	evaluation_data(id, feasible, converged, violation, error, iterations,
-//	          discipline_calls, wall_seconds, numbers, outputs, vectors)
+//	          discipline_calls, wall_seconds, numbers, outputs, vectors,
+//	          failure)               failure: the mdo.FailureClass of a
+//	                                failed analysis ('' otherwise; stores
+//	                                written before it read as '')
 //	evaluations                     a view of evaluation_data with one column
 //	                                per value: "design:NAME"…,
 //	                                "objective:NAME"…, "constraint:NAME"…,

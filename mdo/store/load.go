@@ -37,7 +37,7 @@ func (s *Store) Scan(fn func(*mdo.Evaluation) error) error {
 	}
 	l := s.lay
 	rows, err := s.conn.QueryContext(context.Background(),
-		"SELECT id, feasible, converged, violation, error, iterations, discipline_calls, wall_seconds, numbers, outputs, vectors FROM evaluation_data ORDER BY id")
+		"SELECT id, feasible, converged, violation, error, iterations, discipline_calls, wall_seconds, numbers, outputs, vectors, "+s.failureCol()+" FROM evaluation_data ORDER BY id")
 	if err != nil {
 		return fmt.Errorf("store: reading the evaluations of %s: %w", s.path, err)
 	}
@@ -47,18 +47,21 @@ func (s *Store) Scan(fn func(*mdo.Evaluation) error) error {
 		id, iters, calls    int64
 		feasible, converged bool
 		viol                sql.NullFloat64
-		errText             string
+		errText, failure    string
 		wall                float64
 		numbers, outputs    string
 		vectors             []byte
 	)
 	for rows.Next() {
-		if err := rows.Scan(&id, &feasible, &converged, &viol, &errText, &iters, &calls, &wall, &numbers, &outputs, &vectors); err != nil {
+		if err := rows.Scan(&id, &feasible, &converged, &viol, &errText, &iters, &calls, &wall, &numbers, &outputs, &vectors, &failure); err != nil {
 			return fmt.Errorf("store: reading the evaluations of %s: %w", s.path, err)
 		}
 		e := &mdo.Evaluation{
 			ID: int(id), Feasible: feasible, Converged: converged, Violation: nullNaN(viol), Err: errText,
 			Iterations: int(iters), DisciplineCalls: int(calls), Wall: time.Duration(math.Round(wall * 1e9)),
+		}
+		if e.Failure, err = mdo.ParseFailureClass(failure); err != nil {
+			return fmt.Errorf("store: %s: evaluation %d: %v: %w", s.path, id, err, ErrDamaged)
 		}
 		off := 0
 		for _, dst := range []struct {

@@ -1,6 +1,7 @@
 package store
 
 import (
+	"context"
 	"fmt"
 	"strings"
 
@@ -102,7 +103,7 @@ func newLayout(design []mdo.DesignSpec, objectives, constraints []string, output
 	for _, c := range fixedCols {
 		used[c] = true
 	}
-	used["outputs"], used["vectors"] = true, true
+	used["outputs"], used["vectors"], used["failure"] = true, true, true
 	name := func(prefix, n string) string {
 		base := prefix + ":" + sanitize(n)
 		c := base
@@ -127,9 +128,12 @@ func newLayout(design []mdo.DesignSpec, objectives, constraints []string, output
 	return l
 }
 
-// stored returns the columns of evaluation_data, in order.
+// stored returns the columns of evaluation_data, in order. The last,
+// failure, is the failure class of a failed analysis (mdo.FailureClass
+// as text, '' when it converged); stores written before it existed lack
+// the column and read as ''.
 func (l *layout) stored() []string {
-	return append(append([]string(nil), fixedCols...), "numbers", "outputs", "vectors")
+	return append(append([]string(nil), fixedCols...), "numbers", "outputs", "vectors", "failure")
 }
 
 // named returns the per-name columns of the evaluations view, in the
@@ -163,10 +167,11 @@ func (l *layout) createEvaluations() string {
 	wall_seconds REAL NOT NULL,
 	numbers TEXT NOT NULL,
 	outputs TEXT NOT NULL,
-	vectors BLOB NOT NULL
+	vectors BLOB NOT NULL,
+	failure TEXT NOT NULL DEFAULT ''
 );
 CREATE VIEW evaluations AS SELECT d.id AS id, d.feasible AS feasible, d.converged AS converged, d.violation AS violation,
-	d.error AS error, d.iterations AS iterations, d.discipline_calls AS discipline_calls, d.wall_seconds AS wall_seconds`)
+	d.error AS error, d.failure AS failure, d.iterations AS iterations, d.discipline_calls AS discipline_calls, d.wall_seconds AS wall_seconds`)
 	for k, c := range l.named() {
 		fmt.Fprintf(&b, ",\n\tjson_extract(d.numbers, '$[%d]') AS %s", k, quote(c))
 	}
@@ -213,3 +218,33 @@ func sanitize(n string) string {
 
 // quote quotes an SQL identifier.
 func quote(id string) string { return `"` + strings.ReplaceAll(id, `"`, `""`) + `"` }
+
+// failureColumn handles stores written before evaluation_data had its
+// failure column: one opened to continue its run gets the column (every
+// earlier row reads ''), one opened for reading is read without it.
+func (s *Store) failureColumn() error {
+	ctx := context.Background()
+	var n int
+	if err := s.conn.QueryRowContext(ctx, "SELECT count(*) FROM pragma_table_info('evaluation_data') WHERE name = 'failure'").Scan(&n); err != nil {
+		return fmt.Errorf("store: reading the schema of %s: %w", s.path, err)
+	}
+	if n > 0 {
+		return nil
+	}
+	if s.readOnly {
+		s.noFailure = true
+		return nil
+	}
+	if _, err := s.conn.ExecContext(ctx, "ALTER TABLE evaluation_data ADD COLUMN failure TEXT NOT NULL DEFAULT ''"); err != nil {
+		return fmt.Errorf("store: %s: adding the failure column: %w", s.path, err)
+	}
+	return nil
+}
+
+// failureCol is the SELECT expression of the failure class.
+func (s *Store) failureCol() string {
+	if s.noFailure {
+		return "''"
+	}
+	return "failure"
+}

@@ -103,6 +103,9 @@ type Store struct {
 	meta    *RunMeta // the stored run, nil before Begin on a new store
 	lay     *layout
 	session int
+	// noFailure marks a store written before evaluation_data had its
+	// failure column, opened read-only (see failureColumn).
+	noFailure bool
 
 	w         *writer // the background writer, between Begin and End
 	txMu      sync.Mutex
@@ -306,7 +309,7 @@ func (s *Store) loadMeta() error {
 	s.rows = m.Rows
 	s.meta = &m
 	s.lay = lay
-	return nil
+	return s.failureColumn()
 }
 
 // loadLayout rebuilds the layout from the variables table.
