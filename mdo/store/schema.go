@@ -130,8 +130,8 @@ func newLayout(design []mdo.DesignSpec, objectives, constraints []string, output
 
 // stored returns the columns of evaluation_data, in order. The last,
 // failure, is the failure class of a failed analysis (mdo.FailureClass
-// as text, ” when it converged); stores written before it existed lack
-// the column and read as ”.
+// as text, empty when it converged); stores written before it existed lack
+// the column and read as empty.
 func (l *layout) stored() []string {
 	return append(append([]string(nil), fixedCols...), "numbers", "outputs", "vectors", "failure")
 }
@@ -221,7 +221,7 @@ func quote(id string) string { return `"` + strings.ReplaceAll(id, `"`, `""`) + 
 
 // failureColumn handles stores written before evaluation_data had its
 // failure column: one opened to continue its run gets the column (every
-// earlier row reads ”), one opened for reading is read without it.
+// earlier row reads empty), one opened for reading is read without it.
 func (s *Store) failureColumn() error {
 	ctx := context.Background()
 	var n int
