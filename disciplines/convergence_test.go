@@ -97,6 +97,7 @@ type convTally struct {
 	points, converged, notClosing, solverFailed, other int
 	unclassified                                       int
 	iterations                                         int // coupling iterations of converged points
+	calls                                              int // discipline calls of converged points
 	wall                                               time.Duration
 	jumps                                              int
 	reasons                                            map[string]int
@@ -111,6 +112,7 @@ func (t *convTally) add(ev *mdo.Evaluation) {
 	if ev.Converged {
 		t.converged++
 		t.iterations += ev.Iterations
+		t.calls += ev.DisciplineCalls
 		t.wall += ev.Wall
 		return
 	}
@@ -171,35 +173,49 @@ func runCase(ctx context.Context, c convCase, m mdo.Method, workers int) ([]*mdo
 	return ev.Evaluate(ctx, xs)
 }
 
-// branchJumps counts neighbouring grid points (one step of aspect ratio or
-// area apart, both converged) whose take-off masses differ by more than
-// three times the largest such difference among their other neighbours
-// and by more than 10 %: the signature of a jump between solution
-// branches.
+// branchJumps counts the jumps between solution branches on a grid: a
+// pair of neighbouring converged points (one step of aspect ratio or area
+// apart) whose take-off masses differ by more than 5 % and by more than
+// three times the difference of each adjacent pair on the same grid line
+// — a step, where a steep but smooth trend changes by similar amounts
+// from pair to pair.
 func branchJumps(c convCase, evs []*mdo.Evaluation, mto int) int {
 	if c.grid[0] == 0 {
 		return 0
 	}
 	n := c.grid[0]
 	jumps := 0
-	mass := func(s, i, j int) float64 {
-		ev := evs[s*n*n+i*n+j]
-		if !ev.Converged {
-			return math.NaN()
-		}
-		return ev.Outputs[mto]
-	}
 	for s := 0; s < 2; s++ {
-		for i := 0; i < n; i++ {
-			for j := 0; j < n; j++ {
-				a := mass(s, i, j)
-				for _, d := range [][2]int{{0, 1}, {1, 0}} {
-					i2, j2 := i+d[0], j+d[1]
-					if i2 >= n || j2 >= n {
+		for line := 0; line < n; line++ {
+			for _, byRow := range []bool{false, true} {
+				m := make([]float64, n)
+				for k := 0; k < n; k++ {
+					i, j := line, k
+					if byRow {
+						i, j = k, line
+					}
+					ev := evs[s*n*n+i*n+j]
+					m[k] = math.NaN()
+					if ev.Converged {
+						m[k] = ev.Outputs[mto]
+					}
+				}
+				d := func(k int) float64 { // |m[k+1] − m[k]|, NaN outside the line
+					if k < 0 || k+1 >= n {
+						return math.NaN()
+					}
+					return math.Abs(m[k+1] - m[k])
+				}
+				for k := 0; k+1 < n; k++ {
+					dk := d(k)
+					if !(dk > 0.05*math.Min(m[k], m[k+1])) {
 						continue
 					}
-					b := mass(s, i2, j2)
-					if math.Abs(a-b) > 0.1*math.Min(a, b) {
+					prev, next := d(k-1), d(k+1)
+					if math.IsNaN(prev) && math.IsNaN(next) {
+						continue
+					}
+					if !(dk <= 3*prev) && !(dk <= 3*next) {
 						jumps++
 					}
 				}
@@ -213,7 +229,7 @@ func branchJumps(c convCase, evs []*mdo.Evaluation, mto int) int {
 // the tallies per solver.
 func convTable(ctx context.Context, cases []convCase) (string, map[mdo.Method]*convTally, error) {
 	var b strings.Builder
-	fmt.Fprintf(&b, "%-34s %-20s %6s %9s %11s %13s %7s %10s %11s %6s\n", "case", "solver", "points", "converged", "not closing", "solver failed", "other", "mean iter", "mean time", "jumps")
+	fmt.Fprintf(&b, "%-34s %-20s %6s %9s %11s %13s %7s %10s %10s %11s %6s\n", "case", "solver", "points", "converged", "not closing", "solver failed", "other", "mean iter", "mean calls", "mean time", "jumps")
 	total := map[mdo.Method]*convTally{}
 	reasons := map[string]int{}
 	for _, m := range mdo.Methods() {
@@ -238,6 +254,7 @@ func convTable(ctx context.Context, cases []convCase) (string, map[mdo.Method]*c
 			tt.other += t.other
 			tt.unclassified += t.unclassified
 			tt.iterations += t.iterations
+			tt.calls += t.calls
 			tt.wall += t.wall
 			tt.jumps += t.jumps
 			for r, k := range t.reasons {
@@ -263,12 +280,13 @@ func convTable(ctx context.Context, cases []convCase) (string, map[mdo.Method]*c
 // row formats one line of the table.
 func (t *convTally) row(label, solver string) string {
 	share := func(k int) string { return fmt.Sprintf("%.1f%%", 100*float64(k)/float64(t.points)) }
-	iter, wall := 0.0, time.Duration(0)
+	iter, calls, wall := 0.0, 0.0, time.Duration(0)
 	if t.converged > 0 {
 		iter = float64(t.iterations) / float64(t.converged)
+		calls = float64(t.calls) / float64(t.converged)
 		wall = t.wall / time.Duration(t.converged)
 	}
-	return fmt.Sprintf("%-34s %-20s %6d %9s %11s %13s %7s %10.1f %11s %6d\n", label, solver, t.points, share(t.converged), share(t.notClosing), share(t.solverFailed), share(t.other), iter, wall.Round(100*time.Nanosecond), t.jumps)
+	return fmt.Sprintf("%-34s %-20s %6d %9s %11s %13s %7s %10.1f %10.1f %11s %6d\n", label, solver, t.points, share(t.converged), share(t.notClosing), share(t.solverFailed), share(t.other), iter, calls, wall.Round(100*time.Nanosecond), t.jumps)
 }
 
 // TestConvergence runs a small version of the benchmark (3 × 3 grids, 12

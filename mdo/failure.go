@@ -123,12 +123,13 @@ func Classify(err error) FailureClass {
 		return NotFailed
 	}
 	var nc *NotClosingError
+	var be *BranchError
 	var ce *ConvergenceError
 	var re *RangeError
 	var nf *NonFiniteError
 	var de *DisciplineError
 	switch {
-	case errors.As(err, &nc):
+	case errors.As(err, &nc), errors.As(err, &be):
 		return DoesNotClose
 	case errors.As(err, &ce):
 		return SolverFailed

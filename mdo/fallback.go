@@ -12,6 +12,11 @@ type solvePath int
 const (
 	// pathConfigured is each group's configured solver.
 	pathConfigured solvePath = iota
+	// pathPlain is plain nonlinear Gauss–Seidel, no relaxation: the
+	// sizing loop as an engineer iterates it by hand, which runs into the
+	// limit a non-closing balance leaves where extrapolating methods
+	// wander.
+	pathPlain
 	// pathRelaxed is Aitken-relaxed Gauss–Seidel with the relaxation
 	// factor kept in [0.05, 1] (an adaptive under-relaxation), starting
 	// from at most 0.7.
@@ -24,7 +29,7 @@ const (
 	pathContinuation
 )
 
-var pathNames = [...]string{"configured", "fallback: relaxed gauss-seidel", "fallback: newton", "fallback: continuation"}
+var pathNames = [...]string{"configured", "fallback: gauss-seidel", "fallback: relaxed gauss-seidel", "fallback: newton", "fallback: continuation"}
 
 // String names the path.
 func (p solvePath) String() string { return pathNames[p] }
@@ -36,6 +41,9 @@ func (p solvePath) damped() bool { return p == pathRelaxed || p == pathContinuat
 // settings returns the solver settings of a group on this path.
 func (p solvePath) settings(s SolverSettings) SolverSettings {
 	switch p {
+	case pathPlain:
+		s.Method = GaussSeidel
+		s.Relaxation = 1
 	case pathRelaxed, pathContinuation:
 		s.Method = AitkenGaussSeidel
 		s.Relaxation = math.Min(s.Relaxation, 0.7)
@@ -49,25 +57,31 @@ func (p solvePath) settings(s SolverSettings) SolverSettings {
 }
 
 // Path names the solver path that converged the last Analyze: the
-// configured method's name, or the fallback that succeeded
-// ("fallback: relaxed gauss-seidel", "fallback: newton",
-// "fallback: continuation").
+// configured method's name, or the fallback that succeeded; a state on an
+// unstable branch, kept because no path found a stable one, says so
+// ("fallback: gauss-seidel", "fallback: relaxed gauss-seidel",
+// "fallback: newton", "fallback: continuation").
 func (w *Workspace) Path() string {
+	name := w.path.String()
 	if w.path == pathConfigured {
+		name = "direct"
 		for gi, g := range w.sys.groups {
 			if g.coupled {
-				return w.settings[gi].Method.String()
+				name = w.settings[gi].Method.String()
+				break
 			}
 		}
-		return "direct"
 	}
-	return w.path.String()
+	if w.unstable {
+		name += " (unstable branch: no stable state found; see BranchError)"
+	}
+	return name
 }
 
 // fallbackScratch holds the buffers of the fallback chain, allocated the
 // first time a fallback runs.
 type fallbackScratch struct {
-	target, guess, state []float64
+	target, guess, state, unstable []float64
 }
 
 // fallback runs the fallback chain after the configured solver failed
@@ -75,11 +89,13 @@ type fallbackScratch struct {
 // workspace's own guesses (or from the reference state), so the answer
 // depends on the point alone, never on what was analysed before:
 //
-//  1. relaxed Gauss–Seidel: Aitken relaxation kept in [0.05, 1], from
+//  1. plain Gauss–Seidel (skipped when it was the configured solver of
+//     every group);
+//  2. relaxed Gauss–Seidel: Aitken relaxation kept in [0.05, 1], from
 //     a factor of at most 0.7;
-//  2. Newton with a line search (skipped when Newton was the configured
+//  3. Newton with a line search (skipped when Newton was the configured
 //     solver of every group);
-//  3. continuation from the reference state, when one is set
+//  4. continuation from the reference state, when one is set
 //     (SetReference).
 //
 // When the configured solver converged onto a range limit (a balance
@@ -90,10 +106,13 @@ type fallbackScratch struct {
 // balance that runs away (not closing) before a numerical failure.
 func (w *Workspace) fallback(ctx context.Context, first error) error {
 	best := first
-	allNewton, allowed := true, false
+	allNewton, allPlain, allowed := true, true, false
 	for gi, g := range w.sys.groups {
 		if g.coupled && w.settings[gi].Method != Newton {
 			allNewton = false
+		}
+		if g.coupled && (w.settings[gi].Method != GaussSeidel || w.settings[gi].Relaxation != 1) {
+			allPlain = false
 		}
 		if g.coupled && !w.settings[gi].NoFallback {
 			allowed = true
@@ -102,12 +121,39 @@ func (w *Workspace) fallback(ctx context.Context, first error) error {
 	if !allowed {
 		return first
 	}
+	if w.fb == nil {
+		n := len(w.val)
+		w.fb = &fallbackScratch{target: make([]float64, n), guess: make([]float64, n), state: make([]float64, n), unstable: make([]float64, n)}
+	}
+	// the first state rejected as an unstable branch is kept: without a
+	// reference state to march from it is the answer when no path finds
+	// a stable one
+	var held *BranchError
+	var heldPath solvePath
+	hold := func(err error, p solvePath) {
+		var be *BranchError
+		if held == nil && errors.As(err, &be) {
+			held, heldPath = be, p
+			copy(w.fb.unstable, w.val)
+		}
+	}
+	hold(first, pathConfigured)
+	settle := func(best error) error {
+		if held == nil || w.ref != nil {
+			// with a reference state the continuation decided: no
+			// stable state connects to it, and the point does not close
+			return best
+		}
+		copy(w.val, w.fb.unstable)
+		w.path, w.unstable = heldPath, true
+		return nil
+	}
 	// a balance that runs away is physics, not numerics: only the march
 	// from the reference state may still find the branch it connects to
 	var nc *NotClosingError
 	physical := errors.As(first, &nc)
-	for _, p := range []solvePath{pathRelaxed, pathNewton} {
-		if physical || (p == pathNewton && allNewton) {
+	for _, p := range []solvePath{pathPlain, pathRelaxed, pathNewton} {
+		if physical || (p == pathNewton && allNewton) || (p == pathPlain && allPlain) {
 			continue
 		}
 		err := w.analyzeWith(ctx, p)
@@ -118,6 +164,7 @@ func (w *Workspace) fallback(ctx context.Context, first error) error {
 		if ctx.Err() != nil {
 			return err
 		}
+		hold(err, p)
 		best = moreInformative(best, err)
 	}
 	if w.ref != nil {
@@ -129,9 +176,10 @@ func (w *Workspace) fallback(ctx context.Context, first error) error {
 		if ctx.Err() != nil {
 			return err
 		}
+		hold(err, pathContinuation)
 		best = moreInformative(best, err)
 	}
-	return best
+	return settle(best)
 }
 
 // moreInformative returns the error that says more about the design: one
@@ -154,10 +202,6 @@ const continuationSteps = 64
 // reference and target are both whole numbers takes rounded values. The
 // parameters and guesses are restored afterwards.
 func (w *Workspace) continuation(ctx context.Context) error {
-	if w.fb == nil {
-		n := len(w.val)
-		w.fb = &fallbackScratch{target: make([]float64, n), guess: make([]float64, n), state: make([]float64, n)}
-	}
 	fb := w.fb
 	copy(fb.target, w.val)
 	copy(fb.guess, w.guess)
@@ -201,7 +245,7 @@ func (w *Workspace) continuation(ctx context.Context) error {
 			return err
 		}
 		h /= 2
-		if h < 1.0/256 {
+		if h < 1.0/64 {
 			break
 		}
 	}

@@ -39,6 +39,8 @@ type Workspace struct {
 	cur        int       // discipline being computed, for a panic
 	path       solvePath // the path that converged the last analysis
 	ref        []float64 // reference state for continuation, nil if none
+	saved      []float64 // the values, while the branch is checked
+	unstable   bool      // the last analysis ended on an unstable branch
 	nw         *newtonScratch
 	fb         *fallbackScratch
 }
@@ -69,6 +71,7 @@ func (s *System) NewWorkspace() *Workspace {
 			w.reports = append(w.reports, rep)
 		}
 	}
+	w.saved = make([]float64, n)
 	w.y = make([]float64, maxTear)
 	w.gy = make([]float64, maxTear)
 	w.r = make([]float64, maxTear)
@@ -191,7 +194,7 @@ func (w *Workspace) Analyze(ctx context.Context) (err error) {
 			err = w.panicked(r)
 		}
 	}()
-	w.path = pathConfigured
+	w.path, w.unstable = pathConfigured, false
 	err = w.analyzeWith(ctx, pathConfigured)
 	if err == nil || w.onceMode || !w.loopFailed || ctx.Err() != nil {
 		return err
@@ -214,7 +217,12 @@ func (w *Workspace) analyzeWith(ctx context.Context, p solvePath) error {
 			}
 			continue
 		}
-		if err := w.solve(ctx, g, p.settings(w.settings[gi]), p, &w.reports[k]); err != nil {
+		set := p.settings(w.settings[gi])
+		err := w.solve(ctx, g, set, p, &w.reports[k])
+		if err == nil && !w.onceMode {
+			err = w.stableBranch(g, set, p)
+		}
+		if err != nil {
 			if ctx.Err() == nil {
 				w.loopFailed = true
 			}

@@ -63,6 +63,7 @@ func init() {
 		"StopIterations":    reflect.ValueOf(mdo.StopIterations),
 
 		// type definitions
+		"BranchError":       reflect.ValueOf((*mdo.BranchError)(nil)),
 		"ComputeFunc":       reflect.ValueOf((*mdo.ComputeFunc)(nil)),
 		"Constraint":        reflect.ValueOf((*mdo.Constraint)(nil)),
 		"ConstraintKind":    reflect.ValueOf((*mdo.ConstraintKind)(nil)),

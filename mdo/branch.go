@@ -1,0 +1,94 @@
+package mdo
+
+import (
+	"fmt"
+	"math"
+	"strings"
+)
+
+// branchSweeps is the number of Gauss–Seidel sweeps of the stability
+// check; the gain is the ratio of the displacements after the last two.
+const branchSweeps = 3
+
+// A coupled group can have several solutions: a sizing loop typically
+// has a light aircraft, where the mass balance is a contraction, and a
+// heavy "runaway" one, where a little more mass asks for still more. The
+// physical branch — the one connected to a study's reference state, and
+// the only one a designer iterating the loop by hand can reach — is the
+// stable one. Plain Gauss–Seidel converges only to stable fixed points;
+// a state found by any other method is checked: the coupling variables
+// are pushed up by 1e-4 of their scale, branchSweeps Gauss–Seidel sweeps
+// run from there, and the ratio of the last two displacement norms (a
+// power-iteration estimate of the loop's dominant eigenvalue) must stay
+// below 1 unless the displacement flips sign from sweep to sweep (an
+// iteration that oscillates about the state, not one that runs away). A state that fails is held back with a *BranchError while the
+// fallback chain looks for a stable one; when the chain finds none, the
+// unstable state is the answer and Workspace.Path says so (a linear loop
+// of gain above 1, say, has no other solution).
+
+// BranchError reports a coupled group that converged to an unstable
+// fixed point of its Gauss–Seidel loop (a runaway branch), not to the
+// branch of the study's reference state.
+type BranchError struct {
+	Group []string
+	Path  string  // the solver path that found the state
+	Gain  float64 // estimated loop gain (> 1)
+	Var   string  // the coupling variable moving most along the unstable mode
+	Value float64 // its value in the rejected state
+	Unit  string
+}
+
+// Error implements error.
+func (e *BranchError) Error() string {
+	unit := ""
+	if e.Unit != "" && e.Unit != "-" {
+		unit = " " + e.Unit
+	}
+	return fmt.Sprintf("does not close on the branch of the reference state: {%s} reached, by %s, only a runaway state (%s = %.6g%s) where the loop gain is %.3g > 1; remedy: %s",
+		strings.Join(e.Group, ", "), e.Path, e.Var, e.Value, unit, e.Gain, DoesNotClose.Remedy())
+}
+
+// stableBranch checks the converged state of group g (see above) unless
+// plain Gauss–Seidel found it.
+func (w *Workspace) stableBranch(g *group, set SolverSettings, p solvePath) error {
+	if set.Method == GaussSeidel && set.Relaxation == 1 {
+		return nil
+	}
+	nt := len(g.tear)
+	y, d := w.y[:nt], w.gy[:nt]
+	copy(w.saved, w.val)
+	defer copy(w.val, w.saved)
+	for i, v := range g.tear {
+		y[i] = w.val[v]
+	}
+	const eps = 1e-4
+	for i, v := range g.tear {
+		w.val[v] = y[i] + eps*g.scale[i]
+	}
+	prev, gain, worst := eps, 0.0, 0
+	flips := false
+	w.solving = true
+	defer func() { w.solving = false }()
+	for s := 0; s < branchSweeps; s++ {
+		if err := w.sweep(g, false, false); err != nil {
+			return w.loopError(g, err, p)
+		}
+		n, before := 0.0, d[worst]
+		for i, v := range g.tear {
+			d[i] = (w.val[v] - y[i]) / g.scale[i]
+			if a := math.Abs(d[i]); a > n {
+				n, worst = a, i
+			}
+		}
+		flips = s > 0 && d[worst]*before < 0
+		gain, prev = n/prev, n
+	}
+	// a displacement that flips sign from sweep to sweep is an
+	// oscillation of the iteration about the state (a negative
+	// eigenvalue), not a balance that runs away from it
+	if gain < 1 || flips {
+		return nil
+	}
+	spec := w.sys.vars.At(g.tear[worst])
+	return &BranchError{Group: g.names, Path: p.String(), Gain: gain, Var: spec.Name, Value: y[worst], Unit: spec.Unit}
+}
