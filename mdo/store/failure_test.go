@@ -117,8 +117,8 @@ func TestStoreWithoutFailureColumn(t *testing.T) {
 	}
 	r.Close()
 
-	// continuing its run adds the column; new rows carry their class
-	s, err := Resume(path, Options{ToolVersion: "test-1"})
+	// picking up its run adds the column; new rows carry their class
+	s, err := PickUp(path, Options{ToolVersion: "test-1"})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -127,7 +127,7 @@ func TestStoreWithoutFailureColumn(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	ev.Restore(prev)
+	ev.PickUp(prev)
 	if err := ev.Begin("grid", nil); err != nil {
 		t.Fatal(err)
 	}
@@ -138,7 +138,7 @@ func TestStoreWithoutFailureColumn(t *testing.T) {
 		t.Fatal(err)
 	}
 	if got := failures(t, s); len(got) != 3 || got[2] != mdo.DisciplineFailed {
-		t.Errorf("after resuming, failure classes %v, want [none none discipline-failed]", got)
+		t.Errorf("after a pick-up, failure classes %v, want [none none discipline-failed]", got)
 	}
 	s.Close()
 }
