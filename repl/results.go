@@ -189,6 +189,13 @@ func (o *RunOutputs) WriteRun(ctx context.Context, dir, script string, r *mdo.Re
 	})
 }
 
+// storeOf returns the store that recorded the run of r (nil if none).
+func (o *RunOutputs) storeOf(r *mdo.Result) *store.Store {
+	o.mu.Lock()
+	defer o.mu.Unlock()
+	return o.ended[r]
+}
+
 // toolVersion names the program in the files it writes.
 func toolVersion() string { return "couplet " + Version }
 

@@ -79,7 +79,7 @@ func Run(ctx context.Context, opts RunOptions) (*RunRecord, error) {
 		return nil, &UsageError{Err: fmt.Errorf("%s: %w", opts.File, err)}
 	}
 	if opts.PickUp {
-		if err := checkPickUp(opts.OutDir, opts.File, string(text)); err != nil {
+		if err := checkPickUp(opts, string(text)); err != nil {
 			return nil, err
 		}
 	}
@@ -156,6 +156,17 @@ func Run(ctx context.Context, opts RunOptions) (*RunRecord, error) {
 	if _, err := outs.WriteRun(ctx, opts.OutDir, rec.Script, rec.Result); err != nil {
 		return rec, fmt.Errorf("writing the run's output: %w", err)
 	}
+	if r := rec.Result; r.Evaluations > 0 && r.Failed == r.Evaluations {
+		e := &AllFailedError{Study: r.Study, Evaluations: r.Evaluations}
+		if st := outs.storeOf(r); st != nil {
+			if e.Reasons, err = commonestFailures(st, 3); err != nil {
+				return rec, err
+			}
+		} else if r.Best != nil {
+			e.Reasons = []FailureReason{{Example: r.Best.Err}}
+		}
+		return rec, e
+	}
 	return rec, nil
 }
 
@@ -177,12 +188,13 @@ func resultOf(s *Session) *mdo.Result {
 // trimExt drops a file name's extension.
 func trimExt(name string) string { return name[:len(name)-len(filepath.Ext(name))] }
 
-// checkPickUp refuses a pick-up when a case store in dir recorded
-// another script than the study file's text: the whole file is the
-// identity, so any change (a constraint's bound, an optimiser setting)
-// is refused before anything runs, naming the first cell that differs.
-func checkPickUp(dir, file, text string) error {
-	paths, err := filepath.Glob(filepath.Join(dir, "results*.db"))
+// checkPickUp refuses a pick-up when a case store in the output folder
+// recorded another script than the study file's text, or another seed
+// than --seed gives: the whole file is the identity, so any change (a
+// constraint's bound, an optimiser setting) is refused before anything
+// runs, naming the first cell that differs.
+func checkPickUp(opts RunOptions, text string) error {
+	paths, err := filepath.Glob(filepath.Join(opts.OutDir, "results*.db"))
 	if err != nil {
 		return &UsageError{Err: fmt.Errorf("--pick-up: %w", err)}
 	}
@@ -197,7 +209,10 @@ func checkPickUp(dir, file, text string) error {
 			continue
 		}
 		if change := firstChange(meta.Script, text); change != "" {
-			return &UsageError{Err: fmt.Errorf("--pick-up: %s holds a run of another version of %s: %s; picking it up would mix the two. Run the changed study into a new folder, or restore the file", p, file, change)}
+			return &UsageError{Err: fmt.Errorf("--pick-up: %s holds a run of another version of %s: %s; picking it up would mix the two. Run the changed study into a new folder, or restore the file", p, opts.File, change)}
+		}
+		if opts.SeedSet && opts.Seed != meta.Seed {
+			return &UsageError{Err: fmt.Errorf("--pick-up: %s holds a run with seed %d, not --seed %d; picking it up would mix the two. Pick it up with --seed %d, or run into a new folder", p, meta.Seed, opts.Seed, meta.Seed)}
 		}
 	}
 	return nil

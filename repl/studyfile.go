@@ -3,6 +3,8 @@ package repl
 import (
 	"fmt"
 	"os"
+	"regexp"
+	"strconv"
 	"strings"
 )
 
@@ -56,15 +58,16 @@ func (f *StudyFile) Sources() []string {
 
 // ParseStudy parses the text of a study file.
 func ParseStudy(text string) (*StudyFile, error) {
+	// an editor's byte-order mark before the first line is not text
+	text = strings.TrimPrefix(text, "\uFEFF")
 	text = strings.ReplaceAll(text, "\r\n", "\n")
 	lines := strings.Split(text, "\n")
 	f := &StudyFile{}
 	startLine := 1
 	if len(lines) > 0 && strings.HasPrefix(lines[0], HeaderPrefix) {
 		f.Header = lines[0]
-		var v int
-		if _, err := fmt.Sscanf(strings.TrimPrefix(lines[0], HeaderPrefix), "%d", &v); err == nil && v > FormatVersion {
-			return nil, fmt.Errorf("repl: the study file is in format %d, written by a newer couplet; this is couplet %s, which reads format %d", v, Version, FormatVersion)
+		if err := checkHeader(lines[0]); err != nil {
+			return nil, err
 		}
 		lines = lines[1:]
 		startLine = 2
@@ -98,6 +101,24 @@ func ParseStudy(text string) (*StudyFile, error) {
 		return nil, fmt.Errorf("repl: the study file has no code")
 	}
 	return f, nil
+}
+
+// headerRE is the form of a header line: the prefix, the format number
+// and, optionally, the version of the tool that wrote it.
+var headerRE = regexp.MustCompile(`^` + regexp.QuoteMeta(HeaderPrefix) + ` ([1-9][0-9]{0,8})( \(couplet [^()]+\))?[ \t]*$`)
+
+// checkHeader refuses a header line that is garbled or of a format this
+// version cannot read.
+func checkHeader(line string) error {
+	m := headerRE.FindStringSubmatch(line)
+	if m == nil {
+		return fmt.Errorf("repl: the header line %q is garbled: want %q (the format number, then optionally the tool version in parentheses)", line, Header())
+	}
+	v, _ := strconv.Atoi(m[1])
+	if v > FormatVersion {
+		return fmt.Errorf("repl: the study file is in format %d, written by a newer couplet; this is couplet %s, which reads format %d", v, Version, FormatVersion)
+	}
+	return nil
 }
 
 // isMarker reports a cell marker line.

@@ -6,8 +6,13 @@
 //	couplet imports [--trust-script]                      list the importable packages
 //	couplet version
 //
-// Exit status of run: 0 on success, 1 when a cell fails (the message names
-// the file line, the cell and its line), 2 on a usage error.
+// Exit status: 0 on success; 1 when the script fails (a cell fails, the
+// sandbox refuses an import, every evaluation of the published study
+// failed), the time limit is reached with cells not run, or the run ends
+// abnormally; 2 on a usage error only (a bad flag or argument, an output
+// folder that cannot be used or picked up, a study file that cannot be
+// read or whose header is garbled). `couplet help` and --help print the
+// whole usage.
 package main
 
 import (
@@ -19,6 +24,7 @@ import (
 	"os"
 	"os/signal"
 	"path/filepath"
+	"strconv"
 	"strings"
 	"time"
 
@@ -39,20 +45,35 @@ type settings struct {
 	pickUp  bool
 }
 
-// parse parses flags placed before or after the positional arguments.
-func parse(name string, args []string, stderr io.Writer) (*settings, []string, error) {
-	st := &settings{}
+// errHelp is returned by parse when the flags ask for the usage.
+var errHelp = errors.New("help requested")
+
+// flagSet declares the flags shared by the commands.
+func flagSet(name string, st *settings) *flag.FlagSet {
 	fs := flag.NewFlagSet(name, flag.ContinueOnError)
-	fs.SetOutput(stderr)
-	fs.StringVar(&st.out, "out", "", "output folder of the study")
-	fs.StringVar(&st.seed, "seed", "", "seed overriding the one the script declares")
+	fs.StringVar(&st.out, "out", "", "output folder of the study (created; run: required)")
+	fs.StringVar(&st.seed, "seed", "", "seed overriding the one the script declares: a decimal whole number from 0 to 18446744073709551615")
 	fs.DurationVar(&st.timeout, "timeout", 0, "time limit of the whole replay, e.g. 90s or 5m (run only)")
 	fs.BoolVar(&st.trust, strings.TrimPrefix(repl.TrustFlag, "--"), false, "lift the sandbox: the script may use files and processes (trusted scripts only)")
 	fs.BoolVar(&st.quiet, "quiet", false, "do not echo the cells' output (run only)")
-	fs.BoolVar(&st.pickUp, "pick-up", false, "continue the results.db an interrupted run of the same script and seed left in --out (run only)")
+	fs.BoolVar(&st.pickUp, "pick-up", false, "continue the results.db an interrupted run of the same study file and seed left in --out; any change to the file is refused (run only)")
+	return fs
+}
+
+// parse parses flags placed before or after the positional arguments. It
+// returns errHelp for -h or --help; other errors are reported on stderr.
+func parse(name string, args []string, stderr io.Writer) (*settings, []string, error) {
+	st := &settings{}
+	fs := flagSet(name, st)
+	fs.SetOutput(io.Discard)
+	fs.Usage = func() {}
 	var pos []string
 	for {
 		if err := fs.Parse(args); err != nil {
+			if errors.Is(err, flag.ErrHelp) {
+				return nil, nil, errHelp
+			}
+			fmt.Fprintf(stderr, "couplet %s: %v (couplet help lists the flags)\n", name, err)
 			return nil, nil, err
 		}
 		args = fs.Args()
@@ -65,18 +86,22 @@ func parse(name string, args []string, stderr io.Writer) (*settings, []string, e
 	return st, pos, nil
 }
 
-// seedOf parses the --seed flag.
+// seedOf parses the --seed flag: a decimal whole number in its plain
+// form only (no sign, leading zero, space or base prefix), so that a seed
+// reads the same to every reader ("0042" is refused, not read as 34 or
+// 42).
 func (st *settings) seedOf() (uint64, bool, error) {
 	if st.seed == "" {
 		return 0, false, nil
 	}
-	var v uint64
-	if _, err := fmt.Sscan(st.seed, &v); err != nil {
-		return 0, false, fmt.Errorf("--seed %q: want a whole number from 0 to 18446744073709551615", st.seed)
+	v, err := strconv.ParseUint(st.seed, 10, 64)
+	if err != nil || strconv.FormatUint(v, 10) != st.seed {
+		return 0, false, fmt.Errorf("--seed %q: want a decimal whole number from 0 to 18446744073709551615, written without sign, leading zeros or spaces", st.seed)
 	}
 	return v, true, nil
 }
 
+// usage prints the whole usage: commands, flags and exit status.
 func usage(w io.Writer) {
 	fmt.Fprintf(w, `couplet %s — multidisciplinary design optimisation notebook for conceptual aircraft design
 
@@ -85,11 +110,37 @@ usage:
   couplet run FILE.study --out DIR [--seed N] [--timeout D] [%s] [--quiet] [--pick-up]
                                                    replay a saved study headless
   couplet imports [%s]                    list the packages a script may import
-  couplet version
+  couplet version                                  print the version
+  couplet help                                     print this text (also -h, --help)
+
+flags:
+`, repl.Version, repl.TrustFlag, repl.TrustFlag, repl.TrustFlag)
+	fs := flagSet("couplet", &settings{})
+	fs.VisitAll(func(f *flag.Flag) {
+		arg := ""
+		switch f.Name {
+		case "out":
+			arg = " DIR"
+		case "seed":
+			arg = " N"
+		case "timeout":
+			arg = " D"
+		}
+		fmt.Fprintf(w, "  --%-16s %s\n", f.Name+arg, f.Usage)
+	})
+	fmt.Fprint(w, `
+exit status of run:
+  0  the study ran to its end (or was interrupted and returned its best point)
+  1  the script failed: a cell failed, the sandbox refused an import, every
+     evaluation of the published study failed, the time limit stopped the
+     cells, or the run ended abnormally
+  2  a usage error: a bad flag or argument, an output folder that cannot be
+     used or picked up (another version of the study file, another --seed),
+     a study file that cannot be read or whose header is garbled
 
 Results are conceptual-design estimates, not for certification, flight or airworthiness
 decisions; defer to the applicable regulations and licensed engineering practice.
-`, repl.Version, repl.TrustFlag, repl.TrustFlag, repl.TrustFlag)
+`)
 }
 
 // run is main without the exit, for tests.
@@ -105,6 +156,10 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		return replay(args, stdout, stderr)
 	case "imports":
 		st, _, err := parse("imports", args, stderr)
+		if errors.Is(err, errHelp) {
+			usage(stdout)
+			return 0
+		}
 		if err != nil {
 			return 2
 		}
@@ -131,6 +186,10 @@ func isTerminal(w any) bool {
 // replay is `couplet run`.
 func replay(args []string, stdout, stderr io.Writer) int {
 	st, pos, err := parse("run", args, stderr)
+	if errors.Is(err, errHelp) {
+		usage(stdout)
+		return 0
+	}
 	if err != nil {
 		return 2
 	}
@@ -204,6 +263,10 @@ func banner(w io.Writer, trusted bool) {
 // interactive is the notebook session.
 func interactive(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	st, pos, err := parse("couplet", args, stderr)
+	if errors.Is(err, errHelp) {
+		usage(stdout)
+		return 0
+	}
 	if err != nil {
 		return 2
 	}

@@ -266,6 +266,29 @@ func TestRunExitStatus(t *testing.T) {
 	bad := write("bad.study", "//~ cell 1\nx := 2\n//~ cell 2\ny := x + 1\npanic(\"stall\")\n")
 	loop := write("loop.study", "for {\n}\n")
 	evil := write("evil.study", "import \"os/exec\"\nexec.Command(\"true\").Run()\n")
+	bom := write("bom.study", "\uFEFF//~ couplet-study 1 (couplet 0.1.0)\n\n//~ cell 1\nx := 2\n")
+	garbled := write("garbled.study", "//~ couplet-study one (couplet 0.1.0)\n\n//~ cell 1\nx := 2\n")
+	newer := write("newer.study", "//~ couplet-study 7 (couplet 9.0.0)\n\n//~ cell 1\nx := 2\n")
+	// Every analysis of this study fails, for one reason.
+	allFail := write("stalling.study", `import "errors"
+
+stall := mdo.FuncVars("stall",
+	[]mdo.Var{{Name: "a", Default: 0.5, Min: 0, Max: 1}},
+	[]mdo.Var{{Name: "f", Default: 1, Min: -1e9, Max: 1e9}},
+	func(in, out []float64) error { return errors.New("the wing stalls") })
+sys, err := mdo.NewSystem(stall)
+if err != nil {
+	panic(err)
+}
+study := &mdo.Study{Name: "stalling", System: sys, Design: []mdo.DesignVar{mdo.Continuous("a", 0, 1)},
+	Objectives: []mdo.Objective{mdo.Minimize("f")}, Seed: 5, Workers: 1}
+cell.Attach(study)
+result, err := optimizers.RandomDesign{Samples: 6}.Minimize(cell.Context(), study)
+if err != nil {
+	panic(err)
+}
+cell.Publish(result)
+`)
 	tests := []struct {
 		name string
 		args []string
@@ -281,6 +304,15 @@ func TestRunExitStatus(t *testing.T) {
 		{"no file", []string{"run", "--out", dir}, 2, "--out DIR"},
 		{"missing file", []string{"run", filepath.Join(dir, "none.study"), "--out", dir}, 2, "reading the study file"},
 		{"bad seed", []string{"run", good, "--out", dir, "--seed", "-3"}, 2, "--seed"},
+		{"seed with a leading zero", []string{"run", good, "--out", dir, "--seed", "0042"}, 2, `--seed "0042"`},
+		{"seed of two numbers", []string{"run", good, "--out", dir, "--seed", "5 6"}, 2, `--seed "5 6"`},
+		{"seed with a sign", []string{"run", good, "--out", dir, "--seed", "+5"}, 2, `--seed "+5"`},
+		{"seed too large", []string{"run", good, "--out", dir, "--seed", "18446744073709551616"}, 2, "--seed"},
+		{"largest seed", []string{"run", good, "--out", filepath.Join(dir, "o6"), "--seed", "18446744073709551615"}, 0, "wrote"},
+		{"byte-order mark", []string{"run", bom, "--out", filepath.Join(dir, "o7")}, 0, "wrote"},
+		{"garbled header", []string{"run", garbled, "--out", filepath.Join(dir, "o8")}, 2, `header line "//~ couplet-study one (couplet 0.1.0)"`},
+		{"newer format", []string{"run", newer, "--out", filepath.Join(dir, "o9")}, 2, "format 7"},
+		{"every evaluation failed", []string{"run", allFail, "--out", filepath.Join(dir, "o10")}, 1, "every one of its 6 evaluations failed; the commonest reasons:\n  6 × mdo: discipline stall: the wing stalls"},
 		{"bad flag", []string{"run", good, "--out", dir, "--bogus"}, 2, "bogus"},
 		{"unknown command", []string{"fly"}, 2, "unknown command"},
 	}
@@ -303,6 +335,26 @@ func TestRunExitStatus(t *testing.T) {
 	}
 	if sum["study"] != "good" || sum["cells"] != 2.0 {
 		t.Errorf("summary %s", b)
+	}
+}
+
+// Every way of asking for help prints the whole usage, every flag
+// included, on standard output and exits 0.
+func TestHelp(t *testing.T) {
+	code, want, errs := runCmd("help")
+	if code != 0 || errs != "" {
+		t.Fatalf("couplet help: exit %d, stderr %q", code, errs)
+	}
+	for _, w := range []string{"couplet run FILE.study --out DIR", "--out DIR", "--seed N", "--timeout D", "--trust-script", "--quiet", "--pick-up", "exit status", "airworthiness"} {
+		if !strings.Contains(want, w) {
+			t.Errorf("the usage lacks %q:\n%s", w, want)
+		}
+	}
+	for _, args := range [][]string{{"--help"}, {"-h"}, {"-help"}, {"run", "--help"}, {"run", "x.study", "--out", "d", "--help"}, {"imports", "--help"}} {
+		code, out, errs := runCmd(args...)
+		if code != 0 || out != want || errs != "" {
+			t.Errorf("couplet %s: exit %d, stderr %q, output the same as couplet help: %v", strings.Join(args, " "), code, errs, out == want)
+		}
 	}
 }
 

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"database/sql"
 	"encoding/json"
+	"errors"
 	"os"
 	"os/exec"
 	"path/filepath"
@@ -148,8 +149,10 @@ func TestRunKilledAndPickedUp(t *testing.T) {
 	var errOut bytes.Buffer
 	other := exec.Command(binary, "run", study, "--out", dir, "--pick-up", "--trust-script", "--seed", "12")
 	other.Stderr = &errOut
-	if err := other.Run(); err == nil {
-		t.Fatal("pick-up with another seed accepted")
+	err := other.Run()
+	var ee *exec.ExitError
+	if !errors.As(err, &ee) || ee.ExitCode() != 2 {
+		t.Fatalf("pick-up with another seed: %v, want exit status 2", err)
 	}
 	if !bytes.Contains(errOut.Bytes(), []byte("seed")) {
 		t.Errorf("refusal does not name the seed: %s", errOut.String())
