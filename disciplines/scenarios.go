@@ -159,7 +159,7 @@ func Kestrel() Scenario {
 		Config:      AircraftConfig{Geometry: SubsonicGeometryOptions(), Aero: DefaultAeroOptions()},
 		Parameters: map[string]float64{
 			"wing.area": 84, "wing.aspect_ratio": 9, "wing.taper": 0.3, "wing.sweep": 25,
-			"wing.thickness_ratio": 0.12, "wing.position": 0.34,
+			"wing.thickness_ratio": 0.12, "wing.position": 0.33,
 			"htail.volume": 0.8, "vtail.volume": 0.08,
 			"cabin.passengers": 76, "cabin.seats_abreast": 4, "cabin.aisles": 1, "cabin.seat_pitch": 0.79,
 			"fuselage.nose_fineness": 1.6, "fuselage.tail_fineness": 2.8,

@@ -39,10 +39,10 @@ type RunOutputs struct {
 }
 
 // DefaultFigures are the further figures of a run folder when none are
-// given: the aircraft drawings, which a study without aircraft geometry
-// does not get.
+// given: the aircraft drawings and the designer's checklist (report
+// notes), which a study without aircraft geometry does not get.
 func DefaultFigures() []report.FigureSource {
-	return []report.FigureSource{drawings.Figures}
+	return []report.FigureSource{drawings.Figures, drawings.Checklist}
 }
 
 // NewRunOutputs returns the outputs of a run into dir.
