@@ -105,7 +105,7 @@ func TestScenarioPlausibility(t *testing.T) {
 		origin string
 	}
 	get := func(w *mdo.Workspace, n string) float64 {
-		v, err := w.Get(n)
+		v, err := w.Lookup(n)
 		if err != nil {
 			t.Fatal(err)
 		}

@@ -29,8 +29,8 @@ func ExampleNewAircraft() {
 	}
 	dsm := sys.DSM()
 	fmt.Print(dsm[:strings.Index(dsm, "couplings")])
-	mto, _ := w.Get("mass.takeoff")
-	ld, _ := w.Get("aero.ld_cruise")
+	mto, _ := w.Lookup("mass.takeoff")
+	ld, _ := w.Lookup("aero.ld_cruise")
 	fmt.Printf("converged: %v, take-off mass about %.0f t, cruise L/D about %.0f\n", w.Reports()[0].Converged, mto/1000, ld)
 	// Output:
 	// design structure matrix: 12 disciplines, 8 groups (row feeds column)
@@ -66,8 +66,8 @@ func ExampleScenario_Workspace() {
 		fmt.Println(err)
 		return
 	}
-	seats, _ := w.Get("cabin.passengers")
-	fl, _ := w.Get("fuselage.length")
+	seats, _ := w.Lookup("cabin.passengers")
+	fl, _ := w.Lookup("fuselage.length")
 	fmt.Printf("%.0f seats, fuselage %.1f m, converged: %v\n", seats, fl, w.Reports()[0].Converged)
 	// Output:
 	// 76 seats, fuselage 31.3 m, converged: true

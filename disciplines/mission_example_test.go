@@ -79,7 +79,7 @@ func ExampleNewMission() {
 		return
 	}
 	for _, n := range []string{"mass.fuel", "perf.range_full_fuel", "perf.takeoff_field_length", "perf.landing_field_length", "perf.v2"} {
-		v, _ := ws.Get(n)
+		v, _ := ws.Lookup(n)
 		fmt.Printf("%-26s %.4g\n", n, v)
 	}
 	// Output:

@@ -54,8 +54,8 @@ func ExampleNewPropulsion() {
 		fmt.Println(err)
 		return
 	}
-	t, _ := ws.Get("engine.thrust_sea_level")
-	kase, _ := ws.Get("engine.sizing_case")
+	t, _ := ws.Lookup("engine.thrust_sea_level")
+	kase, _ := ws.Lookup("engine.sizing_case")
 	fmt.Printf("SLS thrust per engine %.1f kN, sized by case %.0f\n", t/1000, kase)
 	// Output:
 	// SLS thrust per engine 88.2 kN, sized by case 3

@@ -246,7 +246,7 @@ func propulsionSystem(t *testing.T, set map[string]float64) *mdo.Workspace {
 
 func get(t *testing.T, ws *mdo.Workspace, name string) float64 {
 	t.Helper()
-	v, err := ws.Get(name)
+	v, err := ws.Lookup(name)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -127,7 +127,7 @@ func sizingAny(float64) bool           { return true }
 
 // NewSizingDiagram builds the sizing diagram of a converged aircraft
 // analysis from its variable values (get returns a variable's value and
-// whether the analysis has it; mdo.Values.Lookup or a Solution's Get
+// whether the analysis has it; mdo.Values.Lookup or a Solution's Lookup
 // adapt to it). The error names a missing or unusable variable.
 func NewSizingDiagram(get func(name string) (float64, bool), lim SizingLimits) (SizingDiagram, error) {
 	if get == nil {

@@ -22,7 +22,7 @@ func ExampleNewSizingDiagram() {
 		return
 	}
 	get := func(name string) (float64, bool) {
-		x, err := w.Get(name)
+		x, err := w.Lookup(name)
 		return x, err == nil
 	}
 	d, err := disciplines.NewSizingDiagram(get, disciplines.SizingLimits{TakeoffFieldLength: 2400, LandingFieldLength: 1950})

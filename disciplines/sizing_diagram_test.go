@@ -43,7 +43,7 @@ func (c sizingCase) analyse(t *testing.T) func(string) (float64, bool) {
 		t.Fatalf("%s: %v", c.name, err)
 	}
 	return func(name string) (float64, bool) {
-		x, err := w.Get(name)
+		x, err := w.Lookup(name)
 		return x, err == nil
 	}
 }

@@ -46,23 +46,20 @@ func (w *Workspace) Snapshot() *Solution {
 	return sol
 }
 
-// Get returns a variable's value.
-func (s *Solution) Get(name string) (float64, error) {
+// Get returns a variable's value. It panics with Lookup's error (an
+// *UnknownVariableError) when the solution has no variable of that name
+// (see Values for the convention).
+func (s *Solution) Get(name string) float64 { return mustValue(s.Lookup(name)) }
+
+// Lookup returns a variable's value, or an error naming it when the
+// solution has no variable of that name.
+func (s *Solution) Lookup(name string) (float64, error) {
 	for i, v := range s.vars {
 		if v.Name == name {
 			return s.values[i], nil
 		}
 	}
-	return 0, fmt.Errorf("mdo: the solution has no variable %q", name)
-}
-
-// Value returns a variable's value, or NaN when there is none of that name.
-func (s *Solution) Value(name string) float64 {
-	x, err := s.Get(name)
-	if err != nil {
-		return nan()
-	}
-	return x
+	return 0, unknownIn("the solution", name, s.vars)
 }
 
 // Converged reports whether every coupled group converged.

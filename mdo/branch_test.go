@@ -35,7 +35,7 @@ func TestRunawayBranchRejected(t *testing.T) {
 		if err := w.Analyze(context.Background()); err != nil {
 			t.Fatalf("%s: %v", m, err)
 		}
-		if y, _ := w.Get("y1"); math.Abs(y-stable) > 1e-8 {
+		if y, _ := w.Lookup("y1"); math.Abs(y-stable) > 1e-8 {
 			t.Errorf("%s: y1 = %.10g (path %s), want the stable branch %.10g", m, y, w.Path(), stable)
 		}
 	}

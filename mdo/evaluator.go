@@ -2,6 +2,7 @@ package mdo
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"math"
 	"runtime"
@@ -377,7 +378,10 @@ func (e *Evaluator) physicalKey(x []float64) []float64 {
 // Evaluate answers a batch of unit-box points, in order. Points seen
 // before come from the cache; the others are analysed in parallel. When
 // ctx is cancelled the points not yet analysed are nil in the result and
-// the context's error is returned.
+// the context's error is returned. When an objective or constraint
+// function reads a variable the system does not have, its points are nil
+// and the error (wrapping an *UnknownVariableError) names the function
+// and the variable.
 func (e *Evaluator) Evaluate(ctx context.Context, xs [][]float64) ([]*Evaluation, error) {
 	out := make([]*Evaluation, len(xs))
 	fresh := make([]*Evaluation, len(xs))
@@ -409,6 +413,7 @@ func (e *Evaluator) Evaluate(ctx context.Context, xs [][]float64) ([]*Evaluation
 		todo = append(todo, i)
 	}
 	cancelled := e.runPool(ctx, todo, fresh)
+	var misnamed error
 	for i := range xs {
 		switch {
 		case out[i] != nil:
@@ -420,6 +425,11 @@ func (e *Evaluator) Evaluate(ctx context.Context, xs [][]float64) ([]*Evaluation
 			}
 		case cancelled[i]:
 			// left nil
+		case fresh[i].misnamed != nil:
+			// left nil: the study is at fault, not the point
+			if misnamed == nil {
+				misnamed = fresh[i].misnamed
+			}
 		default:
 			e.accept(fresh[i])
 			out[i] = fresh[i]
@@ -427,6 +437,9 @@ func (e *Evaluator) Evaluate(ctx context.Context, xs [][]float64) ([]*Evaluation
 	}
 	if err := ctx.Err(); err != nil {
 		return out, err
+	}
+	if misnamed != nil {
+		return out, misnamed
 	}
 	return out, e.recErr
 }
@@ -536,9 +549,11 @@ func (e *Evaluator) analyse(ctx context.Context, w int, ev *Evaluation) (ok bool
 	ev.Path = ws.Path()
 	ev.Outputs = append([]float64(nil), ws.val...)
 	vals := Values{sys: e.sys, val: ws.val}
-	if reason := e.score(vals, ws, w, ev); reason != "" {
+	reason, misnamed := e.score(vals, ws, w, ev)
+	if reason != "" {
 		ev.failed(reason)
 	}
+	ev.misnamed = misnamed
 	return true
 }
 
@@ -567,12 +582,19 @@ func (e *Evaluator) setReference() {
 	}
 }
 
-// score computes objectives and constraints; a non-empty return is the
-// reason the point cannot be scored.
-func (e *Evaluator) score(vals Values, ws *Workspace, w int, ev *Evaluation) (reason string) {
+// score computes objectives and constraints; a non-empty reason is why
+// the point cannot be scored. misnamed is an objective or constraint
+// function's read of a variable the system does not have (Values.Get
+// panics with it): an error of the study, not of the point.
+func (e *Evaluator) score(vals Values, ws *Workspace, w int, ev *Evaluation) (reason string, misnamed error) {
+	what := "scoring"
 	defer func() {
 		if r := recover(); r != nil {
-			reason = fmt.Sprintf("objective or constraint function panicked: %v", r)
+			var unknown *UnknownVariableError
+			if err, ok := r.(error); ok && errors.As(err, &unknown) {
+				misnamed = fmt.Errorf("mdo: study %q: %s: %w", e.study.Name, what, err)
+			}
+			reason = fmt.Sprintf("%s panicked: %v", what, r)
 		}
 	}()
 	for k, idx := range e.objIdx {
@@ -581,10 +603,11 @@ func (e *Evaluator) score(vals Values, ws *Workspace, w int, ev *Evaluation) (re
 		if idx >= 0 {
 			f = vals.val[idx]
 		} else {
+			what = "objective " + o.Name
 			f = o.Func(vals)
 		}
 		if math.IsNaN(f) || math.IsInf(f, 0) {
-			return fmt.Sprintf("objective %s = %g", o.Name, f)
+			return fmt.Sprintf("objective %s = %g", o.Name, f), nil
 		}
 		ev.Objectives[k] = f
 		ev.F[k] = o.sense() * f
@@ -599,12 +622,13 @@ func (e *Evaluator) score(vals Values, ws *Workspace, w int, ev *Evaluation) (re
 		case idx >= 0:
 			g = vals.val[idx]
 		case idx == -1:
+			what = "constraint " + c.Name
 			g = c.Func(vals)
 		default:
 			g = e.resid[w][k-e.nUserCons]
 		}
 		if math.IsNaN(g) {
-			return fmt.Sprintf("constraint %s is NaN", c.Name)
+			return fmt.Sprintf("constraint %s is NaN", c.Name), nil
 		}
 		m := c.Margin(g)
 		ev.Constraints[k] = g
@@ -616,7 +640,7 @@ func (e *Evaluator) score(vals Values, ws *Workspace, w int, ev *Evaluation) (re
 	}
 	ev.Violation = viol
 	ev.Feasible = viol == 0
-	return ""
+	return "", nil
 }
 
 // answerCached accounts for a point answered from the cache: the first

@@ -19,7 +19,7 @@ func ExampleSystem_Analyze() {
 		fmt.Println(err)
 		return
 	}
-	fmt.Printf("y1 = %.4f, y2 = %.4f, f = %.4f\n", sol.Value("y1"), sol.Value("y2"), sol.Value("f"))
+	fmt.Printf("y1 = %.4f, y2 = %.4f, f = %.4f\n", sol.Get("y1"), sol.Get("y2"), sol.Get("f"))
 	// Output: y1 = 3.1600, y2 = 3.7553, f = 3.1834
 }
 
@@ -44,7 +44,7 @@ func ExampleFunc() {
 		fmt.Println(err)
 		return
 	}
-	fmt.Printf("cl = %.6f\n", sol.Value("cl"))
+	fmt.Printf("cl = %.6f\n", sol.Get("cl"))
 	// Output:
 	// system: 2 disciplines, 3 variables, 1 parameters
 	//   A: {lift, weight} (coupled, aitken-gauss-seidel)
@@ -61,4 +61,25 @@ func ExampleStopReason() {
 	// Output:
 	// budget true
 	// true <nil>
+}
+
+// Get reads a value for an expression; Lookup gives an error naming a
+// misspelt variable (Get panics with it), never a silent NaN or 0.
+func ExampleSolution_Lookup() {
+	sys, err := mdo.NewSystem(mdo.Sellar()...)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	sol, err := sys.Analyze(context.Background(), map[string]float64{"x": 1, "z1": 5, "z2": 2})
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Printf("y1 + y2 = %.4f\n", sol.Get("y1")+sol.Get("y2"))
+	_, err = sol.Lookup("y3")
+	fmt.Println(err)
+	// Output:
+	// y1 + y2 = 37.6468
+	// mdo: the solution has no variable "y3"
 }

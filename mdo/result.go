@@ -134,8 +134,15 @@ func (r *Result) Objective() float64 {
 // Feasible reports whether the best point satisfies every constraint.
 func (r *Result) Feasible() bool { return r.Best != nil && r.Best.Feasible }
 
-// Output returns the best point's value of a system variable.
-func (r *Result) Output(name string) (float64, error) {
+// Get returns the best point's value of a system variable (design
+// variables included). It panics with Lookup's error when the result has
+// no best point or no variable of that name (see Values for the
+// convention).
+func (r *Result) Get(name string) float64 { return mustValue(r.Lookup(name)) }
+
+// Lookup returns the best point's value of a system variable, or an error
+// when the result has no best point or no variable of that name.
+func (r *Result) Lookup(name string) (float64, error) {
 	if r.Best == nil {
 		return 0, fmt.Errorf("mdo: study %q has no best point", r.Study)
 	}
@@ -144,7 +151,7 @@ func (r *Result) Output(name string) (float64, error) {
 			return r.Best.Outputs[i], nil
 		}
 	}
-	return 0, fmt.Errorf("mdo: study %q recorded no output %q", r.Study, name)
+	return 0, unknownIn(fmt.Sprintf("the result of study %q", r.Study), name, r.Outputs)
 }
 
 // Active returns the names of the constraints whose scaled margin at the

@@ -4,7 +4,6 @@ import (
 	"fmt"
 	"math"
 	"sort"
-	"strings"
 
 	"gonum.org/v1/gonum/graph/simple"
 	"gonum.org/v1/gonum/graph/topo"
@@ -285,16 +284,7 @@ func (s *System) Var(name string) (Var, error) {
 
 // unknown is the error for a name the system does not have.
 func (s *System) unknown(name string) error {
-	near := s.vars.Match(strings.SplitN(name, ".", 2)[0])
-	hint := ""
-	if len(near) > 0 && len(near) <= 12 {
-		names := make([]string, len(near))
-		for i, v := range near {
-			names[i] = v.Name
-		}
-		hint = "; similar: " + strings.Join(names, ", ")
-	}
-	return fmt.Errorf("mdo: the system has no variable %q%s", name, hint)
+	return unknownIn("the system", name, s.vars.All())
 }
 
 // Disciplines returns the disciplines in declared order.

@@ -162,8 +162,8 @@ func TestSellarMDAAllSolvers(t *testing.T) {
 			if err != nil {
 				t.Fatalf("%s from %v: %v", m, g, err)
 			}
-			y1, _ := w.Get("y1")
-			y2, _ := w.Get("y2")
+			y1, _ := w.Lookup("y1")
+			y2, _ := w.Lookup("y2")
 			if first {
 				ref = [2]float64{y1, y2}
 				first = false
@@ -245,8 +245,8 @@ func TestFallbackSolvesDivergentCoupling(t *testing.T) {
 		if err := w.Analyze(context.Background()); err != nil {
 			t.Fatalf("%s: %v", m, err)
 		}
-		y1, _ := w.Get("y1")
-		y2, _ := w.Get("y2")
+		y1, _ := w.Lookup("y1")
+		y2, _ := w.Lookup("y2")
 		if math.Abs(y1+1.0/3) > 1e-9 || math.Abs(y2+2.0/3) > 1e-9 {
 			t.Errorf("%s: y1 = %g, y2 = %g, want −1/3, −2/3", m, y1, y2)
 		}
@@ -375,7 +375,7 @@ func TestOutOfRangeInput(t *testing.T) {
 	if err := w.Analyze(context.Background()); err != nil {
 		t.Fatal(err)
 	}
-	if y1, _ := w.Get("y1"); math.Abs(y1) > 1e-9 {
+	if y1, _ := w.Lookup("y1"); math.Abs(y1) > 1e-9 {
 		t.Errorf("y1 = %g, want 0", y1)
 	}
 }
@@ -443,8 +443,8 @@ func TestWorkspacesIndependent(t *testing.T) {
 	if err := b.Analyze(ctx); err != nil {
 		t.Fatal(err)
 	}
-	ya, _ := a.Get("y1")
-	yb, _ := b.Get("y1")
+	ya, _ := a.Lookup("y1")
+	yb, _ := b.Lookup("y1")
 	if ya == yb {
 		t.Errorf("workspaces share state: y1 = %g in both", ya)
 	}
@@ -458,13 +458,13 @@ func TestSolutionSnapshot(t *testing.T) {
 	}
 	// Sellar at the usual start x = 1, z = (5, 2): y1 = 25.5883, y2 =
 	// 12.0585 (from memory; common value in MDO tutorials), f = 28.5883.
-	if y1 := sol.Value("y1"); math.Abs(y1-25.5883) > 1e-3 {
+	if y1 := sol.Get("y1"); math.Abs(y1-25.5883) > 1e-3 {
 		t.Errorf("y1 = %g, want 25.5883", y1)
 	}
 	if !sol.Converged() || !strings.Contains(sol.String(), "y2") {
 		t.Errorf("solution:\n%s", sol)
 	}
-	if _, err := sol.Get("nope"); err == nil {
+	if _, err := sol.Lookup("nope"); err == nil {
 		t.Error("unknown name accepted")
 	}
 }

@@ -1,9 +1,26 @@
 package mdo
 
-import "math"
+import (
+	"fmt"
+	"sort"
+	"strings"
+)
 
 // Values gives read access, by name, to the variables of one analysis. It
 // is what objective and constraint functions receive.
+//
+// Every type that holds variable values (Values, Solution, Workspace,
+// Result) reads them the same way, and a misspelt name is never a silent
+// NaN or 0:
+//
+//   - Get(name) float64 returns the value and panics with an error
+//     wrapping an *UnknownVariableError, which names the variable and
+//     similar ones, when there is no such variable. It is the form for
+//     expressions in objective and constraint functions (the Evaluator
+//     then stops the run with an error naming the function and the
+//     variable) and in scripts (the session reports the cell and line).
+//   - Lookup(name) (float64, error) returns that error instead.
+//   - At(i) float64 reads by index (see System.Index), for loops.
 type Values struct {
 	sys *System
 	val []float64
@@ -12,18 +29,12 @@ type Values struct {
 // NewValues wraps a value slice indexed like sys.Vars().
 func NewValues(sys *System, val []float64) Values { return Values{sys: sys, val: val} }
 
-// Get returns the value of a variable, or NaN if the system has no
-// variable of that name (an objective returning NaN makes the point
-// infeasible with a reason, so a misspelt name cannot pass unnoticed).
-func (v Values) Get(name string) float64 {
-	i := v.sys.Index(name)
-	if i < 0 {
-		return math.NaN()
-	}
-	return v.val[i]
-}
+// Get returns the value of a variable. It panics with Lookup's error (an
+// *UnknownVariableError) when the system has no variable of that name.
+func (v Values) Get(name string) float64 { return mustValue(v.Lookup(name)) }
 
-// Lookup returns the value of a variable or an error naming it.
+// Lookup returns the value of a variable, or an error naming it when the
+// system has no variable of that name.
 func (v Values) Lookup(name string) (float64, error) {
 	i := v.sys.Index(name)
 	if i < 0 {
@@ -38,5 +49,48 @@ func (v Values) At(i int) float64 { return v.val[i] }
 // Len returns the number of variables.
 func (v Values) Len() int { return len(v.val) }
 
-// nan returns a quiet NaN.
-func nan() float64 { return math.NaN() }
+// UnknownVariableError is the error of a variable name that the system,
+// solution or result does not have.
+type UnknownVariableError struct {
+	// Name is the name asked for.
+	Name string
+	// Where says what was asked: "the system", "the solution", ...
+	Where string
+	// Similar lists names that share the first dotted part of Name (at
+	// most 12; none when there are more).
+	Similar []string
+}
+
+// Error implements error.
+func (e *UnknownVariableError) Error() string {
+	hint := ""
+	if len(e.Similar) > 0 {
+		hint = "; similar: " + strings.Join(e.Similar, ", ")
+	}
+	return fmt.Sprintf("mdo: %s has no variable %q%s", e.Where, e.Name, hint)
+}
+
+// unknownIn is the error of a name missing from vars, described as where;
+// the similar names are those that start like the name's first dotted part.
+func unknownIn(where, name string, vars []Var) error {
+	prefix := strings.SplitN(name, ".", 2)[0]
+	var near []string
+	for _, v := range vars {
+		if strings.HasPrefix(v.Name, prefix) {
+			near = append(near, v.Name)
+		}
+	}
+	if len(near) > 12 {
+		near = nil
+	}
+	sort.Strings(near)
+	return &UnknownVariableError{Name: name, Where: where, Similar: near}
+}
+
+// mustValue returns x, or panics with err.
+func mustValue(x float64, err error) float64 {
+	if err != nil {
+		panic(err)
+	}
+	return x
+}

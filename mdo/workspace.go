@@ -131,8 +131,14 @@ func (w *Workspace) SetGuess(name string, v float64) error {
 // SetGuessIndex sets the initial guess of variable i without checks.
 func (w *Workspace) SetGuessIndex(i int, v float64) { w.guess[i] = v }
 
-// Get returns a variable's current value.
-func (w *Workspace) Get(name string) (float64, error) {
+// Get returns a variable's current value. It panics with Lookup's error
+// (an *UnknownVariableError) when the system has no variable of that name
+// (see Values for the convention).
+func (w *Workspace) Get(name string) float64 { return mustValue(w.Lookup(name)) }
+
+// Lookup returns a variable's current value, or an error naming it when
+// the system has no variable of that name.
+func (w *Workspace) Lookup(name string) (float64, error) {
 	i := w.sys.Index(name)
 	if i < 0 {
 		return 0, w.sys.unknown(name)
@@ -140,8 +146,8 @@ func (w *Workspace) Get(name string) (float64, error) {
 	return w.val[i], nil
 }
 
-// Value returns the current value of variable i.
-func (w *Workspace) Value(i int) float64 { return w.val[i] }
+// At returns the current value of variable i (see System.Index).
+func (w *Workspace) At(i int) float64 { return w.val[i] }
 
 // Values returns the workspace's value slice, indexed like System.Vars.
 // It is a view: do not modify it, copy it to keep it.

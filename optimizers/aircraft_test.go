@@ -130,7 +130,7 @@ func TestForwardSweptBusinessJet(t *testing.T) {
 		t.Fatal(err)
 	}
 	checkFeasibleWithActive(t, res)
-	if m, err := res.Output("stability.divergence_margin"); err != nil || m < 0 {
+	if m, err := res.Lookup("stability.divergence_margin"); err != nil || m < 0 {
 		t.Errorf("divergence margin %g (%v), want >= 0", m, err)
 	}
 }

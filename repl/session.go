@@ -391,6 +391,9 @@ func (s *Session) cellError(c *Cell, ch chunk, err error, trace string) error {
 		msg = msg[len(m[0]):]
 	}
 	msg = cleanMessage(msg)
+	if lines := strings.Split(ch.src, "\n"); line-ch.line >= 0 && line-ch.line < len(lines) {
+		msg += renamedHint(msg, lines[line-ch.line])
+	}
 	return &CellError{Cell: c.Number, Line: line, Kind: "compile", Msg: msg, Err: err}
 }
 

@@ -133,9 +133,9 @@ sol, err := sys.Analyze(context.Background(), map[string]float64{"x": 1, "z1": 5
 	_ = input
 	cells := []string{
 		"import (\n\t\"fmt\"\n\t\"context\"\n\t\"couplet/mdo\"\n)\nsys, err := mdo.NewSystem(mdo.Sellar()...)\nerr == nil",
-		"sol, err := sys.Analyze(context.Background(), map[string]float64{\"x\": 1, \"z1\": 5, \"z2\": 2})\nif err != nil {\n\tpanic(err)\n}\nfmt.Printf(\"f = %.6f\\n\", sol.Value(\"f\"))",
+		"sol, err := sys.Analyze(context.Background(), map[string]float64{\"x\": 1, \"z1\": 5, \"z2\": 2})\nif err != nil {\n\tpanic(err)\n}\nfmt.Printf(\"f = %.6f\\n\", sol.Get(\"f\"))",
 		"undefinedName + 1", // fails: not saved
-		"func double(v float64) float64 { return 2 * v }\ndouble(sol.Value(\"y1\"))",
+		"func double(v float64) float64 { return 2 * v }\ndouble(sol.Get(\"y1\"))",
 		"sol.Table(\"y\")",
 	}
 	for _, c := range cells {

@@ -32,7 +32,7 @@ func Figures(ctx context.Context, r *mdo.Result, st *mdo.Study) (figs []*plot.Fi
 		return nil, nil
 	}
 	get := func(name string) (float64, bool) {
-		x, err := r.Output(name)
+		x, err := r.Lookup(name)
 		return x, err == nil && !math.IsNaN(x) && !math.IsInf(x, 0)
 	}
 	for _, name := range aircraftGeometry {

@@ -67,11 +67,11 @@ func TestAircraftFiguresOfBestDesign(t *testing.T) {
 		t.Fatal(err)
 	}
 	for _, name := range []string{"mass.takeoff", "mass.fuel", "engine.thrust_sea_level", "perf.landing_field_length", "wing.span"} {
-		want, err := r.Output(name)
+		want, err := r.Lookup(name)
 		if err != nil {
 			t.Fatal(err)
 		}
-		if got := sol.Value(name); math.Abs(got-want) > 1e-8*math.Abs(want) {
+		if got := sol.Get(name); math.Abs(got-want) > 1e-8*math.Abs(want) {
 			t.Errorf("re-analysed %s = %g, recorded %g", name, got, want)
 		}
 	}
@@ -79,7 +79,7 @@ func TestAircraftFiguresOfBestDesign(t *testing.T) {
 		t.Errorf("re-analysis reports %v: want a converged coupled group with its history", sol.Reports)
 	}
 
-	get := func(name string) (float64, bool) { x, err := r.Output(name); return x, err == nil }
+	get := func(name string) (float64, bool) { x, err := r.Lookup(name); return x, err == nil }
 	a := aircraftOf(get, geometryOptions(st.System))
 	// trapezoidal areas b·(c_r + c_t)/2 of the drawn surfaces against the
 	// analysed ones (the fin is one side: height·(c_r + c_t)/2)
@@ -139,7 +139,7 @@ func TestSizingLimitsFromStudy(t *testing.T) {
 	own := map[string]float64{"perf.takeoff_field_length": 2211, "perf.landing_field_length": 1820}
 	outs := []mdo.Var{{Name: "perf.takeoff_field_length"}, {Name: "perf.landing_field_length"}}
 	r := &mdo.Result{Outputs: outs, Best: &mdo.Evaluation{Outputs: []float64{own["perf.takeoff_field_length"], own["perf.landing_field_length"]}}}
-	get := func(name string) (float64, bool) { x, err := r.Output(name); return x, err == nil }
+	get := func(name string) (float64, bool) { x, err := r.Lookup(name); return x, err == nil }
 	scripted := mdo.AtMost("perf.takeoff_field_length", 1000).WithFunc(func(mdo.Values) float64 { return 0 })
 	tests := []struct {
 		name                string

@@ -197,7 +197,7 @@ func TestRecordAndReload(t *testing.T) {
 	if err := db.QueryRow(`SELECT json_extract(outputs, '$."y1"') FROM evaluations WHERE id = ?`, bestID).Scan(&y1); err != nil {
 		t.Fatal(err)
 	}
-	if want, _ := res.Output("y1"); y1 != want {
+	if want, _ := res.Lookup("y1"); y1 != want {
 		t.Errorf("json_extract y1 = %g, want %g", y1, want)
 	}
 	// the long view of the outputs
@@ -206,7 +206,7 @@ func TestRecordAndReload(t *testing.T) {
 	if err := db.QueryRow(`SELECT value FROM outputs WHERE eval_id = (SELECT best_id FROM run) AND name = 'y2'`).Scan(&y2); err != nil {
 		t.Fatal(err)
 	}
-	if want, _ := res.Output("y2"); y2 != want {
+	if want, _ := res.Lookup("y2"); y2 != want {
 		t.Errorf("outputs view y2 = %g, want %g", y2, want)
 	}
 	if err := db.QueryRow(`SELECT count(*) FROM outputs`).Scan(&n); err != nil || n != 40*len(res.Outputs) {
