@@ -19,7 +19,7 @@ func ExampleDesignChecklist() {
 		panic(err)
 	}
 	cl := disciplines.DesignChecklist(func(name string) (float64, bool) {
-		v, err := w.Get(name)
+		v, err := w.Lookup(name)
 		return v, err == nil
 	})
 	for _, r := range cl.Flagged() {

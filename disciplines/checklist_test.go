@@ -95,7 +95,7 @@ func TestScenarioChecklists(t *testing.T) {
 	for _, sc := range demonstrationAircraft() {
 		w := solveScenario(t, sc, mdo.GaussSeidel)
 		cl := DesignChecklist(func(name string) (float64, bool) {
-			v, err := w.Get(name)
+			v, err := w.Lookup(name)
 			return v, err == nil
 		})
 		if len(cl) < 15 && sc.Parameters["cruise.mach"] > 1 || len(cl) < 13 {
