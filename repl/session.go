@@ -61,7 +61,9 @@ type Options struct {
 type Cell struct {
 	Number int
 	Source string
-	// Output is what the cell printed, followed by its shown value.
+	// Output is what the cell printed, followed by its shown value: its
+	// first MiB, with a note of how much more was printed (all of it is
+	// streamed to Options.Stdout as it is printed).
 	Output string
 	// Value is the value of the trailing expression, if one was shown.
 	Value any
@@ -445,19 +447,29 @@ func (s *Session) Eval(ctx context.Context, expr string) (any, error) {
 // Globals returns the names of the session's variables and constants.
 func (s *Session) Globals() map[string]reflect.Value { return s.it.Globals() }
 
-// cellWriter passes output through and keeps a copy of the running cell's.
+// outputKept is how much of a cell's printed output Cell.Output keeps:
+// the output itself is streamed to Stdout as it is printed, so a cell
+// that prints gigabytes holds no more than this in memory.
+const outputKept = 1 << 20
+
+// cellWriter streams what a cell prints to the session's Stdout and keeps
+// the first outputKept bytes of it for Cell.Output.
 type cellWriter struct {
-	mu  sync.Mutex
-	w   io.Writer
-	buf bytes.Buffer
-	// bol is true at the beginning of a line.
+	mu      sync.Mutex
+	w       io.Writer
+	kept    bytes.Buffer
+	written int64 // bytes written since the last take
+	// nl is true when the last byte written was a newline.
 	nl bool
 }
 
 func (c *cellWriter) Write(p []byte) (int, error) {
 	c.mu.Lock()
 	defer c.mu.Unlock()
-	c.buf.Write(p)
+	if room := outputKept - c.kept.Len(); room > 0 {
+		c.kept.Write(p[:min(room, len(p))])
+	}
+	c.written += int64(len(p))
 	if len(p) > 0 {
 		c.nl = p[len(p)-1] == '\n'
 	}
@@ -468,7 +480,7 @@ func (c *cellWriter) Write(p []byte) (int, error) {
 func (c *cellWriter) writeValue(text string) {
 	c.mu.Lock()
 	pre := ""
-	if c.buf.Len() > 0 && !c.nl {
+	if c.written > 0 && !c.nl {
 		pre = "\n"
 	}
 	c.mu.Unlock()
@@ -478,13 +490,17 @@ func (c *cellWriter) writeValue(text string) {
 	io.WriteString(c, pre+text)
 }
 
-// take returns and clears the copy.
+// take returns what was kept of the output since the last take, with a
+// note of what was printed but not kept, and starts afresh.
 func (c *cellWriter) take() string {
 	c.mu.Lock()
 	defer c.mu.Unlock()
-	s := c.buf.String()
-	c.buf.Reset()
-	c.nl = false
+	s := c.kept.String()
+	if more := c.written - int64(c.kept.Len()); more > 0 {
+		s += fmt.Sprintf("\n… (%d more bytes printed, not kept)\n", more)
+	}
+	c.kept = bytes.Buffer{}
+	c.written, c.nl = 0, false
 	return s
 }
 

@@ -4,6 +4,8 @@ import (
 	"bytes"
 	"context"
 	"errors"
+	"fmt"
+	"io"
 	"os"
 	"path/filepath"
 	"strings"
@@ -549,5 +551,72 @@ func TestRunRecordsTheWholeFile(t *testing.T) {
 	defer st.Close()
 	if meta, ok := st.Run(); !ok || meta.Script != string(text) {
 		t.Errorf("results.db records the script %q, want the whole file %q", meta.Script, text)
+	}
+}
+
+// countingWriter counts what is written to it and keeps nothing.
+type countingWriter struct{ n int64 }
+
+func (w *countingWriter) Write(p []byte) (int, error) {
+	w.n += int64(len(p))
+	return len(p), nil
+}
+
+// printingCell prints kib lines of 1 KiB each (1023 bytes and a newline).
+func printingCell(kib int) string {
+	return fmt.Sprintf("import (\n\t\"fmt\"\n\t\"strings\"\n)\nline := strings.Repeat(\"x\", 1023)\nfor i := 0; i < %d; i++ {\n\tfmt.Println(line)\n}\n\"done\"", kib)
+}
+
+// What a cell prints is streamed to Stdout as it is printed; the cell
+// keeps only its first outputKept bytes (and a note of the rest), so a
+// cell printing much more holds no more than that.
+func TestCellOutputIsStreamedAndBounded(t *testing.T) {
+	const kib = 8 << 10 // 8 MiB
+	var w countingWriter
+	s, err := NewSession(Options{Stdout: &w})
+	if err != nil {
+		t.Fatal(err)
+	}
+	c := s.Exec(context.Background(), printingCell(kib))
+	if c.Err != nil {
+		t.Fatal(c.Err)
+	}
+	printed := int64(kib<<10) + int64(len("done\n"))
+	if w.n != printed {
+		t.Errorf("%d bytes reached Stdout, want all %d printed", w.n, printed)
+	}
+	note := fmt.Sprintf("\n… (%d more bytes printed, not kept)\n", printed-outputKept)
+	if len(c.Output) != outputKept+len(note) || !strings.HasSuffix(c.Output, note) {
+		t.Errorf("the cell kept %d bytes ending %q, want the first %d and the note %q", len(c.Output), c.Output[max(0, len(c.Output)-80):], outputKept, note)
+	}
+	// A small output is kept whole, its value after it.
+	if c := s.Exec(context.Background(), printingCell(2)); c.Output != strings.Repeat(strings.Repeat("x", 1023)+"\n", 2)+"done\n" {
+		t.Errorf("a 2 KiB output kept as %d bytes", len(c.Output))
+	}
+}
+
+// BenchmarkCellOutput prints growing outputs: the bytes a cell keeps
+// (kept-B) stay at outputKept however much it prints, and the bytes
+// allocated per printed byte do not grow with the output.
+func BenchmarkCellOutput(b *testing.B) {
+	for _, mib := range []int{1, 4, 16} {
+		b.Run(fmt.Sprintf("MiB=%d", mib), func(b *testing.B) {
+			s, err := NewSession(Options{Stdout: io.Discard})
+			if err != nil {
+				b.Fatal(err)
+			}
+			src := printingCell(mib << 10)
+			b.ReportAllocs()
+			b.ResetTimer()
+			kept := 0
+			for i := 0; i < b.N; i++ {
+				c := s.Exec(context.Background(), src)
+				if c.Err != nil {
+					b.Fatal(c.Err)
+				}
+				kept = len(c.Output)
+			}
+			b.ReportMetric(float64(kept), "kept-B")
+		})
 	}
 }

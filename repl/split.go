@@ -58,18 +58,19 @@ func splitCell(src string) ([]chunk, []importRef, error) {
 	type unit struct {
 		kind       chunkKind
 		start, end int
+		line       int // line of start (1-based)
 	}
 	var units []unit
 	depth := 0
 	header := false
-	start := -1
+	start, startLine := -1, 0
 	var first []token.Token // first tokens of the current unit
 	var firstLit []string
 	closeUnit := func(end int) {
 		if start < 0 {
 			return
 		}
-		units = append(units, unit{kind: classify(first, firstLit), start: start, end: end})
+		units = append(units, unit{kind: classify(first, firstLit), start: start, end: end, line: startLine})
 		start = -1
 		first, firstLit = first[:0], firstLit[:0]
 	}
@@ -94,7 +95,8 @@ func splitCell(src string) ([]chunk, []importRef, error) {
 			}
 		}
 		if start < 0 {
-			start = off
+			// the scanner's file knows the line of every offset
+			start, startLine = off, file.Line(pos)
 		}
 		if len(first) < 8 {
 			first = append(first, tok)
@@ -121,7 +123,7 @@ func splitCell(src string) ([]chunk, []importRef, error) {
 			}
 		}
 		text := src[u.start:units[j-1].end]
-		chunks = append(chunks, chunk{kind: u.kind, src: text, line: lineOf(src, u.start)})
+		chunks = append(chunks, chunk{kind: u.kind, src: text, line: u.line})
 		i = j
 	}
 	// Imports must come first, as in a Go file.
@@ -141,12 +143,12 @@ func splitCell(src string) ([]chunk, []importRef, error) {
 			imports = append(imports, refs...)
 		case chunkDecl:
 			seenOther = true
-			if _, err := parser.ParseFile(token.NewFileSet(), "", "package p;"+c.src, 0); err != nil {
+			if _, err := parser.ParseFile(token.NewFileSet(), "", "package p;"+c.src, parser.SkipObjectResolution); err != nil {
 				return nil, nil, chunkSyntaxError(c, err)
 			}
 		case chunkStmt:
 			seenOther = true
-			f, err := parser.ParseFile(token.NewFileSet(), "", "package p; func _() {"+c.src+"\n}", 0)
+			f, err := parser.ParseFile(token.NewFileSet(), "", "package p; func _() {"+c.src+"\n}", parser.SkipObjectResolution)
 			if err != nil {
 				return nil, nil, chunkSyntaxError(c, err)
 			}
@@ -245,9 +247,6 @@ func chunkSyntaxError(c *chunk, err error) error {
 	}
 	return &lineError{line: c.line, msg: err.Error()}
 }
-
-// lineOf returns the 1-based line of byte offset off in src.
-func lineOf(src string, off int) int { return strings.Count(src[:off], "\n") + 1 }
 
 // lineError is an error placed on a line of a cell; the session adds the
 // cell number when it reports it.

@@ -2,6 +2,8 @@ package repl
 
 import (
 	"errors"
+	"fmt"
+	"strings"
 	"testing"
 )
 
@@ -117,5 +119,34 @@ func TestSplitCellSyntaxErrors(t *testing.T) {
 		if le.line != tc.line {
 			t.Errorf("splitCell(%q) error on line %d (%v), want line %d", tc.src, le.line, err, tc.line)
 		}
+	}
+}
+
+// manyStatements is a cell of n assignments, one a line.
+func manyStatements(n int) string {
+	var b strings.Builder
+	b.WriteString("x := 0\n")
+	for i := 1; i < n; i++ {
+		fmt.Fprintf(&b, "x = x + %d\n", i)
+	}
+	return b.String()
+}
+
+// BenchmarkSplitCell splits cells of growing size: the time per
+// statement (ns/op divided by the size) stays flat when splitting is
+// linear in the cell's size.
+func BenchmarkSplitCell(b *testing.B) {
+	for _, n := range []int{5000, 20000, 80000, 320000} {
+		src := manyStatements(n)
+		b.Run(fmt.Sprintf("statements=%d", n), func(b *testing.B) {
+			b.ReportAllocs()
+			for i := 0; i < b.N; i++ {
+				chunks, _, err := splitCell(src)
+				if err != nil || len(chunks) != n {
+					b.Fatalf("%d chunks, %v", len(chunks), err)
+				}
+			}
+			b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N)/float64(n), "ns/statement")
+		})
 	}
 }
