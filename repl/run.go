@@ -7,10 +7,13 @@ import (
 	"io"
 	"os"
 	"path/filepath"
+	"slices"
+	"strings"
 	"time"
 
 	"couplet/mdo"
 	"couplet/mdo/report"
+	"couplet/mdo/runfolder"
 	"couplet/mdo/store"
 )
 
@@ -36,8 +39,13 @@ type RunOptions struct {
 	// Grace is the time a cancelled cell has to come back (default 2 s).
 	Grace time.Duration
 	// PickUp continues the case stores an interrupted replay of the same
-	// script and seed left in OutDir (see RunOutputs.PickUp).
+	// script and seed left in OutDir (see RunOutputs.PickUp); OutDir
+	// must hold one.
 	PickUp bool
+	// Replace clears every file of the run OutDir holds (the tool's and
+	// the script's own, see runfolder.Clear) before this one starts.
+	// Without PickUp or Replace, an OutDir holding a run is refused.
+	Replace bool
 }
 
 // RunRecord is what a replay produced.
@@ -78,13 +86,15 @@ func Run(ctx context.Context, opts RunOptions) (*RunRecord, error) {
 	if err != nil {
 		return nil, &UsageError{Err: fmt.Errorf("%s: %w", opts.File, err)}
 	}
+	lock, err := guardFolder(opts)
+	if err != nil {
+		return nil, err
+	}
+	defer lock.Release()
 	if opts.PickUp {
 		if err := checkPickUp(opts, string(text)); err != nil {
 			return nil, err
 		}
-	}
-	if err := os.MkdirAll(opts.OutDir, 0o755); err != nil {
-		return nil, &UsageError{Err: fmt.Errorf("making the output folder: %w", err)}
 	}
 	out, errw := opts.Stdout, opts.Stderr
 	if out == nil {
@@ -131,10 +141,10 @@ func Run(ctx context.Context, opts RunOptions) (*RunRecord, error) {
 			if errors.As(cl.Err, &ce) {
 				line = c.Line + ce.Line - 1
 			}
-			return rec, fmt.Errorf("%s:%d: %w", opts.File, line, cl.Err)
+			return rec, writeEarlier(ctx, s, outs, opts, errw, rec, fmt.Errorf("%s:%d: %w", opts.File, line, cl.Err))
 		}
 		if ctx.Err() != nil && i < len(f.Cells)-1 {
-			return rec, fmt.Errorf("%s: %s after cell %d; cells %d to %d were not run", opts.File, s.reason(ctx), cl.Number, cl.Number+1, len(f.Cells))
+			return rec, writeEarlier(ctx, s, outs, opts, errw, rec, fmt.Errorf("%s: %s after cell %d; cells %d to %d were not run", opts.File, s.reason(ctx), cl.Number, cl.Number+1, len(f.Cells)))
 		}
 		if cl.Interrupted {
 			fmt.Fprintf(errw, "%s: cell %d was cancelled (%s) and returned its best point so far\n", opts.File, cl.Number, s.reason(ctx))
@@ -168,6 +178,89 @@ func Run(ctx context.Context, opts RunOptions) (*RunRecord, error) {
 		return rec, e
 	}
 	return rec, nil
+}
+
+// writeEarlier writes the run folder of the result the script handed
+// over before a cell failed or the run was stopped (nothing if there is
+// none), so that what a later cell does cannot undo an earlier result,
+// and returns the run's error (with the folder's, if it could not be
+// written).
+func writeEarlier(ctx context.Context, s *Session, outs *RunOutputs, opts RunOptions, errw io.Writer, rec *RunRecord, runErr error) error {
+	r := resultOf(s)
+	if r == nil {
+		return runErr
+	}
+	rec.Result = r
+	sum := store.NewSummary(r, store.SummaryOptions{Script: rec.Script, ToolVersion: toolVersion()})
+	rec.Summary = &sum
+	// the run's own deadline or cancellation has passed: the folder is
+	// written all the same
+	if _, err := outs.WriteRun(context.WithoutCancel(ctx), opts.OutDir, rec.Script, r); err != nil {
+		return fmt.Errorf("%w; writing the output of the earlier result: %v", runErr, err)
+	}
+	fmt.Fprintf(errw, "%s: the result handed over before the run stopped (study %s, best #%s) is written into %s\n", opts.File, r.Study, bestID(r), opts.OutDir)
+	return runErr
+}
+
+// bestID formats the number of a result's best evaluation.
+func bestID(r *mdo.Result) string {
+	if r.Best == nil {
+		return "none"
+	}
+	return fmt.Sprint(r.Best.ID)
+}
+
+// guardFolder takes the lock on the output folder and checks what it
+// holds: a folder another run holds is refused, naming the holder; a
+// folder holding an earlier run is refused unless PickUp continues it or
+// Replace clears it first; PickUp into a folder with no case store is
+// refused. Every refusal is a *UsageError.
+func guardFolder(opts RunOptions) (*runfolder.Lock, error) {
+	if opts.PickUp && opts.Replace {
+		return nil, &UsageError{Err: fmt.Errorf("--pick-up continues the run in %s and --replace clears it: choose one", opts.OutDir)}
+	}
+	lock, err := runfolder.TakeLock(opts.OutDir)
+	if err != nil {
+		return nil, &UsageError{Err: err}
+	}
+	found, err := runfolder.Occupied(opts.OutDir)
+	if err != nil {
+		lock.Release()
+		return nil, &UsageError{Err: err}
+	}
+	switch {
+	case opts.PickUp && !slices.Contains(found, "results.db"):
+		lock.Release()
+		return nil, &UsageError{Err: fmt.Errorf("--pick-up: nothing to pick up in %s: it holds no results.db of an interrupted run", opts.OutDir)}
+	case opts.Replace:
+		if err := runfolder.Clear(opts.OutDir); err != nil {
+			lock.Release()
+			return nil, &UsageError{Err: err}
+		}
+	case !opts.PickUp && len(found) > 0:
+		lock.Release()
+		return nil, &UsageError{Err: fmt.Errorf("%s holds another run (%s); --pick-up continues it if it was interrupted, --replace clears its files and runs afresh, or choose another folder", opts.OutDir, listFiles(found))}
+	}
+	return lock, nil
+}
+
+// listFiles names a few files, the case store, summary and report first.
+func listFiles(names []string) string {
+	names = slices.Clone(names)
+	rank := func(n string) int {
+		switch {
+		case strings.HasPrefix(n, "results"):
+			return 0
+		case n == "summary.json" || n == "report.html":
+			return 1
+		}
+		return 2
+	}
+	slices.SortStableFunc(names, func(a, b string) int { return rank(a) - rank(b) })
+	if len(names) > 4 {
+		return strings.Join(names[:4], ", ") + fmt.Sprintf(" and %d more", len(names)-4)
+	}
+	return strings.Join(names, ", ")
 }
 
 // resultOf returns the result a session's script handed over: the last

@@ -17,12 +17,11 @@ package cell
 import (
 	"context"
 	"fmt"
-	"os"
-	"path/filepath"
 	"strings"
 	"sync"
 
 	"couplet/mdo"
+	"couplet/mdo/runfolder"
 )
 
 // ImportPath is the path under which scripts import this package.
@@ -154,7 +153,10 @@ func (e *Env) SeedUsed() (uint64, bool) {
 
 // WriteFile writes data to a file of the study's output folder. name is a
 // plain file name (letters, digits, '.', '-', '_'); paths are refused, so
-// a script cannot write outside its output folder.
+// a script cannot write outside its output folder, and so are the tool's
+// own names (results*.db and its journals, summary.json, report.html,
+// evaluations.csv, any .svg or .png). The file is written to a temporary
+// file renamed over the name, never through a symbolic link.
 func (e *Env) WriteFile(name string, data []byte) error {
 	if err := checkName(name); err != nil {
 		return err
@@ -163,10 +165,7 @@ func (e *Env) WriteFile(name string, data []byte) error {
 	if dir == "" {
 		return fmt.Errorf("cell: WriteFile(%q): this session has no output folder (start it with --out DIR)", name)
 	}
-	if err := os.MkdirAll(dir, 0o755); err != nil {
-		return fmt.Errorf("cell: WriteFile(%q): %w", name, err)
-	}
-	if err := os.WriteFile(filepath.Join(dir, name), data, 0o644); err != nil {
+	if err := runfolder.WriteOwn(dir, name, data); err != nil {
 		return fmt.Errorf("cell: WriteFile(%q): %w", name, err)
 	}
 	return nil

@@ -2,7 +2,7 @@
 // framework.
 //
 //	couplet [--out DIR] [--seed N] [--trust-script]      interactive notebook session
-//	couplet run FILE.study --out DIR [--seed N] [--timeout D] [--trust-script] [--quiet] [--pick-up]
+//	couplet run FILE.study --out DIR [--seed N] [--timeout D] [--trust-script] [--quiet] [--pick-up | --replace]
 //	couplet imports [--trust-script]                      list the importable packages
 //	couplet version
 //
@@ -43,6 +43,7 @@ type settings struct {
 	trust   bool
 	quiet   bool
 	pickUp  bool
+	replace bool
 }
 
 // errHelp is returned by parse when the flags ask for the usage.
@@ -57,6 +58,7 @@ func flagSet(name string, st *settings) *flag.FlagSet {
 	fs.BoolVar(&st.trust, strings.TrimPrefix(repl.TrustFlag, "--"), false, "lift the sandbox: the script may use files and processes (trusted scripts only)")
 	fs.BoolVar(&st.quiet, "quiet", false, "do not echo the cells' output (run only)")
 	fs.BoolVar(&st.pickUp, "pick-up", false, "continue the results.db an interrupted run of the same study file and seed left in --out; any change to the file is refused (run only)")
+	fs.BoolVar(&st.replace, "replace", false, "clear every file of the run --out holds, then run afresh (run only)")
 	return fs
 }
 
@@ -107,7 +109,7 @@ func usage(w io.Writer) {
 
 usage:
   couplet [--out DIR] [--seed N] [%s]       interactive notebook session
-  couplet run FILE.study --out DIR [--seed N] [--timeout D] [%s] [--quiet] [--pick-up]
+  couplet run FILE.study --out DIR [--seed N] [--timeout D] [%s] [--quiet] [--pick-up | --replace]
                                                    replay a saved study headless
   couplet imports [%s]                    list the packages a script may import
   couplet version                                  print the version
@@ -205,7 +207,7 @@ func replay(args []string, stdout, stderr io.Writer) int {
 	}
 	opts := repl.RunOptions{
 		File: pos[0], OutDir: st.out, Seed: seed, SeedSet: seedSet, Timeout: st.timeout,
-		Policy: repl.Policy{Trusted: st.trust}, Stdout: stdout, Stderr: stderr, PickUp: st.pickUp,
+		Policy: repl.Policy{Trusted: st.trust}, Stdout: stdout, Stderr: stderr, PickUp: st.pickUp, Replace: st.replace,
 	}
 	if st.quiet {
 		opts.Stdout = io.Discard

@@ -1,0 +1,153 @@
+package runfolder
+
+import (
+	"errors"
+	"os"
+	"path/filepath"
+	"slices"
+	"strings"
+	"testing"
+)
+
+func TestReserved(t *testing.T) {
+	tests := []struct {
+		name string
+		want bool
+	}{
+		{"results.db", true}, {"results-3.db", true}, {"results.db-journal", true}, {"results-2.db-wal", true}, {"results.db-shm", true},
+		{"summary.json", true}, {"report.html", true}, {"evaluations.csv", true},
+		{"history.svg", true}, {"my_plot.PNG", true}, {LockFile, true}, {ManifestFile, true},
+		{"points.csv", false}, {"results.txt", false}, {"results-x.db", false}, {"notes.json", false},
+	}
+	for _, tc := range tests {
+		if got := Reserved(tc.name); got != tc.want {
+			t.Errorf("Reserved(%q) = %v, want %v", tc.name, got, tc.want)
+		}
+	}
+}
+
+// outside makes a file outside dir and returns its path and content.
+func outside(t *testing.T) (string, string) {
+	t.Helper()
+	p := filepath.Join(t.TempDir(), "precious.txt")
+	const text = "not the tool's to change\n"
+	if err := os.WriteFile(p, []byte(text), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	return p, text
+}
+
+// A write replaces a symbolic link named like the file, leaving its
+// target as it was.
+func TestWriteFileReplacesALink(t *testing.T) {
+	dir := t.TempDir()
+	target, text := outside(t)
+	link := filepath.Join(dir, "report.html")
+	if err := os.Symlink(target, link); err != nil {
+		t.Fatal(err)
+	}
+	if err := WriteFile(link, []byte("<html>")); err != nil {
+		t.Fatal(err)
+	}
+	if b, _ := os.ReadFile(target); string(b) != text {
+		t.Errorf("the link's target now holds %q", b)
+	}
+	if fi, err := os.Lstat(link); err != nil || fi.Mode()&os.ModeSymlink != 0 {
+		t.Errorf("report.html is still a link (%v)", err)
+	}
+	if b, _ := os.ReadFile(link); string(b) != "<html>" {
+		t.Errorf("report.html holds %q", b)
+	}
+	if entries, _ := os.ReadDir(dir); len(entries) != 1 {
+		t.Errorf("the folder holds %d entries, want report.html alone (no temporary file left)", len(entries))
+	}
+}
+
+// The files of an earlier run are found and cleared: the tool's names, a
+// link among them (its target kept) and the script's own files the
+// manifest lists; other files stay.
+func TestOccupiedAndClear(t *testing.T) {
+	dir := t.TempDir()
+	if found, err := Occupied(filepath.Join(dir, "none")); err != nil || found != nil {
+		t.Fatalf("a missing folder: %v, %v", found, err)
+	}
+	target, text := outside(t)
+	for _, n := range []string{"results.db", "summary.json", "history.svg", "keep.txt"} {
+		if err := os.WriteFile(filepath.Join(dir, n), []byte("x"), 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if err := os.Symlink(target, filepath.Join(dir, "evaluations.csv")); err != nil {
+		t.Fatal(err)
+	}
+	if err := WriteOwn(dir, "points.csv", []byte("a,b\n")); err != nil {
+		t.Fatal(err)
+	}
+	found, err := Occupied(dir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := []string{ManifestFile, "evaluations.csv", "history.svg", "points.csv", "results.db", "summary.json"}
+	if !slices.Equal(found, want) {
+		t.Errorf("Occupied = %v, want %v", found, want)
+	}
+	if err := Clear(dir); err != nil {
+		t.Fatal(err)
+	}
+	entries, _ := os.ReadDir(dir)
+	if len(entries) != 1 || entries[0].Name() != "keep.txt" {
+		t.Errorf("after Clear the folder holds %v, want keep.txt alone", entries)
+	}
+	if b, _ := os.ReadFile(target); string(b) != text {
+		t.Errorf("Clear changed a link's target: %q", b)
+	}
+}
+
+func TestWriteOwnRefusesTheToolsNames(t *testing.T) {
+	dir := t.TempDir()
+	for _, n := range []string{"results.db", "results.db-journal", "summary.json", "report.html", "evaluations.csv", "history.png", "pareto.svg", "../x.csv", ".hidden", ""} {
+		err := WriteOwn(dir, n, []byte("x"))
+		if err == nil || !strings.Contains(err.Error(), "not allowed") && !strings.Contains(err.Error(), "is the tool's") {
+			t.Errorf("WriteOwn(%q) = %v, want a refusal", n, err)
+		}
+	}
+	if entries, _ := os.ReadDir(dir); len(entries) != 0 {
+		t.Errorf("refused writes left %v", entries)
+	}
+}
+
+// A second lock on a folder is refused, naming the holder's process; after
+// Release it is free again. A lock file that is a symbolic link is
+// refused.
+func TestLock(t *testing.T) {
+	dir := t.TempDir()
+	l, err := TakeLock(dir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, err = TakeLock(dir)
+	var busy *BusyError
+	if !errors.As(err, &busy) || busy.PID != os.Getpid() || !strings.Contains(err.Error(), "in use by another run") {
+		t.Fatalf("second lock: %v, want a BusyError naming process %d", err, os.Getpid())
+	}
+	if err := l.Release(); err != nil {
+		t.Fatal(err)
+	}
+	l2, err := TakeLock(dir)
+	if err != nil {
+		t.Fatalf("after Release: %v", err)
+	}
+	l2.Release()
+
+	linked := t.TempDir()
+	target, text := outside(t)
+	if err := os.Symlink(target, filepath.Join(linked, LockFile)); err != nil {
+		t.Fatal(err)
+	}
+	if _, err := TakeLock(linked); err == nil || !strings.Contains(err.Error(), "symbolic link") {
+		t.Errorf("lock through a link: %v", err)
+	}
+	if b, _ := os.ReadFile(target); string(b) != text {
+		t.Errorf("the lock wrote through a link: %q", b)
+	}
+}
