@@ -132,7 +132,8 @@ func (c *cancelOn) Write(p []byte) (int, error) {
 }
 
 // A two-objective study whose every evaluation fails has no Pareto front
-// to draw: the report is written with the reason in the figure's place.
+// to draw: the report is written with the reason in the figure's place
+// (and the run ends in an error that says every evaluation failed).
 func TestReportOfAStudyWhoseEveryEvaluationFailed(t *testing.T) {
 	file := writeStudy(t, "doomed", `
 //~ cell 1
@@ -162,8 +163,9 @@ if err != nil {
 cell.Publish(result)
 `)
 	dir := filepath.Join(t.TempDir(), "out")
-	if stderr, err := runInto(t, context.Background(), file, dir, nil); err != nil {
-		t.Fatalf("%v\n%s", err, stderr)
+	var all *AllFailedError
+	if stderr, err := runInto(t, context.Background(), file, dir, nil); !errors.As(err, &all) {
+		t.Fatalf("err = %v, want the study's every evaluation failed\n%s", err, stderr)
 	}
 	page, err := os.ReadFile(filepath.Join(dir, "report.html"))
 	if err != nil {
