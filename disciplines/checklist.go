@@ -59,7 +59,11 @@ func (r ChecklistRow) Line() string {
 	if !r.Pass {
 		mark = "FLAG"
 	}
-	s := fmt.Sprintf("%s: %s %s, %s: %s", r.Rule, formatValue(r.Value), r.Unit, r.Band, mark)
+	v := formatValue(r.Value)
+	if r.Unit != "" {
+		v += " " + r.Unit
+	}
+	s := fmt.Sprintf("%s: %s, %s: %s", r.Rule, v, r.Band, mark)
 	if r.Note != "" && !r.Pass {
 		s += " (" + r.Note + ")"
 	}
