@@ -145,6 +145,12 @@ func shortReason(s string) string {
 // with the given number of workers and returns the evaluations in the
 // order of the points.
 func runCase(ctx context.Context, c convCase, m mdo.Method, workers int) ([]*mdo.Evaluation, error) {
+	return runCaseAfterPickUp(ctx, c, m, workers, nil)
+}
+
+// runCaseAfterPickUp is runCase on an Evaluator that first picks up the
+// evaluations prev (of an earlier session of the same run).
+func runCaseAfterPickUp(ctx context.Context, c convCase, m mdo.Method, workers int, prev []*mdo.Evaluation) ([]*mdo.Evaluation, error) {
 	sys, err := c.scen.NewSystem()
 	if err != nil {
 		return nil, err
@@ -166,6 +172,7 @@ func runCase(ctx context.Context, c convCase, m mdo.Method, workers int) ([]*mdo
 	if err != nil {
 		return nil, err
 	}
+	ev.PickUp(prev)
 	xs := make([][]float64, len(c.points))
 	for i, p := range c.points {
 		xs[i] = ev.ToUnit(p)
@@ -321,6 +328,155 @@ func BenchmarkConvergence(b *testing.B) {
 		}
 		if i == 0 {
 			fmt.Print(table)
+		}
+	}
+}
+
+// TestConvergedStateIndependentOfStart analyses every point of small
+// grids from three initial guesses — the variables' defaults, the
+// converged reference state of the scenario and that state perturbed by
+// ±10 % — and asserts that the converged coupling states agree within
+// 1e-8 relative (of the value, or of the variable's scale near zero).
+func TestConvergedStateIndependentOfStart(t *testing.T) {
+	ctx := context.Background()
+	for _, c := range convergenceCases(5, 0)[:5] {
+		w, err := c.scen.Workspace()
+		if err != nil {
+			t.Fatal(err)
+		}
+		w.Reset()
+		for k, v := range c.scen.Parameters {
+			if err := w.Set(k, v); err != nil {
+				t.Fatal(err)
+			}
+		}
+		if err := w.Analyze(ctx); err != nil {
+			t.Fatalf("%s: the reference point: %v", c.label, err)
+		}
+		sys := w.System()
+		coupling := sys.CouplingVars()
+		ref := append([]float64(nil), w.Values()...)
+		if err := w.SetReference(ref); err != nil {
+			t.Fatal(err)
+		}
+		starts := map[string]func(i int, v mdo.Var) float64{
+			"defaults":  func(i int, v mdo.Var) float64 { return v.Default },
+			"reference": func(i int, v mdo.Var) float64 { return ref[sys.Index(v.Name)] },
+			"perturbed": func(i int, v mdo.Var) float64 { return ref[sys.Index(v.Name)] * (1 + 0.1*float64(1-2*(i%2))) },
+		}
+		closing := 0
+		for pi, p := range c.points {
+			var states [][]float64
+			for _, name := range []string{"defaults", "reference", "perturbed"} {
+				for i, v := range coupling {
+					if err := w.SetGuess(v.Name, starts[name](i, v)); err != nil {
+						t.Fatal(err)
+					}
+				}
+				for k, b := range c.box {
+					if err := w.Set(b.name, p[k]); err != nil {
+						t.Fatal(err)
+					}
+				}
+				if err := w.Analyze(ctx); err != nil {
+					states = append(states, nil)
+					continue
+				}
+				st := make([]float64, len(coupling))
+				for i, v := range coupling {
+					st[i] = w.Values()[sys.Index(v.Name)]
+				}
+				states = append(states, st)
+			}
+			if (states[0] == nil) != (states[1] == nil) || (states[0] == nil) != (states[2] == nil) {
+				t.Errorf("%s point %d %v: converged from some starts only (%v %v %v)", c.label, pi, p, states[0] != nil, states[1] != nil, states[2] != nil)
+				continue
+			}
+			if states[0] == nil {
+				continue
+			}
+			closing++
+			for s := 1; s < 3; s++ {
+				for i, v := range coupling {
+					a, b := states[0][i], states[s][i]
+					if d := math.Abs(a - b); d > 1e-8*math.Max(math.Abs(a), math.Max(v.Scale, math.Max(math.Abs(v.Default), 1))) {
+						t.Errorf("%s point %d %v: %s = %.12g from the defaults, %.12g from start %d", c.label, pi, p, v.Name, a, b, s)
+					}
+				}
+			}
+		}
+		if closing == 0 {
+			t.Errorf("%s: no grid point closes", c.label)
+		}
+	}
+}
+
+// sameAnswer reports the first field in which two evaluations of one point
+// differ bit for bit, ignoring the timing, the ID and how the point was
+// answered.
+func sameAnswer(a, b *mdo.Evaluation) string {
+	same := func(x, y []float64) bool {
+		if len(x) != len(y) {
+			return false
+		}
+		for k := range x {
+			if math.Float64bits(x[k]) != math.Float64bits(y[k]) {
+				return false
+			}
+		}
+		return true
+	}
+	switch {
+	case !same(a.Design, b.Design), !same(a.X, b.X):
+		return "design"
+	case a.Err != b.Err, a.Failure != b.Failure, a.Converged != b.Converged:
+		return "failure"
+	case a.Path != b.Path:
+		return "path"
+	case a.Iterations != b.Iterations, a.DisciplineCalls != b.DisciplineCalls:
+		return "work"
+	case !same(a.Objectives, b.Objectives), !same(a.F, b.F), !same(a.Constraints, b.Constraints), !same(a.G, b.G), !same(a.Margins, b.Margins):
+		return "objectives or constraints"
+	case !same(a.Outputs, b.Outputs), math.Float64bits(a.Violation) != math.Float64bits(b.Violation), a.Feasible != b.Feasible:
+		return "outputs"
+	}
+	return ""
+}
+
+// TestConvergenceIndependentOfOrder evaluates the small benchmark's points
+// with one worker in order, with two workers in reverse order, and after
+// picking up the first half from the first run: every point, fallbacks
+// included, gets the same answer bit for bit.
+func TestConvergenceIndependentOfOrder(t *testing.T) {
+	ctx := context.Background()
+	for _, c := range convergenceCases(3, 12) {
+		a, err := runCase(ctx, c, mdo.AitkenGaussSeidel, 1)
+		if err != nil {
+			t.Fatal(err)
+		}
+		rev := c
+		rev.points = nil
+		for i := len(c.points) - 1; i >= 0; i-- {
+			rev.points = append(rev.points, c.points[i])
+		}
+		b, err := runCase(ctx, rev, mdo.AitkenGaussSeidel, 2)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for i := range a {
+			if d := sameAnswer(a[i], b[len(b)-1-i]); d != "" {
+				t.Errorf("%s point %d: %s differs between 1 worker in order and 2 in reverse", c.label, i, d)
+			}
+		}
+		half := len(c.points) / 2
+		p, err := runCaseAfterPickUp(ctx, c, mdo.AitkenGaussSeidel, 2, a[:half])
+		if err != nil {
+			t.Fatal(err)
+		}
+		for i := range a {
+			if d := sameAnswer(a[i], p[i]); d != "" {
+				t.Errorf("%s point %d: %s differs after a pick-up", c.label, i, d)
+			}
 		}
 	}
 }
