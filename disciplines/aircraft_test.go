@@ -91,8 +91,8 @@ func TestScenariosConvergeToOneState(t *testing.T) {
 		if worst > 1e-8 {
 			t.Errorf("%s: Gauss–Seidel and Newton differ by %.3g in %s", sc.Name, worst, name)
 		}
-		gsIt := gs.Reports()[0].Iterations
-		nwIt := nw.Reports()[0].Iterations
+		gsIt := gs.CouplingReports()[0].CouplingIterations
+		nwIt := nw.CouplingReports()[0].CouplingIterations
 		t.Logf("%s: Gauss–Seidel %d iterations, Newton %d", sc.Name, gsIt, nwIt)
 	}
 }
@@ -188,7 +188,7 @@ func BenchmarkAircraftMDA(b *testing.B) {
 			b.Fatal(err)
 		}
 	}
-	b.ReportMetric(float64(w.Reports()[0].Iterations), "iterations")
+	b.ReportMetric(float64(w.CouplingReports()[0].CouplingIterations), "iterations")
 }
 
 func BenchmarkAircraftMDAWarmStart(b *testing.B) {
@@ -221,5 +221,5 @@ func BenchmarkAircraftMDAWarmStart(b *testing.B) {
 			b.Fatal(err)
 		}
 	}
-	b.ReportMetric(float64(w.Reports()[0].Iterations), "iterations")
+	b.ReportMetric(float64(w.CouplingReports()[0].CouplingIterations), "iterations")
 }

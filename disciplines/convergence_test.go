@@ -111,7 +111,7 @@ func (t *convTally) add(ev *mdo.Evaluation) {
 	}
 	if ev.Converged {
 		t.converged++
-		t.iterations += ev.Iterations
+		t.iterations += ev.CouplingIterations
 		t.calls += ev.DisciplineCalls
 		t.wall += ev.Wall
 		return
@@ -433,7 +433,7 @@ func sameAnswer(a, b *mdo.Evaluation) string {
 		return "failure"
 	case a.Path != b.Path:
 		return "path"
-	case a.Iterations != b.Iterations, a.DisciplineCalls != b.DisciplineCalls:
+	case a.CouplingIterations != b.CouplingIterations, a.DisciplineCalls != b.DisciplineCalls:
 		return "work"
 	case !same(a.Objectives, b.Objectives), !same(a.F, b.F), !same(a.Constraints, b.Constraints), !same(a.G, b.G), !same(a.Margins, b.Margins):
 		return "objectives or constraints"

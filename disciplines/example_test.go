@@ -31,7 +31,7 @@ func ExampleNewAircraft() {
 	fmt.Print(dsm[:strings.Index(dsm, "couplings")])
 	mto, _ := w.Lookup("mass.takeoff")
 	ld, _ := w.Lookup("aero.ld_cruise")
-	fmt.Printf("converged: %v, take-off mass about %.0f t, cruise L/D about %.0f\n", w.Reports()[0].Converged, mto/1000, ld)
+	fmt.Printf("converged: %v, take-off mass about %.0f t, cruise L/D about %.0f\n", w.CouplingReports()[0].Converged, mto/1000, ld)
 	// Output:
 	// design structure matrix: 12 disciplines, 8 groups (row feeds column)
 	//                         1  2  3  4  5  6  7  8  9 10 11 12   group
@@ -68,7 +68,7 @@ func ExampleScenario_Workspace() {
 	}
 	seats, _ := w.Lookup("cabin.passengers")
 	fl, _ := w.Lookup("fuselage.length")
-	fmt.Printf("%.0f seats, fuselage %.1f m, converged: %v\n", seats, fl, w.Reports()[0].Converged)
+	fmt.Printf("%.0f seats, fuselage %.1f m, converged: %v\n", seats, fl, w.CouplingReports()[0].Converged)
 	// Output:
 	// 76 seats, fuselage 31.3 m, converged: true
 }

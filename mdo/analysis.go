@@ -12,9 +12,9 @@ import (
 // value and the coupling reports. It is a snapshot, independent of the
 // workspace that computed it.
 type Solution struct {
-	vars    []Var
-	values  []float64
-	Reports []Report
+	vars            []Var
+	values          []float64
+	CouplingReports []CouplingReport
 	Counters
 }
 
@@ -41,7 +41,7 @@ func (s *System) Analyze(ctx context.Context, params map[string]float64) (*Solut
 func (w *Workspace) Snapshot() *Solution {
 	sol := &Solution{vars: w.sys.vars.All(), values: append([]float64(nil), w.val...), Counters: w.cnt}
 	for _, r := range w.reports {
-		sol.Reports = append(sol.Reports, r.Clone())
+		sol.CouplingReports = append(sol.CouplingReports, r.Clone())
 	}
 	return sol
 }
@@ -64,7 +64,7 @@ func (s *Solution) Lookup(name string) (float64, error) {
 
 // Converged reports whether every coupled group converged.
 func (s *Solution) Converged() bool {
-	for _, r := range s.Reports {
+	for _, r := range s.CouplingReports {
 		if !r.Converged {
 			return false
 		}
@@ -89,7 +89,7 @@ func (s *Solution) Table(prefix string) string {
 // String formats the reports and every variable.
 func (s *Solution) String() string {
 	var b strings.Builder
-	for _, r := range s.Reports {
+	for _, r := range s.CouplingReports {
 		b.WriteString(r.String())
 	}
 	b.WriteString(s.Table(""))

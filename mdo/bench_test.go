@@ -25,7 +25,7 @@ func BenchmarkSellarMDA(b *testing.B) {
 					b.Fatal(err)
 				}
 			}
-			b.ReportMetric(float64(w.Reports()[0].Iterations), "iterations")
+			b.ReportMetric(float64(w.CouplingReports()[0].CouplingIterations), "iterations")
 		})
 	}
 }

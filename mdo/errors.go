@@ -71,12 +71,12 @@ func (e *DisciplineError) Unwrap() error { return e.Err }
 // ConvergenceError is returned when a coupled group does not converge or
 // diverges. It carries the solver's report.
 type ConvergenceError struct {
-	Report Report
+	CouplingReport CouplingReport
 }
 
 // Error implements error.
 func (e *ConvergenceError) Error() string {
-	r := &e.Report
+	r := &e.CouplingReport
 	state := "did not converge"
 	if r.Diverged {
 		state = "diverged"
@@ -86,5 +86,5 @@ func (e *ConvergenceError) Error() string {
 		worst = append(worst, fmt.Sprintf("%s (%.3g)", w.Name, w.Residual))
 	}
 	return fmt.Sprintf("mdo: coupled group {%s} %s with %s after %d iterations (scaled residual %.3g, tolerance %.3g); worst: %s",
-		strings.Join(r.Disciplines, ", "), state, r.Method, r.Iterations, r.Residual, r.Tolerance, strings.Join(worst, ", "))
+		strings.Join(r.Disciplines, ", "), state, r.Method, r.CouplingIterations, r.Residual, r.Tolerance, strings.Join(worst, ", "))
 }

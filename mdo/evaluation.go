@@ -36,9 +36,9 @@ type Evaluation struct {
 	Path string
 	// Iterations are the coupling iterations, DisciplineCalls the
 	// discipline calls and Wall the wall time of this evaluation's analysis.
-	Iterations      int
-	DisciplineCalls int
-	Wall            time.Duration
+	CouplingIterations int
+	DisciplineCalls    int
+	Wall               time.Duration
 	// Outputs are the values of Evaluator.OutputVars after the analysis.
 	Outputs []float64
 	// PickedUp is true when the point was analysed by an earlier session

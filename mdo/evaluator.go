@@ -533,7 +533,7 @@ func (e *Evaluator) analyse(ctx context.Context, w int, ev *Evaluation) (ok bool
 	}
 	defer func() {
 		ev.Wall = time.Since(start)
-		ev.Iterations = ws.cnt.Iterations - before.Iterations
+		ev.CouplingIterations = ws.cnt.CouplingIterations - before.CouplingIterations
 		ev.DisciplineCalls = ws.cnt.DisciplineCalls - before.DisciplineCalls
 	}()
 	if err != nil {
@@ -670,7 +670,7 @@ func (e *Evaluator) accept(ev *Evaluation) {
 		e.cnt.Failed++
 	}
 	e.cnt.DisciplineCalls += ev.DisciplineCalls
-	e.cnt.CouplingIterations += ev.Iterations
+	e.cnt.CouplingIterations += ev.CouplingIterations
 	if e.study.CacheLimit > 0 && len(e.cache) < e.study.CacheLimit {
 		e.cache[designKey(ev.Design)] = ev
 	}

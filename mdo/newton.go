@@ -43,7 +43,7 @@ func newNewtonScratch(n int) *newtonScratch {
 //     scaled ranges, and a trial on which a discipline fails counts as no
 //     decrease. When even a fresh Jacobian gives no decrease the step
 //     falls back to one fixed-point sweep u ← u + R(u).
-func (w *Workspace) newton(ctx context.Context, g *group, set SolverSettings, p solvePath, rep *Report) error {
+func (w *Workspace) newton(ctx context.Context, g *group, set SolverSettings, p solvePath, rep *CouplingReport) error {
 	nt := len(g.tear)
 	if w.nw == nil || w.nw.n != nt {
 		w.nw = newNewtonScratch(nt)
@@ -79,10 +79,10 @@ func (w *Workspace) newton(ctx context.Context, g *group, set SolverSettings, p 
 			return fmt.Errorf("mdo: coupled group {%s} cancelled at iteration %d: %w", joinNames(g.names), it, err)
 		}
 		n0 := infNorm(r)
-		rep.Iterations = it
+		rep.CouplingIterations = it
 		rep.Residual = n0
 		rep.History = append(rep.History, n0)
-		w.cnt.Iterations++
+		w.cnt.CouplingIterations++
 		if n0 <= set.Tolerance {
 			// the values are those of the last sweep, G(u)
 			rep.Converged = true
@@ -144,7 +144,7 @@ func (w *Workspace) newton(ctx context.Context, g *group, set SolverSettings, p 
 	if err := w.closure(g, p); err != nil {
 		return err
 	}
-	return &ConvergenceError{Report: rep.Clone()}
+	return &ConvergenceError{CouplingReport: rep.Clone()}
 }
 
 // fdJacobian fills the Newton Jacobian by finite differences at u, where

@@ -103,23 +103,23 @@ type VarResidual struct {
 }
 
 // Report describes the solution of one coupled group.
-type Report struct {
-	Disciplines []string
-	Method      Method
-	Converged   bool
-	Diverged    bool
-	Iterations  int
-	Residual    float64   // final scaled residual (infinity norm)
-	Tolerance   float64   // the tolerance asked for
-	History     []float64 // scaled residual after each iteration
-	Worst       []VarResidual
+type CouplingReport struct {
+	Disciplines        []string
+	Method             Method
+	Converged          bool
+	Diverged           bool
+	CouplingIterations int
+	Residual           float64   // final scaled residual (infinity norm)
+	Tolerance          float64   // the tolerance asked for
+	History            []float64 // scaled residual after each iteration
+	Worst              []VarResidual
 	// Path names the solver path of the last attempt: the configured
 	// method, or the fallback that ran (see Workspace.Path).
 	Path string
 }
 
 // Clone returns a deep copy of the report.
-func (r Report) Clone() Report {
+func (r CouplingReport) Clone() CouplingReport {
 	r.Disciplines = append([]string(nil), r.Disciplines...)
 	r.History = append([]float64(nil), r.History...)
 	r.Worst = append([]VarResidual(nil), r.Worst...)
@@ -127,7 +127,7 @@ func (r Report) Clone() Report {
 }
 
 // String formats the report on a few lines.
-func (r Report) String() string {
+func (r CouplingReport) String() string {
 	var b strings.Builder
 	state := "converged"
 	switch {
@@ -137,7 +137,7 @@ func (r Report) String() string {
 		state = "NOT CONVERGED"
 	}
 	fmt.Fprintf(&b, "group {%s}: %s by %s in %d iterations, residual %.3g (tolerance %.3g)\n",
-		strings.Join(r.Disciplines, ", "), state, r.Method, r.Iterations, r.Residual, r.Tolerance)
+		strings.Join(r.Disciplines, ", "), state, r.Method, r.CouplingIterations, r.Residual, r.Tolerance)
 	if len(r.Worst) > 0 {
 		b.WriteString("  worst:")
 		for _, w := range r.Worst {

@@ -185,7 +185,7 @@ func TestAitkenBeatsGaussSeidel(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		iters[m] = w.Reports()[0].Iterations
+		iters[m] = w.CouplingReports()[0].CouplingIterations
 	}
 	if iters[AitkenGaussSeidel] >= iters[GaussSeidel] {
 		t.Errorf("Aitken took %d iterations, Gauss–Seidel %d: relaxation should need fewer", iters[AitkenGaussSeidel], iters[GaussSeidel])
@@ -221,8 +221,8 @@ func TestDivergentCoupling(t *testing.T) {
 		if !errors.As(err, &ce) {
 			t.Fatalf("%s: want a ConvergenceError, got %v", m, err)
 		}
-		if ce.Report.Converged || len(ce.Report.History) == 0 || len(ce.Report.Worst) == 0 {
-			t.Errorf("%s: report %+v", m, ce.Report)
+		if ce.CouplingReport.Converged || len(ce.CouplingReport.History) == 0 || len(ce.CouplingReport.Worst) == 0 {
+			t.Errorf("%s: report %+v", m, ce.CouplingReport)
 		}
 		if !strings.Contains(err.Error(), "d1") || !strings.Contains(err.Error(), "y1") {
 			t.Errorf("%s: message %q names neither the group nor the worst variable", m, err)
@@ -322,10 +322,10 @@ func TestNonConvergedWithinCap(t *testing.T) {
 		return w, w.Analyze(context.Background())
 	}()
 	var ce *ConvergenceError
-	if !errors.As(err, &ce) || ce.Report.Diverged || ce.Report.Iterations != 2 {
+	if !errors.As(err, &ce) || ce.CouplingReport.Diverged || ce.CouplingReport.CouplingIterations != 2 {
 		t.Fatalf("want not converged after 2 iterations, got %v", err)
 	}
-	if w.Reports()[0].Converged {
+	if w.CouplingReports()[0].Converged {
 		t.Error("workspace report says converged")
 	}
 }

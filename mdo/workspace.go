@@ -9,9 +9,9 @@ import (
 
 // Counters accumulate the work done by a Workspace.
 type Counters struct {
-	Analyses        int // calls of Analyze
-	DisciplineCalls int // calls of a discipline's Compute
-	Iterations      int // coupling iterations over all groups
+	Analyses           int // calls of Analyze
+	DisciplineCalls    int // calls of a discipline's Compute
+	CouplingIterations int // coupling iterations over all groups
 }
 
 // Workspace holds the values and scratch space of one analysis of a
@@ -25,7 +25,7 @@ type Workspace struct {
 	inBuf    [][]float64
 	outBuf   [][]float64
 	settings []SolverSettings
-	reports  []Report
+	reports  []CouplingReport
 	cnt      Counters
 	// scratch per group, sized to the largest group
 	y, gy, r, rPrev, scale []float64
@@ -65,7 +65,7 @@ func (s *System) NewWorkspace() *Workspace {
 			maxTear = len(g.tear)
 		}
 		if g.coupled {
-			rep := Report{Disciplines: g.names, Tolerance: w.settings[gi].Tolerance, Method: w.settings[gi].Method}
+			rep := CouplingReport{Disciplines: g.names, Tolerance: w.settings[gi].Tolerance, Method: w.settings[gi].Method}
 			rep.History = make([]float64, 0, w.settings[gi].MaxIterations+1)
 			rep.Worst = make([]VarResidual, 0, 3)
 			w.reports = append(w.reports, rep)
@@ -177,7 +177,7 @@ func (w *Workspace) SetSolver(set SolverSettings) error {
 // Reports returns the reports of the coupled groups from the last
 // Analyze, in execution order. They belong to the workspace: Clone one to
 // keep it.
-func (w *Workspace) Reports() []Report { return w.reports }
+func (w *Workspace) CouplingReports() []CouplingReport { return w.reports }
 
 // Counters returns the accumulated work counters.
 func (w *Workspace) Counters() Counters { return w.cnt }
@@ -412,7 +412,7 @@ const divergeLimit = 1e12
 // limit the disciplines never saw that value, so no state inside the
 // ranges closes the balance: solve returns a *NotClosingError naming the
 // variable and how far beyond the limit it runs.
-func (w *Workspace) solve(ctx context.Context, g *group, set SolverSettings, p solvePath, rep *Report) error {
+func (w *Workspace) solve(ctx context.Context, g *group, set SolverSettings, p solvePath, rep *CouplingReport) error {
 	nt := len(g.tear)
 	y, gy, r, rPrev, scale := w.y[:nt], w.gy[:nt], w.r[:nt], w.rPrev[:nt], w.scale[:nt]
 	copy(scale, g.scale)
@@ -422,7 +422,7 @@ func (w *Workspace) solve(ctx context.Context, g *group, set SolverSettings, p s
 	rep.Method = set.Method
 	rep.Tolerance = set.Tolerance
 	rep.Converged, rep.Diverged = false, false
-	rep.Iterations = 0
+	rep.CouplingIterations = 0
 	rep.History = rep.History[:0]
 	rep.Worst = rep.Worst[:0]
 	rep.Residual = math.Inf(1)
@@ -430,8 +430,8 @@ func (w *Workspace) solve(ctx context.Context, g *group, set SolverSettings, p s
 
 	if w.onceMode {
 		err := w.sweep(g, true, true)
-		rep.Iterations = 1
-		w.cnt.Iterations++
+		rep.CouplingIterations = 1
+		w.cnt.CouplingIterations++
 		if err != nil {
 			return err
 		}
@@ -465,10 +465,10 @@ func (w *Workspace) solve(ctx context.Context, g *group, set SolverSettings, p s
 				norm = a
 			}
 		}
-		rep.Iterations = it
+		rep.CouplingIterations = it
 		rep.Residual = norm
 		rep.History = append(rep.History, norm)
-		w.cnt.Iterations++
+		w.cnt.CouplingIterations++
 		if norm <= set.Tolerance {
 			rep.Converged = true
 			w.fillWorst(g, r, rep)
@@ -511,7 +511,7 @@ func (w *Workspace) solve(ctx context.Context, g *group, set SolverSettings, p s
 	if err := w.closure(g, p); err != nil {
 		return err
 	}
-	return &ConvergenceError{Report: rep.Clone()}
+	return &ConvergenceError{CouplingReport: rep.Clone()}
 }
 
 // closure checks the coupling variables of group g against the ranges of
@@ -566,7 +566,7 @@ func (w *Workspace) loopError(g *group, err error, p solvePath) error {
 }
 
 // fillWorst records the three coupling variables with the largest residual.
-func (w *Workspace) fillWorst(g *group, r []float64, rep *Report) {
+func (w *Workspace) fillWorst(g *group, r []float64, rep *CouplingReport) {
 	rep.Worst = rep.Worst[:0]
 	used := [3]int{-1, -1, -1}
 	for n := 0; n < 3 && n < len(r); n++ {

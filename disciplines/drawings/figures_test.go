@@ -75,8 +75,8 @@ func TestAircraftFiguresOfBestDesign(t *testing.T) {
 			t.Errorf("re-analysed %s = %g, recorded %g", name, got, want)
 		}
 	}
-	if len(sol.Reports) == 0 || !sol.Reports[0].Converged || len(sol.Reports[0].History) == 0 {
-		t.Errorf("re-analysis reports %v: want a converged coupled group with its history", sol.Reports)
+	if len(sol.CouplingReports) == 0 || !sol.CouplingReports[0].Converged || len(sol.CouplingReports[0].History) == 0 {
+		t.Errorf("re-analysis reports %v: want a converged coupled group with its history", sol.CouplingReports)
 	}
 
 	get := func(name string) (float64, bool) { x, err := r.Lookup(name); return x, err == nil }

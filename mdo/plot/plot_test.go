@@ -100,8 +100,8 @@ func TestPlotsAreValidSVG(t *testing.T) {
 	if err := ws.Analyze(context.Background()); err != nil {
 		t.Fatal(err)
 	}
-	var reports []mdo.Report
-	for _, rep := range ws.Reports() {
+	var reports []mdo.CouplingReport
+	for _, rep := range ws.CouplingReports() {
 		reports = append(reports, rep.Clone())
 	}
 	tests := []struct {

@@ -18,7 +18,7 @@ import (
 // (scaled residual, infinity norm, on a logarithmic axis) against the
 // iteration, with each group's tolerance as a dashed line. Residuals that
 // are exactly zero cannot be drawn on the log axis and are left out.
-func Residuals(reports []mdo.Report) (*Figure, error) {
+func Residuals(reports []mdo.CouplingReport) (*Figure, error) {
 	if len(reports) == 0 {
 		return nil, fmt.Errorf("plot: Residuals needs at least one solver report (the system has no coupled group?)")
 	}
@@ -44,7 +44,7 @@ func Residuals(reports []mdo.Report) (*Figure, error) {
 		case !rep.Converged:
 			state = "not converged"
 		}
-		name := fmt.Sprintf("{%s} %s, %s in %d", strings.Join(rep.Disciplines, ", "), rep.Method, state, rep.Iterations)
+		name := fmt.Sprintf("{%s} %s, %s in %d", strings.Join(rep.Disciplines, ", "), rep.Method, state, rep.CouplingIterations)
 		if len(xys) == 0 {
 			continue
 		}
@@ -104,7 +104,7 @@ func BestResiduals(ctx context.Context, r *mdo.Result, st *mdo.Study) (*Figure, 
 	if err != nil {
 		return nil, err
 	}
-	return Residuals(shortGroupNames(sol.Reports))
+	return Residuals(shortGroupNames(sol.CouplingReports))
 }
 
 // Reanalyse runs the analysis of a result's best design once more (its
@@ -133,8 +133,8 @@ func Reanalyse(ctx context.Context, r *mdo.Result, st *mdo.Study) (*mdo.Solution
 // shortGroupNames returns copies of the reports whose groups of more
 // than two disciplines are named by their first and last member and
 // their size.
-func shortGroupNames(reports []mdo.Report) []mdo.Report {
-	out := make([]mdo.Report, len(reports))
+func shortGroupNames(reports []mdo.CouplingReport) []mdo.CouplingReport {
+	out := make([]mdo.CouplingReport, len(reports))
 	for i, r := range reports {
 		out[i] = r.Clone()
 		if n := len(r.Disciplines); n > 2 {

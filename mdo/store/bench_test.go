@@ -70,7 +70,7 @@ func syntheticEvalOf(e *mdo.Evaluation, i int, sh shape) {
 		e.Outputs[k] = f*0.1 + float64(k)/3
 	}
 	e.Feasible, e.Converged = i%3 != 0, true
-	e.Iterations, e.DisciplineCalls, e.Wall = 9, 27, 12345*time.Nanosecond
+	e.CouplingIterations, e.DisciplineCalls, e.Wall = 9, 27, 12345*time.Nanosecond
 }
 
 // BenchmarkRecord measures the cost of recording one evaluation for runs

@@ -43,7 +43,7 @@ func (c Columns) header() []string {
 		}
 		return " [" + unit + "]"
 	}
-	h := []string{"id", "feasible", "converged", "violation [-]", "error", "iterations", "discipline_calls", "wall_seconds [s]"}
+	h := []string{"id", "feasible", "converged", "violation [-]", "error", "coupling_iterations", "discipline_calls", "wall_seconds [s]"}
 	for _, d := range c.Design {
 		h = append(h, "design:"+sanitize(d.Name)+u(d.Unit))
 	}
@@ -109,7 +109,7 @@ func (x *csvWriter) flush() error {
 // appendRow formats one evaluation.
 func (c Columns) appendRow(row []string, e *mdo.Evaluation) []string {
 	row = append(row, strconv.Itoa(e.ID), strconv.FormatBool(e.Feasible), strconv.FormatBool(e.Converged),
-		formatFloat(e.Violation), e.Err, strconv.Itoa(e.Iterations), strconv.Itoa(e.DisciplineCalls), formatFloat(e.Wall.Seconds()))
+		formatFloat(e.Violation), e.Err, strconv.Itoa(e.CouplingIterations), strconv.Itoa(e.DisciplineCalls), formatFloat(e.Wall.Seconds()))
 	for _, xs := range [][]float64{e.Design, e.Objectives, e.Constraints, e.Margins} {
 		for _, x := range xs {
 			row = append(row, formatFloat(x))
@@ -169,9 +169,12 @@ func ReadCSV(r io.Reader) (Columns, []*mdo.Evaluation, error) {
 	if err != nil {
 		return Columns{}, nil, fmt.Errorf("store: reading the CSV header: %w", err)
 	}
-	fixed := []string{"id", "feasible", "converged", "violation [-]", "error", "iterations", "discipline_calls", "wall_seconds [s]"}
+	fixed := []string{"id", "feasible", "converged", "violation [-]", "error", "coupling_iterations", "discipline_calls", "wall_seconds [s]"}
 	if len(head) < len(fixed) {
 		return Columns{}, nil, fmt.Errorf("store: CSV header has %d columns, a case export has at least %d", len(head), len(fixed))
+	}
+	if head[5] == "iterations" {
+		head[5] = "coupling_iterations" // a file written before the column was renamed
 	}
 	for i, f := range fixed {
 		if head[i] != f {
@@ -274,7 +277,7 @@ func (c Columns) parseRow(rec, head []string) (*mdo.Evaluation, error) {
 	}
 	e.Violation = v[0]
 	e.Err = next()
-	if e.Iterations, err = integer(); err != nil {
+	if e.CouplingIterations, err = integer(); err != nil {
 		return nil, err
 	}
 	if e.DisciplineCalls, err = integer(); err != nil {

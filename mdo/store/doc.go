@@ -32,6 +32,7 @@
 //	          failure)               failure: the mdo.FailureClass of a
 //	                                failed analysis ('' otherwise; stores
 //	                                written before it read as '')
+//	                                (iterations: the coupling iterations)
 //	evaluations                     a view of evaluation_data with one column
 //	                                per value: "design:NAME"…,
 //	                                "objective:NAME"…, "constraint:NAME"…,

@@ -58,7 +58,7 @@ func (s *Store) Scan(fn func(*mdo.Evaluation) error) error {
 		}
 		e := &mdo.Evaluation{
 			ID: int(id), Feasible: feasible, Converged: converged, Violation: nullNaN(viol), Err: errText,
-			Iterations: int(iters), DisciplineCalls: int(calls), Wall: time.Duration(math.Round(wall * 1e9)),
+			CouplingIterations: int(iters), DisciplineCalls: int(calls), Wall: time.Duration(math.Round(wall * 1e9)),
 		}
 		if e.Failure, err = mdo.ParseFailureClass(failure); err != nil {
 			return fmt.Errorf("store: %s: evaluation %d: %v: %w", s.path, id, err, ErrDamaged)

@@ -331,7 +331,7 @@ func (s *Store) bind(rows []encRow) []driver.NamedValue {
 	for _, r := range rows {
 		e := r.e
 		s.add(int64(e.ID), e.Feasible, e.Converged, e.Violation, e.Err,
-			int64(e.Iterations), int64(e.DisciplineCalls), e.Wall.Seconds(), r.numbers, r.outputs, r.vectors, mdo.ClassOf(e).String())
+			int64(e.CouplingIterations), int64(e.DisciplineCalls), e.Wall.Seconds(), r.numbers, r.outputs, r.vectors, mdo.ClassOf(e).String())
 	}
 	return s.args
 }

@@ -43,7 +43,7 @@ func (s *Store) Result() (*mdo.Result, error) {
 			r.History = append(r.History, mdo.HistoryPoint{Evaluations: i + 1, Best: e.F[0], Violation: e.Violation, Feasible: e.Feasible})
 		}
 		r.DisciplineCalls += e.DisciplineCalls
-		r.CouplingIterations += e.Iterations
+		r.CouplingIterations += e.CouplingIterations
 		if !e.Converged {
 			r.Failed++
 		}

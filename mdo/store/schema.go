@@ -82,7 +82,8 @@ CREATE TABLE front (eval_id INTEGER PRIMARY KEY, rank INTEGER NOT NULL);
 `
 
 // fixedCols are the study-independent columns of the evaluations table,
-// in order.
+// in order. The column iterations holds the coupling iterations; the
+// evaluations view shows it as coupling_iterations.
 var fixedCols = []string{"id", "feasible", "converged", "violation", "error", "iterations", "discipline_calls", "wall_seconds"}
 
 // layout is the study-dependent part of the schema: the names, units and
@@ -171,7 +172,7 @@ func (l *layout) createEvaluations() string {
 	failure TEXT NOT NULL DEFAULT ''
 );
 CREATE VIEW evaluations AS SELECT d.id AS id, d.feasible AS feasible, d.converged AS converged, d.violation AS violation,
-	d.error AS error, d.failure AS failure, d.iterations AS iterations, d.discipline_calls AS discipline_calls, d.wall_seconds AS wall_seconds`)
+	d.error AS error, d.failure AS failure, d.iterations AS coupling_iterations, d.discipline_calls AS discipline_calls, d.wall_seconds AS wall_seconds`)
 	for k, c := range l.named() {
 		fmt.Fprintf(&b, ",\n\tjson_extract(d.numbers, '$[%d]') AS %s", k, quote(c))
 	}

@@ -79,7 +79,7 @@ func sameEvaluation(a, b *mdo.Evaluation) string {
 		return "Converged"
 	case a.Err != b.Err:
 		return "Err"
-	case a.Iterations != b.Iterations:
+	case a.CouplingIterations != b.CouplingIterations:
 		return "Iterations"
 	case a.DisciplineCalls != b.DisciplineCalls:
 		return "DisciplineCalls"
