@@ -190,7 +190,11 @@ func DesignChecklist(get func(name string) (float64, bool)) Checklist {
 			"the wing reaches past the end of the fuselage", commonPractice)
 	}
 	if v, ok := val("layout.tail_overhang"); ok {
-		band("tail tips behind the fuselage end", v[0], "m", math.Inf(-1), 0, "<= 0 (or a declared overhang)",
+		limit, text := 0.0, "<= 0 (or a declared overhang)"
+		if d, ok := val(DeclaredTailOverhang); ok {
+			limit, text = d[0], fmt.Sprintf("<= %g (the declared overhang)", d[0])
+		}
+		band("tail tips behind the fuselage end", v[0], "m", math.Inf(-1), limit, text,
 			"swept tail tips reach past the fuselage end: declare it or constrain it", commonPractice)
 	}
 	if v, ok := val("cabin.seats_abreast", "cabin.aisles"); ok {
@@ -218,6 +222,13 @@ func DesignChecklist(get func(name string) (float64, bool)) Checklist {
 	return c
 }
 
+// DeclaredTailOverhang is the name under which DesignChecklist reads the
+// declared overhang of the tail tips behind the fuselage end [m] (the
+// tail-overhang row then flags only what exceeds it). ResultChecklists
+// gives it the bound of the study's constraint on layout.tail_overhang
+// (LayoutConstraints).
+const DeclaredTailOverhang = "layout.declared_tail_overhang"
+
 // LabelledChecklist is the checklist of one design of a result.
 type LabelledChecklist struct {
 	Label string // "best design #ID" or "front design #ID"
@@ -241,17 +252,28 @@ func (c Checklists) String() string {
 
 // ResultChecklists returns the designer's checklist of a result's best
 // design and of each design on its front (values from the result's
-// recorded outputs); nil for a result that is not of an aircraft. In a
-// session, disciplines.ResultChecklists(result) shows them.
+// recorded outputs, and the tails' declared overhang from the result's
+// upper bound on layout.tail_overhang, if it has one); nil for a result
+// that is not of an aircraft. In a session,
+// disciplines.ResultChecklists(result) shows them.
 func ResultChecklists(r *mdo.Result) Checklists {
 	if r == nil {
 		return nil
+	}
+	declared, hasDeclared := 0.0, false
+	for _, c := range r.Constraints {
+		if c.Name == "layout.tail_overhang" && c.Func == nil && (c.Kind == mdo.LessEqual || c.Kind == mdo.InBand) {
+			declared, hasDeclared = c.Upper, true
+		}
 	}
 	of := func(e *mdo.Evaluation) Checklist {
 		if e == nil || len(e.Outputs) != len(r.Outputs) {
 			return nil
 		}
 		return DesignChecklist(func(name string) (float64, bool) {
+			if name == DeclaredTailOverhang {
+				return declared, hasDeclared
+			}
 			for i, v := range r.Outputs {
 				if v.Name == name {
 					return e.Outputs[i], true

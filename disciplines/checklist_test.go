@@ -130,6 +130,19 @@ func TestResultChecklistsBestAndFront(t *testing.T) {
 	}
 	r := &mdo.Result{Outputs: outs, Best: &mdo.Evaluation{ID: 7, Outputs: vals},
 		Front: []*mdo.Evaluation{{ID: 7, Outputs: vals}, {ID: 9, Outputs: tight}}}
+	// a declared overhang of the tail tips from the study's constraint
+	for i, v := range outs {
+		if v.Name == "layout.tail_overhang" {
+			vals[i] = 1.5
+		}
+	}
+	if f := ResultChecklists(r)[0].Flagged(); len(f) != 1 || f[0].Rule != "tail tips behind the fuselage end" {
+		t.Errorf("1.5 m overhang, none declared: flags %v", f)
+	}
+	r.Constraints = LayoutConstraints(2)
+	if f := ResultChecklists(r)[0].Flagged(); len(f) != 0 {
+		t.Errorf("1.5 m overhang, 2 m declared: flags %v", f)
+	}
 	got := ResultChecklists(r)
 	if len(got) != 3 || got[0].Label != "best design #7" || got[2].Label != "front design #9" {
 		t.Fatalf("checklists %v", got)

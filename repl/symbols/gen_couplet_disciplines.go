@@ -38,6 +38,7 @@ func init() {
 		"CorrectedFlowLapse":         reflect.ValueOf(disciplines.CorrectedFlowLapse),
 		"CriticalMach":               reflect.ValueOf(disciplines.CriticalMach),
 		"CutoffReynolds":             reflect.ValueOf(disciplines.CutoffReynolds),
+		"DeclaredTailOverhang":       reflect.ValueOf(constant.MakeFromLiteral("\"layout.declared_tail_overhang\"", token.STRING, 0)),
 		"DefaultAeroOptions":         reflect.ValueOf(disciplines.DefaultAeroOptions),
 		"DefaultAircraftConfig":      reflect.ValueOf(disciplines.DefaultAircraftConfig),
 		"DefaultGeometryOptions":     reflect.ValueOf(disciplines.DefaultGeometryOptions),
