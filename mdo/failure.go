@@ -17,7 +17,7 @@ const (
 	NotFailed FailureClass = iota
 	// DoesNotClose: the coupled problem has no solution inside the
 	// variables' validity ranges at this point — a balance (a mass, a
-	// thrust, a fuel fraction …) runs away to a limit of its range. The
+	// force, a fraction …) runs away to a limit of its range. The
 	// design is physically infeasible; the solver is not at fault.
 	DoesNotClose
 	// SolverFailed: the coupling solver, and every fallback, stopped

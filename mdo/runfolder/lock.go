@@ -34,8 +34,8 @@ func (e *BusyError) Error() string {
 // TakeLock locks dir (created if need be) for one run: an exclusive
 // flock on DIR/.couplet-lock, which then holds this process's number. A
 // folder another process (or another lock of this one) holds is a
-// *BusyError naming the holder. The lock file is opened without
-// following a symbolic link. Release ends the hold; so does the end of
+// *BusyError naming the holder. A lock file that is a symbolic link is
+// refused (opened with O_NOFOLLOW). Release ends the hold; so does the end of
 // the process.
 func TakeLock(dir string) (*Lock, error) {
 	if err := os.MkdirAll(dir, 0o755); err != nil {
