@@ -130,7 +130,9 @@ type CycleResult struct {
 	ExitVelocity     float64 // V9 [m/s]
 	ExitTemperature  float64 // T9 [K]
 	InletRecovery    float64 // πd = πd,max·ηr
-	RamTempRatio     float64 // τr
+	//lint:ignore ST1003 "ram" is the ram compression of the inlet, not the initialism RAM
+	RamTempRatio float64 // τr
+	//lint:ignore ST1003 "ram" is the ram compression of the inlet, not the initialism RAM
 	RamPressureRatio float64 // πr
 	FlightVelocity   float64 // V0 [m/s]
 }
