@@ -295,7 +295,7 @@ func (s *Session) cmdReport(ctx context.Context, arg string) bool {
 		fmt.Fprintf(s.opts.Stderr, "%sreport: %v\n", CommandPrefix, err)
 		return false
 	}
-	if _, err := s.opts.Outputs.WriteRun(ctx, s.opts.OutDir, s.Script(), r); err != nil {
+	if _, err := s.opts.Outputs.writeRun(ctx, s.opts.OutDir, s.Script(), r); err != nil {
 		fmt.Fprintf(s.opts.Stderr, "%sreport: %v\n", CommandPrefix, err)
 		return false
 	}

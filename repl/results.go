@@ -171,10 +171,10 @@ func (r *runRecorder) End(res *mdo.Result) error {
 	return err
 }
 
-// WriteRun writes the run folder of a result into dir with
+// writeRun writes the run folder of a result into dir with
 // report.WriteRun, from the store that recorded it and the study of its
 // name, and returns the files written.
-func (o *RunOutputs) WriteRun(ctx context.Context, dir, script string, r *mdo.Result) ([]string, error) {
+func (o *RunOutputs) writeRun(ctx context.Context, dir, script string, r *mdo.Result) ([]string, error) {
 	o.mu.Lock()
 	st := o.ended[r]
 	study := o.studies[r.Study]

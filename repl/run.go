@@ -86,7 +86,7 @@ func Run(ctx context.Context, opts RunOptions) (*RunRecord, error) {
 	if err != nil {
 		return nil, &UsageError{Err: fmt.Errorf("%s: %w", opts.File, err)}
 	}
-	lock, err := guardFolder(opts)
+	lock, err := guardFolder(opts, "--pick-up continues it if it was interrupted, --replace clears its files and runs afresh, or choose another folder")
 	if err != nil {
 		return nil, err
 	}
@@ -163,7 +163,7 @@ func Run(ctx context.Context, opts RunOptions) (*RunRecord, error) {
 	}
 	sum := store.NewSummary(rec.Result, store.SummaryOptions{Script: rec.Script, ToolVersion: toolVersion()})
 	rec.Summary = &sum
-	if _, err := outs.WriteRun(ctx, opts.OutDir, rec.Script, rec.Result); err != nil {
+	if _, err := outs.writeRun(ctx, opts.OutDir, rec.Script, rec.Result); err != nil {
 		return rec, fmt.Errorf("writing the run's output: %w", err)
 	}
 	if r := rec.Result; r.Evaluations > 0 && r.Failed == r.Evaluations {
@@ -195,7 +195,7 @@ func writeEarlier(ctx context.Context, s *Session, outs *RunOutputs, opts RunOpt
 	rec.Summary = &sum
 	// the run's own deadline or cancellation has passed: the folder is
 	// written all the same
-	if _, err := outs.WriteRun(context.WithoutCancel(ctx), opts.OutDir, rec.Script, r); err != nil {
+	if _, err := outs.writeRun(context.WithoutCancel(ctx), opts.OutDir, rec.Script, r); err != nil {
 		return fmt.Errorf("%w; writing the output of the earlier result: %v", runErr, err)
 	}
 	fmt.Fprintf(errw, "%s: the result handed over before the run stopped (study %s, best #%s) is written into %s\n", opts.File, r.Study, bestID(r), opts.OutDir)
@@ -215,7 +215,7 @@ func bestID(r *mdo.Result) string {
 // folder holding an earlier run is refused unless PickUp continues it or
 // Replace clears it first; PickUp into a folder with no case store is
 // refused. Every refusal is a *UsageError.
-func guardFolder(opts RunOptions) (*runfolder.Lock, error) {
+func guardFolder(opts RunOptions, choices string) (*runfolder.Lock, error) {
 	if opts.PickUp && opts.Replace {
 		return nil, &UsageError{Err: fmt.Errorf("--pick-up continues the run in %s and --replace clears it: choose one", opts.OutDir)}
 	}
@@ -239,7 +239,7 @@ func guardFolder(opts RunOptions) (*runfolder.Lock, error) {
 		}
 	case !opts.PickUp && len(found) > 0:
 		lock.Release()
-		return nil, &UsageError{Err: fmt.Errorf("%s holds another run (%s); --pick-up continues it if it was interrupted, --replace clears its files and runs afresh, or choose another folder", opts.OutDir, listFiles(found))}
+		return nil, &UsageError{Err: fmt.Errorf("%s holds another run (%s); %s", opts.OutDir, listFiles(found), choices)}
 	}
 	return lock, nil
 }

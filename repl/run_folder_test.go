@@ -261,7 +261,7 @@ func TestFolderInUse(t *testing.T) {
 		t.Fatal(err)
 	}
 	_, err = runInto(t, context.Background(), file, dir, nil)
-	usageErr(t, "a concurrent run", err, "in use by another run", "process "+itoa(os.Getpid()))
+	usageErr(t, "a concurrent run", err, "in use by another run", "process "+strconv.Itoa(os.Getpid()))
 	if err := lock.Release(); err != nil {
 		t.Fatal(err)
 	}
@@ -269,9 +269,6 @@ func TestFolderInUse(t *testing.T) {
 		t.Fatalf("after the first run ended: %v\n%s", err, stderr)
 	}
 }
-
-// itoa formats an int.
-func itoa(n int) string { return strconv.Itoa(n) }
 
 // Nothing the tool or the script writes goes through a symbolic link: a
 // link named like a script's file or a tool's file is replaced, its
@@ -315,4 +312,33 @@ for _, name := range []string{"summary.json", "results.db", "results.db-journal"
 		}
 	}
 	wantBest(t, dir)
+}
+
+// A session that makes its own outputs holds its folder like a run: a
+// second session into it is refused, naming the process; a folder holding
+// an earlier run is refused unless ReplaceOld clears it; Close frees it.
+func TestSessionHoldsItsFolder(t *testing.T) {
+	dir := t.TempDir()
+	s, err := NewSession(Options{OutDir: dir})
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, err = NewSession(Options{OutDir: dir})
+	usageErr(t, "a second session", err, "in use by another run", "process "+strconv.Itoa(os.Getpid()))
+	if err := s.Close(); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(filepath.Join(dir, "summary.json"), []byte("{}"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	_, err = NewSession(Options{OutDir: dir})
+	usageErr(t, "a session into an old run", err, "holds another run (summary.json)", "--replace")
+	s, err = NewSession(Options{OutDir: dir, ReplaceOld: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer s.Close()
+	if _, err := os.Stat(filepath.Join(dir, "summary.json")); err == nil {
+		t.Error("ReplaceOld left the old run's summary.json")
+	}
 }

@@ -16,6 +16,7 @@ import (
 	"github.com/traefik/yaegi/interp"
 
 	"couplet/mdo"
+	"couplet/mdo/runfolder"
 	"couplet/repl/cell"
 	"couplet/repl/symbols"
 	"couplet/repl/symbols/trusted"
@@ -44,8 +45,14 @@ type Options struct {
 	Recorder func(st *mdo.Study) (mdo.Recorder, error)
 	// Outputs, if not nil, records the attached studies and writes the
 	// report on demand (@report); with OutDir set and neither Recorder
-	// nor Outputs given, the session makes its own.
+	// nor Outputs given, the session makes its own, and holds the
+	// folder's lock while it lives: a folder another run or session
+	// holds, or one holding an earlier run, is refused (a *UsageError)
+	// unless ReplaceOld clears the earlier run's files first.
 	Outputs *RunOutputs
+	// ReplaceOld clears the files of the run OutDir holds before the
+	// session makes its own outputs there (see runfolder.Clear).
+	ReplaceOld bool
 	// Script, if not empty, is the whole study file a headless run
 	// replays: the identity every attached study records (Study.Script)
 	// and a pick-up compares. Empty means the cells run so far, the
@@ -97,6 +104,8 @@ type Session struct {
 	cancelSoft context.CancelFunc
 	cancelHard context.CancelFunc
 	interrupts int
+
+	lock *runfolder.Lock // the output folder's, when the session made its outputs
 }
 
 // NewSession starts a session with a fresh interpreter.
@@ -110,14 +119,20 @@ func NewSession(opts Options) (*Session, error) {
 	if opts.Grace <= 0 {
 		opts.Grace = 2 * time.Second
 	}
+	var lock *runfolder.Lock
 	if opts.Outputs == nil && opts.Recorder == nil && opts.OutDir != "" {
+		var err error
+		if lock, err = guardFolder(RunOptions{OutDir: opts.OutDir, Replace: opts.ReplaceOld}, "--replace clears its files first, or choose another folder"); err != nil {
+			return nil, err
+		}
 		opts.Outputs = NewRunOutputs(opts.OutDir)
 	}
 	if opts.Recorder == nil && opts.Outputs != nil {
 		opts.Recorder = opts.Outputs.Recorder
 	}
-	s := &Session{opts: opts}
+	s := &Session{opts: opts, lock: lock}
 	if err := s.reset(); err != nil {
+		lock.Release()
 		return nil, err
 	}
 	return s, nil
@@ -162,12 +177,18 @@ func (s *Session) progressFor() func(string) func(mdo.Progress) {
 	return s.opts.Progress.For
 }
 
-// Close closes the session's case stores.
+// Close closes the session's case stores and releases its output
+// folder.
 func (s *Session) Close() error {
-	if s.opts.Outputs == nil {
-		return nil
+	var err error
+	if s.opts.Outputs != nil {
+		err = s.opts.Outputs.Close()
 	}
-	return s.opts.Outputs.Close()
+	if lerr := s.lock.Release(); err == nil {
+		err = lerr
+	}
+	s.lock = nil
+	return err
 }
 
 // Env returns the session's cell environment (published results, seed).

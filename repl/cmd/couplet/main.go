@@ -58,7 +58,7 @@ func flagSet(name string, st *settings) *flag.FlagSet {
 	fs.BoolVar(&st.trust, strings.TrimPrefix(repl.TrustFlag, "--"), false, "lift the sandbox: the script may use files and processes (trusted scripts only)")
 	fs.BoolVar(&st.quiet, "quiet", false, "do not echo the cells' output (run only)")
 	fs.BoolVar(&st.pickUp, "pick-up", false, "continue the results.db an interrupted run of the same study file and seed left in --out; any change to the file is refused (run only)")
-	fs.BoolVar(&st.replace, "replace", false, "clear every file of the run --out holds, then run afresh (run only)")
+	fs.BoolVar(&st.replace, "replace", false, "clear every file of the run --out holds, then run afresh")
 	return fs
 }
 
@@ -285,7 +285,7 @@ func interactive(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	term := isTerminal(stdin) && isTerminal(stdout)
 	opts := repl.Options{
 		Policy: repl.Policy{Trusted: st.trust}, Stdout: stdout, Stderr: stderr,
-		OutDir: st.out, Seed: seed, SeedSet: seedSet,
+		OutDir: st.out, Seed: seed, SeedSet: seedSet, ReplaceOld: st.replace,
 	}
 	if term {
 		opts.Progress = repl.NewProgress(stdout)
@@ -293,6 +293,10 @@ func interactive(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	s, err := repl.NewSession(opts)
 	if err != nil {
 		fmt.Fprintln(stderr, "couplet:", err)
+		var ue *repl.UsageError
+		if errors.As(err, &ue) {
+			return 2
+		}
 		return 1
 	}
 	defer s.Close()
