@@ -125,7 +125,7 @@ func TestForwardSweptBusinessJet(t *testing.T) {
 	}
 	s.Design = append(s.Design, mdo.Continuous("wing.position", 0.4, 0.65))
 	s.Constraints = append(s.Constraints, mdo.AtLeast("stability.divergence_margin", 0))
-	res, err := ParticleSwarm{Population: 30, Generations: 40}.Minimize(context.Background(), s)
+	res, err := ParticleSwarm{Evolution: Evolution{Population: 30, Generations: 40}}.Minimize(context.Background(), s)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -150,7 +150,7 @@ func TestBusinessJetFront(t *testing.T) {
 	s.Name = "business jet, mass against field length"
 	s.Objectives = []mdo.Objective{mdo.Minimize("mass.takeoff"), mdo.Minimize("perf.takeoff_field_length")}
 	s.Constraints = s.Constraints[:1] // the range
-	res, err := NSGA2{Population: 40, Generations: 25}.Minimize(context.Background(), s)
+	res, err := NSGA2{Evolution: Evolution{Population: 40, Generations: 25}}.Minimize(context.Background(), s)
 	if err != nil {
 		t.Fatal(err)
 	}

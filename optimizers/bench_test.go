@@ -20,7 +20,7 @@ func benchGA(b *testing.B, mk func() (*mdo.Study, error), workers int) {
 			b.Fatal(err)
 		}
 		s.Workers, s.Seed, s.CacheLimit = workers, 1, -1
-		if _, err := (GA{Population: 64, Generations: 5}).Minimize(context.Background(), s); err != nil {
+		if _, err := (GA{Evolution: Evolution{Population: 64, Generations: 5}}).Minimize(context.Background(), s); err != nil {
 			b.Fatal(err)
 		}
 	}

@@ -39,7 +39,7 @@ func optimumCases() []optimumCase {
 		{"g06/Nelder-Mead", G06, NelderMead{}, G06Optimum, 1e-3, true, cec + ", g06"},
 		{"g06/CMA-ES", G06, CMAES{}, G06Optimum, 1e-3, true, cec + ", g06"},
 		{"g06/Nelder-Mead, quadratic penalty", G06, NelderMead{Penalty: Penalty{Method: QuadraticPenalty}}, G06Optimum, 1e-3, true, cec + ", g06"},
-		{"g06/PSO", G06, ParticleSwarm{Repair: Reflect, Generations: 400}, G06Optimum, 1e-3, true, cec + ", g06"},
+		{"g06/PSO", G06, ParticleSwarm{Evolution: Evolution{Generations: 400}, Repair: Reflect}, G06Optimum, 1e-3, true, cec + ", g06"},
 		// g08: within 1e-3 of f* = −0.0958250, taken relative (1e-4 absolute)
 		{"g08/Nelder-Mead", G08, NelderMead{}, G08Optimum, 1e-3, true, cec + ", g08"},
 		{"g08/CMA-ES", G08, CMAES{}, G08Optimum, 1e-3, true, cec + ", g08"},

@@ -19,9 +19,9 @@ func TestBudgetCountsEvaluations(t *testing.T) {
 		integer bool
 	}{
 		{"Nelder-Mead", NelderMead{MaxEvaluations: 300}, 300, false},
-		{"GA", GA{Population: 20, MaxEvaluations: 150}, 150, false},
-		{"particle swarm", ParticleSwarm{Population: 20, MaxEvaluations: 150}, 150, false},
-		{"GA on integers", GA{Population: 20, MaxEvaluations: 150}, 150, true},
+		{"GA", GA{Evolution: Evolution{Population: 20, MaxEvaluations: 150}}, 150, false},
+		{"particle swarm", ParticleSwarm{Evolution: Evolution{Population: 20, MaxEvaluations: 150}}, 150, false},
+		{"GA on integers", GA{Evolution: Evolution{Population: 20, MaxEvaluations: 150}}, 150, true},
 	}
 	for _, tc := range tests {
 		s, err := SellarMDF()

@@ -82,8 +82,8 @@ func (c *countingStudy) study(cancel func()) (*mdo.Study, error) {
 // at that moment: no batch is finished after the cancel.
 func TestCancelStopsAnalysing(t *testing.T) {
 	for _, o := range []Optimizer{
-		NelderMead{}, CMAES{}, GA{Generations: 10000}, DifferentialEvolution{Generations: 10000},
-		ParticleSwarm{Generations: 10000}, NSGA2{Generations: 10000}, LatinHypercube{Samples: 20000},
+		NelderMead{}, CMAES{}, GA{Evolution: Evolution{Generations: 10000}}, DifferentialEvolution{Evolution: Evolution{Generations: 10000}},
+		ParticleSwarm{Evolution: Evolution{Generations: 10000}}, NSGA2{Evolution: Evolution{Generations: 10000}}, LatinHypercube{Samples: 20000},
 	} {
 		t.Run(o.Name(), func(t *testing.T) {
 			ctx, cancel := context.WithCancel(context.Background())
@@ -143,7 +143,7 @@ func TestDeadline(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	res, err := GA{Generations: 10000}.Minimize(ctx, s)
+	res, err := GA{Evolution: Evolution{Generations: 10000}}.Minimize(ctx, s)
 	if err != nil {
 		t.Fatal(err)
 	}

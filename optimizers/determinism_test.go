@@ -13,10 +13,10 @@ func allOptimizers() []Optimizer {
 	return []Optimizer{
 		NelderMead{MaxEvaluations: 600},
 		CMAES{MaxEvaluations: 600},
-		GA{Population: 20, Generations: 15},
-		DifferentialEvolution{Population: 20, Generations: 15},
-		ParticleSwarm{Population: 20, Generations: 15},
-		NSGA2{Population: 20, Generations: 15},
+		GA{Evolution: Evolution{Population: 20, Generations: 15}},
+		DifferentialEvolution{Evolution: Evolution{Population: 20, Generations: 15}},
+		ParticleSwarm{Evolution: Evolution{Population: 20, Generations: 15}},
+		NSGA2{Evolution: Evolution{Population: 20, Generations: 15}},
 		RandomDesign{Samples: 50, BatchSize: 16},
 		LatinHypercube{Samples: 50, BatchSize: 16},
 		Halton{Samples: 50, BatchSize: 16},
@@ -91,8 +91,8 @@ func TestSameSeedSameResultAnyWorkers(t *testing.T) {
 		})
 	}
 	// under IDF, through the ε-level comparison and the gradient repairs
-	for _, o := range []Optimizer{GA{Population: 20, Generations: 10}, DifferentialEvolution{Population: 20, Generations: 10},
-		ParticleSwarm{Population: 20, Generations: 10}, CMAES{MaxEvaluations: 800}, NelderMead{MaxEvaluations: 300}} {
+	for _, o := range []Optimizer{GA{Evolution: Evolution{Population: 20, Generations: 10}}, DifferentialEvolution{Evolution: Evolution{Population: 20, Generations: 10}},
+		ParticleSwarm{Evolution: Evolution{Population: 20, Generations: 10}}, CMAES{MaxEvaluations: 800}, NelderMead{MaxEvaluations: 300}} {
 		var res [2]*mdo.Result
 		for i, w := range []int{1, 2} {
 			s, err := SellarIDF()
@@ -116,7 +116,7 @@ func TestSameSeedSameResultAnyWorkers(t *testing.T) {
 			t.Fatal(err)
 		}
 		s.Seed, s.Workers = 3, w
-		if res[i], err = (NSGA2{Population: 24, Generations: 10}).Minimize(context.Background(), s); err != nil {
+		if res[i], err = (NSGA2{Evolution: Evolution{Population: 24, Generations: 10}}).Minimize(context.Background(), s); err != nil {
 			t.Fatal(err)
 		}
 	}
@@ -127,7 +127,7 @@ func TestSameSeedSameResultAnyWorkers(t *testing.T) {
 
 // A different seed changes a stochastic method's path.
 func TestSeedMatters(t *testing.T) {
-	for _, o := range []Optimizer{GA{Population: 20, Generations: 5}, CMAES{MaxEvaluations: 200}, RandomDesign{Samples: 20}} {
+	for _, o := range []Optimizer{GA{Evolution: Evolution{Population: 20, Generations: 5}}, CMAES{MaxEvaluations: 200}, RandomDesign{Samples: 20}} {
 		var ids [2]int
 		var x [2][]float64
 		for i, seed := range []uint64{1, 2} {

@@ -16,23 +16,10 @@ import (
 // rules. Integer design variables are searched as continuous coordinates
 // that the Evaluator rounds. Zero values take the defaults.
 type DifferentialEvolution struct {
-	// Population is the number of agents; default 10 per variable, at
-	// least 20 and at most 100.
-	Population int
-	// Generations after the first population; default 200.
-	Generations int
-	// MaxEvaluations caps the evaluations (0: no cap besides
-	// Generations); a generation that would pass it is not run.
-	// GradientRate is the probability that an infeasible offspring of a
-	// study with an equality constraint gets the gradient-based mutation
-	// (up to 3 forward-difference Newton steps on its constraint
-	// residuals); default 0.05, negative for none.
-	GradientRate float64
-	// Relax is the fraction of the generations during which constraints
-	// are relaxed by the ε-level comparison; default 0.5, negative for
-	// Deb's rules throughout.
-	Relax          float64
-	MaxEvaluations int
+	// Evolution: Population is the number of agents, default 10 per
+	// variable, at least 20 and at most 100.
+	Evolution
+	EqualityHandling
 	// Weight is the differential weight F; default 0.5.
 	Weight float64
 	// CrossoverRate is the binomial crossover rate CR; default 0.9.
@@ -47,10 +34,10 @@ func (DifferentialEvolution) Name() string { return "differential evolution" }
 // validate checks the settings.
 func (o DifferentialEvolution) validate() error {
 	const m = "DifferentialEvolution"
-	if err := checkBudget(m, o.Population, 4, o.Generations, o.MaxEvaluations); err != nil {
+	if err := o.Evolution.validate(m, 4); err != nil {
 		return err
 	}
-	if err := checkEquality(m, o.GradientRate, o.Relax); err != nil {
+	if err := o.EqualityHandling.validate(m); err != nil {
 		return err
 	}
 	if err := checkRange(m, "Weight", o.Weight, 0, 2, true); err != nil {
@@ -67,7 +54,7 @@ func (o DifferentialEvolution) Minimize(ctx context.Context, s *mdo.Study) (*mdo
 	if err := o.validate(); err != nil {
 		return nil, err
 	}
-	e, err := newEngine(ctx, s, o.Name(), o, o.MaxEvaluations, o.GradientRate, o.Relax)
+	e, err := newEngine(ctx, s, o.Name(), o, o.Evolution, o.EqualityHandling)
 	if err != nil {
 		return nil, err
 	}

@@ -61,7 +61,7 @@ func countRuns() []countRun {
 			countRun{p.name, p.study, p.want, p.tol, p.rel, GA{}, false},
 			countRun{p.name, p.study, p.want, p.tol, p.rel, DifferentialEvolution{}, false},
 			countRun{p.name, p.study, p.want, p.tol, p.rel, ParticleSwarm{}, false},
-			countRun{p.name, p.study, p.want, p.tol, p.rel, ParticleSwarm{Repair: Reflect, Generations: 400}, false},
+			countRun{p.name, p.study, p.want, p.tol, p.rel, ParticleSwarm{Evolution: Evolution{Generations: 400}, Repair: Reflect}, false},
 		)
 	}
 	return runs

@@ -79,7 +79,7 @@ var errStop = errors.New("optimizers: evolution stopped")
 // study, refuses several objectives, sets the evaluation budget and the
 // equality handling (gradient-based mutation rate and ε-level
 // relaxation, as the methods' settings give them).
-func newEngine(ctx context.Context, s *mdo.Study, name string, settings any, maxEvals int, gradRate, relax float64) (*engine, error) {
+func newEngine(ctx context.Context, s *mdo.Study, name string, settings any, evo Evolution, eq EqualityHandling) (*engine, error) {
 	r, err := begin(ctx, s, name, settings)
 	if err != nil {
 		return nil, err
@@ -87,8 +87,8 @@ func newEngine(ctx context.Context, s *mdo.Study, name string, settings any, max
 	if err := r.refuseMultiObjective(); err != nil {
 		return nil, err
 	}
-	r.maxEvals = maxEvals
-	return &engine{r: r, relax: relaxFraction(relax), grad: newGradientRepair(gradientRate(gradRate), r.ev.Constraints())}, nil
+	r.maxEvals = evo.MaxEvaluations
+	return &engine{r: r, relax: eq.relaxFraction(), grad: newGradientRepair(eq.gradientRate(), r.ev.Constraints())}, nil
 }
 
 // engine ties eaopt's GA to a run.
@@ -182,19 +182,23 @@ func (e *engine) nextEpsilon() {
 }
 
 // rank sorts members best first by the current comparison.
-func (e *engine) rank(ms []*member) { rankMembers(ms, e.eps) }
+func (e *engine) rank(ms []*member) {
+	rankBy(ms, e.eps, func(m *member) *mdo.Evaluation { return m.ev })
+}
 
-// better reports whether a is at least as good as b by the current
+// notWorse reports whether a is at least as good as b by the current
 // comparison.
 func (e *engine) notWorse(a, b *mdo.Evaluation) bool { return compareEps(a, b, e.eps) <= 0 }
 
-// rankMembers sorts members best first by the ε-level comparison (Deb's
-// rules for eps = 0), stable, and sets their ranks.
-func rankMembers(ms []*member, eps float64) {
+// rankBy is the ranking of every single-objective evolutionary method: it
+// sorts members best first by the ε-level comparison (Deb's rules for
+// eps = 0) of the evaluation key gives (a member's own, or a particle's
+// personal best), stable, and sets their ranks.
+func rankBy(ms []*member, eps float64, key func(*member) *mdo.Evaluation) {
 	evs := make([]*mdo.Evaluation, len(ms))
 	idx := make([]int, len(ms))
 	for i, m := range ms {
-		evs[i] = m.ev
+		evs[i] = key(m)
 		idx[i] = i
 	}
 	sortByDeb(idx, evs, eps)
@@ -287,18 +291,6 @@ func (e *engine) survivors(pop, off []*member, n int) []*member {
 	return out
 }
 
-// relaxFraction returns the ε-level fraction of the run: 0.5 by default,
-// none when negative.
-func relaxFraction(v float64) float64 {
-	switch {
-	case v == 0:
-		return 0.5
-	case v < 0:
-		return 0
-	}
-	return v
-}
-
 // hasEquality reports whether any constraint is an equality.
 func hasEquality(cs []mdo.Constraint) bool {
 	for _, c := range cs {
@@ -307,16 +299,4 @@ func hasEquality(cs []mdo.Constraint) bool {
 		}
 	}
 	return false
-}
-
-// gradientRate returns the gradient-mutation rate: 0.05 by default, none
-// when negative.
-func gradientRate(v float64) float64 {
-	switch {
-	case v == 0:
-		return 0.05
-	case v < 0:
-		return 0
-	}
-	return v
 }

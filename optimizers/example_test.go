@@ -70,7 +70,7 @@ func ExampleNSGA2() {
 		return
 	}
 	s.Seed = 1
-	res, err := optimizers.NSGA2{Population: 100, Generations: 200}.Minimize(context.Background(), s)
+	res, err := optimizers.NSGA2{Evolution: optimizers.Evolution{Population: 100, Generations: 200}}.Minimize(context.Background(), s)
 	if err != nil {
 		fmt.Println(err)
 		return

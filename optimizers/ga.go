@@ -16,23 +16,10 @@ import (
 // lost. Integer design variables are searched as continuous coordinates
 // that the Evaluator rounds. Zero values take the defaults.
 type GA struct {
-	// Population is the number of individuals; default 20 per variable,
-	// at least 40 and at most 200.
-	Population int
-	// Generations after the first population; default 200.
-	Generations int
-	// MaxEvaluations caps the evaluations (0: no cap besides
-	// Generations); a generation that would pass it is not run.
-	MaxEvaluations int
-	// GradientRate is the probability that an infeasible offspring of a
-	// study with an equality constraint gets the gradient-based mutation
-	// (up to 3 forward-difference Newton steps on its constraint
-	// residuals); default 0.05, negative for none.
-	GradientRate float64
-	// Relax is the fraction of the generations during which constraints
-	// are relaxed by the ε-level comparison; default 0.5, negative for
-	// Deb's rules throughout.
-	Relax float64
+	// Evolution: Population is the number of individuals, default 20 per
+	// variable, at least 40 and at most 200.
+	Evolution
+	EqualityHandling
 	// Tournament is the number of contestants per selection; default 2.
 	Tournament int
 	// CrossoverRate is the probability that a pair is crossed; default 0.9.
@@ -53,10 +40,10 @@ func (GA) Name() string { return "GA" }
 // validate checks the settings.
 func (o GA) validate() error {
 	const m = "GA"
-	if err := checkBudget(m, o.Population, 4, o.Generations, o.MaxEvaluations); err != nil {
+	if err := o.Evolution.validate(m, 4); err != nil {
 		return err
 	}
-	if err := checkEquality(m, o.GradientRate, o.Relax); err != nil {
+	if err := o.EqualityHandling.validate(m); err != nil {
 		return err
 	}
 	if err := checkInt(m, "Tournament", o.Tournament, 1); err != nil {
@@ -85,7 +72,7 @@ func (o GA) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error) {
 	if err := o.validate(); err != nil {
 		return nil, err
 	}
-	e, err := newEngine(ctx, s, o.Name(), o, o.MaxEvaluations, o.GradientRate, o.Relax)
+	e, err := newEngine(ctx, s, o.Name(), o, o.Evolution, o.EqualityHandling)
 	if err != nil {
 		return nil, err
 	}

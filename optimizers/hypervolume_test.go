@@ -50,7 +50,7 @@ func TestNSGA2ZDT1Hypervolume(t *testing.T) {
 		t.Fatal(err)
 	}
 	s.Seed = 1
-	res, err := NSGA2{Population: 100, Generations: 200}.Minimize(context.Background(), s)
+	res, err := NSGA2{Evolution: Evolution{Population: 100, Generations: 200}}.Minimize(context.Background(), s)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -19,14 +19,9 @@ import (
 // worse). Integer design variables are searched as continuous coordinates
 // that the Evaluator rounds. Zero values take the defaults.
 type NSGA2 struct {
-	// Population is the number of individuals (rounded up to even);
-	// default 100.
-	Population int
-	// Generations after the first population; default 200.
-	Generations int
-	// MaxEvaluations caps the evaluations (0: no cap besides
-	// Generations); a generation that would pass it is not run.
-	MaxEvaluations int
+	// Evolution: Population is the number of individuals (rounded up to
+	// even), default 100.
+	Evolution
 	// CrossoverRate is the probability that a pair is crossed; default 0.9.
 	CrossoverRate float64
 	// CrossoverIndex is the SBX distribution index ηc; default 15.
@@ -45,7 +40,7 @@ func (NSGA2) Name() string { return "NSGA-II" }
 // validate checks the settings.
 func (o NSGA2) validate() error {
 	const m = "NSGA2"
-	if err := checkBudget(m, o.Population, 4, o.Generations, o.MaxEvaluations); err != nil {
+	if err := o.Evolution.validate(m, 4); err != nil {
 		return err
 	}
 	if err := checkRange(m, "CrossoverRate", o.CrossoverRate, 0, 1, false); err != nil {
@@ -91,7 +86,7 @@ func (o NSGA2) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error) 
 	for i := range pop {
 		pop[i] = nsgaInd{x: xs[i], ev: evs[i]}
 	}
-	assignRankCrowding(pop)
+	rankFronts(pop)
 	r.iteration()
 	gens := or(o.Generations, 200)
 	stop = mdo.StopIterations
@@ -219,33 +214,29 @@ func crowdingDistance(evs []*mdo.Evaluation, front []int) []float64 {
 	return d
 }
 
-// assignRankCrowding sets rank and crowding of every individual.
-func assignRankCrowding(pop []nsgaInd) {
+// rankFronts is NSGA-II's ranking: it sets the rank (front number) and
+// the crowding distance within its front of every individual and returns
+// the fronts, best first.
+func rankFronts(pop []nsgaInd) [][]int {
 	evs := make([]*mdo.Evaluation, len(pop))
 	for i := range pop {
 		evs[i] = pop[i].ev
 	}
-	for r, f := range nonDominatedSort(evs) {
+	fronts := nonDominatedSort(evs)
+	for r, f := range fronts {
 		cd := crowdingDistance(evs, f)
 		for k, i := range f {
 			pop[i].rank, pop[i].crowd = r, cd[k]
 		}
 	}
+	return fronts
 }
 
 // selectNext keeps n of all front by front, the last front cut by
 // decreasing crowding distance.
 func selectNext(all []nsgaInd, n int) []nsgaInd {
-	evs := make([]*mdo.Evaluation, len(all))
-	for i := range all {
-		evs[i] = all[i].ev
-	}
 	next := make([]nsgaInd, 0, n)
-	for r, f := range nonDominatedSort(evs) {
-		cd := crowdingDistance(evs, f)
-		for k, i := range f {
-			all[i].rank, all[i].crowd = r, cd[k]
-		}
+	for _, f := range rankFronts(all) {
 		if len(next)+len(f) <= n {
 			for _, i := range f {
 				next = append(next, all[i])
@@ -263,6 +254,6 @@ func selectNext(all []nsgaInd, n int) []nsgaInd {
 		break
 	}
 	// crowding within the kept population, for the next tournaments
-	assignRankCrowding(next)
+	rankFronts(next)
 	return next
 }

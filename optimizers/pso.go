@@ -18,23 +18,11 @@ import (
 // variables are searched as continuous coordinates that the Evaluator
 // rounds. Zero values take the defaults.
 type ParticleSwarm struct {
-	// Population is the number of particles; default 10 per variable,
-	// at least 20 and at most 100.
-	Population int
-	// Generations after the first swarm; default 200.
-	Generations int
-	// MaxEvaluations caps the evaluations (0: no cap besides
-	// Generations); a generation that would pass it is not run.
-	// GradientRate is the probability that an infeasible offspring of a
-	// study with an equality constraint gets the gradient-based mutation
-	// (up to 3 forward-difference Newton steps on its constraint
-	// residuals); default 0.05, negative for none.
-	GradientRate float64
-	// Relax is the fraction of the generations during which constraints
-	// are relaxed by the ε-level comparison; default 0.5, negative for
-	// Deb's rules throughout.
-	Relax          float64
-	MaxEvaluations int
+	// Evolution: Population is the number of particles, default 10 per
+	// variable, at least 20 and at most 100; Generations count the swarms
+	// after the first.
+	Evolution
+	EqualityHandling
 	// Inertia is the constriction factor χ; default 0.7298.
 	Inertia float64
 	// Cognitive and Social are the acceleration coefficients c1, c2;
@@ -50,10 +38,10 @@ func (ParticleSwarm) Name() string { return "particle swarm" }
 // validate checks the settings.
 func (o ParticleSwarm) validate() error {
 	const m = "ParticleSwarm"
-	if err := checkBudget(m, o.Population, 2, o.Generations, o.MaxEvaluations); err != nil {
+	if err := o.Evolution.validate(m, 2); err != nil {
 		return err
 	}
-	if err := checkEquality(m, o.GradientRate, o.Relax); err != nil {
+	if err := o.EqualityHandling.validate(m); err != nil {
 		return err
 	}
 	if err := checkRange(m, "Inertia", o.Inertia, 0, 1, true); err != nil {
@@ -73,7 +61,7 @@ func (o ParticleSwarm) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result,
 	if err := o.validate(); err != nil {
 		return nil, err
 	}
-	e, err := newEngine(ctx, s, o.Name(), o, o.MaxEvaluations, o.GradientRate, o.Relax)
+	e, err := newEngine(ctx, s, o.Name(), o, o.Evolution, o.EqualityHandling)
 	if err != nil {
 		return nil, err
 	}
@@ -134,26 +122,9 @@ func (o ParticleSwarm) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result,
 				q.bestX = append([]float64(nil), q.x...)
 			}
 		}
-		rankByBest(next, e.eps)
+		rankBy(next, e.eps, func(p *member) *mdo.Evaluation { return p.best })
 		return next, nil
 	}
 	stop, err := e.evolve(n, or(o.Generations, 200), newRand(r.ev.Seed(), 3))
 	return r.finish(stop, err)
-}
-
-// rankByBest sorts particles best first by their personal bests.
-func rankByBest(ps []*member, eps float64) {
-	evs := make([]*mdo.Evaluation, len(ps))
-	idx := make([]int, len(ps))
-	for i, p := range ps {
-		evs[i] = p.best
-		idx[i] = i
-	}
-	sortByDeb(idx, evs, eps)
-	sorted := make([]*member, len(ps))
-	for k, i := range idx {
-		sorted[k] = ps[i]
-		sorted[k].rank = k
-	}
-	copy(ps, sorted)
 }

@@ -28,6 +28,13 @@ func settingsMap(settings any) map[string]string {
 			continue
 		}
 		f := v.Field(i)
+		if f.Kind() == reflect.Struct && t.Field(i).Anonymous {
+			// an embedded settings block: its fields read as the method's
+			for k, s := range settingsMap(f.Interface()) {
+				out[k] = s
+			}
+			continue
+		}
 		if f.Kind() == reflect.Struct {
 			for k, s := range settingsMap(f.Interface()) {
 				out[t.Field(i).Name+"."+k] = s
@@ -76,28 +83,4 @@ func or[T int | float64](v, def T) T {
 		return def
 	}
 	return v
-}
-
-// checkBudget checks the population and budget settings shared by the
-// population-based methods.
-func checkBudget(method string, population, minPopulation, generations, maxEvaluations int) error {
-	if err := checkInt(method, "Population", population, minPopulation); err != nil {
-		return err
-	}
-	if err := checkInt(method, "Generations", generations, 1); err != nil {
-		return err
-	}
-	return checkInt(method, "MaxEvaluations", maxEvaluations, 1)
-}
-
-// checkEquality checks the equality-handling settings (gradient-based
-// mutation rate and ε-level relaxation) of the evolutionary methods.
-func checkEquality(method string, gradientRate, relax float64) error {
-	if gradientRate > 1 || math.IsNaN(gradientRate) {
-		return settingError(method, "GradientRate", gradientRate, "must be at most 1 (0 means the default 0.05, negative means none)")
-	}
-	if relax > 1 || math.IsNaN(relax) {
-		return settingError(method, "Relax", relax, "must be at most 1 (0 means the default 0.5, negative means no relaxation)")
-	}
-	return nil
 }

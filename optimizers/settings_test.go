@@ -21,14 +21,14 @@ func TestSettingsValidation(t *testing.T) {
 		{NelderMead{Penalty: Penalty{Method: 7}}, []string{"NelderMead.Penalty.Method", "7", "AugmentedLagrangian or QuadraticPenalty"}},
 		{CMAES{Population: 1}, []string{"CMAES.Population", "1", ">= 2"}},
 		{CMAES{StepSize: -0.1}, []string{"CMAES.StepSize", "-0.1"}},
-		{GA{Population: 3}, []string{"GA.Population", "3", ">= 4"}},
+		{GA{Evolution: Evolution{Population: 3}}, []string{"GA.Population", "3", ">= 4"}},
 		{GA{CrossoverRate: 1.5}, []string{"GA.CrossoverRate", "1.5", "[0, 1]"}},
-		{GA{Population: 10, Tournament: 10}, []string{"GA.Tournament", "10", "less than Population"}},
-		{GA{Relax: 2}, []string{"GA.Relax", "2", "at most 1"}},
+		{GA{Evolution: Evolution{Population: 10}, Tournament: 10}, []string{"GA.Tournament", "10", "less than Population"}},
+		{GA{EqualityHandling: EqualityHandling{Relax: 2}}, []string{"GA.Relax", "2", "at most 1"}},
 		{DifferentialEvolution{Weight: 3}, []string{"DifferentialEvolution.Weight", "3", "(0, 2]"}},
 		{DifferentialEvolution{Repair: 5}, []string{"DifferentialEvolution.Repair", "5", "Clip or Reflect"}},
 		{ParticleSwarm{Inertia: 1.5}, []string{"ParticleSwarm.Inertia", "1.5"}},
-		{NSGA2{Generations: -2}, []string{"NSGA2.Generations", "-2"}},
+		{NSGA2{Evolution: Evolution{Generations: -2}}, []string{"NSGA2.Generations", "-2"}},
 		{NSGA2{MutationRate: -0.1}, []string{"NSGA2.MutationRate", "-0.1"}},
 		{RandomDesign{Samples: -5}, []string{"RandomDesign.Samples", "-5"}},
 		{LatinHypercube{BatchSize: -1}, []string{"LatinHypercube.BatchSize", "-1"}},
@@ -85,8 +85,8 @@ func TestIntegerVariables(t *testing.T) {
 			t.Errorf("%s: error %v, want a refusal naming the integer variable n_engines", o.Name(), err)
 		}
 	}
-	for _, o := range []Optimizer{GA{Population: 20, Generations: 10}, DifferentialEvolution{Population: 20, Generations: 10},
-		ParticleSwarm{Population: 20, Generations: 10}, NSGA2{Population: 20, Generations: 10}, LatinHypercube{Samples: 30}, FullFactorial{}} {
+	for _, o := range []Optimizer{GA{Evolution: Evolution{Population: 20, Generations: 10}}, DifferentialEvolution{Evolution: Evolution{Population: 20, Generations: 10}},
+		ParticleSwarm{Evolution: Evolution{Population: 20, Generations: 10}}, NSGA2{Evolution: Evolution{Population: 20, Generations: 10}}, LatinHypercube{Samples: 30}, FullFactorial{}} {
 		s, err := integerStudy()
 		if err != nil {
 			t.Fatal(err)
@@ -133,11 +133,30 @@ func TestBadStudy(t *testing.T) {
 	}
 }
 
-// The settings are recorded field by field.
+// The settings are recorded field by field; the fields of an embedded
+// settings block read as the method's own, a named block's with its name.
 func TestSettingsMap(t *testing.T) {
-	m := settingsMap(NelderMead{MaxEvaluations: 10, Penalty: Penalty{Weight: 5}})
-	if m["MaxEvaluations"] != "10" || m["Penalty.Weight"] != "5" {
-		t.Errorf("settings map %v", m)
+	tests := []struct {
+		name     string
+		settings any
+		want     map[string]string
+	}{
+		{"named block", NelderMead{MaxEvaluations: 10, Penalty: Penalty{Weight: 5}}, map[string]string{"MaxEvaluations": "10", "Penalty.Weight": "5"}},
+		{"embedded blocks", GA{Evolution: Evolution{Population: 30, MaxEvaluations: 900}, EqualityHandling: EqualityHandling{Relax: -1}, Tournament: 3},
+			map[string]string{"Population": "30", "Generations": "0", "MaxEvaluations": "900", "Relax": "-1", "GradientRate": "0", "Tournament": "3"}},
+	}
+	for _, tc := range tests {
+		m := settingsMap(tc.settings)
+		for k, v := range tc.want {
+			if m[k] != v {
+				t.Errorf("%s: settings[%q] = %q, want %q (map %v)", tc.name, k, m[k], v, m)
+			}
+		}
+		for k := range m {
+			if strings.HasPrefix(k, "Evolution.") || strings.HasPrefix(k, "EqualityHandling.") {
+				t.Errorf("%s: settings key %q names the embedded block", tc.name, k)
+			}
+		}
 	}
 }
 

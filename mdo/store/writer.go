@@ -5,7 +5,6 @@ import (
 	"fmt"
 	"sync"
 	"time"
-	"unsafe"
 
 	"couplet/mdo"
 )
@@ -54,15 +53,20 @@ type writer struct {
 // being committed, one being encoded.
 const encodedBatches = 2
 
-// encBatch is a batch of rows formatted for the inserts. The strings of
-// its rows are cut from arena without copies of their own; the driver
-// copies them into SQLite's memory when it binds them, before the
-// encoder reuses the arena.
+// encBatch is a batch of rows formatted for the inserts. The rows' JSON
+// arrays are formatted into arena and then copied once into a string
+// that the rows' numbers and outputs are cut from: one copy per batch,
+// none per row, and nothing that depends on the driver copying bound
+// text. The vectors blobs are cut from blobs; like any []byte argument,
+// the driver has bound them before the insert returns, and blobs is
+// reused only for the next batch, after this one's commit.
 type encBatch struct {
 	evs   []*mdo.Evaluation
 	rows  []encRow
 	its   []iterRow
 	arena []byte
+	blobs []byte
+	cuts  []rowCuts
 }
 
 // encRow is an evaluation with its numbers and outputs arrays and its
@@ -73,25 +77,36 @@ type encRow struct {
 	vectors          []byte
 }
 
+// rowCuts are the offsets of one row's parts: numbers in arena[start:mid],
+// outputs in arena[mid:end], vectors in blobs[blob:blobEnd].
+type rowCuts struct{ start, mid, end, blob, blobEnd int }
+
 // encode formats the rows of b.evs.
 func (b *encBatch) encode() {
 	b.rows = b.rows[:0]
+	b.cuts = b.cuts[:0]
 	b.arena = b.arena[:0]
+	b.blobs = b.blobs[:0]
 	for _, e := range b.evs {
-		start := len(b.arena)
+		c := rowCuts{start: len(b.arena), blob: len(b.blobs)}
 		b.arena = appendNumbers(b.arena, e.Design, e.Objectives, e.Constraints, e.Margins)
-		mid := len(b.arena)
+		c.mid = len(b.arena)
 		b.arena = appendNumbers(b.arena, e.Outputs)
-		end := len(b.arena)
+		c.end = len(b.arena)
 		for _, xs := range [3][]float64{e.X, e.F, e.G} {
-			b.arena = appendFloats(b.arena, xs)
+			b.blobs = appendFloats(b.blobs, xs)
 		}
-		// the arena may have moved: cut the row from where it is now
-		a := b.arena
+		c.blobEnd = len(b.blobs)
+		b.cuts = append(b.cuts, c)
+	}
+	// cut the rows once the buffers have stopped moving
+	text := string(b.arena)
+	for i, e := range b.evs {
+		c := b.cuts[i]
 		b.rows = append(b.rows, encRow{e: e,
-			numbers: unsafe.String(&a[start], mid-start),
-			outputs: unsafe.String(&a[mid], end-mid),
-			vectors: a[end:len(a):len(a)]})
+			numbers: text[c.start:c.mid],
+			outputs: text[c.mid:c.end],
+			vectors: b.blobs[c.blob:c.blobEnd:c.blobEnd]})
 	}
 }
 

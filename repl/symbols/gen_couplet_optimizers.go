@@ -36,6 +36,8 @@ func init() {
 		// type definitions
 		"CMAES":                 reflect.ValueOf((*optimizers.CMAES)(nil)),
 		"DifferentialEvolution": reflect.ValueOf((*optimizers.DifferentialEvolution)(nil)),
+		"EqualityHandling":      reflect.ValueOf((*optimizers.EqualityHandling)(nil)),
+		"Evolution":             reflect.ValueOf((*optimizers.Evolution)(nil)),
 		"FullFactorial":         reflect.ValueOf((*optimizers.FullFactorial)(nil)),
 		"GA":                    reflect.ValueOf((*optimizers.GA)(nil)),
 		"Halton":                reflect.ValueOf((*optimizers.Halton)(nil)),

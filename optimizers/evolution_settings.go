@@ -1,0 +1,79 @@
+package optimizers
+
+import "math"
+
+// Evolution is the settings block that the population-based methods (GA,
+// DifferentialEvolution, ParticleSwarm and NSGA2) embed. Zero values take
+// the defaults.
+type Evolution struct {
+	// Population is the number of individuals (agents, particles); its
+	// default depends on the method and the number of variables (see the
+	// method).
+	Population int
+	// Generations after the first population; default 200.
+	Generations int
+	// MaxEvaluations caps the evaluations: analyses, plus points picked
+	// up from the store of an earlier session; repeats answered from the
+	// cache cost nothing (see mdo.EvalCounters). 0: no cap besides
+	// Generations. A generation that would pass it is not run.
+	MaxEvaluations int
+}
+
+// validate checks the block; minPopulation is the method's smallest
+// population.
+func (b Evolution) validate(method string, minPopulation int) error {
+	if err := checkInt(method, "Population", b.Population, minPopulation); err != nil {
+		return err
+	}
+	if err := checkInt(method, "Generations", b.Generations, 1); err != nil {
+		return err
+	}
+	return checkInt(method, "MaxEvaluations", b.MaxEvaluations, 1)
+}
+
+// EqualityHandling is the settings block of the equality-constraint
+// handling that the single-objective evolutionary methods (GA,
+// DifferentialEvolution, ParticleSwarm) embed: the gradient-based mutation
+// and the ε-level comparison of Takahama & Sakai (2006). It acts only in a
+// study with an equality constraint. Zero values take the defaults.
+type EqualityHandling struct {
+	// GradientRate is the probability that an infeasible offspring gets
+	// the gradient-based mutation (up to 3 forward-difference Newton
+	// steps on its constraint residuals); default 0.05, negative for none.
+	GradientRate float64
+	// Relax is the fraction of the generations during which constraints
+	// are relaxed by the ε-level comparison; default 0.5, negative for
+	// Deb's rules throughout.
+	Relax float64
+}
+
+// validate checks the block.
+func (h EqualityHandling) validate(method string) error {
+	if h.GradientRate > 1 || math.IsNaN(h.GradientRate) {
+		return settingError(method, "GradientRate", h.GradientRate, "must be at most 1 (0 means the default 0.05, negative means none)")
+	}
+	if h.Relax > 1 || math.IsNaN(h.Relax) {
+		return settingError(method, "Relax", h.Relax, "must be at most 1 (0 means the default 0.5, negative means no relaxation)")
+	}
+	return nil
+}
+
+// gradientRate returns the gradient-mutation rate: 0.05 by default, none
+// when negative.
+func (h EqualityHandling) gradientRate() float64 { return defaultOrNone(h.GradientRate, 0.05) }
+
+// relaxFraction returns the ε-level fraction of the run: 0.5 by default,
+// none when negative.
+func (h EqualityHandling) relaxFraction() float64 { return defaultOrNone(h.Relax, 0.5) }
+
+// defaultOrNone returns v, def when v is 0, and 0 (none) when v is
+// negative.
+func defaultOrNone(v, def float64) float64 {
+	switch {
+	case v == 0:
+		return def
+	case v < 0:
+		return 0
+	}
+	return v
+}
