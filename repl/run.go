@@ -130,6 +130,15 @@ func Run(ctx context.Context, opts RunOptions) (*RunRecord, error) {
 		ctx, cancel = context.WithTimeout(ctx, opts.Timeout)
 		defer cancel()
 	}
+	// A time limit that stops the study is a failure of the run (exit 1),
+	// even when the optimiser came back with its best point so far: the
+	// output folder is written, then this is returned.
+	timedOut := func() error {
+		if opts.Timeout > 0 && errors.Is(ctx.Err(), context.DeadlineExceeded) {
+			return fmt.Errorf("%s: the time limit of %v was reached; the output folder holds what the study had by then", opts.File, opts.Timeout)
+		}
+		return nil
+	}
 	started := time.Now()
 	rec := &RunRecord{File: opts.File, Script: string(text)}
 	for i, c := range f.Cells {
@@ -156,14 +165,16 @@ func Run(ctx context.Context, opts RunOptions) (*RunRecord, error) {
 		seed, _ := s.Env().SeedUsed()
 		run := report.Run{Name: trimExt(filepath.Base(opts.File)), Seed: seed, Cells: len(f.Cells), Started: started,
 			Script: rec.Script, ToolVersion: toolVersion()}
-		if _, err := report.WriteRun(ctx, opts.OutDir, run); err != nil {
+		if _, err := report.WriteRun(context.WithoutCancel(ctx), opts.OutDir, run); err != nil {
 			return rec, err
 		}
-		return rec, nil
+		return rec, timedOut()
 	}
 	sum := store.NewSummary(rec.Result, store.SummaryOptions{Script: rec.Script, ToolVersion: toolVersion()})
 	rec.Summary = &sum
-	if _, err := outs.writeRun(ctx, opts.OutDir, rec.Script, rec.Result); err != nil {
+	// the folder is written in full even when the time limit or an
+	// interrupt stopped the study
+	if _, err := outs.writeRun(context.WithoutCancel(ctx), opts.OutDir, rec.Script, rec.Result); err != nil {
 		return rec, fmt.Errorf("writing the run's output: %w", err)
 	}
 	if r := rec.Result; r.Evaluations > 0 && r.Failed == r.Evaluations {
@@ -177,7 +188,7 @@ func Run(ctx context.Context, opts RunOptions) (*RunRecord, error) {
 		}
 		return rec, e
 	}
-	return rec, nil
+	return rec, timedOut()
 }
 
 // writeEarlier writes the run folder of the result the script handed

@@ -8,8 +8,8 @@
 //
 // Exit status: 0 on success; 1 when the script fails (a cell fails, the
 // sandbox refuses an import, every evaluation of the published study
-// failed), the time limit is reached with cells not run, or the run ends
-// abnormally; 2 on a usage error only (a bad flag or argument, an output
+// failed), the time limit is reached (the folder is still written), or
+// the run ends abnormally; 2 on a usage error only (a bad flag or argument, an output
 // folder that cannot be used or picked up, a study file that cannot be
 // read or whose header is garbled). `couplet help` and --help print the
 // whole usage.
@@ -132,10 +132,11 @@ flags:
 	})
 	fmt.Fprint(w, `
 exit status of run:
-  0  the study ran to its end (or was interrupted and returned its best point)
+  0  the study ran to its end, or Ctrl-C interrupted it and it returned its
+     best point so far
   1  the script failed: a cell failed, the sandbox refused an import, every
-     evaluation of the published study failed, the time limit stopped the
-     cells, or the run ended abnormally
+     evaluation of the published study failed, the time limit was reached
+     (what the study had by then is written), or the run ended abnormally
   2  a usage error: a bad flag or argument, an output folder that cannot be
      used or picked up (another version of the study file, another --seed),
      a study file that cannot be read or whose header is garbled

@@ -18,23 +18,24 @@ import (
 	"github.com/creack/pty"
 )
 
-// binary is the couplet command built once for the tests.
+// asCommand is the environment variable under which the test binary is
+// the couplet command itself: the tests run it as their child process, so
+// that no second build of the command is needed.
+const asCommand = "COUPLET_TEST_BINARY_IS_THE_COMMAND"
+
+// binary is the program the tests start as the couplet command.
 var binary string
 
 func TestMain(m *testing.M) {
-	dir, err := os.MkdirTemp("", "couplet-cmd")
-	if err != nil {
+	if os.Getenv(asCommand) == "1" {
+		main()
+	}
+	binary = os.Args[0]
+	// every child process started by the tests is the command
+	if err := os.Setenv(asCommand, "1"); err != nil {
 		panic(err)
 	}
-	binary = filepath.Join(dir, "couplet")
-	out, err := exec.Command("go", "build", "-o", binary, ".").CombinedOutput()
-	if err != nil {
-		os.Stderr.Write(out)
-		panic(err)
-	}
-	code := m.Run()
-	os.RemoveAll(dir)
-	os.Exit(code)
+	os.Exit(m.Run())
 }
 
 // term is the command running on a pseudo-terminal.
@@ -264,7 +265,8 @@ func TestRunExitStatus(t *testing.T) {
 	}
 	good := write("good.study", "//~ cell 1\nx := 2\n//~ cell 2\nx * 3\n")
 	bad := write("bad.study", "//~ cell 1\nx := 2\n//~ cell 2\ny := x + 1\npanic(\"stall\")\n")
-	loop := write("loop.study", "for {\n}\n")
+	// A loop that comes back when its context ends, as an optimiser does.
+	loop := write("loop.study", "n := 0\nfor cell.Context().Err() == nil {\n\tn++\n}\n")
 	evil := write("evil.study", "import \"os/exec\"\nexec.Command(\"true\").Run()\n")
 	bom := write("bom.study", "\uFEFF//~ couplet-study 1 (couplet 0.1.0)\n\n//~ cell 1\nx := 2\n")
 	garbled := write("garbled.study", "//~ couplet-study one (couplet 0.1.0)\n\n//~ cell 1\nx := 2\n")
@@ -298,7 +300,7 @@ cell.Publish(result)
 		{"ok", []string{"run", good, "--out", filepath.Join(dir, "o1")}, 0, "wrote"},
 		{"flags before file", []string{"run", "--out", filepath.Join(dir, "o2"), good}, 0, "wrote"},
 		{"failing cell", []string{"run", bad, "--out", filepath.Join(dir, "o3")}, 1, "bad.study:5: cell 2, line 2: panic: stall"},
-		{"time limit", []string{"run", loop, "--out", filepath.Join(dir, "o4"), "--timeout", "200ms"}, 1, "cell 1, line 1: stopped: time limit reached"},
+		{"time limit", []string{"run", loop, "--out", filepath.Join(dir, "o4"), "--timeout", "200ms"}, 1, "loop.study: the time limit of 200ms was reached"},
 		{"refused import", []string{"run", evil, "--out", filepath.Join(dir, "o5")}, 1, "refused by the sandbox"},
 		{"no out", []string{"run", good}, 2, "--out DIR"},
 		{"no file", []string{"run", "--out", dir}, 2, "--out DIR"},
@@ -323,6 +325,10 @@ cell.Publish(result)
 				t.Errorf("exit %d, stderr %q; want exit %d with %q", code, errs, tc.code, tc.msg)
 			}
 		})
+	}
+	// The time limit still left the folder written.
+	if _, err := os.Stat(filepath.Join(dir, "o4", "summary.json")); err != nil {
+		t.Errorf("the run stopped by its time limit wrote no summary: %v", err)
 	}
 	// The good run wrote a summary without a result (the script publishes none).
 	b, err := os.ReadFile(filepath.Join(dir, "o1", "summary.json"))
