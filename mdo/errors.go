@@ -54,6 +54,10 @@ type DisciplineError struct {
 	// the group's disciplines.
 	Var   string
 	Group []string
+	// Input is set when the refused variable is a parameter of the
+	// system: the user's value (or combination of values) is one the
+	// discipline does not accept.
+	Input string
 }
 
 // Error implements error.
@@ -61,6 +65,9 @@ func (e *DisciplineError) Error() string {
 	if e.Var != "" {
 		return fmt.Sprintf("does not close: the balance of %s in {%s} leaves the region where discipline %s is defined: %v; remedy: %s",
 			e.Var, strings.Join(e.Group, ", "), e.Discipline, e.Err, DoesNotClose.Remedy())
+	}
+	if e.Input != "" {
+		return fmt.Sprintf("mdo: discipline %s: %v; remedy: %s", e.Discipline, e.Err, InvalidInput.Remedy())
 	}
 	return fmt.Sprintf("mdo: discipline %s: %v", e.Discipline, e.Err)
 }

@@ -142,8 +142,11 @@ func Classify(err error) FailureClass {
 		}
 		return InvalidInput
 	case errors.As(err, &de):
-		if de.Var != "" {
+		switch {
+		case de.Var != "":
 			return DoesNotClose
+		case de.Input != "":
+			return InvalidInput
 		}
 		return DisciplineFailed
 	}

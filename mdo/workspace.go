@@ -596,7 +596,15 @@ func joinNames(names []string) string {
 	return s
 }
 
-// disciplineError wraps the error of discipline d.
+// disciplineError wraps the error of discipline d; an error naming a
+// parameter of the system (by a Variable method) marks the user's input.
 func (w *Workspace) disciplineError(d int, err error) error {
-	return &DisciplineError{Discipline: w.sys.discs[d].Name(), Err: err}
+	de := &DisciplineError{Discipline: w.sys.discs[d].Name(), Err: err}
+	var named interface{ Variable() string }
+	if errors.As(err, &named) {
+		if i := w.sys.Index(named.Variable()); i >= 0 && w.sys.producer[i] < 0 {
+			de.Input = named.Variable()
+		}
+	}
+	return de
 }
