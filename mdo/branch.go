@@ -8,7 +8,13 @@ import (
 
 // branchSweeps is the number of Gauss–Seidel sweeps of the stability
 // check; the gain is the ratio of the displacements after the last two.
-const branchSweeps = 3
+// A gain of 1 or more after branchSweeps is confirmed by sweeping on to
+// branchSweepsMax: a loop that converges with a rate near 1 can displace
+// more in its first sweeps than it finally contracts.
+const (
+	branchSweeps    = 3
+	branchSweepsMax = 8
+)
 
 // A coupled group can have several solutions: a sizing loop typically
 // has a light aircraft, where the mass balance is a contraction, and a
@@ -17,8 +23,8 @@ const branchSweeps = 3
 // the only one a designer iterating the loop by hand can reach — is the
 // stable one. Plain Gauss–Seidel converges only to stable fixed points;
 // a state found by any other method is checked: the coupling variables
-// are pushed up by 1e-4 of their scale, branchSweeps Gauss–Seidel sweeps
-// run from there, and the ratio of the last two displacement norms (a
+// are pushed up by 1e-4 of their scale, branchSweeps (at most
+// branchSweepsMax) Gauss–Seidel sweeps run from there, and the ratio of the last two displacement norms (a
 // power-iteration estimate of the loop's dominant eigenvalue) must stay
 // below 1 unless the displacement flips sign from sweep to sweep (an
 // iteration that oscillates about the state, not one that runs away). A state that fails is held back with a *BranchError while the
@@ -69,7 +75,10 @@ func (w *Workspace) stableBranch(g *group, set SolverSettings, p solvePath) erro
 	flips := false
 	w.solving = true
 	defer func() { w.solving = false }()
-	for s := 0; s < branchSweeps; s++ {
+	for s := 0; s < branchSweepsMax; s++ {
+		if s == branchSweeps && (gain < 1 || flips) {
+			break // settled on the short check
+		}
 		if err := w.sweep(g, false, false); err != nil {
 			return w.loopError(g, err, p)
 		}

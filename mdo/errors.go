@@ -92,6 +92,6 @@ func (e *ConvergenceError) Error() string {
 	for _, w := range r.Worst {
 		worst = append(worst, fmt.Sprintf("%s (%.3g)", w.Name, w.Residual))
 	}
-	return fmt.Sprintf("mdo: coupled group {%s} %s with %s after %d iterations (scaled residual %.3g, tolerance %.3g); worst: %s",
-		strings.Join(r.Disciplines, ", "), state, r.Method, r.CouplingIterations, r.Residual, r.Tolerance, strings.Join(worst, ", "))
+	return fmt.Sprintf("mdo: coupled group {%s} %s with %s after %d iterations (scaled residual %.3g, tolerance %.3g); worst: %s; remedy: %s",
+		strings.Join(r.Disciplines, ", "), state, r.Method, r.CouplingIterations, r.Residual, r.Tolerance, strings.Join(worst, ", "), SolverFailed.Remedy())
 }
