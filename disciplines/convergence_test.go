@@ -94,13 +94,13 @@ func convergenceCases(n, m int) []convCase {
 
 // convTally sums the outcomes of one case under one solver.
 type convTally struct {
-	points, converged, notClosing, solverFailed, other int
-	unclassified                                       int
-	iterations                                         int // coupling iterations of converged points
-	calls                                              int // discipline calls of converged points
-	wall                                               time.Duration
-	jumps                                              int
-	reasons                                            map[string]int
+	points, converged, notClosing, solverFailed, invalid, other int
+	unclassified                                                int
+	iterations                                                  int // coupling iterations of converged points
+	calls                                                       int // discipline calls of converged points
+	wall                                                        time.Duration
+	jumps                                                       int
+	reasons                                                     map[string]int
 }
 
 // add counts one evaluation.
@@ -121,6 +121,8 @@ func (t *convTally) add(ev *mdo.Evaluation) {
 		t.notClosing++
 	case mdo.SolverFailed:
 		t.solverFailed++
+	case mdo.InvalidInput:
+		t.invalid++
 	case mdo.NotFailed:
 		t.unclassified++
 		t.other++
@@ -236,7 +238,7 @@ func branchJumps(c convCase, evs []*mdo.Evaluation, mto int) int {
 // the tallies per solver.
 func convTable(ctx context.Context, cases []convCase) (string, map[mdo.Method]*convTally, error) {
 	var b strings.Builder
-	fmt.Fprintf(&b, "%-34s %-20s %6s %9s %11s %13s %7s %10s %10s %11s %6s\n", "case", "solver", "points", "converged", "not closing", "solver failed", "other", "mean iter", "mean calls", "mean time", "jumps")
+	fmt.Fprintf(&b, "%-34s %-20s %6s %9s %11s %13s %13s %11s %10s %10s %11s %6s\n", "case", "solver", "points", "converged", "not closing", "solver failed", "invalid input", "disc failed", "mean iter", "mean calls", "mean time", "jumps")
 	total := map[mdo.Method]*convTally{}
 	reasons := map[string]int{}
 	for _, m := range mdo.Methods() {
@@ -259,6 +261,7 @@ func convTable(ctx context.Context, cases []convCase) (string, map[mdo.Method]*c
 			tt.notClosing += t.notClosing
 			tt.solverFailed += t.solverFailed
 			tt.other += t.other
+			tt.invalid += t.invalid
 			tt.unclassified += t.unclassified
 			tt.iterations += t.iterations
 			tt.calls += t.calls
@@ -293,7 +296,7 @@ func (t *convTally) row(label, solver string) string {
 		calls = float64(t.calls) / float64(t.converged)
 		wall = t.wall / time.Duration(t.converged)
 	}
-	return fmt.Sprintf("%-34s %-20s %6d %9s %11s %13s %7s %10.1f %10.1f %11s %6d\n", label, solver, t.points, share(t.converged), share(t.notClosing), share(t.solverFailed), share(t.other), iter, calls, wall.Round(100*time.Nanosecond), t.jumps)
+	return fmt.Sprintf("%-34s %-20s %6d %9s %11s %13s %13s %11s %10.1f %10.1f %11s %6d\n", label, solver, t.points, share(t.converged), share(t.notClosing), share(t.solverFailed), share(t.invalid), share(t.other), iter, calls, wall.Round(100*time.Nanosecond), t.jumps)
 }
 
 // TestConvergence runs a small version of the benchmark (3 × 3 grids, 12
