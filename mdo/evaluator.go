@@ -72,7 +72,7 @@ type EvalCounters struct {
 	Analyses           int // coupled analyses run by this Evaluator
 	PickedUp           int // points answered from the store of the run picked up
 	Repeats            int // points asked for again, answered from the cache
-	Failed             int // evaluations whose analysis failed (infeasible with a reason)
+	Failed             int // evaluations whose analysis failed (infeasible with a reason), picked-up ones included
 	DisciplineCalls    int
 	CouplingIterations int
 }
@@ -653,6 +653,9 @@ func (e *Evaluator) answerCached(c *Evaluation) *Evaluation {
 		}
 		e.cnt.Evaluations++
 		e.cnt.PickedUp++
+		if !c.Converged {
+			e.cnt.Failed++
+		}
 		e.track(c)
 		return c
 	}

@@ -269,7 +269,9 @@ func TestEvaluatorCost(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	ev.PickUp(prev)
+	failed := *prev[0] // a failed analysis of the earlier session
+	failed.failed("stands for a failed analysis")
+	ev.PickUp([]*Evaluation{&failed, prev[1]})
 	if _, err := ev.Evaluate(context.Background(), xs[:2]); err != nil {
 		t.Fatal(err)
 	}
@@ -295,5 +297,8 @@ func TestEvaluatorCost(t *testing.T) {
 	c := ev.Counters()
 	if c.Evaluations-before.Evaluations != 2 || c.PickedUp != 1 || c.Analyses != 3 || c.Repeats-before.Repeats != 2 || c.Evaluations != c.Analyses+c.PickedUp {
 		t.Errorf("after a batch costing 2: counters %+v (before %+v); want 2 more evaluations (1 picked up, 1 analysed) and 2 more repeats", c, before)
+	}
+	if c.Failed != 1 {
+		t.Errorf("failed = %d, want 1: the picked-up point whose analysis failed counts", c.Failed)
 	}
 }

@@ -2,6 +2,8 @@ package mdo
 
 // Progress is what an optimiser reports at each of its iterations.
 type Progress struct {
+	// Optimizer names the method, Iteration counts its iterations from 1
+	// and Evaluations the evaluations so far (see EvalCounters).
 	Optimizer   string
 	Iteration   int
 	Evaluations int

@@ -21,7 +21,8 @@ import (
 // from the study's seed. It refuses integer design variables and several
 // objectives. Zero values take the defaults.
 type CMAES struct {
-	// MaxEvaluations caps the evaluations of the whole run; default 20000.
+	// MaxEvaluations caps the evaluations of the whole run (repeats are
+	// free, see mdo.EvalCounters); default 20000.
 	MaxEvaluations int
 	// Population is the number of samples per generation, evaluated as
 	// one batch; default max(4 + ⌊3 ln n⌋, 4 (n + 1)) for n variables

@@ -17,7 +17,8 @@ import (
 // and refuses integer design variables and several objectives. Zero
 // values take the defaults.
 type NelderMead struct {
-	// MaxEvaluations caps the evaluations of the whole run; default 5000.
+	// MaxEvaluations caps the evaluations of the whole run (repeats are
+	// free, see mdo.EvalCounters); default 5000.
 	MaxEvaluations int
 	// SimplexSize is the edge of the initial simplex in the folded
 	// coordinates (1 spans the box); default 0.05, halved at each outer
