@@ -184,10 +184,10 @@ func runCaseAfterPickUp(ctx context.Context, c convCase, m mdo.Method, workers i
 
 // branchJumps counts the jumps between solution branches on a grid: a
 // pair of neighbouring converged points (one step of aspect ratio or area
-// apart) whose take-off masses differ by more than 5 % and by more than
-// three times the difference of each adjacent pair on the same grid line
-// — a step, where a steep but smooth trend changes by similar amounts
-// from pair to pair.
+// apart), both of whose adjacent pairs on the same grid line converged
+// too, whose take-off masses differ by more than 5 % and by more than
+// three times the difference of each adjacent pair — a step, where a
+// steep but smooth trend changes by similar amounts from pair to pair.
 func branchJumps(c convCase, evs []*mdo.Evaluation, mto int) int {
 	if c.grid[0] == 0 {
 		return 0
@@ -221,10 +221,13 @@ func branchJumps(c convCase, evs []*mdo.Evaluation, mto int) int {
 						continue
 					}
 					prev, next := d(k-1), d(k+1)
-					if math.IsNaN(prev) && math.IsNaN(next) {
+					if math.IsNaN(prev) || math.IsNaN(next) {
+						// judged only between closing points: next to a
+						// point that does not close the mass grows steeply
+						// along its one branch
 						continue
 					}
-					if !(dk <= 3*prev) && !(dk <= 3*next) {
+					if dk > 3*prev && dk > 3*next {
 						jumps++
 					}
 				}
