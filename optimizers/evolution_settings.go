@@ -1,6 +1,9 @@
 package optimizers
 
-import "math"
+import (
+	"math"
+	"math/rand"
+)
 
 // Evolution is the settings block that the population-based methods (GA,
 // DifferentialEvolution, ParticleSwarm and NSGA2) embed. Zero values take
@@ -76,4 +79,53 @@ func defaultOrNone(v, def float64) float64 {
 		return 0
 	}
 	return v
+}
+
+// Variation is the settings block of the real-coded variation operators,
+// simulated binary crossover and polynomial mutation (Deb & Agrawal), that
+// GA and NSGA2 embed. Zero values take the defaults.
+type Variation struct {
+	// CrossoverRate is the probability that a pair is crossed; default 0.9.
+	CrossoverRate float64
+	// CrossoverIndex is the SBX distribution index ηc; default 15.
+	CrossoverIndex float64
+	// MutationRate is the per-coordinate mutation probability; default
+	// 1/(number of variables).
+	MutationRate float64
+	// MutationIndex is the polynomial-mutation distribution index ηm;
+	// default 20.
+	MutationIndex float64
+}
+
+// validate checks the block.
+func (v Variation) validate(method string) error {
+	if err := checkRange(method, "CrossoverRate", v.CrossoverRate, 0, 1, false); err != nil {
+		return err
+	}
+	if err := checkRange(method, "CrossoverIndex", v.CrossoverIndex, 0, 1000, true); err != nil {
+		return err
+	}
+	if err := checkRange(method, "MutationRate", v.MutationRate, 0, 1, false); err != nil {
+		return err
+	}
+	return checkRange(method, "MutationIndex", v.MutationIndex, 0, 1000, true)
+}
+
+// variation is a Variation with its defaults resolved.
+type variation struct{ pc, etaC, pm, etaM float64 }
+
+// resolved returns the operators' parameters for dim variables.
+func (v Variation) resolved(dim int) variation {
+	return variation{pc: or(v.CrossoverRate, 0.9), etaC: or(v.CrossoverIndex, 15),
+		pm: or(v.MutationRate, 1/float64(dim)), etaM: or(v.MutationIndex, 20)}
+}
+
+// pair crosses two children with probability pc and mutates both, in
+// place.
+func (v variation) pair(c1, c2 []float64, rng *rand.Rand) {
+	if rng.Float64() < v.pc {
+		sbx(c1, c2, v.etaC, rng)
+	}
+	polynomialMutation(c1, v.pm, v.etaM, rng)
+	polynomialMutation(c2, v.pm, v.etaM, rng)
 }

@@ -22,16 +22,7 @@ type GA struct {
 	EqualityHandling
 	// Tournament is the number of contestants per selection; default 2.
 	Tournament int
-	// CrossoverRate is the probability that a pair is crossed; default 0.9.
-	CrossoverRate float64
-	// CrossoverIndex is the SBX distribution index ηc; default 15.
-	CrossoverIndex float64
-	// MutationRate is the per-coordinate mutation probability; default
-	// 1/(number of variables).
-	MutationRate float64
-	// MutationIndex is the polynomial-mutation distribution index ηm;
-	// default 20.
-	MutationIndex float64
+	Variation
 }
 
 // Name implements Optimizer.
@@ -52,16 +43,7 @@ func (o GA) validate() error {
 	if o.Tournament > 0 && o.Population > 0 && o.Tournament > o.Population-1 {
 		return settingError(m, "Tournament", o.Tournament, "must be less than Population")
 	}
-	if err := checkRange(m, "CrossoverRate", o.CrossoverRate, 0, 1, false); err != nil {
-		return err
-	}
-	if err := checkRange(m, "CrossoverIndex", o.CrossoverIndex, 0, 1000, true); err != nil {
-		return err
-	}
-	if err := checkRange(m, "MutationRate", o.MutationRate, 0, 1, false); err != nil {
-		return err
-	}
-	return checkRange(m, "MutationIndex", o.MutationIndex, 0, 1000, true)
+	return o.Variation.validate(m)
 }
 
 // defaultPopulation is 10 per variable within [20, 100].
@@ -83,10 +65,7 @@ func (o GA) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error) {
 	if k > n-1 {
 		k = n - 1
 	}
-	pc := or(o.CrossoverRate, 0.9)
-	etaC := or(o.CrossoverIndex, 15)
-	pm := or(o.MutationRate, 1/float64(dim))
-	etaM := or(o.MutationIndex, 20)
+	vary := o.Variation.resolved(dim)
 	e.initial = func(rng *rand.Rand) *member { return e.newMember(uniformPoint(dim, rng)) }
 	sel := eaopt.SelTournament{NContestants: uint(k)}
 	e.generation = func(pop []*member, rng *rand.Rand) ([]*member, error) {
@@ -102,11 +81,7 @@ func (o GA) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error) {
 			}
 			c1 := append([]float64(nil), picked[0].Genome.(*member).x...)
 			c2 := append([]float64(nil), picked[1].Genome.(*member).x...)
-			if rng.Float64() < pc {
-				sbx(c1, c2, etaC, rng)
-			}
-			polynomialMutation(c1, pm, etaM, rng)
-			polynomialMutation(c2, pm, etaM, rng)
+			vary.pair(c1, c2, rng)
 			off = append(off, e.newMember(c1))
 			if len(off) < n {
 				off = append(off, e.newMember(c2))

@@ -22,16 +22,7 @@ type NSGA2 struct {
 	// Evolution: Population is the number of individuals (rounded up to
 	// even), default 100.
 	Evolution
-	// CrossoverRate is the probability that a pair is crossed; default 0.9.
-	CrossoverRate float64
-	// CrossoverIndex is the SBX distribution index ηc; default 15.
-	CrossoverIndex float64
-	// MutationRate is the per-coordinate mutation probability; default
-	// 1/(number of variables).
-	MutationRate float64
-	// MutationIndex is the polynomial-mutation distribution index ηm;
-	// default 20.
-	MutationIndex float64
+	Variation
 }
 
 // Name implements Optimizer.
@@ -43,16 +34,7 @@ func (o NSGA2) validate() error {
 	if err := o.Evolution.validate(m, 4); err != nil {
 		return err
 	}
-	if err := checkRange(m, "CrossoverRate", o.CrossoverRate, 0, 1, false); err != nil {
-		return err
-	}
-	if err := checkRange(m, "CrossoverIndex", o.CrossoverIndex, 0, 1000, true); err != nil {
-		return err
-	}
-	if err := checkRange(m, "MutationRate", o.MutationRate, 0, 1, false); err != nil {
-		return err
-	}
-	return checkRange(m, "MutationIndex", o.MutationIndex, 0, 1000, true)
+	return o.Variation.validate(m)
 }
 
 // Minimize implements Optimizer.
@@ -68,10 +50,7 @@ func (o NSGA2) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error) 
 	dim := r.ev.Dim()
 	n := or(o.Population, 100)
 	n += n % 2
-	pc := or(o.CrossoverRate, 0.9)
-	etaC := or(o.CrossoverIndex, 15)
-	pm := or(o.MutationRate, 1/float64(dim))
-	etaM := or(o.MutationIndex, 20)
+	vary := o.Variation.resolved(dim)
 	rng := newRand(r.ev.Seed(), 4)
 
 	xs := make([][]float64, n)
@@ -96,11 +75,7 @@ func (o NSGA2) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error) 
 			a, b := tournament(pop, rng), tournament(pop, rng)
 			c1 := append([]float64(nil), pop[a].x...)
 			c2 := append([]float64(nil), pop[b].x...)
-			if rng.Float64() < pc {
-				sbx(c1, c2, etaC, rng)
-			}
-			polynomialMutation(c1, pm, etaM, rng)
-			polynomialMutation(c2, pm, etaM, rng)
+			vary.pair(c1, c2, rng)
 			off = append(off, c1, c2)
 		}
 		oevs, st, err := r.evaluate(off)

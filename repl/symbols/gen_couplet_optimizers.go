@@ -50,6 +50,7 @@ func init() {
 		"PenaltyMethod":         reflect.ValueOf((*optimizers.PenaltyMethod)(nil)),
 		"RandomDesign":          reflect.ValueOf((*optimizers.RandomDesign)(nil)),
 		"Repair":                reflect.ValueOf((*optimizers.Repair)(nil)),
+		"Variation":             reflect.ValueOf((*optimizers.Variation)(nil)),
 
 		// interface wrapper definitions
 		"_Optimizer": reflect.ValueOf((*_couplet_optimizers_Optimizer)(nil)),
