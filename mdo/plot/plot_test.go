@@ -67,16 +67,23 @@ func sellarRun(t *testing.T, n int, objs ...mdo.Objective) (*mdo.Result, []*mdo.
 		st.Objectives = objs
 	}
 	st.Workers = 1
+	xs := make([][]float64, n)
+	for i := range xs {
+		xs[i] = []float64{math.Mod(float64(i)*0.618034, 1), math.Mod(float64(i)*0.414214, 1), math.Mod(float64(i)*0.732051, 1)}
+	}
+	return gridRun(t, st, xs)
+}
+
+// gridRun evaluates the unit-box points xs of a study as one grid run and
+// returns the result and the evaluations.
+func gridRun(t *testing.T, st *mdo.Study, xs [][]float64) (*mdo.Result, []*mdo.Evaluation) {
+	t.Helper()
 	ev, err := st.NewEvaluator()
 	if err != nil {
 		t.Fatal(err)
 	}
 	if err := ev.Begin("grid", nil); err != nil {
 		t.Fatal(err)
-	}
-	xs := make([][]float64, n)
-	for i := range xs {
-		xs[i] = []float64{math.Mod(float64(i)*0.618034, 1), math.Mod(float64(i)*0.414214, 1), math.Mod(float64(i)*0.732051, 1)}
 	}
 	evs, err := ev.Evaluate(context.Background(), xs)
 	if err != nil {

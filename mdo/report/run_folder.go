@@ -120,6 +120,10 @@ func WriteRun(ctx context.Context, dir string, run Run) ([]string, error) {
 		extra = append(extra, figs...)
 		notes = append(notes, n...)
 	}
+	if len(evs) > 0 && r.Failed > 0 {
+		// where each class of failed analysis falls in the design space
+		extra = append(extra, drawn("failures", "failed analyses by class", func() (*plot.Figure, error) { return plot.FailureMap(r, evs) }))
+	}
 	if run.Study != nil && run.Study.System != nil {
 		extra = append(extra, drawn("dsm", "design structure matrix", func() (*plot.Figure, error) { return plot.DSM(run.Study.System) }))
 	}
