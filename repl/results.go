@@ -118,7 +118,7 @@ func (r *runRecorder) PickedUp(script string, seed uint64) ([]*mdo.Evaluation, e
 	evs, err := s.PickedUp(script, seed)
 	if err != nil {
 		s.Close()
-		return nil, err
+		return nil, &PickUpError{Path: r.path, Err: err}
 	}
 	r.o.keep(s)
 	r.pending = s

@@ -150,6 +150,12 @@ func Run(ctx context.Context, opts RunOptions) (*RunRecord, error) {
 			if errors.As(cl.Err, &ce) {
 				line = c.Line + ce.Line - 1
 			}
+			var pe *PickUpError
+			if errors.As(cl.Err, &pe) {
+				// the folder holds another run (its seed, say): a
+				// usage error, and nothing of this run is written
+				return rec, &UsageError{Err: fmt.Errorf("%s:%d: %w", opts.File, line, pe)}
+			}
 			return rec, writeEarlier(ctx, s, outs, opts, errw, rec, fmt.Errorf("%s:%d: %w", opts.File, line, cl.Err))
 		}
 		if ctx.Err() != nil && i < len(f.Cells)-1 {

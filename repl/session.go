@@ -401,6 +401,15 @@ func (s *Session) cellError(c *Cell, ch chunk, err error, trace string) error {
 				line = ch.line + l - 1
 			}
 		}
+		// a script's panic(err) keeps err in the chain (the interpreter
+		// hands the value over as a reflect.Value)
+		v := p.Value
+		if rv, ok := v.(reflect.Value); ok && rv.IsValid() && rv.CanInterface() {
+			v = rv.Interface()
+		}
+		if ve, ok := v.(error); ok {
+			err = panicError{p: p, value: ve}
+		}
 		return &CellError{Cell: c.Number, Line: line, Kind: "panic", Msg: fmt.Sprint(p.Value), Err: err}
 	}
 	msg := err.Error()
@@ -550,3 +559,13 @@ func (b *lockedBuffer) take() string {
 	b.buf.Reset()
 	return s
 }
+
+// panicError is the interpreter's panic of an error value: errors.Is and
+// errors.As reach both the panic and the error the script panicked with.
+type panicError struct {
+	p     interp.Panic
+	value error
+}
+
+func (e panicError) Error() string   { return e.p.Error() }
+func (e panicError) Unwrap() []error { return []error{e.p, e.value} }

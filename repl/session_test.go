@@ -624,3 +624,17 @@ func BenchmarkCellOutput(b *testing.B) {
 		})
 	}
 }
+
+// A cell that panics with an error keeps that error in its chain, so the
+// runner can tell a refused pick-up from other failures.
+func TestPanicKeepsTheError(t *testing.T) {
+	s, _, _ := newTest(t, Options{})
+	c := s.Exec(context.Background(), "import \"errors\"\nimport \"fmt\"\nerr := fmt.Errorf(\"stalled: %w\", errors.ErrUnsupported)\npanic(err)")
+	var ce *CellError
+	if !errors.As(c.Err, &ce) || ce.Kind != "panic" || ce.Msg != "stalled: unsupported operation" {
+		t.Fatalf("cell error %v, want a panic with the error's text", c.Err)
+	}
+	if !errors.Is(c.Err, errors.ErrUnsupported) {
+		t.Errorf("the error the cell panicked with is not in the chain of %v", c.Err)
+	}
+}

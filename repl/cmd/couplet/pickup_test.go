@@ -157,6 +157,24 @@ func TestRunKilledAndPickedUp(t *testing.T) {
 	if !bytes.Contains(errOut.Bytes(), []byte("seed")) {
 		t.Errorf("refusal does not name the seed: %s", errOut.String())
 	}
+
+	// A run made with --seed picked up without it (the script's own
+	// seed, 11) is refused too, from the cell that meets the store.
+	seeded := t.TempDir()
+	if code, _, errs := runCmd("run", study, "--out", seeded, "--trust-script", "--seed", "12"); code != 0 {
+		t.Fatalf("run with --seed 12: exit %d\n%s", code, errs)
+	}
+	summary, err := os.ReadFile(filepath.Join(seeded, "summary.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	code, _, errs := runCmd("run", study, "--out", seeded, "--trust-script", "--pick-up")
+	if code != 2 || !strings.Contains(errs, "seed 12") || !strings.Contains(errs, "seed 11") {
+		t.Errorf("pick-up of a --seed 12 run without --seed: exit %d, stderr %q; want exit 2 naming both seeds", code, errs)
+	}
+	if after, err := os.ReadFile(filepath.Join(seeded, "summary.json")); err != nil || !bytes.Equal(after, summary) {
+		t.Errorf("the refused pick-up rewrote summary.json (%v)", err)
+	}
 }
 
 // A pick-up compares the whole study file with the script the killed run
