@@ -56,22 +56,14 @@ func (CMAES) Name() string { return "CMA-ES" }
 // validate checks the settings.
 func (o CMAES) validate() error {
 	const m = "CMAES"
-	if err := checkInt(m, "MaxEvaluations", o.MaxEvaluations, 1); err != nil {
-		return err
-	}
-	if err := checkInt(m, "Population", o.Population, 2); err != nil {
-		return err
-	}
-	if err := checkRange(m, "StepSize", o.StepSize, 0, 10, true); err != nil {
-		return err
-	}
-	if err := checkRange(m, "Tolerance", o.Tolerance, 0, 1, true); err != nil {
-		return err
-	}
-	if err := checkInt(m, "StallGenerations", o.StallGenerations, 1); err != nil {
-		return err
-	}
-	return o.Penalty.validate(m)
+	return firstError(
+		checkInt(m, "MaxEvaluations", o.MaxEvaluations, 1),
+		checkInt(m, "Population", o.Population, 2),
+		checkRange(m, "StepSize", o.StepSize, 0, 10, true),
+		checkRange(m, "Tolerance", o.Tolerance, 0, 1, true),
+		checkInt(m, "StallGenerations", o.StallGenerations, 1),
+		o.Penalty.validate(m),
+	)
 }
 
 // Minimize implements Optimizer.

@@ -34,32 +34,27 @@ func (DifferentialEvolution) Name() string { return "differential evolution" }
 // validate checks the settings.
 func (o DifferentialEvolution) validate() error {
 	const m = "DifferentialEvolution"
-	if err := o.Evolution.validate(m, 4); err != nil {
-		return err
-	}
-	if err := o.EqualityHandling.validate(m); err != nil {
-		return err
-	}
-	if err := checkRange(m, "Weight", o.Weight, 0, 2, true); err != nil {
-		return err
-	}
-	if err := checkRange(m, "CrossoverRate", o.CrossoverRate, 0, 1, false); err != nil {
-		return err
-	}
-	return o.Repair.validate(m)
+	return firstError(
+		o.Evolution.validate(m, 4),
+		o.EqualityHandling.validate(m),
+		checkRange(m, "Weight", o.Weight, 0, 2, true),
+		checkRange(m, "CrossoverRate", o.CrossoverRate, 0, 1, false),
+		o.Repair.validate(m),
+	)
+}
+
+// blocks implements evolutionary.
+func (o DifferentialEvolution) blocks() (Evolution, EqualityHandling) {
+	return o.Evolution, o.EqualityHandling
 }
 
 // Minimize implements Optimizer.
 func (o DifferentialEvolution) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error) {
-	if err := o.validate(); err != nil {
-		return nil, err
-	}
-	e, err := newEngine(ctx, s, o.Name(), o, o.Evolution, o.EqualityHandling)
+	e, err := newEngine(ctx, s, o)
 	if err != nil {
 		return nil, err
 	}
-	r := e.r
-	dim := r.ev.Dim()
+	r, dim := e.r, e.dim
 	n := or(o.Population, defaultPopulation(dim))
 	f := or(o.Weight, 0.5)
 	cr := or(o.CrossoverRate, 0.9)

@@ -75,12 +75,25 @@ func (m *member) Clone() eaopt.Genome {
 // cancelled in the middle of a generation.
 var errStop = errors.New("optimizers: evolution stopped")
 
-// newEngine starts a single-objective evolutionary run: it validates the
-// study, refuses several objectives, sets the evaluation budget and the
-// equality handling (gradient-based mutation rate and ε-level
-// relaxation, as the methods' settings give them).
-func newEngine(ctx context.Context, s *mdo.Study, name string, settings any, evo Evolution, eq EqualityHandling) (*engine, error) {
-	r, err := begin(ctx, s, name, settings)
+// evolutionary is a single-objective evolutionary method (GA,
+// DifferentialEvolution, ParticleSwarm): its checks and the settings
+// blocks the engine reads.
+type evolutionary interface {
+	Name() string
+	validate() error
+	blocks() (Evolution, EqualityHandling)
+}
+
+// newEngine starts a single-objective evolutionary run of method o: it
+// checks o's settings, validates the study, refuses several objectives,
+// and sets the evaluation budget and the equality handling
+// (gradient-based mutation rate and ε-level relaxation) from o's blocks.
+func newEngine(ctx context.Context, s *mdo.Study, o evolutionary) (*engine, error) {
+	if err := o.validate(); err != nil {
+		return nil, err
+	}
+	evo, eq := o.blocks()
+	r, err := begin(ctx, s, o.Name(), o)
 	if err != nil {
 		return nil, err
 	}
@@ -88,7 +101,7 @@ func newEngine(ctx context.Context, s *mdo.Study, name string, settings any, evo
 		return nil, err
 	}
 	r.maxEvals = evo.MaxEvaluations
-	return &engine{r: r, relax: eq.relaxFraction(), grad: newGradientRepair(eq.gradientRate(), r.ev.Constraints())}, nil
+	return &engine{r: r, dim: r.ev.Dim(), relax: eq.relaxFraction(), grad: newGradientRepair(eq.gradientRate(), r.ev.Constraints())}, nil
 }
 
 // engine ties eaopt's GA to a run.

@@ -25,13 +25,11 @@ type Evolution struct {
 // validate checks the block; minPopulation is the method's smallest
 // population.
 func (b Evolution) validate(method string, minPopulation int) error {
-	if err := checkInt(method, "Population", b.Population, minPopulation); err != nil {
-		return err
-	}
-	if err := checkInt(method, "Generations", b.Generations, 1); err != nil {
-		return err
-	}
-	return checkInt(method, "MaxEvaluations", b.MaxEvaluations, 1)
+	return firstError(
+		checkInt(method, "Population", b.Population, minPopulation),
+		checkInt(method, "Generations", b.Generations, 1),
+		checkInt(method, "MaxEvaluations", b.MaxEvaluations, 1),
+	)
 }
 
 // EqualityHandling is the settings block of the equality-constraint
@@ -99,16 +97,12 @@ type Variation struct {
 
 // validate checks the block.
 func (v Variation) validate(method string) error {
-	if err := checkRange(method, "CrossoverRate", v.CrossoverRate, 0, 1, false); err != nil {
-		return err
-	}
-	if err := checkRange(method, "CrossoverIndex", v.CrossoverIndex, 0, 1000, true); err != nil {
-		return err
-	}
-	if err := checkRange(method, "MutationRate", v.MutationRate, 0, 1, false); err != nil {
-		return err
-	}
-	return checkRange(method, "MutationIndex", v.MutationIndex, 0, 1000, true)
+	return firstError(
+		checkRange(method, "CrossoverRate", v.CrossoverRate, 0, 1, false),
+		checkRange(method, "CrossoverIndex", v.CrossoverIndex, 0, 1000, true),
+		checkRange(method, "MutationRate", v.MutationRate, 0, 1, false),
+		checkRange(method, "MutationIndex", v.MutationIndex, 0, 1000, true),
+	)
 }
 
 // variation is a Variation with its defaults resolved.

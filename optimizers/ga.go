@@ -31,35 +31,32 @@ func (GA) Name() string { return "GA" }
 // validate checks the settings.
 func (o GA) validate() error {
 	const m = "GA"
-	if err := o.Evolution.validate(m, 4); err != nil {
-		return err
-	}
-	if err := o.EqualityHandling.validate(m); err != nil {
-		return err
-	}
-	if err := checkInt(m, "Tournament", o.Tournament, 1); err != nil {
-		return err
-	}
+	var contest error
 	if o.Tournament > 0 && o.Population > 0 && o.Tournament > o.Population-1 {
-		return settingError(m, "Tournament", o.Tournament, "must be less than Population")
+		contest = settingError(m, "Tournament", o.Tournament, "must be less than Population")
 	}
-	return o.Variation.validate(m)
+	return firstError(
+		o.Evolution.validate(m, 4),
+		o.EqualityHandling.validate(m),
+		checkInt(m, "Tournament", o.Tournament, 1),
+		contest,
+		o.Variation.validate(m),
+	)
 }
 
 // defaultPopulation is 10 per variable within [20, 100].
 func defaultPopulation(dim int) int { return min(max(10*dim, 20), 100) }
 
+// blocks implements evolutionary.
+func (o GA) blocks() (Evolution, EqualityHandling) { return o.Evolution, o.EqualityHandling }
+
 // Minimize implements Optimizer.
 func (o GA) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error) {
-	if err := o.validate(); err != nil {
-		return nil, err
-	}
-	e, err := newEngine(ctx, s, o.Name(), o, o.Evolution, o.EqualityHandling)
+	e, err := newEngine(ctx, s, o)
 	if err != nil {
 		return nil, err
 	}
-	r := e.r
-	dim := r.ev.Dim()
+	r, dim := e.r, e.dim
 	n := or(o.Population, min(max(20*dim, 40), 200))
 	k := or(o.Tournament, 2)
 	if k > n-1 {

@@ -40,19 +40,13 @@ func (NelderMead) Name() string { return "Nelder-Mead" }
 // validate checks the settings.
 func (o NelderMead) validate() error {
 	const m = "NelderMead"
-	if err := checkInt(m, "MaxEvaluations", o.MaxEvaluations, 1); err != nil {
-		return err
-	}
-	if err := checkRange(m, "SimplexSize", o.SimplexSize, 0, 1, true); err != nil {
-		return err
-	}
-	if err := checkRange(m, "Tolerance", o.Tolerance, 0, 1, true); err != nil {
-		return err
-	}
-	if err := checkInt(m, "StallIterations", o.StallIterations, 1); err != nil {
-		return err
-	}
-	return o.Penalty.validate(m)
+	return firstError(
+		checkInt(m, "MaxEvaluations", o.MaxEvaluations, 1),
+		checkRange(m, "SimplexSize", o.SimplexSize, 0, 1, true),
+		checkRange(m, "Tolerance", o.Tolerance, 0, 1, true),
+		checkInt(m, "StallIterations", o.StallIterations, 1),
+		o.Penalty.validate(m),
+	)
 }
 
 // Minimize implements Optimizer.

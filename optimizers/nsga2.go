@@ -31,10 +31,7 @@ func (NSGA2) Name() string { return "NSGA-II" }
 // validate checks the settings.
 func (o NSGA2) validate() error {
 	const m = "NSGA2"
-	if err := o.Evolution.validate(m, 4); err != nil {
-		return err
-	}
-	return o.Variation.validate(m)
+	return firstError(o.Evolution.validate(m, 4), o.Variation.validate(m))
 }
 
 // Minimize implements Optimizer.

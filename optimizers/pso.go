@@ -38,35 +38,26 @@ func (ParticleSwarm) Name() string { return "particle swarm" }
 // validate checks the settings.
 func (o ParticleSwarm) validate() error {
 	const m = "ParticleSwarm"
-	if err := o.Evolution.validate(m, 2); err != nil {
-		return err
-	}
-	if err := o.EqualityHandling.validate(m); err != nil {
-		return err
-	}
-	if err := checkRange(m, "Inertia", o.Inertia, 0, 1, true); err != nil {
-		return err
-	}
-	if err := checkRange(m, "Cognitive", o.Cognitive, 0, 4, true); err != nil {
-		return err
-	}
-	if err := checkRange(m, "Social", o.Social, 0, 4, true); err != nil {
-		return err
-	}
-	return o.Repair.validate(m)
+	return firstError(
+		o.Evolution.validate(m, 2),
+		o.EqualityHandling.validate(m),
+		checkRange(m, "Inertia", o.Inertia, 0, 1, true),
+		checkRange(m, "Cognitive", o.Cognitive, 0, 4, true),
+		checkRange(m, "Social", o.Social, 0, 4, true),
+		o.Repair.validate(m),
+	)
 }
+
+// blocks implements evolutionary.
+func (o ParticleSwarm) blocks() (Evolution, EqualityHandling) { return o.Evolution, o.EqualityHandling }
 
 // Minimize implements Optimizer.
 func (o ParticleSwarm) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error) {
-	if err := o.validate(); err != nil {
-		return nil, err
-	}
-	e, err := newEngine(ctx, s, o.Name(), o, o.Evolution, o.EqualityHandling)
+	e, err := newEngine(ctx, s, o)
 	if err != nil {
 		return nil, err
 	}
-	r := e.r
-	dim := r.ev.Dim()
+	r, dim := e.r, e.dim
 	n := or(o.Population, defaultPopulation(dim))
 	chi := or(o.Inertia, 0.7298)
 	c1 := or(o.Cognitive, 1.49618)

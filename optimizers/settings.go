@@ -84,3 +84,14 @@ func or[T int | float64](v, def T) T {
 	}
 	return v
 }
+
+// firstError returns the first non-nil error, for a settings check that
+// lists its checks in order.
+func firstError(errs ...error) error {
+	for _, err := range errs {
+		if err != nil {
+			return err
+		}
+	}
+	return nil
+}
