@@ -1,7 +1,7 @@
 // Command couplet is the notebook and headless runner of the couplet MDO
 // framework.
 //
-//	couplet [--out DIR] [--seed N] [--trust-script]      interactive notebook session
+//	couplet [--out DIR [--replace]] [--seed N] [--trust-script]   interactive notebook session
 //	couplet run FILE.study --out DIR [--seed N] [--timeout D] [--trust-script] [--quiet] [--pick-up | --replace]
 //	couplet imports [--trust-script]                      list the importable packages
 //	couplet version
@@ -108,7 +108,8 @@ func usage(w io.Writer) {
 	fmt.Fprintf(w, `couplet %s — multidisciplinary design optimisation notebook for conceptual aircraft design
 
 usage:
-  couplet [--out DIR] [--seed N] [%s]       interactive notebook session
+  couplet [--out DIR [--replace]] [--seed N] [%s]
+                                                   interactive notebook session
   couplet run FILE.study --out DIR [--seed N] [--timeout D] [%s] [--quiet] [--pick-up | --replace]
                                                    replay a saved study headless
   couplet imports [%s]                    list the packages a script may import

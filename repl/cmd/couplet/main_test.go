@@ -351,7 +351,7 @@ func TestHelp(t *testing.T) {
 	if code != 0 || errs != "" {
 		t.Fatalf("couplet help: exit %d, stderr %q", code, errs)
 	}
-	for _, w := range []string{"couplet run FILE.study --out DIR", "--out DIR", "--seed N", "--timeout D", "--trust-script", "--quiet", "--pick-up", "exit status", "airworthiness"} {
+	for _, w := range []string{"couplet run FILE.study --out DIR", "--out DIR", "--seed N", "--timeout D", "--trust-script", "--quiet", "--pick-up", "--replace", "exit status", "airworthiness"} {
 		if !strings.Contains(want, w) {
 			t.Errorf("the usage lacks %q:\n%s", w, want)
 		}
