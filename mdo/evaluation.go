@@ -39,7 +39,8 @@ type Evaluation struct {
 	CouplingIterations int
 	DisciplineCalls    int
 	Wall               time.Duration
-	// Outputs are the values of Evaluator.OutputVars after the analysis.
+	// Outputs are the values of Evaluator.OutputVars after the analysis;
+	// nil when the analysis failed (nothing it holds was computed).
 	Outputs []float64
 	// PickedUp is true when the point was analysed by an earlier session
 	// of the run and read from its store (see Evaluator.PickUp) rather

@@ -542,7 +542,10 @@ func (e *Evaluator) analyse(ctx context.Context, w int, ev *Evaluation) (ok bool
 		}
 		ev.failed(err.Error())
 		ev.Failure = Classify(err)
-		ev.Outputs = append([]float64(nil), ws.val...)
+		// a failed analysis computed nothing that can be trusted: it
+		// records no outputs (the workspace still holds defaults and
+		// partial values, which would read as if computed)
+		ev.Outputs = nil
 		return true
 	}
 	ev.Converged = true

@@ -116,11 +116,12 @@ func (c Columns) appendRow(row []string, e *mdo.Evaluation) []string {
 		}
 	}
 	for i := range c.Outputs {
-		x := math.NaN()
+		// a failed analysis has no outputs: its cells stay empty
+		cell := ""
 		if i < len(e.Outputs) {
-			x = e.Outputs[i]
+			cell = formatFloat(e.Outputs[i])
 		}
-		row = append(row, formatFloat(x))
+		row = append(row, cell)
 	}
 	for _, xs := range [][]float64{e.X, e.F, e.G} {
 		for _, x := range xs {
@@ -295,6 +296,9 @@ func (c Columns) parseRow(rec, head []string) (*mdo.Evaluation, error) {
 		if *dst.p, err = floats(dst.n); err != nil {
 			return nil, err
 		}
+	}
+	if !e.Converged {
+		e.Outputs = nil // a failed analysis has no outputs (older files wrote its defaults)
 	}
 	return e, nil
 }

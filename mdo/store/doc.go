@@ -54,7 +54,10 @@
 // ±9e999, numbers in their shortest exact form), which the views take
 // apart when read; vectors packs the unit-box point, the minimised
 // objectives and the scaled constraints as little-endian float64, so that
-// a picked-up run continues exactly.
+// a picked-up run continues exactly. A failed analysis records no
+// outputs: its outputs array is empty, so the views show NULL, and its CSV
+// cells are empty (stores written before this kept the variables'
+// defaults there; they still read, without those values).
 //
 // The package also exports evaluations to CSV (Store.WriteCSV, ReadCSV) and
 // writes the run's summary.json (WriteSummary).

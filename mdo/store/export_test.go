@@ -49,6 +49,7 @@ func TestCSVRoundTrip(t *testing.T) {
 	failed.Constraints = []float64{math.NaN(), math.NaN()}
 	failed.Margins = []float64{math.Inf(-1), math.Inf(-1)}
 	failed.G = []float64{math.Inf(1), math.Inf(1)}
+	failed.Outputs = nil // a failed analysis records no outputs
 	evs = append(evs, &failed)
 	cols := Columns{Design: ev.DesignSpecs(), Objectives: ev.ObjectiveNames(), Outputs: ev.OutputVars()}
 	for _, c := range ev.Constraints() {

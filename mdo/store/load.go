@@ -5,6 +5,7 @@ import (
 	"database/sql"
 	"fmt"
 	"math"
+	"strings"
 	"time"
 
 	"couplet/mdo"
@@ -80,7 +81,7 @@ func (s *Store) Scan(fn func(*mdo.Evaluation) error) error {
 		e.Objectives, vals = vals[:no:no], vals[no:]
 		e.Constraints, vals = vals[:nc:nc], vals[nc:]
 		e.Margins = vals[:nc:nc]
-		if e.Outputs, err = parseNumbers("outputs", outputs, len(l.outputs)); err != nil {
+		if e.Outputs, err = parseOutputs(outputs, len(l.outputs), converged); err != nil {
 			return fmt.Errorf("store: %s: evaluation %d: %v: %w", s.path, id, err, ErrDamaged)
 		}
 		if err := fn(e); err != nil {
@@ -91,6 +92,21 @@ func (s *Store) Scan(fn func(*mdo.Evaluation) error) error {
 		return fmt.Errorf("store: reading the evaluations of %s: %w", s.path, err)
 	}
 	return nil
+}
+
+// parseOutputs reads the outputs column of n values. A failed analysis
+// records none (the empty array, which the views show as NULL); a store
+// written before that rule kept the failed point's defaults, which are
+// dropped here so that they never read as computed.
+func parseOutputs(s string, n int, converged bool) ([]float64, error) {
+	if strings.TrimSpace(s) == "[]" && !converged {
+		return nil, nil
+	}
+	out, err := parseNumbers("outputs", s, n)
+	if err != nil || !converged {
+		return nil, err
+	}
+	return out, nil
 }
 
 // nullNaN maps SQL NULL to NaN.

@@ -239,9 +239,15 @@ func TestNonFiniteValuesSurvive(t *testing.T) {
 	for k := range e.G {
 		e.G[k], e.Constraints[k], e.Margins[k] = math.Inf(1), math.NaN(), math.Inf(-1)
 	}
-	e.Outputs[3], e.Outputs[4], e.Outputs[5] = math.NaN(), math.Inf(1), math.Inf(-1)
-	if err := s.Record(&e); err != nil {
-		t.Fatal(err)
+	e.Outputs = nil // a failed analysis records no outputs
+	// and a converged one whose outputs are not finite
+	var c mdo.Evaluation
+	syntheticEval(&c, 1)
+	c.Outputs[3], c.Outputs[4], c.Outputs[5] = math.NaN(), math.Inf(1), math.Inf(-1)
+	for _, x := range []*mdo.Evaluation{&e, &c} {
+		if err := s.Record(x); err != nil {
+			t.Fatal(err)
+		}
 	}
 	if err := s.End(nil); err != nil {
 		t.Fatal(err)
@@ -251,11 +257,14 @@ func TestNonFiniteValuesSurvive(t *testing.T) {
 		t.Fatal(err)
 	}
 	s.Close()
-	if len(evs) != 1 {
-		t.Fatalf("%d evaluations, want 1", len(evs))
+	if len(evs) != 2 {
+		t.Fatalf("%d evaluations, want 2", len(evs))
 	}
 	if f := sameEvaluation(evs[0], &e); f != "" {
 		t.Errorf("failed evaluation differs in %s after reload", f)
+	}
+	if f := sameEvaluation(evs[1], &c); f != "" {
+		t.Errorf("evaluation with non-finite outputs differs in %s after reload", f)
 	}
 	// in SQL, NaN is NULL and the infinities are ±Inf
 	db, err := sql.Open("sqlite", "file:"+path+"?mode=ro")
@@ -266,7 +275,7 @@ func TestNonFiniteValuesSurvive(t *testing.T) {
 	var objNull, marginNegInf, violPosInf, designOK bool
 	var outNaN, outInf bool
 	err = db.QueryRow(`SELECT "objective:mass.takeoff" IS NULL, "margin:perf.c0" = -9e999, violation = 9e999, "design:wing.x2" = ?,
-		(SELECT value IS NULL FROM outputs WHERE name = 'out.v3'), (SELECT value = 9e999 FROM outputs WHERE name = 'out.v4') FROM evaluations`, e.Design[2]).
+		(SELECT value IS NULL FROM outputs WHERE eval_id = 1 AND name = 'out.v3'), (SELECT value = 9e999 FROM outputs WHERE eval_id = 1 AND name = 'out.v4') FROM evaluations WHERE id = 0`, e.Design[2]).
 		Scan(&objNull, &marginNegInf, &violPosInf, &designOK, &outNaN, &outInf)
 	if err != nil {
 		t.Fatal(err)
