@@ -6,6 +6,8 @@ import (
 	"encoding/csv"
 	"path/filepath"
 	"testing"
+
+	"couplet/mdo"
 )
 
 // A failed evaluation records no outputs: the outputs view gives NULL, the
@@ -42,15 +44,7 @@ func TestFailedEvaluationRecordsNoOutputs(t *testing.T) {
 	}
 	db.Close()
 
-	s, err := Open(path)
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer s.Close()
-	evs, err := s.Evaluations()
-	if err != nil {
-		t.Fatal(err)
-	}
+	s, evs := openEvaluations(t, path)
 	if len(evs) != 2 || len(evs[0].Outputs) != 2 || evs[0].Outputs[0] != 4 || evs[1].Outputs != nil {
 		t.Fatalf("read back: outputs %v and %v, want [4 2] and none", evs[0].Outputs, evs[1].Outputs)
 	}
@@ -97,16 +91,24 @@ func TestOldStoreWithFailedOutputsReads(t *testing.T) {
 		t.Fatal(err)
 	}
 	db.Close()
+	_, evs := openEvaluations(t, path)
+	if len(evs) != 2 || evs[1].Converged || evs[1].Outputs != nil || evs[0].Outputs[0] != 4 {
+		t.Errorf("an old store reads outputs %v and %v, want [4 2] and none", evs[0].Outputs, evs[1].Outputs)
+	}
+}
+
+// openEvaluations opens the store at path (closed when the test ends) and
+// reads its evaluations.
+func openEvaluations(t *testing.T, path string) (*Store, []*mdo.Evaluation) {
+	t.Helper()
 	s, err := Open(path)
 	if err != nil {
 		t.Fatal(err)
 	}
-	defer s.Close()
+	t.Cleanup(func() { s.Close() })
 	evs, err := s.Evaluations()
 	if err != nil {
 		t.Fatal(err)
 	}
-	if len(evs) != 2 || evs[1].Converged || evs[1].Outputs != nil || evs[0].Outputs[0] != 4 {
-		t.Errorf("an old store reads outputs %v and %v, want [4 2] and none", evs[0].Outputs, evs[1].Outputs)
-	}
+	return s, evs
 }
