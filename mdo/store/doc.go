@@ -21,10 +21,10 @@
 //	                                its SHA-256, tool and Go versions, seed,
 //	                                optimiser, settings, start, end) and the
 //	                                final counters (evaluations, analyses,
-//	                                cache_hits: the repeats, restored: the
-//	                                picked-up points, failed, …) and best_id
+//	                                repeats, picked_up, failed, …; see
+//	                                mdo.EvalCounters) and best_id
 //	sessions(n, started, ended, …)  one row per Begin (picking the run up
-//	                                adds one; resumed_rows: the rows then)
+//	                                adds one; picked_up_rows: the rows then)
 //	variables(role, position, name, unit, description, lower, upper,
 //	          is_integer, relation, column_name)
 //	evaluation_data(id, feasible, converged, violation, error, iterations,

@@ -65,7 +65,7 @@ func (s *Store) Begin(info mdo.RunInfo) error {
 				return err
 			}
 		}
-		res, err := s.conn.ExecContext(ctx, `INSERT INTO sessions (started, tool_version, go_version, resumed_rows) VALUES (?, ?, ?, ?)`,
+		res, err := s.conn.ExecContext(ctx, `INSERT INTO sessions (started, tool_version, go_version, `+s.names.pickedUpRows+`) VALUES (?, ?, ?, ?)`,
 			now, s.opt.ToolVersion, goVersion(), s.rows)
 		if err != nil {
 			return err
@@ -361,8 +361,8 @@ func (s *Store) End(r *mdo.Result) error {
 			}
 			stop, elapsed, cnt = r.Stop, r.Elapsed.Seconds(), r.EvalCounters
 		}
-		if _, err := s.conn.ExecContext(ctx, `UPDATE run SET ended = ?, stop = ?, elapsed_seconds = ?, evaluations = ?, analyses = ?, cache_hits = ?,
-			restored = ?, failed = ?, discipline_calls = ?, coupling_iterations = ?, best_id = ? WHERE id = 1`,
+		if _, err := s.conn.ExecContext(ctx, `UPDATE run SET ended = ?, stop = ?, elapsed_seconds = ?, evaluations = ?, analyses = ?, `+s.names.repeats+` = ?,
+			`+s.names.pickedUp+` = ?, failed = ?, discipline_calls = ?, coupling_iterations = ?, best_id = ? WHERE id = 1`,
 			now.Format(time.RFC3339Nano), stop.String(), elapsed, cnt.Evaluations, cnt.Analyses, cnt.Repeats, cnt.PickedUp, cnt.Failed,
 			cnt.DisciplineCalls, cnt.CouplingIterations, best); err != nil {
 			return err

@@ -55,10 +55,9 @@ func (s *Store) Result() (*mdo.Result, error) {
 		elapsed                                     sql.NullFloat64
 		nAn, nRepeat, nPicked, nFail, nCalls, nIter sql.NullInt64
 	)
-	// run.cache_hits holds the repeats and run.restored the picked-up
-	// points; run.evaluations is not read, since stores written before
-	// repeats stopped counting as evaluations hold the requests there
-	err = s.conn.QueryRowContext(ctx, `SELECT best_id, elapsed_seconds, analyses, cache_hits, restored, failed, discipline_calls, coupling_iterations FROM run WHERE id = 1`).
+	// run.evaluations is not read: version 1 stores, written when
+	// repeats still counted as evaluations, hold the requests there
+	err = s.conn.QueryRowContext(ctx, `SELECT best_id, elapsed_seconds, analyses, `+s.names.repeats+`, `+s.names.pickedUp+`, failed, discipline_calls, coupling_iterations FROM run WHERE id = 1`).
 		Scan(&bestID, &elapsed, &nAn, &nRepeat, &nPicked, &nFail, &nCalls, &nIter)
 	if err != nil {
 		return nil, fmt.Errorf("store: reading the run of %s: %w", s.path, err)

@@ -10,11 +10,27 @@ import (
 
 // Format is the value of store_info.format that marks a Couplet case
 // store; SchemaVersion is the version of the layout described in the
-// package documentation.
+// package documentation. Version 1 stores (written before the counters
+// were named repeats and picked-up points) still read and can be picked
+// up: their run table says cache_hits and restored, their sessions table
+// resumed_rows.
 const (
 	Format        = "couplet-case-store"
-	SchemaVersion = 1
+	SchemaVersion = 2
 )
+
+// counterNames are the names of the run table's repeat and picked-up
+// counters and of the sessions table's picked-up rows in a store of a
+// schema version.
+type counterNames struct{ repeats, pickedUp, pickedUpRows string }
+
+// countersOf returns the names for schema version v.
+func countersOf(v int) counterNames {
+	if v == 1 {
+		return counterNames{repeats: "cache_hits", pickedUp: "restored", pickedUpRows: "resumed_rows"}
+	}
+	return counterNames{repeats: "repeats", pickedUp: "picked_up", pickedUpRows: "picked_up_rows"}
+}
 
 // fixedSchema creates the tables that do not depend on the study.
 const fixedSchema = `
@@ -36,8 +52,8 @@ CREATE TABLE run (
 	elapsed_seconds REAL,
 	evaluations INTEGER,
 	analyses INTEGER,
-	cache_hits INTEGER,
-	restored INTEGER,
+	repeats INTEGER,
+	picked_up INTEGER,
 	failed INTEGER,
 	discipline_calls INTEGER,
 	coupling_iterations INTEGER,
@@ -49,7 +65,7 @@ CREATE TABLE sessions (
 	ended TEXT,
 	tool_version TEXT NOT NULL,
 	go_version TEXT NOT NULL,
-	resumed_rows INTEGER NOT NULL
+	picked_up_rows INTEGER NOT NULL
 );
 CREATE TABLE variables (
 	role TEXT NOT NULL CHECK (role IN ('design', 'objective', 'constraint', 'output')),

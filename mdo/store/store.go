@@ -100,7 +100,8 @@ type Store struct {
 	conn     *sql.Conn
 	readOnly bool
 
-	meta    *RunMeta // the stored run, nil before Begin on a new store
+	meta    *RunMeta     // the stored run, nil before Begin on a new store
+	names   counterNames // the counters' column names of the store's schema version
 	lay     *layout
 	session int
 	// noFailure marks a store written before evaluation_data had its
@@ -185,7 +186,7 @@ func Create(path string, opt Options) (*Store, error) {
 	if err != nil {
 		return nil, err
 	}
-	s := &Store{path: path, opt: opt, db: db, conn: conn}
+	s := &Store{path: path, opt: opt, db: db, conn: conn, names: countersOf(SchemaVersion)}
 	ctx := context.Background()
 	err = s.inTx(func() error {
 		if _, err := conn.ExecContext(ctx, fixedSchema); err != nil {
@@ -266,9 +267,11 @@ func (s *Store) verify() error {
 	if format != Format {
 		return fmt.Errorf("store: %s has format %q, want %q: %w", s.path, format, Format, ErrNotStore)
 	}
-	if version != strconv.Itoa(SchemaVersion) {
-		return fmt.Errorf("store: %s has schema version %q; this program reads version %d: %w", s.path, version, SchemaVersion, ErrNotStore)
+	v, err := strconv.Atoi(version)
+	if err != nil || v < 1 || v > SchemaVersion {
+		return fmt.Errorf("store: %s has schema version %q; this program reads versions 1 to %d: %w", s.path, version, SchemaVersion, ErrNotStore)
 	}
+	s.names = countersOf(v)
 	return nil
 }
 

@@ -832,3 +832,87 @@ func TestQueueBounds(t *testing.T) {
 		t.Errorf("rows = %d, want %d", s.Rows(), len(evs))
 	}
 }
+
+// A store of schema version 1, whose counters were named cache_hits and
+// restored (and sessions.resumed_rows), still reads and can be picked
+// up; it stays a version 1 store.
+func TestSchemaVersion1ReadsAndPicksUp(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "v1.db")
+	s, err := Create(path, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	ev := sellarEvaluator(t, s, 1, sellarScript)
+	for _, xs := range [][][]float64{grid(4, 3), grid(2, 3)} { // the second batch is two repeats
+		if _, err := ev.Evaluate(context.Background(), xs); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if _, err := ev.Finish(mdo.StopBudget); err != nil {
+		t.Fatal(err)
+	}
+	if err := s.Close(); err != nil {
+		t.Fatal(err)
+	}
+	db, err := sql.Open("sqlite", path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, q := range []string{
+		`ALTER TABLE run RENAME COLUMN repeats TO cache_hits`,
+		`ALTER TABLE run RENAME COLUMN picked_up TO restored`,
+		`ALTER TABLE sessions RENAME COLUMN picked_up_rows TO resumed_rows`,
+		`UPDATE store_info SET value = '1' WHERE key = 'schema_version'`,
+	} {
+		if _, err := db.Exec(q); err != nil {
+			t.Fatal(err)
+		}
+	}
+	db.Close()
+	counters := func() mdo.EvalCounters {
+		t.Helper()
+		r, err := Open(path)
+		if err != nil {
+			t.Fatal(err)
+		}
+		defer r.Close()
+		res, err := r.Result()
+		if err != nil {
+			t.Fatal(err)
+		}
+		return res.EvalCounters
+	}
+	if c := counters(); c.Evaluations != 4 || c.Analyses != 4 || c.Repeats != 2 || c.PickedUp != 0 {
+		t.Errorf("version 1 store read back as %v, want 4 evaluations (4 analysed), 2 repeats", c)
+	}
+	p, err := PickUp(path, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	ev = sellarEvaluator(t, p, 1, sellarScript)
+	if _, err := ev.Evaluate(context.Background(), grid(6, 3)); err != nil {
+		t.Fatal(err)
+	}
+	if _, err := ev.Finish(mdo.StopBudget); err != nil {
+		t.Fatal(err)
+	}
+	if err := p.Close(); err != nil {
+		t.Fatal(err)
+	}
+	if c := counters(); c.Evaluations != 6 || c.Analyses != 2 || c.PickedUp != 4 || c.Repeats != 0 {
+		t.Errorf("picked-up version 1 store read back as %v, want 6 evaluations (2 analysed, 4 picked up)", c)
+	}
+	db, err = sql.Open("sqlite", path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer db.Close()
+	var version string
+	var rows int
+	if err := db.QueryRow(`SELECT value FROM store_info WHERE key = 'schema_version'`).Scan(&version); err != nil || version != "1" {
+		t.Errorf("schema version after the pick-up = %q, %v; want 1", version, err)
+	}
+	if err := db.QueryRow(`SELECT resumed_rows FROM sessions WHERE n = 2`).Scan(&rows); err != nil || rows != 4 {
+		t.Errorf("second session's resumed_rows = %d, %v; want 4", rows, err)
+	}
+}
