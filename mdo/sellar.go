@@ -16,6 +16,8 @@ import "math"
 // The problem has a second, local optimum near z1 = −1.72 with f ≈ 4.13
 // inside the same bounds; local optimisers started far from the global
 // one may end there.
+//
+// Every discipline is Differentiable: it gives its analytic partials.
 func Sellar() []Discipline {
 	x := Var{Name: "x", Description: "local design variable", Default: 1, Min: 0, Max: 10}
 	z1 := Var{Name: "z1", Description: "shared design variable 1", Default: 5, Min: -10, Max: 10}
@@ -23,15 +25,21 @@ func Sellar() []Discipline {
 	y1 := Var{Name: "y1", Description: "coupling variable of discipline 1", Default: 1, Min: 0, Max: 1000}
 	y2 := Var{Name: "y2", Description: "coupling variable of discipline 2", Default: 1, Min: -1000, Max: 1000}
 	f := Var{Name: "f", Description: "objective", Default: 1, Min: -1e6, Max: 1e6}
-	d1 := FuncVars("sellar1", []Var{z1, z2, x, y2}, []Var{y1}, func(in, out []float64) error {
+	d1 := WithPartials(FuncVars("sellar1", []Var{z1, z2, x, y2}, []Var{y1}, func(in, out []float64) error {
 		out[0] = in[0]*in[0] + in[1] + in[2] - 0.2*in[3]
 		return nil
-	})
-	d2 := FuncVars("sellar2", []Var{y1, z1, z2}, []Var{y2}, func(in, out []float64) error {
-		out[0] = math.Sqrt(in[0]) + in[1] + in[2]
+	}), func(in, jac []float64) error {
+		jac[0], jac[1], jac[2], jac[3] = 2*in[0], 1, 1, -0.2
 		return nil
 	})
-	fn := FuncVars("sellar_functions", []Var{x, z2, y1, y2},
+	d2 := WithPartials(FuncVars("sellar2", []Var{y1, z1, z2}, []Var{y2}, func(in, out []float64) error {
+		out[0] = math.Sqrt(in[0]) + in[1] + in[2]
+		return nil
+	}), func(in, jac []float64) error {
+		jac[0], jac[1], jac[2] = 0.5/math.Sqrt(in[0]), 1, 1
+		return nil
+	})
+	fn := WithPartials(FuncVars("sellar_functions", []Var{x, z2, y1, y2},
 		[]Var{f, {Name: "g1", Description: "constraint quantity y1 (>= 3.16)", Default: 1, Min: -1e6, Max: 1e6},
 			{Name: "g2", Description: "constraint quantity y2 (<= 24)", Default: 1, Min: -1e6, Max: 1e6}},
 		func(in, out []float64) error {
@@ -39,7 +47,13 @@ func Sellar() []Discipline {
 			out[1] = in[2]
 			out[2] = in[3]
 			return nil
-		})
+		}), func(in, jac []float64) error {
+		// rows f, g1, g2; columns x, z2, y1, y2
+		jac[0], jac[1], jac[2], jac[3] = 2*in[0], 1, 1, -math.Exp(-in[3])
+		jac[4+2] = 1
+		jac[8+3] = 1
+		return nil
+	})
 	return []Discipline{d1, d2, fn}
 }
 

@@ -10,22 +10,31 @@ import (
 func init() {
 	Symbols["couplet/mdo/mdo"] = map[string]reflect.Value{
 		// function, constant and variable definitions
+		"AdjointMode":       reflect.ValueOf(mdo.AdjointMode),
 		"AitkenGaussSeidel": reflect.ValueOf(mdo.AitkenGaussSeidel),
 		"AitkenJacobi":      reflect.ValueOf(mdo.AitkenJacobi),
 		"AtLeast":           reflect.ValueOf(mdo.AtLeast),
 		"AtMost":            reflect.ValueOf(mdo.AtMost),
+		"AutoMode":          reflect.ValueOf(mdo.AutoMode),
 		"Better":            reflect.ValueOf(mdo.Better),
 		"Between":           reflect.ValueOf(mdo.Between),
+		"Central":           reflect.ValueOf(mdo.Central),
+		"CheckPartials":     reflect.ValueOf(mdo.CheckPartials),
 		"ClassOf":           reflect.ValueOf(mdo.ClassOf),
 		"Classify":          reflect.ValueOf(mdo.Classify),
 		"Continuous":        reflect.ValueOf(mdo.Continuous),
 		"DefaultSolver":     reflect.ValueOf(mdo.DefaultSolver),
+		"DirectMode":        reflect.ValueOf(mdo.DirectMode),
 		"DisciplineFailed":  reflect.ValueOf(mdo.DisciplineFailed),
 		"DoesNotClose":      reflect.ValueOf(mdo.DoesNotClose),
 		"Dominates":         reflect.ValueOf(mdo.Dominates),
 		"Equal":             reflect.ValueOf(mdo.Equal),
 		"EqualTo":           reflect.ValueOf(mdo.EqualTo),
+		"ErrNoDerivatives":  reflect.ValueOf(&mdo.ErrNoDerivatives).Elem(),
+		"FDPartials":        reflect.ValueOf(mdo.FDPartials),
+		"FDStep":            reflect.ValueOf(mdo.FDStep),
 		"FormatVars":        reflect.ValueOf(mdo.FormatVars),
+		"Forward":           reflect.ValueOf(mdo.Forward),
 		"Func":              reflect.ValueOf(mdo.Func),
 		"FuncVars":          reflect.ValueOf(mdo.FuncVars),
 		"GaussSeidel":       reflect.ValueOf(mdo.GaussSeidel),
@@ -61,55 +70,92 @@ func init() {
 		"StopConverged":     reflect.ValueOf(mdo.StopConverged),
 		"StopDeadline":      reflect.ValueOf(mdo.StopDeadline),
 		"StopIterations":    reflect.ValueOf(mdo.StopIterations),
+		"WithPartials":      reflect.ValueOf(mdo.WithPartials),
 
 		// type definitions
-		"BranchError":          reflect.ValueOf((*mdo.BranchError)(nil)),
-		"ComputeFunc":          reflect.ValueOf((*mdo.ComputeFunc)(nil)),
-		"Constraint":           reflect.ValueOf((*mdo.Constraint)(nil)),
-		"ConstraintKind":       reflect.ValueOf((*mdo.ConstraintKind)(nil)),
-		"ConvergenceError":     reflect.ValueOf((*mdo.ConvergenceError)(nil)),
-		"Counters":             reflect.ValueOf((*mdo.Counters)(nil)),
-		"CouplingReport":       reflect.ValueOf((*mdo.CouplingReport)(nil)),
-		"DesignSpec":           reflect.ValueOf((*mdo.DesignSpec)(nil)),
-		"DesignVar":            reflect.ValueOf((*mdo.DesignVar)(nil)),
-		"Discipline":           reflect.ValueOf((*mdo.Discipline)(nil)),
-		"DisciplineError":      reflect.ValueOf((*mdo.DisciplineError)(nil)),
-		"EvalCounters":         reflect.ValueOf((*mdo.EvalCounters)(nil)),
-		"Evaluation":           reflect.ValueOf((*mdo.Evaluation)(nil)),
-		"Evaluator":            reflect.ValueOf((*mdo.Evaluator)(nil)),
-		"FailureClass":         reflect.ValueOf((*mdo.FailureClass)(nil)),
-		"Formulation":          reflect.ValueOf((*mdo.Formulation)(nil)),
-		"FuncDiscipline":       reflect.ValueOf((*mdo.FuncDiscipline)(nil)),
-		"HistoryPoint":         reflect.ValueOf((*mdo.HistoryPoint)(nil)),
-		"IterationRecorder":    reflect.ValueOf((*mdo.IterationRecorder)(nil)),
-		"Method":               reflect.ValueOf((*mdo.Method)(nil)),
-		"NonFiniteError":       reflect.ValueOf((*mdo.NonFiniteError)(nil)),
-		"NotClosingError":      reflect.ValueOf((*mdo.NotClosingError)(nil)),
-		"Objective":            reflect.ValueOf((*mdo.Objective)(nil)),
-		"PickUpRecorder":       reflect.ValueOf((*mdo.PickUpRecorder)(nil)),
-		"Progress":             reflect.ValueOf((*mdo.Progress)(nil)),
-		"RangeError":           reflect.ValueOf((*mdo.RangeError)(nil)),
-		"Recorder":             reflect.ValueOf((*mdo.Recorder)(nil)),
-		"Result":               reflect.ValueOf((*mdo.Result)(nil)),
-		"RunInfo":              reflect.ValueOf((*mdo.RunInfo)(nil)),
-		"Solution":             reflect.ValueOf((*mdo.Solution)(nil)),
-		"SolverSettings":       reflect.ValueOf((*mdo.SolverSettings)(nil)),
-		"StopReason":           reflect.ValueOf((*mdo.StopReason)(nil)),
-		"Study":                reflect.ValueOf((*mdo.Study)(nil)),
-		"System":               reflect.ValueOf((*mdo.System)(nil)),
-		"UnknownVariableError": reflect.ValueOf((*mdo.UnknownVariableError)(nil)),
-		"Values":               reflect.ValueOf((*mdo.Values)(nil)),
-		"Var":                  reflect.ValueOf((*mdo.Var)(nil)),
-		"VarResidual":          reflect.ValueOf((*mdo.VarResidual)(nil)),
-		"VarTable":             reflect.ValueOf((*mdo.VarTable)(nil)),
-		"Workspace":            reflect.ValueOf((*mdo.Workspace)(nil)),
+		"BranchError":            reflect.ValueOf((*mdo.BranchError)(nil)),
+		"ComputeFunc":            reflect.ValueOf((*mdo.ComputeFunc)(nil)),
+		"Constraint":             reflect.ValueOf((*mdo.Constraint)(nil)),
+		"ConstraintKind":         reflect.ValueOf((*mdo.ConstraintKind)(nil)),
+		"ConvergenceError":       reflect.ValueOf((*mdo.ConvergenceError)(nil)),
+		"Counters":               reflect.ValueOf((*mdo.Counters)(nil)),
+		"CouplingReport":         reflect.ValueOf((*mdo.CouplingReport)(nil)),
+		"DerivativeMode":         reflect.ValueOf((*mdo.DerivativeMode)(nil)),
+		"DesignSpec":             reflect.ValueOf((*mdo.DesignSpec)(nil)),
+		"DesignVar":              reflect.ValueOf((*mdo.DesignVar)(nil)),
+		"Differences":            reflect.ValueOf((*mdo.Differences)(nil)),
+		"Differentiable":         reflect.ValueOf((*mdo.Differentiable)(nil)),
+		"Discipline":             reflect.ValueOf((*mdo.Discipline)(nil)),
+		"DisciplineError":        reflect.ValueOf((*mdo.DisciplineError)(nil)),
+		"EvalCounters":           reflect.ValueOf((*mdo.EvalCounters)(nil)),
+		"Evaluation":             reflect.ValueOf((*mdo.Evaluation)(nil)),
+		"Evaluator":              reflect.ValueOf((*mdo.Evaluator)(nil)),
+		"FailureClass":           reflect.ValueOf((*mdo.FailureClass)(nil)),
+		"Formulation":            reflect.ValueOf((*mdo.Formulation)(nil)),
+		"FuncDiscipline":         reflect.ValueOf((*mdo.FuncDiscipline)(nil)),
+		"FuncPartialsDiscipline": reflect.ValueOf((*mdo.FuncPartialsDiscipline)(nil)),
+		"HistoryPoint":           reflect.ValueOf((*mdo.HistoryPoint)(nil)),
+		"IterationRecorder":      reflect.ValueOf((*mdo.IterationRecorder)(nil)),
+		"Method":                 reflect.ValueOf((*mdo.Method)(nil)),
+		"NonFiniteError":         reflect.ValueOf((*mdo.NonFiniteError)(nil)),
+		"NotClosingError":        reflect.ValueOf((*mdo.NotClosingError)(nil)),
+		"Objective":              reflect.ValueOf((*mdo.Objective)(nil)),
+		"PartialsCheck":          reflect.ValueOf((*mdo.PartialsCheck)(nil)),
+		"PartialsEntry":          reflect.ValueOf((*mdo.PartialsEntry)(nil)),
+		"PartialsFunc":           reflect.ValueOf((*mdo.PartialsFunc)(nil)),
+		"PickUpRecorder":         reflect.ValueOf((*mdo.PickUpRecorder)(nil)),
+		"Progress":               reflect.ValueOf((*mdo.Progress)(nil)),
+		"RangeError":             reflect.ValueOf((*mdo.RangeError)(nil)),
+		"Recorder":               reflect.ValueOf((*mdo.Recorder)(nil)),
+		"Result":                 reflect.ValueOf((*mdo.Result)(nil)),
+		"RunInfo":                reflect.ValueOf((*mdo.RunInfo)(nil)),
+		"Solution":               reflect.ValueOf((*mdo.Solution)(nil)),
+		"SolverSettings":         reflect.ValueOf((*mdo.SolverSettings)(nil)),
+		"StopReason":             reflect.ValueOf((*mdo.StopReason)(nil)),
+		"Study":                  reflect.ValueOf((*mdo.Study)(nil)),
+		"System":                 reflect.ValueOf((*mdo.System)(nil)),
+		"Totals":                 reflect.ValueOf((*mdo.Totals)(nil)),
+		"TotalsOptions":          reflect.ValueOf((*mdo.TotalsOptions)(nil)),
+		"UnknownVariableError":   reflect.ValueOf((*mdo.UnknownVariableError)(nil)),
+		"Values":                 reflect.ValueOf((*mdo.Values)(nil)),
+		"Var":                    reflect.ValueOf((*mdo.Var)(nil)),
+		"VarResidual":            reflect.ValueOf((*mdo.VarResidual)(nil)),
+		"VarTable":               reflect.ValueOf((*mdo.VarTable)(nil)),
+		"Workspace":              reflect.ValueOf((*mdo.Workspace)(nil)),
 
 		// interface wrapper definitions
+		"_Differentiable":    reflect.ValueOf((*_couplet_mdo_Differentiable)(nil)),
 		"_Discipline":        reflect.ValueOf((*_couplet_mdo_Discipline)(nil)),
 		"_IterationRecorder": reflect.ValueOf((*_couplet_mdo_IterationRecorder)(nil)),
 		"_PickUpRecorder":    reflect.ValueOf((*_couplet_mdo_PickUpRecorder)(nil)),
 		"_Recorder":          reflect.ValueOf((*_couplet_mdo_Recorder)(nil)),
 	}
+}
+
+// _couplet_mdo_Differentiable is an interface wrapper for Differentiable type
+type _couplet_mdo_Differentiable struct {
+	IValue    interface{}
+	WCompute  func(in []float64, out []float64) error
+	WInputs   func() []mdo.Var
+	WName     func() string
+	WOutputs  func() []mdo.Var
+	WPartials func(in []float64, jac []float64) error
+}
+
+func (W _couplet_mdo_Differentiable) Compute(in []float64, out []float64) error {
+	return W.WCompute(in, out)
+}
+func (W _couplet_mdo_Differentiable) Inputs() []mdo.Var {
+	return W.WInputs()
+}
+func (W _couplet_mdo_Differentiable) Name() string {
+	return W.WName()
+}
+func (W _couplet_mdo_Differentiable) Outputs() []mdo.Var {
+	return W.WOutputs()
+}
+func (W _couplet_mdo_Differentiable) Partials(in []float64, jac []float64) error {
+	return W.WPartials(in, jac)
 }
 
 // _couplet_mdo_Discipline is an interface wrapper for Discipline type
