@@ -3,6 +3,7 @@ package report
 import (
 	"bytes"
 	"context"
+	"errors"
 	"fmt"
 	"image"
 	"image/jpeg"
@@ -10,8 +11,8 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
+	"strconv"
 	"strings"
-	"sync"
 	"testing"
 	"time"
 
@@ -82,27 +83,43 @@ func render(t *testing.T, ctx context.Context, path string) pageResult {
 	var res pageResult
 	cctx, stop := context.WithCancel(ctx)
 	msgs := chromedp.Console(cctx)
-	var wg sync.WaitGroup
-	var mu sync.Mutex
-	wg.Add(1)
+	// The page's messages are read until the sentinel written after the
+	// load event (which waits for every image): the browser sends its
+	// console and log events in order, so every message of the page has
+	// arrived by then.
+	var problems []string
+	drained := make(chan error, 1)
 	go func() {
-		defer wg.Done()
 		for m, err := range msgs {
 			if err != nil {
+				drained <- err
+				return
+			}
+			if m.Type == chromedp.ConsoleInfo && m.Text == renderSentinel {
+				drained <- nil
 				return
 			}
 			switch m.Type {
 			case chromedp.ConsoleError, chromedp.ConsoleWarning, chromedp.ConsoleException:
-				mu.Lock()
-				res.problems = append(res.problems, m.String())
-				mu.Unlock()
+				problems = append(problems, m.String())
 			}
 		}
+		drained <- errors.New("the console closed before the page's end mark")
 	}()
-	if err := chromedp.Do(ctx, chromedp.Navigate("file://"+path), chromedp.WaitReady(chromedp.CSS("body")), chromedp.Sleep(300*time.Millisecond)); err != nil {
+	if err := chromedp.Do(ctx, chromedp.Navigate("file://"+path), chromedp.WaitReady(chromedp.CSS("body")),
+		chromedp.Poll[chromedp.Void](`document.readyState === "complete"`)); err != nil {
 		stop()
 		t.Fatal(err)
 	}
+	if _, err := chromedp.Run(ctx, chromedp.Evaluate[bool](`console.info(`+strconv.Quote(renderSentinel)+`), true`)); err != nil {
+		stop()
+		t.Fatal(err)
+	}
+	if err := <-drained; err != nil {
+		stop()
+		t.Fatalf("reading the console of %s: %v", path, err)
+	}
+	res.problems = problems
 	var err error
 	if res.title, err = chromedp.Run(ctx, chromedp.Title()); err != nil {
 		t.Fatal(err)
@@ -120,9 +137,12 @@ func render(t *testing.T, ctx context.Context, path string) pageResult {
 		t.Fatal(err)
 	}
 	stop()
-	wg.Wait()
 	return res
 }
+
+// renderSentinel is the console message render writes once the page has
+// loaded, to know that every earlier message has been read.
+const renderSentinel = "couplet: page loaded"
 
 func TestReportRendersInChromium(t *testing.T) {
 	if testing.Short() {
