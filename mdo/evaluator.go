@@ -37,7 +37,7 @@ type Evaluator struct {
 	pickedUp map[*Evaluation]bool // picked-up points not yet asked for
 	nextID   int
 	best     *Evaluation
-	archive  []*Evaluation
+	archive  paretoArchive
 	history  []HistoryPoint
 	cnt      EvalCounters
 	started  time.Time
@@ -306,8 +306,11 @@ func (e *Evaluator) Counters() EvalCounters { return e.cnt }
 func (e *Evaluator) Best() *Evaluation { return e.best }
 
 // Front returns the current non-dominated feasible evaluations (for
-// multi-objective studies), sorted by the first objective.
-func (e *Evaluator) Front() []*Evaluation { return append([]*Evaluation(nil), e.archive...) }
+// multi-objective studies), sorted by the first objective. With two
+// objectives it is exactly the non-dominated set of every feasible
+// evaluation so far; with three or more the archive is bounded and pruned
+// by crowding distance (the rule is documented on paretoArchive).
+func (e *Evaluator) Front() []*Evaluation { return e.archive.members() }
 
 // PickUp adds the recorded evaluations of an earlier session of the run
 // (read from its store, to pick the run up) to the cache: when the
@@ -702,37 +705,5 @@ func (e *Evaluator) track(ev *Evaluation) {
 	if len(e.objIdx) < 2 || !ev.Feasible {
 		return
 	}
-	kept := e.archive[:0]
-	for _, a := range e.archive {
-		if Dominates(a, ev) || sameF(a, ev) {
-			return
-		}
-	}
-	for _, a := range e.archive {
-		if !Dominates(ev, a) {
-			kept = append(kept, a)
-		}
-	}
-	// insert sorted by the first objective
-	pos := len(kept)
-	for i, a := range kept {
-		if ev.F[0] < a.F[0] {
-			pos = i
-			break
-		}
-	}
-	kept = append(kept, nil)
-	copy(kept[pos+1:], kept[pos:])
-	kept[pos] = ev
-	e.archive = kept
-}
-
-// sameF reports equal objective vectors.
-func sameF(a, b *Evaluation) bool {
-	for k := range a.F {
-		if a.F[k] != b.F[k] {
-			return false
-		}
-	}
-	return true
+	e.archive.add(ev)
 }

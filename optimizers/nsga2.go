@@ -16,7 +16,7 @@ import (
 // front. Each generation is evaluated as one batch. The Result's Front is
 // the Evaluator's archive: every feasible non-dominated point evaluated
 // during the run (a superset of the final population's first front, never
-// worse). Integer design variables are searched as continuous coordinates
+// worse; bounded for three or more objectives, see mdo.Evaluator.Front). Integer design variables are searched as continuous coordinates
 // that the Evaluator rounds. Zero values take the defaults.
 type NSGA2 struct {
 	// Evolution: Population is the number of individuals (rounded up to
