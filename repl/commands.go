@@ -30,7 +30,7 @@ func commands() []command {
 		{"save", "FILE", "save the successful cells as a study file (.study)", (*Session).cmdSave},
 		{"replay", "FILE", "run the cells of a study file in this session", (*Session).cmdReplay},
 		{"coupling", "EXPR", "show the design structure matrix of a system (or of a study's system)", (*Session).cmdCoupling},
-		{"report", "EXPR", "write the report, plots and summary of a result into the output folder (--out)", (*Session).cmdReport},
+		{"report", "EXPR", "write the report, plots and summary of a result into a new folder of its study's name under the output folder (--out); an earlier report is never overwritten", (*Session).cmdReport},
 		{"vars", "", "list the session's variables", (*Session).cmdVars},
 		{"imports", "", "list the packages a script may import", (*Session).cmdImports},
 		{"fresh", "", "start afresh: forget every cell and variable", (*Session).cmdFresh},
@@ -295,10 +295,11 @@ func (s *Session) cmdReport(ctx context.Context, arg string) bool {
 		fmt.Fprintf(s.opts.Stderr, "%sreport: %v\n", CommandPrefix, err)
 		return false
 	}
-	if _, err := s.opts.Outputs.writeRun(ctx, s.opts.OutDir, s.Script(), r); err != nil {
+	dir, err := s.opts.Outputs.writeResults(ctx, s.Script(), []*mdo.Result{r}, true)
+	if err != nil {
 		fmt.Fprintf(s.opts.Stderr, "%sreport: %v\n", CommandPrefix, err)
 		return false
 	}
-	fmt.Fprintf(s.opts.Stdout, "wrote %s\n", filepath.Join(s.opts.OutDir, "report.html"))
+	fmt.Fprintf(s.opts.Stdout, "wrote %s\n", filepath.Join(dir, "report.html"))
 	return false
 }

@@ -6,7 +6,10 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
+	"slices"
+	"strings"
 	"sync"
+	"unicode"
 
 	"couplet/disciplines/drawings"
 	"couplet/mdo"
@@ -15,12 +18,16 @@ import (
 )
 
 // RunOutputs records the runs of a session's studies into its output
-// folder, the case store DIR/results.db (one row per evaluation; a
-// script that runs several optimisations gets results-2.db, ...), and
-// writes the run folder of a result with report.WriteRun: summary.json,
-// the evaluations as CSV, the plots as SVG and PNG (with the study's
-// further figures from Figures) and the self-contained DIR/report.html.
-// Use Recorder as the session's recorder, then Close it.
+// folder DIR, each run of an optimiser in a result folder of its own
+// named by its study: DIR/STUDY/results.db (one row per evaluation), and
+// DIR/STUDY-2/results.db for the next run of a study of the same name.
+// It writes the run folder of a result with report.WriteRun into the
+// folder of the run that produced it: summary.json, the evaluations as
+// CSV, the plots as SVG and PNG (with the study's further figures from
+// Figures) and the self-contained report.html; and DIR's own
+// summary.json and index.html, listing every result written
+// (report.WriteIndex). Use Recorder as the session's recorder, then
+// Close it.
 type RunOutputs struct {
 	dir string
 	// PickUp makes each run continue the store an earlier, interrupted
@@ -32,10 +39,18 @@ type RunOutputs struct {
 	Figures []report.FigureSource
 
 	mu      sync.Mutex
-	runs    int
 	stores  []*store.Store
 	ended   map[*mdo.Result]*store.Store
 	studies map[string]*mdo.Study // study name → study, for the DSM and further figures
+	folders map[string]bool       // result folders taken in this session
+	storeIn map[*store.Store]string
+	written []writtenResult // results written, in order, for the index
+}
+
+// writtenResult is a result whose folder was written.
+type writtenResult struct {
+	folder string
+	r      *mdo.Result
 }
 
 // DefaultFigures are the further figures of a run folder when none are
@@ -47,7 +62,8 @@ func DefaultFigures() []report.FigureSource {
 
 // NewRunOutputs returns the outputs of a run into dir.
 func NewRunOutputs(dir string) *RunOutputs {
-	return &RunOutputs{dir: dir, ended: map[*mdo.Result]*store.Store{}, studies: map[string]*mdo.Study{}}
+	return &RunOutputs{dir: dir, ended: map[*mdo.Result]*store.Store{}, studies: map[string]*mdo.Study{},
+		folders: map[string]bool{}, storeIn: map[*store.Store]string{}}
 }
 
 // Recorder makes the recorder cell.Attach installs in a study: each run
@@ -56,23 +72,73 @@ func (o *RunOutputs) Recorder(st *mdo.Study) (mdo.Recorder, error) {
 	o.mu.Lock()
 	o.studies[st.Name] = st
 	o.mu.Unlock()
-	return &runRecorder{o: o}, nil
+	return &runRecorder{o: o, study: st.Name}, nil
 }
 
-// nextPath reserves the store file of the next run, creating the output
-// folder if need be.
-func (o *RunOutputs) nextPath() (string, error) {
+// StoreFile is the name of a result folder's case store.
+const StoreFile = "results.db"
+
+// nextPath reserves the result folder of the next run of a study and
+// returns its store file, creating the folders if need be.
+func (o *RunOutputs) nextPath(study string) (string, error) {
 	o.mu.Lock()
 	defer o.mu.Unlock()
-	if err := os.MkdirAll(o.dir, 0o755); err != nil {
-		return "", fmt.Errorf("repl: creating the output folder: %w", err)
+	folder, err := o.newFolder(study)
+	if err != nil {
+		return "", err
 	}
-	o.runs++
-	name := "results.db"
-	if o.runs > 1 {
-		name = fmt.Sprintf("results-%d.db", o.runs)
+	return filepath.Join(o.dir, folder, StoreFile), nil
+}
+
+// newFolder takes the next free result folder of a study's name in the
+// output folder and creates it: the name itself, then NAME-2, NAME-3...
+// A name taken in this session, or held by a file or a symbolic link,
+// is skipped; a folder left by an earlier run (picked up or cleared)
+// is used again. The caller holds o.mu.
+func (o *RunOutputs) newFolder(study string) (string, error) {
+	base := FolderName(study)
+	for i := 1; ; i++ {
+		name := base
+		if i > 1 {
+			name = fmt.Sprintf("%s-%d", base, i)
+		}
+		if o.folders[name] {
+			continue
+		}
+		p := filepath.Join(o.dir, name)
+		if fi, err := os.Lstat(p); err == nil && !fi.IsDir() {
+			continue
+		}
+		if err := os.MkdirAll(p, 0o755); err != nil {
+			return "", fmt.Errorf("repl: creating the result folder: %w", err)
+		}
+		o.folders[name] = true
+		return name, nil
 	}
-	return filepath.Join(o.dir, name), nil
+}
+
+// FolderName is the result folder name of a study: its name in lower
+// case with every run of characters other than letters, digits and '_'
+// made one '-' ("Aft sweep" gives "aft-sweep"); "study" if nothing is
+// left.
+func FolderName(study string) string {
+	var b strings.Builder
+	dash := false
+	for _, r := range strings.ToLower(study) {
+		if r < 128 && (unicode.IsLetter(r) || unicode.IsDigit(r) || r == '_') {
+			if dash && b.Len() > 0 {
+				b.WriteByte('-')
+			}
+			dash = false
+			b.WriteRune(r)
+			continue
+		}
+		dash = true
+	}
+	if b.Len() == 0 {
+		return "study"
+	}
+	return b.String()
 }
 
 // options are the store options of every run.
@@ -91,6 +157,7 @@ func (o *RunOutputs) keep(s *store.Store) {
 // its own; with PickUp it first reopens the store of an interrupted run.
 type runRecorder struct {
 	o       *RunOutputs
+	study   string
 	path    string       // store file reserved by PickedUp
 	pending *store.Store // store reopened by PickedUp
 	cur     *store.Store
@@ -100,7 +167,7 @@ type runRecorder struct {
 // and, with PickUp and an existing file, reopens it and returns its
 // evaluations (refusing a store of another script or seed).
 func (r *runRecorder) PickedUp(script string, seed uint64) ([]*mdo.Evaluation, error) {
-	path, err := r.o.nextPath()
+	path, err := r.o.nextPath(r.study)
 	if err != nil {
 		return nil, err
 	}
@@ -132,7 +199,7 @@ func (r *runRecorder) Begin(info mdo.RunInfo) error {
 		path := r.path
 		var err error
 		if path == "" {
-			if path, err = r.o.nextPath(); err != nil {
+			if path, err = r.o.nextPath(r.study); err != nil {
 				return err
 			}
 		}
@@ -141,6 +208,9 @@ func (r *runRecorder) Begin(info mdo.RunInfo) error {
 		}
 		r.o.keep(s)
 	}
+	r.o.mu.Lock()
+	r.o.storeIn[s] = filepath.Base(filepath.Dir(s.Path()))
+	r.o.mu.Unlock()
 	r.path = ""
 	r.cur = s
 	return s.Begin(info)
@@ -171,22 +241,104 @@ func (r *runRecorder) End(res *mdo.Result) error {
 	return err
 }
 
-// writeRun writes the run folder of a result into dir with
-// report.WriteRun, from the store that recorded it and the study of its
-// name, and returns the files written.
-func (o *RunOutputs) writeRun(ctx context.Context, dir, script string, r *mdo.Result) ([]string, error) {
+// writeRun writes the run folder of a result with report.WriteRun, from
+// the store that recorded it and the study of its name, into the result
+// folder of that run (a new folder of the study's name for a result no
+// store recorded), and returns the folder's path and the files written.
+// A result written before goes into its folder again, unless fresh asks
+// for a report that never overwrites one: then a folder that holds a
+// report already is left as it is and a new folder of the study's name
+// is taken.
+func (o *RunOutputs) writeRun(ctx context.Context, script string, r *mdo.Result, fresh bool) (string, []string, error) {
 	o.mu.Lock()
 	st := o.ended[r]
 	study := o.studies[r.Study]
 	figs := o.Figures
+	folder := ""
+	for _, w := range o.written {
+		if w.r == r {
+			folder = w.folder
+		}
+	}
+	if folder == "" && st != nil {
+		folder = o.storeIn[st]
+	}
+	if folder != "" && fresh {
+		if _, err := os.Lstat(filepath.Join(o.dir, folder, report.ReportFile)); err == nil {
+			folder = ""
+		}
+	}
+	var err error
+	if folder == "" {
+		folder, err = o.newFolder(r.Study)
+	}
 	o.mu.Unlock()
+	if err != nil {
+		return "", nil, err
+	}
 	if figs == nil {
 		figs = DefaultFigures()
 	}
-	return report.WriteRun(ctx, dir, report.Run{
+	dir := filepath.Join(o.dir, folder)
+	files, err := report.WriteRun(ctx, dir, report.Run{
 		Result: r, Study: study, Store: st, Script: script, ToolVersion: toolVersion(),
 		ScatterMatrix: isDOE(r), Figures: figs,
 	})
+	if err != nil {
+		return dir, files, err
+	}
+	o.mu.Lock()
+	o.written = slices.DeleteFunc(o.written, func(w writtenResult) bool { return w.folder == folder })
+	o.written = append(o.written, writtenResult{folder: folder, r: r})
+	o.mu.Unlock()
+	return dir, files, nil
+}
+
+// writeResults writes the folder of each result (in order; a result
+// given twice once), then the output folder's summary.json and
+// index.html listing every result written so far, with the last of rs as
+// the principal one. It returns the principal result's folder.
+func (o *RunOutputs) writeResults(ctx context.Context, script string, rs []*mdo.Result, fresh bool) (string, error) {
+	dirs := map[*mdo.Result]string{}
+	for _, r := range rs {
+		if _, ok := dirs[r]; ok {
+			continue
+		}
+		dir, _, err := o.writeRun(ctx, script, r, fresh)
+		if err != nil {
+			return dir, err
+		}
+		dirs[r] = dir
+	}
+	if len(rs) == 0 {
+		return "", nil
+	}
+	// the principal result goes last in the index
+	dir := dirs[rs[len(rs)-1]]
+	o.mu.Lock()
+	if i := slices.IndexFunc(o.written, func(w writtenResult) bool { return filepath.Join(o.dir, w.folder) == dir }); i >= 0 {
+		w := o.written[i]
+		o.written = append(slices.Delete(o.written, i, i+1), w)
+	}
+	o.mu.Unlock()
+	return dir, o.writeIndex(script)
+}
+
+// writeIndex writes the output folder's summary.json and index.html
+// from the results written.
+func (o *RunOutputs) writeIndex(script string) error {
+	o.mu.Lock()
+	var entries []report.IndexEntry
+	for _, w := range o.written {
+		entries = append(entries, report.IndexEntry{Folder: w.folder,
+			Summary: store.NewSummary(w.r, store.SummaryOptions{Script: script, ToolVersion: toolVersion()})})
+	}
+	o.mu.Unlock()
+	if len(entries) == 0 {
+		return nil
+	}
+	_, err := report.WriteIndex(o.dir, entries)
+	return err
 }
 
 // storeOf returns the store that recorded the run of r (nil if none).

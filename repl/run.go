@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"path"
 	"path/filepath"
 	"slices"
 	"strings"
@@ -180,7 +181,7 @@ func Run(ctx context.Context, opts RunOptions) (*RunRecord, error) {
 	rec.Summary = &sum
 	// the folder is written in full even when the time limit or an
 	// interrupt stopped the study
-	if _, err := outs.writeRun(context.WithoutCancel(ctx), opts.OutDir, rec.Script, rec.Result); err != nil {
+	if _, err := outs.writeResults(context.WithoutCancel(ctx), rec.Script, resultsOf(s), false); err != nil {
 		return rec, fmt.Errorf("writing the run's output: %w", err)
 	}
 	if r := rec.Result; r.Evaluations > 0 && r.Failed == r.Evaluations {
@@ -212,10 +213,11 @@ func writeEarlier(ctx context.Context, s *Session, outs *RunOutputs, opts RunOpt
 	rec.Summary = &sum
 	// the run's own deadline or cancellation has passed: the folder is
 	// written all the same
-	if _, err := outs.writeRun(context.WithoutCancel(ctx), opts.OutDir, rec.Script, r); err != nil {
+	dir, err := outs.writeResults(context.WithoutCancel(ctx), rec.Script, resultsOf(s), false)
+	if err != nil {
 		return fmt.Errorf("%w; writing the output of the earlier result: %v", runErr, err)
 	}
-	fmt.Fprintf(errw, "%s: the result handed over before the run stopped (study %s, best #%s) is written into %s\n", opts.File, r.Study, bestID(r), opts.OutDir)
+	fmt.Fprintf(errw, "%s: the result handed over before the run stopped (study %s, best #%s) is written into %s\n", opts.File, r.Study, bestID(r), dir)
 	return runErr
 }
 
@@ -246,9 +248,9 @@ func guardFolder(opts RunOptions, choices string) (*runfolder.Lock, error) {
 		return nil, &UsageError{Err: err}
 	}
 	switch {
-	case opts.PickUp && !slices.Contains(found, "results.db"):
+	case opts.PickUp && !slices.ContainsFunc(found, func(n string) bool { return path.Base(n) == StoreFile }):
 		lock.Release()
-		return nil, &UsageError{Err: fmt.Errorf("--pick-up: nothing to pick up in %s: it holds no results.db of an interrupted run", opts.OutDir)}
+		return nil, &UsageError{Err: fmt.Errorf("--pick-up: nothing to pick up in %s: none of its result folders holds a results.db of an interrupted run", opts.OutDir)}
 	case opts.Replace:
 		if err := runfolder.Clear(opts.OutDir); err != nil {
 			lock.Release()
@@ -265,6 +267,7 @@ func guardFolder(opts RunOptions, choices string) (*runfolder.Lock, error) {
 func listFiles(names []string) string {
 	names = slices.Clone(names)
 	rank := func(n string) int {
+		n = path.Base(n)
 		switch {
 		case strings.HasPrefix(n, "results"):
 			return 0
@@ -280,8 +283,20 @@ func listFiles(names []string) string {
 	return strings.Join(names, ", ")
 }
 
-// resultOf returns the result a session's script handed over: the last
-// published, else the last shown.
+// resultsOf returns the results a session's script handed over: those
+// published, in order, else the last shown (none if neither).
+func resultsOf(s *Session) []*mdo.Result {
+	if p := s.Env().Published(); len(p) > 0 {
+		return p
+	}
+	if r := resultOf(s); r != nil {
+		return []*mdo.Result{r}
+	}
+	return nil
+}
+
+// resultOf returns the principal result a session's script handed
+// over: the last published, else the last shown.
 func resultOf(s *Session) *mdo.Result {
 	if p := s.Env().Published(); len(p) > 0 {
 		return p[len(p)-1]
@@ -304,7 +319,7 @@ func trimExt(name string) string { return name[:len(name)-len(filepath.Ext(name)
 // constraint's bound, an optimiser setting) is refused before anything
 // runs, naming the first cell that differs.
 func checkPickUp(opts RunOptions, text string) error {
-	paths, err := filepath.Glob(filepath.Join(opts.OutDir, "results*.db"))
+	paths, err := filepath.Glob(filepath.Join(opts.OutDir, "*", StoreFile))
 	if err != nil {
 		return &UsageError{Err: fmt.Errorf("--pick-up: %w", err)}
 	}

@@ -57,6 +57,7 @@ func TestRunWritesAircraftFigures(t *testing.T) {
 				t.Fatalf("%v\n%s", err, stderr.String())
 			}
 			checkOutputs(t, out)
+			out = resultFolder(t, out)
 			html, err := os.ReadFile(filepath.Join(out, "report.html"))
 			if err != nil {
 				t.Fatal(err)

@@ -67,8 +67,9 @@ func runInto(t *testing.T, ctx context.Context, file, dir string, change func(*R
 	return stderr.String(), err
 }
 
-// wantBest checks that dir holds the run folder of a published result:
-// summary.json with its best point, evaluations.csv, report.html.
+// wantBest checks that dir holds the output of a published result:
+// summary.json with its best point, and the result's folder with its
+// evaluations.csv, report.html and history.
 func wantBest(t *testing.T, dir string) store.Summary {
 	t.Helper()
 	sum, err := store.ReadSummary(filepath.Join(dir, "summary.json"))
@@ -78,8 +79,9 @@ func wantBest(t *testing.T, dir string) store.Summary {
 	if sum.Best == nil || sum.Evaluations == 0 {
 		t.Errorf("summary.json has no best point: %+v", sum)
 	}
+	sub := resultFolder(t, dir)
 	for _, name := range []string{"evaluations.csv", "report.html", "history.svg"} {
-		if fi, err := os.Stat(filepath.Join(dir, name)); err != nil || fi.Size() == 0 {
+		if fi, err := os.Stat(filepath.Join(sub, name)); err != nil || fi.Size() == 0 {
 			t.Errorf("%s not written: %v", name, err)
 		}
 	}
@@ -167,6 +169,7 @@ cell.Publish(result)
 	if stderr, err := runInto(t, context.Background(), file, dir, nil); !errors.As(err, &all) {
 		t.Fatalf("err = %v, want the study's every evaluation failed\n%s", err, stderr)
 	}
+	dir = resultFolder(t, dir)
 	page, err := os.ReadFile(filepath.Join(dir, "report.html"))
 	if err != nil {
 		t.Fatal(err)
@@ -291,21 +294,26 @@ for _, name := range []string{"summary.json", "results.db", "results.db-journal"
 }
 `)
 	dir := t.TempDir()
-	for _, name := range []string{"points.csv", "report.html"} {
+	if err := os.Mkdir(filepath.Join(dir, "sellar"), 0o755); err != nil {
+		t.Fatal(err)
+	}
+	linked := []string{"points.csv", filepath.Join("sellar", "report.html")}
+	for _, name := range linked {
 		if err := os.Symlink(target, filepath.Join(dir, name)); err != nil {
 			t.Fatal(err)
 		}
 	}
-	// a link named like a tool's file makes the folder an old run's
+	// a link named like a tool's file, in the folder of a result, makes
+	// the folder an old run's
 	_, err := runInto(t, context.Background(), file, dir, nil)
-	usageErr(t, "a folder with report.html", err, "holds another run", "report.html")
+	usageErr(t, "a folder with sellar/report.html", err, "holds another run", "sellar/report.html")
 	if stderr, err := runInto(t, context.Background(), file, dir, func(o *RunOptions) { o.Replace = true }); err != nil {
 		t.Fatalf("%v\n%s", err, stderr)
 	}
 	if b, _ := os.ReadFile(target); string(b) != text {
 		t.Errorf("a write went through a link: the target holds %q", b)
 	}
-	for _, name := range []string{"points.csv", "report.html"} {
+	for _, name := range linked {
 		fi, err := os.Lstat(filepath.Join(dir, name))
 		if err != nil || fi.Mode()&os.ModeSymlink != 0 {
 			t.Errorf("%s: %v, want a file of the run in place of the link", name, err)

@@ -13,6 +13,7 @@ import (
 	"time"
 
 	"couplet/mdo"
+	"couplet/mdo/report"
 	"couplet/mdo/store"
 )
 
@@ -482,17 +483,25 @@ st, err := mdo.SellarStudy(mdo.MDF)
 cell.Attach(st)
 res, err := optimizers.RandomDesign{Samples: 6}.Minimize(cell.Context(), st)
 @report res
+@report res
 `)
 	if errb.Len() > 0 {
 		t.Fatalf("stderr: %s", errb)
 	}
-	if !strings.Contains(out.String(), "report.html") {
-		t.Errorf("output %q", out)
+	// @report twice leaves two reports: the second never overwrites the
+	// first, it takes a new folder of the study's name
+	first, second := filepath.Join(dir, "sellar", "report.html"), filepath.Join(dir, "sellar-2", "report.html")
+	if !strings.Contains(out.String(), "wrote "+first+"\n") || !strings.Contains(out.String(), "wrote "+second+"\n") {
+		t.Errorf("output %q, want it to name %s and %s", out, first, second)
 	}
-	for _, name := range []string{"report.html", "summary.json", "results.db", "evaluations.csv"} {
+	for _, name := range []string{"sellar/report.html", "sellar/summary.json", "sellar/results.db", "sellar/evaluations.csv",
+		"sellar-2/report.html", "sellar-2/summary.json", "sellar-2/evaluations.csv", "summary.json", "index.html"} {
 		if _, err := os.Stat(filepath.Join(dir, name)); err != nil {
 			t.Errorf("@report left no %s: %v", name, err)
 		}
+	}
+	if idx, err := report.ReadIndex(dir); err != nil || len(idx.Results) != 2 || idx.Principal != "sellar-2" {
+		t.Errorf("the index lists %+v (%v), want the two reports, sellar-2 the principal", idx.Results, err)
 	}
 	// Without an output folder the command says how to get one.
 	s2, _, errb2 := newTest(t, Options{})
@@ -548,7 +557,7 @@ func TestRunRecordsTheWholeFile(t *testing.T) {
 	if _, err := Run(context.Background(), RunOptions{File: path, OutDir: out}); err != nil {
 		t.Fatal(err)
 	}
-	st, err := store.Open(filepath.Join(out, "results.db"))
+	st, err := store.Open(filepath.Join(resultFolder(t, out), "results.db"))
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -189,6 +189,7 @@ func TestEveryStudyRunsHeadless(t *testing.T) {
 // checkOutputs checks the files a run leaves beside summary.json.
 func checkOutputs(t *testing.T, dir string) {
 	t.Helper()
+	dir = resultFolder(t, dir)
 	for _, name := range []string{"results.db", "evaluations.csv", "report.html", "history.svg", "dsm.svg"} {
 		if fi, err := os.Stat(filepath.Join(dir, name)); err != nil || fi.Size() == 0 {
 			t.Errorf("run output %s missing or empty: %v", name, err)

@@ -8,27 +8,7 @@ const page = `<!DOCTYPE html>
 <meta name="viewport" content="width=device-width, initial-scale=1">
 <title>{{.Title}}</title>
 <style>
-body { font-family: "DejaVu Sans", "Liberation Sans", Arial, sans-serif; margin: 2em auto; max-width: 70em; padding: 0 1em; color: #1b1b1b; background: #fff; }
-h1 { font-size: 1.6em; border-bottom: 2px solid #3c5a8c; padding-bottom: .2em; }
-h2 { font-size: 1.25em; margin-top: 1.8em; color: #3c5a8c; }
-table { border-collapse: collapse; margin: .6em 0; }
-th, td { border: 1px solid #c8c8c8; padding: .25em .6em; text-align: left; }
-th { background: #eef2f8; }
-td.num { text-align: right; font-variant-numeric: tabular-nums; font-family: "DejaVu Sans Mono", "Liberation Mono", monospace; }
-tr.violated td { background: #fde2e1; }
-tr.active td { background: #fff4d6; }
-.state-ok { color: #1f6f1f; }
-.state-violated { color: #b21d1d; font-weight: bold; }
-.state-active { color: #8a5a00; font-weight: bold; }
-pre { background: #f6f6f6; border: 1px solid #ddd; padding: .8em; overflow-x: auto; font-size: .9em; }
-figure { margin: 1.2em 0; }
-figure svg { max-width: 100%; height: auto; border: 1px solid #e4e4e4; }
-figcaption { font-size: .9em; color: #555; margin-top: .3em; }
-.left-out { border: 1px dashed #b21d1d; color: #b21d1d; padding: .8em; }
-.caution { border-left: 5px solid #c98a00; background: #fff8e6; padding: .7em 1em; margin: 1.2em 0; }
-.verdict-feasible { color: #1f6f1f; font-weight: bold; }
-.verdict-infeasible { color: #b21d1d; font-weight: bold; }
-</style>
+` + style + `</style>
 </head>
 <body>
 <h1>{{.Title}}</h1>
@@ -89,4 +69,27 @@ figcaption { font-size: .9em; color: #555; margin-top: .3em; }
 <p class="caution">{{.Caution}}</p>
 </body>
 </html>
+`
+
+// style is the style sheet of the tool's pages (report, index, comparison).
+const style = `body { font-family: "DejaVu Sans", "Liberation Sans", Arial, sans-serif; margin: 2em auto; max-width: 70em; padding: 0 1em; color: #1b1b1b; background: #fff; }
+h1 { font-size: 1.6em; border-bottom: 2px solid #3c5a8c; padding-bottom: .2em; }
+h2 { font-size: 1.25em; margin-top: 1.8em; color: #3c5a8c; }
+table { border-collapse: collapse; margin: .6em 0; }
+th, td { border: 1px solid #c8c8c8; padding: .25em .6em; text-align: left; }
+th { background: #eef2f8; }
+td.num { text-align: right; font-variant-numeric: tabular-nums; font-family: "DejaVu Sans Mono", "Liberation Mono", monospace; }
+tr.violated td { background: #fde2e1; }
+tr.active td { background: #fff4d6; }
+.state-ok { color: #1f6f1f; }
+.state-violated { color: #b21d1d; font-weight: bold; }
+.state-active { color: #8a5a00; font-weight: bold; }
+pre { background: #f6f6f6; border: 1px solid #ddd; padding: .8em; overflow-x: auto; font-size: .9em; }
+figure { margin: 1.2em 0; }
+figure svg { max-width: 100%; height: auto; border: 1px solid #e4e4e4; }
+figcaption { font-size: .9em; color: #555; margin-top: .3em; }
+.left-out { border: 1px dashed #b21d1d; color: #b21d1d; padding: .8em; }
+.caution { border-left: 5px solid #c98a00; background: #fff8e6; padding: .7em 1em; margin: 1.2em 0; }
+.verdict-feasible { color: #1f6f1f; font-weight: bold; }
+.verdict-infeasible { color: #b21d1d; font-weight: bold; }
 `

@@ -14,9 +14,34 @@ import (
 
 // Occupied returns the files of an earlier run found in dir: every
 // reserved name present but the lock (a symbolic link counts, whatever it
-// points at), and the files its manifest lists. An empty list means dir
-// holds no run (or does not exist).
+// points at), the files its manifest lists, and the reserved files of
+// its result folders (a sub-folder, not a link, holding any), named
+// "FOLDER/NAME". An empty list means dir holds no run (or does not
+// exist).
 func Occupied(dir string) ([]string, error) {
+	found, err := occupied(dir)
+	if err != nil {
+		return nil, err
+	}
+	entries, _ := os.ReadDir(dir)
+	for _, e := range entries {
+		if !e.IsDir() {
+			continue
+		}
+		sub, err := occupied(filepath.Join(dir, e.Name()))
+		if err != nil {
+			return nil, err
+		}
+		for _, n := range sub {
+			found = append(found, e.Name()+"/"+n)
+		}
+	}
+	slices.Sort(found)
+	return found, nil
+}
+
+// occupied is Occupied for the files of dir itself.
+func occupied(dir string) ([]string, error) {
 	entries, err := os.ReadDir(dir)
 	if errors.Is(err, fs.ErrNotExist) {
 		return nil, nil
@@ -44,16 +69,25 @@ func Occupied(dir string) ([]string, error) {
 }
 
 // Clear removes the files of an earlier run from dir (Occupied): a
-// symbolic link is removed itself, never its target. Other files stay.
+// symbolic link is removed itself, never its target. A result folder
+// left empty is removed too. Other files stay.
 func Clear(dir string) error {
 	found, err := Occupied(dir)
 	if err != nil {
 		return err
 	}
+	subs := map[string]bool{}
 	for _, n := range found {
-		if err := os.Remove(filepath.Join(dir, n)); err != nil && !errors.Is(err, fs.ErrNotExist) {
+		if err := os.Remove(filepath.Join(dir, filepath.FromSlash(n))); err != nil && !errors.Is(err, fs.ErrNotExist) {
 			return fmt.Errorf("runfolder: clearing the old run: %w", err)
 		}
+		if sub, _, ok := strings.Cut(n, "/"); ok {
+			subs[sub] = true
+		}
+	}
+	for sub := range subs {
+		// only an empty folder goes: a file of the user's keeps it
+		_ = os.Remove(filepath.Join(dir, sub))
 	}
 	return nil
 }
@@ -67,7 +101,7 @@ func WriteOwn(dir, name string, data []byte) error {
 		return fmt.Errorf("runfolder: file name %q is not allowed: a plain name in the output folder, not starting with '.'", name)
 	}
 	if Reserved(name) {
-		return fmt.Errorf("runfolder: file name %q is the tool's (results*.db and its journals, summary.json, report.html, evaluations.csv, any .svg or .png): choose another name", name)
+		return fmt.Errorf("runfolder: file name %q is the tool's (results*.db and its journals, summary.json, report.html, index.html, evaluations.csv, any .svg or .png): choose another name", name)
 	}
 	if err := os.MkdirAll(dir, 0o755); err != nil {
 		return fmt.Errorf("runfolder: %w", err)

@@ -151,3 +151,41 @@ func TestLock(t *testing.T) {
 		t.Errorf("the lock wrote through a link: %q", b)
 	}
 }
+
+// A script's folder keeps each result in a sub-folder: the sub-folders'
+// files count as the run's and are cleared with it, a sub-folder left
+// empty goes, and one holding a file of the user's stays with that file.
+func TestOccupiedResultFolders(t *testing.T) {
+	dir := t.TempDir()
+	files := []string{"index.html", "aft/results.db", "aft/report.html", "fwd/summary.json", "fwd/notes.txt", "plain/notes.txt"}
+	for _, n := range files {
+		p := filepath.Join(dir, filepath.FromSlash(n))
+		if err := os.MkdirAll(filepath.Dir(p), 0o755); err != nil {
+			t.Fatal(err)
+		}
+		if err := os.WriteFile(p, []byte("x"), 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	found, err := Occupied(dir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := []string{"aft/report.html", "aft/results.db", "fwd/summary.json", "index.html"}
+	if !slices.Equal(found, want) {
+		t.Errorf("Occupied = %v, want %v", found, want)
+	}
+	if err := Clear(dir); err != nil {
+		t.Fatal(err)
+	}
+	for _, n := range []string{"aft", "index.html", "fwd/summary.json"} {
+		if _, err := os.Lstat(filepath.Join(dir, n)); err == nil {
+			t.Errorf("%s is left after Clear", n)
+		}
+	}
+	for _, n := range []string{"fwd/notes.txt", "plain/notes.txt"} {
+		if _, err := os.Stat(filepath.Join(dir, n)); err != nil {
+			t.Errorf("Clear removed the user's %s: %v", n, err)
+		}
+	}
+}

@@ -376,7 +376,7 @@ func TestRunSIGINTReturnsBest(t *testing.T) {
 	var werr error
 	go func() { werr = cmd.Wait(); close(exited) }()
 	// The interrupt comes once the optimiser has recorded two evaluations.
-	waitRows(t, cmd, exited, filepath.Join(out, "results.db"), 2)
+	waitRows(t, cmd, exited, filepath.Join(out, "slow_bowl", "results.db"), 2) // the result folder of study slow_bowl
 	if err := cmd.Process.Signal(syscall.SIGINT); err != nil {
 		t.Fatal(err)
 	}

@@ -115,7 +115,7 @@ func TestRunKilledAndPickedUp(t *testing.T) {
 	}
 	exited := make(chan struct{})
 	go func() { _ = cmd.Wait(); close(exited) }()
-	db := filepath.Join(dir, "results.db")
+	db := filepath.Join(dir, "slow_bowl", "results.db") // the result folder of study slow_bowl
 	waitRows(t, cmd, exited, db, 200)
 	if err := cmd.Process.Kill(); err != nil {
 		t.Fatal(err)
@@ -204,7 +204,7 @@ func TestPickUpRefusesAChangedScript(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	rows := rowsIn(t, filepath.Join(dir, "results.db"))
+	rows := rowsIn(t, filepath.Join(dir, "regional_jet_min_fuel", "results.db"))
 
 	changed := bytes.Replace(orig, []byte(limit), []byte(`mdo.AtMost("perf.takeoff_field_length", 1200)`), 1)
 	if err := os.WriteFile(study, changed, 0o644); err != nil {
@@ -218,7 +218,7 @@ func TestPickUpRefusesAChangedScript(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if !bytes.Equal(before, after) || rowsIn(t, filepath.Join(dir, "results.db")) != rows {
+	if !bytes.Equal(before, after) || rowsIn(t, filepath.Join(dir, "regional_jet_min_fuel", "results.db")) != rows {
 		t.Errorf("the refused pick-up changed the folder")
 	}
 }

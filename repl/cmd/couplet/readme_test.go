@@ -84,7 +84,7 @@ func TestReadmeSession(t *testing.T) {
 	if got.String() != want {
 		t.Errorf("the README's short session differs from what the notebook prints; README:\n%s\nnotebook:\n%s", want, got.String())
 	}
-	if _, err := os.Stat(filepath.Join(outDir, "report.html")); err != nil {
+	if _, err := os.Stat(filepath.Join(outDir, "sellar", "report.html")); err != nil {
 		t.Errorf("the session's @report wrote no report: %v", err)
 	}
 }
