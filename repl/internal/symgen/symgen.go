@@ -25,6 +25,7 @@ import (
 var Framework = []string{
 	"couplet/mdo",
 	"couplet/optimizers",
+	"couplet/optimizers/sensitivity",
 	"couplet/disciplines",
 }
 
