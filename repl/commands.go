@@ -212,7 +212,7 @@ func (s *Session) cmdCoupling(ctx context.Context, arg string) bool {
 		fmt.Fprintf(s.opts.Stderr, "%scoupling needs a system or a study, e.g. %scoupling sys\n", CommandPrefix, CommandPrefix)
 		return false
 	}
-	v, err := s.Eval(ctx, arg)
+	v, err := s.Eval(ctx, CommandPrefix+"coupling", arg)
 	if err != nil {
 		fmt.Fprintf(s.opts.Stderr, "%scoupling %s: %v\n", CommandPrefix, arg, err)
 		return false
@@ -281,7 +281,7 @@ func (s *Session) cmdReport(ctx context.Context, arg string) bool {
 		fmt.Fprintf(s.opts.Stderr, "%sreport: this session has no output folder; start it with --out DIR\n", CommandPrefix)
 		return false
 	}
-	v, err := s.Eval(ctx, arg)
+	v, err := s.Eval(ctx, CommandPrefix+"report", arg)
 	if err != nil {
 		fmt.Fprintf(s.opts.Stderr, "%sreport %s: %v\n", CommandPrefix, arg, err)
 		return false

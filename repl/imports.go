@@ -24,6 +24,7 @@ func (s *Session) importPrelude() error {
 		fmt.Fprintf(&b, "\t%q\n", p)
 		s.imported[importKey("", p)] = true
 	}
+	fmt.Fprintf(&b, "\t%s %q\n", keepName, keepPath)
 	b.WriteString(")")
 	if _, err := s.it.Eval(b.String()); err != nil {
 		return fmt.Errorf("repl: importing the prelude: %w", err)

@@ -79,6 +79,13 @@ func Run(ctx context.Context, opts RunOptions) (*RunRecord, error) {
 	if opts.File == "" || opts.OutDir == "" {
 		return nil, &UsageError{Err: fmt.Errorf("run needs a study file and --out DIR")}
 	}
+	// The time limit covers everything from here: reading, splitting and
+	// checking the script as well as its cells.
+	if opts.Timeout > 0 {
+		var cancel context.CancelFunc
+		ctx, cancel = context.WithTimeout(ctx, opts.Timeout)
+		defer cancel()
+	}
 	text, err := os.ReadFile(opts.File)
 	if err != nil {
 		return nil, &UsageError{Err: fmt.Errorf("reading the study file: %w", err)}
@@ -118,6 +125,13 @@ func Run(ctx context.Context, opts RunOptions) (*RunRecord, error) {
 	}
 	// Check every import before anything runs.
 	for i, c := range f.Cells {
+		if limitPassed(ctx) {
+			why := "the run was cancelled"
+			if opts.Timeout > 0 && ctx.Err() != context.Canceled {
+				why = fmt.Sprintf("the time limit of %v was reached", opts.Timeout)
+			}
+			return nil, fmt.Errorf("%s: %s while the script was checked (cell %d); nothing ran", opts.File, why, i+1)
+		}
 		_, refs, err := splitCell(c.Source)
 		if err != nil {
 			continue // reported when the cell runs
@@ -125,11 +139,6 @@ func Run(ctx context.Context, opts RunOptions) (*RunRecord, error) {
 		if err := opts.Policy.check(i+1, refs); err != nil {
 			return nil, fmt.Errorf("%s:%d: %w", opts.File, c.Line+err.(*RefusedImportError).Line-1, err)
 		}
-	}
-	if opts.Timeout > 0 {
-		var cancel context.CancelFunc
-		ctx, cancel = context.WithTimeout(ctx, opts.Timeout)
-		defer cancel()
 	}
 	// A time limit that stops the study is a failure of the run (exit 1),
 	// even when the optimiser came back with its best point so far: the
@@ -341,4 +350,12 @@ func checkPickUp(opts RunOptions, text string) error {
 		}
 	}
 	return nil
+}
+
+// limitPassed reports whether ctx has ended or its deadline has passed
+// (read from the clock, so that a limit shorter than the checks is seen
+// before the context's timer has fired).
+func limitPassed(ctx context.Context) bool {
+	d, ok := ctx.Deadline()
+	return ctx.Err() != nil || (ok && !time.Now().Before(d))
 }

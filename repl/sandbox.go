@@ -61,12 +61,19 @@ type RefusedImportError struct {
 	// Trusted reports whether the package would be available with the
 	// sandbox lifted.
 	Trusted bool
+	// Command, if not empty, is the session command whose expression
+	// holds the import (e.g. "@coupling"); Cell is then 0.
+	Command string
 }
 
 // Error implements error.
 func (e *RefusedImportError) Error() string {
-	why := fmt.Sprintf("cell %d, line %d: import %q refused by the sandbox: study scripts may import only the framework and a curated set of standard packages (see @imports), so that a script cannot touch files, the network, other processes or memory outside the interpreter; results are written through the framework into the study's output folder.",
-		e.Cell, e.Line, e.Path)
+	where := fmt.Sprintf("cell %d, line %d", e.Cell, e.Line)
+	if e.Command != "" {
+		where = e.Command
+	}
+	why := fmt.Sprintf("%s: import %q refused by the sandbox: study scripts may import only the framework and a curated set of standard packages (see @imports), so that a script cannot touch files, the network, other processes or memory outside the interpreter; results are written through the framework into the study's output folder.",
+		where, e.Path)
 	if e.Trusted {
 		return why + " If you trust this script, run it again with " + TrustFlag + "."
 	}

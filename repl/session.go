@@ -106,6 +106,7 @@ type Session struct {
 	interrupts int
 
 	lock *runfolder.Lock // the output folder's, when the session made its outputs
+	kept any             // the value of the command expression Eval runs
 }
 
 // NewSession starts a session with a fresh interpreter.
@@ -162,6 +163,9 @@ func (s *Session) reset() error {
 	}
 	if err := it.Use(s.env.Exports()); err != nil {
 		return fmt.Errorf("repl: loading the cell package: %w", err)
+	}
+	if err := it.Use(interp.Exports{keepPath + "/keep": {"Value": reflect.ValueOf(s.keepValue)}}); err != nil {
+		return fmt.Errorf("repl: loading the command package: %w", err)
 	}
 	s.it = it
 	s.cells = nil
@@ -293,31 +297,8 @@ func (s *Session) exec(ctx context.Context, c *Cell) error {
 	if err := s.opts.Policy.check(c.Number, imports); err != nil {
 		return err
 	}
-	soft, cancelSoft := context.WithCancel(ctx)
-	hard, cancelHard := context.WithCancel(context.Background())
-	var timer *time.Timer
-	var tmu sync.Mutex
-	stopWatch := context.AfterFunc(soft, func() {
-		tmu.Lock()
-		timer = time.AfterFunc(s.opts.Grace, cancelHard)
-		tmu.Unlock()
-	})
-	s.mu.Lock()
-	s.running, s.cellCtx, s.cancelSoft, s.cancelHard, s.interrupts = true, soft, cancelSoft, cancelHard, 0
-	s.mu.Unlock()
-	defer func() {
-		stopWatch()
-		tmu.Lock()
-		if timer != nil {
-			timer.Stop()
-		}
-		tmu.Unlock()
-		cancelHard()
-		cancelSoft()
-		s.mu.Lock()
-		s.running, s.cellCtx = false, nil
-		s.mu.Unlock()
-	}()
+	soft, hard, release := s.guard(ctx)
+	defer release()
 	for _, ch := range chunks {
 		if hard.Err() != nil {
 			return s.stopped(ctx, c, ch.line)
@@ -361,6 +342,39 @@ func (s *Session) exec(ctx context.Context, c *Cell) error {
 		fmt.Fprintf(s.opts.Stderr, "cell %d was cancelled (%s) and returned what it had\n", c.Number, s.reason(ctx))
 	}
 	return nil
+}
+
+// guard makes the running code interruptible, for a cell and for a
+// command's expression alike: soft is cancelled by ctx or the first
+// Interrupt (cell.Context returns it, so optimisers return their best
+// point); hard, which the interpreter runs under, a grace period later or
+// by a second Interrupt. release ends the guard.
+func (s *Session) guard(ctx context.Context) (soft, hard context.Context, release func()) {
+	soft, cancelSoft := context.WithCancel(ctx)
+	hard, cancelHard := context.WithCancel(context.Background())
+	var timer *time.Timer
+	var tmu sync.Mutex
+	stopWatch := context.AfterFunc(soft, func() {
+		tmu.Lock()
+		timer = time.AfterFunc(s.opts.Grace, cancelHard)
+		tmu.Unlock()
+	})
+	s.mu.Lock()
+	s.running, s.cellCtx, s.cancelSoft, s.cancelHard, s.interrupts = true, soft, cancelSoft, cancelHard, 0
+	s.mu.Unlock()
+	return soft, hard, func() {
+		stopWatch()
+		tmu.Lock()
+		if timer != nil {
+			timer.Stop()
+		}
+		tmu.Unlock()
+		cancelHard()
+		cancelSoft()
+		s.mu.Lock()
+		s.running, s.cellCtx = false, nil
+		s.mu.Unlock()
+	}
 }
 
 // stopped is the error of a cell stopped by the interpreter.
@@ -461,18 +475,87 @@ func (s *Session) forwardStderr(trace string) {
 	}
 }
 
-// Eval evaluates a Go expression in the session, for commands that take
-// one (the coupling of a system).
-func (s *Session) Eval(ctx context.Context, expr string) (any, error) {
-	v, err := s.it.EvalWithContext(ctx, expr)
+// Eval evaluates a Go expression in the session, for the commands that
+// take one (cmd names the command in errors, e.g. "@coupling"). The
+// expression may be preceded by imports; it goes through the sandbox
+// check of a cell (a refused import is a *RefusedImportError naming the
+// command, and nothing runs) and runs as a cell does: Interrupt, or the
+// end of ctx, stops it (the error then says why, and wraps the
+// interpreter's context.Canceled). It is not kept as a cell. Statements and declarations are refused: they
+// belong in a cell.
+func (s *Session) Eval(ctx context.Context, cmd, expr string) (any, error) {
+	chunks, imports, err := splitCell(expr)
 	if err != nil {
+		return nil, fmt.Errorf("%s: %w", cmd, err)
+	}
+	if err := s.opts.Policy.check(0, imports); err != nil {
+		var re *RefusedImportError
+		if errors.As(err, &re) {
+			re.Command = cmd
+		}
 		return nil, err
 	}
-	if !v.IsValid() || !v.CanInterface() {
+	if len(chunks) == 0 || !chunks[len(chunks)-1].expr {
+		return nil, fmt.Errorf("%s takes an expression (imports may come first), not %q: run statements in a cell", cmd, expr)
+	}
+	for _, ch := range chunks[:len(chunks)-1] {
+		if ch.kind != chunkImport {
+			return nil, fmt.Errorf("%s takes an expression (imports may come first), not %q: run statements in a cell", cmd, expr)
+		}
+	}
+	_, hard, release := s.guard(ctx)
+	defer release()
+	s.kept = nil
+	for _, ch := range chunks {
+		src := ch.src
+		if ch.expr {
+			// The interpreter runs a stopped expression's call a second
+			// time, out of reach of the stop, when it is asked for the
+			// value; an argument of a host function it stops for good.
+			src = keepName + ".Value(" + src + ")"
+		}
+		var newImports []string
+		if ch.kind == chunkImport {
+			fresh, keys, err := s.freshImports(src)
+			if err != nil {
+				return nil, err
+			}
+			if fresh == "" {
+				continue
+			}
+			src, newImports = fresh, keys
+		}
+		s.errBuf.reset()
+		_, err = s.it.EvalWithContext(hard, src)
+		s.forwardStderr(s.errBuf.take())
+		if err != nil {
+			if hard.Err() != nil && (errors.Is(err, context.Canceled) || errors.Is(err, context.DeadlineExceeded)) {
+				return nil, fmt.Errorf("stopped: %s: %w", s.reason(ctx), err)
+			}
+			return nil, err
+		}
+		for _, k := range newImports {
+			s.imported[k] = true
+		}
+	}
+	v := s.kept
+	s.kept = nil
+	if v == nil {
 		return nil, fmt.Errorf("%s has no value", expr)
 	}
-	return v.Interface(), nil
+	return v, nil
 }
+
+// keepPath is the import path of the host package through which Eval
+// receives a command's value, imported as keepName by every session
+// (scripts cannot import it: the sandbox does not list it).
+const (
+	keepPath = "couplet/repl/internal/keep"
+	keepName = "couplet_keep"
+)
+
+// keepValue receives a command expression's value.
+func (s *Session) keepValue(v any) { s.kept = v }
 
 // Globals returns the names of the session's variables and constants.
 func (s *Session) Globals() map[string]reflect.Value { return s.it.Globals() }
