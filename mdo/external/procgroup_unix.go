@@ -1,0 +1,18 @@
+//go:build unix
+
+package external
+
+import (
+	"os/exec"
+	"syscall"
+)
+
+// ownGroup starts the program in a process group of its own and makes
+// the time limit kill the whole group, so that children the program
+// started do not outlive it.
+func ownGroup(cmd *exec.Cmd) {
+	cmd.SysProcAttr = &syscall.SysProcAttr{Setpgid: true}
+	cmd.Cancel = func() error {
+		return syscall.Kill(-cmd.Process.Pid, syscall.SIGKILL)
+	}
+}
