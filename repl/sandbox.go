@@ -6,6 +6,7 @@ import (
 	"strconv"
 	"strings"
 
+	"couplet/mdo/external"
 	"couplet/repl/cell"
 	"couplet/repl/symbols"
 	"couplet/repl/symbols/trusted"
@@ -14,11 +15,29 @@ import (
 // TrustFlag is the command-line flag that lifts the sandbox.
 const TrustFlag = "--trust-script"
 
-// Policy decides which packages a script may import.
+// AllowProgramFlag is the command-line flag, repeatable, that approves
+// one external program for a sandboxed script.
+const AllowProgramFlag = "--allow-program"
+
+// Policy decides which packages a script may import and which external
+// programs it may run.
 type Policy struct {
 	// Trusted lifts the sandbox: the trusted-only standard packages (file
-	// system, processes) become importable too.
+	// system, processes) become importable too, and every external
+	// program may run.
 	Trusted bool
+	// Programs are the external programs the user approved on the
+	// command line (AllowProgramFlag) for a sandboxed script.
+	Programs []string
+}
+
+// Gate returns the approval of external programs under the policy, which
+// a script gets from cell.Programs() and passes to external.New.
+func (p Policy) Gate() *external.Gate {
+	if p.Trusted {
+		return external.AllowAll()
+	}
+	return external.Allow(fmt.Sprintf("run with %s PATH to approve one program, or with %s if you trust the script", AllowProgramFlag, TrustFlag), p.Programs...)
 }
 
 // allowed returns the import paths a script may use under the policy.

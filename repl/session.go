@@ -151,6 +151,7 @@ func (s *Session) reset() error {
 		Progress: s.progressFor(),
 		Recorder: s.opts.Recorder,
 		Script:   s.identity,
+		Programs: s.opts.Policy.Gate(),
 	})
 	it := interp.New(interp.Options{Stdout: s.out, Stderr: s.errBuf, Stdin: strings.NewReader("")})
 	if err := it.Use(symbols.Symbols); err != nil {

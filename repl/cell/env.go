@@ -21,6 +21,7 @@ import (
 	"sync"
 
 	"couplet/mdo"
+	"couplet/mdo/external"
 	"couplet/mdo/runfolder"
 )
 
@@ -48,6 +49,9 @@ type Host struct {
 	// Script returns the source text of the study so far, kept by Attach
 	// in Study.Script for provenance.
 	Script func() string
+	// Programs approves the external programs the script may run; nil
+	// approves none.
+	Programs *external.Gate
 }
 
 // Env is one session's view of the running study: the functions a script

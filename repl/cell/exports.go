@@ -18,6 +18,7 @@ func (e *Env) Exports() interp.Exports {
 			"Publish":   reflect.ValueOf(e.Publish),
 			"WriteFile": reflect.ValueOf(e.WriteFile),
 			"OutDir":    reflect.ValueOf(e.OutDir),
+			"Programs":  reflect.ValueOf(e.Programs),
 		},
 	}
 }

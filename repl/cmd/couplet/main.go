@@ -44,6 +44,8 @@ type settings struct {
 	quiet   bool
 	pickUp  bool
 	replace bool
+	// programs are the external programs approved with --allow-program.
+	programs pathList
 }
 
 // errHelp is returned by parse when the flags ask for the usage.
@@ -56,6 +58,7 @@ func flagSet(name string, st *settings) *flag.FlagSet {
 	fs.StringVar(&st.seed, "seed", "", "seed overriding the one the script declares: a decimal whole number from 0 to 18446744073709551615")
 	fs.DurationVar(&st.timeout, "timeout", 0, "time limit of the whole replay, e.g. 90s or 5m (run only)")
 	fs.BoolVar(&st.trust, strings.TrimPrefix(repl.TrustFlag, "--"), false, "lift the sandbox: the script may use files and processes (trusted scripts only)")
+	fs.Var(&st.programs, strings.TrimPrefix(repl.AllowProgramFlag, "--"), "approve one external program for the script (repeatable); a trusted script may run any")
 	fs.BoolVar(&st.quiet, "quiet", false, "do not echo the cells' output (run only)")
 	fs.BoolVar(&st.pickUp, "pick-up", false, "continue the results.db an interrupted run of the same study file and seed left in --out; any change to the file is refused (run only)")
 	fs.BoolVar(&st.replace, "replace", false, "clear every file of the run --out holds, then run afresh")
@@ -128,6 +131,8 @@ flags:
 			arg = " N"
 		case "timeout":
 			arg = " D"
+		case "allow-program":
+			arg = " PATH"
 		}
 		fmt.Fprintf(w, "  --%-16s %s\n", f.Name+arg, f.Usage)
 	})
@@ -167,7 +172,7 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		if err != nil {
 			return 2
 		}
-		fmt.Fprintln(stdout, strings.Join(repl.Policy{Trusted: st.trust}.Importable(), "\n"))
+		fmt.Fprintln(stdout, strings.Join(st.policy().Importable(), "\n"))
 		return 0
 	case "version":
 		fmt.Fprintf(stdout, "couplet %s\n", repl.Version)
@@ -209,7 +214,7 @@ func replay(args []string, stdout, stderr io.Writer) int {
 	}
 	opts := repl.RunOptions{
 		File: pos[0], OutDir: st.out, Seed: seed, SeedSet: seedSet, Timeout: st.timeout,
-		Policy: repl.Policy{Trusted: st.trust}, Stdout: stdout, Stderr: stderr, PickUp: st.pickUp, Replace: st.replace,
+		Policy: st.policy(), Stdout: stdout, Stderr: stderr, PickUp: st.pickUp, Replace: st.replace,
 	}
 	if st.quiet {
 		opts.Stdout = io.Discard
@@ -286,7 +291,7 @@ func interactive(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	}
 	term := isTerminal(stdin) && isTerminal(stdout)
 	opts := repl.Options{
-		Policy: repl.Policy{Trusted: st.trust}, Stdout: stdout, Stderr: stderr,
+		Policy: st.policy(), Stdout: stdout, Stderr: stderr,
 		OutDir: st.out, Seed: seed, SeedSet: seedSet, ReplaceOld: st.replace,
 	}
 	if term {

@@ -24,6 +24,7 @@ import (
 // Framework lists the couplet packages exposed to scripts.
 var Framework = []string{
 	"couplet/mdo",
+	"couplet/mdo/external",
 	"couplet/optimizers",
 	"couplet/optimizers/sensitivity",
 	"couplet/disciplines",
@@ -67,15 +68,18 @@ var Trusted = []string{
 }
 
 // exclude names symbols left out of the tables: os.Exit would end the
-// whole session and FindProcess could signal it; the others are
-// deprecated in the standard library and have better replacements.
+// whole session and FindProcess could signal it; external.AllowAll and
+// Allow would let a script approve its own programs (it gets its gate
+// from cell.Programs); the others are deprecated in the standard library
+// and have better replacements.
 var exclude = map[string][]string{
-	"os":            {"^Exit$", "^FindProcess$", "^SEEK_"},
-	"bytes":         {"^Title$"},
-	"strings":       {"^Title$"},
-	"encoding/csv":  {"^ErrTrailingComma$"},
-	"encoding/json": {"^InvalidUTF8Error$", "^UnmarshalFieldError$"},
-	"path/filepath": {"^HasPrefix$"},
+	"couplet/mdo/external": {"^AllowAll$", "^Allow$"},
+	"os":                   {"^Exit$", "^FindProcess$", "^SEEK_"},
+	"bytes":                {"^Title$"},
+	"strings":              {"^Title$"},
+	"encoding/csv":         {"^ErrTrailingComma$"},
+	"encoding/json":        {"^InvalidUTF8Error$", "^UnmarshalFieldError$"},
+	"path/filepath":        {"^HasPrefix$"},
 }
 
 // prefix marks generated files so that regeneration can remove stale ones.
