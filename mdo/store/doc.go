@@ -28,8 +28,12 @@
 //	variables(role, position, name, unit, description, lower, upper,
 //	          is_integer, relation, column_name)
 //	evaluation_data(id, feasible, converged, violation, error, iterations,
-//	          discipline_calls, wall_seconds, numbers, outputs, vectors,
-//	          failure)               failure: the mdo.FailureClass of a
+//	          discipline_calls, wall_seconds, vectors, failure,
+//	          "design:NAME"…, "objective:NAME"…, "constraint:NAME"…,
+//	          "margin:NAME"…, "output:NAME"…)
+//	                                one REAL column per value (schema
+//	                                version 3; see below for older stores)
+//	                                failure: the mdo.FailureClass of a
 //	                                failed analysis ('' otherwise; stores
 //	                                written before it read as '')
 //	                                (iterations: the coupling iterations)
@@ -48,16 +52,25 @@
 // So SELECT "design:z1", "objective:f" FROM evaluations
 // WHERE feasible works as it reads, and so does SELECT name, value, unit
 // FROM outputs WHERE eval_id = (SELECT best_id FROM run). A row of
-// evaluation_data keeps its design, objective, constraint and margin
-// values once, as the JSON array numbers, and the outputs as the JSON
-// array outputs in the order of the variables table (NaN as null, ±Inf as
-// ±9e999, numbers in their shortest exact form), which the views take
-// apart when read; vectors packs the unit-box point, the minimised
-// objectives and the scaled constraints as little-endian float64, so that
-// a picked-up run continues exactly. A failed analysis records no
-// outputs: its outputs array is empty, so the views show NULL, and its CSV
-// cells are empty (stores written before this kept the variables'
-// defaults there; they still read, without those values).
+// evaluation_data keeps each value in a REAL column of its own, which
+// SQLite stores in at most 8 bytes exactly (an integral value in fewer);
+// NaN is NULL, and −0 reads back as 0. The views read these columns, so
+// an integral value reads as a REAL (12.0). vectors packs the unit-box
+// point, the minimised objectives and the scaled constraints as
+// little-endian float64, so that a picked-up run continues exactly. A
+// failed analysis records no outputs: its output columns are NULL, and so
+// are its values in the views and its CSV cells (stores written before
+// this kept the variables' defaults there; they still read, without those
+// values). The file has pages of 32 KiB, so that rows of hundreds of
+// outputs share pages.
+//
+// Stores of schema versions 1 and 2, and a study with more values per
+// evaluation than a table has columns (1 900 here), keep the design,
+// objective, constraint and margin values once as the JSON text array
+// numbers and the outputs as the JSON text array outputs, in the order of
+// the variables table (NaN as null, ±Inf as ±9e999, numbers in their
+// shortest exact form), with the same views. They read, and are picked up
+// in their own layout.
 //
 // The package also exports evaluations to CSV (Store.WriteCSV, ReadCSV) and
 // writes the run's summary.json (WriteSummary).

@@ -36,8 +36,13 @@ func failingEvaluator(t *testing.T, rec mdo.Recorder) *mdo.Evaluator {
 
 // recordFailing records a converged and a failed point into a new store.
 func recordFailing(t *testing.T, path string) {
+	recordFailingWith(t, path, Options{ToolVersion: "test-1"})
+}
+
+// recordFailingWith is recordFailing with the store's options.
+func recordFailingWith(t *testing.T, path string, opt Options) {
 	t.Helper()
-	s, err := Create(path, Options{ToolVersion: "test-1"})
+	s, err := Create(path, opt)
 	if err != nil {
 		t.Fatal(err)
 	}

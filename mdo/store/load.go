@@ -37,6 +37,9 @@ func (s *Store) Scan(fn func(*mdo.Evaluation) error) error {
 		}
 	}
 	l := s.lay
+	if l.columns {
+		return s.scanColumns(fn)
+	}
 	rows, err := s.conn.QueryContext(context.Background(),
 		"SELECT id, feasible, converged, violation, error, iterations, discipline_calls, wall_seconds, numbers, outputs, vectors, "+s.failureCol()+" FROM evaluation_data ORDER BY id")
 	if err != nil {
@@ -64,14 +67,8 @@ func (s *Store) Scan(fn func(*mdo.Evaluation) error) error {
 		if e.Failure, err = mdo.ParseFailureClass(failure); err != nil {
 			return fmt.Errorf("store: %s: evaluation %d: %v: %w", s.path, id, err, ErrDamaged)
 		}
-		off := 0
-		for _, dst := range []struct {
-			p *[]float64
-			n int
-		}{{&e.X, nd}, {&e.F, no}, {&e.G, nc}} {
-			if *dst.p, off, err = readFloats(vectors, off, dst.n); err != nil {
-				return fmt.Errorf("store: %s: evaluation %d: %v: %w", s.path, id, err, ErrDamaged)
-			}
+		if err := readVectors(e, vectors, nd, no, nc); err != nil {
+			return fmt.Errorf("store: %s: evaluation %d: %v: %w", s.path, id, err, ErrDamaged)
 		}
 		vals, err := parseNumbers("numbers", numbers, nd+no+2*nc)
 		if err != nil {
@@ -90,6 +87,68 @@ func (s *Store) Scan(fn func(*mdo.Evaluation) error) error {
 	}
 	if err := rows.Err(); err != nil {
 		return fmt.Errorf("store: reading the evaluations of %s: %w", s.path, err)
+	}
+	return nil
+}
+
+// scanColumns is Scan in the REAL column layout.
+func (s *Store) scanColumns(fn func(*mdo.Evaluation) error) error {
+	l := s.lay
+	rows, err := s.conn.QueryContext(context.Background(), l.columnsSelect(s.failureCol()))
+	if err != nil {
+		return fmt.Errorf("store: reading the evaluations of %s: %w", s.path, err)
+	}
+	defer rows.Close()
+	nd, no, nc := len(l.design), len(l.objectives), len(l.constraints)
+	var (
+		id, iters, calls    int64
+		feasible, converged bool
+		viol                sql.NullFloat64
+		errText, failure    string
+		wall                float64
+		vectors             []byte
+	)
+	vals := make([]sql.NullFloat64, len(l.named())+len(l.outCols))
+	dst := []any{&id, &feasible, &converged, &viol, &errText, &iters, &calls, &wall, &vectors, &failure}
+	for k := range vals {
+		dst = append(dst, &vals[k])
+	}
+	for rows.Next() {
+		if err := rows.Scan(dst...); err != nil {
+			return fmt.Errorf("store: reading the evaluations of %s: %w", s.path, err)
+		}
+		e := &mdo.Evaluation{
+			ID: int(id), Feasible: feasible, Converged: converged, Violation: nullNaN(viol), Err: errText,
+			CouplingIterations: int(iters), DisciplineCalls: int(calls), Wall: time.Duration(math.Round(wall * 1e9)),
+		}
+		if e.Failure, err = mdo.ParseFailureClass(failure); err != nil {
+			return fmt.Errorf("store: %s: evaluation %d: %v: %w", s.path, id, err, ErrDamaged)
+		}
+		if err := readVectors(e, vectors, nd, no, nc); err != nil {
+			return fmt.Errorf("store: %s: evaluation %d: %v: %w", s.path, id, err, ErrDamaged)
+		}
+		l.columnValues(e, vals)
+		if err := fn(e); err != nil {
+			return err
+		}
+	}
+	if err := rows.Err(); err != nil {
+		return fmt.Errorf("store: reading the evaluations of %s: %w", s.path, err)
+	}
+	return nil
+}
+
+// readVectors decodes the vectors blob into e.X, e.F and e.G.
+func readVectors(e *mdo.Evaluation, vectors []byte, nd, no, nc int) error {
+	off := 0
+	var err error
+	for _, dst := range []struct {
+		p *[]float64
+		n int
+	}{{&e.X, nd}, {&e.F, no}, {&e.G, nc}} {
+		if *dst.p, off, err = readFloats(vectors, off, dst.n); err != nil {
+			return err
+		}
 	}
 	return nil
 }

@@ -82,7 +82,7 @@ func TestFailedEvaluationRecordsNoOutputs(t *testing.T) {
 // outputs: it still reads, and those values are not shown as computed.
 func TestOldStoreWithFailedOutputsReads(t *testing.T) {
 	path := filepath.Join(t.TempDir(), "results.db")
-	recordFailing(t, path)
+	recordFailingWith(t, path, Options{ToolVersion: "test-1", jsonText: true})
 	db, err := sql.Open("sqlite", path)
 	if err != nil {
 		t.Fatal(err)

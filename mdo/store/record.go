@@ -32,6 +32,7 @@ func (s *Store) Begin(info mdo.RunInfo) error {
 	}
 	ctx := context.Background()
 	lay := newLayout(info.Design, info.Objectives, info.Constraints, info.Outputs)
+	lay.columns = lay.columns && !s.opt.jsonText
 	pickingUp := s.meta != nil
 	if pickingUp {
 		if err := s.Check(info.Script, info.Seed); err != nil {
@@ -40,6 +41,7 @@ func (s *Store) Begin(info mdo.RunInfo) error {
 		if err := sameLayout(s.lay, lay); err != nil {
 			return fmt.Errorf("store: %s: %w", s.path, err)
 		}
+		lay.columns = s.lay.columns
 	}
 	started := info.Started
 	if started.IsZero() {
@@ -172,11 +174,14 @@ func writeVariables(ctx context.Context, s *Store, lay *layout, outputs []mdo.Va
 		}
 	}
 	for k, v := range outputs {
-		var lo, hi any
+		var lo, hi, col any
 		if !v.Unbounded() {
 			lo, hi = v.Min, v.Max
 		}
-		if _, err := s.conn.ExecContext(ctx, q, "output", k, v.Name, v.Unit, v.Description, lo, hi, false, nil); err != nil {
+		if lay.columns {
+			col = lay.outCols[k]
+		}
+		if _, err := s.conn.ExecContext(ctx, q, "output", k, v.Name, v.Unit, v.Description, lo, hi, false, col); err != nil {
 			return err
 		}
 	}
@@ -254,6 +259,8 @@ func (l *layout) fits(e *mdo.Evaluation) error {
 		return fmt.Errorf("has %d objective values, the run has %d objectives", len(e.Objectives), no)
 	case len(e.Constraints) != nc || len(e.Margins) != nc || len(e.G) != nc:
 		return fmt.Errorf("has %d constraint values, the run has %d constraints", len(e.Constraints), nc)
+	case len(e.Outputs) != 0 && len(e.Outputs) != len(l.outputs):
+		return fmt.Errorf("has %d outputs, the run has %d", len(e.Outputs), len(l.outputs))
 	}
 	return nil
 }
@@ -330,6 +337,12 @@ func (s *Store) bind(rows []encRow) []driver.NamedValue {
 	s.args = s.args[:0]
 	for _, r := range rows {
 		e := r.e
+		if s.lay.columns {
+			s.add(int64(e.ID), e.Feasible, e.Converged, e.Violation, e.Err,
+				int64(e.CouplingIterations), int64(e.DisciplineCalls), e.Wall.Seconds(), r.vectors, mdo.ClassOf(e).String())
+			s.bindColumns(e)
+			continue
+		}
 		s.add(int64(e.ID), e.Feasible, e.Converged, e.Violation, e.Err,
 			int64(e.CouplingIterations), int64(e.DisciplineCalls), e.Wall.Seconds(), r.numbers, r.outputs, r.vectors, mdo.ClassOf(e).String())
 	}

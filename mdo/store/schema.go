@@ -13,10 +13,25 @@ import (
 // package documentation. Version 1 stores (written before the counters
 // were named repeats and picked-up points) still read and can be picked
 // up: their run table says cache_hits and restored, their sessions table
-// resumed_rows.
+// resumed_rows. Version 3 keeps the values of an evaluation in REAL
+// columns of evaluation_data (see layout.columns); stores of versions 1
+// and 2 keep them as JSON text and still read and can be picked up.
 const (
 	Format        = "couplet-case-store"
-	SchemaVersion = 2
+	SchemaVersion = 3
+)
+
+// maxTableColumns bounds the columns of evaluation_data in the REAL
+// column layout (SQLite's default SQLITE_MAX_COLUMN is 2000); a study
+// with more values per evaluation is stored in the JSON text layout.
+const maxTableColumns = 1900
+
+// outputChunk bounds the name/value pairs of one json_object call in the
+// evaluations view (SQLite before 3.48 allows 127 arguments), and the
+// terms of one UNION ALL in the outputs view (SQLite allows 500).
+const (
+	outputChunk = 60
+	unionChunk  = 400
 )
 
 // counterNames are the names of the run table's repeat and picked-up
@@ -110,7 +125,13 @@ type layout struct {
 	constraints []string
 	outputs     []mdo.Var
 
-	designCols, objCols, consCols, marginCols []string
+	designCols, objCols, consCols, marginCols, outCols []string
+
+	// columns: the values are REAL columns of evaluation_data, one per
+	// design variable, objective, constraint, margin and output (schema
+	// version 3); otherwise JSON text arrays numbers and outputs (versions
+	// 1 and 2, and a study with more than maxTableColumns values).
+	columns bool
 }
 
 // newLayout derives the column names of a run.
@@ -142,6 +163,10 @@ func newLayout(design []mdo.DesignSpec, objectives, constraints []string, output
 	for _, c := range constraints {
 		l.marginCols = append(l.marginCols, name("margin", c))
 	}
+	for _, v := range outputs {
+		l.outCols = append(l.outCols, name("output", v.Name))
+	}
+	l.columns = len(fixedCols)+3+len(l.named())+len(l.outCols) <= maxTableColumns
 	return l
 }
 
@@ -150,6 +175,10 @@ func newLayout(design []mdo.DesignSpec, objectives, constraints []string, output
 // as text, empty when it converged); stores written before it existed lack
 // the column and read as empty.
 func (l *layout) stored() []string {
+	if l.columns {
+		cols := append(append([]string(nil), fixedCols...), "vectors", "failure")
+		return append(append(cols, l.named()...), l.outCols...)
+	}
 	return append(append([]string(nil), fixedCols...), "numbers", "outputs", "vectors", "failure")
 }
 
@@ -172,6 +201,9 @@ func (l *layout) named() []string {
 // and output. Reading through a view parses the arrays; writing a row
 // costs no more than the arrays.
 func (l *layout) createEvaluations() string {
+	if l.columns {
+		return l.createColumns()
+	}
 	var b strings.Builder
 	b.WriteString(`CREATE TABLE evaluation_data (
 	id INTEGER PRIMARY KEY,

@@ -50,6 +50,10 @@ type Options struct {
 	// store's writer goroutine and must not call the store's Flush, End
 	// or Close, which wait for that goroutine.
 	OnCommit func(rows int)
+
+	// jsonText makes Begin write the JSON text layout of schema versions
+	// 1 and 2 (the package's tests of older stores).
+	jsonText bool
 }
 
 // normalized fills in the defaults and checks the values.
@@ -146,7 +150,7 @@ func dsn(path string, durable bool) string {
 	q.Add("_pragma", "journal_mode(WAL)")
 	q.Add("_pragma", "synchronous("+sync+")")
 	q.Add("_pragma", "foreign_keys(1)")
-	q.Add("_pragma", "wal_autocheckpoint(4000)")
+	q.Add("_pragma", "wal_autocheckpoint(1000)")
 	return "file:" + (&url.URL{Path: path}).EscapedPath() + "?" + q.Encode()
 }
 
@@ -188,6 +192,15 @@ func Create(path string, opt Options) (*Store, error) {
 	}
 	s := &Store{path: path, opt: opt, db: db, conn: conn, names: countersOf(SchemaVersion)}
 	ctx := context.Background()
+	// pages of 32 KiB hold several rows of a study with hundreds of
+	// outputs (4 KiB pages hold one and waste the rest); the page size of
+	// a file is set before its first table, outside write-ahead logging
+	for _, q := range []string{"PRAGMA journal_mode = DELETE", "PRAGMA page_size = 32768", "VACUUM", "PRAGMA journal_mode = WAL"} {
+		if _, err := conn.ExecContext(ctx, q); err != nil {
+			s.Close()
+			return nil, fmt.Errorf("store: creating %s: %s: %w", path, q, err)
+		}
+	}
 	err = s.inTx(func() error {
 		if _, err := conn.ExecContext(ctx, fixedSchema); err != nil {
 			return err
@@ -306,6 +319,11 @@ func (s *Store) loadMeta() error {
 	if err != nil {
 		return err
 	}
+	inJSON, err := s.jsonLayout()
+	if err != nil {
+		return err
+	}
+	lay.columns = !inJSON
 	if err := s.conn.QueryRowContext(ctx, "SELECT count(*) FROM evaluation_data").Scan(&m.Rows); err != nil {
 		return fmt.Errorf("store: counting the evaluations of %s: %w", s.path, err)
 	}

@@ -477,17 +477,21 @@ func TestPickUpRefusesOtherScriptOrSeed(t *testing.T) {
 func TestDamagedRows(t *testing.T) {
 	tests := []struct {
 		name, update, want string
+		columns            bool
 	}{
-		{"numbers not an array", `UPDATE evaluation_data SET numbers = 'oops' WHERE id = 2`, "numbers is not a JSON array"},
-		{"numbers too short", `UPDATE evaluation_data SET numbers = '[1,2]' WHERE id = 2`, "numbers holds 2 values, the run has 8"},
-		{"numbers not a number", `UPDATE evaluation_data SET numbers = '[1,2,3,4,x,6,7,8]' WHERE id = 2`, `"x" is not a number`},
-		{"short blob", `UPDATE evaluation_data SET vectors = x'0001' WHERE id = 2`, "vectors blob holds 2 bytes"},
-		{"outputs not an array", `UPDATE evaluation_data SET outputs = '{"y1": 1}' WHERE id = 2`, "outputs is not a JSON array"},
-		{"outputs too short", `UPDATE evaluation_data SET outputs = '[1]' WHERE id = 2`, "outputs holds 1 values, the run has 8"},
+		{"numbers not an array", `UPDATE evaluation_data SET numbers = 'oops' WHERE id = 2`, "numbers is not a JSON array", false},
+		{"numbers too short", `UPDATE evaluation_data SET numbers = '[1,2]' WHERE id = 2`, "numbers holds 2 values, the run has 8", false},
+		{"numbers not a number", `UPDATE evaluation_data SET numbers = '[1,2,3,4,x,6,7,8]' WHERE id = 2`, `"x" is not a number`, false},
+		{"short blob", `UPDATE evaluation_data SET vectors = x'0001' WHERE id = 2`, "vectors blob holds 2 bytes", false},
+		{"outputs not an array", `UPDATE evaluation_data SET outputs = '{"y1": 1}' WHERE id = 2`, "outputs is not a JSON array", false},
+		{"outputs too short", `UPDATE evaluation_data SET outputs = '[1]' WHERE id = 2`, "outputs holds 1 values, the run has 8", false},
+		{"short blob in REAL columns", `UPDATE evaluation_data SET vectors = x'0001' WHERE id = 2`, "vectors blob holds 2 bytes", true},
 	}
 	for _, tc := range tests {
 		path := filepath.Join(t.TempDir(), "d.db")
-		s, err := Create(path, Options{})
+		// the JSON text layout of older stores, and the REAL columns
+		// (whose only encoded part is the vectors blob)
+		s, err := Create(path, Options{jsonText: !tc.columns})
 		if err != nil {
 			t.Fatal(err)
 		}

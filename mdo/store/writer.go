@@ -67,6 +67,9 @@ type encBatch struct {
 	arena []byte
 	blobs []byte
 	cuts  []rowCuts
+	// columns: the layout keeps the values in REAL columns, bound from
+	// the evaluation; only the vectors blob is encoded
+	columns bool
 }
 
 // encRow is an evaluation with its numbers and outputs arrays and its
@@ -89,9 +92,12 @@ func (b *encBatch) encode() {
 	b.blobs = b.blobs[:0]
 	for _, e := range b.evs {
 		c := rowCuts{start: len(b.arena), blob: len(b.blobs)}
-		b.arena = appendNumbers(b.arena, e.Design, e.Objectives, e.Constraints, e.Margins)
-		c.mid = len(b.arena)
-		b.arena = appendNumbers(b.arena, e.Outputs)
+		if !b.columns {
+			b.arena = appendNumbers(b.arena, e.Design, e.Objectives, e.Constraints, e.Margins)
+			c.mid = len(b.arena)
+			b.arena = appendNumbers(b.arena, e.Outputs)
+		}
+		c.mid = max(c.mid, c.start)
 		c.end = len(b.arena)
 		for _, xs := range [3][]float64{e.X, e.F, e.G} {
 			b.blobs = appendFloats(b.blobs, xs)
@@ -132,7 +138,7 @@ func (s *Store) startWriter(rows int) {
 	}
 	w.cond.L = &w.mu
 	for range encodedBatches {
-		w.free <- &encBatch{}
+		w.free <- &encBatch{columns: s.lay.columns}
 	}
 	s.w = w
 	go s.encodeLoop(w)
