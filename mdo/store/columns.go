@@ -21,15 +21,7 @@ import (
 // createColumns is the DDL of the evaluations in the REAL column layout.
 func (l *layout) createColumns() string {
 	var b strings.Builder
-	b.WriteString(`CREATE TABLE evaluation_data (
-	id INTEGER PRIMARY KEY,
-	feasible INTEGER NOT NULL,
-	converged INTEGER NOT NULL,
-	violation REAL,
-	error TEXT NOT NULL,
-	iterations INTEGER NOT NULL,
-	discipline_calls INTEGER NOT NULL,
-	wall_seconds REAL NOT NULL,
+	b.WriteString(evaluationHead + `,
 	vectors BLOB NOT NULL,
 	failure TEXT NOT NULL DEFAULT ''`)
 	for _, c := range l.named() {

@@ -37,49 +37,39 @@ func (s *Store) Scan(fn func(*mdo.Evaluation) error) error {
 		}
 	}
 	l := s.lay
+	var h rowHead
+	dst := h.targets()
+	var numbers, outputs string
+	var vals []sql.NullFloat64
+	q := "SELECT id, feasible, converged, violation, error, iterations, discipline_calls, wall_seconds, vectors, " + s.failureCol() + ", numbers, outputs FROM evaluation_data ORDER BY id"
 	if l.columns {
-		return s.scanColumns(fn)
+		q = l.columnsSelect(s.failureCol())
+		vals = make([]sql.NullFloat64, len(l.named())+len(l.outCols))
+		for k := range vals {
+			dst = append(dst, &vals[k])
+		}
+	} else {
+		dst = append(dst, &numbers, &outputs)
 	}
-	rows, err := s.conn.QueryContext(context.Background(),
-		"SELECT id, feasible, converged, violation, error, iterations, discipline_calls, wall_seconds, numbers, outputs, vectors, "+s.failureCol()+" FROM evaluation_data ORDER BY id")
+	rows, err := s.conn.QueryContext(context.Background(), q)
 	if err != nil {
 		return fmt.Errorf("store: reading the evaluations of %s: %w", s.path, err)
 	}
 	defer rows.Close()
-	nd, no, nc := len(l.design), len(l.objectives), len(l.constraints)
-	var (
-		id, iters, calls    int64
-		feasible, converged bool
-		viol                sql.NullFloat64
-		errText, failure    string
-		wall                float64
-		numbers, outputs    string
-		vectors             []byte
-	)
 	for rows.Next() {
-		if err := rows.Scan(&id, &feasible, &converged, &viol, &errText, &iters, &calls, &wall, &numbers, &outputs, &vectors, &failure); err != nil {
+		if err := rows.Scan(dst...); err != nil {
 			return fmt.Errorf("store: reading the evaluations of %s: %w", s.path, err)
 		}
-		e := &mdo.Evaluation{
-			ID: int(id), Feasible: feasible, Converged: converged, Violation: nullNaN(viol), Err: errText,
-			CouplingIterations: int(iters), DisciplineCalls: int(calls), Wall: time.Duration(math.Round(wall * 1e9)),
+		e, err := h.evaluation(l)
+		if err == nil {
+			if l.columns {
+				l.columnValues(e, vals)
+			} else {
+				err = l.jsonValues(e, numbers, outputs)
+			}
 		}
-		if e.Failure, err = mdo.ParseFailureClass(failure); err != nil {
-			return fmt.Errorf("store: %s: evaluation %d: %v: %w", s.path, id, err, ErrDamaged)
-		}
-		if err := readVectors(e, vectors, nd, no, nc); err != nil {
-			return fmt.Errorf("store: %s: evaluation %d: %v: %w", s.path, id, err, ErrDamaged)
-		}
-		vals, err := parseNumbers("numbers", numbers, nd+no+2*nc)
 		if err != nil {
-			return fmt.Errorf("store: %s: evaluation %d: %v: %w", s.path, id, err, ErrDamaged)
-		}
-		e.Design, vals = vals[:nd:nd], vals[nd:]
-		e.Objectives, vals = vals[:no:no], vals[no:]
-		e.Constraints, vals = vals[:nc:nc], vals[nc:]
-		e.Margins = vals[:nc:nc]
-		if e.Outputs, err = parseOutputs(outputs, len(l.outputs), converged); err != nil {
-			return fmt.Errorf("store: %s: evaluation %d: %v: %w", s.path, id, err, ErrDamaged)
+			return fmt.Errorf("store: %s: evaluation %d: %v: %w", s.path, h.id, err, ErrDamaged)
 		}
 		if err := fn(e); err != nil {
 			return err
@@ -91,51 +81,50 @@ func (s *Store) Scan(fn func(*mdo.Evaluation) error) error {
 	return nil
 }
 
-// scanColumns is Scan in the REAL column layout.
-func (s *Store) scanColumns(fn func(*mdo.Evaluation) error) error {
-	l := s.lay
-	rows, err := s.conn.QueryContext(context.Background(), l.columnsSelect(s.failureCol()))
-	if err != nil {
-		return fmt.Errorf("store: reading the evaluations of %s: %w", s.path, err)
+// rowHead holds the columns of evaluation_data that both layouts have.
+type rowHead struct {
+	id, iters, calls    int64
+	feasible, converged bool
+	viol                sql.NullFloat64
+	errText, failure    string
+	wall                float64
+	vectors             []byte
+}
+
+// targets returns the Scan destinations of the head, in the order of
+// the SELECTs of Scan.
+func (h *rowHead) targets() []any {
+	return []any{&h.id, &h.feasible, &h.converged, &h.viol, &h.errText, &h.iters, &h.calls, &h.wall, &h.vectors, &h.failure}
+}
+
+// evaluation builds the evaluation of the head, with its unit point,
+// minimised objectives and scaled constraints from the vectors blob.
+func (h *rowHead) evaluation(l *layout) (*mdo.Evaluation, error) {
+	e := &mdo.Evaluation{
+		ID: int(h.id), Feasible: h.feasible, Converged: h.converged, Violation: nullNaN(h.viol), Err: h.errText,
+		CouplingIterations: int(h.iters), DisciplineCalls: int(h.calls), Wall: time.Duration(math.Round(h.wall * 1e9)),
 	}
-	defer rows.Close()
+	var err error
+	if e.Failure, err = mdo.ParseFailureClass(h.failure); err != nil {
+		return nil, err
+	}
+	return e, readVectors(e, h.vectors, len(l.design), len(l.objectives), len(l.constraints))
+}
+
+// jsonValues reads the JSON text arrays numbers and outputs of the
+// layout of schema versions 1 and 2 into e.
+func (l *layout) jsonValues(e *mdo.Evaluation, numbers, outputs string) error {
 	nd, no, nc := len(l.design), len(l.objectives), len(l.constraints)
-	var (
-		id, iters, calls    int64
-		feasible, converged bool
-		viol                sql.NullFloat64
-		errText, failure    string
-		wall                float64
-		vectors             []byte
-	)
-	vals := make([]sql.NullFloat64, len(l.named())+len(l.outCols))
-	dst := []any{&id, &feasible, &converged, &viol, &errText, &iters, &calls, &wall, &vectors, &failure}
-	for k := range vals {
-		dst = append(dst, &vals[k])
+	vals, err := parseNumbers("numbers", numbers, nd+no+2*nc)
+	if err != nil {
+		return err
 	}
-	for rows.Next() {
-		if err := rows.Scan(dst...); err != nil {
-			return fmt.Errorf("store: reading the evaluations of %s: %w", s.path, err)
-		}
-		e := &mdo.Evaluation{
-			ID: int(id), Feasible: feasible, Converged: converged, Violation: nullNaN(viol), Err: errText,
-			CouplingIterations: int(iters), DisciplineCalls: int(calls), Wall: time.Duration(math.Round(wall * 1e9)),
-		}
-		if e.Failure, err = mdo.ParseFailureClass(failure); err != nil {
-			return fmt.Errorf("store: %s: evaluation %d: %v: %w", s.path, id, err, ErrDamaged)
-		}
-		if err := readVectors(e, vectors, nd, no, nc); err != nil {
-			return fmt.Errorf("store: %s: evaluation %d: %v: %w", s.path, id, err, ErrDamaged)
-		}
-		l.columnValues(e, vals)
-		if err := fn(e); err != nil {
-			return err
-		}
-	}
-	if err := rows.Err(); err != nil {
-		return fmt.Errorf("store: reading the evaluations of %s: %w", s.path, err)
-	}
-	return nil
+	e.Design, vals = vals[:nd:nd], vals[nd:]
+	e.Objectives, vals = vals[:no:no], vals[no:]
+	e.Constraints, vals = vals[:nc:nc], vals[nc:]
+	e.Margins = vals[:nc:nc]
+	e.Outputs, err = parseOutputs(outputs, len(l.outputs), e.Converged)
+	return err
 }
 
 // readVectors decodes the vectors blob into e.X, e.F and e.G.

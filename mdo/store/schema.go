@@ -192,6 +192,17 @@ func (l *layout) named() []string {
 	return append(cols, l.marginCols...)
 }
 
+// evaluationHead begins the DDL of evaluation_data in both layouts.
+const evaluationHead = `CREATE TABLE evaluation_data (
+	id INTEGER PRIMARY KEY,
+	feasible INTEGER NOT NULL,
+	converged INTEGER NOT NULL,
+	violation REAL,
+	error TEXT NOT NULL,
+	iterations INTEGER NOT NULL,
+	discipline_calls INTEGER NOT NULL,
+	wall_seconds REAL NOT NULL`
+
 // createEvaluations is the DDL of the evaluations: the table
 // evaluation_data, where the design, objective, constraint and margin
 // values of a row are kept once, as the JSON array numbers, and the
@@ -205,15 +216,7 @@ func (l *layout) createEvaluations() string {
 		return l.createColumns()
 	}
 	var b strings.Builder
-	b.WriteString(`CREATE TABLE evaluation_data (
-	id INTEGER PRIMARY KEY,
-	feasible INTEGER NOT NULL,
-	converged INTEGER NOT NULL,
-	violation REAL,
-	error TEXT NOT NULL,
-	iterations INTEGER NOT NULL,
-	discipline_calls INTEGER NOT NULL,
-	wall_seconds REAL NOT NULL,
+	b.WriteString(evaluationHead + `,
 	numbers TEXT NOT NULL,
 	outputs TEXT NOT NULL,
 	vectors BLOB NOT NULL,
