@@ -38,6 +38,7 @@ func init() {
 		"DifferentialEvolution": reflect.ValueOf((*optimizers.DifferentialEvolution)(nil)),
 		"EqualityHandling":      reflect.ValueOf((*optimizers.EqualityHandling)(nil)),
 		"Evolution":             reflect.ValueOf((*optimizers.Evolution)(nil)),
+		"ExpectedImprovement":   reflect.ValueOf((*optimizers.ExpectedImprovement)(nil)),
 		"FitProblem":            reflect.ValueOf((*optimizers.FitProblem)(nil)),
 		"FitResult":             reflect.ValueOf((*optimizers.FitResult)(nil)),
 		"FullFactorial":         reflect.ValueOf((*optimizers.FullFactorial)(nil)),

@@ -27,6 +27,7 @@ var Framework = []string{
 	"couplet/mdo/external",
 	"couplet/optimizers",
 	"couplet/optimizers/sensitivity",
+	"couplet/optimizers/surrogate",
 	"couplet/disciplines",
 }
 
