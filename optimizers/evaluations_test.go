@@ -62,8 +62,17 @@ func countRuns() []countRun {
 			countRun{p.name, p.study, p.want, p.tol, p.rel, DifferentialEvolution{}, false},
 			countRun{p.name, p.study, p.want, p.tol, p.rel, ParticleSwarm{}, false},
 			countRun{p.name, p.study, p.want, p.tol, p.rel, ParticleSwarm{Evolution: Evolution{Generations: 400}, Repair: Reflect}, false},
+			countRun{p.name, p.study, p.want, p.tol, p.rel, Sextant{}, true},
 		)
 	}
+	// the gradient-based method alone on the smooth problems it is asked
+	// to solve: g07, g09 (Liang et al., 2006) and the welded beam (Deb,
+	// 2000), reached when within 1e-6 relative
+	runs = append(runs,
+		countRun{"g07", G07, G07Optimum, 1e-6, true, Sextant{}, true},
+		countRun{"g09", G09, G09Optimum, 1e-6, true, Sextant{}, true},
+		countRun{"welded beam", WeldedBeam, WeldedBeamOptimum, 1e-6, true, Sextant{}, true},
+	)
 	return runs
 }
 

@@ -104,6 +104,7 @@ func init() {
 		"PartialsEntry":          reflect.ValueOf((*mdo.PartialsEntry)(nil)),
 		"PartialsFunc":           reflect.ValueOf((*mdo.PartialsFunc)(nil)),
 		"PickUpRecorder":         reflect.ValueOf((*mdo.PickUpRecorder)(nil)),
+		"PointDerivatives":       reflect.ValueOf((*mdo.PointDerivatives)(nil)),
 		"Progress":               reflect.ValueOf((*mdo.Progress)(nil)),
 		"RangeError":             reflect.ValueOf((*mdo.RangeError)(nil)),
 		"Recorder":               reflect.ValueOf((*mdo.Recorder)(nil)),

@@ -1,0 +1,703 @@
+package optimizers
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"math"
+	"math/rand/v2"
+
+	"gonum.org/v1/gonum/mat"
+	"gonum.org/v1/gonum/stat/distmv"
+	"gonum.org/v1/gonum/stat/samplemv"
+
+	"couplet/mdo"
+)
+
+// Sextant is a gradient-based constrained optimiser: sequential quadratic
+// programming (SQP) with a damped BFGS approximation of the Hessian of
+// the Lagrangian (Powell, "A fast algorithm for nonlinearly constrained
+// optimization calculations", 1978), in the unit box of the study.
+//
+// Each iteration takes the gradients of the objective and of every
+// constraint at the current point from the coupled chain rule
+// (mdo.Evaluator.Derivatives: one analysis, then linear solves), solves
+// the quadratic subproblem
+//
+//	min ½ dᵀBd + ∇fᵀd   s.t.  ∇cᵢᵀd + cᵢ ≥ 0 (inequalities),
+//	                           ∇cₑᵀd + cₑ = 0 (equalities),  0 ≤ u + d ≤ 1
+//
+// in its elastic form (every linearised constraint may be violated at the
+// cost ρ per unit, so the subproblem is always feasible) with the
+// interior-point solver of qp.go, and searches along d by backtracking on
+// the L1 merit function φ = f + ν(Σ|cₑ| + Σ max(0, −cᵢ)), ν kept above
+// 1.5 × the largest multiplier (Han 1977; Powell 1978). The objective is
+// divided by max(|f(start)|, 1); the constraints are scaled by their
+// Scale (see mdo.Constraint), band constraints give two inequalities and
+// equalities are solved exactly (their tolerance only judges feasibility).
+//
+// It has converged when the largest scaled violation is at most
+// FeasibilityTolerance and the optimality measure, the larger of the
+// projected gradient of the Lagrangian (with the subproblem's multipliers;
+// components pointing out of the box at an active bound do not count) and
+// the complementarity |λᵢcᵢ|, is at most OptimalityTolerance.
+//
+// Starts > 1 runs it again from Starts − 1 points of a scrambled Halton
+// sequence drawn from the study's seed (deterministic) and keeps the best
+// point; Explore reports how many distinct optima the starts found. It
+// refuses integer design variables and several objectives. Zero values take
+// the defaults.
+type Sextant struct {
+	// MaxIterations caps the iterations of each start; default 100.
+	MaxIterations int
+	// MaxEvaluations caps the evaluations of the whole run (repeats are
+	// free); default 2000.
+	MaxEvaluations int
+	// OptimalityTolerance; default 1e-6 (the default major optimality
+	// tolerance of SNOPT, Gill, Murray & Saunders, SIAM Rev. 47, 2005).
+	OptimalityTolerance float64
+	// FeasibilityTolerance on the largest scaled violation; default 1e-8.
+	FeasibilityTolerance float64
+	// Starts is the number of starting points, the study's baseline
+	// design first; default 1.
+	Starts int
+}
+
+// Name implements Optimizer.
+func (Sextant) Name() string { return "Sextant" }
+
+// validate checks the settings.
+func (o Sextant) validate() error {
+	const m = "Sextant"
+	return firstError(
+		checkInt(m, "MaxIterations", o.MaxIterations, 1),
+		checkInt(m, "MaxEvaluations", o.MaxEvaluations, 1),
+		checkRange(m, "OptimalityTolerance", o.OptimalityTolerance, 0, 1, true),
+		checkRange(m, "FeasibilityTolerance", o.FeasibilityTolerance, 0, 1, true),
+		checkInt(m, "Starts", o.Starts, 1),
+	)
+}
+
+// Optimum is where one start of a multi-start run ended.
+type Optimum struct {
+	// Start and X are the starting and final points in the unit box,
+	// Design the final physical values.
+	Start, X, Design []float64
+	// Objective is the first objective as declared.
+	Objective float64
+	Feasible  bool
+	// Converged is true when the convergence test was met (not a budget
+	// or iteration limit).
+	Converged  bool
+	Iterations int
+	// Optimality and Violation are the last measures of the test.
+	Optimality, Violation float64
+	// Multipliers are the Lagrange multipliers of the study's constraints
+	// at the end, one per constraint of mdo.Evaluator.Constraints, in
+	// the constraint's scaled units (see Sextant); 0 when inactive.
+	Multipliers []float64
+}
+
+// StartsReport describes a multi-start run (Sextant.Explore).
+type StartsReport struct {
+	// Optima lists every start's end, in the order of the starts.
+	Optima []Optimum
+	// Distinct counts the distinct converged feasible optima: two are the
+	// same when their points are within 1e-3 of the box in every
+	// coordinate.
+	Distinct int
+	// LinearSolves and DisciplineCalls count the work of the gradients.
+	LinearSolves, DisciplineCalls int
+}
+
+// Minimize implements Optimizer.
+func (o Sextant) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error) {
+	res, _, err := o.Explore(ctx, s)
+	return res, err
+}
+
+// Explore runs the method like Minimize and also reports where each start
+// ended and how many distinct optima were found.
+func (o Sextant) Explore(ctx context.Context, s *mdo.Study) (*mdo.Result, *StartsReport, error) {
+	if err := o.validate(); err != nil {
+		return nil, nil, err
+	}
+	r, err := beginLocal(ctx, s, o.Name(), o)
+	if err != nil {
+		return nil, nil, err
+	}
+	r.maxEvals = or(o.MaxEvaluations, 2000)
+	starts := [][]float64{r.ev.Start()}
+	if n := or(o.Starts, 1); n > 1 {
+		d := r.ev.Dim()
+		seed := r.ev.Seed()
+		batch := mat.NewDense(n-1, d, nil)
+		samplemv.Halton{Kind: samplemv.Owen, Q: distmv.NewUnitUniform(d, nil), Src: rand.NewPCG(seed, mix(seed, 11))}.Sample(batch)
+		starts = append(starts, rows(batch)...)
+	}
+	rep := &StartsReport{}
+	stop := mdo.NotStopped
+	for _, x0 := range starts {
+		sq := newSQP(r, o)
+		opt, st, err := sq.run(x0)
+		rep.LinearSolves += sq.solves
+		rep.DisciplineCalls += sq.calls
+		if err != nil {
+			res, ferr := r.finish(mdo.NotStopped, err)
+			return res, rep, ferr
+		}
+		if opt != nil {
+			rep.Optima = append(rep.Optima, *opt)
+		}
+		if st != mdo.NotStopped && st != mdo.StopConverged && st != mdo.StopIterations {
+			stop = st
+			break
+		}
+		stop = st
+	}
+	rep.Distinct = countDistinct(rep.Optima)
+	res, err := r.finish(stop, nil)
+	return res, rep, err
+}
+
+// countDistinct counts the distinct converged feasible optima.
+func countDistinct(opts []Optimum) int {
+	var kept [][]float64
+	for _, o := range opts {
+		if !o.Converged || !o.Feasible {
+			continue
+		}
+		same := false
+		for _, k := range kept {
+			d := 0.0
+			for j := range k {
+				d = math.Max(d, math.Abs(k[j]-o.X[j]))
+			}
+			if d <= 1e-3 {
+				same = true
+				break
+			}
+		}
+		if !same {
+			kept = append(kept, o.X)
+		}
+	}
+	return len(kept)
+}
+
+// sqpRow is one scalar constraint of the subproblem:
+// c = sign·(g_k − bound)/scale, c ≥ 0 or (eq) c = 0.
+type sqpRow struct {
+	k           int // index into the study's constraints
+	sign, bound float64
+	scale       float64
+	eq          bool
+}
+
+// sqpPoint is an evaluated point with its gradients.
+type sqpPoint struct {
+	u  []float64
+	ev *mdo.Evaluation
+	f  float64
+	g  []float64
+	c  []float64   // per row
+	jc [][]float64 // per row
+}
+
+// sqp is the state of one start.
+type sqp struct {
+	r             *run
+	o             Sextant
+	rows          []sqpRow
+	fscale        float64
+	solves, calls int
+}
+
+// newSQP prepares the rows of the study's constraints.
+func newSQP(r *run, o Sextant) *sqp {
+	s := &sqp{r: r, o: o}
+	for k, c := range r.ev.Constraints() {
+		sc := c.EffectiveScale()
+		switch c.Kind {
+		case mdo.LessEqual:
+			s.rows = append(s.rows, sqpRow{k: k, sign: -1, bound: c.Upper, scale: sc})
+		case mdo.GreaterEqual:
+			s.rows = append(s.rows, sqpRow{k: k, sign: 1, bound: c.Lower, scale: sc})
+		case mdo.Equal:
+			s.rows = append(s.rows, sqpRow{k: k, sign: 1, bound: c.Lower, scale: sc, eq: true})
+		case mdo.InBand:
+			s.rows = append(s.rows, sqpRow{k: k, sign: 1, bound: c.Lower, scale: sc}, sqpRow{k: k, sign: -1, bound: c.Upper, scale: sc})
+		}
+	}
+	return s
+}
+
+// errSQPStop carries a stop reason out of point.
+type errSQPStop struct{ stop mdo.StopReason }
+
+func (e errSQPStop) Error() string { return "stopped: " + e.stop.String() }
+
+// values fills the scaled objective and constraint values of ev.
+func (s *sqp) values(p *sqpPoint) {
+	p.f = p.ev.F[0] / s.fscale
+	p.c = make([]float64, len(s.rows))
+	for i, row := range s.rows {
+		p.c[i] = row.sign * (p.ev.Constraints[row.k] - row.bound) / row.scale
+	}
+}
+
+// trial evaluates u without gradients; nil when the analysis failed.
+func (s *sqp) trial(u []float64) (*sqpPoint, error) {
+	evs, stop, err := s.r.evaluate([][]float64{u})
+	if err != nil {
+		return nil, err
+	}
+	if stop != mdo.NotStopped {
+		return nil, errSQPStop{stop}
+	}
+	ev := evs[0]
+	if ev == nil || !ev.Converged || ev.Err != "" {
+		return nil, nil
+	}
+	p := &sqpPoint{u: u, ev: ev}
+	if s.fscale == 0 {
+		s.fscale = math.Max(math.Abs(ev.F[0]), 1)
+	}
+	s.values(p)
+	return p, nil
+}
+
+// gradients adds the gradients at p.
+func (s *sqp) gradients(p *sqpPoint) error {
+	if err := s.r.ctx.Err(); err != nil {
+		return errSQPStop{ctxStop(err)}
+	}
+	pd, err := s.r.ev.Derivatives(s.r.ctx, p.u)
+	if err != nil {
+		if cerr := s.r.ctx.Err(); cerr != nil {
+			return errSQPStop{ctxStop(cerr)}
+		}
+		return err
+	}
+	s.solves += pd.LinearSolves
+	s.calls += pd.DisciplineCalls
+	sense := 1.0
+	if s.r.ev.Study().Objectives[0].Maximize {
+		sense = -1
+	}
+	p.g = make([]float64, len(p.u))
+	for j := range p.g {
+		p.g[j] = sense * pd.Objectives[0][j] / s.fscale
+	}
+	p.jc = make([][]float64, len(s.rows))
+	for i, row := range s.rows {
+		p.jc[i] = make([]float64, len(p.u))
+		for j := range p.u {
+			p.jc[i][j] = row.sign * pd.Constraints[row.k][j] / row.scale
+		}
+	}
+	return nil
+}
+
+// violation is the L1 violation and the largest single violation.
+func (s *sqp) violation(c []float64) (sum, worst float64) {
+	for i, row := range s.rows {
+		v := math.Max(0, -c[i])
+		if row.eq {
+			v = math.Abs(c[i])
+		}
+		sum += v
+		worst = math.Max(worst, v)
+	}
+	return sum, worst
+}
+
+// run runs SQP from x0 and returns where it ended.
+func (s *sqp) run(x0 []float64) (*Optimum, mdo.StopReason, error) {
+	stopOf := func(err error) (mdo.StopReason, error) {
+		var st errSQPStop
+		if errors.As(err, &st) {
+			return st.stop, nil
+		}
+		return mdo.NotStopped, err
+	}
+	u0 := make([]float64, len(x0))
+	for j := range x0 {
+		u0[j] = clip01(x0[j])
+	}
+	p, err := s.trial(u0)
+	if err == nil && p != nil {
+		err = s.gradients(p)
+	}
+	if err != nil {
+		st, err := stopOf(err)
+		return nil, st, err
+	}
+	opt := &Optimum{Start: u0}
+	if p == nil {
+		// the start does not analyse: nothing to descend from
+		opt.X = u0
+		return opt, mdo.StopIterations, nil
+	}
+	n := len(u0)
+	B := mat.NewDense(n, n, nil)
+	for j := 0; j < n; j++ {
+		B.Set(j, j, 1)
+	}
+	nu := 1.0
+	maxIter := or(s.o.MaxIterations, 100)
+	optTol := or(s.o.OptimalityTolerance, 1e-6)
+	feasTol := or(s.o.FeasibilityTolerance, 1e-8)
+	first := true
+	stop := mdo.StopIterations
+	var lam []float64
+	for it := 0; it < maxIter; it++ {
+		d, lamRows, lin, measure, err := s.subproblem(p, B, nu)
+		if err != nil {
+			return nil, mdo.NotStopped, err
+		}
+		lam = lamRows
+		_, worst := s.violation(p.c)
+		opt.Iterations = it
+		opt.Optimality, opt.Violation = measure, worst
+		if worst <= feasTol && measure <= optTol {
+			stop = mdo.StopConverged
+			opt.Converged = true
+			break
+		}
+		for _, l := range lam {
+			nu = math.Max(nu, 1.5*math.Abs(l))
+		}
+		viol, _ := s.violation(p.c)
+		phi := p.f + nu*viol
+		dphi := dot(p.g, d) - nu*(viol-lin)
+		if infNorm(d) <= 1e-15 {
+			stop = mdo.StopConverged
+			break
+		}
+		// backtracking on the merit function, with one second-order
+		// correction of the full step (against the Maratos effect)
+		var next *sqpPoint
+		alpha := 1.0
+		accept := func(q *sqpPoint, alpha float64) bool {
+			if q == nil {
+				return false
+			}
+			qv, _ := s.violation(q.c)
+			return q.f+nu*qv <= phi+1e-4*alpha*math.Min(dphi, 0)
+		}
+		for ls := 0; ls < 40 && next == nil; ls++ {
+			u := boxStep(p.u, d, alpha)
+			if ls > 0 && infNorm(subv(u, p.u)) == 0 {
+				break
+			}
+			q, err := s.trial(u)
+			if err != nil {
+				st, err := stopOf(err)
+				s.fill(opt, p, lam)
+				return opt, st, err
+			}
+			if accept(q, alpha) {
+				next = q
+				break
+			}
+			if ls == 0 && q != nil {
+				if dc := s.correction(p, q, d, lam); dc != nil {
+					qc, err := s.trial(boxStep(p.u, dc, 1))
+					if err != nil {
+						st, err := stopOf(err)
+						s.fill(opt, p, lam)
+						return opt, st, err
+					}
+					if accept(qc, 1) {
+						next = qc
+						break
+					}
+				}
+			}
+			alpha /= 2
+		}
+		if next == nil {
+			// no decrease along the step: as far as this model goes
+			stop = mdo.StopConverged
+			break
+		}
+		if err := s.gradients(next); err != nil {
+			st, err := stopOf(err)
+			s.fill(opt, p, lam)
+			return opt, st, err
+		}
+		s.update(B, p, next, lam, first)
+		first = false
+		p = next
+		s.r.iteration()
+	}
+	s.fill(opt, p, lam)
+	return opt, stop, nil
+}
+
+// interior is the margin, in scaled units, by which the subproblem asks
+// each inequality to hold: the end point then satisfies its active
+// constraints strictly, as the Evaluator's feasibility test requires,
+// at a cost in the objective of the multiplier times 1e-10.
+const interior = 1e-10
+
+// boxStep returns u + alpha·d in the box; a coordinate within 1e-10 of a
+// bound is put on it (the interior-point subproblem reaches a bound only
+// within its tolerance).
+func boxStep(u, d []float64, alpha float64) []float64 {
+	out := make([]float64, len(u))
+	for j := range u {
+		out[j] = clip01(u[j] + alpha*d[j])
+		if out[j] < 1e-10 {
+			out[j] = 0
+		} else if out[j] > 1-1e-10 {
+			out[j] = 1
+		}
+	}
+	return out
+}
+
+// subv is a − b.
+func subv(a, b []float64) []float64 {
+	o := make([]float64, len(a))
+	for i := range a {
+		o[i] = a[i] - b[i]
+	}
+	return o
+}
+
+// correction is the second-order correction of the step d from p, whose
+// trial point q failed the merit test: d + d̂ with d̂ the least-norm step
+// that, to first order, restores the constraints active in the
+// subproblem (equalities, inequalities with a positive multiplier) to
+// their linearised values, J_A d̂ = −(c_A(q) − c_A(p) − J_A d), on the
+// coordinates not held at a bound (Nocedal & Wright, 2006, §18.3). nil
+// when no constraint is active or the system is singular.
+func (s *sqp) correction(p, q *sqpPoint, d, lam []float64) []float64 {
+	n := len(p.u)
+	var act []int
+	for i, row := range s.rows {
+		if row.eq || lam[i] > 0 {
+			act = append(act, i)
+		}
+	}
+	var free []int
+	for j := 0; j < n; j++ {
+		if e := p.u[j] + d[j]; e > 1e-10 && e < 1-1e-10 {
+			free = append(free, j)
+		}
+	}
+	if len(act) == 0 || len(act) > len(free) {
+		return nil
+	}
+	J := mat.NewDense(len(act), len(free), nil)
+	r := mat.NewVecDense(len(act), nil)
+	for a, i := range act {
+		lin := p.c[i]
+		for j := 0; j < n; j++ {
+			lin += p.jc[i][j] * d[j]
+		}
+		target := lin
+		if !s.rows[i].eq {
+			target = math.Max(lin, interior)
+		}
+		r.SetVec(a, target-q.c[i])
+		for b, j := range free {
+			J.Set(a, b, p.jc[i][j])
+		}
+	}
+	var JJt mat.Dense
+	JJt.Mul(J, J.T())
+	var w mat.VecDense
+	if err := w.SolveVec(&JJt, r); err != nil {
+		return nil
+	}
+	var dh mat.VecDense
+	dh.MulVec(J.T(), &w)
+	out := append([]float64(nil), d...)
+	for b, j := range free {
+		out[j] += dh.AtVec(b)
+	}
+	return out
+}
+
+// fill records the end point of a start.
+func (s *sqp) fill(opt *Optimum, p *sqpPoint, lam []float64) {
+	opt.X = append([]float64(nil), p.u...)
+	opt.Design = append([]float64(nil), p.ev.Design...)
+	opt.Objective = p.ev.Objectives[0]
+	opt.Feasible = p.ev.Feasible
+	opt.Multipliers = make([]float64, len(s.r.ev.Constraints()))
+	for i, row := range s.rows {
+		if i < len(lam) {
+			// λ is per scaled row; the study's sign: positive when the
+			// limit binds
+			opt.Multipliers[row.k] += lam[i]
+		}
+	}
+}
+
+// lagrangianGradient is ∇f − Σ λᵢ ∇cᵢ at p.
+func (s *sqp) lagrangianGradient(p *sqpPoint, lam []float64) []float64 {
+	g := append([]float64(nil), p.g...)
+	for i := range s.rows {
+		for j := range g {
+			g[j] -= lam[i] * p.jc[i][j]
+		}
+	}
+	return g
+}
+
+// update applies the damped BFGS update (Powell 1978) to B.
+func (s *sqp) update(B *mat.Dense, p, q *sqpPoint, lam []float64, first bool) {
+	n := len(p.u)
+	sv := make([]float64, n)
+	for j := range sv {
+		sv[j] = q.u[j] - p.u[j]
+	}
+	g0 := s.lagrangianGradient(p, lam)
+	g1 := s.lagrangianGradient(q, lam)
+	y := make([]float64, n)
+	for j := range y {
+		y[j] = g1[j] - g0[j]
+	}
+	sy := dot(sv, y)
+	if first && sy > 0 {
+		// Shanno–Phua scaling of the initial matrix
+		sc := dot(y, y) / sy
+		for j := 0; j < n; j++ {
+			B.Set(j, j, sc)
+		}
+	}
+	bs := make([]float64, n)
+	mulVec(B, sv, bs)
+	sbs := dot(sv, bs)
+	if !(sbs > 1e-300) {
+		return
+	}
+	theta := 1.0
+	if sy < 0.2*sbs {
+		theta = 0.8 * sbs / (sbs - sy)
+	}
+	rv := make([]float64, n)
+	for j := range rv {
+		rv[j] = theta*y[j] + (1-theta)*bs[j]
+	}
+	sr := dot(sv, rv)
+	if !(sr > 1e-300) {
+		return
+	}
+	for i := 0; i < n; i++ {
+		for j := 0; j < n; j++ {
+			B.Set(i, j, B.At(i, j)+rv[i]*rv[j]/sr-bs[i]*bs[j]/sbs)
+		}
+	}
+}
+
+// subproblem solves the elastic QP at p. It returns the step, the
+// multipliers of the rows, the L1 violation of the linearised
+// constraints at the step and the optimality measure at p.
+func (s *sqp) subproblem(p *sqpPoint, B *mat.Dense, nu float64) (d, lam []float64, lin, measure float64, err error) {
+	n := len(p.u)
+	var ineq, eq []int
+	for i, row := range s.rows {
+		if row.eq {
+			eq = append(eq, i)
+		} else {
+			ineq = append(ineq, i)
+		}
+	}
+	mi, me := len(ineq), len(eq)
+	nv := n + mi + 2*me // d, v (ineq slacks), p, q (eq slacks)
+	rho := math.Max(1e4, 100*nu)
+	H := mat.NewDense(nv, nv, nil)
+	for i := 0; i < n; i++ {
+		for j := 0; j < n; j++ {
+			H.Set(i, j, B.At(i, j))
+		}
+	}
+	c := make([]float64, nv)
+	copy(c, p.g)
+	for k := n; k < nv; k++ {
+		c[k] = rho
+	}
+	ng := mi + (mi + 2*me) + 2*n
+	G := mat.NewDense(ng, nv, nil)
+	h := make([]float64, ng)
+	row := 0
+	for a, i := range ineq {
+		for j := 0; j < n; j++ {
+			G.Set(row, j, p.jc[i][j])
+		}
+		G.Set(row, n+a, 1)
+		h[row] = interior - p.c[i]
+		row++
+	}
+	for k := n; k < nv; k++ {
+		G.Set(row, k, 1)
+		row++
+	}
+	for j := 0; j < n; j++ {
+		G.Set(row, j, 1)
+		h[row] = -p.u[j]
+		G.Set(row+1, j, -1)
+		h[row+1] = p.u[j] - 1
+		row += 2
+	}
+	var A *mat.Dense
+	var b []float64
+	if me > 0 {
+		A = mat.NewDense(me, nv, nil)
+		b = make([]float64, me)
+		for a, i := range eq {
+			for j := 0; j < n; j++ {
+				A.Set(a, j, p.jc[i][j])
+			}
+			A.Set(a, n+mi+a, 1)
+			A.Set(a, n+mi+me+a, -1)
+			b[a] = -p.c[i]
+		}
+	}
+	sol, err := solveQP(qpProblem{H: H, c: c, A: A, b: b, G: G, h: h})
+	if err != nil {
+		return nil, nil, 0, 0, fmt.Errorf("optimizers: Sextant: the quadratic subproblem at %v: %w", p.ev.Design, err)
+	}
+	d = sol.x[:n]
+	for k := n; k < nv; k++ {
+		lin += math.Max(0, sol.x[k])
+	}
+	lam = make([]float64, len(s.rows))
+	for a, i := range ineq {
+		lam[i] = sol.z[a]
+	}
+	for a, i := range eq {
+		lam[i] = sol.y[a]
+	}
+	// optimality: the projected gradient of the Lagrangian and the
+	// complementarity
+	gl := s.lagrangianGradient(p, lam)
+	for j, v := range gl {
+		// a bound the subproblem's step holds is active
+		if (p.u[j]+d[j] <= 1e-9 && v > 0) || (p.u[j]+d[j] >= 1-1e-9 && v < 0) {
+			continue
+		}
+		measure = math.Max(measure, math.Abs(v))
+	}
+	for _, i := range ineq {
+		measure = math.Max(measure, math.Abs(lam[i]*p.c[i]))
+	}
+	return d, lam, lin, measure, nil
+}
+
+// dot is the inner product.
+func dot(a, b []float64) float64 {
+	s := 0.0
+	for i := range a {
+		s += a[i] * b[i]
+	}
+	return s
+}
+
+// Sextant implements the contract.
+var _ Optimizer = Sextant{}
