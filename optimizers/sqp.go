@@ -31,7 +31,7 @@ import (
 // cost ρ per unit, so the subproblem is always feasible) with the
 // interior-point solver of qp.go, and searches along d by backtracking on
 // the L1 merit function φ = f + ν(Σ|cₑ| + Σ max(0, −cᵢ)), ν kept above
-// 1.5 × the largest multiplier (Han 1977; Powell 1978). The objective is
+// 1.5 × the largest multiplier below ρ/2 (ρ = 1e4) (Han 1977; Powell 1978). The objective is
 // divided by max(|f(start)|, 1); the constraints are scaled by their
 // Scale (see mdo.Constraint), band constraints give two inequalities and
 // equalities are solved exactly (their tolerance only judges feasibility).
@@ -40,7 +40,10 @@ import (
 // FeasibilityTolerance and the optimality measure, the larger of the
 // projected gradient of the Lagrangian (with the subproblem's multipliers;
 // components pointing out of the box at an active bound do not count) and
-// the complementarity |λᵢcᵢ|, is at most OptimalityTolerance.
+// the complementarity |λᵢcᵢ|, is at most OptimalityTolerance. The run also
+// stops, with mdo.StopConverged but Optimum.Converged false, when the line
+// search finds no decrease of the merit along the step: the search has
+// then reached the precision of the analysis and its derivatives.
 //
 // Starts > 1 runs it again from Starts − 1 points of a scrambled Halton
 // sequence drawn from the study's seed (deterministic) and keeps the best
@@ -352,7 +355,12 @@ func (s *sqp) run(x0 []float64) (*Optimum, mdo.StopReason, error) {
 	stop := mdo.StopIterations
 	var lam []float64
 	for it := 0; it < maxIter; it++ {
-		d, lamRows, lin, measure, err := s.subproblem(p, B, nu)
+		d, lamRows, lin, measure, err := s.subproblem(p, B)
+		if err != nil {
+			// restart the quasi-Newton model once and try again
+			resetHessian(B)
+			d, lamRows, lin, measure, err = s.subproblem(p, B)
+		}
 		if err != nil {
 			return nil, mdo.NotStopped, err
 		}
@@ -366,7 +374,11 @@ func (s *sqp) run(x0 []float64) (*Optimum, mdo.StopReason, error) {
 			break
 		}
 		for _, l := range lam {
-			nu = math.Max(nu, 1.5*math.Abs(l))
+			// a multiplier at the elastic price belongs to a
+			// linearisation no step satisfies: it does not set ν
+			if math.Abs(l) < 0.5*elasticPrice {
+				nu = math.Max(nu, 1.5*math.Abs(l))
+			}
 		}
 		viol, _ := s.violation(p.c)
 		phi := p.f + nu*viol
@@ -418,7 +430,8 @@ func (s *sqp) run(x0 []float64) (*Optimum, mdo.StopReason, error) {
 			alpha /= 2
 		}
 		if next == nil {
-			// no decrease along the step: as far as this model goes
+			// no decrease along the step: the search has reached the
+			// precision of the analysis (Optimum.Converged stays false)
 			stop = mdo.StopConverged
 			break
 		}
@@ -434,6 +447,26 @@ func (s *sqp) run(x0 []float64) (*Optimum, mdo.StopReason, error) {
 	}
 	s.fill(opt, p, lam)
 	return opt, stop, nil
+}
+
+// elasticPrice is ρ, the price per unit of violation of a linearised
+// constraint in the elastic subproblem (scaled units).
+const elasticPrice = 1e4
+
+// resetHessian sets B to the identity times the mean of its diagonal.
+func resetHessian(B *mat.Dense) {
+	n, _ := B.Dims()
+	m := 0.0
+	for j := 0; j < n; j++ {
+		m += B.At(j, j) / float64(n)
+	}
+	if !(m > 0) || math.IsInf(m, 0) {
+		m = 1
+	}
+	B.Zero()
+	for j := 0; j < n; j++ {
+		B.Set(j, j, m)
+	}
 }
 
 // interior is the margin, in scaled units, by which the subproblem asks
@@ -598,7 +631,7 @@ func (s *sqp) update(B *mat.Dense, p, q *sqpPoint, lam []float64, first bool) {
 // subproblem solves the elastic QP at p. It returns the step, the
 // multipliers of the rows, the L1 violation of the linearised
 // constraints at the step and the optimality measure at p.
-func (s *sqp) subproblem(p *sqpPoint, B *mat.Dense, nu float64) (d, lam []float64, lin, measure float64, err error) {
+func (s *sqp) subproblem(p *sqpPoint, B *mat.Dense) (d, lam []float64, lin, measure float64, err error) {
 	n := len(p.u)
 	var ineq, eq []int
 	for i, row := range s.rows {
@@ -610,7 +643,7 @@ func (s *sqp) subproblem(p *sqpPoint, B *mat.Dense, nu float64) (d, lam []float6
 	}
 	mi, me := len(ineq), len(eq)
 	nv := n + mi + 2*me // d, v (ineq slacks), p, q (eq slacks)
-	rho := math.Max(1e4, 100*nu)
+	rho := elasticPrice
 	H := mat.NewDense(nv, nv, nil)
 	for i := 0; i < n; i++ {
 		for j := 0; j < n; j++ {
