@@ -37,6 +37,11 @@ type RunOutputs struct {
 	// Figures are the sources of a study's further figures; nil takes
 	// DefaultFigures.
 	Figures []report.FigureSource
+	// EveryOutput writes every output of the analyses to each result's
+	// evaluations.csv (the --every-output flag, or cell.EveryOutput in a
+	// script); by default it holds the status, design, objectives,
+	// constraints and margins, and results.db keeps every output.
+	EveryOutput bool
 
 	mu      sync.Mutex
 	stores  []*store.Store
@@ -282,7 +287,7 @@ func (o *RunOutputs) writeRun(ctx context.Context, script string, r *mdo.Result,
 	dir := filepath.Join(o.dir, folder)
 	files, err := report.WriteRun(ctx, dir, report.Run{
 		Result: r, Study: study, Store: st, Script: script, ToolVersion: toolVersion(),
-		ScatterMatrix: isDOE(r), Figures: figs,
+		ScatterMatrix: isDOE(r), Figures: figs, AllOutputs: o.everyOutput(),
 	})
 	if err != nil {
 		return dir, files, err
@@ -366,4 +371,19 @@ func (o *RunOutputs) Close() error {
 	}
 	o.stores = nil
 	return first
+}
+
+// everyOutput reports whether the CSV files get every output.
+func (o *RunOutputs) everyOutput() bool {
+	o.mu.Lock()
+	defer o.mu.Unlock()
+	return o.EveryOutput
+}
+
+// askEveryOutput is cell.EveryOutput: the CSV files of the results
+// written from now on get every output.
+func (o *RunOutputs) askEveryOutput() {
+	o.mu.Lock()
+	o.EveryOutput = true
+	o.mu.Unlock()
 }

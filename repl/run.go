@@ -47,6 +47,9 @@ type RunOptions struct {
 	// the script's own, see runfolder.Clear) before this one starts.
 	// Without PickUp or Replace, an OutDir holding a run is refused.
 	Replace bool
+	// EveryOutput writes every output to evaluations.csv (see
+	// RunOutputs.EveryOutput).
+	EveryOutput bool
 }
 
 // RunRecord is what a replay produced.
@@ -114,6 +117,7 @@ func Run(ctx context.Context, opts RunOptions) (*RunRecord, error) {
 	outs := NewRunOutputs(opts.OutDir)
 	outs.PickUp = opts.PickUp
 	outs.Figures = opts.Figures
+	outs.EveryOutput = opts.EveryOutput
 	defer outs.Close()
 	s, err := NewSession(Options{
 		Policy: opts.Policy, Stdout: out, Stderr: errw, NoErrorEcho: true, OutDir: opts.OutDir,

@@ -152,6 +152,11 @@ func (s *Session) reset() error {
 		Recorder: s.opts.Recorder,
 		Script:   s.identity,
 		Programs: s.opts.Policy.Gate(),
+		EveryOutput: func() {
+			if s.opts.Outputs != nil {
+				s.opts.Outputs.askEveryOutput()
+			}
+		},
 	})
 	it := interp.New(interp.Options{Stdout: s.out, Stderr: s.errBuf, Stdin: strings.NewReader("")})
 	if err := it.Use(symbols.Symbols); err != nil {

@@ -46,6 +46,10 @@ type Run struct {
 	// ScatterMatrix adds the scatter matrix to the report (for a design
 	// of experiments).
 	ScatterMatrix bool
+	// AllOutputs writes every output of the analyses to evaluations.csv;
+	// by default it holds the status, design, objectives, constraints and
+	// margins (results.db keeps every output either way).
+	AllOutputs bool
 	// Figures are the sources of the study's further figures, drawn after
 	// the standard ones and before the design structure matrix.
 	Figures []FigureSource
@@ -97,7 +101,7 @@ func WriteRun(ctx context.Context, dir string, run Run) ([]string, error) {
 			return files, fmt.Errorf("report: %w", err)
 		}
 		var b bytes.Buffer
-		if err := run.Store.WriteCSV(&b); err != nil {
+		if err := run.Store.WriteCSV(&b, store.CSVOptions{AllOutputs: run.AllOutputs}); err != nil {
 			return files, fmt.Errorf("report: %w", err)
 		}
 		p := filepath.Join(dir, EvaluationsFile)

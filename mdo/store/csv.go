@@ -20,23 +20,33 @@ import (
 //	objective:NAME [unit]…, constraint:NAME [unit]…, margin:NAME [unit]…,
 //	output:NAME [unit]…, x:NAME [-]…, f:NAME [-]…, g:NAME [-]…
 //
-// x are the unit-box coordinates, f the objectives in minimised sense and
-// g the scaled constraints (≤ 0 when satisfied). Numbers are written so
+// The output columns are written on request only (CSVOptions.AllOutputs):
+// by default the file holds the status, design, objectives, constraints
+// and margins (and x, f, g), and the store keeps every output. x are the
+// unit-box coordinates, f the objectives in minimised sense and g the
+// scaled constraints (≤ 0 when satisfied). Numbers are written so
 // that ReadCSV gives them back exactly; non-finite ones as NaN, Infinity,
 // -Infinity.
 
-// unitOf returns the unit of a name among the outputs, or "".
+// CSVOptions choose the columns of a CSV export.
+type CSVOptions struct {
+	// AllOutputs adds a column per output of the analysis.
+	AllOutputs bool
+}
+
+// unitOf returns the unit of a name among the outputs (or, for columns
+// read from a CSV file, as its header says), or "".
 func (c Columns) unitOf(name string) string {
 	for _, v := range c.Outputs {
 		if v.Name == name {
 			return v.Unit
 		}
 	}
-	return ""
+	return c.units[name]
 }
 
-// header returns the CSV header.
-func (c Columns) header() []string {
+// header returns the CSV header, with the output columns if outputs.
+func (c Columns) header(outputs bool) []string {
 	u := func(unit string) string {
 		if unit == "" {
 			return " [-]"
@@ -57,7 +67,9 @@ func (c Columns) header() []string {
 		h = append(h, "margin:"+sanitize(k)+u(c.unitOf(k)))
 	}
 	for _, v := range c.Outputs {
-		h = append(h, "output:"+sanitize(v.Name)+u(v.Unit))
+		if outputs {
+			h = append(h, "output:"+sanitize(v.Name)+u(v.Unit))
+		}
 	}
 	for _, d := range c.Design {
 		h = append(h, "x:"+sanitize(d.Name)+" [-]")
@@ -74,15 +86,16 @@ func (c Columns) header() []string {
 // csvWriter writes one CSV export: the header, then a row per
 // evaluation.
 type csvWriter struct {
-	c   Columns
-	cw  *csv.Writer
-	row []string
+	c       Columns
+	outputs bool
+	cw      *csv.Writer
+	row     []string
 }
 
 // newCSVWriter writes the header of an export of columns c to w.
-func newCSVWriter(w io.Writer, c Columns) (*csvWriter, error) {
-	x := &csvWriter{c: c, cw: csv.NewWriter(w)}
-	if err := x.cw.Write(c.header()); err != nil {
+func newCSVWriter(w io.Writer, c Columns, opt CSVOptions) (*csvWriter, error) {
+	x := &csvWriter{c: c, outputs: opt.AllOutputs, cw: csv.NewWriter(w)}
+	if err := x.cw.Write(c.header(x.outputs)); err != nil {
 		return nil, fmt.Errorf("store: writing CSV: %w", err)
 	}
 	return x, nil
@@ -90,7 +103,7 @@ func newCSVWriter(w io.Writer, c Columns) (*csvWriter, error) {
 
 // write writes the row of one evaluation.
 func (x *csvWriter) write(e *mdo.Evaluation) error {
-	x.row = x.c.appendRow(x.row[:0], e)
+	x.row = x.c.appendRow(x.row[:0], e, x.outputs)
 	if err := x.cw.Write(x.row); err != nil {
 		return fmt.Errorf("store: writing CSV: %w", err)
 	}
@@ -106,8 +119,8 @@ func (x *csvWriter) flush() error {
 	return nil
 }
 
-// appendRow formats one evaluation.
-func (c Columns) appendRow(row []string, e *mdo.Evaluation) []string {
+// appendRow formats one evaluation, with its outputs if outputs.
+func (c Columns) appendRow(row []string, e *mdo.Evaluation, outputs bool) []string {
 	row = append(row, strconv.Itoa(e.ID), strconv.FormatBool(e.Feasible), strconv.FormatBool(e.Converged),
 		formatFloat(e.Violation), e.Err, strconv.Itoa(e.CouplingIterations), strconv.Itoa(e.DisciplineCalls), formatFloat(e.Wall.Seconds()))
 	for _, xs := range [][]float64{e.Design, e.Objectives, e.Constraints, e.Margins} {
@@ -116,6 +129,9 @@ func (c Columns) appendRow(row []string, e *mdo.Evaluation) []string {
 		}
 	}
 	for i := range c.Outputs {
+		if !outputs {
+			break
+		}
 		// a failed analysis has no outputs: its cells stay empty
 		cell := ""
 		if i < len(e.Outputs) {
@@ -132,9 +148,10 @@ func (c Columns) appendRow(row []string, e *mdo.Evaluation) []string {
 }
 
 // WriteCSV streams the store's evaluations, in the order they were
-// recorded, as CSV with a header naming units (the layout above).
-func (s *Store) WriteCSV(w io.Writer) error {
-	x, err := newCSVWriter(w, s.Columns())
+// recorded, as CSV with a header naming units (the layout above), with
+// the output columns if opt.AllOutputs.
+func (s *Store) WriteCSV(w io.Writer, opt CSVOptions) error {
+	x, err := newCSVWriter(w, s.Columns(), opt)
 	if err != nil {
 		return err
 	}
@@ -182,7 +199,7 @@ func ReadCSV(r io.Reader) (Columns, []*mdo.Evaluation, error) {
 			return Columns{}, nil, fmt.Errorf("store: CSV column %d is %q, want %q", i+1, head[i], f)
 		}
 	}
-	var c Columns
+	c := Columns{units: map[string]string{}}
 	for i, h := range head[len(fixed):] {
 		role, name, unit, ok := splitHeader(h)
 		if !ok {
@@ -193,8 +210,10 @@ func ReadCSV(r io.Reader) (Columns, []*mdo.Evaluation, error) {
 			c.Design = append(c.Design, mdo.DesignSpec{Name: name, Unit: unit})
 		case "objective":
 			c.Objectives = append(c.Objectives, name)
+			c.units[name] = unit
 		case "constraint":
 			c.Constraints = append(c.Constraints, name)
+			c.units[name] = unit
 		case "output":
 			c.Outputs = append(c.Outputs, mdo.Var{Name: name, Unit: unit})
 		case "margin", "x", "f", "g":
@@ -202,10 +221,11 @@ func ReadCSV(r io.Reader) (Columns, []*mdo.Evaluation, error) {
 			return Columns{}, nil, fmt.Errorf("store: CSV column %d %q has an unknown role %q", i+len(fixed)+1, h, role)
 		}
 	}
-	if got, want := len(head), len(c.header()); got != want {
+	withOutputs := len(c.Outputs) > 0
+	if got, want := len(head), len(c.header(withOutputs)); got != want {
 		return Columns{}, nil, fmt.Errorf("store: CSV header has %d columns, its roles call for %d", got, want)
 	}
-	for i, h := range c.header() {
+	for i, h := range c.header(withOutputs) {
 		if head[i] != h {
 			return Columns{}, nil, fmt.Errorf("store: CSV column %d is %q, want %q", i+1, head[i], h)
 		}
@@ -297,7 +317,7 @@ func (c Columns) parseRow(rec, head []string) (*mdo.Evaluation, error) {
 			return nil, err
 		}
 	}
-	if !e.Converged {
+	if !e.Converged || len(c.Outputs) == 0 {
 		e.Outputs = nil // a failed analysis has no outputs (older files wrote its defaults)
 	}
 	return e, nil

@@ -55,7 +55,7 @@ func ExampleCreate() {
 	}
 	csv, _ := os.Create(filepath.Join(dir, "evaluations.csv"))
 	defer csv.Close()
-	if err := s.WriteCSV(csv); err != nil {
+	if err := s.WriteCSV(csv, store.CSVOptions{}); err != nil {
 		fmt.Println(err)
 		return
 	}

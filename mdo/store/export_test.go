@@ -16,7 +16,7 @@ import (
 // writeCSV writes evaluations that need not be in a store with the
 // export's writer.
 func writeCSV(w *bytes.Buffer, c Columns, evs []*mdo.Evaluation) error {
-	x, err := newCSVWriter(w, c)
+	x, err := newCSVWriter(w, c, CSVOptions{AllOutputs: true})
 	if err != nil {
 		return err
 	}
@@ -82,7 +82,7 @@ func TestCSVRoundTrip(t *testing.T) {
 	}
 	// the store's streaming export gives the same text for what it holds
 	var fromStore bytes.Buffer
-	if err := s.WriteCSV(&fromStore); err != nil {
+	if err := s.WriteCSV(&fromStore, CSVOptions{AllOutputs: true}); err != nil {
 		t.Fatal(err)
 	}
 	var direct bytes.Buffer
@@ -271,5 +271,57 @@ func TestCSVHeaderUnits(t *testing.T) {
 	back, evs, err := ReadCSV(strings.NewReader(buf.String()))
 	if err != nil || len(evs) != 0 || back.Design[0].Unit != "m" || back.Outputs[len(back.Outputs)-1].Unit != "m" {
 		t.Errorf("read back %+v, %d rows, %v", back, len(evs), err)
+	}
+}
+
+// By default the export leaves the outputs out and keeps the units of the
+// objectives and constraints; it reads back without outputs.
+func TestCSVWithoutOutputs(t *testing.T) {
+	s, err := Create(filepath.Join(t.TempDir(), "r.db"), Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer s.Close()
+	info := syntheticRun()
+	info.Outputs[0].Name, info.Outputs[0].Unit = "mass.takeoff", "kg" // the objective's unit comes from the outputs
+	if err := s.Begin(info); err != nil {
+		t.Fatal(err)
+	}
+	var evs []*mdo.Evaluation
+	for i := 0; i < 4; i++ {
+		e := &mdo.Evaluation{}
+		syntheticEval(e, i)
+		evs = append(evs, e)
+		if err := s.Record(e); err != nil {
+			t.Fatal(err)
+		}
+	}
+	var small, all bytes.Buffer
+	if err := s.WriteCSV(&small, CSVOptions{}); err != nil {
+		t.Fatal(err)
+	}
+	if err := s.WriteCSV(&all, CSVOptions{AllOutputs: true}); err != nil {
+		t.Fatal(err)
+	}
+	head, _, _ := strings.Cut(small.String(), "\n")
+	if strings.Contains(head, "output:") || !strings.Contains(head, "objective:mass.takeoff [kg]") || !strings.Contains(head, "margin:perf.c0") {
+		t.Errorf("default CSV header %q: want no output columns, the objective with its unit, the margins", head)
+	}
+	if h, _, _ := strings.Cut(all.String(), "\n"); strings.Count(h, "output:") != len(info.Outputs) {
+		t.Errorf("CSV with every output has %d output columns, want %d", strings.Count(h, "output:"), len(info.Outputs))
+	}
+	cols, back, err := ReadCSV(&small)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(back) != len(evs) || len(cols.Outputs) != 0 {
+		t.Fatalf("read back %d rows and %d outputs, want %d and none", len(back), len(cols.Outputs), len(evs))
+	}
+	for i, e := range back {
+		want := *evs[i]
+		want.Outputs = nil
+		if f := sameEvaluation(e, &want); f != "" {
+			t.Errorf("row %d differs in %s", i, f)
+		}
 	}
 }

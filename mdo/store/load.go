@@ -171,6 +171,8 @@ type Columns struct {
 	Objectives  []string
 	Constraints []string
 	Outputs     []mdo.Var
+
+	units map[string]string // of objectives and constraints, as a CSV header says
 }
 
 // Columns returns the stored run's design variables, objectives,

@@ -50,7 +50,7 @@ func TestFailedEvaluationRecordsNoOutputs(t *testing.T) {
 	}
 
 	var b bytes.Buffer
-	if err := s.WriteCSV(&b); err != nil {
+	if err := s.WriteCSV(&b, CSVOptions{AllOutputs: true}); err != nil {
 		t.Fatal(err)
 	}
 	rows, err := csv.NewReader(bytes.NewReader(b.Bytes())).ReadAll()

@@ -52,6 +52,9 @@ type Host struct {
 	// Programs approves the external programs the script may run; nil
 	// approves none.
 	Programs *external.Gate
+	// EveryOutput, if not nil, asks for every output of the analyses in
+	// the run's evaluations.csv files (cell.EveryOutput).
+	EveryOutput func()
 }
 
 // Env is one session's view of the running study: the functions a script
@@ -189,4 +192,14 @@ func checkName(name string) error {
 		}
 	}
 	return nil
+}
+
+// EveryOutput asks for every output of the analyses in the run's
+// evaluations.csv files, as the --every-output flag of `couplet run`
+// does; by default they hold the status, design, objectives, constraints
+// and margins. results.db keeps every output either way.
+func (e *Env) EveryOutput() {
+	if e.host.EveryOutput != nil {
+		e.host.EveryOutput()
+	}
 }

@@ -11,14 +11,15 @@ import (
 func (e *Env) Exports() interp.Exports {
 	return interp.Exports{
 		ImportPath + "/cell": {
-			"Context":   reflect.ValueOf(e.Context),
-			"Seed":      reflect.ValueOf(e.Seed),
-			"Attach":    reflect.ValueOf(e.Attach),
-			"Progress":  reflect.ValueOf(e.Progress),
-			"Publish":   reflect.ValueOf(e.Publish),
-			"WriteFile": reflect.ValueOf(e.WriteFile),
-			"OutDir":    reflect.ValueOf(e.OutDir),
-			"Programs":  reflect.ValueOf(e.Programs),
+			"Context":     reflect.ValueOf(e.Context),
+			"Seed":        reflect.ValueOf(e.Seed),
+			"Attach":      reflect.ValueOf(e.Attach),
+			"Progress":    reflect.ValueOf(e.Progress),
+			"Publish":     reflect.ValueOf(e.Publish),
+			"WriteFile":   reflect.ValueOf(e.WriteFile),
+			"OutDir":      reflect.ValueOf(e.OutDir),
+			"Programs":    reflect.ValueOf(e.Programs),
+			"EveryOutput": reflect.ValueOf(e.EveryOutput),
 		},
 	}
 }

@@ -2,7 +2,7 @@
 // framework.
 //
 //	couplet [--out DIR [--replace]] [--seed N] [--trust-script]   interactive notebook session
-//	couplet run FILE.study --out DIR [--seed N] [--timeout D] [--trust-script] [--quiet] [--pick-up | --replace]
+//	couplet run FILE.study --out DIR [--seed N] [--timeout D] [--trust-script] [--quiet] [--every-output] [--pick-up | --replace]
 //	couplet imports [--trust-script]                      list the importable packages
 //	couplet version
 //
@@ -44,6 +44,7 @@ type settings struct {
 	quiet   bool
 	pickUp  bool
 	replace bool
+	every   bool
 	// programs are the external programs approved with --allow-program.
 	programs pathList
 }
@@ -62,6 +63,7 @@ func flagSet(name string, st *settings) *flag.FlagSet {
 	fs.BoolVar(&st.quiet, "quiet", false, "do not echo the cells' output (run only)")
 	fs.BoolVar(&st.pickUp, "pick-up", false, "continue the results.db an interrupted run of the same study file and seed left in --out; any change to the file is refused (run only)")
 	fs.BoolVar(&st.replace, "replace", false, "clear every file of the run --out holds, then run afresh")
+	fs.BoolVar(&st.every, "every-output", false, "write every output of the analyses to evaluations.csv, not only the status, design, objectives, constraints and margins (run only; results.db keeps them all)")
 	return fs
 }
 
@@ -113,7 +115,7 @@ func usage(w io.Writer) {
 usage:
   couplet [--out DIR [--replace]] [--seed N] [%s]
                                                    interactive notebook session
-  couplet run FILE.study --out DIR [--seed N] [--timeout D] [%s] [--quiet] [--pick-up | --replace]
+  couplet run FILE.study --out DIR [--seed N] [--timeout D] [%s] [--quiet] [--every-output] [--pick-up | --replace]
                                                    replay a saved study headless
   couplet imports [%s]                    list the packages a script may import
   couplet version                                  print the version
@@ -215,6 +217,7 @@ func replay(args []string, stdout, stderr io.Writer) int {
 	opts := repl.RunOptions{
 		File: pos[0], OutDir: st.out, Seed: seed, SeedSet: seedSet, Timeout: st.timeout,
 		Policy: st.policy(), Stdout: stdout, Stderr: stderr, PickUp: st.pickUp, Replace: st.replace,
+		EveryOutput: st.every,
 	}
 	if st.quiet {
 		opts.Stdout = io.Discard
