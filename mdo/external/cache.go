@@ -5,11 +5,11 @@ import (
 	"sync/atomic"
 )
 
-// cache keeps the answers of good runs by the hash of their input, and
-// lets workers asking for the same input at once wait for one run.
+// cache keeps the answers of runs by the hash of their input, and lets
+// workers asking for the same input at once wait for one run.
 type cache struct {
 	mu   sync.Mutex
-	done map[string][]float64
+	done map[string]*call
 	busy map[string]*call
 	runs atomic.Int64
 }
@@ -23,16 +23,19 @@ type call struct {
 
 // newCache returns an empty cache.
 func newCache() *cache {
-	return &cache{done: map[string][]float64{}, busy: map[string]*call{}}
+	return &cache{done: map[string]*call{}, busy: map[string]*call{}}
 }
 
 // get returns the answer for key, running run once when there is none.
-// A failed run is not kept: the next request runs the program again.
+// A failure (after its retries) is kept like an answer: the program is
+// deterministic in its input, and a coupled solver's fallback chain asks
+// again for the same input, which would otherwise cost the time limit
+// again.
 func (c *cache) get(key string, run func() ([]float64, error)) ([]float64, error) {
 	c.mu.Lock()
-	if v, ok := c.done[key]; ok {
+	if cl, ok := c.done[key]; ok {
 		c.mu.Unlock()
-		return v, nil
+		return cl.vals, cl.err
 	}
 	if cl, ok := c.busy[key]; ok {
 		c.mu.Unlock()
@@ -46,9 +49,8 @@ func (c *cache) get(key string, run func() ([]float64, error)) ([]float64, error
 	cl.vals, cl.err = run()
 	c.mu.Lock()
 	delete(c.busy, key)
-	if cl.err == nil {
-		c.done[key] = cl.vals
-	}
+	c.done[key] = cl
+
 	c.mu.Unlock()
 	close(cl.wait)
 	return cl.vals, cl.err

@@ -62,8 +62,10 @@
 // the program. The cache is shared by every worker of an Evaluator and
 // safe for concurrent use; workers asking for the same input at once wait
 // for one run. A cached answer is the very float64s the program gave, so
-// results stay bit-identical with any number of workers. Failures are not
-// cached.
+// results stay bit-identical with any number of workers. A failure (after
+// its retries) is kept too, so a coupled solver's fallbacks asking again
+// for the same input do not pay the time limit again; a new Discipline
+// (a new study) starts with an empty cache.
 //
 // # Allocation and trust
 //

@@ -137,6 +137,11 @@ func TestFailedRunsAreFailedEvaluations(t *testing.T) {
 			if len(folders) == 0 {
 				t.Errorf("no kept working folder holds %s", c.kept)
 			}
+			// the reference analysis and the evaluation ask for the same
+			// input: the failure is answered from the cache
+			if runs := d.Runs(); runs != int64(1+c.retries) {
+				t.Errorf("the program ran %d times for one input with %d retries, want %d", runs, c.retries, 1+c.retries)
+			}
 			var pe *external.ProgramError
 			if !errors.As(d.Compute(make([]float64, 4), make([]float64, 3)), &pe) {
 				t.Errorf("Compute's error is not a *ProgramError")
