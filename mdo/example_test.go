@@ -81,5 +81,5 @@ func ExampleSolution_Lookup() {
 	fmt.Println(err)
 	// Output:
 	// y1 + y2 = 37.6468
-	// mdo: the solution has no variable "y3"
+	// mdo: the solution has no variable "y3"; similar: y1, y2
 }

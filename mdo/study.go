@@ -1,6 +1,7 @@
 package mdo
 
 import (
+	"errors"
 	"fmt"
 	"math"
 )
@@ -87,6 +88,13 @@ type Study struct {
 	Script string
 }
 
+// Check validates the study against its system, as NewEvaluator does:
+// its declarations, and a dry run of its objective and constraint
+// functions on the defaults that refuses a misspelt name they read, with
+// the closest names. cell.Attach calls it, so that a script learns of a
+// misspelt name when it attaches the study, before anything runs.
+func (s *Study) Check() error { return s.validate() }
+
 // validate checks the study's declarations against its system.
 func (s *Study) validate() error {
 	if s.System == nil {
@@ -158,11 +166,66 @@ func (s *Study) validate() error {
 			return fmt.Errorf("mdo: coupling bounds of %s: [%g, %g] must be finite with lower < upper", name, b[0], b[1])
 		}
 	}
+	if err := s.dryRun(); err != nil {
+		return err
+	}
 	if s.Workers < 0 {
 		return fmt.Errorf("mdo: study %q: Workers = %d, must be >= 0 (0 = all cores)", s.Name, s.Workers)
 	}
 	if s.Formulation != MDF && s.Formulation != IDF {
 		return fmt.Errorf("mdo: study %q: unknown formulation %d (allowed MDF, IDF)", s.Name, int(s.Formulation))
 	}
+	return nil
+}
+
+// dryRun calls every objective and constraint function once on the
+// system's default values (with the fixed values and the design
+// variables' lower bounds), so that a misspelt name one of them reads is
+// refused when the study is attached, not found after the run has begun
+// (or, before Values.Get panicked, never). Only an unknown name is an
+// error here: whatever else the function does with values that were not
+// computed is left to the run.
+func (s *Study) dryRun() error {
+	n := s.System.vars.Len()
+	val := make([]float64, n)
+	for i := 0; i < n; i++ {
+		val[i] = s.System.vars.At(i).Default
+	}
+	for name, x := range s.Fixed {
+		val[s.System.Index(name)] = x
+	}
+	for _, d := range s.Design {
+		val[s.System.Index(d.Name)] = d.Lower
+	}
+	vals := Values{sys: s.System, val: val}
+	for _, o := range s.Objectives {
+		if o.Func != nil {
+			if err := readsKnownNames(o.Func, vals); err != nil {
+				return fmt.Errorf("mdo: study %q: objective %s: %w", s.Name, o.Name, err)
+			}
+		}
+	}
+	for _, c := range s.Constraints {
+		if c.Func != nil {
+			if err := readsKnownNames(c.Func, vals); err != nil {
+				return fmt.Errorf("mdo: study %q: constraint %s: %w", s.Name, c.Name, err)
+			}
+		}
+	}
+	return nil
+}
+
+// readsKnownNames calls fn on vals and returns the *UnknownVariableError
+// it panics with, if any; any other panic is not its business.
+func readsKnownNames(fn func(Values) float64, vals Values) (err error) {
+	defer func() {
+		if r := recover(); r != nil {
+			var unknown *UnknownVariableError
+			if e, ok := r.(error); ok && errors.As(e, &unknown) {
+				err = e
+			}
+		}
+	}()
+	fn(vals)
 	return nil
 }

@@ -2,7 +2,6 @@ package mdo
 
 import (
 	"fmt"
-	"sort"
 	"strings"
 )
 
@@ -56,8 +55,9 @@ type UnknownVariableError struct {
 	Name string
 	// Where says what was asked: "the system", "the solution", ...
 	Where string
-	// Similar lists names that share the first dotted part of Name (at
-	// most 12; none when there are more).
+	// Similar lists the closest names, nearest first: those a few edits
+	// from Name (at most 5), else those that share its first dotted part
+	// (at most 12; none when there are more).
 	Similar []string
 }
 
@@ -70,21 +70,10 @@ func (e *UnknownVariableError) Error() string {
 	return fmt.Sprintf("mdo: %s has no variable %q%s", e.Where, e.Name, hint)
 }
 
-// unknownIn is the error of a name missing from vars, described as where;
-// the similar names are those that start like the name's first dotted part.
+// unknownIn is the error of a name missing from vars, described as where,
+// with the closest names (closestNames).
 func unknownIn(where, name string, vars []Var) error {
-	prefix := strings.SplitN(name, ".", 2)[0]
-	var near []string
-	for _, v := range vars {
-		if strings.HasPrefix(v.Name, prefix) {
-			near = append(near, v.Name)
-		}
-	}
-	if len(near) > 12 {
-		near = nil
-	}
-	sort.Strings(near)
-	return &UnknownVariableError{Name: name, Where: where, Similar: near}
+	return &UnknownVariableError{Name: name, Where: where, Similar: closestNames(name, vars)}
 }
 
 // mustValue returns x, or panics with err.

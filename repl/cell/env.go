@@ -97,13 +97,18 @@ func (e *Env) Seed(def uint64) uint64 {
 	return s
 }
 
-// Attach readies a study for a run in this session: it applies the
+// Attach readies a study for a run in this session: it checks the study
+// against its system (mdo.Study.Check: a misspelt name, even one that an
+// objective or constraint function reads, is refused here), applies the
 // --seed override, keeps the script text for provenance, installs the
 // progress display (on a terminal only) and the run's recorder. Fields the
 // script has already set (Progress, Recorder, Script) are kept.
 func (e *Env) Attach(st *mdo.Study) error {
 	if st == nil {
 		return fmt.Errorf("cell: Attach: the study is nil")
+	}
+	if err := st.Check(); err != nil {
+		return fmt.Errorf("cell: Attach: %w", err)
 	}
 	st.Seed = e.Seed(st.Seed)
 	if st.Script == "" && e.host.Script != nil {
