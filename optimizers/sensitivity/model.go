@@ -58,7 +58,7 @@ func StudyModel(ev *mdo.Evaluator, quantity string) (Model, error) {
 	if ev == nil {
 		return nil, fmt.Errorf("sensitivity: StudyModel: the evaluator is nil")
 	}
-	pick, err := quantityReader(ev, quantity)
+	pick, err := QuantityReader(ev, quantity)
 	if err != nil {
 		return nil, err
 	}
@@ -81,8 +81,11 @@ func StudyModel(ev *mdo.Evaluator, quantity string) (Model, error) {
 	}, nil
 }
 
-// quantityReader returns the reader of a study quantity from an evaluation.
-func quantityReader(ev *mdo.Evaluator, quantity string) (func(*mdo.Evaluation) float64, error) {
+// QuantityReader returns the reader of a study quantity from a converged
+// evaluation of ev: an objective (in its declared sense), a constrained
+// quantity or an output variable, looked up in that order; the error
+// lists the quantities the study has.
+func QuantityReader(ev *mdo.Evaluator, quantity string) (func(*mdo.Evaluation) float64, error) {
 	var names []string
 	for i, n := range ev.ObjectiveNames() {
 		if n == quantity {

@@ -16,6 +16,7 @@ func init() {
 		"MaxSobolDim":      reflect.ValueOf(constant.MakeFromLiteral("21", token.INT, 0)),
 		"MorrisFigure":     reflect.ValueOf(sensitivity.MorrisFigure),
 		"NewSobolSequence": reflect.ValueOf(sensitivity.NewSobolSequence),
+		"QuantityReader":   reflect.ValueOf(sensitivity.QuantityReader),
 		"SobolFigure":      reflect.ValueOf(sensitivity.SobolFigure),
 		"StudyModel":       reflect.ValueOf(sensitivity.StudyModel),
 

@@ -26,6 +26,7 @@ var Framework = []string{
 	"couplet/mdo",
 	"couplet/mdo/external",
 	"couplet/optimizers",
+	"couplet/optimizers/designmap",
 	"couplet/optimizers/sensitivity",
 	"couplet/optimizers/surrogate",
 	"couplet/disciplines",

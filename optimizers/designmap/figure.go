@@ -1,0 +1,265 @@
+package designmap
+
+import (
+	"fmt"
+	"image/color"
+	"math"
+
+	gplot "gonum.org/v1/plot"
+	"gonum.org/v1/plot/palette/moreland"
+	"gonum.org/v1/plot/plotter"
+	"gonum.org/v1/plot/vg"
+	"gonum.org/v1/plot/vg/draw"
+
+	"couplet/mdo"
+	"couplet/mdo/plot"
+)
+
+// grid is one layer of the map as gonum's GridXYZ.
+type grid struct {
+	xs, ys []float64
+	z      [][]float64
+}
+
+func (g grid) Dims() (c, r int)   { return len(g.xs), len(g.ys) }
+func (g grid) Z(c, r int) float64 { return g.z[r][c] }
+func (g grid) X(c int) float64    { return g.xs[c] }
+func (g grid) Y(r int) float64    { return g.ys[r] }
+
+// filled returns a copy of z whose NaN cells take the value of the
+// nearest valid cell of their row or column, so that a contour can be
+// traced across failed points (which are marked separately).
+func filled(z [][]float64) [][]float64 {
+	out := make([][]float64, len(z))
+	for j := range z {
+		out[j] = append([]float64(nil), z[j]...)
+	}
+	for pass := 0; pass < len(z)+len(z[0]); pass++ {
+		changed := false
+		for j := range out {
+			for i := range out[j] {
+				if !math.IsNaN(out[j][i]) {
+					continue
+				}
+				for _, nb := range [][2]int{{i - 1, j}, {i + 1, j}, {i, j - 1}, {i, j + 1}} {
+					if nb[1] >= 0 && nb[1] < len(out) && nb[0] >= 0 && nb[0] < len(out[0]) && !math.IsNaN(z[nb[1]][nb[0]]) {
+						out[j][i] = z[nb[1]][nb[0]]
+						changed = true
+						break
+					}
+				}
+			}
+		}
+		if !changed {
+			break
+		}
+		z = out
+	}
+	return out
+}
+
+// shade draws a translucent grey cell over every grid point where a
+// constraint is violated.
+type shade struct {
+	d *Data
+}
+
+// Plot implements gonum's plot.Plotter.
+func (s shade) Plot(c draw.Canvas, p *gplot.Plot) {
+	trX, trY := p.Transforms(&c)
+	d := s.d
+	half := func(v []float64, i int) (float64, float64) {
+		lo, hi := v[i], v[i]
+		if i > 0 {
+			lo = (v[i-1] + v[i]) / 2
+		}
+		if i+1 < len(v) {
+			hi = (v[i] + v[i+1]) / 2
+		}
+		return lo, hi
+	}
+	grey := color.NRGBA{R: 60, G: 60, B: 60, A: 110}
+	for j := range d.Ys {
+		for i := range d.Xs {
+			bad := false
+			for c := range d.Margins {
+				if m := d.Margins[c][j][i]; m < 0 {
+					bad = true
+				}
+			}
+			if !bad {
+				continue
+			}
+			x0, x1 := half(d.Xs, i)
+			y0, y1 := half(d.Ys, j)
+			r := vg.Rectangle{Min: vg.Point{X: trX(x0), Y: trY(y0)}, Max: vg.Point{X: trX(x1), Y: trY(y1)}}
+			c.SetColor(grey)
+			c.Fill(r.Path())
+		}
+	}
+}
+
+// failureGlyphs are the marker shapes of the failure classes.
+var failureGlyphs = map[mdo.FailureClass]draw.GlyphDrawer{
+	mdo.DoesNotClose:     draw.CrossGlyph{},
+	mdo.SolverFailed:     draw.PyramidGlyph{},
+	mdo.InvalidInput:     draw.SquareGlyph{},
+	mdo.DisciplineFailed: draw.RingGlyph{},
+}
+
+// Figure draws the map, file name "map_<quantity>" (dots and other
+// characters become underscores).
+func Figure(d *Data) (*plot.Figure, error) {
+	if d == nil || len(d.Xs) < 2 || len(d.Ys) < 2 {
+		return nil, fmt.Errorf("designmap: Figure: no sampled map")
+	}
+	title := fmt.Sprintf("%s over %s and %s", d.Quantity, d.X, d.Y)
+	p := plot.NewPlot(title, plot.AxisLabel(d.X, d.XUnit), plot.AxisLabel(d.Y, d.YUnit))
+	p.Legend.Top = false
+	p.Legend.Left = false
+	pal := moreland.SmoothBlueRed()
+	lo, hi := math.Inf(1), math.Inf(-1)
+	for _, r := range d.Z {
+		for _, v := range r {
+			if !math.IsNaN(v) {
+				lo, hi = math.Min(lo, v), math.Max(hi, v)
+			}
+		}
+	}
+	if lo < hi {
+		pal.SetMin(lo)
+		pal.SetMax(hi)
+		levels := make([]float64, 12)
+		for k := range levels {
+			levels[k] = lo + (hi-lo)*(float64(k)+0.5)/float64(len(levels))
+		}
+		// Filled bands: a heat map of the quantity quantised to the levels.
+		bands := make([][]float64, len(d.Z))
+		for j, r := range d.Z {
+			bands[j] = make([]float64, len(r))
+			for i, v := range r {
+				bands[j][i] = math.NaN()
+				if !math.IsNaN(v) {
+					k := math.Floor((v - lo) / (hi - lo) * float64(len(levels)))
+					bands[j][i] = lo + (hi-lo)*(math.Min(k, float64(len(levels)-1))+0.5)/float64(len(levels))
+				}
+			}
+		}
+		hm := plotter.NewHeatMap(grid{d.Xs, d.Ys, bands}, pal.Palette(len(levels)))
+		hm.Min, hm.Max = lo, hi
+		hm.NaN = color.White
+		p.Add(hm)
+		iso := plotter.NewContour(grid{d.Xs, d.Ys, filled(d.Z)}, levels, greys{})
+		iso.LineStyles = []draw.LineStyle{{Color: color.NRGBA{A: 90}, Width: vg.Points(0.5)}}
+		p.Add(iso)
+	}
+	p.Add(shade{d})
+	var labels plotter.XYLabels
+	for c, name := range d.Constraints {
+		m := d.Margins[c]
+		if !crosses(m) {
+			continue
+		}
+		col := plot.LineColor(c + 2)
+		bound := plotter.NewContour(grid{d.Xs, d.Ys, filled(m)}, []float64{0}, nil)
+		bound.LineStyles = []draw.LineStyle{{Color: col, Width: vg.Points(2)}}
+		p.Add(bound)
+		legend := plotter.NewFunction(func(float64) float64 { return math.NaN() })
+		legend.LineStyle = bound.LineStyles[0]
+		p.Legend.Add(name+" boundary", legend)
+		if x, y, ok := labelAt(d, m, c); ok {
+			labels.XYs = append(labels.XYs, plotter.XY{X: x, Y: y})
+			labels.Labels = append(labels.Labels, name)
+		}
+	}
+	if len(labels.XYs) > 0 {
+		l, err := plotter.NewLabels(labels)
+		if err == nil {
+			p.Add(l)
+		}
+	}
+	byClass := map[mdo.FailureClass]plotter.XYs{}
+	for j, r := range d.Failures {
+		for i, f := range r {
+			if f != mdo.NotFailed {
+				byClass[f] = append(byClass[f], plotter.XY{X: d.Xs[i], Y: d.Ys[j]})
+			}
+		}
+	}
+	for _, f := range []mdo.FailureClass{mdo.DoesNotClose, mdo.SolverFailed, mdo.InvalidInput, mdo.DisciplineFailed} {
+		if len(byClass[f]) == 0 {
+			continue
+		}
+		sc, err := plotter.NewScatter(byClass[f])
+		if err != nil {
+			return nil, fmt.Errorf("designmap: Figure: %w", err)
+		}
+		sc.Shape = failureGlyphs[f]
+		sc.Color = color.Black
+		sc.Radius = vg.Points(3)
+		p.Add(sc)
+		p.Legend.Add("failed: "+f.String(), sc)
+	}
+	if d.Best[0] >= 0 {
+		sc, err := plotter.NewScatter(plotter.XYs{{X: d.Xs[d.Best[0]], Y: d.Ys[d.Best[1]]}})
+		if err != nil {
+			return nil, fmt.Errorf("designmap: Figure: %w", err)
+		}
+		sc.Shape = draw.CircleGlyph{}
+		sc.Color = plot.BestColor()
+		sc.Radius = vg.Points(5)
+		p.Add(sc)
+		p.Legend.Add(fmt.Sprintf("best feasible grid point (%s %.4g)", d.Quantity, d.Z[d.Best[1]][d.Best[0]]), sc)
+	}
+	p.Add(plotter.NewGrid())
+	return plot.NewFigure(fileName("map_"+d.Quantity), title, vg.Points(560), vg.Points(460), p.Draw), nil
+}
+
+// greys is a palette of one faint grey, for the iso-lines.
+type greys struct{}
+
+func (greys) Colors() []color.Color { return []color.Color{color.NRGBA{A: 90}} }
+
+// crosses reports whether the margins change sign on the grid.
+func crosses(m [][]float64) bool {
+	neg, pos := false, false
+	for _, r := range m {
+		for _, v := range r {
+			neg = neg || v < 0
+			pos = pos || v >= 0
+		}
+	}
+	return neg && pos
+}
+
+// labelAt returns a point on the boundary of margin m where a label goes:
+// the middle of the grid edges where the margin changes sign, staggered by
+// the constraint's index so that labels of close boundaries part.
+func labelAt(d *Data, m [][]float64, c int) (x, y float64, ok bool) {
+	var pts []plotter.XY
+	for j := range m {
+		for i := 0; i+1 < len(m[j]); i++ {
+			a, b := m[j][i], m[j][i+1]
+			if !math.IsNaN(a) && !math.IsNaN(b) && (a < 0) != (b < 0) {
+				t := a / (a - b)
+				pts = append(pts, plotter.XY{X: d.Xs[i] + t*(d.Xs[i+1]-d.Xs[i]), Y: d.Ys[j]})
+			}
+		}
+	}
+	if len(pts) == 0 {
+		return 0, 0, false
+	}
+	k := (len(pts) * (1 + 2*(c%3))) / 6
+	return pts[k].X, pts[k].Y, true
+}
+
+// fileName turns a quantity name into a figure file-name stem.
+func fileName(s string) string {
+	b := []byte(s)
+	for i, ch := range b {
+		if !(ch >= 'a' && ch <= 'z' || ch >= '0' && ch <= '9' || ch == '_') {
+			b[i] = '_'
+		}
+	}
+	return string(b)
+}
