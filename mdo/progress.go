@@ -1,5 +1,7 @@
 package mdo
 
+import "time"
+
 // Progress is what an optimiser reports at each of its iterations.
 type Progress struct {
 	// Optimizer names the method, Iteration counts its iterations from 1
@@ -13,4 +15,7 @@ type Progress struct {
 	Best      float64
 	Feasible  bool
 	Violation float64
+	// Started is when the run (its Evaluator) began: a callback that
+	// sees a new value is seeing a new run of the study.
+	Started time.Time
 }

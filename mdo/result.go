@@ -66,7 +66,7 @@ func (e *Evaluator) Begin(optimizer string, settings map[string]string) error {
 // Iteration reports the end of an optimiser iteration: it calls the
 // study's progress callback and the recorder's iteration hook.
 func (e *Evaluator) Iteration(it int) {
-	p := Progress{Optimizer: e.optName, Iteration: it, Evaluations: e.cnt.Evaluations, Best: math.NaN(), Violation: math.Inf(1)}
+	p := Progress{Optimizer: e.optName, Iteration: it, Evaluations: e.cnt.Evaluations, Best: math.NaN(), Violation: math.Inf(1), Started: e.started}
 	if e.best != nil {
 		p.Best = e.best.F[0]
 		p.Feasible = e.best.Feasible

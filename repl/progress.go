@@ -24,16 +24,26 @@ type Progress struct {
 // NewProgress returns a progress display writing to w.
 func NewProgress(w io.Writer) *Progress { return &Progress{w: w} }
 
-// For returns the progress callback of one study (Study.Progress).
+// For returns the progress callback of one study (Study.Progress). Each
+// optimiser run of the study (a new mdo.Progress.Started) gets a display
+// of its own.
 func (p *Progress) For(label string) func(mdo.Progress) {
 	if p == nil {
 		return func(mdo.Progress) {}
 	}
 	var bar *progressbar.ProgressBar
+	var started time.Time
 	return func(pr mdo.Progress) {
 		p.mu.Lock()
 		defer p.mu.Unlock()
+		if bar != nil && !pr.Started.Equal(started) {
+			// a new run of the study: its own display, whose count and
+			// rate start from its first evaluation
+			p.finish(bar)
+			bar = nil
+		}
 		if bar == nil {
+			started = pr.Started
 			bar = progressbar.NewOptions(-1,
 				progressbar.OptionSetWriter(p.w),
 				progressbar.OptionSpinnerType(14),
@@ -82,4 +92,16 @@ func (p *Progress) Close() {
 		fmt.Fprintln(p.w)
 	}
 	p.bars = nil
+}
+
+// finish ends one bar, leaving its last line on screen; mu is held.
+func (p *Progress) finish(bar *progressbar.ProgressBar) {
+	for i, b := range p.bars {
+		if b == bar {
+			_ = b.Finish()
+			fmt.Fprintln(p.w)
+			p.bars = append(p.bars[:i], p.bars[i+1:]...)
+			return
+		}
+	}
 }
