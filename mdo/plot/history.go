@@ -17,8 +17,12 @@ import (
 // the best feasible objective so far; below, the constraint violation of
 // the best point so far and the best and worst violation in each block
 // of evaluations. evs are the run's evaluations in any order (they are
-// taken by ID). Beyond 4000 evaluations the markers are thinned evenly;
-// the lines are exact.
+// taken by ID). The markers are thinned to those that can be told apart
+// (see mergeClose): of the markers that fall in one cell of 2 pt × 2 pt
+// of the plot (a marker's radius) only the first is drawn,
+// so a run of thousands of evaluations stays a light SVG and looks the
+// same; beyond 4000 markers after that they are thinned evenly. The
+// lines are exact.
 func History(r *mdo.Result, evs []*mdo.Evaluation) (*Figure, error) {
 	if r == nil || len(r.Objectives) == 0 {
 		return nil, fmt.Errorf("plot: History needs a result with an objective")
@@ -32,10 +36,9 @@ func History(r *mdo.Result, evs []*mdo.Evaluation) (*Figure, error) {
 
 	var feas, infeas, bestLine, bestViol plotter.XYs
 	var best *mdo.Evaluation
-	step := thinStep(len(ordered), maxScatterPoints)
 	for i, e := range ordered {
 		n := float64(i + 1)
-		if i%step == 0 && len(e.Objectives) > 0 && finite(e.Objectives[0]) {
+		if len(e.Objectives) > 0 && finite(e.Objectives[0]) {
 			if e.Feasible {
 				feas = append(feas, plotter.XY{X: n, Y: e.Objectives[0]})
 			} else {
@@ -65,6 +68,7 @@ func History(r *mdo.Result, evs []*mdo.Evaluation) (*Figure, error) {
 			}
 		}
 	}
+	feas, infeas = distinct(feas, infeas)
 	top := NewPlot("", "evaluations", ylab)
 	top.Title.Text = "objective"
 	if err := AddScatter(top, infeas, infeasibleColor, draw.CrossGlyph{}, "infeasible"); err != nil {
@@ -118,6 +122,65 @@ func History(r *mdo.Result, evs []*mdo.Evaluation) (*Figure, error) {
 		top.Draw(cs[0][0])
 		bottom.Draw(cs[1][0])
 	}), nil
+}
+
+// The drawing area of the history's upper plot, roughly [pt], and the
+// cell within which markers are merged [pt].
+const (
+	historyWidth  = 400
+	historyHeight = 150
+	markerCell    = 2
+)
+
+// mergeClose keeps, of each set of points, the first in each cell of a
+// grid of markerCell over the plot area (historyWidth × historyHeight
+// spanning the range of both sets): the markers it drops lie within
+// markerCell of one drawn in the same colour, under the marker's radius,
+// and cannot be told apart.
+func mergeClose(a, b plotter.XYs) (plotter.XYs, plotter.XYs) {
+	sets := []plotter.XYs{a, b}
+	x0, x1, y0, y1 := math.Inf(1), math.Inf(-1), math.Inf(1), math.Inf(-1)
+	for _, s := range sets {
+		for _, p := range s {
+			x0, x1 = math.Min(x0, p.X), math.Max(x1, p.X)
+			y0, y1 = math.Min(y0, p.Y), math.Max(y1, p.Y)
+		}
+	}
+	cols, rows := float64(historyWidth)/markerCell, float64(historyHeight)/markerCell
+	dx, dy := math.Max(x1-x0, 1e-300)/cols, math.Max(y1-y0, 1e-300)/rows
+	out := make([]plotter.XYs, len(sets))
+	for k, s := range sets {
+		seen := map[[2]int]bool{}
+		var kept plotter.XYs
+		for _, p := range s {
+			c := [2]int{int((p.X - x0) / dx), int((p.Y - y0) / dy)}
+			if !seen[c] {
+				seen[c] = true
+				kept = append(kept, p)
+			}
+		}
+		out[k] = kept
+	}
+	return out[0], out[1]
+}
+
+// distinct is mergeClose, then each set thinned evenly if both together
+// still hold more than maxScatterPoints.
+func distinct(a, b plotter.XYs) (plotter.XYs, plotter.XYs) {
+	a, b = mergeClose(a, b)
+	out := []plotter.XYs{a, b}
+	total := len(a) + len(b)
+	for k, kept := range out {
+		if step := thinStep(total, maxScatterPoints); step > 1 {
+			thin := kept[:0]
+			for i := 0; i < len(kept); i += step {
+				thin = append(thin, kept[i])
+			}
+			kept = thin
+		}
+		out[k] = kept
+	}
+	return out[0], out[1]
 }
 
 // maxScatterPoints caps the points drawn as markers in one plot; larger
