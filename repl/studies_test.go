@@ -134,6 +134,16 @@ var exampleChecks = map[string]func(t *testing.T, sum map[string]any){
 			t.Errorf("stop %v, want complete", sum["stop"])
 		}
 	},
+	"business_jet_screening.study": func(t *testing.T, sum map[string]any) {
+		// Morris: 12 trajectories of 8 + 1 points; the second screening
+		// asks for the same points, which are repeats, not evaluations.
+		if n := sum["evaluations"].(float64); n != 108 {
+			t.Errorf("evaluations %g, want 12 trajectories of 9 points = 108", n)
+		}
+		if sum["stop"] != "complete" {
+			t.Errorf("stop %v, want complete", sum["stop"])
+		}
+	},
 	"business_jet_front.study": func(t *testing.T, sum map[string]any) {
 		front, _ := sum["front"].([]any)
 		if len(front) < 5 {
