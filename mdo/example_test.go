@@ -83,3 +83,21 @@ func ExampleSolution_Lookup() {
 	// y1 + y2 = 37.6468
 	// mdo: the solution has no variable "y3"; similar: y1, y2
 }
+
+// The catalogue of a system lists its variables, filtered by a prefix,
+// with their producer and the disciplines reading them.
+func ExampleSystem_Catalogue() {
+	sys, err := mdo.NewSystem(mdo.Sellar()...)
+	if err != nil {
+		panic(err)
+	}
+	entries, err := sys.Catalogue("y")
+	if err != nil {
+		panic(err)
+	}
+	fmt.Print(mdo.FormatCatalogue(entries))
+	// Output:
+	// name  unit  default  range          producer  consumers                  description
+	// y1    -     1        [0, 1000]      sellar1   sellar2, sellar_functions  coupling variable of discipline 1
+	// y2    -     1        [-1000, 1000]  sellar2   sellar1, sellar_functions  coupling variable of discipline 2
+}

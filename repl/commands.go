@@ -31,6 +31,7 @@ func commands() []command {
 		{"replay", "FILE", "run the cells of a study file in this session", (*Session).cmdReplay},
 		{"coupling", "EXPR", "show the design structure matrix of a system (or of a study's system)", (*Session).cmdCoupling},
 		{"report", "EXPR", "write the report, plots and summary of a result into a new folder of its study's name under the output folder (--out); an earlier report is never overwritten", (*Session).cmdReport},
+		{"catalogue", "EXPR [PREFIX]", "list the variables of a system or study (unit, default, range, producer, consumers), those starting with PREFIX", (*Session).cmdCatalogue},
 		{"vars", "", "list the session's variables", (*Session).cmdVars},
 		{"imports", "", "list the packages a script may import", (*Session).cmdImports},
 		{"fresh", "", "start afresh: forget every cell and variable", (*Session).cmdFresh},

@@ -18,6 +18,7 @@ func init() {
 		"AutoMode":          reflect.ValueOf(mdo.AutoMode),
 		"Better":            reflect.ValueOf(mdo.Better),
 		"Between":           reflect.ValueOf(mdo.Between),
+		"CatalogueMarkdown": reflect.ValueOf(mdo.CatalogueMarkdown),
 		"Central":           reflect.ValueOf(mdo.Central),
 		"CheckPartials":     reflect.ValueOf(mdo.CheckPartials),
 		"ClassOf":           reflect.ValueOf(mdo.ClassOf),
@@ -33,6 +34,7 @@ func init() {
 		"ErrNoDerivatives":  reflect.ValueOf(&mdo.ErrNoDerivatives).Elem(),
 		"FDPartials":        reflect.ValueOf(mdo.FDPartials),
 		"FDStep":            reflect.ValueOf(mdo.FDStep),
+		"FormatCatalogue":   reflect.ValueOf(mdo.FormatCatalogue),
 		"FormatVars":        reflect.ValueOf(mdo.FormatVars),
 		"Forward":           reflect.ValueOf(mdo.Forward),
 		"Func":              reflect.ValueOf(mdo.Func),
@@ -74,6 +76,7 @@ func init() {
 
 		// type definitions
 		"BranchError":            reflect.ValueOf((*mdo.BranchError)(nil)),
+		"CatalogueEntry":         reflect.ValueOf((*mdo.CatalogueEntry)(nil)),
 		"ComputeFunc":            reflect.ValueOf((*mdo.ComputeFunc)(nil)),
 		"Constraint":             reflect.ValueOf((*mdo.Constraint)(nil)),
 		"ConstraintKind":         reflect.ValueOf((*mdo.ConstraintKind)(nil)),

@@ -118,6 +118,7 @@ usage:
   couplet run FILE.study --out DIR [--seed N] [--timeout D] [%s] [--quiet] [--every-output] [--pick-up | --replace]
                                                    replay a saved study headless
   couplet imports [%s]                    list the packages a script may import
+  couplet vars [--prefix P] [--markdown]           list the aircraft model's variables
   couplet version                                  print the version
   couplet help                                     print this text (also -h, --help)
 
@@ -176,6 +177,8 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		}
 		fmt.Fprintln(stdout, strings.Join(st.policy().Importable(), "\n"))
 		return 0
+	case "vars":
+		return repl.VarsCommand(args, stdout, stderr)
 	case "version":
 		fmt.Fprintf(stdout, "couplet %s\n", repl.Version)
 		return 0
