@@ -41,16 +41,19 @@ func (s *System) Catalogue(prefix string) ([]CatalogueEntry, error) {
 	return out, nil
 }
 
-// suggestPrefix names the groups of variables (their first name segment)
-// for a prefix that matches none.
+// suggestPrefix names the groups of variables (their first name segment,
+// with its dot) for a prefix that matches none.
 func suggestPrefix(names []string, prefix string) string {
 	seen := map[string]bool{}
 	var groups []string
 	for _, n := range names {
-		g, _, _ := strings.Cut(n, ".")
+		g, _, dotted := strings.Cut(n, ".")
+		if dotted {
+			g += "."
+		}
 		if !seen[g] {
 			seen[g] = true
-			groups = append(groups, g+".")
+			groups = append(groups, g)
 		}
 	}
 	sort.Strings(groups)

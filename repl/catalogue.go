@@ -59,7 +59,7 @@ func (s *Session) cmdCatalogue(ctx context.Context, arg string) bool {
 		fmt.Fprintf(s.opts.Stderr, "%scatalogue needs a system or a study, and optionally a prefix, e.g. %scatalogue sys mass.\n", CommandPrefix, CommandPrefix)
 		return false
 	}
-	v, err := s.Eval(ctx, expr)
+	v, err := s.Eval(ctx, CommandPrefix+"catalogue", expr)
 	if err != nil {
 		fmt.Fprintf(s.opts.Stderr, "%scatalogue %s: %v\n", CommandPrefix, expr, err)
 		return false

@@ -49,7 +49,7 @@ func TestVarsCommand(t *testing.T) {
 func TestCatalogueCommand(t *testing.T) {
 	s, out, errb := newTest(t, Options{})
 	defer s.Close()
-	serve(t, s, "st, err := mdo.SellarStudy(mdo.MDF)\n@catalogue st y\n@catalogue st.System z2\n@catalogue st q\n@catalogue err\n@catalogue\n")
+	serve(t, s, "st, err := mdo.SellarStudy(mdo.MDF)\n@catalogue st y\n@catalogue st.System z2\n@catalogue st q\nn := 3\n@catalogue n\n@catalogue\n")
 	for _, w := range []string{"y1    -     1", "sellar2, sellar_functions", "z2 "} {
 		if !strings.Contains(out.String(), w) {
 			t.Errorf("output lacks %q:\n%s", w, out)
