@@ -17,6 +17,12 @@ type PointDerivatives struct {
 	// of the constrained quantity (for IDF's consistency constraints,
 	// the scaled residual).
 	Constraints [][]float64
+	// Parameters names the fixed parameters asked for
+	// (Evaluator.DerivativesWith); ObjectivesByParameter[k][j] and
+	// ConstraintsByParameter[k][j] are the derivatives of objective and
+	// constraint k with respect to parameter j, in physical units.
+	Parameters                                    []string
+	ObjectivesByParameter, ConstraintsByParameter [][]float64
 	// LinearSolves and DisciplineCalls count the work of the totals
 	// (see Totals).
 	LinearSolves, DisciplineCalls int
@@ -32,6 +38,28 @@ type PointDerivatives struct {
 // total derivative of every variable. A point whose analysis failed has
 // no derivatives: the error wraps ErrNoDerivatives and gives the reason.
 func (e *Evaluator) Derivatives(ctx context.Context, x []float64) (*PointDerivatives, error) {
+	return e.DerivativesWith(ctx, x, nil)
+}
+
+// DerivativesWith is Derivatives that also differentiates with respect
+// to the named parameters of the system (inputs nobody produces that are
+// not design variables: the study's fixed values, such as the payload),
+// for post-optimality sensitivities.
+func (e *Evaluator) DerivativesWith(ctx context.Context, x []float64, params []string) (*PointDerivatives, error) {
+	for _, p := range params {
+		i := e.sys.Index(p)
+		if i < 0 {
+			return nil, fmt.Errorf("mdo: derivatives: %w", e.sys.unknown(p))
+		}
+		if e.sys.producer[i] >= 0 {
+			return nil, fmt.Errorf("mdo: derivatives: %s is produced by discipline %s, not a parameter", p, e.sys.Producer(p))
+		}
+		for _, s := range e.slots {
+			if s.name == p {
+				return nil, fmt.Errorf("mdo: derivatives: %s is a design variable of study %q, not a fixed parameter", p, e.study.Name)
+			}
+		}
+	}
 	if len(x) != len(e.slots) {
 		return nil, fmt.Errorf("mdo: derivatives: point has %d coordinates, the study %d", len(x), len(e.slots))
 	}
@@ -48,13 +76,14 @@ func (e *Evaluator) Derivatives(ctx context.Context, x []float64) (*PointDerivat
 	}
 	val := append([]float64(nil), ev.Outputs...)
 	guess := append([]float64(nil), e.guess...)
-	wrt := make([]string, len(e.slots))
+	wrt := make([]string, len(e.slots), len(e.slots)+len(params))
 	for k, s := range e.slots {
 		wrt[k] = s.name
 		if s.coupling {
 			guess[s.idx] = ev.Design[k]
 		}
 	}
+	wrt = append(wrt, params...)
 	hasFunc := false
 	for _, i := range e.objIdx {
 		hasFunc = hasFunc || i < 0
@@ -94,16 +123,20 @@ func (e *Evaluator) Derivatives(ctx context.Context, x []float64) (*PointDerivat
 		return nil, fmt.Errorf("mdo: derivatives at %v: %w", ev.Design, err)
 	}
 	nu := len(e.slots)
-	span := make([]float64, nu)
+	span := make([]float64, len(wrt))
+	for k := range span {
+		span[k] = 1 // parameters: physical units
+	}
 	for k, s := range e.slots {
 		span[k] = s.upper - s.lower
 	}
+	isTarget := func(j, c int) bool { return j < nu && e.slots[j].coupling && e.slots[j].idx == c }
 	// dv/du_j for variable i
 	dvar := func(i, j int) float64 { return tot.J.At(row[i], j) * span[j] }
 	// a function of the values, differentiated along the totals
 	dfunc := func(fn func(Values) float64, j int) float64 {
 		h := 1e-6
-		if hasFunc && e.slots[j].integer {
+		if j < nu && e.slots[j].integer {
 			h = 1e-3
 		}
 		p := make([]float64, len(val))
@@ -117,7 +150,7 @@ func (e *Evaluator) Derivatives(ctx context.Context, x []float64) (*PointDerivat
 	}
 	pd := &PointDerivatives{Eval: ev, LinearSolves: tot.LinearSolves, DisciplineCalls: tot.DisciplineCalls}
 	for k, i := range e.objIdx {
-		g := make([]float64, nu)
+		g := make([]float64, len(wrt))
 		for j := range g {
 			if i >= 0 {
 				g[j] = dvar(i, j)
@@ -128,7 +161,7 @@ func (e *Evaluator) Derivatives(ctx context.Context, x []float64) (*PointDerivat
 		pd.Objectives = append(pd.Objectives, g)
 	}
 	for k, i := range e.consIdx {
-		g := make([]float64, nu)
+		g := make([]float64, len(wrt))
 		for j := range g {
 			switch {
 			case i >= 0:
@@ -139,13 +172,24 @@ func (e *Evaluator) Derivatives(ctx context.Context, x []float64) (*PointDerivat
 				// consistency (y − target)/scale of coupling variable c
 				c := e.coupling[k-e.nUserCons]
 				d := dvar(c, j)
-				if e.slots[j].coupling && e.slots[j].idx == c {
+				if isTarget(j, c) {
 					d -= span[j]
 				}
 				g[j] = d / e.sys.vars.At(c).scale()
 			}
 		}
 		pd.Constraints = append(pd.Constraints, g)
+	}
+	if len(params) > 0 {
+		pd.Parameters = append([]string(nil), params...)
+		for k, g := range pd.Objectives {
+			pd.ObjectivesByParameter = append(pd.ObjectivesByParameter, g[nu:])
+			pd.Objectives[k] = g[:nu:nu]
+		}
+		for k, g := range pd.Constraints {
+			pd.ConstraintsByParameter = append(pd.ConstraintsByParameter, g[nu:])
+			pd.Constraints[k] = g[:nu:nu]
+		}
 	}
 	return pd, nil
 }

@@ -52,7 +52,10 @@ var errQPNotConverged = errors.New("quadratic programme not solved")
 // residuals of stationarity, equalities and inequalities are below tol
 // relative to the data and the mean complementarity sᵀz/m below tol/1000,
 // and then re-solves the programme on the active set it found (purify)
-// so that active constraints hold exactly.
+// so that active constraints hold exactly. When the tolerance is not met
+// within the iterations, the active set of the last iterate is tried the
+// same way: a solution that passes purify's checks is a KKT point, hence
+// optimal for the convex programme.
 func solveQP(p qpProblem) (qpSolution, error) {
 	n := len(p.c)
 	me, mi := 0, 0
@@ -196,7 +199,7 @@ func solveQP(p qpProblem) (qpSolution, error) {
 			rc[i] = s[i] * z[i]
 		}
 		if err := step(); err != nil {
-			return qpSolution{}, fmt.Errorf("%w: singular KKT matrix at iteration %d", errQPNotConverged, it)
+			return qpSolution{}, fmt.Errorf("%w: singular KKT matrix at iteration %d: %v", errQPNotConverged, it, err)
 		}
 		a := maxStep()
 		muAff := 0.0
@@ -213,7 +216,7 @@ func solveQP(p qpProblem) (qpSolution, error) {
 			rc[i] = s[i]*z[i] + ds[i]*dz[i] - sigma*mu
 		}
 		if err := step(); err != nil {
-			return qpSolution{}, fmt.Errorf("%w: singular KKT matrix at iteration %d", errQPNotConverged, it)
+			return qpSolution{}, fmt.Errorf("%w: singular KKT matrix at iteration %d: %v", errQPNotConverged, it, err)
 		}
 		a = math.Min(1, 0.99*maxStep())
 		for i := range x {
@@ -226,6 +229,13 @@ func solveQP(p qpProblem) (qpSolution, error) {
 			s[k] += a * ds[k]
 			z[k] += a * dz[k]
 		}
+	}
+	// the tolerance was not met (rounding in a badly scaled programme):
+	// the active set of the last iterate still gives the solution when
+	// it satisfies the optimality conditions
+	if pure, ok := purify(p, s, z); ok {
+		pure.iterations = maxIter
+		return pure, nil
 	}
 	return qpSolution{x: x, y: y, z: z, iterations: maxIter}, errQPNotConverged
 }

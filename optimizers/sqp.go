@@ -64,6 +64,11 @@ type Sextant struct {
 	// Starts is the number of starting points, the study's baseline
 	// design first; default 1.
 	Starts int
+	// Parameters names fixed parameters of the study (inputs nobody
+	// produces that are not design variables, e.g. mission.payload) whose
+	// effect on the optimal objective the post-optimality sensitivity
+	// gives (StartsReport.Sensitivity).
+	Parameters []string
 }
 
 // Name implements Optimizer.
@@ -99,6 +104,9 @@ type Optimum struct {
 	// at the end, one per constraint of mdo.Evaluator.Constraints, in
 	// the constraint's scaled units (see Sextant); 0 when inactive.
 	Multipliers []float64
+	// Sensitivity is the post-optimality sensitivity in the user's units;
+	// nil unless the start converged.
+	Sensitivity *Sensitivity
 }
 
 // StartsReport describes a multi-start run (Sextant.Explore).
@@ -109,6 +117,10 @@ type StartsReport struct {
 	// same when their points are within 1e-3 of the box in every
 	// coordinate.
 	Distinct int
+	// Sensitivity is that of the best converged feasible optimum (nil if
+	// none): what each limit costs and the derivatives of the optimal
+	// objective with respect to Sextant.Parameters.
+	Sensitivity *Sensitivity
 	// LinearSolves and DisciplineCalls count the work of the gradients.
 	LinearSolves, DisciplineCalls int
 }
@@ -130,6 +142,17 @@ func (o Sextant) Explore(ctx context.Context, s *mdo.Study) (*mdo.Result, *Start
 		return nil, nil, err
 	}
 	r.maxEvals = or(o.MaxEvaluations, 2000)
+	for _, p := range o.Parameters {
+		design := false
+		for _, d := range r.ev.DesignNames() {
+			design = design || d == p
+		}
+		if !s.System.IsParameter(p) || design {
+			err := fmt.Errorf("optimizers: Sextant: Parameters names %q, which is not a fixed parameter of study %q (an input nobody produces that is not a design variable)", p, s.Name)
+			res, _ := r.finish(mdo.NotStopped, nil)
+			return res, nil, err
+		}
+	}
 	starts := [][]float64{r.ev.Start()}
 	if n := or(o.Starts, 1); n > 1 {
 		d := r.ev.Dim()
@@ -159,6 +182,16 @@ func (o Sextant) Explore(ctx context.Context, s *mdo.Study) (*mdo.Result, *Start
 		stop = st
 	}
 	rep.Distinct = countDistinct(rep.Optima)
+	bestF := math.Inf(1)
+	for _, o := range rep.Optima {
+		f := o.Objective
+		if s.Objectives[0].Maximize {
+			f = -f
+		}
+		if o.Converged && o.Feasible && o.Sensitivity != nil && f < bestF {
+			bestF, rep.Sensitivity = f, o.Sensitivity
+		}
+	}
 	res, err := r.finish(stop, nil)
 	return res, rep, err
 }
@@ -446,6 +479,22 @@ func (s *sqp) run(x0 []float64) (*Optimum, mdo.StopReason, error) {
 		s.r.iteration()
 	}
 	s.fill(opt, p, lam)
+	if opt.Converged {
+		sens, err := s.sensitivity(p, lam)
+		if err != nil && s.r.ctx.Err() != nil {
+			// cancelled after converging: the optimum stands without
+			// its sensitivity
+			return opt, ctxStop(s.r.ctx.Err()), nil
+		}
+		if err != nil {
+			st, err := stopOf(err)
+			if err != nil {
+				return opt, mdo.NotStopped, fmt.Errorf("optimizers: Sextant: sensitivity at the optimum: %w", err)
+			}
+			return opt, st, nil
+		}
+		opt.Sensitivity = sens
+	}
 	return opt, stop, nil
 }
 

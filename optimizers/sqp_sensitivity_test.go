@@ -1,0 +1,97 @@
+package optimizers
+
+import (
+	"context"
+	"math"
+	"testing"
+
+	"couplet/mdo"
+)
+
+// optimumWith runs Sextant on a study that edit changes, and returns the
+// optimal objective and the report.
+func optimumWith(t *testing.T, mk func() (*mdo.Study, error), edit func(*mdo.Study), o Sextant) (float64, *StartsReport) {
+	t.Helper()
+	s, err := mk()
+	if err != nil {
+		t.Fatal(err)
+	}
+	edit(s)
+	res, rep, err := o.Explore(context.Background(), s)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !res.Feasible() || rep.Sensitivity == nil {
+		t.Fatalf("%s: no converged feasible optimum (f = %g, stop %v)", s.Name, res.Objective(), res.Stop)
+	}
+	return res.Objective(), rep
+}
+
+// TestLimitCostsAgainstReoptimisation: the multiplier of each active
+// constraint, in user units, agrees within 1 % with the central
+// difference of the optimum re-optimised with the limit moved by ±δ (the
+// issue's requirement), and the derivative with respect to a fixed
+// parameter with the optimum re-optimised at the parameter ± δ.
+func TestLimitCostsAgainstReoptimisation(t *testing.T) {
+	tests := []struct {
+		name  string
+		study func() (*mdo.Study, error)
+		k     int // constraint
+		delta float64
+	}{
+		{"Sellar MDF, y1 >= 3.16", SellarMDF, 0, 0.01},
+		{"g06, g1 <= 0", G06, 0, 0.05},
+		{"g06, g2 <= 0", G06, 1, 0.05},
+		{"g09, g1 <= 0", G09, 0, 0.05},
+		{"welded beam, tau <= 13600", WeldedBeam, 0, 10},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			_, rep := optimumWith(t, tc.study, func(*mdo.Study) {}, Sextant{})
+			var cost *LimitCost
+			s, _ := tc.study()
+			name := s.Constraints[tc.k].Name
+			for i := range rep.Sensitivity.Limits {
+				if rep.Sensitivity.Limits[i].Constraint == name {
+					cost = &rep.Sensitivity.Limits[i]
+				}
+			}
+			if cost == nil || !cost.Active {
+				t.Fatalf("constraint %s not active: %+v", name, rep.Sensitivity.Limits)
+			}
+			move := func(d float64) func(*mdo.Study) {
+				return func(s *mdo.Study) {
+					c := &s.Constraints[tc.k]
+					if c.Kind == mdo.LessEqual {
+						c.Upper += d
+					} else {
+						c.Lower += d
+					}
+				}
+			}
+			fp, _ := optimumWith(t, tc.study, move(tc.delta), Sextant{})
+			fm, _ := optimumWith(t, tc.study, move(-tc.delta), Sextant{})
+			fd := (fp - fm) / (2 * tc.delta)
+			if math.Abs(cost.PerUnit-fd) > 0.01*math.Abs(fd) {
+				t.Errorf("d f*/d limit of %s: multiplier %.6g, re-optimised %.6g", name, cost.PerUnit, fd)
+			}
+		})
+	}
+	t.Run("Sellar, x fixed", func(t *testing.T) {
+		fixX := func(x float64) func(*mdo.Study) {
+			return func(s *mdo.Study) {
+				s.Design = s.Design[1:]
+				s.Fixed = map[string]float64{"x": x}
+			}
+		}
+		o := Sextant{Parameters: []string{"x"}}
+		_, rep := optimumWith(t, SellarMDF, fixX(0.5), o)
+		fp, _ := optimumWith(t, SellarMDF, fixX(0.51), o)
+		fm, _ := optimumWith(t, SellarMDF, fixX(0.49), o)
+		fd := (fp - fm) / 0.02
+		got := rep.Sensitivity.Parameters[0].PerUnit
+		if math.Abs(got-fd) > 0.01*math.Abs(fd) {
+			t.Errorf("d f*/dx: %.6g, re-optimised %.6g", got, fd)
+		}
+	})
+}
