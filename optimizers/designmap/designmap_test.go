@@ -4,11 +4,15 @@ import (
 	"context"
 	"errors"
 	"math"
+	"os"
+	"path/filepath"
+	"slices"
 	"strings"
 	"testing"
 
 	"couplet/mdo"
 	"couplet/mdo/plot"
+	"couplet/mdo/report"
 )
 
 // toyStudy is the constrained toy problem of Gramacy et al. (2016,
@@ -113,5 +117,42 @@ func TestMapBadSpec(t *testing.T) {
 		if _, err := Sample(context.Background(), s, spec); err == nil {
 			t.Errorf("%+v accepted", spec)
 		}
+	}
+}
+
+// TestMapInTheReport writes a run folder whose report holds the map.
+func TestMapInTheReport(t *testing.T) {
+	s := toyStudy(t)
+	ev, err := s.NewEvaluator()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := ev.Begin("two points", nil); err != nil {
+		t.Fatal(err)
+	}
+	if _, err := ev.Evaluate(context.Background(), [][]float64{{0.2, 0.4, 0.5}, {0.6, 0.6, 0.5}}); err != nil {
+		t.Fatal(err)
+	}
+	res, err := ev.Finish(mdo.StopComplete)
+	if err != nil {
+		t.Fatal(err)
+	}
+	dir := t.TempDir()
+	files, err := report.WriteRun(context.Background(), dir, report.Run{Result: res, Study: s,
+		Figures: []report.FigureSource{Figures(Spec{X: "x1", Y: "x2", Points: 11})}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	html, err := os.ReadFile(filepath.Join(dir, "report.html"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, want := range []string{"f over x1 and x2", "c1 boundary", "121 further analyses"} {
+		if !strings.Contains(string(html), want) {
+			t.Errorf("report.html does not hold %q", want)
+		}
+	}
+	if !slices.Contains(files, filepath.Join(dir, "map_f.png")) {
+		t.Errorf("files written %v, want map_f.png among them", files)
 	}
 }

@@ -10,8 +10,9 @@ import (
 func init() {
 	Symbols["couplet/optimizers/designmap/designmap"] = map[string]reflect.Value{
 		// function, constant and variable definitions
-		"Figure": reflect.ValueOf(designmap.Figure),
-		"Sample": reflect.ValueOf(designmap.Sample),
+		"Figure":  reflect.ValueOf(designmap.Figure),
+		"Figures": reflect.ValueOf(designmap.Figures),
+		"Sample":  reflect.ValueOf(designmap.Sample),
 
 		// type definitions
 		"Data": reflect.ValueOf((*designmap.Data)(nil)),
