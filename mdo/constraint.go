@@ -53,6 +53,15 @@ type Constraint struct {
 	// Scale normalises the constraint for penalties and violation sums;
 	// default max(|bound|, 1).
 	Scale float64
+	// Unit is the unit of a Func constraint's quantity, shown beside its
+	// values (empty: that of the variable Name, or none); see WithUnit.
+	Unit string
+}
+
+// WithUnit returns a copy of c whose quantity is in unit.
+func (c Constraint) WithUnit(unit string) Constraint {
+	c.Unit = unit
+	return c
 }
 
 // AtMost returns the constraint name ≤ upper.

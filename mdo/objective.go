@@ -13,6 +13,15 @@ type Objective struct {
 	Func func(Values) float64
 	// Maximize turns the objective into one to maximise.
 	Maximize bool
+	// Unit is the unit of a Func objective, shown beside its values
+	// (empty: that of the variable Name, or none); see WithUnit.
+	Unit string
+}
+
+// WithUnit returns a copy of o whose values are in unit.
+func (o Objective) WithUnit(unit string) Objective {
+	o.Unit = unit
+	return o
 }
 
 // Minimize returns the objective "minimise the variable name".

@@ -16,6 +16,9 @@ type RunInfo struct {
 	Objectives  []string
 	Constraints []string
 	Outputs     []Var
+	// Units are the units declared for objectives and constraints
+	// (Objective.Unit, Constraint.Unit), by name.
+	Units map[string]string
 }
 
 // DesignSpec describes one design variable of a run.

@@ -42,6 +42,7 @@ func (e *Evaluator) beginRecording() {
 		Study: e.study.Name, Script: e.study.Script, Optimizer: e.optName, Seed: e.study.Seed,
 		Formulation: e.study.Formulation, Settings: e.settings, Started: e.started,
 		Design: e.DesignSpecs(), Objectives: e.ObjectiveNames(), Outputs: e.OutputVars(),
+		Units: e.study.declaredUnits(),
 	}
 	for _, c := range e.cons {
 		info.Constraints = append(info.Constraints, c.Name)

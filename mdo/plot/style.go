@@ -67,15 +67,8 @@ func BestColor() color.Color { return bestColor }
 // RegionColor is the translucent fill of a feasible region.
 func RegionColor() color.Color { return regionColor }
 
-// unitOf finds the unit of a name among a result's outputs.
-func unitOf(r *mdo.Result, name string) string {
-	for _, v := range r.Outputs {
-		if v.Name == name {
-			return v.Unit
-		}
-	}
-	return ""
-}
+// unitOf finds the unit of a name of a result (mdo.Result.Unit).
+func unitOf(r *mdo.Result, name string) string { return r.Unit(name) }
 
 // finite reports whether x is a finite number.
 func finite(x float64) bool { return !math.IsNaN(x) && !math.IsInf(x, 0) }

@@ -106,15 +106,8 @@ func num(x float64) string {
 	return strconv.FormatFloat(x, 'g', 7, 64)
 }
 
-// unitOf finds a name's unit among the result's outputs.
-func unitOf(r *mdo.Result, name string) string {
-	for _, v := range r.Outputs {
-		if v.Name == name {
-			return orDash(v.Unit)
-		}
-	}
-	return "-"
-}
+// unitOf finds a name's unit (mdo.Result.Unit), or "-".
+func unitOf(r *mdo.Result, name string) string { return orDash(r.Unit(name)) }
 
 // orDash returns u or "-".
 func orDash(u string) string {

@@ -181,7 +181,7 @@ func (s *Store) Columns() Columns {
 	if s.lay == nil {
 		return Columns{}
 	}
-	return Columns{Design: s.lay.design, Objectives: s.lay.objectives, Constraints: s.lay.constraints, Outputs: s.lay.outputs}
+	return Columns{Design: s.lay.design, Objectives: s.lay.objectives, Constraints: s.lay.constraints, Outputs: s.lay.outputs, units: s.lay.units}
 }
 
 // Iterations returns the recorded optimiser iterations in order.

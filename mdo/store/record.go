@@ -32,6 +32,7 @@ func (s *Store) Begin(info mdo.RunInfo) error {
 	}
 	ctx := context.Background()
 	lay := newLayout(info.Design, info.Objectives, info.Constraints, info.Outputs)
+	lay.units = info.Units
 	lay.columns = lay.columns && !s.opt.jsonText
 	pickingUp := s.meta != nil
 	if pickingUp {
@@ -60,7 +61,7 @@ func (s *Store) Begin(info mdo.RunInfo) error {
 				info.Optimizer, info.Formulation.String(), string(settings), started.UTC().Format(time.RFC3339Nano)); err != nil {
 				return err
 			}
-			if err := writeVariables(ctx, s, lay, info.Outputs); err != nil {
+			if err := writeVariables(ctx, s, lay, info.Outputs, info.Units); err != nil {
 				return err
 			}
 			if _, err := s.conn.ExecContext(ctx, lay.createEvaluations()); err != nil {
@@ -152,11 +153,14 @@ func sameLayout(stored, now *layout) error {
 }
 
 // writeVariables fills the variables table.
-func writeVariables(ctx context.Context, s *Store, lay *layout, outputs []mdo.Var) error {
+func writeVariables(ctx context.Context, s *Store, lay *layout, outputs []mdo.Var, declared map[string]string) error {
 	const q = `INSERT INTO variables (role, position, name, unit, description, lower, upper, is_integer, column_name) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)`
 	unitOf := map[string]string{}
 	for _, v := range outputs {
 		unitOf[v.Name] = v.Unit
+	}
+	for name, u := range declared {
+		unitOf[name] = u
 	}
 	for k, d := range lay.design {
 		if _, err := s.conn.ExecContext(ctx, q, "design", k, d.Name, d.Unit, "", d.Lower, d.Upper, d.Integer, lay.designCols[k]); err != nil {

@@ -89,23 +89,23 @@ func (s *Store) Result() (*mdo.Result, error) {
 
 // loadGoals reads the objectives' senses and the constraints' relations.
 func (s *Store) loadGoals(ctx context.Context, r *mdo.Result) error {
-	rows, err := s.conn.QueryContext(ctx, `SELECT role, name, relation, kind, lower, upper, tolerance, scale FROM variables WHERE role IN ('objective', 'constraint') ORDER BY role DESC, position`)
+	rows, err := s.conn.QueryContext(ctx, `SELECT role, name, unit, relation, kind, lower, upper, tolerance, scale FROM variables WHERE role IN ('objective', 'constraint') ORDER BY role DESC, position`)
 	if err != nil {
 		return fmt.Errorf("store: reading the variables of %s: %w", s.path, err)
 	}
 	defer rows.Close()
 	for rows.Next() {
-		var role, name string
+		var role, name, unit string
 		var rel, kind sql.NullString
 		var lo, hi, tol, scale sql.NullFloat64
-		if err := rows.Scan(&role, &name, &rel, &kind, &lo, &hi, &tol, &scale); err != nil {
+		if err := rows.Scan(&role, &name, &unit, &rel, &kind, &lo, &hi, &tol, &scale); err != nil {
 			return fmt.Errorf("store: reading the variables of %s: %w", s.path, err)
 		}
 		if role == "objective" {
-			r.Objectives = append(r.Objectives, mdo.Objective{Name: name, Maximize: rel.String == "maximise"})
+			r.Objectives = append(r.Objectives, mdo.Objective{Name: name, Maximize: rel.String == "maximise", Unit: unit})
 			continue
 		}
-		c := mdo.Constraint{Name: name, Lower: math.NaN(), Upper: math.NaN(), Tolerance: tol.Float64, Scale: scale.Float64}
+		c := mdo.Constraint{Name: name, Lower: math.NaN(), Upper: math.NaN(), Tolerance: tol.Float64, Scale: scale.Float64, Unit: unit}
 		for _, k := range []mdo.ConstraintKind{mdo.LessEqual, mdo.GreaterEqual, mdo.Equal, mdo.InBand} {
 			if kind.Valid && kind.String == k.String() {
 				c.Kind = k

@@ -132,6 +132,8 @@ type layout struct {
 	// version 3); otherwise JSON text arrays numbers and outputs (versions
 	// 1 and 2, and a study with more than maxTableColumns values).
 	columns bool
+	// units are the declared units of objectives and constraints.
+	units map[string]string
 }
 
 // newLayout derives the column names of a run.

@@ -343,6 +343,7 @@ func (s *Store) loadLayout() (*layout, error) {
 	var design []mdo.DesignSpec
 	var objs, cons []string
 	var outs []mdo.Var
+	units := map[string]string{}
 	for rows.Next() {
 		var role, name, unit, desc string
 		var lo, hi sql.NullFloat64
@@ -355,8 +356,10 @@ func (s *Store) loadLayout() (*layout, error) {
 			design = append(design, mdo.DesignSpec{Name: name, Unit: unit, Lower: lo.Float64, Upper: hi.Float64, Integer: integer})
 		case "objective":
 			objs = append(objs, name)
+			units[name] = unit
 		case "constraint":
 			cons = append(cons, name)
+			units[name] = unit
 		case "output":
 			outs = append(outs, mdo.Var{Name: name, Unit: unit, Description: desc, Min: lo.Float64, Max: hi.Float64})
 		}
@@ -364,7 +367,9 @@ func (s *Store) loadLayout() (*layout, error) {
 	if err := rows.Err(); err != nil {
 		return nil, fmt.Errorf("store: reading the variables of %s: %w", s.path, err)
 	}
-	return newLayout(design, objs, cons, outs), nil
+	lay := newLayout(design, objs, cons, outs)
+	lay.units = units
+	return lay, nil
 }
 
 // Path returns the store's file name.
