@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
+	"slices"
 	"sort"
 	"strconv"
 	"strings"
@@ -27,7 +28,7 @@ func commands() []command {
 	return []command{
 		{"cells", "", "list the cells of this session with their state", (*Session).cmdCells},
 		{"again", "N", "run cell N again (as a new cell)", (*Session).cmdAgain},
-		{"save", "FILE", "save the successful cells as a study file (.study)", (*Session).cmdSave},
+		{"save", "FILE", "save the successful cells as a study file (.study); refused while a cell was interrupted (Ctrl-C), whose replay would run to its end and give another result", (*Session).cmdSave},
 		{"replay", "FILE", "run the cells of a study file in this session", (*Session).cmdReplay},
 		{"coupling", "EXPR", "show the design structure matrix of a system (or of a study's system)", (*Session).cmdCoupling},
 		{"report", "EXPR", "write the report, plots and summary of a result into a new folder of its study's name under the output folder (--out); an earlier report is never overwritten", (*Session).cmdReport},
@@ -151,10 +152,19 @@ func (s *Session) cmdSave(_ context.Context, arg string) bool {
 		return false
 	}
 	var srcs []string
-	for _, c := range s.cells {
-		if c.Err == nil {
-			srcs = append(srcs, c.Source)
+	for i, c := range s.cells {
+		if c.Err != nil {
+			continue
 		}
+		if c.Interrupted {
+			// a later run of the same source to its end takes its place
+			if slices.ContainsFunc(s.cells[i+1:], func(d *Cell) bool { return d.Source == c.Source && d.Err == nil && !d.Interrupted }) {
+				continue
+			}
+			fmt.Fprintln(s.opts.Stderr, interruptedSave(c))
+			return false
+		}
+		srcs = append(srcs, c.Source)
 	}
 	p := studyPath(arg)
 	if err := WriteStudy(p, srcs); err != nil {
@@ -163,6 +173,20 @@ func (s *Session) cmdSave(_ context.Context, arg string) bool {
 	}
 	fmt.Fprintf(s.opts.Stdout, "saved %d cells to %s\n", len(srcs), p)
 	return false
+}
+
+// interruptedSave is the refusal of @save when a cell was interrupted and
+// no later cell ran the same source to its end: its replay would run on
+// to the end and give another answer, so the message names the cell, the
+// evaluations it reached and what to do.
+func interruptedSave(c *Cell) string {
+	reached := ""
+	if r, ok := c.Value.(*mdo.Result); ok && r != nil {
+		reached = fmt.Sprintf(" after %d evaluations", r.Evaluations)
+	}
+	return fmt.Sprintf("%ssave: cell %d was interrupted%s; a replay would run it to its end and give another result, so it is not saved. "+
+		"Run it again to its end (%sagain %d), or bound it in its source (an optimiser's MaxEvaluations) and run that cell, then %ssave again",
+		CommandPrefix, c.Number, reached, CommandPrefix, c.Number, CommandPrefix)
 }
 
 func (s *Session) cmdReplay(ctx context.Context, arg string) bool {
