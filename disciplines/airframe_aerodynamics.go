@@ -34,7 +34,11 @@ import (
 //     aero.cl_takeoff = CLmax,TO/1.13².
 //
 // The methods are those of the aerodynamic model (AeroModel); the low-speed
-// condition is Mach AeroOptions.TakeoffMach at the airport.
+// condition is Mach AeroOptions.TakeoffMach at the airport. Three
+// calibration factors, default 1 (the model unchanged), multiply the lift
+// slopes (aero.factor_lift_slope), the zero-lift drag areas
+// (aero.factor_zero_lift_drag) and the wing's drag-due-to-lift factors
+// (aero.factor_induced_drag); a calibration to measurements fits them.
 type AirframeAerodynamics struct {
 	model *AeroModel
 	// machFFHigh is the surfaces' form-factor Mach factor 1.34·M^0.18 at
@@ -128,6 +132,9 @@ const (
 	afInFlapLanding
 	afInElevation
 	afInDT
+	afInFactorLiftSlope
+	afInFactorDragArea
+	afInFactorInduced
 	afNumIn
 )
 
@@ -171,6 +178,11 @@ func (a *AirframeAerodynamics) Inputs() []mdo.Var {
 	v(afInFlapLanding, "flap.cl_increment_landing", "-", "CLmax increment of the landing high-lift setting (unswept wing)", 0.8, 0, 3, 0)
 	v(afInElevation, "airport.elevation", "m", "airport elevation", 0, -400, 4500, 1000)
 	v(afInDT, "airport.temperature_offset", "K", "airport temperature above the standard day", 0, -50, 50, 10)
+	// Calibration factors (1 = the model as published; a calibration to
+	// measurements sets them, see optimizers.Calibration).
+	v(afInFactorLiftSlope, "aero.factor_lift_slope", "-", "calibration factor on the wing-body lift-curve slopes (cruise and low speed)", 1, 0.2, 5, 0)
+	v(afInFactorDragArea, "aero.factor_zero_lift_drag", "-", "calibration factor on the friction, form and interference drag areas (cruise and low speed; not the wave drag)", 1, 0.2, 5, 0)
+	v(afInFactorInduced, "aero.factor_induced_drag", "-", "calibration factor on the wing's drag-due-to-lift factors (cruise, take-off, landing)", 1, 0.2, 5, 0)
 	return in
 }
 
@@ -242,10 +254,10 @@ func (a *AirframeAerodynamics) Compute(in, out []float64) error {
 	cut := cutoffFactor(mach)
 	fc := a.friction(re, mach, cut, lnK)
 	out[afOutCompCruise], out[afOutCutCruise] = fc.comp, cut
-	out[afOutAreaCruise] = m.dragArea(&tab, &fc)
+	out[afOutAreaCruise] = m.dragArea(&tab, &fc) * in[afInFactorDragArea]
 	out[afOutReCruise] = re
 	out[afOutQ] = atm.DynamicPressure(mach)
-	out[afOutK] = dragDueToLift(w, mach, e)
+	out[afOutK] = dragDueToLift(w, mach, e) * in[afInFactorInduced]
 	kt := 0.0
 	if c.HTail.Area > 0 {
 		kt = dragDueToLift(c.HTail, mach, a.tail.oswald(&c.HTail)) // DragDueToLift(c.HTail, mach, 0)
@@ -258,13 +270,13 @@ func (a *AirframeAerodynamics) Compute(in, out []float64) error {
 	if err != nil {
 		return err
 	}
-	out[afOutCLACruise] = cla * bf
+	out[afOutCLACruise] = cla * bf * in[afInFactorLiftSlope]
 
 	reLow := atmTO.Reynolds(o.TakeoffMach)
 	cutLow := cutoffFactor(o.TakeoffMach)
 	fcLow := a.friction(reLow, o.TakeoffMach, cutLow, lnK)
 	out[afOutCompLow], out[afOutCutLow] = fcLow.comp, cutLow
-	out[afOutAreaLow] = m.dragArea(&tab, &fcLow)
+	out[afOutAreaLow] = m.dragArea(&tab, &fcLow) * in[afInFactorDragArea]
 	out[afOutReLow] = reLow
 	if !(o.TakeoffMach >= 0 && o.TakeoffMach <= MaxMach) {
 		return inputErr("mach", o.TakeoffMach, "", "[0, 2.5]")
@@ -273,7 +285,7 @@ func (a *AirframeAerodynamics) Compute(in, out []float64) error {
 	if err != nil {
 		return err
 	}
-	out[afOutCLALow] = claLow * bf
+	out[afOutCLALow] = claLow * bf * in[afInFactorLiftSlope]
 	// CLMaxClean and CLMaxFlapped, sharing cos Λc/4
 	clean := CLMaxClean(w)
 	cq := math.Cos(w.Sweep * math.Pi / 180)
@@ -282,7 +294,7 @@ func (a *AirframeAerodynamics) Compute(in, out []float64) error {
 	out[afOutCLMaxTO] = clTO
 	out[afOutCLMaxLdg] = clean + in[afInFlapLanding]*cq
 	out[afOutCLTO] = clTO / (1.13 * 1.13)
-	out[afOutKTO] = dragDueToLift(w, o.TakeoffMach, e-o.OswaldReductionTakeoff)
-	out[afOutKLdg] = dragDueToLift(w, o.TakeoffMach, e-o.OswaldReductionLanding)
+	out[afOutKTO] = dragDueToLift(w, o.TakeoffMach, e-o.OswaldReductionTakeoff) * in[afInFactorInduced]
+	out[afOutKLdg] = dragDueToLift(w, o.TakeoffMach, e-o.OswaldReductionLanding) * in[afInFactorInduced]
 	return nil
 }
