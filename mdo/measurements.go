@@ -6,7 +6,6 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"os"
 	"strconv"
 	"strings"
 )
@@ -64,17 +63,6 @@ func (m *Measurements) Points() int {
 		}
 	}
 	return n
-}
-
-// ReadMeasurementsFile reads a measurements file (see Measurements for
-// its format) and checks it against the system's variables.
-func ReadMeasurementsFile(path string, sys *System) (*Measurements, error) {
-	f, err := os.Open(path)
-	if err != nil {
-		return nil, fmt.Errorf("mdo: measurements: %w", err)
-	}
-	defer f.Close()
-	return ReadMeasurements(f, path, sys)
 }
 
 // ReadMeasurements reads a measurements table (see Measurements for its

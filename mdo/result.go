@@ -26,6 +26,8 @@ type Result struct {
 	// History is the best-so-far history.
 	History []HistoryPoint
 	EvalCounters
+	// Notes are the study's provenance notes (Study.Notes).
+	Notes []string
 	// Stop says why the optimiser stopped.
 	Stop    StopReason
 	Started time.Time
@@ -95,7 +97,7 @@ func (e *Evaluator) Finish(stop StopReason) (*Result, error) {
 		Design: e.DesignSpecs(), Objectives: append([]Objective(nil), e.study.Objectives...),
 		Constraints: e.Constraints(), Outputs: e.OutputVars(),
 		Best: e.best, Front: e.Front(), History: append([]HistoryPoint(nil), e.history...),
-		EvalCounters: e.cnt, Stop: stop, Started: e.started, Elapsed: time.Since(e.started),
+		EvalCounters: e.cnt, Notes: append([]string(nil), e.study.Notes...), Stop: stop, Started: e.started, Elapsed: time.Since(e.started),
 	}
 	if e.study.Recorder != nil && e.recErr == nil {
 		if !e.began {

@@ -86,6 +86,10 @@ type Study struct {
 	Progress func(Progress)
 	// Script is the source text of the study, kept for provenance.
 	Script string
+	// Notes are lines of provenance the Result, its summary.json and its
+	// report carry, such as where fixed parameters came from (a
+	// calibration's CalibrationResult.Apply writes one).
+	Notes []string
 }
 
 // Check validates the study against its system, as NewEvaluator does:

@@ -89,8 +89,10 @@ type FitResult struct {
 	DoF int
 	// ResidualSD is √(RSS/DoF), the residual standard deviation.
 	ResidualSD float64
-	// Iterations counts the steps tried; Evaluations the calls of Predict.
-	Iterations, Evaluations int
+	// Iterations counts the steps tried; Evaluations the calls of Predict;
+	// Failed the trial points whose prediction failed (each counted as a
+	// rejected step: the fit tries a shorter one).
+	Iterations, Evaluations, Failed int
 	// Stop says why the fit stopped (mdo.StopConverged, StopIterations,
 	// StopBudget, StopCancelled or StopDeadline).
 	Stop mdo.StopReason
@@ -115,6 +117,10 @@ func (e *IndistinctError) Error() string {
 	for i, g := range e.Groups {
 		if i > 0 {
 			s += ";"
+		}
+		if len(g) == 1 {
+			s += " " + g[0] + " from nothing (no data depends on it)"
+			continue
 		}
 		s += " " + joinAnd(g)
 	}
@@ -219,6 +225,7 @@ type lmState struct {
 	ctx    context.Context
 	sw     []float64 // √wᵢ
 	evals  int
+	failed int // trial points the model could not answer
 	pred   []float64
 	stop   mdo.StopReason
 	reason string
@@ -403,7 +410,12 @@ func (o LeastSquares) Fit(ctx context.Context, pr FitProblem) (*FitResult, error
 		stepNorm, pNorm = math.Sqrt(stepNorm), math.Sqrt(pNorm)
 		tss, ok, err := s.residuals(trial, rt)
 		if err != nil {
-			return nil, err
+			// A trial the model cannot answer is a rejected step: a
+			// shorter one is tried.
+			s.failed++
+			lambda *= nu
+			nu *= 2
+			continue
 		}
 		if !ok {
 			break
@@ -450,7 +462,7 @@ func (o LeastSquares) Fit(ctx context.Context, pr FitProblem) (*FitResult, error
 	}
 	res := &FitResult{
 		Names: append([]string(nil), pr.Names...), Params: p,
-		RSS: ss, DoF: n - np, Iterations: iter, Evaluations: s.evals,
+		RSS: ss, DoF: n - np, Iterations: iter, Evaluations: s.evals, Failed: s.failed,
 		Stop: s.stop, Test: s.reason,
 	}
 	res.ResidualSD = math.Sqrt(ss / float64(res.DoF))

@@ -112,7 +112,7 @@ func WriteRun(ctx context.Context, dir string, run Run) ([]string, error) {
 	}
 	// saved as files: the history (and front) and the further figures
 	var saved, extra []*plot.Figure
-	notes := append([]string(nil), run.Notes...)
+	notes := append(append([]string(nil), r.Notes...), run.Notes...)
 	if len(evs) > 0 {
 		saved = append(saved, drawn("history", "optimisation history", func() (*plot.Figure, error) { return plot.History(r, evs) }))
 		if len(r.Objectives) > 1 {

@@ -35,8 +35,10 @@ type Summary struct {
 	ScriptSHA256 string         `json:"script_sha256,omitempty"`
 	// Cells and Note describe a run whose script handed over no result
 	// (NoResultSummary): the cells it ran and what to do about it.
-	Cells       int        `json:"cells,omitempty"`
-	Note        string     `json:"note,omitempty"`
+	Cells int    `json:"cells,omitempty"`
+	Note  string `json:"note,omitempty"`
+	// Notes are the study's provenance notes (mdo.Study.Notes).
+	Notes       []string   `json:"notes,omitempty"`
 	ToolVersion string     `json:"tool_version,omitempty"`
 	Timestamps  Timestamps `json:"timestamps"`
 }
@@ -103,6 +105,7 @@ func NewSummary(r *mdo.Result, opt SummaryOptions) Summary {
 	s := Summary{
 		Study: r.Study, Seed: r.Seed, Optimizer: r.Optimizer, Formulation: r.Formulation.String(),
 		Evaluations: r.Evaluations, Analyses: r.Analyses, PickedUp: r.PickedUp, Repeats: r.Repeats, Failed: r.Failed, Stop: r.Stop.String(), ToolVersion: opt.ToolVersion,
+		Notes: append([]string(nil), r.Notes...),
 	}
 	if opt.Script != "" {
 		s.ScriptSHA256 = ScriptHash(opt.Script)

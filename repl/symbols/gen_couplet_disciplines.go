@@ -147,6 +147,7 @@ func init() {
 		"SutherlandViscosity":        reflect.ValueOf(disciplines.SutherlandViscosity),
 		"Swiftlet":                   reflect.ValueOf(disciplines.Swiftlet),
 		"SwiftletForwardSwept":       reflect.ValueOf(disciplines.SwiftletForwardSwept),
+		"SwiftletInventedPolars":     reflect.ValueOf(disciplines.SwiftletInventedPolars),
 		"SwiftletTrijet":             reflect.ValueOf(disciplines.SwiftletTrijet),
 		"TailAreaForVolume":          reflect.ValueOf(disciplines.TailAreaForVolume),
 		"TailVolumeArea":             reflect.ValueOf(disciplines.TailVolumeArea),

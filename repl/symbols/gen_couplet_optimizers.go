@@ -41,6 +41,9 @@ func init() {
 
 		// type definitions
 		"CMAES":                 reflect.ValueOf((*optimizers.CMAES)(nil)),
+		"Calibration":           reflect.ValueOf((*optimizers.Calibration)(nil)),
+		"CalibrationPoint":      reflect.ValueOf((*optimizers.CalibrationPoint)(nil)),
+		"CalibrationResult":     reflect.ValueOf((*optimizers.CalibrationResult)(nil)),
 		"DifferentialEvolution": reflect.ValueOf((*optimizers.DifferentialEvolution)(nil)),
 		"EqualityHandling":      reflect.ValueOf((*optimizers.EqualityHandling)(nil)),
 		"Evolution":             reflect.ValueOf((*optimizers.Evolution)(nil)),
