@@ -50,6 +50,32 @@ type RunOptions struct {
 	// EveryOutput writes every output to evaluations.csv (see
 	// RunOutputs.EveryOutput).
 	EveryOutput bool
+	// Guarded says that the caller has already taken the output folder's
+	// lock and checked what it holds (Guard): a supervising process that
+	// runs Run in a child process of its own does so, and holds the lock
+	// while the child runs.
+	Guarded bool
+	// Watch, if not nil, is told what the run does as it does it: each
+	// cell as it starts, each result the script publishes with the case
+	// store that recorded it, and the start of the folder's writing. A
+	// supervising process learns from it what to write should the
+	// process running the script die.
+	Watch func(RunEvent)
+}
+
+// RunEvent is one step of a run, for RunOptions.Watch.
+type RunEvent struct {
+	// Kind is "cell" (a cell starts), "published" (the script published
+	// a result) or "writing" (the run's folder is being written).
+	Kind string `json:"kind"`
+	// Cell is the number of the cell that starts or publishes; Line its
+	// first line in the study file.
+	Cell int `json:"cell,omitempty"`
+	Line int `json:"line,omitempty"`
+	// Study is the published result's study, Store the path of the case
+	// store that recorded its run ("" if none did).
+	Study string `json:"study,omitempty"`
+	Store string `json:"store,omitempty"`
 }
 
 // RunRecord is what a replay produced.
@@ -97,15 +123,16 @@ func Run(ctx context.Context, opts RunOptions) (*RunRecord, error) {
 	if err != nil {
 		return nil, &UsageError{Err: fmt.Errorf("%s: %w", opts.File, err)}
 	}
-	lock, err := guardFolder(opts, "--pick-up continues it if it was interrupted, --replace clears its files and runs afresh, or choose another folder")
-	if err != nil {
-		return nil, err
-	}
-	defer lock.Release()
-	if opts.PickUp {
-		if err := checkPickUp(opts, string(text)); err != nil {
+	if !opts.Guarded {
+		lock, err := Guard(opts)
+		if err != nil {
 			return nil, err
 		}
+		defer lock.Release()
+	}
+	watch := opts.Watch
+	if watch == nil {
+		watch = func(RunEvent) {}
 	}
 	out, errw := opts.Stdout, opts.Stderr
 	if out == nil {
@@ -123,6 +150,13 @@ func Run(ctx context.Context, opts RunOptions) (*RunRecord, error) {
 		Policy: opts.Policy, Stdout: out, Stderr: errw, NoErrorEcho: true, OutDir: opts.OutDir,
 		Seed: opts.Seed, SeedSet: opts.SeedSet, Progress: opts.Progress, Outputs: outs, Grace: opts.Grace,
 		Script: string(text),
+		OnPublish: func(r *mdo.Result) {
+			ev := RunEvent{Kind: "published", Study: r.Study}
+			if st := outs.storeOf(r); st != nil {
+				ev.Store = st.Path()
+			}
+			watch(ev)
+		},
 	})
 	if err != nil {
 		return nil, err
@@ -156,6 +190,7 @@ func Run(ctx context.Context, opts RunOptions) (*RunRecord, error) {
 	started := time.Now()
 	rec := &RunRecord{File: opts.File, Script: string(text)}
 	for i, c := range f.Cells {
+		watch(RunEvent{Kind: "cell", Cell: i + 1, Line: c.Line})
 		cl := s.Exec(ctx, c.Source)
 		rec.Cells = append(rec.Cells, cl)
 		if cl.Err != nil {
@@ -180,6 +215,7 @@ func Run(ctx context.Context, opts RunOptions) (*RunRecord, error) {
 		}
 	}
 	rec.Result = resultOf(s)
+	watch(RunEvent{Kind: "writing"})
 	if rec.Result == nil {
 		fmt.Fprintf(errw, "%s: the script handed over no result (call cell.Publish(result)); summary.json has no best point\n", opts.File)
 		seed, _ := s.Env().SeedUsed()
@@ -221,6 +257,9 @@ func writeEarlier(ctx context.Context, s *Session, outs *RunOutputs, opts RunOpt
 	if r == nil {
 		return runErr
 	}
+	if opts.Watch != nil {
+		opts.Watch(RunEvent{Kind: "writing"})
+	}
 	rec.Result = r
 	sum := store.NewSummary(r, store.SummaryOptions{Script: rec.Script, ToolVersion: toolVersion()})
 	rec.Summary = &sum
@@ -240,6 +279,35 @@ func bestID(r *mdo.Result) string {
 		return "none"
 	}
 	return fmt.Sprint(r.Best.ID)
+}
+
+// Guard readies the output folder of a replay before anything runs: it
+// takes the folder's lock and checks what the folder holds (see
+// guardFolder), and for PickUp compares the study file with the script
+// the folder's case stores recorded (see checkPickUp). Every refusal is a
+// *UsageError. The caller releases the lock when the run is over.
+func Guard(opts RunOptions) (*runfolder.Lock, error) {
+	if opts.File == "" || opts.OutDir == "" {
+		return nil, &UsageError{Err: fmt.Errorf("run needs a study file and --out DIR")}
+	}
+	text, err := os.ReadFile(opts.File)
+	if err != nil {
+		return nil, &UsageError{Err: fmt.Errorf("reading the study file: %w", err)}
+	}
+	if _, err := ParseStudy(string(text)); err != nil {
+		return nil, &UsageError{Err: fmt.Errorf("%s: %w", opts.File, err)}
+	}
+	lock, err := guardFolder(opts, "--pick-up continues it if it was interrupted, --replace clears its files and runs afresh, or choose another folder")
+	if err != nil {
+		return nil, err
+	}
+	if opts.PickUp {
+		if err := checkPickUp(opts, string(text)); err != nil {
+			lock.Release()
+			return nil, err
+		}
+	}
+	return lock, nil
 }
 
 // guardFolder takes the lock on the output folder and checks what it

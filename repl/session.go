@@ -58,6 +58,9 @@ type Options struct {
 	// and a pick-up compares. Empty means the cells run so far, the
 	// running one included.
 	Script string
+	// OnPublish, if not nil, is called with each result the script
+	// publishes (cell.Publish), as it is published.
+	OnPublish func(*mdo.Result)
 	// Grace is how long a cancelled cell may take to come back (an
 	// optimiser returning its best point) before the interpreter is
 	// stopped; default 2 s.
@@ -157,6 +160,7 @@ func (s *Session) reset() error {
 				s.opts.Outputs.askEveryOutput()
 			}
 		},
+		Published: s.opts.OnPublish,
 	})
 	it := interp.New(interp.Options{Stdout: s.out, Stderr: s.errBuf, Stdin: strings.NewReader("")})
 	if err := it.Use(symbols.Symbols); err != nil {

@@ -55,6 +55,9 @@ type Host struct {
 	// EveryOutput, if not nil, asks for every output of the analyses in
 	// the run's evaluations.csv files (cell.EveryOutput).
 	EveryOutput func()
+	// Published, if not nil, is called with each result Publish hands
+	// over, as it is handed over.
+	Published func(r *mdo.Result)
 }
 
 // Env is one session's view of the running study: the functions a script
@@ -146,6 +149,9 @@ func (e *Env) Publish(r *mdo.Result) error {
 	e.mu.Lock()
 	e.published = append(e.published, r)
 	e.mu.Unlock()
+	if e.host.Published != nil {
+		e.host.Published(r)
+	}
 	return nil
 }
 

@@ -2,7 +2,7 @@
 // framework.
 //
 //	couplet [--out DIR [--replace]] [--seed N] [--trust-script]   interactive notebook session
-//	couplet run FILE.study --out DIR [--seed N] [--timeout D] [--trust-script] [--quiet] [--every-output] [--pick-up | --replace]
+//	couplet run FILE.study --out DIR [--seed N] [--timeout D] [--memory-cap SIZE] [--trust-script] [--quiet] [--every-output] [--pick-up | --replace]
 //	couplet imports [--trust-script]                      list the importable packages
 //	couplet version
 //
@@ -13,6 +13,13 @@
 // folder that cannot be used or picked up, a study file that cannot be
 // read or whose header is garbled). `couplet help` and --help print the
 // whole usage.
+//
+// couplet run runs the script in a process of its own, this program
+// started again (see supervise.go and child.go): a panic in a goroutine
+// the script starts, unbounded recursion or memory past --memory-cap
+// (default half of the machine's memory) ends that process, not the run;
+// the run then writes the output folder of the result published before,
+// read back from its case store, says what ended the process and exits 1.
 package main
 
 import (
@@ -47,6 +54,7 @@ type settings struct {
 	every   bool
 	// programs are the external programs approved with --allow-program.
 	programs pathList
+	memory   string
 }
 
 // errHelp is returned by parse when the flags ask for the usage.
@@ -64,6 +72,7 @@ func flagSet(name string, st *settings) *flag.FlagSet {
 	fs.BoolVar(&st.pickUp, "pick-up", false, "continue the results.db an interrupted run of the same study file and seed left in --out; any change to the file is refused (run only)")
 	fs.BoolVar(&st.replace, "replace", false, "clear every file of the run --out holds, then run afresh")
 	fs.BoolVar(&st.every, "every-output", false, "write every output of the analyses to evaluations.csv, not only the status, design, objectives, constraints and margins (run only; results.db keeps them all)")
+	fs.StringVar(&st.memory, "memory-cap", "", "memory cap of the process that runs the script, e.g. 512MiB or 4GiB; past it the process ends and what it published is written (run only; default half of the machine's memory)")
 	return fs
 }
 
@@ -115,8 +124,9 @@ func usage(w io.Writer) {
 usage:
   couplet [--out DIR [--replace]] [--seed N] [%s]
                                                    interactive notebook session
-  couplet run FILE.study --out DIR [--seed N] [--timeout D] [%s] [--quiet] [--every-output] [--pick-up | --replace]
-                                                   replay a saved study headless
+  couplet run FILE.study --out DIR [--seed N] [--timeout D] [--memory-cap SIZE] [%s] [--quiet] [--every-output] [--pick-up | --replace]
+                                                   replay a saved study headless, the script in a
+                                                   process of its own
   couplet imports [%s]                    list the packages a script may import
   couplet vars [--prefix P] [--markdown]           list the aircraft model's variables
   couplet version                                  print the version
@@ -136,6 +146,8 @@ flags:
 			arg = " D"
 		case "allow-program":
 			arg = " PATH"
+		case "memory-cap":
+			arg = " SIZE"
 		}
 		fmt.Fprintf(w, "  --%-16s %s\n", f.Name+arg, f.Usage)
 	})
@@ -145,7 +157,10 @@ exit status of run:
      best point so far
   1  the script failed: a cell failed, the sandbox refused an import, every
      evaluation of the published study failed, the time limit was reached
-     (what the study had by then is written), or the run ended abnormally
+     (what the study had by then is written), or the run ended abnormally:
+     the process running the script died (a panic in a goroutine, a stack
+     overflow, memory past --memory-cap) or did not stop within the time
+     limit; the result published before is written
   2  a usage error: a bad flag or argument, an output folder that cannot be
      used or picked up (another version of the study file, another --seed),
      a study file that cannot be read or whose header is garbled
@@ -225,6 +240,25 @@ func replay(args []string, stdout, stderr io.Writer) int {
 	if st.quiet {
 		opts.Stdout = io.Discard
 	}
+	memCap := defaultMemoryCap()
+	if st.memory != "" {
+		if memCap, err = parseSize("--memory-cap", st.memory); err != nil {
+			fmt.Fprintln(stderr, "couplet run:", err)
+			return 2
+		}
+	}
+	ev, child := interpreterProcess()
+	if !child {
+		sv := &supervisor{opts: opts, args: args, cap: memCap, stdout: stdout, stderr: stderr}
+		return sv.run()
+	}
+	opts.Guarded, opts.Watch = true, ev.watch
+	return ev.exit(interpret(opts, pos[0], st.out, stdout, stderr))
+}
+
+// interpret runs the script in the interpreter process and returns the
+// exit status.
+func interpret(opts repl.RunOptions, file, out string, stdout, stderr io.Writer) int {
 	if isTerminal(stdout) {
 		opts.Progress = repl.NewProgress(stdout)
 	}
@@ -239,7 +273,7 @@ func replay(args []string, stdout, stderr io.Writer) int {
 		}
 		return 1
 	}
-	line := fmt.Sprintf("couplet run: %s: %d cells", filepath.Base(pos[0]), len(rec.Cells))
+	line := fmt.Sprintf("couplet run: %s: %d cells", filepath.Base(file), len(rec.Cells))
 	if s := rec.Summary; s != nil {
 		line += fmt.Sprintf(", %d evaluations", s.Evaluations)
 		if s.Best != nil {
@@ -253,7 +287,7 @@ func replay(args []string, stdout, stderr io.Writer) int {
 			line += fmt.Sprintf(", front of %d points", len(s.Front))
 		}
 	}
-	fmt.Fprintf(stderr, "%s; wrote %s\n", line, st.out)
+	fmt.Fprintf(stderr, "%s; wrote %s\n", line, out)
 	return 0
 }
 

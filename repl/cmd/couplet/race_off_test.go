@@ -1,0 +1,6 @@
+//go:build !race
+
+package main
+
+// raceDetector is set when the tests are built with -race.
+const raceDetector = false
