@@ -3,36 +3,65 @@ package repl
 import (
 	"context"
 	"fmt"
+	"path/filepath"
+	"slices"
 
 	"couplet/mdo/report"
 	"couplet/mdo/store"
 )
 
-// WriteStored writes a run folder from the case store that recorded a
-// published result, when the process that ran the script can no longer
-// write it (it died): the result is rebuilt from the store
-// (store.Result) and written with report.WriteRun, script being the study
-// file's text. The study's system died with that process, so the design
-// structure matrix is left out; figures drawn from the result alone (the
-// aircraft drawings of its best design) are kept. figures nil takes
-// DefaultFigures. It returns the summary written.
-func WriteStored(ctx context.Context, dir, script, storePath string, figures []report.FigureSource) (*store.Summary, error) {
-	st, err := store.Open(storePath)
+// WriteStored writes the output folder dir from the case stores that
+// recorded the results a script published, when the process that ran
+// the script can no longer write it (it died). Each result is rebuilt
+// from its store (store.Result) and written with report.WriteRun into
+// the result folder holding the store; then dir's summary.json and
+// index.html list them, the last as the principal result. script is the
+// study file's text. The study's system died with that process, so the
+// design structure matrix is left out; figures drawn from the result
+// alone (the aircraft drawings of its best design) are kept. figures nil
+// takes DefaultFigures. It returns the principal result's folder.
+func WriteStored(ctx context.Context, dir, script string, stores []string, figures []report.FigureSource) (string, error) {
+	if figures == nil {
+		figures = DefaultFigures()
+	}
+	var entries []report.IndexEntry
+	for i, p := range stores {
+		if slices.Contains(stores[i+1:], p) {
+			continue // the index lists a result once, where it was last published
+		}
+		e, err := writeStored(ctx, dir, script, p, figures)
+		if err != nil {
+			return "", err
+		}
+		entries = append(entries, e)
+	}
+	if len(entries) == 0 {
+		return "", nil
+	}
+	if _, err := report.WriteIndex(dir, entries); err != nil {
+		return "", fmt.Errorf("repl: writing the index of %s: %w", dir, err)
+	}
+	return filepath.Join(dir, entries[len(entries)-1].Folder), nil
+}
+
+// writeStored writes the result folder of one case store.
+func writeStored(ctx context.Context, dir, script, path string, figures []report.FigureSource) (report.IndexEntry, error) {
+	st, err := store.Open(path)
 	if err != nil {
-		return nil, fmt.Errorf("repl: reading back the published result: %w", err)
+		return report.IndexEntry{}, fmt.Errorf("repl: reading back a published result: %w", err)
 	}
 	defer st.Close()
 	r, err := st.Result()
 	if err != nil {
-		return nil, fmt.Errorf("repl: reading back the published result: %w", err)
-	}
-	if figures == nil {
-		figures = DefaultFigures()
+		return report.IndexEntry{}, fmt.Errorf("repl: reading back a published result: %w", err)
 	}
 	run := report.Run{Result: r, Store: st, Script: script, ToolVersion: toolVersion(), ScatterMatrix: isDOE(r), Figures: figures}
-	if _, err := report.WriteRun(ctx, dir, run); err != nil {
-		return nil, fmt.Errorf("repl: writing the published result of %s: %w", storePath, err)
+	if _, err := report.WriteRun(ctx, filepath.Dir(path), run); err != nil {
+		return report.IndexEntry{}, fmt.Errorf("repl: writing the published result of %s: %w", path, err)
 	}
-	sum := store.NewSummary(r, store.SummaryOptions{Script: script, ToolVersion: toolVersion()})
-	return &sum, nil
+	folder, err := filepath.Rel(dir, filepath.Dir(path))
+	if err != nil {
+		return report.IndexEntry{}, fmt.Errorf("repl: %w", err)
+	}
+	return report.IndexEntry{Folder: folder, Summary: store.NewSummary(r, store.SummaryOptions{Script: script, ToolVersion: toolVersion()})}, nil
 }

@@ -34,7 +34,7 @@ type supervisor struct {
 
 	mu        sync.Mutex
 	cell      repl.RunEvent // the cell running
-	published repl.RunEvent // the last result published
+	published []repl.RunEvent // the results published, in order
 	writing   bool          // the interpreter process writes the folder
 	exited    bool          // it sent its exit status
 	code      int
@@ -184,7 +184,7 @@ func (sv *supervisor) readEvents(r io.Reader) {
 			sv.cell = m.RunEvent
 		case "published":
 			m.Cell, m.Line = sv.cell.Cell, sv.cell.Line
-			sv.published = m.RunEvent
+			sv.published = append(sv.published, m.RunEvent)
 		case "writing":
 			sv.writing = true
 		case "exit":
@@ -228,21 +228,28 @@ func (sv *supervisor) died(werr error, crash *crashWatch) int {
 		where = fmt.Sprintf("%s:%d: cell %d", sv.opts.File, cl.Line, cl.Cell)
 	}
 	fmt.Fprintf(sv.stderr, "couplet run: %s: the interpreter process died: %s\n", where, cause)
-	switch {
-	case pub.Kind == "":
-	case pub.Store == "":
-		fmt.Fprintf(sv.stderr, "couplet run: the result of study %s published before the death was recorded in no case store, so it cannot be written\n", pub.Study)
-	default:
-		text, err := os.ReadFile(sv.opts.File)
-		if err == nil {
-			_, err = repl.WriteStored(context.Background(), sv.opts.OutDir, string(text), pub.Store, sv.opts.Figures)
+	var stores []string
+	for _, p := range pub {
+		if p.Store == "" {
+			fmt.Fprintf(sv.stderr, "couplet run: the result of study %s published in cell %d was recorded in no case store, so it cannot be written\n", p.Study, p.Cell)
+			continue
 		}
-		if err != nil {
-			fmt.Fprintf(sv.stderr, "couplet run: writing the result published before the death: %v\n", err)
-			break
-		}
-		fmt.Fprintf(sv.stderr, "couplet run: the result of study %s published in cell %d is written into %s\n", pub.Study, pub.Cell, sv.opts.OutDir)
+		stores = append(stores, p.Store)
 	}
+	if len(stores) == 0 {
+		return 1
+	}
+	text, err := os.ReadFile(sv.opts.File)
+	dir := ""
+	if err == nil {
+		dir, err = repl.WriteStored(context.Background(), sv.opts.OutDir, string(text), stores, sv.opts.Figures)
+	}
+	if err != nil {
+		fmt.Fprintf(sv.stderr, "couplet run: writing the results published before the death: %v\n", err)
+		return 1
+	}
+	last := pub[len(pub)-1]
+	fmt.Fprintf(sv.stderr, "couplet run: the results published before the death are written into %s; the last, of study %s published in cell %d, into %s\n", sv.opts.OutDir, last.Study, last.Cell, dir)
 	return 1
 }
 

@@ -66,13 +66,15 @@ func runDying(t *testing.T, out, second string, stdout *os.File, args ...string)
 	return 0, stderr.String()
 }
 
-// checkEarlierResult checks that the folder holds the run folder of the
-// first cell's result: its summary (study bowl, six evaluations) and
-// report.
+// checkEarlierResult checks that the folder holds the first cell's
+// result: its result folder bowl with its report and store of six rows,
+// and the folder's summary (study bowl, six evaluations) and index.
 func checkEarlierResult(t *testing.T, out string) {
 	t.Helper()
-	if _, err := os.Stat(filepath.Join(out, "report.html")); err != nil {
-		t.Errorf("the earlier result's report was not written: %v", err)
+	for _, f := range []string{filepath.Join("bowl", "report.html"), filepath.Join("bowl", "summary.json"), filepath.Join("bowl", "evaluations.csv"), "index.html"} {
+		if _, err := os.Stat(filepath.Join(out, f)); err != nil {
+			t.Errorf("the earlier result's %s was not written: %v", f, err)
+		}
 	}
 	b, err := os.ReadFile(filepath.Join(out, "summary.json"))
 	if err != nil {
@@ -89,7 +91,7 @@ func checkEarlierResult(t *testing.T, out string) {
 	if sum.Study != "bowl" || sum.Evaluations != 6 || sum.Best == nil {
 		t.Errorf("summary %s; want study bowl with 6 evaluations and a best point", b)
 	}
-	if n := rowsIn(t, filepath.Join(out, "results.db")); n != 6 {
+	if n := rowsIn(t, filepath.Join(out, "bowl", "results.db")); n != 6 {
 		t.Errorf("results.db holds %d rows, want 6", n)
 	}
 }
@@ -118,7 +120,7 @@ deep(0)
 for {
 	hoard = append(hoard, make([]byte, 1<<20))
 }
-`, []string{"--memory-cap", "256MiB"}, []string{"cell 2: the interpreter process died: fatal error: runtime: out of memory", "its memory cap is 256MiB; --memory-cap changes it"}},
+`, []string{"--memory-cap", "256MiB"}, []string{"cell 2: the interpreter process died: fatal error: ", "out of memory", "its memory cap is 256MiB; --memory-cap changes it"}},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
@@ -130,7 +132,7 @@ for {
 			if code != 1 {
 				t.Errorf("exit status %d, want 1; stderr:\n%s", code, errs)
 			}
-			for _, w := range append(tc.want, "dying.study:19: cell 2", "the result of study bowl published in cell 1 is written into "+out) {
+			for _, w := range append(tc.want, "dying.study:19: cell 2", "the last, of study bowl published in cell 1, into "+filepath.Join(out, "bowl")) {
 				if !strings.Contains(errs, w) {
 					t.Errorf("stderr lacks %q:\n%s", w, errs)
 				}
