@@ -33,10 +33,10 @@ type supervisor struct {
 	stderr io.Writer
 
 	mu        sync.Mutex
-	cell      repl.RunEvent // the cell running
+	cell      repl.RunEvent   // the cell running
 	published []repl.RunEvent // the results published, in order
-	writing   bool          // the interpreter process writes the folder
-	exited    bool          // it sent its exit status
+	writing   bool            // the interpreter process writes the folder
+	exited    bool            // it sent its exit status
 	code      int
 	ended     string // how the supervisor ended it ("" if it did not)
 }
