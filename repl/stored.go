@@ -19,8 +19,9 @@ import (
 // study file's text. The study's system died with that process, so the
 // design structure matrix is left out; figures drawn from the result
 // alone (the aircraft drawings of its best design) are kept. figures nil
-// takes DefaultFigures. It returns the principal result's folder.
-func WriteStored(ctx context.Context, dir, script string, stores []string, figures []report.FigureSource) (string, error) {
+// takes DefaultFigures; allOutputs writes every output to the CSV files
+// (--every-output). It returns the principal result's folder.
+func WriteStored(ctx context.Context, dir, script string, stores []string, figures []report.FigureSource, allOutputs bool) (string, error) {
 	if figures == nil {
 		figures = DefaultFigures()
 	}
@@ -29,7 +30,7 @@ func WriteStored(ctx context.Context, dir, script string, stores []string, figur
 		if slices.Contains(stores[i+1:], p) {
 			continue // the index lists a result once, where it was last published
 		}
-		e, err := writeStored(ctx, dir, script, p, figures)
+		e, err := writeStored(ctx, dir, script, p, figures, allOutputs)
 		if err != nil {
 			return "", err
 		}
@@ -45,7 +46,7 @@ func WriteStored(ctx context.Context, dir, script string, stores []string, figur
 }
 
 // writeStored writes the result folder of one case store.
-func writeStored(ctx context.Context, dir, script, path string, figures []report.FigureSource) (report.IndexEntry, error) {
+func writeStored(ctx context.Context, dir, script, path string, figures []report.FigureSource, allOutputs bool) (report.IndexEntry, error) {
 	st, err := store.Open(path)
 	if err != nil {
 		return report.IndexEntry{}, fmt.Errorf("repl: reading back a published result: %w", err)
@@ -55,7 +56,7 @@ func writeStored(ctx context.Context, dir, script, path string, figures []report
 	if err != nil {
 		return report.IndexEntry{}, fmt.Errorf("repl: reading back a published result: %w", err)
 	}
-	run := report.Run{Result: r, Store: st, Script: script, ToolVersion: toolVersion(), ScatterMatrix: isDOE(r), Figures: figures}
+	run := report.Run{Result: r, Store: st, Script: script, ToolVersion: toolVersion(), ScatterMatrix: isDOE(r), Figures: figures, AllOutputs: allOutputs}
 	if _, err := report.WriteRun(ctx, filepath.Dir(path), run); err != nil {
 		return report.IndexEntry{}, fmt.Errorf("repl: writing the published result of %s: %w", path, err)
 	}

@@ -242,7 +242,7 @@ func (sv *supervisor) died(werr error, crash *crashWatch) int {
 	text, err := os.ReadFile(sv.opts.File)
 	dir := ""
 	if err == nil {
-		dir, err = repl.WriteStored(context.Background(), sv.opts.OutDir, string(text), stores, sv.opts.Figures)
+		dir, err = repl.WriteStored(context.Background(), sv.opts.OutDir, string(text), stores, sv.opts.Figures, sv.opts.EveryOutput)
 	}
 	if err != nil {
 		fmt.Fprintf(sv.stderr, "couplet run: writing the results published before the death: %v\n", err)
