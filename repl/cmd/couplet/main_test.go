@@ -272,25 +272,7 @@ func TestRunExitStatus(t *testing.T) {
 	garbled := write("garbled.study", "//~ couplet-study one (couplet 0.1.0)\n\n//~ cell 1\nx := 2\n")
 	newer := write("newer.study", "//~ couplet-study 7 (couplet 9.0.0)\n\n//~ cell 1\nx := 2\n")
 	// Every analysis of this study fails, for one reason.
-	allFail := write("stalling.study", `import "errors"
-
-stall := mdo.FuncVars("stall",
-	[]mdo.Var{{Name: "a", Default: 0.5, Min: 0, Max: 1}},
-	[]mdo.Var{{Name: "f", Default: 1, Min: -1e9, Max: 1e9}},
-	func(in, out []float64) error { return errors.New("the wing stalls") })
-sys, err := mdo.NewSystem(stall)
-if err != nil {
-	panic(err)
-}
-study := &mdo.Study{Name: "stalling", System: sys, Design: []mdo.DesignVar{mdo.Continuous("a", 0, 1)},
-	Objectives: []mdo.Objective{mdo.Minimize("f")}, Seed: 5, Workers: 1}
-cell.Attach(study)
-result, err := optimizers.RandomDesign{Samples: 6}.Minimize(cell.Context(), study)
-if err != nil {
-	panic(err)
-}
-cell.Publish(result)
-`)
+	allFail := write("stalling.study", "import \"errors\"\n\n"+oneVariableScript("stalling", `return errors.New("the wing stalls")`))
 	tests := []struct {
 		name string
 		args []string
@@ -314,7 +296,7 @@ cell.Publish(result)
 		{"byte-order mark", []string{"run", bom, "--out", filepath.Join(dir, "o7")}, 0, "wrote"},
 		{"garbled header", []string{"run", garbled, "--out", filepath.Join(dir, "o8")}, 2, `header line "//~ couplet-study one (couplet 0.1.0)"`},
 		{"newer format", []string{"run", newer, "--out", filepath.Join(dir, "o9")}, 2, "format 7"},
-		{"every evaluation failed", []string{"run", allFail, "--out", filepath.Join(dir, "o10")}, 1, "every one of its 6 evaluations failed; the commonest reasons:\n  6 × mdo: discipline stall: the wing stalls"},
+		{"every evaluation failed", []string{"run", allFail, "--out", filepath.Join(dir, "o10")}, 1, "every one of its 6 evaluations failed; the commonest reasons:\n  6 × mdo: discipline stalling: the wing stalls"},
 		{"bad flag", []string{"run", good, "--out", dir, "--bogus"}, 2, "bogus"},
 		{"unknown command", []string{"fly"}, 2, "unknown command"},
 	}

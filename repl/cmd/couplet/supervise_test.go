@@ -13,18 +13,19 @@ import (
 	"time"
 )
 
-// publishingCell is a first cell that publishes a result: six random
-// points of a one-variable bowl f = (a - 0.3)², recorded in results.db.
-const publishingCell = `//~ cell 1
-s := mdo.FuncVars("bowl",
+// oneVariableScript is a script that attaches a one-variable study named
+// name, whose analysis runs body (a func(in, out []float64) error body
+// on one line), samples six random points of it and publishes the result.
+func oneVariableScript(name, body string) string {
+	return `s := mdo.FuncVars("` + name + `",
 	[]mdo.Var{{Name: "a", Default: 0.5, Min: 0, Max: 1}},
 	[]mdo.Var{{Name: "f", Default: 1, Min: -1e9, Max: 1e9}},
-	func(in, out []float64) error { out[0] = (in[0] - 0.3) * (in[0] - 0.3); return nil })
+	func(in, out []float64) error { ` + body + ` })
 sys, err := mdo.NewSystem(s)
 if err != nil {
 	panic(err)
 }
-study := &mdo.Study{Name: "bowl", System: sys, Design: []mdo.DesignVar{mdo.Continuous("a", 0, 1)},
+study := &mdo.Study{Name: "` + name + `", System: sys, Design: []mdo.DesignVar{mdo.Continuous("a", 0, 1)},
 	Objectives: []mdo.Objective{mdo.Minimize("f")}, Seed: 5, Workers: 1}
 cell.Attach(study)
 result, err := optimizers.RandomDesign{Samples: 6}.Minimize(cell.Context(), study)
@@ -33,6 +34,11 @@ if err != nil {
 }
 cell.Publish(result)
 `
+}
+
+// publishingCell is a first cell that publishes a result: six random
+// points of a one-variable bowl f = (a - 0.3)², recorded in results.db.
+var publishingCell = "//~ cell 1\n" + oneVariableScript("bowl", "out[0] = (in[0] - 0.3) * (in[0] - 0.3); return nil")
 
 // runDying runs a study whose second cell kills the process that runs
 // it, and returns the exit status and standard error. The second cell's
