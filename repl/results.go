@@ -81,7 +81,7 @@ func (o *RunOutputs) Recorder(st *mdo.Study) (mdo.Recorder, error) {
 }
 
 // StoreFile is the name of a result folder's case store.
-const StoreFile = "results.db"
+const StoreFile = report.StoreFile
 
 // nextPath reserves the result folder of the next run of a study and
 // returns its store file, creating the folders if need be.

@@ -1,6 +1,7 @@
 package repl
 
 import (
+	"bytes"
 	"context"
 	"encoding/json"
 	"os"
@@ -104,6 +105,22 @@ cell.Publish(r3)
 	for _, f := range folders {
 		if !strings.Contains(string(page), `href="`+f+`/report.html"`) {
 			t.Errorf("index.html does not link %s/report.html", f)
+		}
+	}
+
+	// the folder's top holds the principal result's store and report
+	// under the names one result gives them (the command-line contract)
+	for _, name := range []string{"results.db", "report.html"} {
+		top, err := os.ReadFile(filepath.Join(dir, name))
+		if err != nil {
+			t.Fatalf("the folder's %s: %v", name, err)
+		}
+		principal, err := os.ReadFile(filepath.Join(dir, "sellar-2", name))
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !bytes.Equal(top, principal) {
+			t.Errorf("the folder's %s (%d bytes) is not the principal result's (%d bytes)", name, len(top), len(principal))
 		}
 	}
 

@@ -344,18 +344,22 @@ func guardFolder(opts RunOptions, choices string) (*runfolder.Lock, error) {
 	return lock, nil
 }
 
-// listFiles names a few files, the case store, summary and report first.
+// listFiles names a few files, the folder's own before its result
+// folders', the case store, summary and report first.
 func listFiles(names []string) string {
 	names = slices.Clone(names)
 	rank := func(n string) int {
-		n = path.Base(n)
-		switch {
-		case strings.HasPrefix(n, "results"):
-			return 0
-		case n == "summary.json" || n == "report.html":
-			return 1
+		r := 0
+		if strings.Contains(n, "/") {
+			r = 3
 		}
-		return 2
+		switch n = path.Base(n); {
+		case strings.HasPrefix(n, "results"):
+			return r
+		case n == "summary.json" || n == "report.html":
+			return r + 1
+		}
+		return r + 2
 	}
 	slices.SortStableFunc(names, func(a, b string) int { return rank(a) - rank(b) })
 	if len(names) > 4 {

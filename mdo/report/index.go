@@ -48,8 +48,12 @@ type IndexResult struct {
 
 // WriteIndex writes the summary.json and index.html of a script's
 // folder dir, whose results are in the sub-folders the entries name (each
-// written by WriteRun); the principal result is the last entry. It
-// returns the files written.
+// written by WriteRun); the principal result is the last entry. The
+// principal result's case store and report are also linked into dir as
+// results.db and report.html (hard links, or copies where the file system
+// has none), so that dir holds the principal result's summary, case store
+// and report under the names a single result gives them. It returns the
+// files written.
 func WriteIndex(dir string, entries []IndexEntry) ([]string, error) {
 	if len(entries) == 0 {
 		return nil, fmt.Errorf("report: an index of no results in %s", dir)
@@ -85,7 +89,19 @@ func WriteIndex(dir string, entries []IndexEntry) ([]string, error) {
 	if err := runfolder.WriteFile(q, page.Bytes()); err != nil {
 		return []string{p}, fmt.Errorf("report: %w", err)
 	}
-	return []string{p, q}, nil
+	written := []string{p, q}
+	for _, name := range []string{StoreFile, ReportFile} {
+		src := filepath.Join(dir, last.Folder, name)
+		if _, err := os.Lstat(src); err != nil {
+			continue // the principal result has none (a report left out)
+		}
+		dst := filepath.Join(dir, name)
+		if err := runfolder.LinkFile(src, dst); err != nil {
+			return written, fmt.Errorf("report: the principal result's %s: %w", name, err)
+		}
+		written = append(written, dst)
+	}
+	return written, nil
 }
 
 // ReadIndex reads the summary.json of a folder: a script's folder lists
@@ -127,7 +143,7 @@ var indexPage = template.Must(template.New("index").Funcs(template.FuncMap{
 <body>
 <h1>Results of the script</h1>
 <p class="caution" id="caution"><strong>Caution.</strong> {{.Caution}}</p>
-<p>Each result the script handed over has a folder of its own, with its case store (results.db), summary, evaluations, plots and report. The folder's summary.json is that of the principal result, {{.Principal}}, with this list.</p>
+<p>Each result the script handed over has a folder of its own, with its case store (results.db), summary, evaluations, plots and report. The folder's summary.json is that of the principal result, {{.Principal}}, with this list; its results.db and report.html are the principal result's too.</p>
 <table id="results">
 <tr><th>folder</th><th>study</th><th>optimiser</th><th>evaluations</th><th>stop</th><th>best objective</th><th>best point</th><th>report</th></tr>
 {{range .Results}}<tr><td>{{.Folder}}</td><td>{{.Study}}</td><td>{{.Optimizer}}</td><td class="num">{{.Evaluations}}</td><td>{{.Stop}}</td><td class="num">{{if .Objective}}{{num .Objective}}{{else if .FrontPoints}}front of {{.FrontPoints}}{{end}}</td><td>{{if .Feasible}}{{if deref .Feasible}}<span class="verdict-feasible">feasible</span>{{else}}<span class="verdict-infeasible">INFEASIBLE</span>{{end}}{{end}}</td><td><a href="{{.Report}}">{{.Report}}</a></td></tr>

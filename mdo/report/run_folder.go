@@ -20,6 +20,10 @@ const (
 	SummaryFile     = "summary.json"
 	ReportFile      = "report.html"
 	EvaluationsFile = "evaluations.csv"
+	// StoreFile is a result's case store (written by the application's
+	// recorder, not by WriteRun); a script's folder links its principal
+	// result's under the same name (WriteIndex).
+	StoreFile = "results.db"
 )
 
 // FigureSource draws a study's further figures for its run folder from

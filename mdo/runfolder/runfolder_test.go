@@ -189,3 +189,34 @@ func TestOccupiedResultFolders(t *testing.T) {
 		}
 	}
 }
+
+// A link replaces a symbolic link named like the file, leaving its
+// target as it was.
+func TestLinkFileReplacesALink(t *testing.T) {
+	dir := t.TempDir()
+	target, text := outside(t)
+	src := filepath.Join(dir, "sub-results.db")
+	if err := os.WriteFile(src, []byte("the store"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	dst := filepath.Join(dir, "results.db")
+	if err := os.Symlink(target, dst); err != nil {
+		t.Fatal(err)
+	}
+	if err := LinkFile(src, dst); err != nil {
+		t.Fatal(err)
+	}
+	if after, _ := os.ReadFile(target); string(after) != text {
+		t.Errorf("the link's target changed: %q, was %q", after, text)
+	}
+	fi, err := os.Lstat(dst)
+	if err != nil || !fi.Mode().IsRegular() {
+		t.Fatalf("%s is %v (%v), want a regular file", dst, fi, err)
+	}
+	if got, _ := os.ReadFile(dst); string(got) != "the store" {
+		t.Errorf("%s holds %q, want the source's bytes", dst, got)
+	}
+	if err := LinkFile(filepath.Join(dir, "none"), dst); err == nil {
+		t.Error("linking a missing file: no error")
+	}
+}

@@ -41,3 +41,41 @@ func WriteFile(path string, data []byte) error {
 	}
 	return nil
 }
+
+// LinkFile makes dst name the same file as src, never through a symbolic
+// link: a hard link to src is made under a temporary name in dst's folder
+// and renamed over dst, so that a link named dst is replaced, its target
+// untouched. Where the file system refuses hard links (another device,
+// no support), src's bytes are copied instead, as WriteFile writes them.
+func LinkFile(src, dst string) error {
+	dir, name := filepath.Split(dst)
+	if dir == "" {
+		dir = "."
+	}
+	info, err := os.Lstat(src)
+	if err != nil {
+		return fmt.Errorf("runfolder: linking %s: %w", dst, err)
+	}
+	if !info.Mode().IsRegular() {
+		return fmt.Errorf("runfolder: linking %s: %s is not a regular file (%s)", dst, src, info.Mode().Type())
+	}
+	tmp, err := os.CreateTemp(dir, "."+name+".tmp-*")
+	if err != nil {
+		return fmt.Errorf("runfolder: linking %s: %w", dst, err)
+	}
+	tmpName := tmp.Name()
+	tmp.Close()
+	os.Remove(tmpName)
+	if err := os.Link(src, tmpName); err != nil {
+		data, rerr := os.ReadFile(src)
+		if rerr != nil {
+			return fmt.Errorf("runfolder: linking %s: %w", dst, rerr)
+		}
+		return WriteFile(dst, data)
+	}
+	if err := os.Rename(tmpName, dst); err != nil {
+		os.Remove(tmpName)
+		return fmt.Errorf("runfolder: linking %s: %w", dst, err)
+	}
+	return nil
+}
