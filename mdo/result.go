@@ -28,6 +28,9 @@ type Result struct {
 	EvalCounters
 	// Notes are the study's provenance notes (Study.Notes).
 	Notes []string
+	// Sensitivity is the post-optimality sensitivity of the best point,
+	// from a gradient-based optimiser that converged (nil otherwise).
+	Sensitivity *Sensitivity
 	// Stop says why the optimiser stopped.
 	Stop    StopReason
 	Started time.Time
@@ -236,6 +239,9 @@ func (r *Result) String() string {
 			fmt.Fprintln(w, strings.Join(row, "\t"))
 		}
 		w.Flush()
+	}
+	if r.Sensitivity != nil {
+		b.WriteString(r.Sensitivity.String())
 	}
 	return b.String()
 }

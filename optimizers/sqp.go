@@ -67,7 +67,7 @@ type Sextant struct {
 	// Parameters names fixed parameters of the study (inputs nobody
 	// produces that are not design variables, e.g. mission.payload) whose
 	// effect on the optimal objective the post-optimality sensitivity
-	// gives (StartsReport.Sensitivity).
+	// gives (Result.Sensitivity and StartsReport.Sensitivity).
 	Parameters []string
 }
 
@@ -106,7 +106,7 @@ type Optimum struct {
 	Multipliers []float64
 	// Sensitivity is the post-optimality sensitivity in the user's units;
 	// nil unless the start converged.
-	Sensitivity *Sensitivity
+	Sensitivity *mdo.Sensitivity
 }
 
 // StartsReport describes a multi-start run (Sextant.Explore).
@@ -120,7 +120,7 @@ type StartsReport struct {
 	// Sensitivity is that of the best converged feasible optimum (nil if
 	// none): what each limit costs and the derivatives of the optimal
 	// objective with respect to Sextant.Parameters.
-	Sensitivity *Sensitivity
+	Sensitivity *mdo.Sensitivity
 	// LinearSolves and DisciplineCalls count the work of the gradients.
 	LinearSolves, DisciplineCalls int
 }
@@ -193,6 +193,9 @@ func (o Sextant) Explore(ctx context.Context, s *mdo.Study) (*mdo.Result, *Start
 		}
 	}
 	res, err := r.finish(stop, nil)
+	if res != nil {
+		res.Sensitivity = rep.Sensitivity
+	}
 	return res, rep, err
 }
 

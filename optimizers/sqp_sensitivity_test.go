@@ -1,11 +1,17 @@
 package optimizers
 
 import (
+	"bytes"
 	"context"
+	"encoding/json"
 	"math"
+	"strconv"
+	"strings"
 	"testing"
 
 	"couplet/mdo"
+	"couplet/mdo/report"
+	"couplet/mdo/store"
 )
 
 // optimumWith runs Sextant on a study that edit changes, and returns the
@@ -48,7 +54,7 @@ func TestLimitCostsAgainstReoptimisation(t *testing.T) {
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
 			_, rep := optimumWith(t, tc.study, func(*mdo.Study) {}, Sextant{})
-			var cost *LimitCost
+			var cost *mdo.LimitCost
 			s, _ := tc.study()
 			name := s.Constraints[tc.k].Name
 			for i := range rep.Sensitivity.Limits {
@@ -94,4 +100,77 @@ func TestLimitCostsAgainstReoptimisation(t *testing.T) {
 			t.Errorf("d f*/dx: %.6g, re-optimised %.6g", got, fd)
 		}
 	})
+}
+
+// TestSensitivityShown: the sensitivity of a converged Sextant run is
+// the result's (Result.Sensitivity), and the result's text, summary.json
+// and report all show it: each limit with its cost in objective units
+// per unit, and the fixed parameter asked for.
+func TestSensitivityShown(t *testing.T) {
+	s, err := SellarMDF()
+	if err != nil {
+		t.Fatal(err)
+	}
+	s.Design = s.Design[1:]
+	s.Fixed = map[string]float64{"x": 0.5}
+	res, rep, err := Sextant{Parameters: []string{"x"}}.Explore(context.Background(), s)
+	if err != nil {
+		t.Fatal(err)
+	}
+	sens := res.Sensitivity
+	if sens == nil || sens != rep.Sensitivity {
+		t.Fatalf("Result.Sensitivity %v, report's %v", sens, rep.Sensitivity)
+	}
+	var g1 *mdo.LimitCost
+	for i := range sens.Limits {
+		if sens.Limits[i].Constraint == "g1" {
+			g1 = &sens.Limits[i]
+		}
+	}
+	if g1 == nil || !g1.Active || len(sens.Parameters) != 1 {
+		t.Fatalf("sensitivity %+v: want g1 active and the parameter x", sens)
+	}
+	if txt := res.String(); !strings.Contains(txt, "post-optimality sensitivity of f") || !strings.Contains(txt, mdo.SensitivityCaution) {
+		t.Errorf("the result's text lacks its sensitivity:\n%s", txt)
+	}
+	sum := store.NewSummary(res, store.SummaryOptions{})
+	b, err := json.Marshal(sum)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var back struct {
+		Sensitivity struct {
+			Objective string
+			Limits    []struct {
+				Constraint string
+				Active     bool
+				PerUnit    float64 `json:"per_unit"`
+			}
+			Parameters []struct {
+				Parameter string
+				PerUnit   float64 `json:"per_unit"`
+			}
+		}
+	}
+	if err := json.Unmarshal(b, &back); err != nil {
+		t.Fatal(err)
+	}
+	js := back.Sensitivity
+	if js.Objective != "f" || len(js.Limits) != len(sens.Limits) || len(js.Parameters) != 1 || js.Parameters[0].PerUnit != sens.Parameters[0].PerUnit {
+		t.Errorf("summary.json sensitivity %+v, result's %+v", js, sens)
+	}
+	for _, l := range js.Limits {
+		if l.Constraint == "g1" && (!l.Active || l.PerUnit != g1.PerUnit) {
+			t.Errorf("summary.json g1 %+v, result's %+v", l, *g1)
+		}
+	}
+	var html bytes.Buffer
+	if err := report.Write(&html, res, report.Options{}); err != nil {
+		t.Fatal(err)
+	}
+	for _, w := range []string{`<h2 id="sensitivity">Post-optimality sensitivity</h2>`, "<td>g1</td><td>lower</td>", strconv.FormatFloat(g1.PerUnit, 'g', 7, 64), "<td>x</td>"} {
+		if !strings.Contains(html.String(), w) {
+			t.Errorf("report lacks %q", w)
+		}
+	}
 }

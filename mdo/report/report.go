@@ -57,6 +57,7 @@ type view struct {
 	Provenance     []kv
 	Best           *bestView
 	Front          *frontView
+	Sensitivity    *sensView
 	Figures        []figView
 	Notes          []string
 	Script         string
@@ -185,6 +186,7 @@ func build(r *mdo.Result, opt Options) (*view, error) {
 	v.Provenance = prov
 	if r.Best != nil {
 		v.Best = bestOf(r)
+		v.Sensitivity = sensitivityOf(r)
 	}
 	if len(r.Objectives) >= 2 && len(r.Front) > 0 {
 		v.Front = frontOf(r)

@@ -41,6 +41,19 @@ const page = `<!DOCTYPE html>
 {{end}}
 {{end}}
 
+{{with .Sensitivity}}
+<h2 id="sensitivity">Post-optimality sensitivity</h2>
+<p>What each limit costs at the optimum, and how the optimal {{.Objective}} moves with the named fixed parameters ({{.Caution}}).</p>
+{{if .Limits}}<table>
+<tr><th>limit of</th><th>bound</th><th>value</th><th>unit</th><th>state</th><th>d {{.Objective}} / d limit</th><th>unit</th></tr>
+{{range .Limits}}<tr class="{{.Class}}"><td>{{.Name}}</td><td>{{.Bound}}</td><td class="num">{{.Value}}</td><td>{{.Unit}}</td><td class="state-{{.Class}}">{{.State}}</td><td class="num">{{.PerUnit}}</td><td>{{.PerUnitUnit}}</td></tr>
+{{end}}</table>{{end}}
+{{if .Parameters}}<table>
+<tr><th>parameter</th><th>value</th><th>unit</th><th>d {{.Objective}} / d parameter</th><th>unit</th></tr>
+{{range .Parameters}}<tr><td>{{.Name}}</td><td class="num">{{.Value}}</td><td>{{.Unit}}</td><td class="num">{{.PerUnit}}</td><td>{{.PerUnitUnit}}</td></tr>
+{{end}}</table>{{end}}
+{{end}}
+
 {{if .Front}}
 <h2 id="front">Pareto front ({{len .Front.Rows}} non-dominated feasible designs)</h2>
 <table>

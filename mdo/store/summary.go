@@ -38,9 +38,12 @@ type Summary struct {
 	Cells int    `json:"cells,omitempty"`
 	Note  string `json:"note,omitempty"`
 	// Notes are the study's provenance notes (mdo.Study.Notes).
-	Notes       []string   `json:"notes,omitempty"`
-	ToolVersion string     `json:"tool_version,omitempty"`
-	Timestamps  Timestamps `json:"timestamps"`
+	Notes []string `json:"notes,omitempty"`
+	// Sensitivity is the post-optimality sensitivity of the best point
+	// (mdo.Result.Sensitivity), when the optimiser gave one.
+	Sensitivity *SummarySensitivity `json:"sensitivity,omitempty"`
+	ToolVersion string              `json:"tool_version,omitempty"`
+	Timestamps  Timestamps          `json:"timestamps"`
 }
 
 // SummaryPoint is one design point of a summary.
@@ -105,7 +108,7 @@ func NewSummary(r *mdo.Result, opt SummaryOptions) Summary {
 	s := Summary{
 		Study: r.Study, Seed: r.Seed, Optimizer: r.Optimizer, Formulation: r.Formulation.String(),
 		Evaluations: r.Evaluations, Analyses: r.Analyses, PickedUp: r.PickedUp, Repeats: r.Repeats, Failed: r.Failed, Stop: r.Stop.String(), ToolVersion: opt.ToolVersion,
-		Notes: append([]string(nil), r.Notes...),
+		Notes: append([]string(nil), r.Notes...), Sensitivity: summarySensitivity(r.Sensitivity),
 	}
 	if opt.Script != "" {
 		s.ScriptSHA256 = ScriptHash(opt.Script)
