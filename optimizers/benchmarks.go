@@ -28,6 +28,13 @@ const (
 	// Deb (Comput. Methods Appl. Mech. Eng. 186, 2000) and Coello (Comput.
 	// Ind. 41, 2000), best known f* = 1.724852 (from memory).
 	WeldedBeamOptimum = 1.724852
+	// PressureVesselOptimum: the pressure vessel design problem of
+	// Sandgren (J. Mech. Des. 112, 1990) and Kannan & Kramer (J. Mech. Des.
+	// 116, 1994) with both thicknesses in multiples of 0.0625 in, best
+	// known f* = 6059.714 at Ts = 0.8125, Th = 0.4375, R = 42.098446,
+	// L = 176.636596 (as tabulated by Coello, Comput. Ind. 41, 2000, and
+	// later comparisons; from memory).
+	PressureVesselOptimum = 6059.714
 	// ZDT1Hypervolume is the hypervolume of the ZDT1 front to the
 	// reference point (1, 1): ∫₀¹ √f₁ df₁ = 2/3 (Zitzler, Deb & Thiele, 2000).
 	ZDT1Hypervolume = 2.0 / 3
@@ -240,6 +247,47 @@ func WeldedBeam() (*mdo.Study, error) {
 		mdo.AtMost("tau", 13600), mdo.AtMost("sigma", 30000), mdo.AtMost("h_minus_b", 0),
 		mdo.AtMost("cost_limit", 5), mdo.AtLeast("x1", 0.125), mdo.AtMost("delta", 0.25),
 		mdo.AtLeast("buckling_margin", 0).WithScale(P),
+	}
+	return s, nil
+}
+
+// PressureVessel returns the pressure vessel design problem (Sandgren, J.
+// Mech. Des. 112, 1990; Kannan & Kramer, J. Mech. Des. 116, 1994; in the
+// form of Coello, Comput. Ind. 41, 2000; definition from memory): minimise
+// the cost of material, forming and welding of a cylindrical vessel capped
+// by hemispherical heads,
+//
+//	f = 0.6224 Ts R L + 1.7781 Th R² + 3.1661 Ts² L + 19.84 Ts² R,
+//
+// subject to the shell thickness Ts ≥ 0.0193 R, the head thickness
+// Th ≥ 0.00954 R, the volume π R² L + 4/3 π R³ ≥ 1 296 000 in³ and
+// L ≤ 240 in. The thicknesses come in rolled plate of multiples of
+// 0.0625 in: the design variables x1 and x2 are the integer numbers of
+// sixteenths, 1 ≤ x1, x2 ≤ 99 (Ts = 0.0625 x1, Th = 0.0625 x2), and
+// x3 = R, x4 = L in inches, 10 ≤ R, L ≤ 200. Best known f* = 6059.714 at
+// x = (13, 7, 42.098446, 176.636596), with the shell-thickness and
+// volume constraints active.
+func PressureVessel() (*mdo.Study, error) {
+	const sixteenth = 0.0625
+	s, _, err := funcStudy("pressure_vessel", []float64{1, 1, 10, 10}, []float64{99, 99, 200, 200},
+		[]string{"f", "shell", "head", "volume", "length"},
+		func(in, out []float64) error {
+			ts, th, r, l := sixteenth*in[0], sixteenth*in[1], in[2], in[3]
+			out[0] = 0.6224*ts*r*l + 1.7781*th*r*r + 3.1661*ts*ts*l + 19.84*ts*ts*r
+			out[1] = 0.0193*r - ts
+			out[2] = 0.00954*r - th
+			out[3] = math.Pi*r*r*l + 4.0/3*math.Pi*r*r*r
+			out[4] = l
+			return nil
+		})
+	if err != nil {
+		return nil, err
+	}
+	s.Design[0].Integer, s.Design[1].Integer = true, true
+	s.Objectives = []mdo.Objective{mdo.Minimize("f")}
+	s.Constraints = []mdo.Constraint{
+		mdo.AtMost("shell", 0), mdo.AtMost("head", 0),
+		mdo.AtLeast("volume", 1296000), mdo.AtMost("length", 240),
 	}
 	return s, nil
 }

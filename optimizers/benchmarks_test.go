@@ -87,8 +87,9 @@ func TestPublishedOptima(t *testing.T) {
 func TestBenchmarkStudiesValidate(t *testing.T) {
 	mk := map[string]func() (*mdo.Study, error){
 		"sellar MDF": SellarMDF, "sellar IDF": SellarIDF, "g06": G06, "g08": G08, "g11": G11,
-		"zdt1":       func() (*mdo.Study, error) { return ZDT1(30) },
-		"rosenbrock": func() (*mdo.Study, error) { return Rosenbrock(4) },
+		"zdt1":        func() (*mdo.Study, error) { return ZDT1(30) },
+		"rosenbrock":  func() (*mdo.Study, error) { return Rosenbrock(4) },
+		"welded beam": WeldedBeam, "pressure vessel": PressureVessel,
 	}
 	for name, f := range mk {
 		s, err := f()
@@ -123,6 +124,13 @@ func TestBenchmarkFunctionsAtOptima(t *testing.T) {
 		{"g08", G08, []float64{1.22797, 4.24537}, G08Optimum, 1e-6, "CEC 2006 g08"},
 		{"g11", G11, []float64{0.70711, 0.5}, 0.75, 1e-5, "CEC 2006 g11 (0.7499 with the 1e-4 tolerance, 0.75 on the curve)"},
 		{"rosenbrock", func() (*mdo.Study, error) { return Rosenbrock(3) }, []float64{1, 1, 1}, 0, 0, "Rosenbrock minimum"},
+		// the welded beam at (0.205730, 3.470489, 9.036624, 0.205730):
+		// f* = 1.724852 (Deb, 2000; Coello, 2000; from memory), the point
+		// quoted to 6 digits
+		{"welded beam", WeldedBeam, []float64{0.205730, 3.470489, 9.036624, 0.205730}, WeldedBeamOptimum, 1e-5, "welded beam, Coello (2000)"},
+		// the pressure vessel at Ts = 13/16, Th = 7/16 in, R = 42.098446,
+		// L = 176.636596 in: f* = 6059.714 (Coello, 2000; from memory)
+		{"pressure vessel", PressureVessel, []float64{13, 7, 42.098446, 176.636596}, PressureVesselOptimum, 1e-3, "pressure vessel, Coello (2000)"},
 	}
 	for _, c := range cases {
 		s, err := c.study()

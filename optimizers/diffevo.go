@@ -14,7 +14,9 @@ import (
 // at a time), and the whole generation is evaluated as one batch; a trial
 // replaces its target when it is at least as good by Deb's feasibility
 // rules. Integer design variables are searched as continuous coordinates
-// that the Evaluator rounds. Zero values take the defaults.
+// that the Evaluator rounds. A trial vector that repeats a point the run
+// has asked for is moved to a new one first, by the rule of GA. Zero
+// values take the defaults.
 type DifferentialEvolution struct {
 	// Evolution: Population is the number of agents, default 10 per
 	// variable, at least 20 and at most 100.
@@ -50,7 +52,7 @@ func (o DifferentialEvolution) blocks() (Evolution, EqualityHandling) {
 
 // Minimize implements Optimizer.
 func (o DifferentialEvolution) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error) {
-	e, err := newEngine(ctx, s, o)
+	e, err := newEngine(ctx, s, o, 2)
 	if err != nil {
 		return nil, err
 	}
@@ -73,6 +75,7 @@ func (o DifferentialEvolution) Minimize(ctx context.Context, s *mdo.Study) (*mdo
 			o.Repair.repairAll(x)
 			trials[i] = e.newMember(x)
 		}
+		e.freshen(trials)
 		if err := e.evaluateAll(trials); err != nil {
 			return nil, err
 		}
@@ -89,7 +92,7 @@ func (o DifferentialEvolution) Minimize(ctx context.Context, s *mdo.Study) (*mdo
 		e.rank(next)
 		return next, nil
 	}
-	stop, err := e.evolve(n, or(o.Generations, 200), newRand(r.ev.Seed(), 2))
+	stop, err := e.evolve(n, or(o.Generations, 200))
 	return r.finish(stop, err)
 }
 

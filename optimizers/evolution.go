@@ -84,11 +84,12 @@ type evolutionary interface {
 	blocks() (Evolution, EqualityHandling)
 }
 
-// newEngine starts a single-objective evolutionary run of method o: it
+// newEngine starts a single-objective evolutionary run of method o, whose
+// random numbers come from stream of the study's seed: it
 // checks o's settings, validates the study, refuses several objectives,
 // and sets the evaluation budget and the equality handling
 // (gradient-based mutation rate and ε-level relaxation) from o's blocks.
-func newEngine(ctx context.Context, s *mdo.Study, o evolutionary) (*engine, error) {
+func newEngine(ctx context.Context, s *mdo.Study, o evolutionary, stream uint64) (*engine, error) {
 	if err := o.validate(); err != nil {
 		return nil, err
 	}
@@ -101,7 +102,8 @@ func newEngine(ctx context.Context, s *mdo.Study, o evolutionary) (*engine, erro
 		return nil, err
 	}
 	r.maxEvals = evo.MaxEvaluations
-	return &engine{r: r, dim: r.ev.Dim(), relax: eq.relaxFraction(), grad: newGradientRepair(eq.gradientRate(), r.ev.Constraints())}, nil
+	return &engine{r: r, dim: r.ev.Dim(), relax: eq.relaxFraction(), grad: newGradientRepair(eq.gradientRate(), r.ev.Constraints()),
+		stream: stream, fresh: newFreshPoints(r.ev, freshStream+stream)}, nil
 }
 
 // engine ties eaopt's GA to a run.
@@ -126,6 +128,24 @@ type engine struct {
 	grad *gradientRepair
 	// initial draws a member of the first population.
 	initial func(rng *rand.Rand) *member
+	// fresh keeps the points asked for, so that only new ones are sent.
+	fresh *freshPoints
+	// stream is the method's random stream of the study seed.
+	stream uint64
+}
+
+// freshStream offsets the random stream of a method's fresh-point moves
+// from the method's own.
+const freshStream = 10
+
+// freshen moves, in place, every member that repeats a point asked for
+// before (see freshPoints) and reports which moved.
+func (e *engine) freshen(ms []*member) []bool {
+	moved := make([]bool, len(ms))
+	for i, m := range ms {
+		moved[i] = e.fresh.fresh(m.x)
+	}
+	return moved
 }
 
 // evaluateAll evaluates members as one batch.
@@ -133,6 +153,7 @@ func (e *engine) evaluateAll(ms []*member) error {
 	xs := make([][]float64, len(ms))
 	for i, m := range ms {
 		xs[i] = m.x
+		e.fresh.record(m.x)
 	}
 	evs, stop, err := e.r.evaluate(xs)
 	if err != nil {
@@ -154,6 +175,7 @@ func (e *engine) evaluateAll(ms []*member) error {
 func (e *engine) flush() error {
 	ms := e.pending
 	e.pending = nil
+	e.freshen(ms)
 	if err := e.evaluateAll(ms); err != nil {
 		return err
 	}
@@ -244,9 +266,10 @@ func (e *engine) Apply(pop *eaopt.Population) error {
 func (e *engine) Validate() error { return nil }
 
 // evolve runs eaopt's GA engine with popSize members for generations
-// generations (the first population counts as generation 0) and returns
-// why it stopped.
-func (e *engine) evolve(popSize, generations int, rng *rand.Rand) (mdo.StopReason, error) {
+// generations (the first population counts as generation 0), drawing
+// from the method's random stream, and returns why it stopped.
+func (e *engine) evolve(popSize, generations int) (mdo.StopReason, error) {
+	rng := newRand(e.r.ev.Seed(), e.stream)
 	e.dim = e.r.ev.Dim()
 	if e.relax > 0 && hasEquality(e.r.ev.Constraints()) {
 		e.relaxGens = int(math.Ceil(e.relax * float64(generations)))

@@ -15,6 +15,16 @@ import (
 // (μ + λ) survival by Deb's feasibility rules, so the best point is never
 // lost. Integer design variables are searched as continuous coordinates
 // that the Evaluator rounds. Zero values take the defaults.
+//
+// Only new points are analysed (the rule of every evolutionary method
+// here, NSGA2 included): an offspring whose physical point (integers
+// rounded) the run has asked for before, in an earlier generation or
+// earlier in its own, is moved by a polynomial mutation of one coordinate
+// drawn at random, an integer coordinate by at least one whole step, until
+// it is new (at most 16 moves, then at most 16 uniform draws in the box;
+// only a nearly exhausted integer space keeps a repeat, which costs
+// nothing). The moves draw from a random stream of their own, so a run
+// that would ask for no repeat is unchanged by the rule.
 type GA struct {
 	// Evolution: Population is the number of individuals, default 20 per
 	// variable, at least 40 and at most 200.
@@ -52,7 +62,7 @@ func (o GA) blocks() (Evolution, EqualityHandling) { return o.Evolution, o.Equal
 
 // Minimize implements Optimizer.
 func (o GA) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error) {
-	e, err := newEngine(ctx, s, o)
+	e, err := newEngine(ctx, s, o, 1)
 	if err != nil {
 		return nil, err
 	}
@@ -84,6 +94,7 @@ func (o GA) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error) {
 				off = append(off, e.newMember(c2))
 			}
 		}
+		e.freshen(off)
 		if err := e.evaluateAll(off); err != nil {
 			return nil, err
 		}
@@ -92,6 +103,6 @@ func (o GA) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error) {
 		}
 		return e.survivors(pop, off, n), nil
 	}
-	stop, err := e.evolve(n, or(o.Generations, 200), newRand(r.ev.Seed(), 1))
+	stop, err := e.evolve(n, or(o.Generations, 200))
 	return r.finish(stop, err)
 }

@@ -13,7 +13,9 @@ import (
 // constrained domination (mdo.Dominates), crowding distance, binary
 // tournament by (rank, crowding), simulated binary crossover and
 // polynomial mutation in the unit box, and (μ + λ) survival front by
-// front. Each generation is evaluated as one batch. The Result's Front is
+// front. Each generation is evaluated as one batch, of points the run has
+// not asked for before (an offspring repeating a point is moved by the
+// rule of the single-objective methods, see GA). The Result's Front is
 // the Evaluator's archive: every feasible non-dominated point evaluated
 // during the run (a superset of the final population's first front, never
 // worse; bounded for three or more objectives, see mdo.Evaluator.Front). Integer design variables are searched as continuous coordinates
@@ -49,10 +51,12 @@ func (o NSGA2) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error) 
 	n += n % 2
 	vary := o.Variation.resolved(dim)
 	rng := newRand(r.ev.Seed(), 4)
+	fresh := newFreshPoints(r.ev, freshStream+4)
 
 	xs := make([][]float64, n)
 	for i := range xs {
 		xs[i] = uniformPoint(dim, rng)
+		fresh.fresh(xs[i])
 	}
 	evs, stop, err := r.evaluate(xs)
 	if stop != mdo.NotStopped || err != nil {
@@ -73,6 +77,8 @@ func (o NSGA2) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error) 
 			c1 := append([]float64(nil), pop[a].x...)
 			c2 := append([]float64(nil), pop[b].x...)
 			vary.pair(c1, c2, rng)
+			fresh.fresh(c1)
+			fresh.fresh(c2)
 			off = append(off, c1, c2)
 		}
 		oevs, st, err := r.evaluate(off)

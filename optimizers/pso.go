@@ -16,7 +16,11 @@ import (
 // evaluates them one at a time and, in v0.4.2, moves a particle to
 // w·v + a random unit vector, which does not converge.) Integer design
 // variables are searched as continuous coordinates that the Evaluator
-// rounds. Zero values take the defaults.
+// rounds. A particle that lands on a point the run has asked for before
+// (its velocity died out, or its integer coordinates round as before) is
+// moved to a new one by the rule of GA and takes that move as its
+// velocity, so a collapsed swarm keeps searching instead of asking for
+// repeats. Zero values take the defaults.
 type ParticleSwarm struct {
 	// Evolution: Population is the number of particles, default 10 per
 	// variable, at least 20 and at most 100; Generations count the swarms
@@ -53,7 +57,7 @@ func (o ParticleSwarm) blocks() (Evolution, EqualityHandling) { return o.Evoluti
 
 // Minimize implements Optimizer.
 func (o ParticleSwarm) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error) {
-	e, err := newEngine(ctx, s, o)
+	e, err := newEngine(ctx, s, o, 3)
 	if err != nil {
 		return nil, err
 	}
@@ -101,6 +105,15 @@ func (o ParticleSwarm) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result,
 			}
 			next[i] = q
 		}
+		// a particle moved off a repeated point takes the move as its
+		// velocity
+		for i, moved := range e.freshen(next) {
+			if moved {
+				for k := range next[i].vel {
+					next[i].vel[k] = next[i].x[k] - pop[i].x[k]
+				}
+			}
+		}
 		if err := e.evaluateAll(next); err != nil {
 			return nil, err
 		}
@@ -116,6 +129,6 @@ func (o ParticleSwarm) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result,
 		rankBy(next, e.eps, func(p *member) *mdo.Evaluation { return p.best })
 		return next, nil
 	}
-	stop, err := e.evolve(n, or(o.Generations, 200), newRand(r.ev.Seed(), 3))
+	stop, err := e.evolve(n, or(o.Generations, 200))
 	return r.finish(stop, err)
 }
