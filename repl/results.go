@@ -46,8 +46,9 @@ type RunOutputs struct {
 	mu      sync.Mutex
 	stores  []*store.Store
 	ended   map[*mdo.Result]*store.Store
-	studies map[string]*mdo.Study // study name → study, for the DSM and further figures
-	folders map[string]bool       // result folders taken in this session
+	studies map[string]*mdo.Study                 // study name → study, for the DSM and further figures
+	added   map[*mdo.Result][]report.FigureSource // further figures a script asked for (cell.AddFigures)
+	folders map[string]bool                       // result folders taken in this session
 	storeIn map[*store.Store]string
 	written []writtenResult // results written, in order, for the index
 }
@@ -67,7 +68,7 @@ func DefaultFigures() []report.FigureSource {
 
 // NewRunOutputs returns the outputs of a run into dir.
 func NewRunOutputs(dir string) *RunOutputs {
-	return &RunOutputs{dir: dir, ended: map[*mdo.Result]*store.Store{}, studies: map[string]*mdo.Study{},
+	return &RunOutputs{dir: dir, ended: map[*mdo.Result]*store.Store{}, studies: map[string]*mdo.Study{}, added: map[*mdo.Result][]report.FigureSource{},
 		folders: map[string]bool{}, storeIn: map[*store.Store]string{}}
 }
 
@@ -259,6 +260,10 @@ func (o *RunOutputs) writeRun(ctx context.Context, script string, r *mdo.Result,
 	st := o.ended[r]
 	study := o.studies[r.Study]
 	figs := o.Figures
+	if figs == nil {
+		figs = DefaultFigures()
+	}
+	figs = append(slices.Clip(figs), o.added[r]...)
 	folder := ""
 	for _, w := range o.written {
 		if w.r == r {
@@ -280,9 +285,6 @@ func (o *RunOutputs) writeRun(ctx context.Context, script string, r *mdo.Result,
 	o.mu.Unlock()
 	if err != nil {
 		return "", nil, err
-	}
-	if figs == nil {
-		figs = DefaultFigures()
 	}
 	dir := filepath.Join(o.dir, folder)
 	files, err := report.WriteRun(ctx, dir, report.Run{
@@ -344,6 +346,14 @@ func (o *RunOutputs) writeIndex(script string) error {
 	}
 	_, err := report.WriteIndex(o.dir, entries)
 	return err
+}
+
+// AddFigures adds further figure sources to the run folder of result r
+// (cell.AddFigures), drawn after Figures.
+func (o *RunOutputs) AddFigures(r *mdo.Result, srcs ...report.FigureSource) {
+	o.mu.Lock()
+	o.added[r] = append(o.added[r], srcs...)
+	o.mu.Unlock()
 }
 
 // storeOf returns the store that recorded the run of r (nil if none).

@@ -16,6 +16,7 @@ import (
 	"github.com/traefik/yaegi/interp"
 
 	"couplet/mdo"
+	"couplet/mdo/report"
 	"couplet/mdo/runfolder"
 	"couplet/repl/cell"
 	"couplet/repl/symbols"
@@ -161,6 +162,11 @@ func (s *Session) reset() error {
 			}
 		},
 		Published: s.opts.OnPublish,
+		AddFigures: func(r *mdo.Result, srcs []report.FigureSource) {
+			if s.opts.Outputs != nil {
+				s.opts.Outputs.AddFigures(r, srcs...)
+			}
+		},
 	})
 	it := interp.New(interp.Options{Stdout: s.out, Stderr: s.errBuf, Stdin: strings.NewReader("")})
 	if err := it.Use(symbols.Symbols); err != nil {

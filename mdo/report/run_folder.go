@@ -30,7 +30,9 @@ const (
 // the result and, when known, the study (nil otherwise). A figure that
 // cannot be drawn is returned as plot.LeftOut with the reason; notes are
 // further lines for the report. It is the hook through which an
-// application adds its own pictures, unknown to the writer.
+// application adds its own pictures, unknown to the writer. WriteRun
+// hands a source the run's recorded evaluations through ctx (see
+// Evaluations).
 type FigureSource func(ctx context.Context, r *mdo.Result, st *mdo.Study) (figs []*plot.Figure, notes []string)
 
 // Run is a finished run to be written as a run folder by WriteRun.
@@ -123,8 +125,9 @@ func WriteRun(ctx context.Context, dir string, run Run) ([]string, error) {
 			saved = append(saved, drawn("pareto", "Pareto front", func() (*plot.Figure, error) { return plot.Pareto(r, evs) }))
 		}
 	}
+	sctx := context.WithValue(ctx, evaluationsKey{}, evs)
 	for _, src := range run.Figures {
-		figs, n := src(ctx, r, run.Study)
+		figs, n := src(sctx, r, run.Study)
 		extra = append(extra, figs...)
 		notes = append(notes, n...)
 	}
@@ -156,6 +159,17 @@ func WriteRun(ctx context.Context, dir string, run Run) ([]string, error) {
 		return files, err
 	}
 	return append(files, p), nil
+}
+
+// evaluationsKey keys the run's evaluations in a FigureSource's context.
+type evaluationsKey struct{}
+
+// Evaluations returns the run's recorded evaluations that WriteRun hands
+// its FigureSources through their context (nil when the run has no
+// store, or ctx is not a source's).
+func Evaluations(ctx context.Context) []*mdo.Evaluation {
+	evs, _ := ctx.Value(evaluationsKey{}).([]*mdo.Evaluation)
+	return evs
 }
 
 // saveFigure writes a figure into dir as NAME.svg and NAME.png. A

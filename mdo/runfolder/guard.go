@@ -95,7 +95,8 @@ func Clear(dir string) error {
 // WriteOwn writes a file of the script's own into dir (created if need
 // be) as WriteFile does, never through a symbolic link, and records its
 // name in the manifest so that Clear removes it with the run. A reserved
-// name or one with a path is refused.
+// name or one with a path is refused; a figure goes through
+// WriteOwnFigure.
 func WriteOwn(dir, name string, data []byte) error {
 	if name == "" || name != filepath.Base(name) || strings.HasPrefix(name, ".") {
 		return fmt.Errorf("runfolder: file name %q is not allowed: a plain name in the output folder, not starting with '.'", name)
@@ -110,6 +111,43 @@ func WriteOwn(dir, name string, data []byte) error {
 		return err
 	}
 	return WriteFile(filepath.Join(dir, name), data)
+}
+
+// WriteOwnFigure writes a figure of the script's own into dir as
+// STEM.svg and STEM.png (each as WriteOwn does, recorded in the manifest
+// so that Clear removes them with the run) and returns the files
+// written. The figures of the tool go into the result folders below dir,
+// so a figure of the script's own at the top of its output folder never
+// takes one of their names. stem is a plain name: letters, digits, '-'
+// and '_', not starting with '-'.
+func WriteOwnFigure(dir, stem string, svg, png []byte) ([]string, error) {
+	if stem == "" || strings.HasPrefix(stem, "-") {
+		return nil, fmt.Errorf("runfolder: figure name %q is not allowed: a plain name such as \"wing_map\"", stem)
+	}
+	for _, r := range stem {
+		if !(r >= 'a' && r <= 'z' || r >= 'A' && r <= 'Z' || r >= '0' && r <= '9' || r == '-' || r == '_') {
+			return nil, fmt.Errorf("runfolder: figure name %q is not allowed: only letters, digits, '-' and '_' (no extension, no path)", stem)
+		}
+	}
+	if err := os.MkdirAll(dir, 0o755); err != nil {
+		return nil, fmt.Errorf("runfolder: %w", err)
+	}
+	var files []string
+	for _, f := range []struct {
+		ext  string
+		data []byte
+	}{{".svg", svg}, {".png", png}} {
+		name := stem + f.ext
+		if err := Record(dir, name); err != nil {
+			return files, err
+		}
+		p := filepath.Join(dir, name)
+		if err := WriteFile(p, f.data); err != nil {
+			return files, err
+		}
+		files = append(files, p)
+	}
+	return files, nil
 }
 
 // Record adds a name to the folder's manifest of the script's own files.

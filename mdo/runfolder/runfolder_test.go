@@ -5,6 +5,7 @@ import (
 	"os"
 	"path/filepath"
 	"slices"
+	"strconv"
 	"strings"
 	"testing"
 )
@@ -218,5 +219,34 @@ func TestLinkFileReplacesALink(t *testing.T) {
 	}
 	if err := LinkFile(filepath.Join(dir, "none"), dst); err == nil {
 		t.Error("linking a missing file: no error")
+	}
+}
+
+// TestWriteOwnFigure: a script's figure is written under its own name,
+// recorded, and cleared with the run; names with paths or extensions are
+// refused, and WriteOwn still refuses image names.
+func TestWriteOwnFigure(t *testing.T) {
+	dir := t.TempDir()
+	files, err := WriteOwnFigure(dir, "wing_map", []byte("<svg/>"), []byte("png"))
+	if err != nil || len(files) != 2 {
+		t.Fatalf("%v: %v", files, err)
+	}
+	found, err := Occupied(dir)
+	if err != nil || !slices.Equal(found, []string{ManifestFile, "wing_map.png", "wing_map.svg"}) {
+		t.Errorf("occupied %v (%v), want the manifest and the two figure files", found, err)
+	}
+	if err := Clear(dir); err != nil {
+		t.Fatal(err)
+	}
+	if _, err := os.Stat(filepath.Join(dir, "wing_map.svg")); !errors.Is(err, os.ErrNotExist) {
+		t.Errorf("after Clear: %v", err)
+	}
+	for _, bad := range []string{"", "-x", "map.svg", "../map", "a/b", ".hidden"} {
+		if _, err := WriteOwnFigure(dir, bad, nil, nil); err == nil || !strings.Contains(err.Error(), strconv.Quote(bad)) {
+			t.Errorf("figure name %q: %v", bad, err)
+		}
+	}
+	if err := WriteOwn(dir, "wing_map.svg", nil); err == nil {
+		t.Error("WriteOwn wrote an .svg")
 	}
 }

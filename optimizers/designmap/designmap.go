@@ -6,6 +6,11 @@
 // sampled on demand on a grid through the study's Evaluator (worker pool
 // and cache). Figures are built with mdo/plot's builder, so they save as
 // SVG and PNG and go into a run folder through a report.FigureSource.
+// A map can also be drawn from a run's recorded analyses without a
+// further one (FromEvaluations, RecordedFigures): then it is interpolated
+// and says so. The carpet plot (Carpet, CarpetFigure) draws a quantity
+// against two parameters as a staggered grid of lines with the
+// constraints' boundaries over it.
 //
 // A map is a picture of a conceptual model, not of the aircraft: its
 // boundaries are where the model's constraints change sign.
@@ -54,9 +59,22 @@ type Data struct {
 	// Failures[j][i] is the failure class at the grid point.
 	Failures [][]mdo.FailureClass
 	// Best is the grid index (i, j) of the best feasible point by the
-	// first objective, or (−1, −1) when no grid point is feasible.
+	// first objective, or (−1, −1) when no grid point is feasible (or the
+	// map is interpolated).
 	Best [2]int
-	// Analyses counts the grid points.
+	// BestAt is, on a map interpolated from a run (FromEvaluations), the
+	// place of the run's best design, with its analysed value of the
+	// quantity (BestValue) and feasibility; NaN otherwise.
+	BestAt       [2]float64
+	BestValue    float64
+	BestFeasible bool
+	// Samples are the recorded analyses of an interpolated map.
+	Samples []Recorded
+	// Interpolated, when not empty, says how the map was interpolated
+	// from recorded analyses: its values are estimates, not analyses.
+	Interpolated string
+	// Analyses counts the analyses made for the map (0 for one
+	// interpolated from a run).
 	Analyses int
 }
 
@@ -107,7 +125,7 @@ func Sample(ctx context.Context, s *mdo.Study, spec Spec) (*Data, error) {
 		base[k] = v
 	}
 	u0 := ev.ToUnit(base)
-	d := &Data{X: spec.X, Y: spec.Y, Quantity: q, Best: [2]int{-1, -1}}
+	d := &Data{X: spec.X, Y: spec.Y, Quantity: q, Best: [2]int{-1, -1}, BestAt: [2]float64{math.NaN(), math.NaN()}, BestValue: math.NaN()}
 	d.XUnit, d.YUnit, d.QuantityUnit = unitOf(s, spec.X), unitOf(s, spec.Y), unitOf(s, q)
 	var xs [][]float64
 	for j := 0; j < n; j++ {
@@ -131,43 +149,52 @@ func Sample(ctx context.Context, s *mdo.Study, spec Spec) (*Data, error) {
 	for _, c := range ev.Constraints() {
 		d.Constraints = append(d.Constraints, c.Name)
 	}
-	d.Margins = make([][][]float64, len(d.Constraints))
+	d.allocate(n)
 	var best *mdo.Evaluation
 	for j := 0; j < n; j++ {
-		zr := make([]float64, n)
-		fr := make([]mdo.FailureClass, n)
-		mr := make([][]float64, len(d.Constraints))
-		for c := range mr {
-			mr[c] = make([]float64, n)
-		}
 		for i := 0; i < n; i++ {
 			e := evs[j*n+i]
-			zr[i] = math.NaN()
-			for c := range mr {
-				mr[c][i] = math.NaN()
-			}
 			if !e.Converged {
-				fr[i] = mdo.ClassOf(e)
+				d.Failures[j][i] = mdo.ClassOf(e)
 				continue
 			}
-			zr[i] = read(e)
-			for c := range mr {
+			d.Z[j][i] = read(e)
+			for c := range d.Margins {
 				if c < len(e.Margins) {
-					mr[c][i] = e.Margins[c]
+					d.Margins[c][j][i] = e.Margins[c]
 				}
 			}
 			if e.Feasible && len(e.F) > 0 && (best == nil || e.F[0] < best.F[0]) {
 				best, d.Best = e, [2]int{i, j}
 			}
 		}
-		d.Z = append(d.Z, zr)
-		d.Failures = append(d.Failures, fr)
-		for c := range mr {
-			d.Margins[c] = append(d.Margins[c], mr[c])
-		}
 	}
 	d.Analyses = len(xs)
 	return d, nil
+}
+
+// allocate makes the n × n layers of d (quantity, margins of each of
+// d.Constraints and failure classes), the values NaN.
+func (d *Data) allocate(n int) {
+	nan := func() [][]float64 {
+		g := make([][]float64, n)
+		for j := range g {
+			g[j] = make([]float64, n)
+			for i := range g[j] {
+				g[j][i] = math.NaN()
+			}
+		}
+		return g
+	}
+	d.Z = nan()
+	d.Margins = make([][][]float64, len(d.Constraints))
+	for c := range d.Margins {
+		d.Margins[c] = nan()
+	}
+	d.Failures = make([][]mdo.FailureClass, n)
+	for j := range d.Failures {
+		d.Failures[j] = make([]mdo.FailureClass, n)
+	}
 }
 
 // unitOf returns the unit of a system variable, or "" when the name is no

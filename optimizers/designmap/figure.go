@@ -114,6 +114,9 @@ func Figure(d *Data) (*plot.Figure, error) {
 		return nil, fmt.Errorf("designmap: Figure: no sampled map")
 	}
 	title := fmt.Sprintf("%s over %s and %s", d.Quantity, d.X, d.Y)
+	if d.Interpolated != "" {
+		title += fmt.Sprintf(", interpolated from %d recorded analyses", len(d.Samples))
+	}
 	p := plot.NewPlot(title, plot.AxisLabel(d.X, d.XUnit), plot.AxisLabel(d.Y, d.YUnit))
 	p.Legend.Top = false
 	p.Legend.Left = false
@@ -200,19 +203,28 @@ func Figure(d *Data) (*plot.Figure, error) {
 		p.Add(sc)
 		p.Legend.Add("failed: "+f.String(), sc)
 	}
+	if err := addSamples(p, d); err != nil {
+		return nil, err
+	}
 	if d.Best[0] >= 0 {
-		sc, err := plotter.NewScatter(plotter.XYs{{X: d.Xs[d.Best[0]], Y: d.Ys[d.Best[1]]}})
-		if err != nil {
-			return nil, fmt.Errorf("designmap: Figure: %w", err)
+		markBest(p, d.Xs[d.Best[0]], d.Ys[d.Best[1]], fmt.Sprintf("best feasible grid point (%s %.4g)", d.Quantity, d.Z[d.Best[1]][d.Best[0]]))
+	}
+	if !math.IsNaN(d.BestAt[0]) {
+		state := "feasible"
+		if !d.BestFeasible {
+			state = "infeasible"
 		}
-		sc.Shape = draw.CircleGlyph{}
-		sc.Color = plot.BestColor()
-		sc.Radius = vg.Points(5)
-		p.Add(sc)
-		p.Legend.Add(fmt.Sprintf("best feasible grid point (%s %.4g)", d.Quantity, d.Z[d.Best[1]][d.Best[0]]), sc)
+		markBest(p, d.BestAt[0], d.BestAt[1], fmt.Sprintf("best analysed design (%s %.4g, %s)", d.Quantity, d.BestValue, state))
+	}
+	name := "map_" + d.Quantity
+	if d.Interpolated != "" {
+		note := plotter.NewFunction(func(float64) float64 { return math.NaN() })
+		note.LineStyle.Width = 0
+		p.Legend.Add("values and boundaries interpolated (cubic RBF), not analysed", note)
+		name = "recorded_map_" + d.Quantity
 	}
 	p.Add(plotter.NewGrid())
-	return plot.NewFigure(fileName("map_"+d.Quantity), title, vg.Points(560), vg.Points(460), p.Draw), nil
+	return plot.NewFigure(fileName(name), title, vg.Points(560), vg.Points(460), p.Draw), nil
 }
 
 // greys is a palette of one faint grey, for the iso-lines.
@@ -262,4 +274,62 @@ func fileName(s string) string {
 		}
 	}
 	return string(b)
+}
+
+// addSamples marks the recorded analyses of an interpolated map,
+// projected onto its axes: feasible ones filled, infeasible ones hollow,
+// failed ones by their class.
+func addSamples(p *gplot.Plot, d *Data) error {
+	var feasible, infeasible plotter.XYs
+	failed := map[mdo.FailureClass]plotter.XYs{}
+	for _, s := range d.Samples {
+		xy := plotter.XY{X: s.X, Y: s.Y}
+		switch {
+		case s.Failure != mdo.NotFailed:
+			failed[s.Failure] = append(failed[s.Failure], xy)
+		case s.Feasible:
+			feasible = append(feasible, xy)
+		default:
+			infeasible = append(infeasible, xy)
+		}
+	}
+	for _, set := range []struct {
+		xys   plotter.XYs
+		shape draw.GlyphDrawer
+		label string
+	}{
+		{feasible, draw.CircleGlyph{}, "recorded analysis, feasible"},
+		{infeasible, draw.PlusGlyph{}, "recorded analysis, infeasible"},
+		{failed[mdo.DoesNotClose], draw.CrossGlyph{}, "recorded analysis failed: " + mdo.DoesNotClose.String()},
+		{failed[mdo.SolverFailed], draw.PyramidGlyph{}, "recorded analysis failed: " + mdo.SolverFailed.String()},
+		{failed[mdo.InvalidInput], draw.SquareGlyph{}, "recorded analysis failed: " + mdo.InvalidInput.String()},
+		{failed[mdo.DisciplineFailed], draw.RingGlyph{}, "recorded analysis failed: " + mdo.DisciplineFailed.String()},
+	} {
+		if len(set.xys) == 0 {
+			continue
+		}
+		sc, err := plotter.NewScatter(set.xys)
+		if err != nil {
+			return fmt.Errorf("designmap: Figure: %w", err)
+		}
+		sc.Shape = set.shape
+		sc.Color = color.NRGBA{R: 40, G: 40, B: 40, A: 255}
+		sc.Radius = vg.Points(2.2)
+		p.Add(sc)
+		p.Legend.Add(set.label+" (projected)", sc)
+	}
+	return nil
+}
+
+// markBest marks a best point at (x, y) with its legend entry.
+func markBest(p *gplot.Plot, x, y float64, label string) {
+	sc, err := plotter.NewScatter(plotter.XYs{{X: x, Y: y}})
+	if err != nil {
+		return // a non-finite point is not drawn
+	}
+	sc.Shape = draw.CircleGlyph{}
+	sc.Color = plot.BestColor()
+	sc.Radius = vg.Points(5)
+	p.Add(sc)
+	p.Legend.Add(label, sc)
 }

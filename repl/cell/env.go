@@ -15,6 +15,7 @@
 package cell
 
 import (
+	"bytes"
 	"context"
 	"fmt"
 	"strings"
@@ -22,6 +23,8 @@ import (
 
 	"couplet/mdo"
 	"couplet/mdo/external"
+	"couplet/mdo/plot"
+	"couplet/mdo/report"
 	"couplet/mdo/runfolder"
 )
 
@@ -58,6 +61,9 @@ type Host struct {
 	// Published, if not nil, is called with each result Publish hands
 	// over, as it is handed over.
 	Published func(r *mdo.Result)
+	// AddFigures, if not nil, adds further figure sources to the run
+	// folder of a result (cell.AddFigures).
+	AddFigures func(r *mdo.Result, sources []report.FigureSource)
 }
 
 // Env is one session's view of the running study: the functions a script
@@ -173,7 +179,8 @@ func (e *Env) SeedUsed() (uint64, bool) {
 // plain file name (letters, digits, '.', '-', '_'); paths are refused, so
 // a script cannot write outside its output folder, and so are the tool's
 // own names (results*.db and its journals, summary.json, report.html, index.html,
-// evaluations.csv, any .svg or .png). The file is written to a temporary
+// evaluations.csv, any .svg or .png: a figure is saved with SaveFigure).
+// The file is written to a temporary
 // file renamed over the name, never through a symbolic link.
 func (e *Env) WriteFile(name string, data []byte) error {
 	if err := checkName(name); err != nil {
@@ -184,7 +191,58 @@ func (e *Env) WriteFile(name string, data []byte) error {
 		return fmt.Errorf("cell: WriteFile(%q): this session has no output folder (start it with --out DIR)", name)
 	}
 	if err := runfolder.WriteOwn(dir, name, data); err != nil {
+		if l := strings.ToLower(name); strings.HasSuffix(l, ".svg") || strings.HasSuffix(l, ".png") {
+			return fmt.Errorf("cell: WriteFile(%q): %w; save a figure with cell.SaveFigure", name, err)
+		}
 		return fmt.Errorf("cell: WriteFile(%q): %w", name, err)
+	}
+	return nil
+}
+
+// SaveFigure writes a figure the script drew (a map, a carpet, a
+// picture of its own from plot.NewFigure) into the study's output folder
+// as NAME.svg and NAME.png, NAME being the figure's Name: a plain name
+// of letters, digits, '-' and '_'. The tool's own figures go into the
+// result folders below, so the script's never take their names. A
+// figure that cannot be drawn (plot.LeftOut) returns its reason and
+// writes nothing.
+func (e *Env) SaveFigure(f *plot.Figure) error {
+	if f == nil {
+		return fmt.Errorf("cell: SaveFigure: the figure is nil")
+	}
+	dir := e.host.OutDir
+	if dir == "" {
+		return fmt.Errorf("cell: SaveFigure(%q): this session has no output folder (start it with --out DIR)", f.Name)
+	}
+	var svg, png bytes.Buffer
+	if err := f.WriteSVG(&svg); err != nil {
+		return fmt.Errorf("cell: SaveFigure(%q): %w", f.Name, err)
+	}
+	if err := f.WritePNG(&png); err != nil {
+		return fmt.Errorf("cell: SaveFigure(%q): %w", f.Name, err)
+	}
+	if _, err := runfolder.WriteOwnFigure(dir, f.Name, svg.Bytes(), png.Bytes()); err != nil {
+		return fmt.Errorf("cell: SaveFigure(%q): %w", f.Name, err)
+	}
+	return nil
+}
+
+// AddFigures adds further figures to the run folder of result r: each
+// source (a report.FigureSource, such as the design-space maps and
+// carpets of package optimizers/designmap) draws its figures into r's
+// report and folder when the folder is written, after the tool's own.
+// In a session without an output folder it does nothing.
+func (e *Env) AddFigures(r *mdo.Result, sources ...report.FigureSource) error {
+	if r == nil {
+		return fmt.Errorf("cell: AddFigures: the result is nil")
+	}
+	for i, s := range sources {
+		if s == nil {
+			return fmt.Errorf("cell: AddFigures: source %d is nil", i+1)
+		}
+	}
+	if e.host.AddFigures != nil {
+		e.host.AddFigures(r, sources)
 	}
 	return nil
 }

@@ -6,7 +6,10 @@ import (
 	"os"
 	"path/filepath"
 
+	"gonum.org/v1/plot/vg"
+
 	"couplet/mdo"
+	"couplet/mdo/plot"
 	"couplet/repl/cell"
 )
 
@@ -60,4 +63,25 @@ func ExampleEnv_WriteFile() {
 	// <nil>
 	// <nil>
 	// cell: file name "../escape.txt" is not allowed: use a plain name such as "points.csv"
+}
+
+// cell.SaveFigure writes a figure the script drew into the output folder
+// as NAME.svg and NAME.png.
+func ExampleEnv_SaveFigure() {
+	dir, err := os.MkdirTemp("", "cell-example")
+	if err != nil {
+		panic(err)
+	}
+	defer os.RemoveAll(dir)
+	env := cell.NewEnv(cell.Host{OutDir: dir})
+	p := plot.NewPlot("a line", "x", "y")
+	f := plot.NewFigure("my_line", "a line", vg.Points(200), vg.Points(150), p.Draw)
+	fmt.Println(env.SaveFigure(f))
+	_, err = os.Stat(filepath.Join(dir, "my_line.png"))
+	fmt.Println(err)
+	fmt.Println(env.WriteFile("my_line.svg", nil))
+	// Output:
+	// <nil>
+	// <nil>
+	// cell: WriteFile("my_line.svg"): runfolder: file name "my_line.svg" is the tool's (results*.db and its journals, summary.json, report.html, index.html, evaluations.csv, any .svg or .png): choose another name; save a figure with cell.SaveFigure
 }

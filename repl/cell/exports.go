@@ -20,6 +20,8 @@ func (e *Env) Exports() interp.Exports {
 			"OutDir":      reflect.ValueOf(e.OutDir),
 			"Programs":    reflect.ValueOf(e.Programs),
 			"EveryOutput": reflect.ValueOf(e.EveryOutput),
+			"SaveFigure":  reflect.ValueOf(e.SaveFigure),
+			"AddFigures":  reflect.ValueOf(e.AddFigures),
 		},
 	}
 }

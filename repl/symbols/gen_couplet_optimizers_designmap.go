@@ -10,12 +10,19 @@ import (
 func init() {
 	Symbols["couplet/optimizers/designmap/designmap"] = map[string]reflect.Value{
 		// function, constant and variable definitions
-		"Figure":  reflect.ValueOf(designmap.Figure),
-		"Figures": reflect.ValueOf(designmap.Figures),
-		"Sample":  reflect.ValueOf(designmap.Sample),
+		"Carpet":          reflect.ValueOf(designmap.Carpet),
+		"CarpetFigure":    reflect.ValueOf(designmap.CarpetFigure),
+		"CarpetFigures":   reflect.ValueOf(designmap.CarpetFigures),
+		"Figure":          reflect.ValueOf(designmap.Figure),
+		"Figures":         reflect.ValueOf(designmap.Figures),
+		"FromEvaluations": reflect.ValueOf(designmap.FromEvaluations),
+		"RecordedFigures": reflect.ValueOf(designmap.RecordedFigures),
+		"Sample":          reflect.ValueOf(designmap.Sample),
 
 		// type definitions
-		"Data": reflect.ValueOf((*designmap.Data)(nil)),
-		"Spec": reflect.ValueOf((*designmap.Spec)(nil)),
+		"CarpetSpec": reflect.ValueOf((*designmap.CarpetSpec)(nil)),
+		"Data":       reflect.ValueOf((*designmap.Data)(nil)),
+		"Recorded":   reflect.ValueOf((*designmap.Recorded)(nil)),
+		"Spec":       reflect.ValueOf((*designmap.Spec)(nil)),
 	}
 }
