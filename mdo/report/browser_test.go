@@ -170,21 +170,7 @@ func TestReportRendersInChromium(t *testing.T) {
 	t.Logf("on the deliberately broken page the check saw: %q", bad.problems)
 
 	res := render(t, ctx, path)
-	if len(res.problems) > 0 {
-		t.Errorf("the browser reported on the report:\n%s", strings.Join(res.problems, "\n"))
-	}
-	if res.title != "Study report: sellar" {
-		t.Errorf("page title %q", res.title)
-	}
-	if !strings.Contains(res.caution, "airworthiness") {
-		t.Errorf("caution text not rendered: %q", res.caution)
-	}
-	if res.svgs != 5 {
-		t.Errorf("%d SVG figures rendered, want 5", res.svgs)
-	}
-	if len(res.box) != 2 || res.box[0] < 200 || res.box[1] < 150 {
-		t.Errorf("first figure laid out at %v px, want at least 200 × 150", res.box)
-	}
+	checkRendered(t, res, "Study report: sellar", 5)
 	img, _, err := image.Decode(bytes.NewReader(res.shot))
 	if err != nil {
 		t.Fatalf("screenshot does not decode: %v", err)
@@ -197,6 +183,28 @@ func TestReportRendersInChromium(t *testing.T) {
 	}
 	if p := os.Getenv("COUPLET_KEEP_SCREENSHOT"); p != "" {
 		os.WriteFile(p, res.shot, 0o644)
+	}
+}
+
+// checkRendered checks what the browser saw of a page: no console
+// message, its title, the caution, the number of figures and the first
+// one's size.
+func checkRendered(t *testing.T, res pageResult, title string, svgs int) {
+	t.Helper()
+	if len(res.problems) > 0 {
+		t.Errorf("the browser reported on %q:\n%s", title, strings.Join(res.problems, "\n"))
+	}
+	if res.title != title {
+		t.Errorf("page title %q, want %q", res.title, title)
+	}
+	if !strings.Contains(res.caution, "airworthiness") {
+		t.Errorf("caution text not rendered: %q", res.caution)
+	}
+	if res.svgs != svgs {
+		t.Errorf("%d SVG figures rendered, want %d", res.svgs, svgs)
+	}
+	if len(res.box) != 2 || res.box[0] < 200 || res.box[1] < 150 {
+		t.Errorf("first figure laid out at %v px, want at least 200 × 150", res.box)
 	}
 }
 

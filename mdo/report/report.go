@@ -191,22 +191,29 @@ func build(r *mdo.Result, opt Options) (*view, error) {
 	if len(r.Objectives) >= 2 && len(r.Front) > 0 {
 		v.Front = frontOf(r)
 	}
-	figs := append(standardFigures(r, opt), opt.Figures...)
+	v.Figures = figureViews(append(standardFigures(r, opt), opt.Figures...))
+	return v, nil
+}
+
+// figureViews numbers the figures for a page and renders each inline;
+// a figure that cannot be drawn has the reason in its place.
+func figureViews(figs []*plot.Figure) []figView {
+	var out []figView
 	for i, f := range figs {
 		if f == nil {
 			continue
 		}
-		n := len(v.Figures) + 1
+		n := len(out) + 1
 		fv := figView{ID: fmt.Sprintf("%d-%s", i+1, f.Name), Caption: fmt.Sprintf("Figure %d. %s", n, f.Title)}
 		if svg, err := f.InlineSVG(); err != nil {
-			// the reason in the figure's place; the report is still written
+			// the reason in the figure's place; the page is still written
 			fv.LeftOut = fmt.Sprintf("Figure %d (%s) could not be drawn: %v", n, f.Name, err)
 		} else {
 			fv.SVG = template.HTML(svg)
 		}
-		v.Figures = append(v.Figures, fv)
+		out = append(out, fv)
 	}
-	return v, nil
+	return out
 }
 
 // standardFigures draws the plots every run gets; a plot that cannot be

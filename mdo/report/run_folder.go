@@ -139,18 +139,10 @@ func WriteRun(ctx context.Context, dir string, run Run) ([]string, error) {
 		extra = append(extra, drawn("dsm", "design structure matrix", func() (*plot.Figure, error) { return plot.DSM(run.Study.System) }))
 	}
 	for _, figs := range [][]*plot.Figure{saved, extra} {
-		for i, f := range figs {
-			if f == nil || f.Reason != nil {
-				continue
-			}
-			written, drawErr, err := saveFigure(dir, f)
-			files = append(files, written...)
-			if err != nil {
-				return files, err
-			}
-			if drawErr != nil {
-				figs[i] = plot.LeftOut(f.Name, f.Title, drawErr)
-			}
+		written, err := saveFigures(dir, figs)
+		files = append(files, written...)
+		if err != nil {
+			return files, err
 		}
 	}
 	p = filepath.Join(dir, ReportFile)
@@ -170,6 +162,27 @@ type evaluationsKey struct{}
 func Evaluations(ctx context.Context) []*mdo.Evaluation {
 	evs, _ := ctx.Value(evaluationsKey{}).([]*mdo.Evaluation)
 	return evs
+}
+
+// saveFigures writes each figure that can be drawn into dir as
+// NAME.svg and NAME.png (saveFigure); one that fails as it is drawn is
+// replaced in figs by its stand-in with the reason. err is a failure to
+// write.
+func saveFigures(dir string, figs []*plot.Figure) (files []string, err error) {
+	for i, f := range figs {
+		if f == nil || f.Reason != nil {
+			continue
+		}
+		written, drawErr, err := saveFigure(dir, f)
+		files = append(files, written...)
+		if err != nil {
+			return files, err
+		}
+		if drawErr != nil {
+			figs[i] = plot.LeftOut(f.Name, f.Title, drawErr)
+		}
+	}
+	return files, nil
 }
 
 // saveFigure writes a figure into dir as NAME.svg and NAME.png. A

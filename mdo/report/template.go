@@ -64,18 +64,7 @@ const page = `<!DOCTYPE html>
 
 {{if .Figures}}
 <h2 id="plots">Plots</h2>
-{{range .Figures}}<figure id="fig-{{.ID}}">
-{{if .LeftOut}}<p class="left-out">{{.LeftOut}}</p>{{else}}{{.SVG}}
-<figcaption>{{.Caption}}</figcaption>{{end}}
-</figure>
-{{end}}
-{{end}}
-
-{{if .Notes}}
-<h2 id="notes">Notes</h2>
-<ul>{{range .Notes}}<li>{{.}}</li>{{end}}</ul>
-{{end}}
-
+` + figuresAndNotes + `
 <h2 id="script">Study script</h2>
 {{if .Script}}<pre><code>{{.Script}}</code></pre>{{else}}<p>No script was recorded with this run.</p>{{end}}
 
@@ -105,4 +94,20 @@ figcaption { font-size: .9em; color: #555; margin-top: .3em; }
 .caution { border-left: 5px solid #c98a00; background: #fff8e6; padding: .7em 1em; margin: 1.2em 0; }
 .verdict-feasible { color: #1f6f1f; font-weight: bold; }
 .verdict-infeasible { color: #b21d1d; font-weight: bold; }
+`
+
+// figuresAndNotes is the part of a page (report, comparison) that shows
+// its figures inline, each with its caption or the reason it could not be
+// drawn, then its notes; it ends the {{if .Figures}} the page opens.
+const figuresAndNotes = `{{range .Figures}}<figure id="fig-{{.ID}}">
+{{if .LeftOut}}<p class="left-out">{{.LeftOut}}</p>{{else}}{{.SVG}}
+<figcaption>{{.Caption}}</figcaption>{{end}}
+</figure>
+{{end}}
+{{end}}
+
+{{if .Notes}}
+<h2 id="notes">Notes</h2>
+<ul>{{range .Notes}}<li>{{.}}</li>{{end}}</ul>
+{{end}}
 `

@@ -102,7 +102,7 @@ func WriteOwn(dir, name string, data []byte) error {
 		return fmt.Errorf("runfolder: file name %q is not allowed: a plain name in the output folder, not starting with '.'", name)
 	}
 	if Reserved(name) {
-		return fmt.Errorf("runfolder: file name %q is the tool's (results*.db and its journals, summary.json, report.html, index.html, evaluations.csv, any .svg or .png): choose another name", name)
+		return fmt.Errorf("runfolder: file name %q is the tool's (results*.db and its journals, summary.json, report.html, index.html, comparison.html, evaluations.csv, any .svg or .png): choose another name", name)
 	}
 	if err := os.MkdirAll(dir, 0o755); err != nil {
 		return fmt.Errorf("runfolder: %w", err)

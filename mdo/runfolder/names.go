@@ -16,6 +16,8 @@ const (
 	// IndexFile is the page of a script's folder that lists its
 	// results, each in a sub-folder of its own.
 	IndexFile = "index.html"
+	// ComparisonFile is the page of a comparison of results.
+	ComparisonFile = "comparison.html"
 )
 
 // storeName matches the case stores of a run (results.db, results-2.db,
@@ -24,7 +26,8 @@ var storeName = regexp.MustCompile(`^results(-[0-9]+)?\.db(-journal|-wal|-shm)?$
 
 // Reserved reports whether name is a file name of the tool in a run
 // folder, which a script may not write: the case stores and their journal
-// files, summary.json, report.html, index.html, evaluations.csv, every
+// files, summary.json, report.html, index.html, comparison.html,
+// evaluations.csv, every
 // plot (any .svg or .png file), the lock and the manifest.
 func Reserved(name string) bool {
 	switch {
@@ -32,7 +35,7 @@ func Reserved(name string) bool {
 		return true
 	case storeName.MatchString(name):
 		return true
-	case name == "summary.json" || name == "report.html" || name == "evaluations.csv" || name == IndexFile:
+	case name == "summary.json" || name == "report.html" || name == "evaluations.csv" || name == IndexFile || name == ComparisonFile:
 		return true
 	}
 	lower := strings.ToLower(name)

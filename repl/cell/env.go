@@ -178,7 +178,7 @@ func (e *Env) SeedUsed() (uint64, bool) {
 // WriteFile writes data to a file of the study's output folder. name is a
 // plain file name (letters, digits, '.', '-', '_'); paths are refused, so
 // a script cannot write outside its output folder, and so are the tool's
-// own names (results*.db and its journals, summary.json, report.html, index.html,
+// own names (results*.db and its journals, summary.json, report.html, index.html, comparison.html,
 // evaluations.csv, any .svg or .png: a figure is saved with SaveFigure).
 // The file is written to a temporary
 // file renamed over the name, never through a symbolic link.

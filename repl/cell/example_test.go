@@ -83,5 +83,40 @@ func ExampleEnv_SaveFigure() {
 	// Output:
 	// <nil>
 	// <nil>
-	// cell: WriteFile("my_line.svg"): runfolder: file name "my_line.svg" is the tool's (results*.db and its journals, summary.json, report.html, index.html, evaluations.csv, any .svg or .png): choose another name; save a figure with cell.SaveFigure
+	// cell: WriteFile("my_line.svg"): runfolder: file name "my_line.svg" is the tool's (results*.db and its journals, summary.json, report.html, index.html, comparison.html, evaluations.csv, any .svg or .png): choose another name; save a figure with cell.SaveFigure
+}
+
+// cell.Compare shows two results side by side and writes the comparison
+// page into a sub-folder of the output folder.
+func ExampleEnv_Compare() {
+	dir, err := os.MkdirTemp("", "cell-example")
+	if err != nil {
+		panic(err)
+	}
+	defer os.RemoveAll(dir)
+	env := cell.NewEnv(cell.Host{OutDir: dir})
+	grid := func(design []mdo.DesignVar, points [][]float64) *mdo.Result {
+		st, _ := mdo.SellarStudy(mdo.MDF)
+		st.Design, st.Workers = design, 1
+		ev, _ := st.NewEvaluator()
+		_ = ev.Begin("grid", nil)
+		_, _ = ev.Evaluate(env.Context(), points)
+		r, _ := ev.Finish(mdo.StopBudget)
+		return r
+	}
+	all := grid([]mdo.DesignVar{mdo.Continuous("x", 0, 10), mdo.Continuous("z1", -10, 10), mdo.Continuous("z2", 0, 10)}, [][]float64{{0, 0.6, 0}})
+	two := grid([]mdo.DesignVar{mdo.Continuous("x", 0, 10), mdo.Continuous("z1", -10, 10)}, [][]float64{{0, 0.6}})
+	c, err := env.Compare("both", all, two)
+	if err != nil {
+		panic(err)
+	}
+	fmt.Println(len(c.Results), c.Results[1].Label)
+	_, err = os.Stat(filepath.Join(dir, "both", "comparison.html"))
+	fmt.Println(err)
+	_, err = env.Compare("both", all, two)
+	fmt.Println(err != nil)
+	// Output:
+	// 2 sellar (2)
+	// <nil>
+	// true
 }

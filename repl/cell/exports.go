@@ -22,6 +22,7 @@ func (e *Env) Exports() interp.Exports {
 			"EveryOutput": reflect.ValueOf(e.EveryOutput),
 			"SaveFigure":  reflect.ValueOf(e.SaveFigure),
 			"AddFigures":  reflect.ValueOf(e.AddFigures),
+			"Compare":     reflect.ValueOf(e.Compare),
 		},
 	}
 }

@@ -129,6 +129,10 @@ usage:
                                                    process of its own
   couplet imports [%s]                    list the packages a script may import
   couplet vars [--prefix P] [--markdown]           list the aircraft model's variables
+  couplet compare FOLDER... [--out DIR [--replace]]
+                                                   compare result folders (or a script's
+                                                   folder) side by side; --out DIR writes
+                                                   the page with the overlays
   couplet version                                  print the version
   couplet help                                     print this text (also -h, --help)
 
@@ -194,6 +198,8 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		return 0
 	case "vars":
 		return repl.VarsCommand(args, stdout, stderr)
+	case "compare":
+		return compareCommand(context.Background(), args, stdout, stderr)
 	case "version":
 		fmt.Fprintf(stdout, "couplet %s\n", repl.Version)
 		return 0

@@ -87,4 +87,7 @@ func TestReadmeSession(t *testing.T) {
 	if _, err := os.Stat(filepath.Join(outDir, "sellar", "report.html")); err != nil {
 		t.Errorf("the session's @report wrote no report: %v", err)
 	}
+	if _, err := os.Stat(filepath.Join(outDir, "both", "comparison.html")); err != nil {
+		t.Errorf("the session's cell.Compare wrote no comparison page: %v", err)
+	}
 }
