@@ -12,9 +12,6 @@ import (
 	"couplet/mdo/store"
 )
 
-// StoreFile is the case store of a result folder.
-const StoreFile = "results.db"
-
 // Compared is one result of a comparison: its label (a column of the
 // table), its summary, whose values the table shows, and the result
 // itself when it is known, from which the plots and the checklist flags
