@@ -138,6 +138,7 @@ func Compare(ctx context.Context, results []Compared, opt CompareOptions) (*Comp
 		}
 	}
 	c.Figures = append(c.Figures, drawn("overlay_history", "optimisation histories", func() (*plot.Figure, error) { return overlayHistory(results) }))
+	c.Notes = append(c.Notes, historyLeftOut(results)...)
 	if slices.ContainsFunc(results, func(r Compared) bool { return len(r.Summary.Front) > 0 }) {
 		c.Figures = append(c.Figures, drawn("overlay_pareto", "Pareto fronts", func() (*plot.Figure, error) { return overlayPareto(results) }))
 	}
@@ -287,10 +288,7 @@ func (c *Comparison) rowName(title, name string) string {
 		case "objectives":
 			for _, o := range r.Result.Objectives {
 				if o.Name == name {
-					l = "minimise " + name
-					if o.Maximize {
-						l = "maximise " + name
-					}
+					l = sense(o.Maximize) + " " + name
 				}
 			}
 		case "constraints":

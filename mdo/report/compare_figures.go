@@ -11,22 +11,60 @@ import (
 	"gonum.org/v1/plot/vg/draw"
 )
 
+// historyObjective is the objective the history overlay is drawn on: the
+// first objective of the first result that is known, nil if none.
+func historyObjective(results []Compared) *mdo.Objective {
+	for _, c := range results {
+		if c.Result != nil && len(c.Result.Objectives) > 0 {
+			o := c.Result.Objectives[0]
+			return &o
+		}
+	}
+	return nil
+}
+
+// historyLeftOut names the known results left out of the history
+// overlay because their first objective is another.
+func historyLeftOut(results []Compared) []string {
+	obj := historyObjective(results)
+	if obj == nil {
+		return nil
+	}
+	var notes []string
+	for _, c := range results {
+		if c.Result == nil || len(c.Result.Objectives) == 0 {
+			continue
+		}
+		if o := c.Result.Objectives[0]; o.Name != obj.Name || o.Maximize != obj.Maximize {
+			notes = append(notes, fmt.Sprintf("%s: left out of the history overlay, drawn on %s %s: its first objective is %s %s.",
+				c.Label, sense(obj.Maximize), obj.Name, sense(o.Maximize), o.Name))
+		}
+	}
+	return notes
+}
+
+// sense names an objective's sense.
+func sense(maximize bool) string {
+	if maximize {
+		return "maximise"
+	}
+	return "minimise"
+}
+
 // overlayHistory draws the best feasible objective so far of each result
 // against its evaluations, one line per result, on the first objective
 // of the first result; a result with another first objective, or no
 // known Result, is left out (its legend entry says so).
 func overlayHistory(results []Compared) (*plot.Figure, error) {
-	var obj *mdo.Objective
-	var unit string
-	for _, c := range results {
-		if c.Result != nil && len(c.Result.Objectives) > 0 {
-			o := c.Result.Objectives[0]
-			obj, unit = &o, c.Result.Unit(o.Name)
-			break
-		}
-	}
+	obj := historyObjective(results)
 	if obj == nil {
 		return nil, fmt.Errorf("report: no compared result has an objective and a case store to draw its history from")
+	}
+	unit := ""
+	for _, c := range results {
+		if c.Result != nil && unit == "" {
+			unit = c.Result.Unit(obj.Name)
+		}
 	}
 	p := plot.NewPlot("", "evaluations", plot.AxisLabel(obj.Name, unit))
 	drawnAny := false

@@ -521,3 +521,33 @@ func TestComparisonRendersInChromium(t *testing.T) {
 		}
 	}
 }
+
+// A result whose first objective is another is left out of the history
+// overlay, and a note says so.
+func TestCompareHistoryOfAnotherObjective(t *testing.T) {
+	r1, _ := sellarResult(t, 10)
+	r2, _ := sellarResult(t, 10, mdo.Maximize("y2"))
+	cs, err := ComparedResults(r1, r2)
+	if err != nil {
+		t.Fatal(err)
+	}
+	c, err := Compare(context.Background(), cs, CompareOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := "sellar (2): left out of the history overlay, drawn on minimise f: its first objective is maximise y2."
+	if !slices.Contains(c.Notes, want) || !strings.Contains(c.String(), "note: "+want) {
+		t.Errorf("notes %q, want %q", c.Notes, want)
+	}
+	var svg bytes.Buffer
+	if err := c.Figures[0].WriteSVG(&svg); err != nil {
+		t.Fatal(err)
+	}
+	words, _ := plot.SVGText(svg.Bytes())
+	if slices.Contains(words, "sellar (2)") || !slices.Contains(words, "sellar") {
+		t.Errorf("the history overlay shows %q", words)
+	}
+	if got := cellOf(c, "objectives", "maximise y2"); len(got) != 2 || !got[0].Absent || got[1].Absent {
+		t.Errorf("the y2 row: %+v", got)
+	}
+}

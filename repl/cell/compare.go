@@ -18,8 +18,9 @@ import (
 // margins, checklist flags, evaluations, stop reasons). When name is not
 // empty it also writes the comparison's page, comparison.html, with the
 // overlay figures, into the output folder's sub-folder name (a plain
-// name); a sub-folder holding a run or an earlier comparison is refused,
-// so choose a new name.
+// name). A comparison of the same name written earlier is replaced (so
+// that running the cell again, a replay or a pick-up write it afresh);
+// a sub-folder holding a run's files is refused.
 func (e *Env) Compare(name string, items ...any) (*report.Comparison, error) {
 	if name != "" {
 		if err := checkName(name); err != nil {
@@ -63,7 +64,7 @@ func (e *Env) Compare(name string, items ...any) (*report.Comparison, error) {
 		return nil, fmt.Errorf("cell: Compare: %w", err)
 	}
 	if name != "" {
-		if _, err := report.WriteComparison(e.Context(), filepath.Join(e.host.OutDir, name), c, report.WriteComparisonOptions{}); err != nil {
+		if _, err := report.WriteComparison(e.Context(), filepath.Join(e.host.OutDir, name), c, report.WriteComparisonOptions{Replace: true}); err != nil {
 			return nil, fmt.Errorf("cell: Compare: %w", err)
 		}
 	}

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
+	"strings"
 
 	"gonum.org/v1/plot/vg"
 
@@ -113,10 +114,21 @@ func ExampleEnv_Compare() {
 	fmt.Println(len(c.Results), c.Results[1].Label)
 	_, err = os.Stat(filepath.Join(dir, "both", "comparison.html"))
 	fmt.Println(err)
+	// the same name again replaces that comparison; a result's folder
+	// is never written over
 	_, err = env.Compare("both", all, two)
-	fmt.Println(err != nil)
+	fmt.Println(err)
+	if err := os.MkdirAll(filepath.Join(dir, "sellar"), 0o755); err != nil {
+		panic(err)
+	}
+	if err := os.WriteFile(filepath.Join(dir, "sellar", "results.db"), nil, 0o644); err != nil {
+		panic(err)
+	}
+	_, err = env.Compare("sellar", all, two)
+	fmt.Println(err != nil && strings.Contains(err.Error(), "which a comparison never replaces"))
 	// Output:
 	// 2 sellar (2)
+	// <nil>
 	// <nil>
 	// true
 }
