@@ -40,11 +40,11 @@ func ExampleNewAircraft() {
 	//   3 neutral_point       .  .  ■  .  .  .  .  .  .  >  .  .   C
 	//   4 airframe_masses     .  .  .  ■  .  .  .  .  >  .  .  .   D
 	//   5 engine_cycle        .  .  .  .  ■  .  >  .  .  .  .  .   E
-	//   6 aerodynamics        .  .  .  .  .  ■  >  >  .  .  .  .   F coupled, aitken-gauss-seidel
-	//   7 propulsion          .  .  .  .  .  <  ■  >  >  .  .  .   F coupled, aitken-gauss-seidel
-	//   8 mission             .  .  .  .  .  .  .  ■  >  .  .  .   F coupled, aitken-gauss-seidel
-	//   9 weights             .  .  .  .  .  <  <  <  ■  >  >  .   F coupled, aitken-gauss-seidel
-	//  10 stability           .  .  .  .  .  <  .  .  .  ■  .  .   F coupled, aitken-gauss-seidel
+	//   6 aerodynamics        .  .  .  .  .  ■  >  >  .  .  .  .   F coupled, anderson-gauss-seidel
+	//   7 propulsion          .  .  .  .  .  <  ■  >  >  .  .  .   F coupled, anderson-gauss-seidel
+	//   8 mission             .  .  .  .  .  .  .  ■  >  .  .  .   F coupled, anderson-gauss-seidel
+	//   9 weights             .  .  .  .  .  <  <  <  ■  >  >  .   F coupled, anderson-gauss-seidel
+	//  10 stability           .  .  .  .  .  <  .  .  .  ■  .  .   F coupled, anderson-gauss-seidel
 	//  11 wing_box            .  .  .  .  .  .  .  .  .  .  ■  >   G
 	//  12 wing_divergence     .  .  .  .  .  .  .  .  .  .  .  ■   H
 	// converged: true, take-off mass about 38 t, cruise L/D about 10

@@ -66,7 +66,7 @@ func (w *Workspace) newton(ctx context.Context, g *group, set SolverSettings, p 
 		}
 		first = false
 		for k, v := range g.tear {
-			dst[k] = math.Max(g.lo[k], math.Min(g.hi[k], w.val[v]))/scale[k] - x[k]
+			dst[k] = clip(w.val[v], g.lo[k], g.hi[k])/scale[k] - x[k]
 		}
 		return nil
 	}

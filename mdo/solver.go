@@ -22,13 +22,17 @@ const (
 	// Newton solves the coupling residual y − G(y) = 0 by Newton's method
 	// with a forward finite-difference Jacobian.
 	Newton
+	// AndersonGaussSeidel is Gauss–Seidel with Anderson acceleration: each
+	// new iterate combines the sweep's last outputs so as to cancel the
+	// last residuals in the least-squares sense (anderson.go).
+	AndersonGaussSeidel
 )
 
-var methodNames = [...]string{"gauss-seidel", "jacobi", "aitken-gauss-seidel", "aitken-jacobi", "newton"}
+var methodNames = [...]string{"gauss-seidel", "jacobi", "aitken-gauss-seidel", "aitken-jacobi", "newton", "anderson-gauss-seidel"}
 
 // Methods lists every coupling solver.
 func Methods() []Method {
-	return []Method{GaussSeidel, Jacobi, AitkenGaussSeidel, AitkenJacobi, Newton}
+	return []Method{GaussSeidel, Jacobi, AitkenGaussSeidel, AitkenJacobi, Newton, AndersonGaussSeidel}
 }
 
 // String returns the solver's name.
@@ -84,7 +88,7 @@ func (s SolverSettings) normalized() (SolverSettings, error) {
 		s.Relaxation = 1
 	}
 	switch {
-	case s.Method < GaussSeidel || s.Method > Newton:
+	case s.Method < GaussSeidel || s.Method > AndersonGaussSeidel:
 		return s, fmt.Errorf("mdo: solver method %d unknown; allowed: %s", int(s.Method), strings.Join(methodNames[:], ", "))
 	case !(s.Tolerance > 0):
 		return s, fmt.Errorf("mdo: solver tolerance %g must be > 0", s.Tolerance)

@@ -19,6 +19,7 @@ import (
 // and may be shared by many Workspaces, one per goroutine.
 type System struct {
 	discs    []Discipline
+	fns      []ComputeFunc // discipline -> its computation (see computeFunc)
 	vars     *VarTable
 	producer []int       // variable -> producing discipline, or -1
 	inIdx    [][]int     // discipline -> input variable indices
@@ -128,6 +129,9 @@ func NewSystem(ds ...Discipline) (*System, error) {
 		return nil, err
 	}
 	s.vars = vt
+	for _, d := range ds {
+		s.fns = append(s.fns, computeFunc(d))
+	}
 	for i, p := range s.producer {
 		if p < 0 {
 			s.params = append(s.params, i)
@@ -139,6 +143,23 @@ func NewSystem(ds ...Discipline) (*System, error) {
 		s.settings[i] = DefaultSolver()
 	}
 	return s, nil
+}
+
+// computeFunc returns the computation of d: the function of a
+// FuncDiscipline (with or without partials) itself, one call instead of
+// the method's two, else d's Compute method.
+func computeFunc(d Discipline) ComputeFunc {
+	switch f := d.(type) {
+	case *FuncDiscipline:
+		if f.fn != nil {
+			return f.fn
+		}
+	case *FuncPartialsDiscipline:
+		if f.FuncDiscipline != nil && f.fn != nil {
+			return f.fn
+		}
+	}
+	return d.Compute
 }
 
 // buildGroups derives the dependency graph, its strongly connected

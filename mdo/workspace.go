@@ -43,6 +43,7 @@ type Workspace struct {
 	unstable   bool      // the last analysis ended on an unstable branch
 	nw         *newtonScratch
 	fb         *fallbackScratch
+	and        *andersonScratch
 }
 
 // NewWorkspace returns a fresh workspace with every variable and guess at
@@ -77,6 +78,7 @@ func (s *System) NewWorkspace() *Workspace {
 	w.r = make([]float64, maxTear)
 	w.rPrev = make([]float64, maxTear)
 	w.scale = make([]float64, maxTear)
+	w.and = newAndersonScratch(maxTear)
 	w.Reset()
 	return w
 }
@@ -325,14 +327,13 @@ func (w *Workspace) inputError(d, k int, x float64) error {
 func (w *Workspace) compute(d int) error {
 	w.cnt.DisciplineCalls++
 	w.cur = d
-	disc := w.sys.discs[d]
 	out := w.outBuf[d]
-	if err := disc.Compute(w.inBuf[d], out); err != nil {
+	if err := w.sys.fns[d](w.inBuf[d], out); err != nil {
 		return w.disciplineError(d, err)
 	}
 	for k, x := range out {
 		if x-x != 0 { // NaN or ±Inf: x − x is 0 for every finite x
-			return &NonFiniteError{Discipline: disc.Name(), Var: w.sys.vars.At(w.sys.outIdx[d][k]).Name, Value: x}
+			return &NonFiniteError{Discipline: w.sys.discs[d].Name(), Var: w.sys.vars.At(w.sys.outIdx[d][k]).Name, Value: x}
 		}
 	}
 	return nil
@@ -395,6 +396,21 @@ func (w *Workspace) sweep(g *group, jacobi, first bool) error {
 	return nil
 }
 
+// clip returns math.Max(lo, math.Min(hi, x)), bit for bit (signed zeros
+// and NaN included, for bounds that are not −0), without the calls.
+func clip(x, lo, hi float64) float64 {
+	if x == 0 {
+		return math.Max(lo, math.Min(hi, x))
+	}
+	if x > hi {
+		x = hi
+	}
+	if x < lo {
+		x = lo
+	}
+	return x
+}
+
 // divergeLimit is the scaled residual beyond which a group is declared
 // divergent.
 const divergeLimit = 1e12
@@ -417,7 +433,7 @@ func (w *Workspace) solve(ctx context.Context, g *group, set SolverSettings, p s
 	y, gy, r, rPrev, scale := w.y[:nt], w.gy[:nt], w.r[:nt], w.rPrev[:nt], w.scale[:nt]
 	copy(scale, g.scale)
 	for k, v := range g.tear {
-		w.val[v] = math.Max(g.lo[k], math.Min(g.hi[k], w.guess[v]))
+		w.val[v] = clip(w.guess[v], g.lo[k], g.hi[k])
 	}
 	rep.Method = set.Method
 	rep.Tolerance = set.Tolerance
@@ -445,8 +461,10 @@ func (w *Workspace) solve(ctx context.Context, g *group, set SolverSettings, p s
 	}
 	jacobi := set.Method == Jacobi || set.Method == AitkenJacobi
 	aitken := set.Method == AitkenGaussSeidel || set.Method == AitkenJacobi
+	anderson := set.Method == AndersonGaussSeidel
 	damped := p.damped()
 	omega := set.Relaxation
+	w.and.reset()
 	for it := 1; it <= set.MaxIterations; it++ {
 		if err := ctx.Err(); err != nil {
 			return fmt.Errorf("mdo: coupled group {%s} cancelled at iteration %d: %w", joinNames(g.names), it, err)
@@ -459,7 +477,7 @@ func (w *Workspace) solve(ctx context.Context, g *group, set SolverSettings, p s
 		}
 		norm := 0.0
 		for k, v := range g.tear {
-			gy[k] = math.Max(g.lo[k], math.Min(g.hi[k], w.val[v]))
+			gy[k] = clip(w.val[v], g.lo[k], g.hi[k])
 			r[k] = (gy[k] - y[k]) / scale[k]
 			if a := math.Abs(r[k]); a > norm || math.IsNaN(a) {
 				norm = a
@@ -500,9 +518,18 @@ func (w *Workspace) solve(ctx context.Context, g *group, set SolverSettings, p s
 				}
 			}
 		}
-		if aitken || omega != 1 {
+		if anderson {
+			// in scaled units: gy/scale, then the next iterate
+			for k := range gy {
+				gy[k] /= scale[k]
+			}
+			w.and.step(it, r, gy, y)
 			for k, v := range g.tear {
-				w.val[v] = math.Max(g.lo[k], math.Min(g.hi[k], y[k]+omega*(gy[k]-y[k])))
+				w.val[v] = clip(y[k]*scale[k], g.lo[k], g.hi[k])
+			}
+		} else if aitken || omega != 1 {
+			for k, v := range g.tear {
+				w.val[v] = clip(y[k]+omega*(gy[k]-y[k]), g.lo[k], g.hi[k])
 			}
 		}
 		copy(rPrev, r)

@@ -35,7 +35,7 @@ func TestPreludeAndRepeatedImports(t *testing.T) {
 	if err := s.reset(); err != nil {
 		t.Fatal(err)
 	}
-	if c := s.Exec(ctx, "import \"couplet/mdo\"\nlen(mdo.Methods())"); c.Err != nil || c.Value != 5 {
+	if c := s.Exec(ctx, "import \"couplet/mdo\"\nlen(mdo.Methods())"); c.Err != nil || c.Value != 6 {
 		t.Errorf("after a reset: %v %v", c.Value, c.Err)
 	}
 }

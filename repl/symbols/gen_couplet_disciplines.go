@@ -17,6 +17,7 @@ func init() {
 		"AckeretDoubleWedgeDrag":     reflect.ValueOf(disciplines.AckeretDoubleWedgeDrag),
 		"AckeretLiftSlope":           reflect.ValueOf(disciplines.AckeretLiftSlope),
 		"AircraftDisciplines":        reflect.ValueOf(disciplines.AircraftDisciplines),
+		"AircraftSolver":             reflect.ValueOf(disciplines.AircraftSolver),
 		"AisleWidth":                 reflect.ValueOf(disciplines.AisleWidth),
 		"Aluminium7075":              reflect.ValueOf(disciplines.Aluminium7075),
 		"ApproachClimbMinGradient":   reflect.ValueOf(disciplines.ApproachClimbMinGradient),
