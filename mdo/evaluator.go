@@ -566,7 +566,9 @@ func (e *Evaluator) analyse(ctx context.Context, w int, ev *Evaluation) (ok bool
 // setReference analyses the study's reference point (Start: the fixed
 // values or defaults of the design variables) from the default guesses
 // and, when it converges, makes its state the reference of every
-// workspace's fallback chain (Workspace.SetReference). It depends on the
+// workspace's fallback chain (Workspace.SetReference) and, for the groups
+// whose solver settings ask for it (SolverSettings.FromReference), its
+// coupling variables the starting guesses of every point. It depends on the
 // study alone, so every point's answer stays independent of the
 // evaluation order. IDF studies solve no coupled group and keep none.
 func (e *Evaluator) setReference() {
@@ -585,6 +587,17 @@ func (e *Evaluator) setReference() {
 	}
 	for _, w := range e.spaces {
 		_ = w.SetReference(ws.val)
+	}
+	// the groups that ask for it start every point from the reference
+	// state: nearer the solution than the defaults for a design in the
+	// study's box, and the same start whatever was analysed before
+	for gi, g := range e.sys.groups {
+		if !ws.settings[gi].FromReference {
+			continue
+		}
+		for _, v := range g.tear {
+			e.guess[v] = ws.val[v]
+		}
 	}
 }
 

@@ -68,6 +68,14 @@ type SolverSettings struct {
 	// is the analysis's failure (see Workspace.Analyze). The chain runs
 	// when any coupled group of the workspace allows it.
 	NoFallback bool
+	// FromReference starts the group at every point of a study from the
+	// converged state of the study's reference point (its Start design,
+	// analysed once by NewEvaluator) instead of the variables' defaults.
+	// The start is the same for every point, so answers stay independent
+	// of the evaluation order; they differ from a start at the defaults
+	// within the tolerance. Workspaces outside an Evaluator start from
+	// their guesses as always.
+	FromReference bool
 }
 
 // DefaultSolver returns the default settings: Aitken-relaxed Gauss–Seidel,
