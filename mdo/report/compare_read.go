@@ -134,7 +134,8 @@ func readResult(path, dir string, s store.Summary) (Compared, error) {
 }
 
 // labelFolders labels each folder's result by the folder's name, or by
-// its path where two names are the same.
+// its path where two names are the same; a folder given twice gets " (2)"
+// the second time.
 func labelFolders(cs []Compared) {
 	seen := map[string]int{}
 	for _, c := range cs {
@@ -147,6 +148,20 @@ func labelFolders(cs []Compared) {
 			cs[i].Label = filepath.Clean(cs[i].Folder)
 		}
 	}
+	NumberLabels(cs)
+}
+
+// NumberLabels numbers the labels that repeat, in order: the second
+// "sellar" becomes "sellar (2)", the third "sellar (3)".
+func NumberLabels(cs []Compared) {
+	seen := map[string]int{}
+	for i := range cs {
+		l := cs[i].Label
+		seen[l]++
+		if n := seen[l]; n > 1 {
+			cs[i].Label = l + " (" + strconv.Itoa(n) + ")"
+		}
+	}
 }
 
 // ComparedResults makes results in memory ready for Compare: each is
@@ -154,17 +169,12 @@ func labelFolders(cs []Compared) {
 // " (2)", and so on) and summarised as its summary.json would be.
 func ComparedResults(results ...*mdo.Result) ([]Compared, error) {
 	out := make([]Compared, 0, len(results))
-	seen := map[string]int{}
 	for i, r := range results {
 		if r == nil {
 			return nil, fmt.Errorf("report: result %d of %d to compare is nil", i+1, len(results))
 		}
-		seen[r.Study]++
-		label := r.Study
-		if n := seen[r.Study]; n > 1 {
-			label += " (" + strconv.Itoa(n) + ")"
-		}
-		out = append(out, Compared{Label: label, Summary: store.NewSummary(r, store.SummaryOptions{}), Result: r})
+		out = append(out, Compared{Label: r.Study, Summary: store.NewSummary(r, store.SummaryOptions{}), Result: r})
 	}
+	NumberLabels(out)
 	return out, nil
 }

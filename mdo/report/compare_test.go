@@ -293,6 +293,19 @@ func TestReadComparedRefuses(t *testing.T) {
 			}
 		})
 	}
+	// one folder given twice, and two folders of one name
+	sub := filepath.Join(dir, "two-variables")
+	other := filepath.Join(t.TempDir(), "two-variables")
+	if err := os.CopyFS(other, os.DirFS(sub)); err != nil {
+		t.Fatal(err)
+	}
+	twice, err := ReadCompared(sub, sub, other)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got, want := labels(twice), []string{sub, sub + " (2)", other}; !slices.Equal(got, want) {
+		t.Errorf("labels %q, want %q", got, want)
+	}
 	if _, err := Compare(context.Background(), nil, CompareOptions{}); err == nil {
 		t.Error("a comparison of no result was accepted")
 	}

@@ -58,7 +58,7 @@ func (e *Env) Compare(name string, items ...any) (*report.Comparison, error) {
 			return nil, fmt.Errorf("cell: Compare: item %d is a %T; want a *mdo.Result or the name of a result folder", i+1, it)
 		}
 	}
-	uniqueLabels(results)
+	report.NumberLabels(results)
 	c, err := report.Compare(e.Context(), results, drawings.CompareOptions())
 	if err != nil {
 		return nil, fmt.Errorf("cell: Compare: %w", err)
@@ -69,16 +69,4 @@ func (e *Env) Compare(name string, items ...any) (*report.Comparison, error) {
 		}
 	}
 	return c, nil
-}
-
-// uniqueLabels numbers the labels that repeat: "sellar", "sellar (2)".
-func uniqueLabels(cs []report.Compared) {
-	seen := map[string]int{}
-	for i := range cs {
-		l := cs[i].Label
-		seen[l]++
-		if n := seen[l]; n > 1 {
-			cs[i].Label = fmt.Sprintf("%s (%d)", l, n)
-		}
-	}
 }
