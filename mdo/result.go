@@ -28,6 +28,10 @@ type Result struct {
 	EvalCounters
 	// Notes are the study's provenance notes (Study.Notes).
 	Notes []string
+	// Surrogates are the surrogate models of the study's system
+	// (SurrogateDiscipline) and the numbers that come from them; empty
+	// when every number is the true analysis's.
+	Surrogates []SurrogateUse
 	// Sensitivity is the post-optimality sensitivity of the best point,
 	// from a gradient-based optimiser that converged (nil otherwise).
 	Sensitivity *Sensitivity
@@ -101,6 +105,7 @@ func (e *Evaluator) Finish(stop StopReason) (*Result, error) {
 		Constraints: e.Constraints(), Outputs: e.OutputVars(),
 		Best: e.best, Front: e.Front(), History: append([]HistoryPoint(nil), e.history...),
 		EvalCounters: e.cnt, Notes: append([]string(nil), e.study.Notes...), Stop: stop, Started: e.started, Elapsed: time.Since(e.started),
+		Surrogates: e.study.surrogateUses(),
 	}
 	if e.study.Recorder != nil && e.recErr == nil {
 		if !e.began {
@@ -184,6 +189,7 @@ func (r *Result) String() string {
 	var b strings.Builder
 	fmt.Fprintf(&b, "study %q by %s (%s, seed %d): %s after %s\n",
 		r.Study, r.Optimizer, r.Formulation, r.Seed, r.Stop, r.EvalCounters)
+	b.WriteString(r.surrogateText())
 	if r.Best == nil {
 		b.WriteString("no point was evaluated\n")
 		return b.String()

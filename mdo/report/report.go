@@ -11,6 +11,7 @@ import (
 	"path/filepath"
 	"runtime"
 	"strconv"
+	"strings"
 	"time"
 
 	"couplet/mdo"
@@ -58,9 +59,12 @@ type view struct {
 	Best           *bestView
 	Front          *frontView
 	Sensitivity    *sensView
-	Figures        []figView
-	Notes          []string
-	Script         string
+	// Surrogates say which numbers come from surrogate models.
+	Surrogates       []string
+	SurrogateCaution string
+	Figures          []figView
+	Notes            []string
+	Script           string
 }
 
 type kv struct{ Key, Value string }
@@ -187,6 +191,10 @@ func build(r *mdo.Result, opt Options) (*view, error) {
 	if r.Best != nil {
 		v.Best = bestOf(r)
 		v.Sensitivity = sensitivityOf(r)
+	}
+	for _, u := range r.Surrogates {
+		v.Surrogates = append(v.Surrogates, u.String())
+		v.SurrogateCaution = strings.ToUpper(mdo.SurrogateCaution[:1]) + mdo.SurrogateCaution[1:]
 	}
 	if len(r.Objectives) >= 2 && len(r.Front) > 0 {
 		v.Front = frontOf(r)

@@ -14,6 +14,12 @@ const page = `<!DOCTYPE html>
 <h1>{{.Title}}</h1>
 <p class="caution" id="caution"><strong>Caution.</strong> {{.Caution}}</p>
 
+{{if .Surrogates}}
+<div class="caution" id="surrogates"><strong>Numbers from surrogate models.</strong>
+<ul>{{range .Surrogates}}<li>{{.}}</li>{{end}}</ul>
+<p>{{.SurrogateCaution}}.</p></div>
+{{end}}
+
 <h2 id="provenance">Provenance</h2>
 <table>
 {{range .Provenance}}<tr><th>{{.Key}}</th><td>{{.Value}}</td></tr>

@@ -39,11 +39,26 @@ type Summary struct {
 	Note  string `json:"note,omitempty"`
 	// Notes are the study's provenance notes (mdo.Study.Notes).
 	Notes []string `json:"notes,omitempty"`
+	// Surrogates are the surrogate models of the study's system and the
+	// numbers that come from them (mdo.Result.Surrogates); absent when
+	// every number is the true analysis's.
+	Surrogates []SummarySurrogate `json:"surrogates,omitempty"`
 	// Sensitivity is the post-optimality sensitivity of the best point
 	// (mdo.Result.Sensitivity), when the optimiser gave one.
 	Sensitivity *SummarySensitivity `json:"sensitivity,omitempty"`
 	ToolVersion string              `json:"tool_version,omitempty"`
 	Timestamps  Timestamps          `json:"timestamps"`
+}
+
+// SummarySurrogate is a surrogate model of a summary's study
+// (mdo.SurrogateUse): the outputs it estimates and the objectives and
+// constraints whose values depend on them.
+type SummarySurrogate struct {
+	Discipline string   `json:"discipline"`
+	Model      string   `json:"model"`
+	Outputs    []string `json:"outputs"`
+	Affects    []string `json:"affects,omitempty"`
+	Caution    string   `json:"caution"`
 }
 
 // SummaryPoint is one design point of a summary.
@@ -109,6 +124,10 @@ func NewSummary(r *mdo.Result, opt SummaryOptions) Summary {
 		Study: r.Study, Seed: r.Seed, Optimizer: r.Optimizer, Formulation: r.Formulation.String(),
 		Evaluations: r.Evaluations, Analyses: r.Analyses, PickedUp: r.PickedUp, Repeats: r.Repeats, Failed: r.Failed, Stop: r.Stop.String(), ToolVersion: opt.ToolVersion,
 		Notes: append([]string(nil), r.Notes...), Sensitivity: summarySensitivity(r.Sensitivity),
+	}
+	for _, u := range r.Surrogates {
+		s.Surrogates = append(s.Surrogates, SummarySurrogate{Discipline: u.Discipline, Model: u.Model,
+			Outputs: append([]string(nil), u.Outputs...), Affects: append([]string(nil), u.Affects...), Caution: mdo.SurrogateCaution})
 	}
 	if opt.Script != "" {
 		s.ScriptSHA256 = ScriptHash(opt.Script)

@@ -107,16 +107,11 @@ func FromEvaluations(r *mdo.Result, evs []*mdo.Evaluation, spec Spec) (*Data, er
 			margins[c] = append(margins[c], e.Margins[c])
 		}
 	}
-	fit, err := surrogate.FitRBF(good, zs)
+	fits, err := surrogate.FitRBFs(good, append([][]float64{zs}, margins...))
 	if err != nil {
 		return nil, fmt.Errorf("designmap: FromEvaluations: %d converged analyses of %d recorded: %w", len(good), len(evs), err)
 	}
-	fits := make([]*surrogate.RBF, len(margins))
-	for c, m := range margins {
-		if fits[c], err = surrogate.FitRBF(good, m); err != nil {
-			return nil, fmt.Errorf("designmap: FromEvaluations: constraint %s: %w", r.Constraints[c].Name, err)
-		}
-	}
+	fit, fits := fits[0], fits[1:]
 	lo, hi := r.Design[ix], r.Design[iy]
 	for i := 0; i < n; i++ {
 		t := float64(i) / float64(n-1)

@@ -6,10 +6,19 @@
 // linear algebra, both reporting their leave-one-out cross-validation
 // error (Rippa 1999 for the interpolant, Dubrule 1983 for Kriging).
 //
+// A surrogate can stand in for a costly analysis inside a study: for one
+// discipline (FitDiscipline: the same name and variables, fitted to
+// samples of the discipline) or for the whole analysis (StandIn: a study
+// whose system is one surrogate of the true study). Such a discipline is
+// an mdo.SurrogateDiscipline, so the study's result says which of its
+// numbers are estimates (mdo.Result.Surrogates, shown in the result's
+// text, summary.json and the report).
+//
 // A surrogate's prediction is an estimate of the analysis it was fitted
-// to; results found on one must be checked with the true analysis (the
-// expected-improvement search of package optimizers does so, and states
-// its answer from the true analyses only).
+// to; results found on one must be checked with the true analysis
+// (Confirm does so for a stand-in's best design; the expected-improvement
+// search of package optimizers does so for every point it chooses, and
+// states its answer from the true analyses only).
 package surrogate
 
 import (
@@ -69,8 +78,13 @@ func newScaler(x [][]float64) scaler {
 // apply returns the scaled copy of p.
 func (s scaler) apply(p []float64) []float64 {
 	u := make([]float64, len(p))
+	s.into(u, p)
+	return u
+}
+
+// into writes the scaled p into u.
+func (s scaler) into(u, p []float64) {
 	for k := range p {
 		u[k] = (p[k] - s.lo[k]) / s.span[k]
 	}
-	return u
 }

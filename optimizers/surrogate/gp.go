@@ -245,6 +245,17 @@ func (g *GP) Predict(x []float64) (mean, sd float64) {
 	return mean*g.ys + g.ym, math.Sqrt(v) * g.ys
 }
 
+// estimate returns the mean prediction at x, with u (len(x)) as scratch
+// space for the scaled point: it allocates nothing.
+func (g *GP) estimate(x, u []float64) float64 {
+	g.sc.into(u, x)
+	mean := g.mu
+	for i, p := range g.x {
+		mean += g.corr(u, p) * g.alpha.AtVec(i)
+	}
+	return mean*g.ys + g.ym
+}
+
 // Theta returns the fitted θ_k of the scaled inputs.
 func (g *GP) Theta() []float64 { return append([]float64(nil), g.theta...) }
 

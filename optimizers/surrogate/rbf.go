@@ -22,62 +22,81 @@ type RBF struct {
 // FitRBF fits the interpolant to the values y at the points x (at least
 // d + 2 points in d dimensions, not all on one hyperplane).
 func FitRBF(x [][]float64, y []float64) (*RBF, error) {
-	if len(x) == 0 {
-		return nil, fmt.Errorf("surrogate: FitRBF: no points")
-	}
-	_, err := checkData("FitRBF", x, y, len(x[0])+2)
+	fits, err := FitRBFs(x, [][]float64{y})
 	if err != nil {
 		return nil, err
 	}
-	return fitScaled(x, y, newScaler(x))
+	return fits[0], nil
 }
 
-// fitScaled fits the interpolant with the given input scaling.
-func fitScaled(x [][]float64, y []float64, sc scaler) (*RBF, error) {
+// FitRBFs fits one interpolant to each set of values ys[k] at the same
+// points x, sharing the factorisation of the interpolation system.
+func FitRBFs(x [][]float64, ys [][]float64) ([]*RBF, error) {
+	if len(x) == 0 {
+		return nil, fmt.Errorf("surrogate: FitRBF: no points")
+	}
+	if len(ys) == 0 {
+		return nil, fmt.Errorf("surrogate: FitRBF: no values")
+	}
+	for _, y := range ys {
+		if _, err := checkData("FitRBF", x, y, len(x[0])+2); err != nil {
+			return nil, err
+		}
+	}
+	return fitScaled(x, ys, newScaler(x))
+}
+
+// fitScaled fits the interpolants with the given input scaling.
+func fitScaled(x [][]float64, ys [][]float64, sc scaler) ([]*RBF, error) {
 	n, d := len(x), len(x[0])
-	s := &RBF{sc: sc}
+	var sx [][]float64
 	for _, p := range x {
-		s.x = append(s.x, s.sc.apply(p))
+		sx = append(sx, sc.apply(p))
 	}
 	m := n + d + 1
 	a := mat.NewDense(m, m, nil)
 	for i := 0; i < n; i++ {
 		for j := 0; j < n; j++ {
-			a.Set(i, j, cubic(dist(s.x[i], s.x[j])))
+			a.Set(i, j, cubic(dist(sx[i], sx[j])))
 		}
 		a.Set(i, n, 1)
 		a.Set(n, i, 1)
 		for k := 0; k < d; k++ {
-			a.Set(i, n+1+k, s.x[i][k])
-			a.Set(n+1+k, i, s.x[i][k])
+			a.Set(i, n+1+k, sx[i][k])
+			a.Set(n+1+k, i, sx[i][k])
 		}
 	}
 	var inv mat.Dense
 	if err := inv.Inverse(a); err != nil {
 		return nil, fmt.Errorf("surrogate: FitRBF: the interpolation system of %d points is singular (points repeated or on one hyperplane): %w", n, err)
 	}
-	rhs := mat.NewVecDense(m, nil)
-	for i, v := range y {
-		rhs.SetVec(i, v)
+	var fits []*RBF
+	for _, y := range ys {
+		s := &RBF{sc: sc, x: sx}
+		rhs := mat.NewVecDense(m, nil)
+		for i, v := range y {
+			rhs.SetVec(i, v)
+		}
+		var sol mat.VecDense
+		sol.MulVec(&inv, rhs)
+		s.w = make([]float64, n)
+		for i := range s.w {
+			s.w[i] = sol.AtVec(i)
+		}
+		s.c = make([]float64, d+1)
+		for k := range s.c {
+			s.c[k] = sol.AtVec(n + k)
+		}
+		// Rippa (1999): the leave-one-out residual of point i is a_i/(A⁻¹)_ii.
+		var ss float64
+		for i := 0; i < n; i++ {
+			e := sol.AtVec(i) / inv.At(i, i)
+			ss += e * e
+		}
+		s.looRMS = math.Sqrt(ss / float64(n))
+		fits = append(fits, s)
 	}
-	var sol mat.VecDense
-	sol.MulVec(&inv, rhs)
-	s.w = make([]float64, n)
-	for i := range s.w {
-		s.w[i] = sol.AtVec(i)
-	}
-	s.c = make([]float64, d+1)
-	for k := range s.c {
-		s.c[k] = sol.AtVec(n + k)
-	}
-	// Rippa (1999): the leave-one-out residual of point i is a_i/(A⁻¹)_ii.
-	var ss float64
-	for i := 0; i < n; i++ {
-		e := sol.AtVec(i) / inv.At(i, i)
-		ss += e * e
-	}
-	s.looRMS = math.Sqrt(ss / float64(n))
-	return s, nil
+	return fits, nil
 }
 
 // cubic is the kernel φ(r) = r³.
@@ -94,7 +113,13 @@ func dist(a, b []float64) float64 {
 
 // Predict returns the interpolant at x.
 func (s *RBF) Predict(x []float64) float64 {
-	u := s.sc.apply(x)
+	return s.estimate(x, make([]float64, len(x)))
+}
+
+// estimate returns the interpolant at x, with u (len(x)) as scratch
+// space for the scaled point: it allocates nothing.
+func (s *RBF) estimate(x, u []float64) float64 {
+	s.sc.into(u, x)
 	v := s.c[0]
 	for k, uk := range u {
 		v += s.c[1+k] * uk

@@ -132,13 +132,11 @@ func TestRBF(t *testing.T) {
 		}
 		// Keep the same scaling so the refit is the same interpolation
 		// problem.
-		o := &RBF{}
-		o2, err := fitScaled(ox, oy, s.sc)
+		o, err := fitScaled(ox, [][]float64{oy}, s.sc)
 		if err != nil {
 			t.Fatal(err)
 		}
-		*o = *o2
-		e := ys[i] - o.Predict(xs[i])
+		e := ys[i] - o[0].Predict(xs[i])
 		ss += e * e
 	}
 	if want := math.Sqrt(ss / float64(len(xs))); math.Abs(s.LOOError()-want) > 1e-6*want {

@@ -77,6 +77,7 @@ func init() {
 		"StopConverged":       reflect.ValueOf(mdo.StopConverged),
 		"StopDeadline":        reflect.ValueOf(mdo.StopDeadline),
 		"StopIterations":      reflect.ValueOf(mdo.StopIterations),
+		"SurrogateCaution":    reflect.ValueOf(constant.MakeFromLiteral("\"a surrogate's number is an estimate of the analysis it was fitted to: confirm a design found on it with the true analysis\"", token.STRING, 0)),
 		"WithPartials":        reflect.ValueOf(mdo.WithPartials),
 
 		// type definitions
@@ -127,6 +128,8 @@ func init() {
 		"SolverSettings":         reflect.ValueOf((*mdo.SolverSettings)(nil)),
 		"StopReason":             reflect.ValueOf((*mdo.StopReason)(nil)),
 		"Study":                  reflect.ValueOf((*mdo.Study)(nil)),
+		"SurrogateDiscipline":    reflect.ValueOf((*mdo.SurrogateDiscipline)(nil)),
+		"SurrogateUse":           reflect.ValueOf((*mdo.SurrogateUse)(nil)),
 		"System":                 reflect.ValueOf((*mdo.System)(nil)),
 		"Totals":                 reflect.ValueOf((*mdo.Totals)(nil)),
 		"TotalsOptions":          reflect.ValueOf((*mdo.TotalsOptions)(nil)),
@@ -138,11 +141,12 @@ func init() {
 		"Workspace":              reflect.ValueOf((*mdo.Workspace)(nil)),
 
 		// interface wrapper definitions
-		"_Differentiable":    reflect.ValueOf((*_couplet_mdo_Differentiable)(nil)),
-		"_Discipline":        reflect.ValueOf((*_couplet_mdo_Discipline)(nil)),
-		"_IterationRecorder": reflect.ValueOf((*_couplet_mdo_IterationRecorder)(nil)),
-		"_PickUpRecorder":    reflect.ValueOf((*_couplet_mdo_PickUpRecorder)(nil)),
-		"_Recorder":          reflect.ValueOf((*_couplet_mdo_Recorder)(nil)),
+		"_Differentiable":      reflect.ValueOf((*_couplet_mdo_Differentiable)(nil)),
+		"_Discipline":          reflect.ValueOf((*_couplet_mdo_Discipline)(nil)),
+		"_IterationRecorder":   reflect.ValueOf((*_couplet_mdo_IterationRecorder)(nil)),
+		"_PickUpRecorder":      reflect.ValueOf((*_couplet_mdo_PickUpRecorder)(nil)),
+		"_Recorder":            reflect.ValueOf((*_couplet_mdo_Recorder)(nil)),
+		"_SurrogateDiscipline": reflect.ValueOf((*_couplet_mdo_SurrogateDiscipline)(nil)),
 	}
 }
 
@@ -230,4 +234,30 @@ func (W _couplet_mdo_Recorder) End(r *mdo.Result) error {
 }
 func (W _couplet_mdo_Recorder) Record(e *mdo.Evaluation) error {
 	return W.WRecord(e)
+}
+
+// _couplet_mdo_SurrogateDiscipline is an interface wrapper for SurrogateDiscipline type
+type _couplet_mdo_SurrogateDiscipline struct {
+	IValue     interface{}
+	WCompute   func(in []float64, out []float64) error
+	WInputs    func() []mdo.Var
+	WName      func() string
+	WOutputs   func() []mdo.Var
+	WSurrogate func() string
+}
+
+func (W _couplet_mdo_SurrogateDiscipline) Compute(in []float64, out []float64) error {
+	return W.WCompute(in, out)
+}
+func (W _couplet_mdo_SurrogateDiscipline) Inputs() []mdo.Var {
+	return W.WInputs()
+}
+func (W _couplet_mdo_SurrogateDiscipline) Name() string {
+	return W.WName()
+}
+func (W _couplet_mdo_SurrogateDiscipline) Outputs() []mdo.Var {
+	return W.WOutputs()
+}
+func (W _couplet_mdo_SurrogateDiscipline) Surrogate() string {
+	return W.WSurrogate()
 }

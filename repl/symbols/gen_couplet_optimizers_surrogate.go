@@ -10,12 +10,21 @@ import (
 func init() {
 	Symbols["couplet/optimizers/surrogate/surrogate"] = map[string]reflect.Value{
 		// function, constant and variable definitions
-		"FitGP":     reflect.ValueOf(surrogate.FitGP),
-		"FitGPFrom": reflect.ValueOf(surrogate.FitGPFrom),
-		"FitRBF":    reflect.ValueOf(surrogate.FitRBF),
+		"Confirm":       reflect.ValueOf(surrogate.Confirm),
+		"CubicRBF":      reflect.ValueOf(surrogate.CubicRBF),
+		"FitDiscipline": reflect.ValueOf(surrogate.FitDiscipline),
+		"FitGP":         reflect.ValueOf(surrogate.FitGP),
+		"FitGPFrom":     reflect.ValueOf(surrogate.FitGPFrom),
+		"FitRBF":        reflect.ValueOf(surrogate.FitRBF),
+		"FitRBFs":       reflect.ValueOf(surrogate.FitRBFs),
+		"Kriging":       reflect.ValueOf(surrogate.Kriging),
+		"StandIn":       reflect.ValueOf(surrogate.StandIn),
 
 		// type definitions
-		"GP":  reflect.ValueOf((*surrogate.GP)(nil)),
-		"RBF": reflect.ValueOf((*surrogate.RBF)(nil)),
+		"Discipline": reflect.ValueOf((*surrogate.Discipline)(nil)),
+		"Fit":        reflect.ValueOf((*surrogate.Fit)(nil)),
+		"GP":         reflect.ValueOf((*surrogate.GP)(nil)),
+		"Kind":       reflect.ValueOf((*surrogate.Kind)(nil)),
+		"RBF":        reflect.ValueOf((*surrogate.RBF)(nil)),
 	}
 }

@@ -1,0 +1,315 @@
+package surrogate
+
+import (
+	"context"
+	"fmt"
+	"math"
+	"math/rand/v2"
+	"strings"
+
+	"gonum.org/v1/gonum/mat"
+	"gonum.org/v1/gonum/stat/distmv"
+	"gonum.org/v1/gonum/stat/samplemv"
+
+	"couplet/mdo"
+)
+
+// Kind chooses the model of a stand-in.
+type Kind int
+
+// The models of a stand-in.
+const (
+	// CubicRBF is the radial-basis-function interpolant (FitRBF); one
+	// factorisation serves every output.
+	CubicRBF Kind = iota
+	// Kriging is the Gaussian process (FitGP), its mean as the
+	// estimate; each output gets its own likelihood fit.
+	Kriging
+)
+
+// String names the model.
+func (k Kind) String() string {
+	switch k {
+	case CubicRBF:
+		return "cubic radial-basis function"
+	case Kriging:
+		return "Kriging (Gaussian process)"
+	}
+	return fmt.Sprintf("Kind(%d)", int(k))
+}
+
+// Fit chooses how a stand-in is fitted. Zero values take the defaults.
+type Fit struct {
+	// Samples is the number of Latin-hypercube samples of the true
+	// analysis; default 10 per sampled variable plus 10.
+	Samples int
+	// Ranges give the sampled interval of variables by name; a variable
+	// not given is sampled over its validity range (Var.Min to Var.Max)
+	// for a discipline, over its bounds for a study. An interval of one
+	// value holds the variable there: it is no coordinate of the model,
+	// whose estimates are then those at that value.
+	Ranges map[string][2]float64
+	// Model is the kind of model; default CubicRBF.
+	Model Kind
+	// Seed draws the samples (and the likelihood search's starts).
+	Seed uint64
+}
+
+// estimator is a fitted model of one output.
+type estimator interface {
+	LOOError() float64
+}
+
+// Discipline is a surrogate stand-in for a discipline: the same name and
+// variables (units, defaults, validity ranges) as the discipline it was
+// fitted to (FitDiscipline), each output estimated by a model of the
+// sampled inputs. It is an mdo.SurrogateDiscipline, so a study using it
+// says which of its numbers are estimates.
+type Discipline struct {
+	name            string
+	inputs, outputs []mdo.Var
+	coords          []int // the inputs that are coordinates of the models
+	models          []estimator
+	// the models again by their type, so that Compute's scratch space
+	// stays on the stack (an interface call would make it escape)
+	rbfs  []*RBF
+	gps   []*GP
+	about string
+}
+
+// FitDiscipline samples discipline d over its inputs (Fit.Ranges, else
+// their validity ranges, which must then be finite) by a seeded Latin
+// hypercube, computes d at each sample, and fits a model of each output
+// to the samples d answered (a sample it refuses is left out and
+// counted). The result stands in for d in a System.
+func FitDiscipline(ctx context.Context, d mdo.Discipline, fit Fit) (*Discipline, error) {
+	if d == nil {
+		return nil, fmt.Errorf("surrogate: FitDiscipline: the discipline is nil")
+	}
+	if ctx == nil {
+		ctx = context.Background()
+	}
+	in, out := d.Inputs(), d.Outputs()
+	if len(out) == 0 {
+		return nil, fmt.Errorf("surrogate: FitDiscipline(%s): the discipline has no outputs", d.Name())
+	}
+	lo, hi, err := sampledBox(d.Name(), in, fit.Ranges)
+	if err != nil {
+		return nil, err
+	}
+	sd := &Discipline{name: d.Name(), inputs: in, outputs: out}
+	for k := range in {
+		if hi[k] > lo[k] {
+			sd.coords = append(sd.coords, k)
+		}
+	}
+	if len(sd.coords) == 0 {
+		return nil, fmt.Errorf("surrogate: FitDiscipline(%s): every input is held at one value: nothing to fit", d.Name())
+	}
+	n := fit.Samples
+	if n == 0 {
+		n = 10*len(sd.coords) + 10
+	}
+	if n < len(sd.coords)+2 {
+		return nil, fmt.Errorf("surrogate: FitDiscipline(%s): Fit.Samples = %d, need at least %d for %d sampled inputs", d.Name(), n, len(sd.coords)+2, len(sd.coords))
+	}
+	unit := latinHypercube(n, len(sd.coords), fit.Seed)
+	var xs [][]float64
+	ys := make([][]float64, len(out))
+	x := make([]float64, len(in))
+	y := make([]float64, len(out))
+	refused := 0
+	for _, u := range unit {
+		if err := ctx.Err(); err != nil {
+			return nil, err
+		}
+		for k := range in {
+			x[k] = lo[k]
+		}
+		for c, k := range sd.coords {
+			x[k] = lo[k] + u[c]*(hi[k]-lo[k])
+		}
+		if !computes(d, x, y) {
+			refused++
+			continue
+		}
+		p := make([]float64, len(sd.coords))
+		for c, k := range sd.coords {
+			p[c] = x[k]
+		}
+		xs = append(xs, p)
+		for j := range out {
+			ys[j] = append(ys[j], y[j])
+		}
+	}
+	if err = sd.fit(xs, ys, fit); err != nil {
+		return nil, fmt.Errorf("surrogate: FitDiscipline(%s): %d of %d samples answered: %w", d.Name(), len(xs), n, err)
+	}
+	var box []string
+	for _, k := range sd.coords {
+		box = append(box, fmt.Sprintf("%s in [%.4g, %.4g]", in[k].Name, lo[k], hi[k]))
+	}
+	for k := range in {
+		if hi[k] == lo[k] {
+			box = append(box, fmt.Sprintf("%s held at %.4g", in[k].Name, lo[k]))
+		}
+	}
+	sd.about = fmt.Sprintf("%s fitted to %d samples of %s (%d refused) over %s; leave-one-out RMS error %s",
+		fit.Model, len(xs), d.Name(), refused, strings.Join(box, ", "), looText(out, sd.models))
+	return sd, nil
+}
+
+// computes runs d at x into y, true when it answers with finite values
+// (a panic is a refusal).
+func computes(d mdo.Discipline, x, y []float64) (ok bool) {
+	defer func() {
+		if recover() != nil {
+			ok = false
+		}
+	}()
+	if err := d.Compute(x, y); err != nil {
+		return false
+	}
+	for _, v := range y {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return false
+		}
+	}
+	return true
+}
+
+// sampledBox returns the sampled interval of each variable: the range
+// given, else the variable's validity range, which must be finite.
+func sampledBox(who string, vars []mdo.Var, ranges map[string][2]float64) (lo, hi []float64, err error) {
+	known := map[string]bool{}
+	for _, v := range vars {
+		known[v.Name] = true
+	}
+	for name := range ranges {
+		if !known[name] {
+			return nil, nil, fmt.Errorf("surrogate: %s: Fit.Ranges names %q, which is no input of it", who, name)
+		}
+	}
+	lo, hi = make([]float64, len(vars)), make([]float64, len(vars))
+	for k, v := range vars {
+		r, ok := ranges[v.Name]
+		if !ok {
+			r = [2]float64{v.Min, v.Max}
+			if v.Min == 0 && v.Max == 0 || math.IsInf(v.Min, 0) || math.IsInf(v.Max, 0) {
+				return nil, nil, fmt.Errorf("surrogate: %s: input %s has no finite validity range [%g, %g]: give its sampled range in Fit.Ranges", who, v.Name, v.Min, v.Max)
+			}
+		}
+		if math.IsNaN(r[0]) || math.IsNaN(r[1]) || math.IsInf(r[0], 0) || math.IsInf(r[1], 0) || r[1] < r[0] {
+			return nil, nil, fmt.Errorf("surrogate: %s: the sampled range of %s is [%g, %g], allowed a finite interval with lower ≤ upper", who, v.Name, r[0], r[1])
+		}
+		lo[k], hi[k] = r[0], r[1]
+	}
+	return lo, hi, nil
+}
+
+// latinHypercube returns n seeded Latin-hypercube points of the unit box
+// of dimension d (gonum's stat/samplemv).
+func latinHypercube(n, d int, seed uint64) [][]float64 {
+	m := mat.NewDense(n, d, nil)
+	samplemv.LatinHypercube{Q: distmv.NewUnitUniform(d, nil), Src: rand.NewPCG(seed, 0x7374616e64696e)}.Sample(m)
+	out := make([][]float64, n)
+	for i := range out {
+		out[i] = append([]float64(nil), m.RawRowView(i)...)
+	}
+	return out
+}
+
+// fit fits one model of each output ys[j] at the points xs.
+func (d *Discipline) fit(xs [][]float64, ys [][]float64, fit Fit) error {
+	switch fit.Model {
+	case CubicRBF:
+		fits, err := FitRBFs(xs, ys)
+		if err != nil {
+			return err
+		}
+		d.rbfs = fits
+		for _, f := range fits {
+			d.models = append(d.models, f)
+		}
+	case Kriging:
+		for j, y := range ys {
+			g, err := FitGP(xs, y, fit.Seed+uint64(j))
+			if err != nil {
+				return err
+			}
+			d.gps = append(d.gps, g)
+			d.models = append(d.models, g)
+		}
+	default:
+		return fmt.Errorf("Fit.Model = %v, allowed CubicRBF or Kriging", fit.Model)
+	}
+	return nil
+}
+
+// looText lists the leave-one-out errors of the outputs with their units.
+func looText(out []mdo.Var, models []estimator) string {
+	var parts []string
+	for j, v := range out {
+		parts = append(parts, v.Name+" "+withUnit(models[j].LOOError(), v.Unit))
+	}
+	return strings.Join(parts, ", ")
+}
+
+// withUnit formats a value with its unit, if any.
+func withUnit(v float64, unit string) string {
+	if unit == "" || unit == "-" {
+		return fmt.Sprintf("%.3g", v)
+	}
+	return fmt.Sprintf("%.3g %s", v, unit)
+}
+
+// Name implements mdo.Discipline: the name of the discipline it stands
+// in for.
+func (d *Discipline) Name() string { return d.name }
+
+// Inputs implements mdo.Discipline: those of the discipline it stands in
+// for.
+func (d *Discipline) Inputs() []mdo.Var { return d.inputs }
+
+// Outputs implements mdo.Discipline: those of the discipline it stands in
+// for.
+func (d *Discipline) Outputs() []mdo.Var { return d.outputs }
+
+// maxStack is the largest number of model coordinates whose scratch
+// space Compute keeps on the stack.
+const maxStack = 32
+
+// Compute implements mdo.Discipline: each output is its model's estimate
+// at the inputs. It allocates nothing for up to 32 sampled inputs.
+func (d *Discipline) Compute(in, out []float64) error {
+	var xb, ub [maxStack]float64
+	var x, u []float64
+	if len(d.coords) > maxStack {
+		x, u = make([]float64, 0, len(d.coords)), make([]float64, len(d.coords))
+	} else {
+		x, u = xb[:0], ub[:len(d.coords)]
+	}
+	for _, k := range d.coords {
+		x = append(x, in[k])
+	}
+	for j := range d.models {
+		var v float64
+		if d.rbfs != nil {
+			v = d.rbfs[j].estimate(x, u)
+		} else {
+			v = d.gps[j].estimate(x, u)
+		}
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return fmt.Errorf("surrogate of %s: the estimate of %s is %g", d.name, d.outputs[j].Name, v)
+		}
+		out[j] = v
+	}
+	return nil
+}
+
+// Surrogate implements mdo.SurrogateDiscipline: the model, its samples,
+// the sampled box and the leave-one-out error of each output.
+func (d *Discipline) Surrogate() string { return d.about }
+
+// String describes the stand-in.
+func (d *Discipline) String() string { return "stand-in for " + d.name + ": " + d.about }
