@@ -4,6 +4,45 @@
 // save and replay a session, and the headless runner behind
 // `couplet run`.
 //
+// # How a cell reaches the interpreter
+//
+// A cell is ordinary Go: every statement that compiles in the body of a
+// Go function compiles in a cell, and the variables it declares at its
+// top level stay visible to later cells. The interpreter has faults of
+// its own at its top level (a multi-value := inside an if body, indexing
+// a field there, defer, return, a type switch, a panic placed on the
+// enclosing statement), so a cell is rewritten before the interpreter
+// sees it (transform.go), never the interpreter patched:
+//
+//   - The cell is type-checked with go/types, against the interpreter's
+//     symbol tables (symtypes.go rebuilds the packages from their reflect
+//     values) and against what earlier cells declared (their functions,
+//     types, constants and variables, kept as source).
+//   - Its function, type and constant declarations go to package level as
+//     they are; its statements become the body of a function that the
+//     session calls. Each variable the top level declares (by := or var)
+//     is hoisted to a package-level var of the type go/types found, and
+//     its declaration becomes an assignment, so later cells see it.
+//   - The trailing expression hands all its values to the session, which
+//     shows them: a call's error is shown, not dropped.
+//   - Around faults the interpreter also has inside functions: a method
+//     value of a framework type becomes a closure over its receiver, a
+//     generic call gets the type arguments go/types inferred, a range over
+//     an integer becomes a counted loop, and a loop variable that a
+//     closure captures gets a copy per iteration, as in Go 1.22.
+//   - Each statement of the body records its cell line first, so a panic
+//     reports the line of the statement that panicked (for a panic inside a
+//     function the cell calls, the line of the call).
+//
+// Every rewrite keeps the cell's lines, so the errors of the type check
+// and of the interpreter name the line of the cell. A cell the type check
+// refuses is reported with the compiler's message and not run, except for
+// two things the interpreter accepts and compiled Go does not: a literal
+// that sets a promoted field (older settings literals such as
+// optimizers.NSGA2{Population: 28}) and a package member the symbol
+// tables do not list (the generic functions of slices and maps); such a
+// cell goes to the interpreter's top level as it is.
+//
 // Results of a session are conceptual-design estimates; they are not for
 // certification, flight or airworthiness decisions.
 package repl

@@ -18,7 +18,7 @@ func ExampleSession_Exec() {
 	s.Exec(context.Background(), "q.Span")
 	// Output:
 	// 6125
-	// cell 2, line 1: undefined method: Span
+	// cell 2, line 1: q.Span undefined (type float64 has no field or method Span)
 }
 
 // A study file holds cells after a header line; a file without markers

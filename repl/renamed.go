@@ -25,8 +25,9 @@ var renamedNames = map[string]string{
 	"StopDeadline":   "optimizers.StopDeadline is now mdo.StopDeadline",
 }
 
-// undefinedRE finds the name in the interpreter's "undefined" errors.
-var undefinedRE = regexp.MustCompile(`(?:undefined method: |undefined selector: |has no symbol |undefined: )(\w+)`)
+// undefinedRE finds the name in the "undefined" errors of the interpreter
+// and of the type check.
+var undefinedRE = regexp.MustCompile(`(?:undefined method: |undefined selector: |has no symbol |undefined: (?:\w+\.)?|has no field or method )(\w+)`)
 
 // getTwoValuesRE finds a two-value assignment from a Get call, which the
 // value accessors no longer allow (Get returns the value alone).

@@ -24,7 +24,7 @@ func TestRenamedNamesSayWhatToWrite(t *testing.T) {
 		name, src string
 		want      []string
 	}{
-		{"Result.Output", `r.Output("y1")`, []string{"undefined method: Output", "Result.Lookup(name) (value, error)", "Result.Get(name)"}},
+		{"Result.Output", `r.Output("y1")`, []string{"r.Output undefined (type *mdo.Result has no field or method Output)", "Result.Lookup(name) (value, error)", "Result.Get(name)"}},
 		{"CacheHits", `r.CacheHits`, []string{"CacheHits is now Repeats"}},
 		{"Restored", `r.Restored`, []string{"Restored is now PickedUp"}},
 		{"optimizers.StopBudget", `optimizers.StopBudget`, []string{"StopBudget", "is now mdo.StopBudget"}},

@@ -111,6 +111,10 @@ type Session struct {
 
 	lock *runfolder.Lock // the output folder's, when the session made its outputs
 	kept any             // the value of the command expression Eval runs
+
+	types *typeState // the package-level names, for the type check of a cell
+	shown []any      // the values a cell's trailing expression handed over
+	show  bool       // set when the trailing expression was reached
 }
 
 // NewSession starts a session with a fresh interpreter.
@@ -180,9 +184,15 @@ func (s *Session) reset() error {
 	if err := it.Use(s.env.Exports()); err != nil {
 		return fmt.Errorf("repl: loading the cell package: %w", err)
 	}
-	if err := it.Use(interp.Exports{keepPath + "/keep": {"Value": reflect.ValueOf(s.keepValue)}}); err != nil {
+	keep := interp.Exports{keepPath + "/keep": {"Value": reflect.ValueOf(s.keepValue), "Show": reflect.ValueOf(s.showValues)}}
+	if err := it.Use(keep); err != nil {
 		return fmt.Errorf("repl: loading the command package: %w", err)
 	}
+	tables := []interp.Exports{symbols.Symbols, s.env.Exports(), keep}
+	if s.opts.Policy.Trusted {
+		tables = append(tables, trusted.Symbols)
+	}
+	s.types = &typeState{im: newSymbolImporter(tables...), entries: map[string]string{}}
 	s.it = it
 	s.cells = nil
 	s.next = 1
@@ -316,6 +326,80 @@ func (s *Session) exec(ctx context.Context, c *Cell) error {
 	soft, hard, release := s.guard(ctx)
 	defer release()
 	for _, ch := range chunks {
+		if ch.kind != chunkImport {
+			continue
+		}
+		if err := s.importChunk(hard, c, ch); err != nil {
+			return err
+		}
+	}
+	prog, terr := s.transform(c)
+	var te *typeCheckError
+	if errors.As(terr, &te) && !te.interpreterMay() {
+		return &CellError{Cell: c.Number, Line: te.line, Kind: "compile", Msg: te.msg + renamedHint(te.msg, lineOf(c.Source, te.line)), Err: terr}
+	}
+	if terr == nil {
+		ran, err := s.runProgram(ctx, hard, c, prog)
+		if ran || err == nil {
+			return s.finish(ctx, soft, c, err)
+		}
+		terr = err // the interpreter cannot compile the function; try the cell as it is
+	}
+	if err := s.runChunks(ctx, hard, c, chunks); err != nil {
+		if errors.As(terr, &te) {
+			var ce *CellError
+			if errors.As(err, &ce) && ce.Kind == "compile" {
+				// the type check names the real cause and its line
+				return &CellError{Cell: c.Number, Line: te.line, Kind: "compile", Msg: te.msg + renamedHint(te.msg, lineOf(c.Source, te.line)), Err: err}
+			}
+		}
+		if ce, ok := terr.(*CellError); ok {
+			var old *CellError
+			if errors.As(err, &old) && old.Kind == "compile" {
+				return ce
+			}
+		}
+		s.learnUntyped(c.Source)
+		return err
+	}
+	s.learnUntyped(c.Source)
+	return s.finish(ctx, soft, c, nil)
+}
+
+// importChunk gives the interpreter a cell's imports it does not have.
+func (s *Session) importChunk(hard context.Context, c *Cell, ch chunk) error {
+	fresh, keys, err := s.freshImports(ch.src)
+	if err != nil {
+		return s.cellError(c, ch, err, "")
+	}
+	if fresh == "" {
+		return nil
+	}
+	s.errBuf.reset()
+	if _, err := s.it.EvalWithContext(hard, fresh); err != nil {
+		s.forwardStderr(s.errBuf.take())
+		return s.cellError(c, ch, err, "")
+	}
+	for _, k := range keys {
+		s.imported[k] = true
+	}
+	return nil
+}
+
+// finish notes a cell that was cancelled but came back by itself.
+func (s *Session) finish(ctx, soft context.Context, c *Cell, err error) error {
+	if err == nil && soft.Err() != nil {
+		c.Interrupted = true
+		fmt.Fprintf(s.opts.Stderr, "cell %d was cancelled (%s) and returned what it had\n", c.Number, s.reason(ctx))
+	}
+	return err
+}
+
+// runChunks runs a cell chunk by chunk at the interpreter's top level:
+// the way of a cell the type check refused (it may still be one the
+// interpreter accepts, such as a literal of an older settings layout).
+func (s *Session) runChunks(ctx, hard context.Context, c *Cell, chunks []chunk) error {
+	for _, ch := range chunks {
 		if hard.Err() != nil {
 			return s.stopped(ctx, c, ch.line)
 		}
@@ -352,10 +436,6 @@ func (s *Session) exec(ctx context.Context, c *Cell) error {
 				s.out.writeValue(text)
 			}
 		}
-	}
-	if soft.Err() != nil {
-		c.Interrupted = true
-		fmt.Fprintf(s.opts.Stderr, "cell %d was cancelled (%s) and returned what it had\n", c.Number, s.reason(ctx))
 	}
 	return nil
 }
@@ -431,16 +511,7 @@ func (s *Session) cellError(c *Cell, ch chunk, err error, trace string) error {
 				line = ch.line + l - 1
 			}
 		}
-		// a script's panic(err) keeps err in the chain (the interpreter
-		// hands the value over as a reflect.Value)
-		v := p.Value
-		if rv, ok := v.(reflect.Value); ok && rv.IsValid() && rv.CanInterface() {
-			v = rv.Interface()
-		}
-		if ve, ok := v.(error); ok {
-			err = panicError{p: p, value: ve}
-		}
-		return &CellError{Cell: c.Number, Line: line, Kind: "panic", Msg: fmt.Sprint(p.Value), Err: err}
+		return s.panicked(c, line, p)
 	}
 	msg := err.Error()
 	line := ch.line

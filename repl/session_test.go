@@ -97,7 +97,7 @@ func TestSessionReportsFailuresAndGoesOn(t *testing.T) {
 		msg        string
 	}{
 		{"panic", "a := 1\nb := a + 1\npanic(\"stall\")", "panic", 1, 3, "stall"},
-		{"runtime panic in a loop", "m := map[string]int(nil)\nfor i := 0; i < 2; i++ {\n\tm[\"k\"] = i\n}", "panic", 1, 2, "nil map"},
+		{"runtime panic in a loop", "m := map[string]int(nil)\nfor i := 0; i < 2; i++ {\n\tm[\"k\"] = i\n}", "panic", 1, 3, "nil map"},
 		{"index out of range", "xs := []float64{1}\nk := 3\n_ = xs[k]", "panic", 1, 3, "index out of range"},
 		{"compile error", "a := 1\nb := a.Span", "compile", 1, 2, "Span"},
 		{"type mismatch", "x := 1\nvar s string = x", "compile", 1, 2, ""},

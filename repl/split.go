@@ -43,9 +43,19 @@ type importRef struct {
 	line int
 }
 
-// splitCell cuts a cell into chunks, checks its syntax and lists its
-// imports. A syntax error is returned as a *CellError with the line.
-func splitCell(src string) ([]chunk, []importRef, error) {
+// unit is one top-level statement or declaration of a cell: the span
+// [start, end) of its source, the line it starts on (1-based) and its
+// first token.
+type unit struct {
+	kind       chunkKind
+	start, end int
+	line       int
+	first      token.Token
+}
+
+// scanUnits cuts a cell into its top-level statements and declarations.
+// A scanner error is returned as a *lineError.
+func scanUnits(src string) ([]unit, error) {
 	fset := token.NewFileSet()
 	file := fset.AddFile("cell", -1, len(src))
 	var s scanner.Scanner
@@ -55,11 +65,6 @@ func splitCell(src string) ([]chunk, []importRef, error) {
 			scanErr = &lineError{line: pos.Line, msg: msg}
 		}
 	}, 0)
-	type unit struct {
-		kind       chunkKind
-		start, end int
-		line       int // line of start (1-based)
-	}
 	var units []unit
 	depth := 0
 	header := false
@@ -70,7 +75,7 @@ func splitCell(src string) ([]chunk, []importRef, error) {
 		if start < 0 {
 			return
 		}
-		units = append(units, unit{kind: classify(first, firstLit), start: start, end: end, line: startLine})
+		units = append(units, unit{kind: classify(first, firstLit), start: start, end: end, line: startLine, first: first[0]})
 		start = -1
 		first, firstLit = first[:0], firstLit[:0]
 	}
@@ -110,7 +115,17 @@ func splitCell(src string) ([]chunk, []importRef, error) {
 		}
 	}
 	if scanErr != nil {
-		return nil, nil, scanErr
+		return nil, scanErr
+	}
+	return units, nil
+}
+
+// splitCell cuts a cell into chunks, checks its syntax and lists its
+// imports. A syntax error is returned as a *lineError with the line.
+func splitCell(src string) ([]chunk, []importRef, error) {
+	units, err := scanUnits(src)
+	if err != nil {
+		return nil, nil, err
 	}
 	// Group consecutive imports and consecutive declarations.
 	var chunks []chunk

@@ -1,0 +1,225 @@
+package repl
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"go/parser"
+	"go/token"
+	"go/types"
+	"reflect"
+	"sort"
+	"strconv"
+	"strings"
+
+	"github.com/traefik/yaegi/interp"
+)
+
+// importSpecs lists the session's imports as import specs, and the name
+// each package has in the session.
+func (s *Session) importSpecs() ([]string, map[string]string) {
+	keys := make([]string, 0, len(s.imported))
+	for k := range s.imported {
+		keys = append(keys, k)
+	}
+	sort.Strings(keys)
+	specs := []string{keepName + " " + strconv.Quote(keepPath)}
+	local := map[string]string{}
+	for _, k := range keys {
+		name, path, _ := strings.Cut(k, " ")
+		specs = append(specs, strings.TrimSpace(name+" "+strconv.Quote(path)))
+		if name == "" {
+			name = s.types.im.names[path]
+			if name == "" {
+				name = path[strings.LastIndex(path, "/")+1:]
+			}
+			local[path] = name
+		} else if _, ok := local[path]; !ok && name != "_" && name != "." {
+			local[path] = name
+		}
+	}
+	return specs, local
+}
+
+// transform rewrites a cell for the interpreter (see transformCell).
+func (s *Session) transform(c *Cell) (*cellProgram, error) {
+	units, err := scanUnits(c.Source)
+	if err != nil {
+		return nil, err
+	}
+	specs, local := s.importSpecs()
+	return transformCell(c.Source, c.Number, units, specs, local, s.types)
+}
+
+// runProgram runs a transformed cell. ran is false when the interpreter
+// refused to compile the body function, before any of the cell's
+// statements ran: the caller may then run the cell as it is.
+func (s *Session) runProgram(ctx, hard context.Context, c *Cell, p *cellProgram) (ran bool, err error) {
+	whole := chunk{kind: chunkStmt, src: c.Source, line: 1}
+	if len(p.imports) > 0 {
+		if err := s.importChunk(hard, c, chunk{kind: chunkImport, src: "import (" + strings.Join(p.imports, "; ") + ")", line: 1}); err != nil {
+			return false, err
+		}
+	}
+	if p.decls != "" {
+		s.errBuf.reset()
+		_, err := s.it.EvalWithContext(hard, p.decls)
+		trace := s.errBuf.take()
+		s.forwardStderr(trace)
+		if err != nil {
+			if hard.Err() != nil {
+				return true, s.stopped(ctx, c, 1)
+			}
+			return true, s.cellError(c, whole, err, "")
+		}
+		s.types.add(p.declared)
+	} else {
+		s.types.add(p.declared)
+	}
+	s.errBuf.reset()
+	if _, err := s.it.EvalWithContext(hard, p.body); err != nil {
+		s.forwardStderr(s.errBuf.take())
+		return false, s.cellError(c, whole, err, "")
+	}
+	s.shown, s.show = nil, false
+	s.errBuf.reset()
+	_, err = s.it.EvalWithContext(hard, lineVar+" = 0; "+p.call)
+	trace := s.errBuf.take()
+	s.forwardStderr(trace)
+	line := s.runningLine(c)
+	if err != nil {
+		if hard.Err() != nil && (errors.Is(err, context.Canceled) || errors.Is(err, context.DeadlineExceeded)) {
+			return true, s.stopped(ctx, c, line)
+		}
+		var pe interp.Panic
+		if errors.As(err, &pe) {
+			return true, s.panicked(c, line, pe)
+		}
+		return true, s.cellError(c, whole, err, trace)
+	}
+	if p.show && s.show {
+		s.display(c, p)
+	}
+	return true, nil
+}
+
+// runningLine is the cell line the body function last recorded.
+func (s *Session) runningLine(c *Cell) int {
+	v, ok := s.it.Globals()[lineVar]
+	if !ok || !v.IsValid() || !v.CanInt() {
+		return 1
+	}
+	l := int(v.Int())
+	if n := strings.Count(c.Source, "\n") + 1; l < 1 || l > n {
+		return 1
+	}
+	return l
+}
+
+// showValues receives the values of a cell's trailing expression.
+func (s *Session) showValues(vs ...any) {
+	s.shown, s.show = vs, true
+}
+
+// display shows the values of a cell's trailing expression: every value
+// of a call with several results, less a last error that is nil; a nil
+// single result of a call is not shown either.
+func (s *Session) display(c *Cell, p *cellProgram) {
+	vals := s.shown
+	if len(vals) > 1 && p.errEnd && vals[len(vals)-1] == nil {
+		vals = vals[:len(vals)-1]
+	}
+	var texts []string
+	for i, v := range vals {
+		if v == nil {
+			if len(s.shown) == 1 && p.call1 {
+				return
+			}
+			texts = append(texts, "<nil>")
+			continue
+		}
+		text, val, ok := formatValue(reflect.ValueOf(v))
+		if !ok {
+			continue
+		}
+		if i == 0 {
+			c.Value = val
+		}
+		texts = append(texts, strings.TrimRight(text, "\n"))
+	}
+	if len(texts) > 0 {
+		s.out.writeValue(strings.Join(texts, "\n"))
+	}
+}
+
+// panicked is the error of a cell that panicked on a line. A script's
+// panic(err) keeps err in the chain (the interpreter hands the value over
+// as a reflect.Value).
+func (s *Session) panicked(c *Cell, line int, p interp.Panic) error {
+	var err error = p
+	v := p.Value
+	if rv, ok := v.(reflect.Value); ok && rv.IsValid() && rv.CanInterface() {
+		v = rv.Interface()
+	}
+	if ve, ok := v.(error); ok {
+		err = panicError{p: p, value: ve}
+	}
+	return &CellError{Cell: c.Number, Line: line, Kind: "panic", Msg: fmt.Sprint(p.Value), Err: err}
+}
+
+// lineOf is line n (1-based) of src.
+func lineOf(src string, n int) string {
+	lines := strings.Split(src, "\n")
+	if n < 1 || n > len(lines) {
+		return ""
+	}
+	return lines[n-1]
+}
+
+// learnUntyped records, for the type check of later cells, what a cell
+// run as it is declared: its functions, types and constants from their
+// source, its variables from the types the interpreter gives them. A
+// variable whose type cannot be written is forgotten, so that a later
+// cell using it is run as it is too.
+func (s *Session) learnUntyped(src string) {
+	units, err := scanUnits(src)
+	if err != nil {
+		return
+	}
+	d := blank(src)
+	for i := range units {
+		if u := &units[i]; u.kind == chunkDecl && u.first != token.VAR {
+			place(d, src, u)
+		}
+	}
+	fset := token.NewFileSet()
+	const prefix = "package main; "
+	decls := map[string]bool{}
+	if f, err := parser.ParseFile(fset, "decls", prefix+string(d), parser.SkipObjectResolution); err == nil {
+		es := preludeOf(fset, f, string(d), len(prefix), nil)
+		s.types.add(es)
+		for _, e := range es {
+			decls[e.name] = true
+		}
+	}
+	_, local := s.importSpecs()
+	g := s.it.Globals()
+	for _, n := range declaredNames(src) {
+		v, ok := g[n]
+		if decls[n] || !ok || !v.IsValid() {
+			continue
+		}
+		t := s.types.im.typeOf(v.Type())
+		spec := "var " + n + " " + types.TypeString(t, func(p *types.Package) string {
+			if name, ok := local[p.Path()]; ok {
+				return name
+			}
+			return "?"
+		})
+		if !nameable(t, nil, s.types.im, map[types.Type]bool{}) || strings.Contains(spec, "?") {
+			delete(s.types.entries, n)
+			continue
+		}
+		s.types.add([]preludeEntry{{name: n, src: spec}})
+	}
+}
