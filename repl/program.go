@@ -56,6 +56,11 @@ func (s *Session) transform(c *Cell) (*cellProgram, error) {
 // statements ran: the caller may then run the cell as it is.
 func (s *Session) runProgram(ctx, hard context.Context, c *Cell, p *cellProgram) (ran bool, err error) {
 	whole := chunk{kind: chunkStmt, src: c.Source, line: 1}
+	for _, sp := range p.standIns {
+		if err := s.it.Use(s.types.im.standInExports(sp, sp[strings.LastIndex(sp, "/")+1:])); err != nil {
+			return false, fmt.Errorf("repl: naming the types of %s: %w", s.types.im.standIns[sp], err)
+		}
+	}
 	if len(p.imports) > 0 {
 		if err := s.importChunk(hard, c, chunk{kind: chunkImport, src: "import (" + strings.Join(p.imports, "; ") + ")", line: 1}); err != nil {
 			return false, err

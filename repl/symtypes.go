@@ -23,6 +23,44 @@ type symbolImporter struct {
 	pkgs   map[string]*types.Package
 	filled map[string]bool
 	named  map[reflect.Type]*types.Named
+	// stand-ins: the private packages that name the types of a package
+	// scripts cannot import (a value of one may still come out of a
+	// call), by their path, with the path of the package they stand for
+	standIns map[string]string
+}
+
+// standInPrefix starts the import path of a stand-in package.
+const standInPrefix = "couplet/repl/internal/standin/"
+
+// standIn is the import path and local name of the stand-in of a
+// package scripts cannot import.
+func (im *symbolImporter) standIn(path string) (string, string) {
+	name := strings.NewReplacer("/", "_", ".", "_", "-", "_").Replace(path)
+	sp := standInPrefix + name
+	im.standIns[sp] = path
+	return sp, "couplet_standin_" + name
+}
+
+// reflectOf is the reflect type of a named type the tables reach.
+func (im *symbolImporter) reflectOf(n *types.Named) reflect.Type {
+	for t, m := range im.named {
+		if m == n {
+			return t
+		}
+	}
+	return nil
+}
+
+// standInExports is the symbol table of a stand-in package: the exported
+// named types of the package it stands for that the tables reach.
+func (im *symbolImporter) standInExports(sp, name string) interp.Exports {
+	syms := map[string]reflect.Value{}
+	for t, n := range im.named {
+		if n.Obj().Pkg().Path() == im.standIns[sp] && n.Obj().Exported() {
+			syms[n.Obj().Name()] = reflect.Zero(reflect.PointerTo(t))
+		}
+	}
+	return interp.Exports{sp + "/" + name: syms}
 }
 
 // newSymbolImporter indexes the symbol tables ("path/name" keys, as
@@ -34,6 +72,8 @@ func newSymbolImporter(tables ...interp.Exports) *symbolImporter {
 		pkgs:   map[string]*types.Package{},
 		filled: map[string]bool{},
 		named:  map[reflect.Type]*types.Named{},
+
+		standIns: map[string]string{},
 	}
 	for _, t := range tables {
 		for key, syms := range t {
@@ -64,6 +104,18 @@ func (im *symbolImporter) importable(path string) bool {
 
 // Import implements types.Importer.
 func (im *symbolImporter) Import(path string) (*types.Package, error) {
+	if orig, ok := im.standIns[path]; ok {
+		p := types.NewPackage(path, "standin")
+		for _, n := range im.named {
+			if n.Obj().Pkg().Path() == orig && n.Obj().Exported() {
+				tn := types.NewTypeName(token.NoPos, p, n.Obj().Name(), nil)
+				types.NewAlias(tn, n)
+				p.Scope().Insert(tn)
+			}
+		}
+		p.MarkComplete()
+		return p, nil
+	}
 	syms, ok := im.tables[path]
 	if !ok {
 		return nil, fmt.Errorf("package %q is not in the interpreter's symbol tables", path)

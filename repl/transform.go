@@ -28,10 +28,13 @@ const (
 // and the recorded line of a panic are the lines of the cell.
 type cellProgram struct {
 	imports []string // alias imports the hoisted declarations need, as import specs
-	decls   string   // package-level source: the cell's declarations and the hoisted variables ("" for none)
-	body    string   // the declaration of the body function
-	call    string   // the statement that runs the body
-	lines   int      // lines of the cell
+	// standIns are the stand-in packages (see symbolImporter.standIn)
+	// among the imports, which the interpreter must be given first
+	standIns []string
+	decls    string // package-level source: the cell's declarations and the hoisted variables ("" for none)
+	body     string // the declaration of the body function
+	call     string // the statement that runs the body
+	lines    int    // lines of the cell
 	// show is set when the cell ends in an expression whose values are
 	// shown: call when it is a call, errLast when its last value is an
 	// error (a nil error is not shown).
@@ -87,19 +90,24 @@ func (t *typeState) source(imports string, except map[string]bool) string {
 type typeCheckError struct {
 	line int
 	msg  string
+	// unwritable is set when the cell is valid Go but declares a variable
+	// of a type a script cannot name (from a package scripts cannot
+	// import), which cannot be hoisted.
+	unwritable bool
 }
 
 func (e *typeCheckError) Error() string { return fmt.Sprintf("line %d: %s", e.line, e.msg) }
 
 // interpreterMay reports whether the interpreter may still accept what
-// the type check refused: a composite literal that sets a promoted field
+// the type check refused: a variable of a type scripts cannot name, a
+// composite literal that sets a promoted field
 // (the older flat settings literals, which the interpreter fills in), or
 // a package member the symbol tables do not list (the interpreter has
 // the generic functions of slices and maps from their source). The cell
 // is then run as it is, and the type check's message reported only if
 // the interpreter refuses it too.
 func (e *typeCheckError) interpreterMay() bool {
-	return strings.HasPrefix(e.msg, "unknown field ") || qualifiedUndefinedRE.MatchString(e.msg)
+	return e.unwritable || strings.HasPrefix(e.msg, "unknown field ") || qualifiedUndefinedRE.MatchString(e.msg)
 }
 
 // qualifiedUndefinedRE matches the type check's message for a package
@@ -165,8 +173,16 @@ func transformCell(src string, number int, units []unit, imports []string, local
 		if n, ok := local[pkg.Path()]; ok {
 			return n
 		}
-		alias := "couplet_pkg_" + strings.NewReplacer("/", "_", ".", "_", "-", "_").Replace(pkg.Path())
-		spec := alias + " " + strconv.Quote(pkg.Path())
+		path := pkg.Path()
+		alias := "couplet_pkg_" + strings.NewReplacer("/", "_", ".", "_", "-", "_").Replace(path)
+		if !ts.im.importable(path) {
+			sp, name := ts.im.standIn(path)
+			if !contains(p.standIns, sp) {
+				p.standIns = append(p.standIns, sp)
+			}
+			path, alias = sp, name
+		}
+		spec := alias + " " + strconv.Quote(path)
 		if !contains(p.imports, spec) {
 			p.imports = append(p.imports, spec)
 		}
@@ -195,7 +211,7 @@ func transformCell(src string, number int, units []unit, imports []string, local
 					if v := hoist(info1, id, mainPkg, ts.im, qual); v != "" {
 						hoisted = append(hoisted, v)
 					} else if id.Name != "_" && info1.Defs[id] != nil {
-						return nil, &typeCheckError{line: fset.Position(id.Pos()).Line, msg: fmt.Sprintf("the type of %s cannot be written in a script (%s)", id.Name, info1.Defs[id].Type())}
+						return nil, &typeCheckError{line: fset.Position(id.Pos()).Line, msg: fmt.Sprintf("the type of %s cannot be written in a script (%s)", id.Name, info1.Defs[id].Type()), unwritable: true}
 					}
 				}
 			}
@@ -214,7 +230,7 @@ func transformCell(src string, number int, units []unit, imports []string, local
 					if v := hoist(info1, id, mainPkg, ts.im, qual); v != "" {
 						hoisted = append(hoisted, v)
 					} else if id.Name != "_" {
-						return nil, &typeCheckError{line: fset.Position(id.Pos()).Line, msg: fmt.Sprintf("the type of %s cannot be written in a script (%s)", id.Name, info1.Defs[id].Type())}
+						return nil, &typeCheckError{line: fset.Position(id.Pos()).Line, msg: fmt.Sprintf("the type of %s cannot be written in a script (%s)", id.Name, info1.Defs[id].Type()), unwritable: true}
 					}
 				}
 				var values []string
@@ -395,7 +411,7 @@ func nameable(t types.Type, main *types.Package, im *symbolImporter, seen map[ty
 		return nameable(types.Unalias(t), main, im, seen)
 	case *types.Named:
 		obj := t.Obj()
-		if obj.Pkg() != nil && obj.Pkg() != main && (!obj.Exported() || !im.importable(obj.Pkg().Path())) {
+		if obj.Pkg() != nil && obj.Pkg() != main && (!obj.Exported() || !im.importable(obj.Pkg().Path()) && im.reflectOf(t) == nil) {
 			return false
 		}
 		if obj.Parent() != nil && obj.Pkg() == main && obj.Parent() != main.Scope() {
