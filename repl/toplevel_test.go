@@ -52,7 +52,7 @@ func TestTopLevelIsOrdinaryGo(t *testing.T) {
 		{"a cell's type used inside an if body", []string{"type pt struct{ x, y float64 }\nif true {\n\tp := pt{1, 2}\n\tfmt.Println(p.x + p.y)\n}"}, "3\n"},
 		{"a function refers to a variable declared after it in the cell", []string{"func twice() int { return 2 * k }\nk := 21\ntwice()"}, "42\n"},
 		{"a variable's type changes in a later cell", []string{"x := 1", "x := \"one\"\nx + \"!\""}, "one!\n"},
-		{"a variable of a type from a package scripts cannot import", []string{"import \"couplet/optimizers/designmap\"\nsrc := designmap.RecordedFigures(designmap.Spec{X: \"z1\", Y: \"z2\"})\nif src != nil {\n\ta, b := 1, 2\n\tfmt.Println(a+b, src != nil)\n}", "src == nil"}, "3 true\nfalse\n"},
+		{"a variable of a type from a package scripts cannot import", []string{"import \"couplet/optimizers/designmap\"\nsrc := designmap.RecordedFigures(designmap.Spec{X: \"z1\", Y: \"z2\"})\nif src != nil {\n\ta, b := 1, 2\n\tfmt.Println(a+b, src != nil)\n}", "src == nil", "other := designmap.RecordedFigures(designmap.Spec{X: \"z2\", Y: \"z1\"})\nother == nil"}, "3 true\nfalse\nfalse\n"},
 		{"an older settings literal the interpreter accepts still runs", []string{"s := optimizers.NSGA2{Population: 28}\ns.Evolution.Population"}, "28\n"},
 	}
 	for _, tc := range tests {

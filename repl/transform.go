@@ -177,6 +177,9 @@ func transformCell(src string, number int, units []unit, imports []string, local
 		alias := "couplet_pkg_" + strings.NewReplacer("/", "_", ".", "_", "-", "_").Replace(path)
 		if !ts.im.importable(path) {
 			sp, name := ts.im.standIn(path)
+			if n, ok := local[sp]; ok {
+				return n
+			}
 			if !contains(p.standIns, sp) {
 				p.standIns = append(p.standIns, sp)
 			}
