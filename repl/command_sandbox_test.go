@@ -45,6 +45,33 @@ func TestCommandExpressionsAreSandboxed(t *testing.T) {
 	}
 }
 
+// serveInterrupted serves input to a new session that is interrupted
+// (twice, at once) when its output first holds word; it fails the test
+// if the session does not come back.
+func serveInterrupted(t *testing.T, opts Options, word, input string) (*interruptOn, *bytes.Buffer) {
+	t.Helper()
+	w := &interruptOn{word: word}
+	var errb bytes.Buffer
+	opts.Stdout, opts.Stderr = w, &errb
+	s, err := NewSession(opts)
+	if err != nil {
+		t.Fatal(err)
+	}
+	t.Cleanup(func() { s.Close() })
+	w.s = s
+	done := make(chan struct{})
+	go func() {
+		defer close(done)
+		serve(t, s, input)
+	}()
+	select {
+	case <-done:
+	case <-time.After(2 * time.Minute): // a guard against a hang, not a measure
+		t.Fatal("the endless loop was not stopped by Interrupt")
+	}
+	return w, &errb
+}
+
 // interruptOn interrupts a session (twice: at once) the first time what
 // it is written holds word.
 type interruptOn struct {
@@ -70,25 +97,9 @@ func (w *interruptOn) Write(p []byte) (int, error) {
 func TestCommandExpressionsCanBeInterrupted(t *testing.T) {
 	for _, cmd := range []string{"@coupling", "@report"} {
 		t.Run(cmd, func(t *testing.T) {
-			w := &interruptOn{word: "spinning"}
-			var errb bytes.Buffer
 			dir := t.TempDir()
-			s, err := NewSession(Options{Stdout: w, Stderr: &errb, OutDir: dir})
-			if err != nil {
-				t.Fatal(err)
-			}
-			defer s.Close()
-			w.s = s
-			done := make(chan struct{})
-			go func() {
-				defer close(done)
-				serve(t, s, "import (\n\"fmt\"\n\"couplet/mdo\"\n)\n"+cmd+` func() *mdo.System { fmt.Println("spinning"); for { } }()`+"\n6 * 7\n")
-			}()
-			select {
-			case <-done:
-			case <-time.After(2 * time.Minute): // a guard against a hang, not a measure
-				t.Fatal("the command's endless loop was not stopped by Interrupt")
-			}
+			w, errb := serveInterrupted(t, Options{OutDir: dir}, "spinning",
+				"import (\n\"fmt\"\n\"couplet/mdo\"\n)\n"+cmd+` func() *mdo.System { fmt.Println("spinning"); for { } }()`+"\n6 * 7\n")
 			if !strings.Contains(errb.String(), "stopped: interrupted (Ctrl-C)") {
 				t.Errorf("stderr %q, want the command stopped by the interrupt", errb.String())
 			}

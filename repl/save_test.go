@@ -4,6 +4,7 @@ import (
 	"context"
 	"os"
 	"path/filepath"
+	"slices"
 	"strings"
 	"testing"
 
@@ -13,9 +14,13 @@ import (
 // @save refuses a session whose cell was interrupted part-way: its replay
 // would run the optimiser to its end and give another result. The
 // message names the cell and the remedies, and no file is written; once
-// the cell has run again to its end, @save keeps the cells.
+// the cell has run again to its end, @save keeps the cells, and their
+// replay gives that run's result. The interrupt comes with the 4th
+// recorded evaluation (the recorder is called from the optimiser's
+// goroutine, one point at a time), so the study needs no slow analysis:
+// the test waits on no clock.
 func TestSaveRefusesAnInterruptedCell(t *testing.T) {
-	f, err := ReadStudy(filepath.Join("testdata", "slow_optimisation.study"))
+	f, err := ReadStudy(filepath.Join("testdata", "quick_optimisation.study"))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -46,10 +51,18 @@ func TestSaveRefusesAnInterruptedCell(t *testing.T) {
 	}
 	// run again to its end (no interrupt now), the cell replaces the
 	// interrupted one in the file
+	interrupted := s.Env().Published()[0]
+	if interrupted.Evaluations != 4 || interrupted.Stop != mdo.StopCancelled {
+		t.Fatalf("the interrupted run: %d evaluations, stop %v; want 4, cancelled", interrupted.Evaluations, interrupted.Stop)
+	}
 	rec.at = -1
 	s.Command(context.Background(), "@again 2")
 	if c := s.Cells()[2]; c.Err != nil || c.Interrupted {
 		t.Fatalf("@again 2: err %v interrupted %v", c.Err, c.Interrupted)
+	}
+	whole := s.Env().Published()[1]
+	if whole.Stop == mdo.StopCancelled || whole.Evaluations <= 4 {
+		t.Fatalf("the run to its end: %d evaluations, stop %v", whole.Evaluations, whole.Stop)
 	}
 	s.Command(context.Background(), "@save "+path)
 	saved, err := ReadStudy(path)
@@ -57,6 +70,17 @@ func TestSaveRefusesAnInterruptedCell(t *testing.T) {
 		t.Fatalf("%v (stderr %s)", err, errb)
 	}
 	if len(saved.Cells) != 2 || saved.Cells[1].Source != f.Cells[1].Source {
-		t.Errorf("saved %d cells, want cell 1 and the cell run to its end", len(saved.Cells))
+		t.Fatalf("saved %d cells, want cell 1 and the cell run to its end", len(saved.Cells))
+	}
+	// the saved file replays to the result of the run to its end
+	r, _, _ := newTest(t, Options{Recorder: func(*mdo.Study) (mdo.Recorder, error) { return &interruptingRecorder{at: -1}, nil }})
+	defer r.Close()
+	if err := r.Replay(context.Background(), saved, false); err != nil {
+		t.Fatal(err)
+	}
+	replayed := r.Env().Published()[0]
+	if replayed.Evaluations != whole.Evaluations || !slices.Equal(replayed.Best.Design, whole.Best.Design) || !slices.Equal(replayed.Best.Objectives, whole.Best.Objectives) {
+		t.Errorf("replay: %d evaluations, best %v %v; the run to its end: %d, %v %v",
+			replayed.Evaluations, replayed.Best.Design, replayed.Best.Objectives, whole.Evaluations, whole.Best.Design, whole.Best.Objectives)
 	}
 }

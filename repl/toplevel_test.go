@@ -143,3 +143,18 @@ func TestTrailingCallShowsItsError(t *testing.T) {
 		})
 	}
 }
+
+// A cell whose last line is a call that never returns is stopped by
+// Interrupt, the call runs once (the body function hands its value over
+// inside the cell, so the interpreter has no trailing call to run again
+// for its value), and the session goes on.
+func TestTrailingCallCanBeInterrupted(t *testing.T) {
+	w, errb := serveInterrupted(t, Options{}, "spinning", "calls := 0\nfunc spin() int {\n\tcalls++\n\tfmt.Println(\"spinning\")\n\tfor {\n\t}\n}\n\nspin()\n\n\ncalls * 42\n")
+	if !strings.Contains(errb.String(), "stopped: interrupted (Ctrl-C)") {
+		t.Errorf("stderr %q, want the cell stopped by the interrupt", errb.String())
+	}
+	// the call ran once: the session went on with calls at 1
+	if !strings.HasSuffix(w.buf.String(), "spinning\n42\n") {
+		t.Errorf("the session did not go on after one call: %q (stderr %q)", w.buf.String(), errb.String())
+	}
+}
