@@ -43,8 +43,8 @@ func CompareFlags(r *mdo.Result) []report.Flag {
 // PlanformOverlay draws the top-view outlines (fuselage, wing and
 // horizontal tail) of the best designs of the compared aircraft results,
 // one colour each, nose up, on one scale. Results without the aircraft
-// geometry outputs are left out with a note; with fewer than one aircraft
-// it draws nothing. Its signature is that of report.OverlaySource.
+// geometry outputs are left out with a note; without an aircraft result
+// it draws nothing and says nothing. Its signature is that of report.OverlaySource.
 func PlanformOverlay(_ context.Context, results []report.Compared) (figs []*plot.Figure, notes []string) {
 	type design struct {
 		label string

@@ -134,7 +134,7 @@ func Compare(ctx context.Context, results []Compared, opt CompareOptions) (*Comp
 	}
 	for _, r := range results {
 		if r.Result == nil {
-			c.Notes = append(c.Notes, fmt.Sprintf("%s: no plots (%s).", r.Label, r.Missing))
+			c.Notes = append(c.Notes, fmt.Sprintf("%s: no plots nor checklist flags, and units and relations unknown (%s).", r.Label, r.Missing))
 		}
 	}
 	c.Figures = append(c.Figures, drawn("overlay_history", "optimisation histories", func() (*plot.Figure, error) { return overlayHistory(results) }))

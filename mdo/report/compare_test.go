@@ -306,6 +306,31 @@ func TestReadComparedRefuses(t *testing.T) {
 	if got, want := labels(twice), []string{sub, sub + " (2)", other}; !slices.Equal(got, want) {
 		t.Errorf("labels %q, want %q", got, want)
 	}
+	// a result folder without its case store is compared from its
+	// summary, the plots and flags left out with a note
+	if err := os.Remove(filepath.Join(other, StoreFile)); err != nil {
+		t.Fatal(err)
+	}
+	bare, err := ReadCompared(sub, other)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if bare[1].Result != nil || !strings.Contains(bare[1].Missing, "no results.db") {
+		t.Errorf("the folder without a store: %+v", bare[1])
+	}
+	c, err := Compare(context.Background(), bare, CompareOptions{Flags: testFlags})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if x := cellOf(c, "design variables", "x"); len(x) != 2 || x[1].Text != x[0].Text || x[1].Absent {
+		t.Errorf("the x row from the summaries of one result twice: %+v", x)
+	}
+	if f := cellOf(c, "checklist flags (flags, not constraints)", "y1 below 10"); len(f) != 2 || !f[1].Absent {
+		t.Errorf("the flags of the folder without a store: %+v", f)
+	}
+	if !strings.Contains(c.String(), "note: "+other+": no plots nor checklist flags") {
+		t.Errorf("no note of the missing store:\n%s", c)
+	}
 	if _, err := Compare(context.Background(), nil, CompareOptions{}); err == nil {
 		t.Error("a comparison of no result was accepted")
 	}
