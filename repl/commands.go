@@ -30,6 +30,7 @@ func commands() []command {
 		{"again", "N", "run cell N again (as a new cell)", (*Session).cmdAgain},
 		{"save", "FILE", "save the successful cells as a study file (.study); refused while a cell was interrupted (Ctrl-C), whose replay would run to its end and give another result", (*Session).cmdSave},
 		{"replay", "FILE", "run the cells of a study file in this session", (*Session).cmdReplay},
+		{"restore", "", "after the interpreter died: run the kept cells that had run to their end again, in order, in the fresh interpreter, to bring back their variables", (*Session).cmdRestore},
 		{"coupling", "EXPR", "show the design structure matrix of a system (or of a study's system)", (*Session).cmdCoupling},
 		{"report", "EXPR", "write the report, plots and summary of a result into a new folder of its study's name under the output folder (--out); an earlier report is never overwritten", (*Session).cmdReport},
 		{"catalogue", "EXPR [PREFIX]", "list the variables of a system or study (unit, default, range, producer, consumers), those starting with PREFIX", (*Session).cmdCatalogue},
@@ -71,6 +72,12 @@ func HelpText() string {
 	fmt.Fprintf(&b, "couplet %s notebook: type Go; a cell runs when it is complete (two blank lines force it).\n", Version)
 	b.WriteString("The value of a trailing expression is shown. Ctrl-C stops the running cell (an optimiser\n")
 	b.WriteString("returns its best point so far); Tab completes package members and variables.\n\n")
+	b.WriteString("The couplet command runs the cells in an interpreter process of its own. If that process\n")
+	b.WriteString("dies (a panic in a goroutine, a stack overflow, memory past its cap, a kill), the session\n")
+	b.WriteString("says which cell and what ended it, writes the results published before (with --out), ends\n")
+	b.WriteString("the programs the cells started and starts a fresh interpreter that keeps the cells but not\n")
+	b.WriteString("their variables: @cells lists them, @save saves them, @again N runs one, @restore runs\n")
+	b.WriteString("again those that had run to their end.\n\n")
 	w := tabwriter.NewWriter(&b, 0, 0, 2, ' ', 0)
 	for _, c := range commands() {
 		fmt.Fprintf(w, "  %s%s %s\t%s\n", CommandPrefix, c.name, c.args, c.help)
@@ -230,6 +237,32 @@ func (s *Session) Replay(ctx context.Context, f *StudyFile, echo bool) error {
 		}
 	}
 	return nil
+}
+
+func (s *Session) cmdRestore(ctx context.Context, _ string) bool {
+	if len(s.unrestored) == 0 {
+		fmt.Fprintln(s.opts.Stdout, "nothing to restore: every cell ran in this interpreter")
+		return false
+	}
+	ran := 0
+	for _, c := range s.cells {
+		if !s.unrestored[c.Number] {
+			continue
+		}
+		delete(s.unrestored, c.Number)
+		if c.Err != nil || c.Interrupted {
+			continue // it is kept as it ended, and not run
+		}
+		fmt.Fprintf(s.opts.Stdout, "%s%s\n", Prompt(c.Number), strings.ReplaceAll(c.Source, "\n", "\n"+ContinuePrompt))
+		s.run(ctx, c)
+		if c.Err != nil || ctx.Err() != nil {
+			fmt.Fprintf(s.opts.Stderr, "%srestore stopped at cell %d; %srestore runs the cells after it\n", CommandPrefix, c.Number, CommandPrefix)
+			return false
+		}
+		ran++
+	}
+	fmt.Fprintf(s.opts.Stdout, "restored %d cells\n", ran)
+	return false
 }
 
 func (s *Session) cmdCoupling(ctx context.Context, arg string) bool {

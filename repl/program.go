@@ -68,6 +68,7 @@ func (s *Session) runProgram(ctx, hard context.Context, c *Cell, p *cellProgram)
 	}
 	if p.decls != "" {
 		s.errBuf.reset()
+		s.ranChunk(c, p.decls, 1)
 		_, err := s.it.EvalWithContext(hard, p.decls)
 		trace := s.errBuf.take()
 		s.forwardStderr(trace)
@@ -82,6 +83,7 @@ func (s *Session) runProgram(ctx, hard context.Context, c *Cell, p *cellProgram)
 		s.types.add(p.declared)
 	}
 	s.errBuf.reset()
+	s.ranChunk(c, p.body, 1)
 	if _, err := s.it.EvalWithContext(hard, p.body); err != nil {
 		s.forwardStderr(s.errBuf.take())
 		return false, s.cellError(c, whole, err, "")

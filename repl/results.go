@@ -363,6 +363,16 @@ func (o *RunOutputs) storeOf(r *mdo.Result) *store.Store {
 	return o.ended[r]
 }
 
+// StorePath returns the path of the case store that recorded the run of
+// r, or "" if none did (for the parent of an interpreter process, which
+// writes the result from it if the process dies).
+func (o *RunOutputs) StorePath(r *mdo.Result) string {
+	if st := o.storeOf(r); st != nil {
+		return st.Path()
+	}
+	return ""
+}
+
 // toolVersion names the program in the files it writes.
 func toolVersion() string { return "couplet " + Version }
 

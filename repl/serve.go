@@ -29,11 +29,28 @@ const ContinuePrompt = "  | "
 // quit command; Ctrl-C at an empty prompt twice in a row ends it too.
 // A cell is complete when Incomplete says so, or after two blank lines.
 func (s *Session) Serve(ctx context.Context, in LineReader) error {
+	return ServeLines(ctx, s, in, s.opts.Stderr)
+}
+
+// Runner runs the cells and commands ServeLines reads: a Session, or the
+// terminal side of a session whose interpreter runs in another process.
+type Runner interface {
+	// Exec runs one cell.
+	Exec(ctx context.Context, src string) *Cell
+	// Command runs a command line and reports whether to end the session.
+	Command(ctx context.Context, line string) (quit bool)
+	// NextNumber is the number of the next cell, for its prompt.
+	NextNumber() int
+}
+
+// ServeLines runs r on a stream of lines as Session.Serve does; its
+// remarks on the input (a discarded cell, how to leave) go to stderr.
+func ServeLines(ctx context.Context, r Runner, in LineReader, stderr io.Writer) error {
 	var buf strings.Builder
 	blank := 0
 	interrupted := false
 	for {
-		prompt := Prompt(s.next)
+		prompt := Prompt(r.NextNumber())
 		if buf.Len() > 0 {
 			prompt = ContinuePrompt
 		}
@@ -41,20 +58,20 @@ func (s *Session) Serve(ctx context.Context, in LineReader) error {
 		if errors.Is(err, ErrInterrupt) {
 			if buf.Len() > 0 {
 				buf.Reset()
-				fmt.Fprintln(s.opts.Stderr, "(input discarded)")
+				fmt.Fprintln(stderr, "(input discarded)")
 				continue
 			}
 			if interrupted {
 				return nil
 			}
 			interrupted = true
-			fmt.Fprintln(s.opts.Stderr, "(press Ctrl-C again to leave, or type @quit)")
+			fmt.Fprintln(stderr, "(press Ctrl-C again to leave, or type @quit)")
 			continue
 		}
 		interrupted = false
 		if errors.Is(err, io.EOF) {
 			if buf.Len() > 0 {
-				s.Exec(ctx, buf.String())
+				r.Exec(ctx, buf.String())
 			}
 			return nil
 		}
@@ -67,7 +84,7 @@ func (s *Session) Serve(ctx context.Context, in LineReader) error {
 				continue
 			}
 			if strings.HasPrefix(t, CommandPrefix) {
-				if quit := s.Command(ctx, t); quit {
+				if quit := r.Command(ctx, t); quit {
 					return nil
 				}
 				continue
@@ -83,7 +100,7 @@ func (s *Session) Serve(ctx context.Context, in LineReader) error {
 		if Incomplete(buf.String()) && blank < 2 {
 			continue
 		}
-		s.Exec(ctx, buf.String())
+		r.Exec(ctx, buf.String())
 		buf.Reset()
 		blank = 0
 	}

@@ -8,6 +8,7 @@ import (
 	"io"
 	"reflect"
 	"regexp"
+	"slices"
 	"strconv"
 	"strings"
 	"sync"
@@ -66,6 +67,21 @@ type Options struct {
 	// optimiser returning its best point) before the interpreter is
 	// stopped; default 2 s.
 	Grace time.Duration
+
+	// Kept, if not empty, are the cells of an earlier interpreter of this
+	// session, which died: the session starts with them as its history,
+	// under their numbers, without running them. @cells lists them,
+	// @save saves them, @again runs one, @restore runs those that had
+	// run to their end again, bringing back their variables.
+	Kept []*Cell
+	// OnCell, if not nil, is called when a cell starts (finished false)
+	// and when it has ended (finished true), with the cell.
+	OnCell func(c *Cell, finished bool)
+	// OnPanicLine, if not nil, is called, from the panicking goroutine,
+	// with the cell and line of each frame of a panic in a cell's code
+	// that can be placed, innermost first, as the panic unwinds (see
+	// placePanic).
+	OnPanicLine func(cell, line int)
 }
 
 // Cell is one executed cell of a session.
@@ -115,6 +131,11 @@ type Session struct {
 	types *typeState // the package-level names, for the type check of a cell
 	shown []any      // the values a cell's trailing expression handed over
 	show  bool       // set when the trailing expression was reached
+	// unrestored are the numbers of the Kept cells @restore has not run
+	unrestored map[int]bool
+	// ran are the chunks the cells ran, the last ranKept (guarded by mu),
+	// for OnPanicLine
+	ran []ranChunk
 }
 
 // NewSession starts a session with a fresh interpreter.
@@ -131,7 +152,7 @@ func NewSession(opts Options) (*Session, error) {
 	var lock *runfolder.Lock
 	if opts.Outputs == nil && opts.Recorder == nil && opts.OutDir != "" {
 		var err error
-		if lock, err = guardFolder(RunOptions{OutDir: opts.OutDir, Replace: opts.ReplaceOld}, "--replace clears its files first, or choose another folder"); err != nil {
+		if lock, err = GuardSessionFolder(opts.OutDir, opts.ReplaceOld); err != nil {
 			return nil, err
 		}
 		opts.Outputs = NewRunOutputs(opts.OutDir)
@@ -144,13 +165,34 @@ func NewSession(opts Options) (*Session, error) {
 		lock.Release()
 		return nil, err
 	}
+	s.keep(opts.Kept)
 	return s, nil
+}
+
+// GuardSessionFolder takes the lock of a session's output folder dir and
+// refuses a folder that holds another run, unless replace clears that
+// run's files first (a *UsageError). The caller releases the lock.
+func GuardSessionFolder(dir string, replace bool) (*runfolder.Lock, error) {
+	return guardFolder(RunOptions{OutDir: dir, Replace: replace}, "--replace clears its files first, or choose another folder")
+}
+
+// keep makes the cells of an earlier interpreter the session's history.
+func (s *Session) keep(cells []*Cell) {
+	if len(cells) == 0 {
+		return
+	}
+	s.unrestored = map[int]bool{}
+	for _, c := range cells {
+		s.cells = append(s.cells, c)
+		s.unrestored[c.Number] = true
+		s.next = max(s.next, c.Number+1)
+	}
 }
 
 // reset replaces the interpreter and forgets every cell.
 func (s *Session) reset() error {
 	s.out = &cellWriter{w: s.opts.Stdout}
-	s.errBuf = &lockedBuffer{}
+	s.errBuf = &lockedBuffer{onWrite: s.placePanic}
 	s.env = cell.NewEnv(cell.Host{
 		Context:  s.currentContext,
 		Seed:     s.opts.Seed,
@@ -196,6 +238,10 @@ func (s *Session) reset() error {
 	s.it = it
 	s.cells = nil
 	s.next = 1
+	s.unrestored = nil
+	s.mu.Lock()
+	s.ran = nil
+	s.mu.Unlock()
 	return s.importPrelude()
 }
 
@@ -254,7 +300,7 @@ func (s *Session) identity() string {
 			srcs = append(srcs, c.Source)
 		}
 	}
-	if s.current != nil {
+	if s.current != nil && !slices.Contains(s.cells, s.current) {
 		srcs = append(srcs, s.current.Source)
 	}
 	return FormatStudy(srcs)
@@ -296,6 +342,18 @@ func (s *Session) Interrupt() bool {
 func (s *Session) Exec(ctx context.Context, src string) *Cell {
 	c := &Cell{Number: s.next, Source: strings.TrimRight(src, "\n")}
 	s.next++
+	s.run(ctx, c)
+	s.cells = append(s.cells, c)
+	return c
+}
+
+// run runs cell c, a new one or a kept one run again in its place, and
+// records how it ended in it.
+func (s *Session) run(ctx context.Context, c *Cell) {
+	c.Err, c.Value, c.Interrupted = nil, nil, false
+	if s.opts.OnCell != nil {
+		s.opts.OnCell(c, false)
+	}
 	start := time.Now()
 	s.current = c
 	c.Err = s.exec(ctx, c)
@@ -303,11 +361,12 @@ func (s *Session) Exec(ctx context.Context, src string) *Cell {
 	c.Elapsed = time.Since(start)
 	s.opts.Progress.Close()
 	c.Output = s.out.take()
-	s.cells = append(s.cells, c)
 	if c.Err != nil && !s.opts.NoErrorEcho {
 		fmt.Fprintln(s.opts.Stderr, c.Err)
 	}
-	return c
+	if s.opts.OnCell != nil {
+		s.opts.OnCell(c, true)
+	}
 }
 
 // exec splits, checks and runs the chunks of a cell.
@@ -416,6 +475,7 @@ func (s *Session) runChunks(ctx, hard context.Context, c *Cell, chunks []chunk) 
 			src, newImports = fresh, keys
 		}
 		s.errBuf.reset()
+		s.ranChunk(c, src, ch.line)
 		v, err := s.it.EvalWithContext(hard, src)
 		if err == nil {
 			for _, k := range newImports {
@@ -708,9 +768,14 @@ func (c *cellWriter) take() string {
 type lockedBuffer struct {
 	mu  sync.Mutex
 	buf bytes.Buffer
+	// onWrite, if not nil, sees each write as it is made
+	onWrite func(string)
 }
 
 func (b *lockedBuffer) Write(p []byte) (int, error) {
+	if b.onWrite != nil {
+		b.onWrite(string(p))
+	}
 	b.mu.Lock()
 	defer b.mu.Unlock()
 	return b.buf.Write(p)

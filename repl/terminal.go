@@ -8,6 +8,7 @@ import (
 	"strings"
 
 	"github.com/chzyer/readline"
+	"github.com/traefik/yaegi/interp"
 
 	"couplet/repl/cell"
 	"couplet/repl/symbols"
@@ -20,13 +21,20 @@ type TermReader struct {
 	rl *readline.Instance
 }
 
-// NewTermReader opens the terminal for a session. historyFile may be ""
-// (no history kept between sessions).
-func NewTermReader(s *Session, historyFile string) (*TermReader, error) {
+// Completer completes the word that ends a line of input: a Session, or
+// Completions where the interpreter runs in another process.
+type Completer interface {
+	// Complete returns the whole words that complete the word ending text.
+	Complete(text string) []string
+}
+
+// NewTermReader opens the terminal for a session, completing with c.
+// historyFile may be "" (no history kept between sessions).
+func NewTermReader(c Completer, historyFile string) (*TermReader, error) {
 	rl, err := readline.NewEx(&readline.Config{
 		Prompt:          Prompt(1),
 		HistoryFile:     historyFile,
-		AutoComplete:    &completer{s: s},
+		AutoComplete:    &completer{c: c},
 		InterruptPrompt: "^C",
 		EOFPrompt:       "",
 	})
@@ -53,7 +61,7 @@ func (t *TermReader) ReadLine(prompt string) (string, error) {
 func (t *TermReader) Close() error { return t.rl.Close() }
 
 // completer completes commands, package members and session variables.
-type completer struct{ s *Session }
+type completer struct{ c Completer }
 
 // Do implements readline.AutoCompleter.
 func (c *completer) Do(line []rune, pos int) ([][]rune, int) {
@@ -62,7 +70,7 @@ func (c *completer) Do(line []rune, pos int) ([][]rune, int) {
 		// Tab at the start of a line indents it.
 		return [][]rune{[]rune("\t")}, 0
 	}
-	cands := c.s.Complete(head)
+	cands := c.c.Complete(head)
 	word := lastWord(head)
 	var out [][]rune
 	for _, k := range cands {
@@ -89,6 +97,47 @@ func lastWord(text string) string {
 // names after "@", members after "pkg.", and otherwise session variables
 // and package names. Each completion is the whole word.
 func (s *Session) Complete(text string) []string {
+	var names []string
+	for n := range s.Globals() {
+		names = append(names, n)
+	}
+	for _, c := range s.cells {
+		if c.Err == nil {
+			names = append(names, declaredNames(c.Source)...)
+		}
+	}
+	return tables{trusted: s.opts.Policy.Trusted, cell: s.env.Exports()}.complete(text, names)
+}
+
+// Completions completes as Session.Complete does without an interpreter:
+// the session's variables are the names its cells declare.
+type Completions struct {
+	// Policy is the session's sandbox policy (which packages complete).
+	Policy Policy
+	// Sources returns the sources of the cells that ran to their end.
+	Sources func() []string
+}
+
+// Complete implements Completer.
+func (c Completions) Complete(text string) []string {
+	var names []string
+	if c.Sources != nil {
+		for _, src := range c.Sources() {
+			names = append(names, declaredNames(src)...)
+		}
+	}
+	return tables{trusted: c.Policy.Trusted, cell: cell.NewEnv(cell.Host{}).Exports()}.complete(text, names)
+}
+
+// tables are the symbol tables a session's scripts see.
+type tables struct {
+	trusted bool
+	cell    interp.Exports // the cell package's
+}
+
+// complete returns the completions of the word that ends text, names
+// being the session's variables.
+func (t tables) complete(text string, names []string) []string {
 	word := lastWord(text)
 	var cands []string
 	switch {
@@ -98,19 +147,11 @@ func (s *Session) Complete(text string) []string {
 		}
 	case strings.Contains(word, "."):
 		pkg, _, _ := strings.Cut(word, ".")
-		for _, m := range s.members(pkg) {
+		for _, m := range t.members(pkg) {
 			cands = append(cands, pkg+"."+m)
 		}
 	default:
-		for n := range s.Globals() {
-			cands = append(cands, n)
-		}
-		for _, c := range s.cells {
-			if c.Err == nil {
-				cands = append(cands, declaredNames(c.Source)...)
-			}
-		}
-		cands = append(cands, s.packageNames()...)
+		cands = append(names, t.packageNames()...)
 	}
 	var out []string
 	seen := map[string]bool{}
@@ -125,21 +166,21 @@ func (s *Session) Complete(text string) []string {
 }
 
 // packageNames returns the names scripts refer to packages by.
-func (s *Session) packageNames() []string {
+func (t tables) packageNames() []string {
 	var out []string
-	for _, key := range s.tableKeys() {
+	for _, key := range t.keys() {
 		out = append(out, key[strings.LastIndex(key, "/")+1:])
 	}
 	return out
 }
 
-// tableKeys lists the "path/name" keys of the exposed tables.
-func (s *Session) tableKeys() []string {
+// keys lists the "path/name" keys of the exposed tables.
+func (t tables) keys() []string {
 	var keys []string
 	for k := range symbols.Symbols {
 		keys = append(keys, k)
 	}
-	if s.opts.Policy.Trusted {
+	if t.trusted {
 		for k := range trusted.Symbols {
 			keys = append(keys, k)
 		}
@@ -149,13 +190,13 @@ func (s *Session) tableKeys() []string {
 }
 
 // members returns the exported names of the package called name.
-func (s *Session) members(name string) []string {
+func (t tables) members(name string) []string {
 	var out []string
-	for _, key := range s.tableKeys() {
+	for _, key := range t.keys() {
 		if key[strings.LastIndex(key, "/")+1:] != name {
 			continue
 		}
-		for m := range s.tableOf(key) {
+		for m := range t.of(key) {
 			if !strings.HasPrefix(m, "_") {
 				out = append(out, m)
 			}
@@ -164,16 +205,16 @@ func (s *Session) members(name string) []string {
 	return out
 }
 
-// tableOf returns the symbols of one table key.
-func (s *Session) tableOf(key string) map[string]reflect.Value {
-	if t, ok := symbols.Symbols[key]; ok {
-		return t
+// of returns the symbols of one table key.
+func (t tables) of(key string) map[string]reflect.Value {
+	if tb, ok := symbols.Symbols[key]; ok {
+		return tb
 	}
-	if t, ok := trusted.Symbols[key]; ok && s.opts.Policy.Trusted {
-		return t
+	if tb, ok := trusted.Symbols[key]; ok && t.trusted {
+		return tb
 	}
 	if key == cell.ImportPath+"/cell" {
-		return s.env.Exports()[key]
+		return t.cell[key]
 	}
 	return nil
 }

@@ -23,15 +23,38 @@ const (
 	capEnv = "COUPLET_INTERPRETER_MEMORY"
 )
 
-// eventsFD is the descriptor on which the interpreter process writes its
-// events, one JSON message a line (cmd.ExtraFiles[0] of the parent).
-const eventsFD = 3
+// The descriptors the interpreter process shares with its parent beside
+// its standard ones (cmd.ExtraFiles of the parent, in this order).
+const (
+	// eventsFD is where it writes its events, one JSON message a line.
+	eventsFD = 3
+	// stderrFD is a session's error output (its standard error is kept
+	// for the Go runtime's report of a crash).
+	stderrFD = 4
+	// requestsFD is where a session's interpreter process reads the
+	// cells and commands to run, one JSON request a line.
+	requestsFD = 5
+)
 
 // message is one line of the interpreter process's events: a run event,
-// or its exit status (Kind "exit") as its last line.
+// or its exit status (Kind "exit") as its last line. The interpreter
+// process of a session sends more (see notebook_child.go): "ready" when
+// it can take requests, "accepted" as it takes one, "started" and
+// "ended" with the record of each cell, and "done" when a request is
+// done.
 type message struct {
 	repl.RunEvent
 	Code int `json:"code,omitempty"`
+	// Record is the cell that started or ended.
+	Record *cellRecord `json:"record,omitempty"`
+	// Out and ErrOut count the bytes written to the session's output and
+	// error output so far (the parent relays them when they are pipes).
+	Out    int64 `json:"out,omitempty"`
+	ErrOut int64 `json:"errout,omitempty"`
+	// Quit is set when the command done asks to end the session.
+	Quit bool `json:"quit,omitempty"`
+	// Next is the number the next cell will get.
+	Next int `json:"next,omitempty"`
 }
 
 // interpreterProcess reports whether this process is the interpreter
@@ -54,6 +77,11 @@ func interpreterProcess() (*events, bool) {
 	}
 	if c, err := strconv.ParseUint(capText, 10, 64); err == nil && c > 0 {
 		limitMemory(c)
+	}
+	// the programs the script starts do not inherit the descriptors
+	// shared with the parent (which would keep them open after a death)
+	for fd := eventsFD; fd <= requestsFD; fd++ {
+		syscall.CloseOnExec(fd)
 	}
 	return &events{w: os.NewFile(eventsFD, "couplet-events")}, true
 }

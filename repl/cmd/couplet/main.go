@@ -1,7 +1,7 @@
 // Command couplet is the notebook and headless runner of the couplet MDO
 // framework.
 //
-//	couplet [--out DIR [--replace]] [--seed N] [--trust-script]   interactive notebook session
+//	couplet [--out DIR [--replace]] [--seed N] [--memory-cap SIZE] [--trust-script]   interactive notebook session
 //	couplet run FILE.study --out DIR [--seed N] [--timeout D] [--memory-cap SIZE] [--trust-script] [--quiet] [--every-output] [--pick-up | --replace]
 //	couplet imports [--trust-script]                      list the importable packages
 //	couplet version
@@ -20,6 +20,12 @@
 // (default half of the machine's memory) ends that process, not the run;
 // the run then writes the output folder of the result published before,
 // read back from its case store, says what ended the process and exits 1.
+// The notebook session works the same way (notebook.go and
+// notebook_child.go): the terminal side stays in this process, the cells
+// run in an interpreter process, and when that dies the session says what
+// ended it, writes the results published before and goes on in a fresh
+// interpreter that keeps the cells. Programs the cells started end with
+// the interpreter process (leftovers.go).
 package main
 
 import (
@@ -31,6 +37,7 @@ import (
 	"os"
 	"os/signal"
 	"path/filepath"
+	"slices"
 	"strconv"
 	"strings"
 	"time"
@@ -72,7 +79,7 @@ func flagSet(name string, st *settings) *flag.FlagSet {
 	fs.BoolVar(&st.pickUp, "pick-up", false, "continue the results.db an interrupted run of the same study file and seed left in --out; any change to the file is refused (run only)")
 	fs.BoolVar(&st.replace, "replace", false, "clear every file of the run --out holds, then run afresh")
 	fs.BoolVar(&st.every, "every-output", false, "write every output of the analyses to evaluations.csv, not only the status, design, objectives, constraints and margins (run only; results.db keeps them all)")
-	fs.StringVar(&st.memory, "memory-cap", "", "memory cap of the process that runs the script, e.g. 512MiB or 4GiB; past it the process ends and what it published is written (run only; default half of the machine's memory)")
+	fs.StringVar(&st.memory, "memory-cap", "", "memory cap of the process that runs the script, e.g. 512MiB or 4GiB; past it the process ends and what it published is written (default half of the machine's memory)")
 	return fs
 }
 
@@ -122,8 +129,9 @@ func usage(w io.Writer) {
 	fmt.Fprintf(w, `couplet %s — multidisciplinary design optimisation notebook for conceptual aircraft design
 
 usage:
-  couplet [--out DIR [--replace]] [--seed N] [%s]
-                                                   interactive notebook session
+  couplet [--out DIR [--replace]] [--seed N] [--memory-cap SIZE] [%s]
+                                                   interactive notebook session, the cells in
+                                                   a process of their own
   couplet run FILE.study --out DIR [--seed N] [--timeout D] [--memory-cap SIZE] [%s] [--quiet] [--every-output] [--pick-up | --replace]
                                                    replay a saved study headless, the script in a
                                                    process of its own
@@ -335,39 +343,36 @@ func interactive(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		fmt.Fprintln(stderr, "couplet:", err)
 		return 2
 	}
-	term := isTerminal(stdin) && isTerminal(stdout)
-	opts := repl.Options{
-		Policy: st.policy(), Stdout: stdout, Stderr: stderr,
-		OutDir: st.out, Seed: seed, SeedSet: seedSet, ReplaceOld: st.replace,
-	}
-	if term {
-		opts.Progress = repl.NewProgress(stdout)
-	}
-	s, err := repl.NewSession(opts)
-	if err != nil {
-		fmt.Fprintln(stderr, "couplet:", err)
-		var ue *repl.UsageError
-		if errors.As(err, &ue) {
+	memCap := defaultMemoryCap()
+	if st.memory != "" {
+		if memCap, err = parseSize("--memory-cap", st.memory); err != nil {
+			fmt.Fprintln(stderr, "couplet:", err)
 			return 2
 		}
-		return 1
 	}
-	defer s.Close()
-	// Ctrl-C while a cell runs cancels the cell, never the session.
-	sig := make(chan os.Signal, 1)
-	signal.Notify(sig, os.Interrupt)
-	defer signal.Stop(sig)
-	go func() {
-		for range sig {
-			if s.Interrupt() {
-				fmt.Fprintln(stderr, "\n(cancelling the cell; Ctrl-C again stops it at once)")
-			}
+	if ev, child := interpreterProcess(); child {
+		return ev.exit(interpreterSession(ev, st, seed, seedSet))
+	}
+	if st.out != "" {
+		lock, err := repl.GuardSessionFolder(st.out, st.replace)
+		if err != nil {
+			fmt.Fprintln(stderr, "couplet:", err)
+			return 2
 		}
-	}()
+		defer lock.Release()
+	}
+	// the interpreter process takes the folder as it is now: cleared
+	// already if --replace asked for it
+	childArgs := slices.DeleteFunc(slices.Clone(args), func(a string) bool {
+		name, _, _ := strings.Cut(strings.TrimLeft(a, "-"), "=")
+		return strings.HasPrefix(a, "-") && name == "replace"
+	})
+	n := &notebook{st: st, args: childArgs, cap: memCap, stdout: stdout, stderr: stderr}
+	term := isTerminal(stdin) && isTerminal(stdout)
 	var in repl.LineReader
 	if term {
 		banner(stdout, st.trust)
-		tr, err := repl.NewTermReader(s, historyFile())
+		tr, err := repl.NewTermReader(repl.Completions{Policy: st.policy(), Sources: n.sources}, historyFile())
 		if err != nil {
 			fmt.Fprintln(stderr, "couplet:", err)
 			return 1
@@ -377,9 +382,5 @@ func interactive(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	} else {
 		in = repl.NewLineReader(stdin, nil)
 	}
-	if err := s.Serve(context.Background(), in); err != nil {
-		fmt.Fprintln(stderr, "couplet:", err)
-		return 1
-	}
-	return 0
+	return runNotebook(n, in)
 }

@@ -80,10 +80,7 @@ func (sv *supervisor) run() int {
 	cmd.Stdout = sv.stdout
 	cmd.Stderr = errW
 	cmd.ExtraFiles = []*os.File{evW}
-	// A process group of its own: Ctrl-C on the terminal reaches this
-	// process alone, which passes it on once; the interpreter process is
-	// killed when this one dies.
-	cmd.SysProcAttr = &syscall.SysProcAttr{Setpgid: true, Pdeathsig: syscall.SIGKILL}
+	cmd.SysProcAttr = interpreterAttr()
 	sigs := make(chan os.Signal, 4)
 	signal.Notify(sigs, os.Interrupt, syscall.SIGTERM)
 	defer signal.Stop(sigs)
@@ -118,6 +115,7 @@ func (sv *supervisor) run() int {
 	evR.Close()
 	errR.Close()
 
+	endLeftovers(cmd.Process.Pid)
 	sv.mu.Lock()
 	exited, code := sv.exited, sv.code
 	sv.mu.Unlock()
@@ -200,28 +198,9 @@ func (sv *supervisor) died(werr error, crash *crashWatch) int {
 	sv.mu.Lock()
 	cl, pub, ended := sv.cell, sv.published, sv.ended
 	sv.mu.Unlock()
-	cause := crash.cause()
-	var ee *exec.ExitError
-	switch {
-	case ended != "":
-		cause = ended
-	case cause != "":
-	case errors.As(werr, &ee):
-		if ws, ok := ee.Sys().(syscall.WaitStatus); ok && ws.Signaled() {
-			cause = "killed by signal " + ws.Signal().String()
-			if ws.Signal() == syscall.SIGKILL {
-				cause += " (the system may have run out of memory)"
-			}
-		} else {
-			cause = fmt.Sprintf("exit status %d without a word", ee.ExitCode())
-		}
-	case werr != nil:
-		cause = werr.Error()
-	default:
-		cause = "it ended without saying how the run ended"
-	}
-	if strings.Contains(cause, "out of memory") {
-		cause += fmt.Sprintf(" (its memory cap is %s; --memory-cap changes it)", formatSize(sv.cap))
+	cause := ended
+	if cause == "" {
+		cause = deathCause(werr, crash, sv.cap)
 	}
 	where := sv.opts.File
 	if cl.Cell > 0 {
@@ -251,6 +230,34 @@ func (sv *supervisor) died(werr error, crash *crashWatch) int {
 	last := pub[len(pub)-1]
 	fmt.Fprintf(sv.stderr, "couplet run: the results published before the death are written into %s; the last, of study %s published in cell %d, into %s\n", sv.opts.OutDir, last.Study, last.Cell, dir)
 	return 1
+}
+
+// deathCause says what ended an interpreter process that died, from its
+// wait error and the Go runtime's report kept from its standard error;
+// capBytes is its memory cap.
+func deathCause(werr error, crash *crashWatch, capBytes uint64) string {
+	cause := crash.cause()
+	var ee *exec.ExitError
+	switch {
+	case cause != "":
+	case errors.As(werr, &ee):
+		if ws, ok := ee.Sys().(syscall.WaitStatus); ok && ws.Signaled() {
+			cause = "killed by signal " + ws.Signal().String()
+			if ws.Signal() == syscall.SIGKILL {
+				cause += " (the system may have run out of memory)"
+			}
+		} else {
+			cause = fmt.Sprintf("exit status %d without a word", ee.ExitCode())
+		}
+	case werr != nil:
+		cause = werr.Error()
+	default:
+		cause = "it ended without saying how the run ended"
+	}
+	if strings.HasPrefix(cause, "fatal error: ") && strings.Contains(cause, "out of memory") {
+		cause += fmt.Sprintf(" (its memory cap is %s; --memory-cap changes it)", formatSize(capBytes))
+	}
+	return cause
 }
 
 // crashWatch passes the interpreter process's standard error on, until
