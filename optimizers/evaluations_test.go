@@ -73,6 +73,22 @@ func countRuns() []countRun {
 		countRun{"g09", G09, G09Optimum, 1e-6, true, Sextant{}, true},
 		countRun{"welded beam", WeldedBeam, WeldedBeamOptimum, 1e-6, true, Sextant{}, true},
 	)
+	// the evolutionary methods at their defaults on the welded beam (Deb,
+	// 2000; Coello, 2000) and the pressure vessel with thicknesses in
+	// sixteenths (Sandgren, 1990; Kannan & Kramer, 1994; f* as tabulated by
+	// Coello, 2000), reached when within 1 % (the issue asks it of the GA
+	// and the particle swarm)
+	for _, p := range []struct {
+		name  string
+		study func() (*mdo.Study, error)
+		want  float64
+	}{{"welded beam", WeldedBeam, WeldedBeamOptimum}, {"pressure vessel", PressureVessel, PressureVesselOptimum}} {
+		runs = append(runs,
+			countRun{p.name, p.study, p.want, 1e-2, true, GA{}, true},
+			countRun{p.name, p.study, p.want, 1e-2, true, DifferentialEvolution{}, true},
+			countRun{p.name, p.study, p.want, 1e-2, true, ParticleSwarm{}, true},
+		)
+	}
 	return runs
 }
 

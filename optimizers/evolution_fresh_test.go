@@ -33,7 +33,8 @@ func integerFront() (*mdo.Study, error) {
 // the population to collapse, every point asked for is analysed, so the
 // evaluations are the population times the generations plus one, with no
 // repeat. Before the rule, these runs asked for the repeats given beside
-// each row (measured with seed 1 on the code before the rule).
+// each row (measured with seed 1 on the code before the rule, whose
+// default populations and generations the rows set).
 func TestEvolutionAsksOnlyNewPoints(t *testing.T) {
 	tests := []struct {
 		name  string
@@ -42,13 +43,13 @@ func TestEvolutionAsksOnlyNewPoints(t *testing.T) {
 		n, g  int
 	}{
 		// before: 2 678 repeats of 16 080 points asked for
-		{"GA/pressure vessel", PressureVessel, GA{}, 80, 200},
+		{"GA/pressure vessel", PressureVessel, GA{Evolution: Evolution{Population: 80, Generations: 200}}, 80, 200},
 		// before: 23 repeats of 8 040
 		{"DE/pressure vessel", PressureVessel, DifferentialEvolution{}, 40, 200},
 		// before: 4 397 repeats of 24 040
-		{"PSO/pressure vessel, 600 generations", PressureVessel, ParticleSwarm{Evolution: Evolution{Generations: 600}}, 40, 600},
+		{"PSO/pressure vessel, 600 generations", PressureVessel, ParticleSwarm{Evolution: Evolution{Population: 40, Generations: 600}}, 40, 600},
 		// before: 984 repeats of 16 080
-		{"GA/welded beam", WeldedBeam, GA{}, 80, 200},
+		{"GA/welded beam", WeldedBeam, GA{Evolution: Evolution{Population: 80, Generations: 200}}, 80, 200},
 		// before: 402 repeats of 620
 		{"NSGA-II/integer front", integerFront, NSGA2{Evolution: Evolution{Population: 20, Generations: 30}}, 20, 30},
 		// before: 500 repeats of 620

@@ -13,7 +13,8 @@ type Evolution struct {
 	// default depends on the method and the number of variables (see the
 	// method).
 	Population int
-	// Generations after the first population; default 200.
+	// Generations after the first population; default 200 (100 for
+	// ParticleSwarm, and for GA without equality constraints).
 	Generations int
 	// MaxEvaluations caps the evaluations: analyses, plus points picked
 	// up from the store of an earlier session; repeats answered from the
@@ -35,8 +36,10 @@ func (b Evolution) validate(method string, minPopulation int) error {
 // EqualityHandling is the settings block of the equality-constraint
 // handling that the single-objective evolutionary methods (GA,
 // DifferentialEvolution, ParticleSwarm) embed: the gradient-based mutation
-// and the ε-level comparison of Takahama & Sakai (2006). It acts only in a
-// study with an equality constraint. Zero values take the defaults.
+// and the ε-level comparison of Takahama & Sakai (2006). It acts in a
+// study with an equality constraint; the ε level of GA and ParticleSwarm
+// also acts in a study with inequality constraints only. Zero values take
+// the defaults.
 type EqualityHandling struct {
 	// GradientRate is the probability that an infeasible offspring gets
 	// the gradient-based mutation (up to 3 forward-difference Newton
