@@ -22,7 +22,7 @@ type qpProblem struct {
 	G    *mat.Dense
 	h    []float64
 	tol  float64 // default 1e-11
-	iter int     // default 200
+	iter int     // default 1000
 }
 
 // qpSolution is the solution and its multipliers: y of the equalities,
@@ -71,7 +71,11 @@ func solveQP(p qpProblem) (qpSolution, error) {
 	}
 	maxIter := p.iter
 	if maxIter == 0 {
-		maxIter = 200
+		// Mehrotra's method mostly needs 10–30 iterations; the elastic
+		// subproblems of Sextant, whose slacks cost 1e4 against unit
+		// gradients, have needed more than 200 (Sellar IDF with its limit
+		// moved to 3.15)
+		maxIter = 1000
 	}
 	x := make([]float64, n)
 	y := make([]float64, me)

@@ -40,10 +40,18 @@ import (
 // FeasibilityTolerance and the optimality measure, the larger of the
 // projected gradient of the Lagrangian (with the subproblem's multipliers;
 // components pointing out of the box at an active bound do not count) and
-// the complementarity |λᵢcᵢ|, is at most OptimalityTolerance. The run also
-// stops, with mdo.StopConverged but Optimum.Converged false, when the line
-// search finds no decrease of the merit along the step: the search has
-// then reached the precision of the analysis and its derivatives.
+// the complementarity |λᵢcᵢ|, is at most OptimalityTolerance (and the
+// Evaluator finds the point feasible, or one more step was tried). When
+// the line search finds no decrease along a step whose model predicts one
+// within 10 trials, the objective or a constraint has a kink there (a
+// component sized to the larger of two requirements); the method then
+// goes on by gradient sampling (SQP-GS, Curtis & Overton 2012; see
+// sqp_sampling.go): the same test, with the Lagrangian's gradient from the
+// gradients sampled within a radius of the point, certifies the optimum
+// when the radius has come down to 1e-4 of the box (Optimum.Sampled). The
+// run also stops, with mdo.StopConverged but Optimum.Converged false, when
+// no sampled step decreases the merit either: the search has then reached
+// the precision of the analysis and its derivatives.
 //
 // Starts > 1 runs it again from Starts − 1 points of a scrambled Halton
 // sequence drawn from the study's seed (deterministic) and keeps the best
@@ -96,7 +104,12 @@ type Optimum struct {
 	Feasible  bool
 	// Converged is true when the convergence test was met (not a budget
 	// or iteration limit).
-	Converged  bool
+	Converged bool
+	// Sampled is true when the line search met a kink (or the precision
+	// of the analysis) and the start went on by gradient sampling
+	// (sqp_sampling.go): an optimum on a kink, such as one where two
+	// sizing requirements are equal.
+	Sampled    bool
 	Iterations int
 	// Optimality and Violation are the last measures of the test.
 	Optimality, Violation float64
@@ -390,12 +403,35 @@ func (s *sqp) run(x0 []float64) (*Optimum, mdo.StopReason, error) {
 	first := true
 	stop := mdo.StopIterations
 	var lam []float64
+	// eps is the radius of the gradient sampling (sqp_sampling.go), 0
+	// while the ordinary steps succeed
+	eps := 0.0
+	var rng *rand.Rand
+	polished := false
 	for it := 0; it < maxIter; it++ {
-		d, lamRows, lin, measure, err := s.subproblem(p, B)
+		var bundle []*sqpPoint
+		if eps > 0 {
+			if bundle, err = s.samples(p, eps, rng); err != nil {
+				st, err := stopOf(err)
+				s.fill(opt, p, lam)
+				return opt, st, err
+			}
+		}
+		subproblem := func() (d, lam []float64, model, lin, measure float64, err error) {
+			if eps > 0 {
+				return s.bundleSubproblem(p, bundle)
+			}
+			d, lam, lin, measure, err = s.subproblem(p, B)
+			if err == nil {
+				model = dot(p.g, d)
+			}
+			return d, lam, model, lin, measure, err
+		}
+		d, lamRows, model, lin, measure, err := subproblem()
 		if err != nil {
 			// restart the quasi-Newton model once and try again
 			resetHessian(B)
-			d, lamRows, lin, measure, err = s.subproblem(p, B)
+			d, lamRows, model, lin, measure, err = subproblem()
 		}
 		if err != nil {
 			return nil, mdo.NotStopped, err
@@ -404,10 +440,21 @@ func (s *sqp) run(x0 []float64) (*Optimum, mdo.StopReason, error) {
 		_, worst := s.violation(p.c)
 		opt.Iterations = it
 		opt.Optimality, opt.Violation = measure, worst
-		if worst <= feasTol && measure <= optTol {
-			stop = mdo.StopConverged
-			opt.Converged = true
-			break
+		// a point within the feasibility tolerance that the Evaluator
+		// finds infeasible (its limits hold only to rounding) takes the
+		// subproblem's step, which asks them to hold with a margin, once
+		polish := !p.ev.Feasible && !polished
+		if worst <= feasTol && measure <= optTol && polish {
+			polished = true
+		} else if worst <= feasTol && measure <= optTol {
+			if eps == 0 || eps <= gsRadiusMin {
+				stop = mdo.StopConverged
+				opt.Converged = true
+				break
+			}
+			// stationary to this radius: sample closer
+			eps /= 10
+			continue
 		}
 		for _, l := range lam {
 			// a multiplier at the elastic price belongs to a
@@ -418,7 +465,7 @@ func (s *sqp) run(x0 []float64) (*Optimum, mdo.StopReason, error) {
 		}
 		viol, _ := s.violation(p.c)
 		phi := p.f + nu*viol
-		dphi := dot(p.g, d) - nu*(viol-lin)
+		dphi := model - nu*(viol-lin)
 		if infNorm(d) <= 1e-15 {
 			stop = mdo.StopConverged
 			break
@@ -434,7 +481,15 @@ func (s *sqp) run(x0 []float64) (*Optimum, mdo.StopReason, error) {
 			qv, _ := s.violation(q.c)
 			return q.f+nu*qv <= phi+1e-4*alpha*math.Min(dphi, 0)
 		}
-		for ls := 0; ls < 40 && next == nil; ls++ {
+		// a model that predicts a decrease the function denies
+		// within maxBacktracks trials meets a kink: sample (see
+		// sqp_sampling.go); a step predicting none (the precision of the
+		// analysis) is searched to the end
+		limit := 40
+		if eps > 0 || dphi < 0 {
+			limit = maxBacktracks
+		}
+		for ls := 0; ls < limit && next == nil; ls++ {
 			u := boxStep(p.u, d, alpha)
 			if ls > 0 && infNorm(subv(u, p.u)) == 0 {
 				break
@@ -449,7 +504,7 @@ func (s *sqp) run(x0 []float64) (*Optimum, mdo.StopReason, error) {
 				next = q
 				break
 			}
-			if ls == 0 && q != nil {
+			if ls == 0 && q != nil && eps == 0 {
 				if dc := s.correction(p, q, d, lam); dc != nil {
 					qc, err := s.trial(boxStep(p.u, dc, 1))
 					if err != nil {
@@ -466,8 +521,22 @@ func (s *sqp) run(x0 []float64) (*Optimum, mdo.StopReason, error) {
 			alpha /= 2
 		}
 		if next == nil {
-			// no decrease along the step: the search has reached the
-			// precision of the analysis (Optimum.Converged stays false)
+			switch {
+			case eps == 0:
+				// a kink, or the precision of the analysis: sample the
+				// gradients around p
+				eps = gsRadius0
+				opt.Sampled = true
+				seed := s.r.ev.Seed()
+				rng = rand.New(rand.NewPCG(seed, mix(seed, 13)))
+				continue
+			case eps > gsRadiusMin:
+				eps /= 10
+				continue
+			}
+			// no decrease along the sampled step either: the search has
+			// reached the precision of the analysis (Optimum.Converged
+			// stays false)
 			stop = mdo.StopConverged
 			break
 		}
@@ -476,8 +545,10 @@ func (s *sqp) run(x0 []float64) (*Optimum, mdo.StopReason, error) {
 			s.fill(opt, p, lam)
 			return opt, st, err
 		}
-		s.update(B, p, next, lam, first)
-		first = false
+		if eps == 0 {
+			s.update(B, p, next, lam, first)
+			first = false
+		}
 		p = next
 		s.r.iteration()
 	}
@@ -500,6 +571,12 @@ func (s *sqp) run(x0 []float64) (*Optimum, mdo.StopReason, error) {
 	}
 	return opt, stop, nil
 }
+
+// maxBacktracks is the number of trial steps of a line search along a
+// step whose model predicts a decrease: the step is halved at most
+// maxBacktracks − 1 times (to 1/512) before the search samples the
+// gradients around the point (sqp_sampling.go).
+const maxBacktracks = 10
 
 // elasticPrice is ρ, the price per unit of violation of a linearised
 // constraint in the elastic subproblem (scaled units).
@@ -685,14 +762,7 @@ func (s *sqp) update(B *mat.Dense, p, q *sqpPoint, lam []float64, first bool) {
 // constraints at the step and the optimality measure at p.
 func (s *sqp) subproblem(p *sqpPoint, B *mat.Dense) (d, lam []float64, lin, measure float64, err error) {
 	n := len(p.u)
-	var ineq, eq []int
-	for i, row := range s.rows {
-		if row.eq {
-			eq = append(eq, i)
-		} else {
-			ineq = append(ineq, i)
-		}
-	}
+	ineq, eq := s.kinds()
 	mi, me := len(ineq), len(eq)
 	nv := n + mi + 2*me // d, v (ineq slacks), p, q (eq slacks)
 	rho := elasticPrice
@@ -719,31 +789,8 @@ func (s *sqp) subproblem(p *sqpPoint, B *mat.Dense) (d, lam []float64, lin, meas
 		h[row] = interior - p.c[i]
 		row++
 	}
-	for k := n; k < nv; k++ {
-		G.Set(row, k, 1)
-		row++
-	}
-	for j := 0; j < n; j++ {
-		G.Set(row, j, 1)
-		h[row] = -p.u[j]
-		G.Set(row+1, j, -1)
-		h[row+1] = p.u[j] - 1
-		row += 2
-	}
-	var A *mat.Dense
-	var b []float64
-	if me > 0 {
-		A = mat.NewDense(me, nv, nil)
-		b = make([]float64, me)
-		for a, i := range eq {
-			for j := 0; j < n; j++ {
-				A.Set(a, j, p.jc[i][j])
-			}
-			A.Set(a, n+mi+a, 1)
-			A.Set(a, n+mi+me+a, -1)
-			b[a] = -p.c[i]
-		}
-	}
+	elasticTail(G, h, row, n, nv, p.u)
+	A, b := s.equalityRows(p, eq, nv, n+mi, n+mi+me)
 	sol, err := solveQP(qpProblem{H: H, c: c, A: A, b: b, G: G, h: h})
 	if err != nil {
 		return nil, nil, 0, 0, fmt.Errorf("optimizers: Sextant: the quadratic subproblem at %v: %w", p.ev.Design, err)
@@ -761,18 +808,57 @@ func (s *sqp) subproblem(p *sqpPoint, B *mat.Dense) (d, lam []float64, lin, meas
 	}
 	// optimality: the projected gradient of the Lagrangian and the
 	// complementarity
-	gl := s.lagrangianGradient(p, lam)
-	for j, v := range gl {
-		// a bound the subproblem's step holds is active
-		if (p.u[j]+d[j] <= 1e-9 && v > 0) || (p.u[j]+d[j] >= 1-1e-9 && v < 0) {
-			continue
-		}
-		measure = math.Max(measure, math.Abs(v))
-	}
-	for _, i := range ineq {
-		measure = math.Max(measure, math.Abs(lam[i]*p.c[i]))
-	}
+	measure = s.optimality(p, d, s.lagrangianGradient(p, lam), lam, ineq)
 	return d, lam, lin, measure, nil
+}
+
+// kinds splits the rows into inequalities and equalities.
+func (s *sqp) kinds() (ineq, eq []int) {
+	for i, row := range s.rows {
+		if row.eq {
+			eq = append(eq, i)
+		} else {
+			ineq = append(ineq, i)
+		}
+	}
+	return ineq, eq
+}
+
+// elasticTail writes, from row on, the rows of the elastic slacks ≥ 0
+// (columns from to nv) and of the box 0 ≤ u + d ≤ 1 of the step (the
+// first len(u) columns).
+func elasticTail(G *mat.Dense, h []float64, row, from, nv int, u []float64) {
+	for k := from; k < nv; k++ {
+		G.Set(row, k, 1)
+		row++
+	}
+	for j := range u {
+		G.Set(row, j, 1)
+		h[row] = -u[j]
+		G.Set(row+1, j, -1)
+		h[row+1] = u[j] - 1
+		row += 2
+	}
+}
+
+// equalityRows are the linearised equalities ∇cₑᵀd + cₑ + pₑ − qₑ = 0 at
+// p, their slacks p and q in the columns ip+a and iq+a (nil when there are
+// none).
+func (s *sqp) equalityRows(p *sqpPoint, eq []int, nv, ip, iq int) (*mat.Dense, []float64) {
+	if len(eq) == 0 {
+		return nil, nil
+	}
+	A := mat.NewDense(len(eq), nv, nil)
+	b := make([]float64, len(eq))
+	for a, i := range eq {
+		for j := range p.u {
+			A.Set(a, j, p.jc[i][j])
+		}
+		A.Set(a, ip+a, 1)
+		A.Set(a, iq+a, -1)
+		b[a] = -p.c[i]
+	}
+	return A, b
 }
 
 // dot is the inner product.

@@ -47,7 +47,8 @@ func businessJetExample() (*mdo.Study, error) {
 // TestSextantBusinessJet: on the business-jet example, the gradient-based
 // method finds the minimum take-off mass within 0.1 % of the example's
 // gradient-free answer (Nelder–Mead with its 1 200 evaluations) with at
-// most a fifth of its analyses (the requirement).
+// most a fifth of its analyses (the requirement), ending on its
+// convergence test at a feasible point, with the sensitivity.
 func TestSextantBusinessJet(t *testing.T) {
 	if testing.Short() {
 		t.Skip("runs the example's Nelder–Mead search")
@@ -70,6 +71,18 @@ func TestSextantBusinessJet(t *testing.T) {
 	if !res.Feasible() || res.Objective() > nm.Objective()*1.001 {
 		t.Errorf("Sextant: %.8g kg (feasible %v), Nelder–Mead %.8g kg", res.Objective(), res.Feasible(), nm.Objective())
 	}
+	opt := rep.Optima[0]
+	if res.Stop != mdo.StopConverged || !opt.Converged || !opt.Feasible || res.Sensitivity == nil {
+		t.Errorf("Sextant: stopped %v, converged %v, feasible %v (optimality %.3g, violation %.3g), sensitivity %v",
+			res.Stop, opt.Converged, opt.Feasible, opt.Optimality, opt.Violation, res.Sensitivity)
+	}
+	// the optimum lies where the engines' take-off and cruise sizing
+	// requirements are equal (disciplines.Propulsion sizes them to the
+	// larger): a kink, which the gradient sampling resolves
+	if !opt.Sampled {
+		t.Errorf("the business jet's optimum was reached without sampling the gradients")
+	}
+	t.Log("\n" + res.Sensitivity.String())
 	if 5*res.Analyses > nm.Analyses {
 		t.Errorf("Sextant ran %d analyses, more than a fifth of Nelder–Mead's %d", res.Analyses, nm.Analyses)
 	}

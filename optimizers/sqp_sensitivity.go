@@ -29,7 +29,7 @@ func (s *sqp) sensitivity(p *sqpPoint, lam []float64) (*mdo.Sensitivity, error) 
 		case row.sign > 0:
 			bound = "lower"
 		}
-		l := mdo.LimitCost{Constraint: c.Name, Bound: bound, Limit: row.bound, Unit: s.unit(c.Name, c.Unit), Active: math.Abs(lam[i]) > 1e-12}
+		l := mdo.LimitCost{Constraint: c.Name, Bound: bound, Limit: row.bound, Unit: s.unit(c.Name, c.Unit), Active: math.Abs(lam[i]) > activeMultiplier}
 		if l.Active {
 			l.PerUnit = sense * s.fscale * lam[i] * row.sign / row.scale
 		}
@@ -56,3 +56,9 @@ func (s *sqp) unit(name, declared string) string {
 	}
 	return ""
 }
+
+// activeMultiplier is the smallest multiplier, in the scaled units of the
+// subproblem (objective over its starting magnitude, constraint over its
+// Scale), of an active limit: below it the multiplier is the rounding of
+// the subproblem's solution.
+const activeMultiplier = 1e-7

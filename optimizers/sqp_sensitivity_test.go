@@ -44,15 +44,25 @@ func TestLimitCostsAgainstReoptimisation(t *testing.T) {
 		study func() (*mdo.Study, error)
 		k     int // constraint
 		delta float64
+		slow  bool
 	}{
-		{"Sellar MDF, y1 >= 3.16", SellarMDF, 0, 0.01},
-		{"g06, g1 <= 0", G06, 0, 0.05},
-		{"g06, g2 <= 0", G06, 1, 0.05},
-		{"g09, g1 <= 0", G09, 0, 0.05},
-		{"welded beam, tau <= 13600", WeldedBeam, 0, 10},
+		{"Sellar MDF, y1 >= 3.16", SellarMDF, 0, 0.01, false},
+		{"Sellar IDF, y1 >= 3.16", SellarIDF, 0, 0.01, false},
+		{"g06, g1 <= 0", G06, 0, 0.05, false},
+		{"g06, g2 <= 0", G06, 1, 0.05, false},
+		{"g09, g1 <= 0", G09, 0, 0.05, false},
+		{"welded beam, tau <= 13600", WeldedBeam, 0, 10, false},
+		// the optimum on a kink of the engine sizing (see
+		// TestSextantBusinessJet); with the limit moved by ±0.002 the
+		// re-optimisation from the baseline ends elsewhere (35 247 kg, not
+		// converged), so δ is 0.0005
+		{"business jet, tail span ratio <= 0.6", businessJetExample, 6, 0.0005, true},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
+			if tc.slow && testing.Short() {
+				t.Skip("three runs of the business jet")
+			}
 			_, rep := optimumWith(t, tc.study, func(*mdo.Study) {}, Sextant{})
 			var cost *mdo.LimitCost
 			s, _ := tc.study()
