@@ -102,8 +102,9 @@ func TestAndersonDropsDependentDifferences(t *testing.T) {
 func TestClipIsMaxMin(t *testing.T) {
 	nan, inf := math.NaN(), math.Inf(1)
 	negZero := math.Copysign(0, -1)
-	xs := []float64{nan, inf, -inf, 0, negZero, 1, -1, 5, 1e300, -1e-300}
-	ranges := [][2]float64{{0, 1}, {-1, 1}, {-math.MaxFloat64, math.MaxFloat64}, {2, 1}, {0, 0}, {1, 5}, {-inf, inf}}
+	xs := []float64{nan, inf, -inf, 0, negZero, 1, -1, 2, 5, 1e300, -1e-300}
+	ranges := [][2]float64{{0, 1}, {-1, 1}, {-math.MaxFloat64, math.MaxFloat64}, {2, 1}, {0, 0}, {1, 5}, {-inf, inf},
+		{negZero, 0}, {negZero, negZero}, {0, negZero}, {-1, negZero}, {negZero, 1}}
 	for _, r := range ranges {
 		for _, x := range xs {
 			want := math.Max(r[0], math.Min(r[1], x))

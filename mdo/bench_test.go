@@ -16,24 +16,26 @@ func BenchmarkSellarMDA(b *testing.B) {
 	}
 }
 
-// sellarByHand is the floor of BenchmarkSellarOverhead: plain
-// Gauss–Seidel on the two Sellar equations (Sellar, Batill & Renaud,
-// 1996) written out, from y = (1, 1) at x = 1, z = (5, 2), until the
-// largest change of y1, y2 relative to max(1, |y|) is below tol. It
-// returns the state and the sweeps.
-func sellarByHand(tol float64) (y1, y2 float64, sweeps int) {
+// sellarByHand is the floor of BenchmarkSellarOverhead: the analysis the
+// framework runs on Sellar (Sellar, Batill & Renaud, 1996) written out.
+// Plain Gauss–Seidel on the two coupled equations from y = (1, 1) at
+// x = 1, z = (5, 2), until the largest change of y1, y2 in units of their
+// scale is at most tol (the framework's test: scale max(|default|, 1) = 1),
+// then the functions f, g1, g2 of sellar_functions. It returns them and
+// the sweeps.
+func sellarByHand(tol float64) (f, g1, g2 float64, sweeps int) {
 	x, z1, z2 := 1.0, 5.0, 2.0
-	y1, y2 = 1, 1
+	y1, y2 := 1.0, 1.0
 	for sweeps = 1; sweeps < 1000; sweeps++ {
 		n1 := z1*z1 + z2 + x - 0.2*y2
 		n2 := math.Sqrt(n1) + z1 + z2
-		d := math.Max(math.Abs(n1-y1)/math.Max(1, math.Abs(n1)), math.Abs(n2-y2)/math.Max(1, math.Abs(n2)))
+		d := math.Max(math.Abs(n1-y1), math.Abs(n2-y2))
 		y1, y2 = n1, n2
-		if d < tol {
+		if d <= tol {
 			break
 		}
 	}
-	return y1, y2, sweeps
+	return x*x + z2 + y1 + math.Exp(-y2), y1, y2, sweeps
 }
 
 // BenchmarkSellarOverhead runs the framework's plain Gauss–Seidel on
@@ -46,30 +48,35 @@ func BenchmarkSellarOverhead(b *testing.B) {
 	b.Run("by-hand", func(b *testing.B) {
 		b.ReportAllocs()
 		var sweeps int
-		var y float64
+		var sum float64
 		for b.Loop() {
-			var y1, y2 float64
-			y1, y2, sweeps = sellarByHand(tol)
-			y += y1 + y2
+			var f, g1, g2 float64
+			f, g1, g2, sweeps = sellarByHand(tol)
+			sum += f + g1 + g2
 		}
-		if math.IsNaN(y) {
+		if math.IsNaN(sum) {
 			b.Fatal("NaN")
 		}
 		b.ReportMetric(float64(sweeps), "iterations")
 	})
 }
 
+// sellarWorkspace returns a workspace of Sellar with solver m to tol.
+func sellarWorkspace(tb testing.TB, m Method, tol float64) *Workspace {
+	sys, err := NewSystem(Sellar()...)
+	if err != nil {
+		tb.Fatal(err)
+	}
+	if err := sys.SetSolver(SolverSettings{Method: m, Tolerance: tol}); err != nil {
+		tb.Fatal(err)
+	}
+	return sys.NewWorkspace()
+}
+
 // benchSellar measures converged Sellar analyses with solver m to tol
 // from the default start.
 func benchSellar(b *testing.B, m Method, tol float64) {
-	sys, err := NewSystem(Sellar()...)
-	if err != nil {
-		b.Fatal(err)
-	}
-	if err := sys.SetSolver(SolverSettings{Method: m, Tolerance: tol}); err != nil {
-		b.Fatal(err)
-	}
-	w := sys.NewWorkspace()
+	w := sellarWorkspace(b, m, tol)
 	ctx := context.Background()
 	b.ReportAllocs()
 	for b.Loop() {
@@ -78,4 +85,27 @@ func benchSellar(b *testing.B, m Method, tol float64) {
 		}
 	}
 	b.ReportMetric(float64(w.CouplingReports()[0].CouplingIterations), "iterations")
+}
+
+// TestSellarByHandIsTheFramework checks that the floor of
+// BenchmarkSellarOverhead computes what the framework computes: the same
+// f, g1, g2 to 1e-12 and the same number of sweeps.
+func TestSellarByHandIsTheFramework(t *testing.T) {
+	const tol = 1e-10
+	w := sellarWorkspace(t, GaussSeidel, tol)
+	if err := w.Analyze(context.Background()); err != nil {
+		t.Fatal(err)
+	}
+	f, g1, g2, sweeps := sellarByHand(tol)
+	for _, c := range []struct {
+		name string
+		hand float64
+	}{{"f", f}, {"g1", g1}, {"g2", g2}} {
+		if got := w.Get(c.name); math.Abs(got-c.hand) > 1e-12 {
+			t.Errorf("%s: framework %.15g, by hand %.15g", c.name, got, c.hand)
+		}
+	}
+	if it := w.CouplingReports()[0].CouplingIterations; it != sweeps {
+		t.Errorf("framework %d iterations, by hand %d sweeps", it, sweeps)
+	}
 }

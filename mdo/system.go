@@ -49,6 +49,7 @@ type group struct {
 	lo, hi         []float64
 	loDisc, hiDisc []int
 	names          []string
+	tearNames      []string // names of the coupling variables
 }
 
 // NewSystem builds a System from disciplines. Each variable must have
@@ -246,6 +247,7 @@ func (s *System) buildGroups() {
 			}
 			sort.Ints(gr.tear)
 			for _, v := range gr.tear {
+				gr.tearNames = append(gr.tearNames, s.vars.At(v).Name)
 				gr.scale = append(gr.scale, s.vars.At(v).scale())
 				lo, hi, ld, hd := -math.MaxFloat64, math.MaxFloat64, -1, -1
 				for _, d := range m {

@@ -24,6 +24,7 @@ type Workspace struct {
 	guess    []float64
 	inBuf    [][]float64
 	outBuf   [][]float64
+	plan     []discPlan // per discipline, what its run reads
 	settings []SolverSettings
 	reports  []CouplingReport
 	cnt      Counters
@@ -59,6 +60,8 @@ func (s *System) NewWorkspace() *Workspace {
 	for d := range s.discs {
 		w.inBuf = append(w.inBuf, make([]float64, len(s.inIdx[d])))
 		w.outBuf = append(w.outBuf, make([]float64, len(s.outIdx[d])))
+		w.plan = append(w.plan, discPlan{in: w.inBuf[d], out: w.outBuf[d], inIdx: s.inIdx[d], outIdx: s.outIdx[d],
+			lo: s.inLo[d], hi: s.inHi[d], loop: s.inLoop[d], loopIn: s.loopIn[d], fn: s.fns[d]})
 	}
 	maxTear := 0
 	for gi, g := range s.groups {
@@ -276,15 +279,29 @@ func (w *Workspace) ConsistencyResiduals(dst []float64) {
 	}
 }
 
+// discPlan gathers in one place what a run of one discipline reads: its
+// input and output buffers, the indices of its inputs and outputs in the
+// values, its inputs' ranges, the positions of its inputs produced inside
+// its own coupled group, and its computation (System.fns).
+type discPlan struct {
+	in, out       []float64
+	inIdx, outIdx []int
+	lo, hi        []float64
+	loop          []int
+	loopIn        []bool
+	fn            ComputeFunc
+}
+
 // gather copies discipline d's inputs into its buffer, checking ranges
 // (one comparison pair per input: NaN and ±Inf fail it too).
 func (w *Workspace) gather(d int) error {
-	in := w.inBuf[d]
-	lo, hi := w.sys.inLo[d], w.sys.inHi[d]
-	for k, v := range w.sys.inIdx[d] {
+	p := &w.plan[d]
+	in := p.in
+	lo, hi := p.lo[:len(in)], p.hi[:len(in)]
+	for k, v := range p.inIdx[:len(in)] {
 		x := w.val[v]
 		if !(x >= lo[k] && x <= hi[k]) {
-			if !w.solving || !w.sys.loopIn[d][k] || x != x {
+			if !w.solving || !p.loopIn[k] || x != x {
 				return w.inputError(d, k, x)
 			}
 			x = math.Max(lo[k], math.Min(hi[k], x))
@@ -298,9 +315,10 @@ func (w *Workspace) gather(d int) error {
 // coupled group; the others were gathered (and checked) by the group's
 // first sweep and cannot change while the group is solved.
 func (w *Workspace) gatherLoop(d int) error {
-	in := w.inBuf[d]
-	lo, hi, idx := w.sys.inLo[d], w.sys.inHi[d], w.sys.inIdx[d]
-	for _, k := range w.sys.inLoop[d] {
+	p := &w.plan[d]
+	in := p.in
+	lo, hi, idx := p.lo[:len(in)], p.hi[:len(in)], p.inIdx[:len(in)]
+	for _, k := range p.loop {
 		x := w.val[idx[k]]
 		if !(x >= lo[k] && x <= hi[k]) {
 			if !w.solving || x != x {
@@ -325,10 +343,11 @@ func (w *Workspace) inputError(d, k int, x float64) error {
 
 // compute runs discipline d on its gathered inputs into its output buffer.
 func (w *Workspace) compute(d int) error {
+	p := &w.plan[d]
 	w.cnt.DisciplineCalls++
 	w.cur = d
-	out := w.outBuf[d]
-	if err := w.sys.fns[d](w.inBuf[d], out); err != nil {
+	out := p.out
+	if err := p.fn(p.in, out); err != nil {
 		return w.disciplineError(d, err)
 	}
 	for k, x := range out {
@@ -341,8 +360,9 @@ func (w *Workspace) compute(d int) error {
 
 // scatter writes discipline d's output buffer into the values.
 func (w *Workspace) scatter(d int) {
-	out := w.outBuf[d]
-	for k, v := range w.sys.outIdx[d] {
+	p := &w.plan[d]
+	out := p.out
+	for k, v := range p.outIdx[:len(out)] {
 		w.val[v] = out[k]
 	}
 }
@@ -364,24 +384,25 @@ func (w *Workspace) run(d int) error {
 // first sweep of a solve gathers every input; later ones only those
 // produced inside the group.
 func (w *Workspace) sweep(g *group, jacobi, first bool) error {
-	gather := w.gatherLoop
-	if first {
-		gather = w.gather
-	}
 	if !jacobi {
+		if !first {
+			return w.sweepLoop(g)
+		}
 		for _, d := range g.discs {
-			if err := gather(d); err != nil {
+			if err := w.run(d); err != nil {
 				return err
 			}
-			if err := w.compute(d); err != nil {
-				return err
-			}
-			w.scatter(d)
 		}
 		return nil
 	}
 	for _, d := range g.discs {
-		if err := gather(d); err != nil {
+		var err error
+		if first {
+			err = w.gather(d)
+		} else {
+			err = w.gatherLoop(d)
+		}
+		if err != nil {
 			return err
 		}
 	}
@@ -396,19 +417,44 @@ func (w *Workspace) sweep(g *group, jacobi, first bool) error {
 	return nil
 }
 
-// clip returns math.Max(lo, math.Min(hi, x)), bit for bit (signed zeros
-// and NaN included, for bounds that are not −0), without the calls.
+// clip returns math.Max(lo, math.Min(hi, x)) bit for bit (NaN, infinities
+// and signed zeros included) with comparisons only, so that it inlines.
 func clip(x, lo, hi float64) float64 {
-	if x == 0 {
-		return math.Max(lo, math.Min(hi, x))
-	}
-	if x > hi {
+	if x > hi || (x == hi && math.Signbit(hi)) {
 		x = hi
 	}
-	if x < lo {
+	if x < lo || (x == lo && !math.Signbit(lo)) {
 		x = lo
 	}
 	return x
+}
+
+// sweepLoop is a Gauss–Seidel sweep after the first: gatherLoop, then
+// compute and scatter of each discipline of g written out in one loop (the
+// hot path of every fixed-point solver).
+func (w *Workspace) sweepLoop(g *group) error {
+	for _, d := range g.discs {
+		if err := w.gatherLoop(d); err != nil {
+			return err
+		}
+		p := &w.plan[d]
+		w.cnt.DisciplineCalls++
+		w.cur = d
+		// only w, p and d live across the call: Go saves no registers
+		if err := p.fn(p.in, p.out); err != nil {
+			return w.disciplineError(d, err)
+		}
+		out, val := p.out, w.val
+		for k, x := range out {
+			if x-x != 0 { // NaN or ±Inf: x − x is 0 for every finite x
+				return &NonFiniteError{Discipline: w.sys.discs[d].Name(), Var: w.sys.vars.At(w.sys.outIdx[d][k]).Name, Value: x}
+			}
+		}
+		for k, v := range p.outIdx[:len(out)] {
+			val[v] = out[k]
+		}
+	}
+	return nil
 }
 
 // divergeLimit is the scaled residual beyond which a group is declared
@@ -465,19 +511,24 @@ func (w *Workspace) solve(ctx context.Context, g *group, set SolverSettings, p s
 	damped := p.damped()
 	omega := set.Relaxation
 	w.and.reset()
+	// a context whose Done is nil can never be cancelled
+	cancellable := ctx.Done() != nil
+	tear, lo, hi := g.tear[:nt], g.lo[:nt], g.hi[:nt]
 	for it := 1; it <= set.MaxIterations; it++ {
-		if err := ctx.Err(); err != nil {
-			return fmt.Errorf("mdo: coupled group {%s} cancelled at iteration %d: %w", joinNames(g.names), it, err)
+		if cancellable {
+			if err := ctx.Err(); err != nil {
+				return fmt.Errorf("mdo: coupled group {%s} cancelled at iteration %d: %w", joinNames(g.names), it, err)
+			}
 		}
-		for k, v := range g.tear {
+		for k, v := range tear {
 			y[k] = w.val[v]
 		}
 		if err := w.sweep(g, jacobi, it == 1); err != nil {
 			return w.loopError(g, err, p)
 		}
 		norm := 0.0
-		for k, v := range g.tear {
-			gy[k] = clip(w.val[v], g.lo[k], g.hi[k])
+		for k, v := range tear {
+			gy[k] = clip(w.val[v], lo[k], hi[k])
 			r[k] = (gy[k] - y[k]) / scale[k]
 			if a := math.Abs(r[k]); a > norm || math.IsNaN(a) {
 				norm = a
@@ -532,7 +583,9 @@ func (w *Workspace) solve(ctx context.Context, g *group, set SolverSettings, p s
 				w.val[v] = clip(y[k]+omega*(gy[k]-y[k]), g.lo[k], g.hi[k])
 			}
 		}
-		copy(rPrev, r)
+		if aitken {
+			copy(rPrev, r)
+		}
 	}
 	w.fillWorst(g, r, rep)
 	if err := w.closure(g, p); err != nil {
@@ -607,7 +660,7 @@ func (w *Workspace) fillWorst(g *group, r []float64, rep *CouplingReport) {
 			}
 		}
 		used[n] = best
-		rep.Worst = append(rep.Worst, VarResidual{Name: w.sys.vars.At(g.tear[best]).Name, Residual: math.Abs(r[best])})
+		rep.Worst = append(rep.Worst, VarResidual{Name: g.tearNames[best], Residual: math.Abs(r[best])})
 	}
 }
 
