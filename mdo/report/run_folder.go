@@ -107,7 +107,7 @@ func WriteRun(ctx context.Context, dir string, run Run) ([]string, error) {
 			return files, fmt.Errorf("report: %w", err)
 		}
 		var b bytes.Buffer
-		if err := run.Store.WriteCSV(&b, store.CSVOptions{AllOutputs: run.AllOutputs}); err != nil {
+		if err := run.Store.WriteCSVOf(&b, evs, store.CSVOptions{AllOutputs: run.AllOutputs}); err != nil {
 			return files, fmt.Errorf("report: %w", err)
 		}
 		p := filepath.Join(dir, EvaluationsFile)

@@ -16,16 +16,7 @@ import (
 // writeCSV writes evaluations that need not be in a store with the
 // export's writer.
 func writeCSV(w *bytes.Buffer, c Columns, evs []*mdo.Evaluation) error {
-	x, err := newCSVWriter(w, c, CSVOptions{AllOutputs: true})
-	if err != nil {
-		return err
-	}
-	for _, e := range evs {
-		if err := x.write(e); err != nil {
-			return err
-		}
-	}
-	return x.flush()
+	return writeCSVOf(w, c, evs, CSVOptions{AllOutputs: true})
 }
 
 func TestCSVRoundTrip(t *testing.T) {
@@ -322,6 +313,43 @@ func TestCSVWithoutOutputs(t *testing.T) {
 		want.Outputs = nil
 		if f := sameEvaluation(e, &want); f != "" {
 			t.Errorf("row %d differs in %s", i, f)
+		}
+	}
+}
+
+// TestWriteCSVOfIsWriteCSV checks that the CSV of evaluations loaded once
+// (Evaluations, then WriteCSVOf) is byte for byte the CSV read from the
+// file (WriteCSV), with and without the output columns.
+func TestWriteCSVOfIsWriteCSV(t *testing.T) {
+	s, err := Create(filepath.Join(t.TempDir(), "r.db"), Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer s.Close()
+	if err := s.Begin(syntheticRun()); err != nil {
+		t.Fatal(err)
+	}
+	for i := 0; i < 5; i++ {
+		e := &mdo.Evaluation{}
+		syntheticEval(e, i)
+		if err := s.Record(e); err != nil {
+			t.Fatal(err)
+		}
+	}
+	evs, err := s.Evaluations()
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, opt := range []CSVOptions{{}, {AllOutputs: true}} {
+		var read, of bytes.Buffer
+		if err := s.WriteCSV(&read, opt); err != nil {
+			t.Fatal(err)
+		}
+		if err := s.WriteCSVOf(&of, evs, opt); err != nil {
+			t.Fatal(err)
+		}
+		if read.Len() == 0 || !bytes.Equal(read.Bytes(), of.Bytes()) {
+			t.Errorf("%+v: WriteCSVOf differs from WriteCSV:\n%s\n---\n%s", opt, of.String(), read.String())
 		}
 	}
 }
