@@ -76,3 +76,34 @@ err
 		t.Errorf("designs %v and %v", results[0].Summary.Best.Design, results[1].Summary.Best.Design)
 	}
 }
+
+// A study named like an earlier comparison gets a folder of its own: the
+// comparison's folder is never shared with a result's.
+func TestResultFolderSkipsAComparisonsFolder(t *testing.T) {
+	dir := t.TempDir()
+	s, out, errb := newTest(t, Options{OutDir: dir})
+	defer s.Close()
+	serve(t, s, `st, err := mdo.SellarStudy(mdo.MDF)
+cell.Attach(st)
+res, err := optimizers.RandomDesign{Samples: 4}.Minimize(cell.Context(), st)
+res2, err := optimizers.RandomDesign{Samples: 5}.Minimize(cell.Context(), st)
+cmp, err := cell.Compare("later", res, res2)
+later, err := mdo.SellarStudy(mdo.MDF)
+later.Name = "later"
+cell.Attach(later)
+res3, err := optimizers.RandomDesign{Samples: 3}.Minimize(cell.Context(), later)
+@report res3
+`)
+	if errb.Len() > 0 {
+		t.Fatalf("stderr: %s", errb)
+	}
+	if _, err := os.Stat(filepath.Join(dir, "later", report.ComparisonFile)); err != nil {
+		t.Fatalf("the comparison's page: %v\n%s", err, out)
+	}
+	if _, err := os.Stat(filepath.Join(dir, "later", report.ReportFile)); err == nil {
+		t.Errorf("the study's report went into the comparison's folder:\n%s", out)
+	}
+	if _, err := os.Stat(filepath.Join(dir, "later-2", report.ReportFile)); err != nil {
+		t.Errorf("the study's report is not in later-2: %v\n%s", err, out)
+	}
+}

@@ -14,6 +14,7 @@ import (
 	"couplet/disciplines/drawings"
 	"couplet/mdo"
 	"couplet/mdo/report"
+	"couplet/mdo/runfolder"
 	"couplet/mdo/store"
 )
 
@@ -98,9 +99,9 @@ func (o *RunOutputs) nextPath(study string) (string, error) {
 
 // newFolder takes the next free result folder of a study's name in the
 // output folder and creates it: the name itself, then NAME-2, NAME-3...
-// A name taken in this session, or held by a file or a symbolic link,
-// is skipped; a folder left by an earlier run (picked up or cleared)
-// is used again. The caller holds o.mu.
+// A name taken in this session, held by a file or a symbolic link, or
+// by a comparison's folder (cell.Compare), is skipped; a folder left by
+// an earlier run (picked up or cleared) is used again. The caller holds o.mu.
 func (o *RunOutputs) newFolder(study string) (string, error) {
 	base := FolderName(study)
 	for i := 1; ; i++ {
@@ -114,6 +115,9 @@ func (o *RunOutputs) newFolder(study string) (string, error) {
 		p := filepath.Join(o.dir, name)
 		if fi, err := os.Lstat(p); err == nil && !fi.IsDir() {
 			continue
+		}
+		if _, err := os.Lstat(filepath.Join(p, runfolder.ComparisonFile)); err == nil {
+			continue // a comparison's folder (cell.Compare), not a result's
 		}
 		if err := os.MkdirAll(p, 0o755); err != nil {
 			return "", fmt.Errorf("repl: creating the result folder: %w", err)
