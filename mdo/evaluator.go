@@ -415,7 +415,7 @@ func (e *Evaluator) Evaluate(ctx context.Context, xs [][]float64) ([]*Evaluation
 		fresh[i] = ev
 		todo = append(todo, i)
 	}
-	cancelled := e.runPool(ctx, todo, fresh)
+	cancelled, derr := e.dispatch(ctx, todo, fresh)
 	var misnamed error
 	for i := range xs {
 		switch {
@@ -440,6 +440,9 @@ func (e *Evaluator) Evaluate(ctx context.Context, xs [][]float64) ([]*Evaluation
 	}
 	if err := ctx.Err(); err != nil {
 		return out, err
+	}
+	if derr != nil {
+		return out, derr
 	}
 	if misnamed != nil {
 		return out, misnamed

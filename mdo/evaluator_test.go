@@ -25,15 +25,7 @@ func randomPoints(n, dim int, seed uint64) [][]float64 {
 
 func TestEvaluatorWorkersIdentical(t *testing.T) {
 	run := func(workers int) []*Evaluation {
-		st, err := SellarStudy(MDF)
-		if err != nil {
-			t.Fatal(err)
-		}
-		st.Workers = workers
-		ev, err := st.NewEvaluator()
-		if err != nil {
-			t.Fatal(err)
-		}
+		ev := sellarEvaluator(t, MDF, workers)
 		xs := randomPoints(64, 3, 7)
 		xs = append(xs, xs[3]) // a repeat, answered by the cache
 		out, err := ev.Evaluate(context.Background(), xs)
