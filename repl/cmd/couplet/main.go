@@ -62,6 +62,8 @@ type settings struct {
 	// programs are the external programs approved with --allow-program.
 	programs pathList
 	memory   string
+	// spread are the flags that spread the analyses over workers.
+	spread spreadSettings
 }
 
 // errHelp is returned by parse when the flags ask for the usage.
@@ -79,6 +81,7 @@ func flagSet(name string, st *settings) *flag.FlagSet {
 	fs.BoolVar(&st.pickUp, "pick-up", false, "continue the results.db an interrupted run of the same study file and seed left in --out; any change to the file is refused (run only)")
 	fs.BoolVar(&st.replace, "replace", false, "clear every file of the run --out holds, then run afresh")
 	fs.BoolVar(&st.every, "every-output", false, "write every output of the analyses to evaluations.csv, not only the status, design, objectives, constraints and margins (run only; results.db keeps them all)")
+	spreadFlags(fs, &st.spread)
 	fs.StringVar(&st.memory, "memory-cap", "", "memory cap of the process that runs the script, e.g. 512MiB or 4GiB; past it the process ends and what it published is written (default half of the machine's memory)")
 	return fs
 }
@@ -133,8 +136,14 @@ usage:
                                                    interactive notebook session, the cells in
                                                    a process of their own
   couplet run FILE.study --out DIR [--seed N] [--timeout D] [--memory-cap SIZE] [%s] [--quiet] [--every-output] [--pick-up | --replace]
+              [--workers-on URL [--cluster-token TOKEN | --cluster-creds FILE] | --local-workers N] [--redeliver-after D]
                                                    replay a saved study headless, the script in a
-                                                   process of its own
+                                                   process of its own, its analyses on workers if asked
+  couplet worker --connect URL [--cluster-token TOKEN | --cluster-creds FILE] [--name NAME] [--workspace DIR] [--parallel N] [--verbose]
+                                                   answer the analyses of the runs on a cluster
+                                                   (couplet worker --help lists its flags)
+  couplet hub [--listen HOST:PORT] [--cluster-token TOKEN] [--store DIR]
+                                                   a JetStream server for workers on other machines
   couplet imports [%s]                    list the packages a script may import
   couplet vars [--prefix P] [--markdown]           list the aircraft model's variables
   couplet compare FOLDER... [--out DIR [--replace]]
@@ -160,6 +169,8 @@ flags:
 			arg = " PATH"
 		case "memory-cap":
 			arg = " SIZE"
+		default:
+			arg = spreadArg(f.Name)
 		}
 		fmt.Fprintf(w, "  --%-16s %s\n", f.Name+arg, f.Usage)
 	})
@@ -208,6 +219,10 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		return repl.VarsCommand(args, stdout, stderr)
 	case "compare":
 		return compareCommand(context.Background(), args, stdout, stderr)
+	case "worker":
+		return workerCommand(args, stdout, stderr)
+	case "hub":
+		return hubCommand(args, stdout, stderr)
 	case "version":
 		fmt.Fprintf(stdout, "couplet %s\n", repl.Version)
 		return 0
@@ -242,6 +257,9 @@ func replay(args []string, stdout, stderr io.Writer) int {
 		return 2
 	}
 	seed, seedSet, err := st.seedOf()
+	if err == nil {
+		err = st.spread.check()
+	}
 	if err != nil {
 		fmt.Fprintln(stderr, "couplet run:", err)
 		return 2
@@ -267,17 +285,23 @@ func replay(args []string, stdout, stderr io.Writer) int {
 		return sv.run()
 	}
 	opts.Guarded, opts.Watch = true, ev.watch
-	return ev.exit(interpret(opts, pos[0], st.out, stdout, stderr))
+	return ev.exit(interpret(opts, &st.spread, pos[0], st.out, stdout, stderr))
 }
 
 // interpret runs the script in the interpreter process and returns the
 // exit status.
-func interpret(opts repl.RunOptions, file, out string, stdout, stderr io.Writer) int {
+func interpret(opts repl.RunOptions, sp *spreadSettings, file, out string, stdout, stderr io.Writer) int {
 	if isTerminal(stdout) {
 		opts.Progress = repl.NewProgress(stdout)
 	}
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt)
 	defer stop()
+	ctx, release, err := sp.start(ctx, opts, stderr)
+	if err != nil {
+		fmt.Fprintln(stderr, "couplet run:", err)
+		return 1
+	}
+	defer release()
 	rec, err := repl.Run(ctx, opts)
 	if err != nil {
 		fmt.Fprintln(stderr, "couplet run:", err)
