@@ -193,12 +193,20 @@ func (c *Coordinator) Dispatch(ctx context.Context, b *mdo.Batch) error {
 			return ctx.Err()
 		}
 	}
+	// a run whose workers are all gone (or never came) says so
+	quiet := 2 * c.info.AckWait
+	timer := time.NewTimer(quiet)
+	defer timer.Stop()
 	for b.Left() > 0 {
 		select {
 		case <-ctx.Done():
 			c.dropWork()
 			return ctx.Err()
+		case <-timer.C:
+			fmt.Fprintf(c.log, "couplet run: no worker has answered for %v: %d of the %d analyses of batch %d wait (start `couplet worker --connect URL` where the server can be reached)\n", quiet, b.Left(), b.Len(), batch)
+			timer.Reset(quiet)
 		case r := <-c.replies:
+			timer.Reset(quiet)
 			if r.Batch != batch {
 				continue // a late answer to a batch cut short
 			}

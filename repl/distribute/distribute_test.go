@@ -123,12 +123,7 @@ func startWorker(t *testing.T, h *Hub, cfg WorkerConfig) {
 // returns the published result.
 func runScript(ctx context.Context, t *testing.T, text string) *mdo.Result {
 	t.Helper()
-	dir := t.TempDir()
-	file := filepath.Join(dir, "study.study")
-	if err := os.WriteFile(file, []byte(text), 0o644); err != nil {
-		t.Fatal(err)
-	}
-	rec, err := repl.Run(ctx, repl.RunOptions{File: file, OutDir: filepath.Join(dir, "out")})
+	rec, err := repl.Run(ctx, repl.RunOptions{File: writeStudy(t, text), OutDir: t.TempDir()})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -136,6 +131,16 @@ func runScript(ctx context.Context, t *testing.T, text string) *mdo.Result {
 		t.Fatal("the run published no best point")
 	}
 	return rec.Result
+}
+
+// writeStudy writes a study file for a test.
+func writeStudy(t *testing.T, text string) string {
+	t.Helper()
+	file := filepath.Join(t.TempDir(), "study.study")
+	if err := os.WriteFile(file, []byte(text), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	return file
 }
 
 // coordinate makes a Coordinator of text on the hub.
@@ -231,7 +236,21 @@ func TestWorkerRefusesAnotherBuild(t *testing.T) {
 	co := coordinate(t, h, gaScript, time.Second, log)
 	startWorker(t, h, WorkerConfig{Name: "old", Build: "another-build"})
 	log.waitFor(ctx, t, `couplet run: worker old: refused: another build of couplet; the coordinator runs "test-build", this worker "another-build"`)
-	_ = co
+	// with no worker to answer, the run says so until it is stopped
+	runCtx, stop := context.WithCancel(ctx)
+	ended := make(chan error, 1)
+	var rec *repl.RunRecord
+	go func() {
+		var err error
+		rec, err = repl.Run(mdo.WithDispatcher(runCtx, co), repl.RunOptions{File: writeStudy(t, gaScript), OutDir: t.TempDir()})
+		ended <- err
+	}()
+	log.waitFor(ctx, t, "couplet run: no worker has answered for 2s: 12 of the 12 analyses of batch 1 wait")
+	stop()
+	// the GA comes back from a cancelled batch with what it has: nothing
+	if err := <-ended; err == nil && (rec.Result == nil || rec.Result.Evaluations != 0) {
+		t.Errorf("the stopped run: %+v", rec.Result)
+	}
 }
 
 func TestWorkerRefusesAScriptItCannotRun(t *testing.T) {

@@ -204,6 +204,7 @@ func (w *worker) serveRun(ctx context.Context, info runInfo) {
 	}
 	wg.Wait()
 	cancel(errRunOver)
+	st.acks.Wait()
 	<-ended
 	w.logf("worker %s: run %s: done (%d answered)", w.cfg.Name, run, st.answered)
 }
@@ -215,6 +216,7 @@ type runState struct {
 	a        *mdo.Analyst
 	print    string
 	cancel   context.CancelCauseFunc
+	acks     sync.WaitGroup // acknowledgements waiting for their result to be stored
 	mu       sync.Mutex
 	answered int
 }
@@ -296,22 +298,38 @@ func (st *runState) handle(ctx context.Context, m jetstream.Msg) {
 		}
 	}
 	data, err := encode(rep)
+	var stored jetstream.PubAckFuture
 	if err == nil {
-		_, err = w.conn.js.Publish(ctx, resultPrefix+run, data, jetstream.WithMsgID(msgID(run, req.Batch, req.Index)))
+		stored, err = w.conn.js.PublishAsync(resultPrefix+run, data, jetstream.WithMsgID(msgID(run, req.Batch, req.Index)))
 	}
 	if err != nil {
-		if ctx.Err() == nil {
-			w.logf("worker %s: run %s: publishing the result of request %s: %v", w.cfg.Name, run, id, err)
-		}
+		w.logf("worker %s: run %s: publishing the result of request %s: %v", w.cfg.Name, run, id, err)
 		_ = m.Nak()
 		return
 	}
-	_ = m.Ack()
-	st.mu.Lock()
-	st.answered++
-	n := st.answered
-	st.mu.Unlock()
-	if w.cfg.Verbose {
-		w.logf("worker %s: answered request %s (%d answered)", w.cfg.Name, id, n)
-	}
+	// the request is acknowledged once the server has stored its result;
+	// meanwhile the next request is fetched
+	st.acks.Add(1)
+	go func() {
+		defer st.acks.Done()
+		select {
+		case <-stored.Ok():
+			_ = m.Ack()
+		case err := <-stored.Err():
+			if ctx.Err() == nil {
+				w.logf("worker %s: run %s: the server did not store the result of request %s: %v", w.cfg.Name, run, id, err)
+			}
+			_ = m.Nak()
+			return
+		case <-ctx.Done():
+			return // handed out again when the deadline passes; a second result is dropped
+		}
+		st.mu.Lock()
+		st.answered++
+		n := st.answered
+		st.mu.Unlock()
+		if w.cfg.Verbose {
+			w.logf("worker %s: answered request %s (%d answered)", w.cfg.Name, id, n)
+		}
+	}()
 }
