@@ -3,6 +3,7 @@
 package symbols
 
 import (
+	"context"
 	"couplet/mdo"
 	"go/constant"
 	"go/token"
@@ -30,6 +31,7 @@ func init() {
 		"DefaultSolver":       reflect.ValueOf(mdo.DefaultSolver),
 		"DirectMode":          reflect.ValueOf(mdo.DirectMode),
 		"DisciplineFailed":    reflect.ValueOf(mdo.DisciplineFailed),
+		"DispatcherOf":        reflect.ValueOf(mdo.DispatcherOf),
 		"DoesNotClose":        reflect.ValueOf(mdo.DoesNotClose),
 		"Dominates":           reflect.ValueOf(mdo.Dominates),
 		"Equal":               reflect.ValueOf(mdo.Equal),
@@ -78,9 +80,14 @@ func init() {
 		"StopDeadline":        reflect.ValueOf(mdo.StopDeadline),
 		"StopIterations":      reflect.ValueOf(mdo.StopIterations),
 		"SurrogateCaution":    reflect.ValueOf(constant.MakeFromLiteral("\"a surrogate's number is an estimate of the analysis it was fitted to: confirm a design found on it with the true analysis\"", token.STRING, 0)),
+		"WithDispatcher":      reflect.ValueOf(mdo.WithDispatcher),
 		"WithPartials":        reflect.ValueOf(mdo.WithPartials),
 
 		// type definitions
+		"AnalysisRequest":        reflect.ValueOf((*mdo.AnalysisRequest)(nil)),
+		"AnalysisResult":         reflect.ValueOf((*mdo.AnalysisResult)(nil)),
+		"Analyst":                reflect.ValueOf((*mdo.Analyst)(nil)),
+		"Batch":                  reflect.ValueOf((*mdo.Batch)(nil)),
 		"BranchError":            reflect.ValueOf((*mdo.BranchError)(nil)),
 		"CatalogueEntry":         reflect.ValueOf((*mdo.CatalogueEntry)(nil)),
 		"ComputeFunc":            reflect.ValueOf((*mdo.ComputeFunc)(nil)),
@@ -96,6 +103,7 @@ func init() {
 		"Differentiable":         reflect.ValueOf((*mdo.Differentiable)(nil)),
 		"Discipline":             reflect.ValueOf((*mdo.Discipline)(nil)),
 		"DisciplineError":        reflect.ValueOf((*mdo.DisciplineError)(nil)),
+		"Dispatcher":             reflect.ValueOf((*mdo.Dispatcher)(nil)),
 		"EvalCounters":           reflect.ValueOf((*mdo.EvalCounters)(nil)),
 		"Evaluation":             reflect.ValueOf((*mdo.Evaluation)(nil)),
 		"Evaluator":              reflect.ValueOf((*mdo.Evaluator)(nil)),
@@ -143,6 +151,7 @@ func init() {
 		// interface wrapper definitions
 		"_Differentiable":      reflect.ValueOf((*_couplet_mdo_Differentiable)(nil)),
 		"_Discipline":          reflect.ValueOf((*_couplet_mdo_Discipline)(nil)),
+		"_Dispatcher":          reflect.ValueOf((*_couplet_mdo_Dispatcher)(nil)),
 		"_IterationRecorder":   reflect.ValueOf((*_couplet_mdo_IterationRecorder)(nil)),
 		"_PickUpRecorder":      reflect.ValueOf((*_couplet_mdo_PickUpRecorder)(nil)),
 		"_Recorder":            reflect.ValueOf((*_couplet_mdo_Recorder)(nil)),
@@ -196,6 +205,16 @@ func (W _couplet_mdo_Discipline) Name() string {
 }
 func (W _couplet_mdo_Discipline) Outputs() []mdo.Var {
 	return W.WOutputs()
+}
+
+// _couplet_mdo_Dispatcher is an interface wrapper for Dispatcher type
+type _couplet_mdo_Dispatcher struct {
+	IValue    interface{}
+	WDispatch func(ctx context.Context, b *mdo.Batch) error
+}
+
+func (W _couplet_mdo_Dispatcher) Dispatch(ctx context.Context, b *mdo.Batch) error {
+	return W.WDispatch(ctx, b)
 }
 
 // _couplet_mdo_IterationRecorder is an interface wrapper for IterationRecorder type
