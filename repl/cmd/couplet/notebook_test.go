@@ -288,3 +288,57 @@ func TestCellRecordRoundTrip(t *testing.T) {
 		t.Errorf("%+v came back as %+v (cell %+v)", r, back, c)
 	}
 }
+
+// A session that reads its input from a pipe and writes into buffers
+// (the interpreter process's output comes back through the notebook)
+// survives its interpreter too: what cells print before and after the
+// death arrives in order, and the death is reported between them.
+func TestPipedSessionSurvivesItsInterpreter(t *testing.T) {
+	input := "import \"strings\"\nfmt.Println(strings.ToUpper(\"before\"), 6 * 7)\n" +
+		"go func() {\n\tpanic(\"the rib buckles\")\n}(); select {}\n" +
+		"fmt.Println(strings.ToUpper(\"after\"), 6 * 7)\n@restore\nfmt.Println(strings.ToUpper(\"after\"), 6 * 7)\n@cells\n"
+	var out, errb bytes.Buffer
+	if code := run(nil, strings.NewReader(input), &out, &errb); code != 0 {
+		t.Fatalf("exit %d; stderr %q", code, errb.String())
+	}
+	// @restore shows each cell it runs again after its prompt
+	if want := "BEFORE 42\nc1> import \"strings\"\nc2> fmt.Println(strings.ToUpper(\"before\"), 6 * 7)\nBEFORE 42\nrestored 2 cells\nAFTER 42\n"; !strings.HasPrefix(out.String(), want) {
+		t.Errorf("output %q, want it to start with %q", out.String(), want)
+	}
+	for _, want := range []string{
+		"cell 3, line 2: the interpreter process died: panic: the rib buckles",
+		"a fresh interpreter is running; it keeps the 3 cells",
+		// the fresh interpreter has not imported strings before @restore
+		"cell 4, line 1: undefined: strings",
+	} {
+		if !strings.Contains(errb.String(), want) {
+			t.Errorf("stderr lacks %q:\n%s", want, errb.String())
+		}
+	}
+	for _, want := range []string{"2     ok", "3     failed", "4     failed", "5     ok"} {
+		if !strings.Contains(out.String(), want) {
+			t.Errorf("@cells lacks %q:\n%s", want, out.String())
+		}
+	}
+}
+
+// Memory past --memory-cap ends the session's interpreter process, not
+// the session.
+func TestSessionMemoryCap(t *testing.T) {
+	if raceDetector {
+		t.Skip("the race detector's shadow memory counts against the memory cap")
+	}
+	input := "x := 6 * 7\nvar hoard [][]byte\nfor {\n\thoard = append(hoard, make([]byte, 1<<20))\n}\n@restore\nx\n"
+	var out, errb bytes.Buffer
+	if code := run([]string{"--memory-cap", "256MiB"}, strings.NewReader(input), &out, &errb); code != 0 {
+		t.Fatalf("exit %d; stderr %q", code, errb.String())
+	}
+	for _, want := range []string{"cell 3: the interpreter process died: fatal error: ", "out of memory", "(its memory cap is 256MiB; --memory-cap changes it)", "a fresh interpreter is running"} {
+		if !strings.Contains(errb.String(), want) {
+			t.Errorf("stderr lacks %q:\n%s", want, errb.String())
+		}
+	}
+	if !strings.HasSuffix(out.String(), "restored 2 cells\n42\n") {
+		t.Errorf("output %q, want the restored cells and x = 42", out.String())
+	}
+}
