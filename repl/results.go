@@ -4,6 +4,7 @@ import (
 	"context"
 	"errors"
 	"fmt"
+	"io/fs"
 	"os"
 	"path/filepath"
 	"slices"
@@ -365,6 +366,25 @@ func (o *RunOutputs) storeOf(r *mdo.Result) *store.Store {
 	o.mu.Lock()
 	defer o.mu.Unlock()
 	return o.ended[r]
+}
+
+// TakeExisting marks every folder the output folder holds now as taken,
+// so that no study of this session uses it again: the fresh interpreter
+// of a session whose interpreter died starts with the result folders of
+// the one that died, whose results are written there.
+func (o *RunOutputs) TakeExisting() error {
+	entries, err := os.ReadDir(o.dir)
+	if err != nil && !errors.Is(err, fs.ErrNotExist) {
+		return fmt.Errorf("repl: reading the output folder: %w", err)
+	}
+	o.mu.Lock()
+	defer o.mu.Unlock()
+	for _, e := range entries {
+		if e.IsDir() {
+			o.folders[e.Name()] = true
+		}
+	}
+	return nil
 }
 
 // StorePath returns the path of the case store that recorded the run of

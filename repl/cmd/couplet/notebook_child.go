@@ -94,8 +94,13 @@ func interpreterSession(ev *events, st *settings, seed uint64, seedSet bool) int
 	}
 	var outs *repl.RunOutputs
 	if st.out != "" {
-		// the parent holds the folder's lock and checked the folder
+		// the parent holds the folder's lock and checked the folder; what
+		// it holds now is an earlier interpreter's of this session
 		outs = repl.NewRunOutputs(st.out)
+		if err := outs.TakeExisting(); err != nil {
+			fmt.Fprintln(os.Stderr, "couplet:", err)
+			return 1
+		}
 		opts.Outputs = outs
 	}
 	if isTerminal(os.Stdout) {

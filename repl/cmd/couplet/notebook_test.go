@@ -46,6 +46,12 @@ func TestSessionSurvivesItsInterpreter(t *testing.T) {
 	tm.send("@restore\r")
 	tm.expect(`restored 3 cells\r\n`)
 	tm.expect(`c5> `)
+	// cell 1 ran again into a folder of its own, leaving the dead
+	// interpreter's result as it was written
+	checkEarlierResult(t, out)
+	if _, err := os.Stat(filepath.Join(out, "bowl-2", "results.db")); err != nil {
+		t.Errorf("the restored cell 1 recorded its study in no folder of its own: %v", err)
+	}
 	tm.send("@again 3\r")
 	tm.expect(`\r\n1042\r\n`)
 	tm.expect(`c6> `)
