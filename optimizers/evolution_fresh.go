@@ -37,6 +37,7 @@ type freshPoints struct {
 	rng   *rand.Rand
 	// moved counts the candidates moved because they repeated a point.
 	moved int
+	buf   []byte
 }
 
 // freshTries bounds the mutations, then the uniform draws, tried to make a
@@ -52,26 +53,35 @@ func newFreshPoints(ev *mdo.Evaluator, stream uint64) *freshPoints {
 	return &freshPoints{ev: ev, specs: ev.DesignSpecs(), seen: map[string]struct{}{}, rng: newRand(ev.Seed(), stream)}
 }
 
-// key returns the cache key of unit-box point x: its physical values'
-// bits.
-func (f *freshPoints) key(x []float64) string {
-	var b []byte
+// key returns the cache key of unit-box point x, its physical values'
+// bits, in a buffer reused by the next call.
+func (f *freshPoints) key(x []float64) []byte {
+	f.buf = f.buf[:0]
 	for _, v := range f.ev.ToPhysical(x) {
-		b = binary.LittleEndian.AppendUint64(b, math.Float64bits(v))
+		f.buf = binary.LittleEndian.AppendUint64(f.buf, math.Float64bits(v))
 	}
-	return string(b)
+	return f.buf
+}
+
+// add records x unless it was asked for before; it reports whether it
+// was new.
+func (f *freshPoints) add(x []float64) bool {
+	k := f.key(x)
+	if _, ok := f.seen[string(k)]; ok {
+		return false
+	}
+	f.seen[string(k)] = struct{}{}
+	return true
 }
 
 // record adds x to the points asked for, without moving it (points whose
 // place matters, such as the Newton steps of the gradient repair).
-func (f *freshPoints) record(x []float64) { f.seen[f.key(x)] = struct{}{} }
+func (f *freshPoints) record(x []float64) { f.add(x) }
 
 // fresh makes x, in place, a point not asked for before by the rule of
 // the type, and records it; it reports whether x was moved.
 func (f *freshPoints) fresh(x []float64) bool {
-	key := f.key(x)
-	if _, ok := f.seen[key]; !ok {
-		f.seen[key] = struct{}{}
+	if f.add(x) {
 		return false
 	}
 	f.moved++
@@ -83,9 +93,7 @@ func (f *freshPoints) fresh(x []float64) bool {
 				x[k] = f.rng.Float64()
 			}
 		}
-		key = f.key(x)
-		if _, ok := f.seen[key]; !ok {
-			f.seen[key] = struct{}{}
+		if f.add(x) {
 			return true
 		}
 	}

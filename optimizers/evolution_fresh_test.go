@@ -152,16 +152,16 @@ func TestFreshPointsKeepNewOnes(t *testing.T) {
 	again := [][]float64{{0.001, 0, 0, 0}, {0.5, 0.5, 0.5, 0.5}, {0.5, 0.5, 0.5, 0.6}, {1, 1, 1, 1}}
 	seen := map[string]bool{}
 	for _, x := range pts {
-		seen[f.key(x)] = true
+		seen[string(f.key(x))] = true
 	}
 	for _, x := range again {
 		if !f.fresh(x) {
 			t.Fatalf("repeat %v was not moved", x)
 		}
-		if seen[f.key(x)] {
+		if seen[string(f.key(x))] {
 			t.Fatalf("repeat moved onto a point asked for before: %v", x)
 		}
-		seen[f.key(x)] = true
+		seen[string(f.key(x))] = true
 	}
 	if f.moved != len(again) {
 		t.Errorf("moved = %d, want %d", f.moved, len(again))
