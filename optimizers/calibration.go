@@ -53,6 +53,8 @@ type CalibrationPoint struct {
 	// quantity's unit; Uncertainty is the point's standard uncertainty
 	// (NaN when the data give none).
 	Measured, Predicted, Residual, Uncertainty float64
+	// Before is the prediction with the starting factors, before the fit.
+	Before float64
 }
 
 // CalibrationResult is the outcome of Calibration.Run.
@@ -66,6 +68,8 @@ type CalibrationResult struct {
 	Points []CalibrationPoint
 	// Conditions names the data's condition columns.
 	Conditions []string
+	// Units gives the unit of each condition and measured quantity.
+	Units map[string]string
 }
 
 // defaults returns the least-squares settings of a calibration.
@@ -136,9 +140,13 @@ func (c Calibration) Run(ctx context.Context) (*CalibrationResult, error) {
 			qi = append(qi, k)
 		}
 	}
-	res := &CalibrationResult{Name: name, Source: c.Data.Source}
+	res := &CalibrationResult{Name: name, Source: c.Data.Source, Units: map[string]string{}}
 	for _, v := range c.Data.Conditions {
 		res.Conditions = append(res.Conditions, v.Name)
+		res.Units[v.Name] = v.Unit
+	}
+	for _, v := range c.Data.Quantities {
+		res.Units[v.Name] = v.Unit
 	}
 	type at struct{ row, q int }
 	var where []at
@@ -208,6 +216,10 @@ func (c Calibration) Run(ctx context.Context) (*CalibrationResult, error) {
 		}
 		return nil
 	}
+	before := make([]float64, len(observed))
+	if err := predict(ctx, start, before); err != nil {
+		return nil, fmt.Errorf("optimizers: calibration %q: with the starting factors: %w", name, err)
+	}
 	fit, err := c.settings().Fit(ctx, FitProblem{Names: c.Factors, Start: start, Observed: observed, Sigma: sigma, Predict: predict})
 	if fit == nil {
 		return nil, fmt.Errorf("optimizers: calibration %q: %w", name, err)
@@ -221,7 +233,7 @@ func (c Calibration) Run(ctx context.Context) (*CalibrationResult, error) {
 		}
 		res.Points = append(res.Points, CalibrationPoint{
 			Line: row.Line, Quantity: c.Data.Quantities[a.q].Name, Conditions: row.Conditions,
-			Measured: observed[i], Predicted: fit.Predicted[i], Residual: fit.Residuals[i], Uncertainty: u,
+			Measured: observed[i], Predicted: fit.Predicted[i], Residual: fit.Residuals[i], Uncertainty: u, Before: before[i],
 		})
 	}
 	var ind *IndistinctError

@@ -7,6 +7,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"strings"
 	"testing"
 
 	"couplet/mdo"
@@ -125,6 +126,28 @@ var exampleChecks = map[string]func(t *testing.T, sum map[string]any){
 			t.Errorf("best %v: want a feasible design burning at most the baseline's %.1f kg", best, base.Objectives[0])
 		}
 	},
+	"business_jet_calibration.study": func(t *testing.T, sum map[string]any) {
+		// The re-optimised study says its factors came from the
+		// calibration and names the data file.
+		notes, _ := sum["notes"].([]any)
+		if len(notes) != 1 {
+			t.Fatalf("notes %v, want the calibration's", notes)
+		}
+		note, _ := notes[0].(string)
+		for _, w := range []string{`calibration "Swiftlet polars"`, "disciplines/swiftlet_polars_invented.csv", "aero.factor_lift_slope = "} {
+			if !strings.Contains(note, w) {
+				t.Errorf("note %q lacks %q", note, w)
+			}
+		}
+		best := sum["best"].(map[string]any)
+		if best["feasible"] != true {
+			t.Errorf("no feasible design: %v", best)
+		}
+		// Sextant converged: the summary gives what each limit costs.
+		if sum["stop"] != "converged" || sum["sensitivity"] == nil {
+			t.Errorf("stop %v, sensitivity %v: want a converged run with its sensitivity", sum["stop"], sum["sensitivity"])
+		}
+	},
 	"business_jet_wing_doe.study": func(t *testing.T, sum map[string]any) {
 		// A Latin hypercube of 60 samples evaluates exactly 60 points.
 		if n := sum["evaluations"].(float64); n != 60 {
@@ -211,18 +234,7 @@ func checkOutputs(t *testing.T, dir string) {
 // an example study attaches (its fixed values, see Evaluator.Start).
 func baselineOf(t *testing.T, name string) *mdo.Evaluation {
 	t.Helper()
-	f, err := ReadStudy(filepath.Join("..", "studies", name))
-	if err != nil {
-		t.Fatal(err)
-	}
-	s, err := NewSession(Options{})
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer s.Close()
-	if c := s.Exec(context.Background(), f.Cells[0].Source); c.Err != nil {
-		t.Fatal(c.Err)
-	}
+	s := studySession(t, name, 1)
 	c := s.Exec(context.Background(), `ev, err := study.NewEvaluator()
 if err != nil {
 	panic(err)
