@@ -363,6 +363,9 @@ func interactive(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		return 2
 	}
 	seed, seedSet, err := st.seedOf()
+	if err == nil {
+		err = st.spread.runOnly()
+	}
 	if err != nil {
 		fmt.Fprintln(stderr, "couplet:", err)
 		return 2

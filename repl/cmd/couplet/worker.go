@@ -69,6 +69,15 @@ func (sp *spreadSettings) check() error {
 	return nil
 }
 
+// runOnly refuses the spreading flags where they do not apply: the
+// notebook session analyses in its own process.
+func (sp *spreadSettings) runOnly() error {
+	if sp.on != "" || sp.local != 0 {
+		return errors.New("--workers-on and --local-workers go with couplet run; the notebook session analyses in its own process")
+	}
+	return nil
+}
+
 // auth returns the credentials the flags give.
 func (sp *spreadSettings) auth() distribute.Auth {
 	a := distribute.Auth{Token: sp.token, CredsFile: sp.creds}

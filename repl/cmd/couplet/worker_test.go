@@ -241,6 +241,7 @@ func TestSpreadFlagsRefused(t *testing.T) {
 		{[]string{"run", spreadStudy, "--out", "x", "--cluster-token", "t"}, "--cluster-token and --cluster-creds go with --workers-on"},
 		{[]string{"run", spreadStudy, "--out", "x", "--local-workers", "1", "--redeliver-after", "1ms"}, "--redeliver-after 1ms: want at least 100ms"},
 		{[]string{"worker"}, "couplet worker: need --connect URL"},
+		{[]string{"--local-workers", "2"}, "couplet: --workers-on and --local-workers go with couplet run"},
 		{[]string{"worker", "--connect", "nats://127.0.0.1:1", "--parallel", "0"}, "--parallel of 1 or more"},
 		{[]string{"hub", "--listen", "127.0.0.1:99999", "--cluster-token", "t"}, "couplet hub: need --listen HOST:PORT (port 0 to 65535)"},
 	} {
