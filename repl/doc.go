@@ -40,8 +40,9 @@
 // two things the interpreter accepts and compiled Go does not: a literal
 // that sets a promoted field (older settings literals such as
 // optimizers.NSGA2{Population: 28}) and a package member the symbol
-// tables do not list (the generic functions of slices and maps); such a
-// cell goes to the interpreter's top level as it is.
+// tables do not list; such a cell goes to the interpreter's top level as
+// it is. The generic functions of compiled packages (slices, maps, cmp)
+// are out of reach either way, and the error says so.
 //
 // Results of a session are conceptual-design estimates; they are not for
 // certification, flight or airworthiness decisions.

@@ -230,3 +230,20 @@ func (s *Session) learnUntyped(src string) {
 		s.types.add([]preludeEntry{{name: n, src: spec}})
 	}
 }
+
+// genericHint explains an undefined member of a package whose every
+// function is generic (slices, maps, cmp): the interpreter cannot call
+// the generic functions of a compiled package.
+func (s *Session) genericHint(msg string) string {
+	m := qualifiedUndefinedRE.FindStringSubmatch(msg)
+	if m == nil {
+		return ""
+	}
+	_, local := s.importSpecs()
+	for path, name := range local {
+		if name == m[1] && len(s.types.im.tables[path]) == 0 {
+			return fmt.Sprintf("; the functions of package %s are generic, and scripts cannot call the generic functions of a compiled package: write the loop out (or use package sort)", path)
+		}
+	}
+	return ""
+}

@@ -409,7 +409,7 @@ func (s *Session) exec(ctx context.Context, c *Cell) error {
 			var ce *CellError
 			if errors.As(err, &ce) && ce.Kind == "compile" {
 				// the type check names the real cause and its line
-				return &CellError{Cell: c.Number, Line: te.line, Kind: "compile", Msg: te.msg + renamedHint(te.msg, lineOf(c.Source, te.line)), Err: err}
+				return &CellError{Cell: c.Number, Line: te.line, Kind: "compile", Msg: te.msg + renamedHint(te.msg, lineOf(c.Source, te.line)) + s.genericHint(te.msg), Err: err}
 			}
 		}
 		if ce, ok := terr.(*CellError); ok {

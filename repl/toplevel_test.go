@@ -38,6 +38,9 @@ func TestTopLevelIsOrdinaryGo(t *testing.T) {
 		{"select", []string{"ch := make(chan int, 1)\nch <- 4\nselect {\ncase v := <-ch:\n\tfmt.Println(\"got\", v)\ndefault:\n\tfmt.Println(\"none\")\n}"}, "got 4\n"},
 		{"method value of a framework type", []string{"r := &mdo.Result{}\nfeasible := r.Feasible\nfeasible()"}, "false\n"},
 		{"method value with arguments, taken before the receiver changes", []string{"st := mdo.Minimize(\"mass.takeoff\")\nstr := st.String\nst = mdo.Maximize(\"range\")\nstr()"}, "minimise mass.takeoff\n"},
+		{"method expression of a framework type", []string{"feasible := (*mdo.Result).Feasible\nfeasible(&mdo.Result{})"}, "false\n"},
+		{"method expression called at once", []string{"(*mdo.Result).Feasible(&mdo.Result{})"}, "false\n"},
+		{"comma-ok forms at top level", []string{"m := map[string]int{\"a\": 1}\nw, ok := m[\"b\"]\nvar x any = 3\ns, isString := x.(string)\nfmt.Println(w, ok, s == \"\", isString)"}, "0 false true false\n"},
 		{"method value of a cell's own type", []string{"type wing struct{ span float64 }\nfunc (w wing) half() float64 { return w.span / 2 }\nw := wing{30}\nh := w.half\nh()"}, "15\n"},
 		{"generic function, type arguments inferred from a function literal", []string{"func mapTo[T, U any](xs []T, f func(T) U) []U {\n\tvar out []U\n\tfor _, x := range xs {\n\t\tout = append(out, f(x))\n\t}\n\treturn out\n}\nmapTo([]int{1, 2}, func(i int) float64 { return float64(i) / 2 })"}, "[0.5 1]\n"},
 		{"return ends the cell", []string{"fmt.Println(\"a\")\nif true {\n\treturn\n}\nfmt.Println(\"b\")"}, "a\n"},
@@ -90,6 +93,7 @@ func TestTopLevelErrorsNameTheCauseAndLine(t *testing.T) {
 		{"panic in a function the cell calls: the line of the call", "func stall() {\n\tpanic(\"stall\")\n}\nfmt.Print()\nstall()", "panic", 5, "stall"},
 		{"undefined name inside an if body", "x := 1\nif x > 0 {\n\ty := x + undefinedThing\n\t_ = y\n}", "compile", 3, "undefined: undefinedThing"},
 		{"no such field, with the type", "r := &mdo.Result{}\nif r != nil {\n\tv := r.Bestt\n\t_ = v\n}", "compile", 3, "r.Bestt undefined (type *mdo.Result has no field or method Bestt"},
+		{"a generic function of a compiled package", "import \"slices\"\nxs := []int{3, 1, 2}\nslices.Sort(xs)", "compile", 3, "undefined: slices.Sort; the functions of package slices are generic"},
 		{"a := with no new variable", "a := 1\na := 2", "compile", 2, "no new variables on left side of :="},
 		{"wrong number of values", "func f() (int, int) { return 1, 2 }\nif true {\n\tv := f()\n\t_ = v\n}", "compile", 3, "assignment mismatch: 1 variable but f returns 2 values"},
 	}

@@ -102,17 +102,16 @@ func (e *typeCheckError) Error() string { return fmt.Sprintf("line %d: %s", e.li
 // the type check refused: a variable of a type scripts cannot name, a
 // composite literal that sets a promoted field
 // (the older flat settings literals, which the interpreter fills in), or
-// a package member the symbol tables do not list (the interpreter has
-// the generic functions of slices and maps from their source). The cell
-// is then run as it is, and the type check's message reported only if
-// the interpreter refuses it too.
+// a package member the symbol tables do not list. The cell is then run as
+// it is, and the type check's message reported only if the interpreter
+// refuses it too.
 func (e *typeCheckError) interpreterMay() bool {
 	return e.unwritable || strings.HasPrefix(e.msg, "unknown field ") || qualifiedUndefinedRE.MatchString(e.msg)
 }
 
 // qualifiedUndefinedRE matches the type check's message for a package
 // member it does not know.
-var qualifiedUndefinedRE = regexp.MustCompile(`^undefined: \w+\.\w+$`)
+var qualifiedUndefinedRE = regexp.MustCompile(`^undefined: (\w+)\.\w+$`)
 
 // softErrors are the type-check errors compiled Go reports that the
 // session has always accepted (a cell is a scratch pad): they do not stop
@@ -707,6 +706,12 @@ func rewrites(root ast.Node, info *checked, qual types.Qualifier, im *symbolImpo
 		switch n := n.(type) {
 		case *ast.SelectorExpr:
 			sel := info.Selections[n]
+			if sel != nil && sel.Kind() == types.MethodExpr && sel.Obj().Pkg() != info.pkg {
+				if e, ok := methodExpr(n, sel, qual, canWrite, off); ok {
+					out = append(out, e)
+				}
+				return true
+			}
 			if sel == nil || sel.Kind() != types.MethodVal || called[n] || sel.Obj().Pkg() == info.pkg {
 				return true
 			}
@@ -723,22 +728,7 @@ func rewrites(root ast.Node, info *checked, qual types.Qualifier, im *symbolImpo
 			if !ok || !canWrite(recv) || !canWrite(sig) {
 				return true
 			}
-			var params, args []string
-			for i := range sig.Params().Len() {
-				name := "couplet_a" + strconv.Itoa(i)
-				t := sig.Params().At(i).Type()
-				if sig.Variadic() && i == sig.Params().Len()-1 {
-					params = append(params, name+" ..."+types.TypeString(t.(*types.Slice).Elem(), qual))
-					args = append(args, name+"...")
-					continue
-				}
-				params = append(params, name+" "+types.TypeString(t, qual))
-				args = append(args, name)
-			}
-			results := types.TypeString(sig.Results(), qual)
-			if sig.Results().Len() == 1 {
-				results = strings.Trim(results, "()")
-			}
+			params, args, results := signatureText(sig, 0, qual)
 			call := "couplet_m." + n.Sel.Name + "(" + strings.Join(args, ", ") + ")"
 			if sig.Results().Len() > 0 {
 				call = "return " + call
@@ -828,6 +818,46 @@ func rewrites(root ast.Node, info *checked, qual types.Qualifier, im *symbolImpo
 		return true
 	})
 	return out
+}
+
+// signatureText writes the parameters of a signature from the from-th
+// on, named couplet_a0, couplet_a1, …, the arguments that pass them on,
+// and its results.
+func signatureText(sig *types.Signature, from int, qual types.Qualifier) (params, args []string, results string) {
+	for i := from; i < sig.Params().Len(); i++ {
+		name := "couplet_a" + strconv.Itoa(i)
+		t := sig.Params().At(i).Type()
+		if sig.Variadic() && i == sig.Params().Len()-1 {
+			params = append(params, name+" ..."+types.TypeString(t.(*types.Slice).Elem(), qual))
+			args = append(args, name+"...")
+			continue
+		}
+		params = append(params, name+" "+types.TypeString(t, qual))
+		args = append(args, name)
+	}
+	results = types.TypeString(sig.Results(), qual)
+	if sig.Results().Len() == 1 {
+		results = strings.Trim(results, "()")
+	}
+	return params, args, results
+}
+
+// methodExpr is the edit that writes a method expression of a framework
+// type, such as (*mdo.Result).Feasible, as a function literal that calls
+// the method on its first argument.
+func methodExpr(n *ast.SelectorExpr, sel *types.Selection, qual types.Qualifier, canWrite func(types.Type) bool, off func(token.Pos) int) (edit, bool) {
+	sig, ok := sel.Type().(*types.Signature)
+	if !ok || sig.Params().Len() == 0 || !canWrite(sig) {
+		return edit{}, false
+	}
+	params, args, results := signatureText(sig, 1, qual)
+	params = append([]string{"couplet_m " + types.TypeString(sig.Params().At(0).Type(), qual)}, params...)
+	call := "couplet_m." + n.Sel.Name + "(" + strings.Join(args, ", ") + ")"
+	if sig.Results().Len() > 0 {
+		call = "return " + call
+	}
+	text := "(func(" + strings.Join(params, ", ") + ") " + results + " { " + call + " })"
+	return edit{off: off(n.Pos()), del: off(n.End()) - off(n.Pos()), text: text}, true
 }
 
 // captured reports whether a function literal in body uses obj, or body
