@@ -704,8 +704,17 @@ const (
 // keepValue receives a command expression's value.
 func (s *Session) keepValue(v any) { s.kept = v }
 
-// Globals returns the names of the session's variables and constants.
-func (s *Session) Globals() map[string]reflect.Value { return s.it.Globals() }
+// Globals returns the names of the session's variables and constants,
+// less those the session declares for itself (see transform.go).
+func (s *Session) Globals() map[string]reflect.Value {
+	g := s.it.Globals()
+	for n := range g {
+		if strings.HasPrefix(n, sessionPrefix) {
+			delete(g, n)
+		}
+	}
+	return g
+}
 
 // outputKept is how much of a cell's printed output Cell.Output keeps:
 // the output itself is streamed to Stdout as it is printed, so a cell

@@ -162,3 +162,22 @@ func TestTrailingCallCanBeInterrupted(t *testing.T) {
 		t.Errorf("the session did not go on after one call: %q (stderr %q)", w.buf.String(), errb.String())
 	}
 }
+
+// @vars lists the cell's hoisted variables and none of the names the
+// session declares for its own use.
+func TestVarsListsTheCellsVariables(t *testing.T) {
+	s, out, errb := newTest(t, Options{})
+	defer s.Close()
+	serve(t, s, "func f() (int, string) { return 1, \"a\" }\nn, label := f()\n@vars\n")
+	if errb.Len() > 0 {
+		t.Fatalf("stderr: %s", errb)
+	}
+	for _, w := range []string{"label  string", "n      int"} {
+		if !strings.Contains(out.String(), w) {
+			t.Errorf("@vars %q does not list %q", out, w)
+		}
+	}
+	if strings.Contains(out.String(), sessionPrefix) {
+		t.Errorf("@vars %q lists the session's own names", out)
+	}
+}

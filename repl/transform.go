@@ -12,8 +12,11 @@ import (
 	"strings"
 )
 
-// The names the transformation adds to a session; no script needs them.
+// The names the transformation adds to a session, all starting with
+// sessionPrefix; no script needs them, and @vars does not list them.
 const (
+	sessionPrefix = "couplet_"
+
 	lineVar   = "couplet_line" // the cell line the running body is on
 	doneVar   = "couplet_ok"   // takes the body's result: the call is not a trailing expression
 	showFunc  = keepName + ".Show"
