@@ -43,6 +43,8 @@ func TestTopLevelIsOrdinaryGo(t *testing.T) {
 		{"comma-ok forms at top level", []string{"m := map[string]int{\"a\": 1}\nw, ok := m[\"b\"]\nvar x any = 3\ns, isString := x.(string)\nfmt.Println(w, ok, s == \"\", isString)"}, "0 false true false\n"},
 		{"method value of a cell's own type", []string{"type wing struct{ span float64 }\nfunc (w wing) half() float64 { return w.span / 2 }\nw := wing{30}\nh := w.half\nh()"}, "15\n"},
 		{"generic function, type arguments inferred from a function literal", []string{"func mapTo[T, U any](xs []T, f func(T) U) []U {\n\tvar out []U\n\tfor _, x := range xs {\n\t\tout = append(out, f(x))\n\t}\n\treturn out\n}\nmapTo([]int{1, 2}, func(i int) float64 { return float64(i) / 2 })"}, "[0.5 1]\n"},
+		{"a generic function of an earlier cell", []string{"func sum[T int | float64](xs ...T) T {\n\tvar s T\n\tfor _, x := range xs {\n\t\ts += x\n\t}\n\treturn s\n}", "if true {\n\ta, b := sum(1, 2), sum(0.5, 0.25)\n\tfmt.Println(a, b)\n}"}, "3 0.75\n"},
+		{"a method declared in an earlier cell", []string{"type wing struct{ span float64 }\nfunc (w *wing) grow(d float64) { w.span += d }", "w := &wing{30}\nif w != nil {\n\tw.grow(2)\n}\nw.span"}, "32\n"},
 		{"return ends the cell", []string{"fmt.Println(\"a\")\nif true {\n\treturn\n}\nfmt.Println(\"b\")"}, "a\n"},
 		{"a block's := does not touch the top-level variable", []string{"x := 1\nif true {\n\tx := 2\n\t_ = x\n}\nx"}, "1\n"},
 		{"range over an integer", []string{"s := 0\nfor i := range 4 {\n\ts += i\n}\ns"}, "6\n"},
