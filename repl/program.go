@@ -90,7 +90,11 @@ func (s *Session) runProgram(ctx, hard context.Context, c *Cell, p *cellProgram)
 	}
 	s.shown, s.show = nil, false
 	s.errBuf.reset()
-	_, err = s.it.EvalWithContext(hard, lineVar+" = 0; "+p.call)
+	// The constant is the program's value: when the cell is stopped, the
+	// interpreter's EvalWithContext returns at once and leaves its own
+	// goroutine to finish by reading that value, and a constant reads
+	// no memory that the next cell writes.
+	_, err = s.it.EvalWithContext(hard, lineVar+" = 0; "+p.call+"; 0")
 	trace := s.errBuf.take()
 	s.forwardStderr(trace)
 	line := s.runningLine(c)

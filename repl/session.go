@@ -659,7 +659,10 @@ func (s *Session) Eval(ctx context.Context, cmd, expr string) (any, error) {
 			// The interpreter runs a stopped expression's call a second
 			// time, out of reach of the stop, when it is asked for the
 			// value; an argument of a host function it stops for good.
-			src = keepName + ".Value(" + src + ")"
+			// The constant after it is the program's value: the
+			// interpreter's abandoned goroutine then reads no memory
+			// the next cell writes (see runProgram).
+			src = keepName + ".Value(" + src + "); 0"
 		}
 		var newImports []string
 		if ch.kind == chunkImport {
