@@ -29,9 +29,6 @@ func (s *Session) importPrelude() error {
 	if _, err := s.it.Eval(b.String()); err != nil {
 		return fmt.Errorf("repl: importing the prelude: %w", err)
 	}
-	if _, err := s.it.Eval("var " + lineVar + " int; var " + doneVar + " bool"); err != nil {
-		return fmt.Errorf("repl: declaring the session's own variables: %w", err)
-	}
 	return nil
 }
 

@@ -11,6 +11,8 @@ import (
 	"sort"
 	"strconv"
 	"strings"
+	"sync"
+	"time"
 
 	"github.com/traefik/yaegi/interp"
 )
@@ -66,7 +68,7 @@ func (s *Session) runProgram(ctx, hard context.Context, c *Cell, p *cellProgram)
 			return false, err
 		}
 	}
-	if p.decls != "" {
+	{
 		s.errBuf.reset()
 		s.ranChunk(c, p.decls, 1)
 		_, err := s.it.EvalWithContext(hard, p.decls)
@@ -78,8 +80,6 @@ func (s *Session) runProgram(ctx, hard context.Context, c *Cell, p *cellProgram)
 			}
 			return true, s.cellError(c, whole, err, "")
 		}
-		s.types.add(p.declared)
-	} else {
 		s.types.add(p.declared)
 	}
 	s.errBuf.reset()
@@ -94,14 +94,27 @@ func (s *Session) runProgram(ctx, hard context.Context, c *Cell, p *cellProgram)
 	// interpreter's EvalWithContext returns at once and leaves its own
 	// goroutine to finish by reading that value, and a constant reads
 	// no memory that the next cell writes.
-	_, err = s.it.EvalWithContext(hard, lineVar+" = 0; "+p.call+"; 0")
+	s.exited, s.exitOnce = make(chan struct{}), &sync.Once{}
+	_, err = s.it.EvalWithContext(hard, p.call+"; 0")
 	trace := s.errBuf.take()
 	s.forwardStderr(trace)
-	line := s.runningLine(c)
 	if err != nil {
 		if hard.Err() != nil && (errors.Is(err, context.Canceled) || errors.Is(err, context.DeadlineExceeded)) {
-			return true, s.stopped(ctx, c, line)
+			// The interpreter returns at once and leaves its goroutine
+			// to unwind the body; wait for that (a grace period at
+			// most: a host call may never come back), so that the next
+			// cell does not run beside it.
+			t := time.NewTimer(s.opts.Grace)
+			select {
+			case <-s.exited:
+			case <-t.C:
+			}
+			t.Stop()
+			// the body may still be running for a moment: its line
+			// is not read
+			return true, s.stopped(ctx, c, firstLine(c.Source))
 		}
+		line := s.runningLine(c, p)
 		var pe interp.Panic
 		if errors.As(err, &pe) {
 			return true, s.panicked(c, line, pe)
@@ -114,9 +127,21 @@ func (s *Session) runProgram(ctx, hard context.Context, c *Cell, p *cellProgram)
 	return true, nil
 }
 
+// firstLine is the line of a cell's first statement or declaration
+// after its imports.
+func firstLine(src string) int {
+	units, _ := scanUnits(src)
+	for _, u := range units {
+		if u.kind != chunkImport {
+			return u.line
+		}
+	}
+	return 1
+}
+
 // runningLine is the cell line the body function last recorded.
-func (s *Session) runningLine(c *Cell) int {
-	v, ok := s.it.Globals()[lineVar]
+func (s *Session) runningLine(c *Cell, p *cellProgram) int {
+	v, ok := s.it.Globals()[p.line]
 	if !ok || !v.IsValid() || !v.CanInt() {
 		return 1
 	}
@@ -125,6 +150,14 @@ func (s *Session) runningLine(c *Cell) int {
 		return 1
 	}
 	return l
+}
+
+// bodyExited is deferred by a cell's body function.
+func (s *Session) bodyExited() {
+	if s.exitOnce != nil {
+		ch := s.exited
+		s.exitOnce.Do(func() { close(ch) })
+	}
 }
 
 // showValues receives the values of a cell's trailing expression.

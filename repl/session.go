@@ -131,6 +131,9 @@ type Session struct {
 	types *typeState // the package-level names, for the type check of a cell
 	shown []any      // the values a cell's trailing expression handed over
 	show  bool       // set when the trailing expression was reached
+	// exited is closed when the running cell's body function returns
+	exited   chan struct{}
+	exitOnce *sync.Once
 	// unrestored are the numbers of the Kept cells @restore has not run
 	unrestored map[int]bool
 	// ran are the chunks the cells ran, the last ranKept (guarded by mu),
@@ -226,7 +229,7 @@ func (s *Session) reset() error {
 	if err := it.Use(s.env.Exports()); err != nil {
 		return fmt.Errorf("repl: loading the cell package: %w", err)
 	}
-	keep := interp.Exports{keepPath + "/keep": {"Value": reflect.ValueOf(s.keepValue), "Show": reflect.ValueOf(s.showValues)}}
+	keep := interp.Exports{keepPath + "/keep": {"Value": reflect.ValueOf(s.keepValue), "Show": reflect.ValueOf(s.showValues), "Exited": reflect.ValueOf(s.bodyExited)}}
 	if err := it.Use(keep); err != nil {
 		return fmt.Errorf("repl: loading the command package: %w", err)
 	}

@@ -17,8 +17,11 @@ import (
 const (
 	sessionPrefix = "couplet_"
 
-	lineVar   = "couplet_line" // the cell line the running body is on
-	doneVar   = "couplet_ok"   // takes the body's result: the call is not a trailing expression
+	// lineVar, with the cell's number, holds the cell line the running
+	// body is on: one per cell, so that a stopped cell's body, which the
+	// interpreter may leave running for a moment, writes nothing the
+	// next cell writes
+	lineVar   = "couplet_line_"
 	showFunc  = keepName + ".Show"
 	cellFunc  = "couplet_cell"
 	resultVar = "couplet_r"
@@ -38,6 +41,7 @@ type cellProgram struct {
 	body     string // the declaration of the body function
 	call     string // the statement that runs the body
 	lines    int    // lines of the cell
+	line     string // the variable that holds the line the body is on
 	// show is set when the cell ends in an expression whose values are
 	// shown: call when it is a call, errLast when its last value is an
 	// error (a nil error is not shown).
@@ -77,7 +81,7 @@ func (t *typeState) add(es []preludeEntry) {
 // declares again.
 func (t *typeState) source(imports string, except map[string]bool) string {
 	var b strings.Builder
-	b.WriteString("package main\n" + imports + "\nvar " + lineVar + " int\nvar " + doneVar + " bool\n")
+	b.WriteString("package main\n" + imports + "\n")
 	for _, n := range t.order {
 		if except[n] || except[strings.Split(n, ".")[0]] {
 			continue
@@ -126,7 +130,7 @@ var softErrors = []string{"not used"}
 // an import path to the name it has in the session. It returns a
 // *typeCheckError when the type check refuses the cell.
 func transformCell(src string, number int, units []unit, imports []string, local map[string]string, ts *typeState) (*cellProgram, error) {
-	p := &cellProgram{lines: strings.Count(src, "\n") + 1}
+	p := &cellProgram{lines: strings.Count(src, "\n") + 1, line: lineVar + strconv.Itoa(number)}
 	// D holds the declarations, B the statements (and var declarations,
 	// which become assignments to hoisted variables); each keeps the
 	// cell's offsets, the rest blanked.
@@ -149,7 +153,7 @@ func transformCell(src string, number int, units []unit, imports []string, local
 	const pkgClause = "package main; "
 	dPrefix := pkgClause + importDecl + "; "
 	fn := cellFunc + strconv.Itoa(number)
-	bodyHead := "func " + fn + "() (couplet_done bool) {"
+	bodyHead := "func " + fn + "() (couplet_done bool) { defer " + keepName + ".Exited(); "
 	bPrefix := pkgClause + importDecl + "; " + bodyHead
 	const bodyTail = "\nreturn\n}"
 
@@ -276,7 +280,7 @@ func transformCell(src string, number int, units []unit, imports []string, local
 			if bOff(st.Pos()) >= len(b) {
 				continue // the body's closing return
 			}
-			lineEdits = append(lineEdits, edit{off: bOff(st.Pos()), text: fmt.Sprintf("%s = %d; ", lineVar, fset.Position(st.Pos()).Line)})
+			lineEdits = append(lineEdits, edit{off: bOff(st.Pos()), text: fmt.Sprintf("%s = %d; ", p.line, fset.Position(st.Pos()).Line)})
 		}
 		return true
 	})
@@ -317,10 +321,7 @@ func transformCell(src string, number int, units []unit, imports []string, local
 		}
 	}
 	bText := applyEdits(string(b), append(lineEdits, edits...))
-	dText := applyEdits(string(d), dEdits)
-	if len(hoisted) > 0 {
-		dText += "\n" + strings.Join(hoisted, "; ")
-	}
+	dText := applyEdits(string(d), dEdits) + "\n" + strings.Join(append(append([]string(nil), hoisted...), "var "+p.line+" int"), "; ")
 	// pass 2: the program the interpreter will run, with its declarations
 	// at package level
 	importDecl2 := importDecl
@@ -342,11 +343,9 @@ func transformCell(src string, number int, units []unit, imports []string, local
 		}
 		return nil, e
 	}
-	if strings.TrimSpace(dText) != "" {
-		p.decls = dText
-	}
+	p.decls = dText
 	p.body = bodyHead + bText + bodyTail
-	p.call = doneVar + " = " + fn + "()"
+	p.call = "_ = " + fn + "()"
 	p.declared = preludeOf(fset2, files2[1], dText, len(pkgClause+importDecl2+"; "), hoisted)
 	return p, nil
 }
