@@ -122,6 +122,7 @@ func CarpetFigure(d *Data) (*plot.Figure, error) {
 	family(nx, ny, func(i, j int) (int, int) { return i, j }, xLine, func(i int) string { return fmt.Sprintf(" %s %.4g", d.X, d.Xs[i]) })
 	p.Legend.Add("lines of constant "+d.X, legendLine(xLine, 1.4))
 	p.Legend.Add("lines of constant "+d.Y, legendLine(yLine, 1.4))
+	p.Legend.Add("ticks on a boundary: its infeasible side", legendLine(color.NRGBA{A: 0}, 0))
 	// constraint boundaries with ticks on their infeasible side
 	for c, name := range d.Constraints {
 		m := d.Margins[c]
@@ -132,9 +133,9 @@ func CarpetFigure(d *Data) (*plot.Figure, error) {
 		if len(b.segs) == 0 {
 			continue
 		}
-		b.style = draw.LineStyle{Color: plot.LineColor(c + 2), Width: vg.Points(2.2)}
+		b.style = boundaryStyle(c, 2.2)
 		p.Add(b)
-		p.Legend.Add(name+" boundary (ticks on the infeasible side)", legendLine(b.style.Color, 2.2))
+		p.Legend.Add(name+" boundary", legendStyle(b.style))
 	}
 	failed := map[mdo.FailureClass]int{}
 	for _, r := range d.Failures {
@@ -170,7 +171,7 @@ func CarpetFigure(d *Data) (*plot.Figure, error) {
 	// room on the right for the labels at the lines' ends
 	p.X.Max += 0.45
 	p.X.Min -= 0.05
-	return plot.NewFigure(fileName("carpet_"+d.Quantity), title, vg.Points(600), vg.Points(480), p.Draw), nil
+	return plot.NewFigure(fileName("carpet_"+d.Quantity), title, vg.Points(940), vg.Points(480), besideLegend(p, 600)), nil
 }
 
 // carpetShift is the stagger of the lines of constant X per whole range
@@ -200,10 +201,29 @@ func staggerSign(z [][]float64) float64 {
 // legendLine is a legend thumbnail of a line of the given colour and
 // width (an invisible one for a legend line of text alone).
 func legendLine(c color.Color, width float64) gplot.Thumbnailer {
+	return legendStyle(draw.LineStyle{Color: c, Width: vg.Points(width)})
+}
+
+// legendStyle is a legend thumbnail of a line of the given style.
+func legendStyle(s draw.LineStyle) gplot.Thumbnailer {
 	f := plotter.NewFunction(func(float64) float64 { return math.NaN() })
-	f.LineStyle = draw.LineStyle{Color: c, Width: vg.Points(width)}
+	f.LineStyle = s
 	return f
 }
+
+// boundaryStyle is the line style of constraint c's boundary: a colour
+// of the plot package's cycle, dashed once the cycle has come round, so
+// that no two boundaries look alike.
+func boundaryStyle(c int, width float64) draw.LineStyle {
+	s := draw.LineStyle{Color: plot.LineColor(c + 2), Width: vg.Points(width)}
+	if c+2 >= boundaryColours {
+		s.Dashes = []vg.Length{vg.Points(7), vg.Points(3)}
+	}
+	return s
+}
+
+// boundaryColours is the length of plot.LineColor's cycle.
+const boundaryColours = 8
 
 // carpetBoundary is a constraint's boundary on a carpet: line segments
 // in the carpet's coordinates and, for some of them, a point just on the
@@ -237,21 +257,33 @@ func (b carpetBoundary) Plot(c draw.Canvas, p *gplot.Plot) {
 }
 
 // traceCarpet traces the zero level of margin m through the grid's cells
-// by bilinear interpolation on carpetRefine sub-cells per side (marching
-// squares), and maps it onto the carpet: abscissa cx of the fractional
+// (traceBoundary) onto the carpet: abscissa cx of the fractional
 // indices, ordinate the bilinear interpolation of z. Cells with a failed
 // corner are skipped.
 func traceCarpet(z, m [][]float64, cx func(i, j float64) float64) carpetBoundary {
+	return traceBoundary(m, z, func(ci, cj int, i, j float64) plotter.XY {
+		return plotter.XY{X: cx(i, j), Y: bilinear(z, ci, cj, i, j)}
+	})
+}
+
+// bilinear interpolates g inside cell (ci, cj) at the fractional indices
+// (i, j), clamped to the cell so that a failed neighbour never enters.
+func bilinear(g [][]float64, ci, cj int, i, j float64) float64 {
+	u := math.Max(0, math.Min(1, i-float64(ci)))
+	v := math.Max(0, math.Min(1, j-float64(cj)))
+	return (1-u)*(1-v)*g[cj][ci] + u*(1-v)*g[cj][ci+1] + (1-u)*v*g[cj+1][ci] + u*v*g[cj+1][ci+1]
+}
+
+// traceBoundary traces the zero level of margin m through the grid's
+// cells by bilinear interpolation on carpetRefine sub-cells per side
+// (marching squares), mapping fractional grid indices inside cell
+// (ci, cj) to the figure's coordinates with at; every third segment gets
+// a tick toward the falling margin (the infeasible side). A cell with a
+// NaN corner in m or z (a failed analysis) is skipped, so no boundary is
+// drawn where the analysis did not answer.
+func traceBoundary(m, z [][]float64, at func(ci, cj int, i, j float64) plotter.XY) carpetBoundary {
 	var b carpetBoundary
 	ny, nx := len(m), len(m[0])
-	// bilinear interpolation of g inside cell (ci, cj) at the fractional
-	// indices (i, j), clamped to the cell so that a failed neighbour
-	// never enters
-	bil := func(g [][]float64, ci, cj int, i, j float64) float64 {
-		u := math.Max(0, math.Min(1, i-float64(ci)))
-		v := math.Max(0, math.Min(1, j-float64(cj)))
-		return (1-u)*(1-v)*g[cj][ci] + u*(1-v)*g[cj][ci+1] + (1-u)*v*g[cj+1][ci] + u*v*g[cj+1][ci+1]
-	}
 	count := 0
 	h := 1.0 / carpetRefine
 	for cj := 0; cj+1 < ny; cj++ {
@@ -265,15 +297,13 @@ func traceCarpet(z, m [][]float64, cx func(i, j float64) float64) carpetBoundary
 			if bad {
 				continue
 			}
-			mc := func(i, j float64) float64 { return bil(m, ci, cj, i, j) }
-			toCarpet := func(i, j float64) plotter.XY { return plotter.XY{X: cx(i, j), Y: bil(z, ci, cj, i, j)} }
 			for sj := 0; sj < carpetRefine; sj++ {
 				for si := 0; si < carpetRefine; si++ {
 					i0, j0 := float64(ci)+float64(si)*h, float64(cj)+float64(sj)*h
 					corner := [4][2]float64{{i0, j0}, {i0 + h, j0}, {i0 + h, j0 + h}, {i0, j0 + h}}
 					var val [4]float64
 					for k, q := range corner {
-						val[k] = mc(q[0], q[1])
+						val[k] = bilinear(m, ci, cj, q[0], q[1])
 					}
 					var cross [][2]float64
 					for k := 0; k < 4; k++ {
@@ -286,7 +316,7 @@ func traceCarpet(z, m [][]float64, cx func(i, j float64) float64) carpetBoundary
 					}
 					for k := 0; k+1 < len(cross); k += 2 {
 						s, e := cross[k], cross[k+1]
-						b.segs = append(b.segs, [2]plotter.XY{toCarpet(s[0], s[1]), toCarpet(e[0], e[1])})
+						b.segs = append(b.segs, [2]plotter.XY{at(ci, cj, s[0], s[1]), at(ci, cj, e[0], e[1])})
 						count++
 						if count%3 != 0 {
 							continue
@@ -301,7 +331,7 @@ func traceCarpet(z, m [][]float64, cx func(i, j float64) float64) carpetBoundary
 						if !(g > 0) {
 							continue
 						}
-						b.ticks = append(b.ticks, [2]plotter.XY{toCarpet(mi, mj), toCarpet(mi-0.05*gi/g, mj-0.05*gj/g)})
+						b.ticks = append(b.ticks, [2]plotter.XY{at(ci, cj, mi, mj), at(ci, cj, mi-0.05*gi/g, mj-0.05*gj/g)})
 					}
 				}
 			}

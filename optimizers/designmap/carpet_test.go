@@ -28,7 +28,7 @@ func TestCarpet(t *testing.T) {
 		t.Fatal(err)
 	}
 	svgShows(t, f, []string{"carpet of f over x1 and x2", "x1 0.25", "x2 0.75", "lines of constant x1", "lines of constant x2",
-		"c2 boundary (ticks on the infeasible side)", "c1 boundary", "gaps: 1 failed analyses, discipline-failed", "best feasible grid point", "(no scale)"})
+		"c2 boundary", "ticks on a boundary: its infeasible side", "c1 boundary", "gaps: 1 failed analyses, discipline-failed", "best feasible grid point", "(no scale)"})
 	if f.Name != "carpet_f" {
 		t.Errorf("figure name %q", f.Name)
 	}

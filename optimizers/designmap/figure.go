@@ -26,38 +26,6 @@ func (g grid) Z(c, r int) float64 { return g.z[r][c] }
 func (g grid) X(c int) float64    { return g.xs[c] }
 func (g grid) Y(r int) float64    { return g.ys[r] }
 
-// filled returns a copy of z whose NaN cells take the value of the
-// nearest valid cell of their row or column, so that a contour can be
-// traced across failed points (which are marked separately).
-func filled(z [][]float64) [][]float64 {
-	out := make([][]float64, len(z))
-	for j := range z {
-		out[j] = append([]float64(nil), z[j]...)
-	}
-	for pass := 0; pass < len(z)+len(z[0]); pass++ {
-		changed := false
-		for j := range out {
-			for i := range out[j] {
-				if !math.IsNaN(out[j][i]) {
-					continue
-				}
-				for _, nb := range [][2]int{{i - 1, j}, {i + 1, j}, {i, j - 1}, {i, j + 1}} {
-					if nb[1] >= 0 && nb[1] < len(out) && nb[0] >= 0 && nb[0] < len(out[0]) && !math.IsNaN(z[nb[1]][nb[0]]) {
-						out[j][i] = z[nb[1]][nb[0]]
-						changed = true
-						break
-					}
-				}
-			}
-		}
-		if !changed {
-			break
-		}
-		z = out
-	}
-	return out
-}
-
 // shade draws a translucent grey cell over every grid point where a
 // constraint is violated.
 type shade struct {
@@ -148,28 +116,44 @@ func Figure(d *Data) (*plot.Figure, error) {
 				}
 			}
 		}
+		cols := pal.Palette(len(levels)).Colors()
+		for k := len(levels) - 1; k >= 0; k -= 3 {
+			p.Legend.Add(fmt.Sprintf("%s %.4g %s", d.Quantity, levels[k], d.QuantityUnit), colourKey{cols[k]})
+		}
 		hm := plotter.NewHeatMap(grid{d.Xs, d.Ys, bands}, pal.Palette(len(levels)))
 		hm.Min, hm.Max = lo, hi
 		hm.NaN = color.White
 		p.Add(hm)
-		iso := plotter.NewContour(grid{d.Xs, d.Ys, filled(d.Z)}, levels, greys{})
-		iso.LineStyles = []draw.LineStyle{{Color: color.NRGBA{A: 90}, Width: vg.Points(0.5)}}
-		p.Add(iso)
+		// iso-lines of the quantity, traced as the boundaries are (none
+		// through failed points)
+		toXY := func(_, _ int, i, j float64) plotter.XY { return plotter.XY{X: along(d.Xs, i), Y: along(d.Ys, j)} }
+		for _, level := range levels {
+			shifted := make([][]float64, len(d.Z))
+			for j, r := range d.Z {
+				shifted[j] = make([]float64, len(r))
+				for i, v := range r {
+					shifted[j][i] = v - level
+				}
+			}
+			iso := traceBoundary(shifted, shifted, toXY)
+			iso.ticks = nil
+			iso.style = draw.LineStyle{Color: color.NRGBA{A: 90}, Width: vg.Points(0.5)}
+			p.Add(iso)
+		}
 	}
 	p.Add(shade{d})
+	p.Legend.Add("grey, and ticks on the boundaries: infeasible side", colourKey{color.NRGBA{R: 60, G: 60, B: 60, A: 110}})
 	var labels plotter.XYLabels
 	for c, name := range d.Constraints {
 		m := d.Margins[c]
 		if !crosses(m) {
 			continue
 		}
-		col := plot.LineColor(c + 2)
-		bound := plotter.NewContour(grid{d.Xs, d.Ys, filled(m)}, []float64{0}, nil)
-		bound.LineStyles = []draw.LineStyle{{Color: col, Width: vg.Points(2)}}
+		style := boundaryStyle(c, 2)
+		bound := traceBoundary(m, m, func(_, _ int, i, j float64) plotter.XY { return plotter.XY{X: along(d.Xs, i), Y: along(d.Ys, j)} })
+		bound.style = style
 		p.Add(bound)
-		legend := plotter.NewFunction(func(float64) float64 { return math.NaN() })
-		legend.LineStyle = bound.LineStyles[0]
-		p.Legend.Add(name+" boundary", legend)
+		p.Legend.Add(name+" boundary", legendStyle(style))
 		if x, y, ok := labelAt(d, m, c); ok {
 			labels.XYs = append(labels.XYs, plotter.XY{X: x, Y: y})
 			labels.Labels = append(labels.Labels, name)
@@ -224,13 +208,31 @@ func Figure(d *Data) (*plot.Figure, error) {
 		name = "recorded_map_" + d.Quantity
 	}
 	p.Add(plotter.NewGrid())
-	return plot.NewFigure(fileName(name), title, vg.Points(560), vg.Points(460), p.Draw), nil
+	return plot.NewFigure(fileName(name), title, vg.Points(900), vg.Points(480), besideLegend(p, 560)), nil
 }
 
-// greys is a palette of one faint grey, for the iso-lines.
-type greys struct{}
+// besideLegend returns the drawing of plot p with its legend beside it,
+// on the right, instead of over the data; the plot takes width points.
+func besideLegend(p *gplot.Plot, width float64) func(draw.Canvas) {
+	leg := p.Legend
+	p.Legend = gplot.NewLegend()
+	leg.Top, leg.Left = true, true
+	return func(c draw.Canvas) {
+		left, right := c, c
+		left.Max.X = c.Min.X + vg.Points(width)
+		right.Min.X = left.Max.X + vg.Points(8)
+		right.Max.Y -= vg.Points(24)
+		p.Draw(left)
+		leg.Draw(right)
+	}
+}
 
-func (greys) Colors() []color.Color { return []color.Color{color.NRGBA{A: 90}} }
+// along returns the value at the fractional index f of the evenly
+// spaced values v.
+func along(v []float64, f float64) float64 {
+	i := int(math.Max(0, math.Min(math.Floor(f), float64(len(v)-2))))
+	return v[i] + (f-float64(i))*(v[i+1]-v[i])
+}
 
 // crosses reports whether the margins change sign on the grid.
 func crosses(m [][]float64) bool {
@@ -332,4 +334,13 @@ func markBest(p *gplot.Plot, x, y float64, label string) {
 	sc.Radius = vg.Points(5)
 	p.Add(sc)
 	p.Legend.Add(label, sc)
+}
+
+// colourKey is a legend thumbnail filled with one colour.
+type colourKey struct{ c color.Color }
+
+// Thumbnail implements gonum's plot.Thumbnailer.
+func (k colourKey) Thumbnail(c *draw.Canvas) {
+	c.SetColor(k.c)
+	c.Fill(c.Rectangle.Path())
 }
