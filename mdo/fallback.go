@@ -201,6 +201,11 @@ const continuationSteps = 64
 // that succeeds lets the next one double (at most 1/4). A parameter whose
 // reference and target are both whole numbers takes rounded values. The
 // parameters and guesses are restored afterwards.
+//
+// A halved step that still reaches the same t as the step that just
+// failed (both reach t = 1) would solve the same parameters from the same
+// state: it is not solved again but fails as that one did, and counts as
+// a step all the same, so the march is the one it always was.
 func (w *Workspace) continuation(ctx context.Context) error {
 	fb := w.fb
 	copy(fb.target, w.val)
@@ -214,8 +219,20 @@ func (w *Workspace) continuation(ctx context.Context) error {
 	}()
 	t, h := 0.0, 0.25
 	var err error
+	failed := -1.0 // the t the last step failed to reach; -1 after a success
 	for steps := 0; steps < continuationSteps; steps++ {
 		tn := math.Min(1, t+h)
+		if tn == failed && !w.exhaustive {
+			// the same solve as the step that just failed
+			if ctx.Err() != nil {
+				return ctx.Err()
+			}
+			h /= 2
+			if h < 1.0/64 {
+				break
+			}
+			continue
+		}
 		for _, i := range w.sys.params {
 			a, b := w.ref[i], fb.target[i]
 			v := a + tn*(b-a)
@@ -239,11 +256,13 @@ func (w *Workspace) continuation(ctx context.Context) error {
 			t = tn
 			copy(fb.state, w.val)
 			h = math.Min(0.25, 2*h)
+			failed = -1
 			continue
 		}
 		if ctx.Err() != nil || !w.loopFailed {
 			return err
 		}
+		failed = tn
 		h /= 2
 		if h < 1.0/64 {
 			break

@@ -13,16 +13,63 @@ import (
 type newtonScratch struct {
 	n                                int
 	u, r, trial, rTrial, col, du, jr []float64
-	jac                              *mat.Dense
-	lu                               mat.LU
-	rhs, dx                          *mat.VecDense
+	// gu is P(G(u))/scale at the current iterate u (so r = gu − u), gLast
+	// the same for the last residual evaluated
+	gu, gLast []float64
+	jac       *mat.Dense
+	lu        mat.LU
+	rhs, dx   *mat.VecDense
+	// plans holds each coupled group's fdPlan once made, by the
+	// group's position in the execution order
+	plans []*fdPlan
+	fd    *fdPlan // the plan of the group being solved
+	ran   []bool  // per discipline of the system: computed by the current column
+}
+
+// fdPlan says, for one coupled group, which disciplines a Jacobian column
+// must run: per coupling variable, the disciplines of the group that read
+// it (in the group's order) and the one that computes it.
+type fdPlan struct {
+	readers  [][]int
+	producer []int
 }
 
 // newNewtonScratch allocates the buffers for n coupling variables.
 func newNewtonScratch(n int) *newtonScratch {
 	f := func() []float64 { return make([]float64, n) }
-	return &newtonScratch{n: n, u: f(), r: f(), trial: f(), rTrial: f(), col: f(), du: f(), jr: f(),
+	return &newtonScratch{n: n, u: f(), r: f(), trial: f(), rTrial: f(), col: f(), du: f(), jr: f(), gu: f(), gLast: f(),
 		jac: mat.NewDense(n, n, nil), rhs: mat.NewVecDense(n, nil), dx: mat.NewVecDense(n, nil)}
+}
+
+// usePlan makes the fdPlan of group g the current one, making it the
+// first time.
+func (w *Workspace) usePlan(g *group) {
+	s := w.nw
+	if s.plans == nil {
+		s.plans = make([]*fdPlan, len(w.sys.groups))
+		s.ran = make([]bool, len(w.sys.discs))
+	}
+	gi := 0
+	for gi < len(w.sys.groups) && &w.sys.groups[gi] != g {
+		gi++
+	}
+	if s.plans[gi] == nil {
+		fp := &fdPlan{readers: make([][]int, len(g.tear)), producer: make([]int, len(g.tear))}
+		for k, v := range g.tear {
+			fp.producer[k] = w.sys.producer[v]
+			for _, d := range g.discs {
+				p := &w.plan[d]
+				for _, i := range p.loop {
+					if p.inIdx[i] == v {
+						fp.readers[k] = append(fp.readers[k], d)
+						break
+					}
+				}
+			}
+		}
+		s.plans[gi] = fp
+	}
+	s.fd = s.plans[gi]
 }
 
 // newton converges a coupled group by Newton's method on the scaled
@@ -36,8 +83,9 @@ func newNewtonScratch(n int) *newtonScratch {
 //     backward where the forward step would leave the range), computed at
 //     the first iteration and then kept up to date by Broyden's rank-one
 //     update; a fresh finite-difference Jacobian is computed only when the
-//     line search fails with an updated one. One Jacobian costs n sweeps,
-//     an update none.
+//     line search fails with an updated one. One Jacobian costs n sweeps
+//     of the disciplines that read the perturbed variable (the others
+//     would compute what they computed at u), an update none.
 //   - Globalisation: a backtracking line search on ‖R‖₂ (Armijo test with
 //     c = 1e-4, at most 12 halvings); each trial point is clipped into the
 //     scaled ranges, and a trial on which a discipline fails counts as no
@@ -66,13 +114,16 @@ func (w *Workspace) newton(ctx context.Context, g *group, set SolverSettings, p 
 		}
 		first = false
 		for k, v := range g.tear {
-			dst[k] = clip(w.val[v], g.lo[k], g.hi[k])/scale[k] - x[k]
+			s.gLast[k] = clip(w.val[v], g.lo[k], g.hi[k]) / scale[k]
+			dst[k] = s.gLast[k] - x[k]
 		}
 		return nil
 	}
 	if err := resid(r, u); err != nil {
 		return w.loopError(g, err, p)
 	}
+	copy(s.gu, s.gLast)
+	w.usePlan(g)
 	fresh, haveJac := false, false
 	for it := 1; it <= set.MaxIterations; it++ {
 		if err := ctx.Err(); err != nil {
@@ -94,7 +145,7 @@ func (w *Workspace) newton(ctx context.Context, g *group, set SolverSettings, p 
 			break
 		}
 		if !haveJac {
-			if err := w.fdJacobian(g, resid, u, r, lo, hi); err != nil {
+			if err := w.fdJacobian(g, u, r, lo, hi); err != nil {
 				return w.loopError(g, err, p)
 			}
 			haveJac, fresh = true, true
@@ -119,6 +170,7 @@ func (w *Workspace) newton(ctx context.Context, g *group, set SolverSettings, p 
 			}
 			if err := resid(rTrial, trial); err == nil && twoNorm(rTrial) <= (1-1e-4*lambda)*m0 {
 				accepted = true
+				copy(s.gu, s.gLast)
 				break
 			}
 			lambda /= 2
@@ -134,6 +186,7 @@ func (w *Workspace) newton(ctx context.Context, g *group, set SolverSettings, p 
 			if err := resid(rTrial, trial); err != nil {
 				return w.loopError(g, err, p)
 			}
+			copy(s.gu, s.gLast)
 		}
 		w.broyden(trial, rTrial)
 		copy(u, trial)
@@ -149,7 +202,7 @@ func (w *Workspace) newton(ctx context.Context, g *group, set SolverSettings, p 
 
 // fdJacobian fills the Newton Jacobian by finite differences at u, where
 // the residual is r.
-func (w *Workspace) fdJacobian(g *group, resid func(dst, x []float64) error, u, r []float64, lo, hi func(int) float64) error {
+func (w *Workspace) fdJacobian(g *group, u, r []float64, lo, hi func(int) float64) error {
 	s := w.nw
 	copy(s.trial, u)
 	for j := range u {
@@ -158,11 +211,11 @@ func (w *Workspace) fdJacobian(g *group, resid func(dst, x []float64) error, u, 
 			h = -h
 		}
 		s.trial[j] = u[j] + h
-		err := resid(s.col, s.trial)
+		err := w.fdColumn(g, j, s.trial, s.col)
 		if err != nil {
 			h = -h
 			s.trial[j] = u[j] + h
-			err = resid(s.col, s.trial)
+			err = w.fdColumn(g, j, s.trial, s.col)
 		}
 		s.trial[j] = u[j]
 		if err != nil {
@@ -171,6 +224,60 @@ func (w *Workspace) fdJacobian(g *group, resid func(dst, x []float64) error, u, 
 		for i := range r {
 			s.jac.Set(i, j, (s.col[i]-r[i])/h)
 		}
+	}
+	return nil
+}
+
+// fdColumn writes to dst the residual at x, which differs from the
+// iterate u in coupling variable j alone: the Jacobi sweep of the group
+// at x, run only for the disciplines that read variable j. Every other
+// discipline would get the inputs it had at u, so it would compute u's
+// outputs bit for bit (a discipline is a function of its inputs): the
+// residual of the variables it computes is u's (from s.gu), and its
+// values in the workspace are left as they are: nothing reads them before
+// a sweep of every discipline overwrites them (the iterates Newton
+// accepts, and so the values of a converged group, come from such
+// sweeps). The error is the whole sweep's too: the disciplines left out
+// succeeded on these inputs at u.
+func (w *Workspace) fdColumn(g *group, j int, x, dst []float64) error {
+	s := w.nw
+	scale := w.scale[:len(g.tear)]
+	for k, v := range g.tear {
+		w.val[v] = x[k] * scale[k]
+	}
+	if w.exhaustive {
+		if err := w.sweep(g, true, false); err != nil {
+			return err
+		}
+		for k, v := range g.tear {
+			dst[k] = clip(w.val[v], g.lo[k], g.hi[k])/scale[k] - x[k]
+		}
+		return nil
+	}
+	ds := s.fd.readers[j]
+	for _, d := range ds {
+		if err := w.gatherLoop(d); err != nil {
+			return err
+		}
+	}
+	for _, d := range ds {
+		if err := w.compute(d); err != nil {
+			return err
+		}
+	}
+	for _, d := range ds {
+		w.scatter(d)
+		s.ran[d] = true
+	}
+	for k, v := range g.tear {
+		if s.ran[s.fd.producer[k]] {
+			dst[k] = clip(w.val[v], g.lo[k], g.hi[k])/scale[k] - x[k]
+		} else {
+			dst[k] = s.gu[k] - x[k]
+		}
+	}
+	for _, d := range ds {
+		s.ran[d] = false
 	}
 	return nil
 }

@@ -1,0 +1,153 @@
+package mdo
+
+import (
+	"context"
+	"fmt"
+	"math"
+	"slices"
+	"testing"
+)
+
+// loadingError is the refusal of sizingLoop's aerodynamics: a mass per
+// area it is not defined for, naming the coupling variable m.
+type loadingError struct{ ratio float64 }
+
+func (e loadingError) Error() string    { return fmt.Sprintf("loading m/s = %g above 4", e.ratio) }
+func (e loadingError) Variable() string { return "m" }
+
+// sizingLoop is an invented sizing loop of five disciplines (no published
+// source): drag d grows with the mass m squared over the area s, the
+// engine's mass and fuel coefficient grow with d, the fuel with the
+// range factor r, the mass is the sum, and a trim term q feeds back into
+// the drag. Over a grid of s and r it closes directly, closes only by a
+// fallback (the guess of m is on the runaway side of the balance, or the
+// loop converges too slowly for 25 iterations), or does not close (the
+// aerodynamics refuses m/s above 4).
+func sizingLoop(t *testing.T) *System {
+	t.Helper()
+	v := func(name string, def, lo, hi float64) Var {
+		return Var{Name: name, Description: name, Default: def, Min: lo, Max: hi}
+	}
+	s, r, e := v("s", 30, 5, 80), v("r", 1, 0, 20), v("e", 1, 0.1, 10)
+	m, d, we, c, f, q := v("m", 60, 0, 100), v("d", 1, 0, 1000), v("we", 1, 0, 1000), v("c", 0.1, 0, 100), v("f", 1, 0, 1000), v("q", 1, -100, 100)
+	sys, err := NewSystem(
+		FuncVars("aero", []Var{m, s, q}, []Var{d}, func(in, out []float64) error {
+			if in[0] > 4*in[1] {
+				return loadingError{in[0] / in[1]}
+			}
+			out[0] = 0.02*in[1] + 0.5*in[0]*in[0]/in[1] + 0.01*in[2]
+			return nil
+		}),
+		FuncVars("engine", []Var{d}, []Var{we, c}, func(in, out []float64) error {
+			out[0], out[1] = 0.3*in[0], 0.1+0.02*in[0]
+			return nil
+		}),
+		FuncVars("fuel", []Var{d, c, r}, []Var{f}, func(in, out []float64) error {
+			out[0] = in[2] * in[1] * in[0]
+			return nil
+		}),
+		FuncVars("weights", []Var{we, f, e}, []Var{m}, func(in, out []float64) error {
+			out[0] = in[2] + in[0] + in[1]
+			return nil
+		}),
+		FuncVars("stab", []Var{m}, []Var{q}, func(in, out []float64) error {
+			out[0] = 0.1 * in[0]
+			return nil
+		}),
+	)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return sys
+}
+
+// TestFallbackShortcutsChangeNothing analyses a grid of sizingLoop's
+// points with each solver twice: with the shortcuts of the fallback chain
+// (Newton's Jacobian columns sweep only the disciplines that read the
+// perturbed variable; a continuation step that would repeat the one that
+// just failed is not solved again) and without them. Every point gets the
+// same answer bit for bit — values, path, error, coupling reports — and
+// the shortcuts spend fewer discipline calls. The grid must hold points
+// rescued by Newton and by the continuation, and points that run the
+// whole chain and fail.
+func TestFallbackShortcutsChangeNothing(t *testing.T) {
+	ctx := context.Background()
+	for _, meth := range []Method{AndersonGaussSeidel, AitkenGaussSeidel, GaussSeidel, Newton} {
+		sys := sizingLoop(t)
+		if err := sys.SetSolver(SolverSettings{Method: meth, MaxIterations: 25}); err != nil {
+			t.Fatal(err)
+		}
+		var ws [2]*Workspace
+		for k := range ws {
+			w := sys.NewWorkspace()
+			w.exhaustive = k == 1
+			if err := w.Set("s", 30); err != nil {
+				t.Fatal(err)
+			}
+			if err := w.SetGuess("m", 1); err != nil {
+				t.Fatal(err)
+			}
+			if err := w.Analyze(ctx); err != nil {
+				t.Fatalf("%s: the reference point: %v", meth, err)
+			}
+			if err := w.SetReference(slices.Clone(w.Values())); err != nil {
+				t.Fatal(err)
+			}
+			ws[k] = w
+		}
+		paths := map[string]int{}
+		var calls [2]int
+		for i := 0; i <= 20; i++ {
+			for j := 0; j <= 20; j++ {
+				var errs [2]error
+				for k, w := range ws {
+					w.Reset()
+					if err := w.Set("s", 5+75*float64(i)/20); err != nil {
+						t.Fatal(err)
+					}
+					if err := w.Set("r", float64(j)); err != nil {
+						t.Fatal(err)
+					}
+					before := w.Counters().DisciplineCalls
+					errs[k] = w.Analyze(ctx)
+					calls[k] += w.Counters().DisciplineCalls - before
+				}
+				at := fmt.Sprintf("%s, s = %g, r = %d", meth, ws[0].Get("s"), j)
+				if fmt.Sprint(errs[0]) != fmt.Sprint(errs[1]) {
+					t.Errorf("%s: %v with the shortcuts, %v without", at, errs[0], errs[1])
+					continue
+				}
+				if ws[0].Path() != ws[1].Path() {
+					t.Errorf("%s: path %q with the shortcuts, %q without", at, ws[0].Path(), ws[1].Path())
+				}
+				if errs[0] != nil {
+					paths["failed: "+Classify(errs[0]).String()+", "+fmt.Sprintf("%T", errs[0])]++
+				} else {
+					paths[ws[0].Path()]++
+					for v := range ws[0].Values() {
+						if a, b := ws[0].At(v), ws[1].At(v); math.Float64bits(a) != math.Float64bits(b) {
+							t.Errorf("%s: %s = %v with the shortcuts, %v without", at, sys.Vars().At(v).Name, a, b)
+						}
+					}
+				}
+				for g, a := range ws[0].CouplingReports() {
+					b := ws[1].CouplingReports()[g]
+					if a.String() != b.String() || a.Path != b.Path || !slices.Equal(a.History, b.History) {
+						t.Errorf("%s: coupling report\n%s%s with the shortcuts,\n%s%s without", at, a, a.Path, b, b.Path)
+					}
+				}
+			}
+		}
+		t.Logf("%s: %v; %d discipline calls with the shortcuts, %d without", meth, paths, calls[0], calls[1])
+		if calls[0] >= calls[1] {
+			t.Errorf("%s: %d discipline calls with the shortcuts, %d without", meth, calls[0], calls[1])
+		}
+		if meth == AitkenGaussSeidel {
+			for _, p := range []string{"fallback: newton", "fallback: continuation", "failed: does-not-close, *mdo.DisciplineError"} {
+				if paths[p] == 0 {
+					t.Errorf("%s: no point of the grid ends %q: the test no longer covers it", meth, p)
+				}
+			}
+		}
+	}
+}
