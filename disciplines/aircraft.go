@@ -22,11 +22,13 @@ func DefaultAircraftConfig() AircraftConfig {
 
 // AircraftDisciplines returns the disciplines of the aircraft model in
 // their Gauss–Seidel order: geometry, airframe_aero, neutral_point,
-// airframe_masses, aerodynamics, engine_cycle, propulsion, mission,
-// weights, stability, wing_box, wing_divergence. The airframe's
-// aerodynamics (airframe_aero), the neutral points (neutral_point) and the
-// airframe's statistical masses (airframe_masses) depend on the design
-// parameters only and run once ahead of the coupled group; inside it
+// airframe_masses, flight_conditions, aerodynamics, engine_cycle,
+// propulsion, mission, weights, stability, wing_box, wing_divergence. The
+// airframe's aerodynamics (airframe_aero), the neutral points
+// (neutral_point), the airframe's statistical masses (airframe_masses)
+// and the air at cruise and at the airport (flight_conditions) depend on
+// the design parameters only and run once ahead of the coupled group;
+// inside it
 // aerodynamics adds what the loop changes (pods, lift, trim), weights the
 // engines, gear, fuel system and fuel, and stability the static margins
 // and the trim load. The wing box (wing_box) and its divergence
@@ -41,6 +43,7 @@ func AircraftDisciplines(cfg AircraftConfig) []mdo.Discipline {
 		NewAirframeAerodynamics(cfg.Geometry, cfg.Aero),
 		NewNeutralPoints(),
 		NewAirframeMasses(wt),
+		NewFlightConditions(),
 		NewAerodynamics(cfg.Geometry, cfg.Aero),
 		NewEngineCycle(),
 		NewPropulsion(),
@@ -53,8 +56,8 @@ func AircraftDisciplines(cfg AircraftConfig) []mdo.Discipline {
 }
 
 // NewAircraft builds the coupled System of the whole aircraft. Geometry,
-// the airframe's aerodynamics, neutral points and masses and the engine
-// cycle run first; aerodynamics, propulsion, weights,
+// the airframe's aerodynamics, neutral points and masses, the flight
+// conditions and the engine cycle run first; aerodynamics, propulsion, weights,
 // stability and mission form one coupled group (mass ↔ aerodynamics ↔
 // propulsion ↔ stability ↔ mission) that the System's solver converges.
 // The group's solver is AircraftSolver (SetSolver changes it).

@@ -57,7 +57,7 @@ func TestAircraftStructure(t *testing.T) {
 			coupled = i
 		}
 	}
-	for _, n := range []string{"geometry", "airframe_aero", "neutral_point", "airframe_masses", "engine_cycle"} {
+	for _, n := range []string{"geometry", "airframe_aero", "neutral_point", "airframe_masses", "flight_conditions", "engine_cycle"} {
 		if p, ok := pos[n]; !ok || p >= coupled {
 			t.Errorf("%s does not run ahead of the coupled group", n)
 		}

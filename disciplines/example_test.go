@@ -33,20 +33,21 @@ func ExampleNewAircraft() {
 	ld, _ := w.Lookup("aero.ld_cruise")
 	fmt.Printf("converged: %v, take-off mass about %.0f t, cruise L/D about %.0f\n", w.CouplingReports()[0].Converged, mto/1000, ld)
 	// Output:
-	// design structure matrix: 12 disciplines, 8 groups (row feeds column)
-	//                         1  2  3  4  5  6  7  8  9 10 11 12   group
-	//   1 geometry            ■  >  >  >  .  >  .  .  >  >  >  >   A
-	//   2 airframe_aero       .  ■  >  .  .  >  >  >  >  >  .  .   B
-	//   3 neutral_point       .  .  ■  .  .  .  .  .  .  >  .  .   C
-	//   4 airframe_masses     .  .  .  ■  .  .  .  .  >  .  .  .   D
-	//   5 engine_cycle        .  .  .  .  ■  .  >  .  .  .  .  .   E
-	//   6 aerodynamics        .  .  .  .  .  ■  >  >  .  .  .  .   F coupled, anderson-gauss-seidel
-	//   7 propulsion          .  .  .  .  .  <  ■  >  >  .  .  .   F coupled, anderson-gauss-seidel
-	//   8 mission             .  .  .  .  .  .  .  ■  >  .  .  .   F coupled, anderson-gauss-seidel
-	//   9 weights             .  .  .  .  .  <  <  <  ■  >  >  .   F coupled, anderson-gauss-seidel
-	//  10 stability           .  .  .  .  .  <  .  .  .  ■  .  .   F coupled, anderson-gauss-seidel
-	//  11 wing_box            .  .  .  .  .  .  .  .  .  .  ■  >   G
-	//  12 wing_divergence     .  .  .  .  .  .  .  .  .  .  .  ■   H
+	// design structure matrix: 13 disciplines, 9 groups (row feeds column)
+	//                           1  2  3  4  5  6  7  8  9 10 11 12 13   group
+	//   1 geometry              ■  >  >  >  .  .  >  .  .  >  >  >  >   A
+	//   2 airframe_aero         .  ■  >  .  .  .  >  >  >  >  >  .  .   B
+	//   3 neutral_point         .  .  ■  .  .  .  .  .  .  .  >  .  .   C
+	//   4 airframe_masses       .  .  .  ■  .  .  .  .  .  >  .  .  .   D
+	//   5 flight_conditions     .  .  .  .  ■  .  .  >  >  .  .  .  .   E
+	//   6 engine_cycle          .  .  .  .  .  ■  .  >  .  .  .  .  .   F
+	//   7 aerodynamics          .  .  .  .  .  .  ■  >  >  .  .  .  .   G coupled, anderson-gauss-seidel
+	//   8 propulsion            .  .  .  .  .  .  <  ■  >  >  .  .  .   G coupled, anderson-gauss-seidel
+	//   9 mission               .  .  .  .  .  .  .  .  ■  >  .  .  .   G coupled, anderson-gauss-seidel
+	//  10 weights               .  .  .  .  .  .  <  <  <  ■  >  >  .   G coupled, anderson-gauss-seidel
+	//  11 stability             .  .  .  .  .  .  <  .  .  .  ■  .  .   G coupled, anderson-gauss-seidel
+	//  12 wing_box              .  .  .  .  .  .  .  .  .  .  .  ■  >   H
+	//  13 wing_divergence       .  .  .  .  .  .  .  .  .  .  .  .  ■   I
 	// converged: true, take-off mass about 38 t, cruise L/D about 10
 }
 

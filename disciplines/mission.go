@@ -217,7 +217,7 @@ const (
 	misInLDCruise
 	misInTSFCCruise
 	misInMach
-	misInAltitude
+	misInCruiseSpeed
 	misInRange
 	misInEngineCount
 	misInThrustTakeoff
@@ -229,8 +229,8 @@ const (
 	misInKTakeoff
 	misInCD0Landing
 	misInKLanding
-	misInAirportElevation
-	misInAirportDT
+	misInAirportDensity
+	misInAirportSound
 	misNumIn
 )
 
@@ -284,6 +284,10 @@ const (
 // The range with full fuel flies mass.fuel_capacity with the zero-fuel
 // mass of the design mission (take-off mass not limited).
 //
+// The air at cruise and at the airport comes from "flight_conditions"
+// (cruise.true_airspeed, airport.density, airport.speed_of_sound), which
+// runs once before the coupled loop.
+//
 // Added variables: inputs mass.fuel_capacity, aero.cd0_landing,
 // aero.k_landing, engine.thrust_takeoff, engine.thrust_climb; outputs
 // mission.fuel_fraction, mission.reserve_fraction,
@@ -321,7 +325,7 @@ func (m *Mission) Inputs() []mdo.Var {
 	in[misInLDCruise] = mdo.Var{Name: "aero.ld_cruise", Unit: "-", Description: "lift-to-drag ratio in cruise", Default: 7.5, Min: 0.5, Max: 40}
 	in[misInTSFCCruise] = po[propOutTSFCCruise]
 	in[misInMach] = cruiseMachVar()
-	in[misInAltitude] = cruiseAltitudeVar()
+	in[misInCruiseSpeed] = cruiseSpeedVar()
 	in[misInRange] = mdo.Var{Name: "mission.range", Unit: "m", Description: "design range", Default: 7.0e6, Min: 1e5, Max: 2e7, Scale: 1e6}
 	in[misInEngineCount] = engineCountVar()
 	in[misInThrustTakeoff] = engineThrustTakeoffVar()
@@ -333,8 +337,8 @@ func (m *Mission) Inputs() []mdo.Var {
 	in[misInKTakeoff] = pol("aero.k_takeoff", "drag-due-to-lift factor, take-off flaps", 0.15)
 	in[misInCD0Landing] = pol("aero.cd0_landing", "zero-lift drag coefficient, landing flaps, gear down", 0.06)
 	in[misInKLanding] = pol("aero.k_landing", "drag-due-to-lift factor, landing flaps", 0.16)
-	in[misInAirportElevation] = airportElevationVar()
-	in[misInAirportDT] = airportDTVar()
+	in[misInAirportDensity] = airportDensityVar()
+	in[misInAirportSound] = airportSoundVar()
 	return in
 }
 
@@ -385,15 +389,7 @@ func (m *Mission) Compute(in, out []float64) error {
 	m0 := in[misInMassTakeoff]
 	ml := in[misInMassLanding]
 	tsfc, ld := in[misInTSFCCruise], in[misInLDCruise]
-	cruise, err := OffsetAtmosphere(in[misInAltitude], 0)
-	if err != nil {
-		return renameInput(err, "cruise.altitude")
-	}
-	apt, err := OffsetAtmosphere(in[misInAirportElevation], in[misInAirportDT])
-	if err != nil {
-		return renameInput(err, "airport.elevation")
-	}
-	v := mach * cruise.SpeedOfSound
+	v := in[misInCruiseSpeed]
 	fr := m.Profile.FuelFractions(in[misInRange], mach, v, tsfc, ld)
 	out[misOutFuel] = fr.Total * m0
 	out[misOutFuelFraction] = fr.Total
@@ -404,11 +400,11 @@ func (m *Mission) Compute(in, out []float64) error {
 	out[misOutReserve] = fr.Reserve * m0
 	out[misOutRangeFull] = m.Profile.RangeForFuel(in[misInFuelCapacity], in[misInMassZeroFuel], mach, v, tsfc, ld)
 
-	rho := apt.Density
+	rho, sound := in[misInAirportDensity], in[misInAirportSound]
 	area := in[misInArea]
 	t0, t1 := in[misInThrustTakeoff], in[misInThrustClimb]
 	thrust := func(speed float64) float64 { // per engine
-		return t0 + (t1-t0)*speed/(apt.SpeedOfSound*m.ClimbMach)
+		return t0 + (t1-t0)*speed/(sound*m.ClimbMach)
 	}
 	vs1 := StallSpeed(m0, rho, area, in[misInCLmaxTakeoff])
 	vs0 := StallSpeed(ml, rho, area, in[misInCLmaxLanding])

@@ -54,7 +54,7 @@ func ExampleEmptyFractionRow_EmptyMassFraction() {
 // The mission discipline on its own: fuel for the design range and the
 // field performance of an invented supersonic business jet.
 func ExampleNewMission() {
-	sys, err := mdo.NewSystem(disciplines.NewMission())
+	sys, err := mdo.NewSystem(disciplines.NewFlightConditions(), disciplines.NewMission())
 	if err != nil {
 		fmt.Println(err)
 		return

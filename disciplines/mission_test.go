@@ -114,7 +114,7 @@ func missionInputs() map[string]float64 {
 
 func missionSystem(t *testing.T, set map[string]float64) *mdo.Workspace {
 	t.Helper()
-	return analysed(t, missionInputs(), set, NewMission())
+	return analysed(t, missionInputs(), set, NewFlightConditions(), NewMission())
 }
 
 func TestMissionSystem(t *testing.T) {
@@ -157,7 +157,7 @@ func TestMissionSystem(t *testing.T) {
 }
 
 func TestMissionRefusesBadInput(t *testing.T) {
-	sys, err := mdo.NewSystem(NewMission())
+	sys, err := mdo.NewSystem(NewFlightConditions(), NewMission())
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -185,7 +185,7 @@ func BenchmarkMissionCompute(b *testing.B) {
 // field length is the sizing field length (and shorter for a larger
 // engine).
 func TestSizingAndPerformanceAgree(t *testing.T) {
-	sys, err := mdo.NewSystem(NewEngineCycle(), NewPropulsion(), NewMission())
+	sys, err := mdo.NewSystem(NewFlightConditions(), NewEngineCycle(), NewPropulsion(), NewMission())
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -225,7 +225,7 @@ func TestSizingAndPerformanceAgree(t *testing.T) {
 // never a panic, NaN or Inf.
 func TestDisciplinesFiniteOverRanges(t *testing.T) {
 	rng := rand.New(rand.NewPCG(7, 11))
-	for _, d := range []mdo.Discipline{NewEngineCycle(), NewPropulsion(), NewWeights(), NewStability(), NewMission()} {
+	for _, d := range []mdo.Discipline{NewFlightConditions(), NewEngineCycle(), NewPropulsion(), NewWeights(), NewStability(), NewMission()} {
 		ins := d.Inputs()
 		in := make([]float64, len(ins))
 		out := make([]float64, len(d.Outputs()))
@@ -260,7 +260,7 @@ func TestDisciplinesFiniteOverRanges(t *testing.T) {
 // one-engine-inoperative second segment give the mission exactly the
 // 14 CFR 25.121(b) minimum gradient of 2.4 %.
 func TestSecondSegmentSizingAgrees(t *testing.T) {
-	sys, err := mdo.NewSystem(NewEngineCycle(), NewPropulsion(), NewMission())
+	sys, err := mdo.NewSystem(NewFlightConditions(), NewEngineCycle(), NewPropulsion(), NewMission())
 	if err != nil {
 		t.Fatal(err)
 	}

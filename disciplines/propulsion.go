@@ -750,7 +750,7 @@ const (
 	propInCount = iota
 	propInBypass
 	propInMach
-	propInAltitude
+	propInCruiseSpeed
 	propInMassTakeoff
 	propInDragCruise
 	propInLDTakeoff
@@ -758,8 +758,8 @@ const (
 	propInWingArea
 	propInFieldLength
 	propInThrustScale
-	propInAirportElevation
-	propInAirportDT
+	propInAirportDensity
+	propInAirportSound
 	propInUnitSLS
 	propInUnitTakeoff
 	propInUnitClimb
@@ -801,7 +801,8 @@ const (
 // Propulsion is the "propulsion" discipline: it sizes the engines (air
 // mass flow) to the hardest of four thrust requirements and reports their
 // thrust, cruise fuel consumption, mass and nacelle size, from the
-// per-unit-flow cycle results of "engine_cycle" (both belong in the
+// per-unit-flow cycle results of "engine_cycle" and the air at cruise
+// and at the airport of "flight_conditions" (all three belong in the
 // aircraft System).
 //
 // Requirements, per engine, each divided by the thrust per unit SLS flow
@@ -853,7 +854,7 @@ func (p *Propulsion) Inputs() []mdo.Var {
 	in[propInCount] = engineCountVar()
 	in[propInBypass] = NewEngineCycle().Inputs()[cycInBypass]
 	in[propInMach] = cruiseMachVar()
-	in[propInAltitude] = cruiseAltitudeVar()
+	in[propInCruiseSpeed] = cruiseSpeedVar()
 	in[propInMassTakeoff] = massTakeoffVar()
 	in[propInDragCruise] = mdo.Var{Name: "aero.drag_cruise", Unit: "N", Description: "aircraft drag at the start of cruise", Default: 50000, Min: 1, Max: 5e6, Scale: 1e4}
 	in[propInLDTakeoff] = mdo.Var{Name: "aero.ld_takeoff", Unit: "-", Description: "lift-to-drag ratio in take-off configuration at V2", Default: 7, Min: 1, Max: 40}
@@ -861,8 +862,8 @@ func (p *Propulsion) Inputs() []mdo.Var {
 	in[propInWingArea] = wingAreaVar()
 	in[propInFieldLength] = mdo.Var{Name: "engine.sizing_field_length", Unit: "m", Description: "take-off field length the engines are sized for", Default: 1900, Min: 500, Max: 5000, Scale: 1000}
 	in[propInThrustScale] = mdo.Var{Name: "engine.thrust_scale", Unit: "-", Description: "engine size over the sized minimum (>= 1)", Default: 1, Min: 1, Max: 3}
-	in[propInAirportElevation] = airportElevationVar()
-	in[propInAirportDT] = airportDTVar()
+	in[propInAirportDensity] = airportDensityVar()
+	in[propInAirportSound] = airportSoundVar()
 	in[propInUnitSLS] = cyc[cycOutUnitSLS]
 	in[propInUnitTakeoff] = cyc[cycOutUnitTakeoff]
 	in[propInUnitClimb] = cyc[cycOutUnitClimb]
@@ -912,24 +913,17 @@ func (p *Propulsion) Compute(in, out []float64) error {
 	if !(availTO > 0 && availCl > 0 && availCr > 0) {
 		return inputErr("engine.unit_thrust_cruise", availCr, "N s/kg", "> 0 at every sizing condition")
 	}
-	// density ratio at the airport: σ = (p/p0)/(T/T0)
-	apt, err := OffsetAtmosphere(in[propInAirportElevation], in[propInAirportDT])
-	if err != nil {
-		return renameInput(err, "airport.elevation")
-	}
-	sigma := apt.Density / SeaLevelDensity
-	cruise, err := OffsetAtmosphere(in[propInAltitude], 0)
-	if err != nil {
-		return renameInput(err, "cruise.altitude")
-	}
-	vCruise := mach * cruise.SpeedOfSound
+	// density ratio at the airport
+	rho, sound := in[propInAirportDensity], in[propInAirportSound]
+	sigma := rho / SeaLevelDensity
+	vCruise := in[propInCruiseSpeed]
 	wsPsf := w / in[propInWingArea] / unitPsf
 	tofFt := in[propInFieldLength] / unitFt
 	tw := RoskamTakeoffParameter * wsPsf / (sigma * in[propInCLmaxTakeoff] * tofFt)
 	// thrust at V2 = 1.13 VSR1: linear in Mach between static and the
 	// second-segment Mach number (the model of the mission discipline)
-	v2 := V2MinRatio * StallSpeed(in[propInMassTakeoff], apt.Density, in[propInWingArea], in[propInCLmaxTakeoff])
-	availV2 := availTO + (availCl-availTO)*v2/(apt.SpeedOfSound*in[propInClimbMach])
+	v2 := V2MinRatio * StallSpeed(in[propInMassTakeoff], rho, in[propInWingArea], in[propInCLmaxTakeoff])
+	availV2 := availTO + (availCl-availTO)*v2/(sound*in[propInClimbMach])
 	if !(availV2 > 0) {
 		return inputErr("engine.unit_thrust_climb", availCl, "N s/kg", "a positive thrust at V2")
 	}

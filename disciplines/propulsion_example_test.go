@@ -38,7 +38,7 @@ func ExampleMixedFlowTurbofan() {
 // Engine sizing: the cycle deck (engine_cycle) and the sizing
 // (propulsion) as a System of their own.
 func ExampleNewPropulsion() {
-	sys, err := mdo.NewSystem(disciplines.NewEngineCycle(), disciplines.NewPropulsion())
+	sys, err := mdo.NewSystem(disciplines.NewFlightConditions(), disciplines.NewEngineCycle(), disciplines.NewPropulsion())
 	if err != nil {
 		fmt.Println(err)
 		return

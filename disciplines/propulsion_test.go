@@ -221,7 +221,7 @@ func TestEngineMassAndNacelle(t *testing.T) {
 // parameters and coupling inputs set as parameters.
 func propulsionSystem(t *testing.T, set map[string]float64) *mdo.Workspace {
 	t.Helper()
-	sys, err := mdo.NewSystem(NewEngineCycle(), NewPropulsion())
+	sys, err := mdo.NewSystem(NewFlightConditions(), NewEngineCycle(), NewPropulsion())
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -302,7 +302,7 @@ func TestPropulsionSystem(t *testing.T) {
 }
 
 func TestPropulsionRefusesBadInput(t *testing.T) {
-	sys, err := mdo.NewSystem(NewEngineCycle(), NewPropulsion())
+	sys, err := mdo.NewSystem(NewFlightConditions(), NewEngineCycle(), NewPropulsion())
 	if err != nil {
 		t.Fatal(err)
 	}
