@@ -40,7 +40,7 @@ func (s *System) Analyze(ctx context.Context, params map[string]float64) (*Solut
 // Snapshot copies the workspace's current state into a Solution.
 func (w *Workspace) Snapshot() *Solution {
 	sol := &Solution{vars: w.sys.vars.All(), values: append([]float64(nil), w.val...), Counters: w.cnt}
-	for _, r := range w.reports {
+	for _, r := range w.CouplingReports() {
 		sol.CouplingReports = append(sol.CouplingReports, r.Clone())
 	}
 	return sol

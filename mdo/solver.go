@@ -108,6 +108,10 @@ func (s SolverSettings) normalized() (SolverSettings, error) {
 	return s, nil
 }
 
+// plain reports whether the settings are plain Gauss–Seidel without
+// relaxation, whose converged states need no stability check (branch.go).
+func (s SolverSettings) plain() bool { return s.Method == GaussSeidel && s.Relaxation == 1 }
+
 // VarResidual is one variable's scaled residual in a report.
 type VarResidual struct {
 	Name     string

@@ -21,9 +21,14 @@ type System struct {
 	discs    []Discipline
 	fns      []ComputeFunc // discipline -> its computation (see computeFunc)
 	vars     *VarTable
-	producer []int       // variable -> producing discipline, or -1
-	inIdx    [][]int     // discipline -> input variable indices
-	outIdx   [][]int     // discipline -> output variable indices
+	producer []int   // variable -> producing discipline, or -1
+	inIdx    [][]int // discipline -> input variable indices
+	outIdx   [][]int // discipline -> output variable indices
+	// outStart is, per discipline, the index of its first output: the
+	// outputs of a discipline are numbered consecutively (they are
+	// declared first, one discipline after the other), so that they are
+	// the slice val[outStart[d]:outStart[d]+len(outIdx[d])] of the values.
+	outStart []int
 	inSpec   [][]Var     // discipline -> declared input specs (ranges checked)
 	inLo     [][]float64 // discipline -> input lower bounds (−MaxFloat64 if open)
 	inHi     [][]float64 // discipline -> input upper bounds (+MaxFloat64 if open)
@@ -43,6 +48,12 @@ type group struct {
 	coupled bool      // a cycle: needs a solver
 	tear    []int     // coupling variables: produced and consumed inside the group
 	scale   []float64 // residual scale of each coupling variable
+	// inv holds 1/scale of each coupling variable; pow2 is true when
+	// every scale is a power of two, whose reciprocal is exact: a
+	// residual times inv is then the residual divided by scale, bit for
+	// bit (both round the same real number), and costs a multiplication.
+	inv  []float64
+	pow2 bool
 	// lo and hi bound each coupling variable by the intersection of the
 	// validity ranges its consumers inside the group declare; loDisc and
 	// hiDisc name the discipline whose range gives each bound.
@@ -50,6 +61,15 @@ type group struct {
 	loDisc, hiDisc []int
 	names          []string
 	tearNames      []string // names of the coupling variables
+}
+
+// scaled returns d, the change of coupling variable k, in units of its
+// scale: d/scale, computed as d·(1/scale) when that is exact (pow2).
+func (g *group) scaled(k int, d float64) float64 {
+	if g.pow2 {
+		return d * g.inv[k]
+	}
+	return d / g.scale[k]
 }
 
 // NewSystem builds a System from disciplines. Each variable must have
@@ -103,6 +123,13 @@ func NewSystem(ds ...Discipline) (*System, error) {
 			outs = append(outs, i)
 		}
 		s.outIdx = append(s.outIdx, outs)
+		start := len(specs) - len(outs)
+		for k, i := range outs {
+			if i != start+k {
+				return nil, fmt.Errorf("mdo: internal error: outputs of discipline %s are not numbered consecutively", d.Name())
+			}
+		}
+		s.outStart = append(s.outStart, start)
 	}
 	for _, d := range ds {
 		var ins []int
@@ -246,9 +273,15 @@ func (s *System) buildGroups() {
 				}
 			}
 			sort.Ints(gr.tear)
+			gr.pow2 = true
 			for _, v := range gr.tear {
 				gr.tearNames = append(gr.tearNames, s.vars.At(v).Name)
-				gr.scale = append(gr.scale, s.vars.At(v).scale())
+				sc := s.vars.At(v).scale()
+				gr.scale = append(gr.scale, sc)
+				gr.inv = append(gr.inv, 1/sc)
+				if frac, _ := math.Frexp(sc); frac != 0.5 || math.IsInf(sc, 0) || math.IsInf(1/sc, 0) {
+					gr.pow2 = false
+				}
 				lo, hi, ld, hd := -math.MaxFloat64, math.MaxFloat64, -1, -1
 				for _, d := range m {
 					for k, u := range s.inIdx[d] {

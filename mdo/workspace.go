@@ -29,8 +29,13 @@ type Workspace struct {
 	reports  []CouplingReport
 	cnt      Counters
 	// scratch per group, sized to the largest group
-	y, gy, r, rPrev, scale []float64
-	onceMode               bool
+	y, gy, rPrev, scale []float64
+	// res holds, per report, the scaled residuals of the last iteration;
+	// worstDue marks a report whose Worst is still to be filled from
+	// them (fillWorst runs when the reports are read: CouplingReports).
+	res      [][]float64
+	worstDue []bool
+	onceMode bool
 	// solving is true while a coupled group is solved: loop inputs are
 	// then projected onto their ranges.
 	solving bool
@@ -64,7 +69,14 @@ func (s *System) NewWorkspace() *Workspace {
 	for d := range s.discs {
 		w.inBuf = append(w.inBuf, make([]float64, len(s.inIdx[d])))
 		w.outBuf = append(w.outBuf, make([]float64, len(s.outIdx[d])))
-		w.plan = append(w.plan, discPlan{in: w.inBuf[d], out: w.outBuf[d], inIdx: s.inIdx[d], outIdx: s.outIdx[d],
+		// NewSystem numbers each discipline's outputs consecutively
+		// (System.outStart): the values themselves are its output buffer
+		dst := w.val[s.outStart[d] : s.outStart[d]+len(s.outIdx[d])]
+		ops := make([]loopInput, len(s.inLoop[d]))
+		for i, k := range s.inLoop[d] {
+			ops[i] = loopInput{src: s.inIdx[d][k], k: k, lo: s.inLo[d][k], hi: s.inHi[d][k]}
+		}
+		w.plan = append(w.plan, discPlan{in: w.inBuf[d], out: w.outBuf[d], dst: dst, ops: ops, inIdx: s.inIdx[d], outIdx: s.outIdx[d],
 			lo: s.inLo[d], hi: s.inHi[d], loop: s.inLoop[d], loopIn: s.loopIn[d], fn: s.fns[d]})
 	}
 	maxTear := 0
@@ -77,12 +89,13 @@ func (s *System) NewWorkspace() *Workspace {
 			rep.History = make([]float64, 0, w.settings[gi].MaxIterations+1)
 			rep.Worst = make([]VarResidual, 0, 3)
 			w.reports = append(w.reports, rep)
+			w.res = append(w.res, make([]float64, len(g.tear)))
+			w.worstDue = append(w.worstDue, false)
 		}
 	}
 	w.saved = make([]float64, n)
 	w.y = make([]float64, maxTear)
 	w.gy = make([]float64, maxTear)
-	w.r = make([]float64, maxTear)
 	w.rPrev = make([]float64, maxTear)
 	w.scale = make([]float64, maxTear)
 	w.and = newAndersonScratch(maxTear)
@@ -186,7 +199,21 @@ func (w *Workspace) SetSolver(set SolverSettings) error {
 // Reports returns the reports of the coupled groups from the last
 // Analyze, in execution order. They belong to the workspace: Clone one to
 // keep it.
-func (w *Workspace) CouplingReports() []CouplingReport { return w.reports }
+func (w *Workspace) CouplingReports() []CouplingReport {
+	k := 0
+	for gi := range w.sys.groups {
+		g := &w.sys.groups[gi]
+		if !g.coupled {
+			continue
+		}
+		if w.worstDue[k] {
+			w.fillWorst(g, w.res[k], &w.reports[k])
+			w.worstDue[k] = false
+		}
+		k++
+	}
+	return w.reports
+}
 
 // Counters returns the accumulated work counters.
 func (w *Workspace) Counters() Counters { return w.cnt }
@@ -232,9 +259,12 @@ func (w *Workspace) analyzeWith(ctx context.Context, p solvePath) error {
 			}
 			continue
 		}
-		set := p.settings(w.settings[gi])
-		err := w.solve(ctx, g, set, p, &w.reports[k])
-		if err == nil && !w.onceMode {
+		set := w.settings[gi]
+		if p != pathConfigured {
+			set = p.settings(set)
+		}
+		err := w.solve(ctx, g, set, p, k)
+		if err == nil && !w.onceMode && !set.plain() {
 			err = w.stableBranch(g, set, p)
 		}
 		if err != nil {
@@ -284,16 +314,34 @@ func (w *Workspace) ConsistencyResiduals(dst []float64) {
 }
 
 // discPlan gathers in one place what a run of one discipline reads: its
-// input and output buffers, the indices of its inputs and outputs in the
-// values, its inputs' ranges, the positions of its inputs produced inside
-// its own coupled group, and its computation (System.fns).
+// input buffer, its outputs (dst, a window of the values, and out, a
+// buffer of the same length), the indices of its inputs and outputs in the
+// values, its inputs' ranges, its inputs produced inside its own coupled
+// group (ops) and its computation (System.fns).
+//
+// A Gauss–Seidel run writes the outputs straight into the values (dst)
+// and keeps their previous values in out meanwhile, to put them back when
+// the discipline fails: the values are then what they were before the
+// run, as if the outputs had been computed in a buffer and copied. A
+// Jacobi sweep computes into out and copies afterwards (the other
+// disciplines of the sweep read the values of the previous iteration).
 type discPlan struct {
-	in, out       []float64
+	in, out, dst  []float64
+	ops           []loopInput
 	inIdx, outIdx []int
+	loop          []int // positions of the inputs produced inside the group
 	lo, hi        []float64
-	loop          []int
 	loopIn        []bool
 	fn            ComputeFunc
+}
+
+// loopInput is an input of a discipline produced inside its own coupled
+// group: the value it is read from, its position among the discipline's
+// inputs and its validity range.
+type loopInput struct {
+	src    int
+	k      int
+	lo, hi float64
 }
 
 // gather copies discipline d's inputs into its buffer, checking ranges
@@ -320,18 +368,18 @@ func (w *Workspace) gather(d int) error {
 // first sweep and cannot change while the group is solved.
 func (w *Workspace) gatherLoop(d int) error {
 	p := &w.plan[d]
-	in := p.in
-	lo, hi, idx := p.lo[:len(in)], p.hi[:len(in)], p.inIdx[:len(in)]
-	for _, k := range p.loop {
-		x := w.val[idx[k]]
-		if !(x >= lo[k] && x <= hi[k]) {
+	in, val := p.in, w.val
+	for i := range p.ops {
+		op := &p.ops[i]
+		x := val[op.src]
+		if !(x >= op.lo && x <= op.hi) {
 			if !w.solving || x != x {
-				return w.inputError(d, k, x)
+				return w.inputError(d, op.k, x)
 			}
 			// project the iterate onto the discipline's range
-			x = math.Max(lo[k], math.Min(hi[k], x))
+			x = math.Max(op.lo, math.Min(op.hi, x))
 		}
-		in[k] = x
+		in[op.k] = x
 	}
 	return nil
 }
@@ -345,7 +393,14 @@ func (w *Workspace) inputError(d, k int, x float64) error {
 	return &RangeError{Discipline: w.sys.discs[d].Name(), Var: spec.Name, Value: x, Min: spec.Min, Max: spec.Max, Unit: spec.Unit, Produced: w.sys.producer[w.sys.inIdx[d][k]] >= 0}
 }
 
-// compute runs discipline d on its gathered inputs into its output buffer.
+// outputError builds the error for output k of discipline d, which is
+// not finite (x).
+func (w *Workspace) outputError(d, k int, x float64) error {
+	return &NonFiniteError{Discipline: w.sys.discs[d].Name(), Var: w.sys.vars.At(w.sys.outIdx[d][k]).Name, Value: x}
+}
+
+// compute runs discipline d on its gathered inputs into its output buffer
+// (a Jacobi sweep; scatter copies the buffer into the values).
 func (w *Workspace) compute(d int) error {
 	p := &w.plan[d]
 	w.cnt.DisciplineCalls++
@@ -356,7 +411,7 @@ func (w *Workspace) compute(d int) error {
 	}
 	for k, x := range out {
 		if x-x != 0 { // NaN or ±Inf: x − x is 0 for every finite x
-			return &NonFiniteError{Discipline: w.sys.discs[d].Name(), Var: w.sys.vars.At(w.sys.outIdx[d][k]).Name, Value: x}
+			return w.outputError(d, k, x)
 		}
 	}
 	return nil
@@ -371,16 +426,36 @@ func (w *Workspace) scatter(d int) {
 	}
 }
 
-// run gathers, computes and scatters one discipline.
+// call runs discipline d on its gathered inputs, its outputs written
+// straight into the values; when it fails (an error, or an output that is
+// not finite) the values are put back as they were.
+func (w *Workspace) call(p *discPlan, d int) error {
+	w.cnt.DisciplineCalls++
+	w.cur = d
+	dst, old := p.dst, p.out[:len(p.dst)]
+	//lint:ignore S1001 copy calls memmove: the loop is cheaper for the few outputs of a small discipline
+	for k, x := range dst {
+		old[k] = x
+	}
+	if err := p.fn(p.in, dst); err != nil {
+		copy(dst, old)
+		return w.disciplineError(d, err)
+	}
+	for k, x := range dst {
+		if x-x != 0 { // NaN or ±Inf: x − x is 0 for every finite x
+			copy(dst, old)
+			return w.outputError(d, k, x)
+		}
+	}
+	return nil
+}
+
+// run gathers and computes one discipline, its outputs into the values.
 func (w *Workspace) run(d int) error {
 	if err := w.gather(d); err != nil {
 		return err
 	}
-	if err := w.compute(d); err != nil {
-		return err
-	}
-	w.scatter(d)
-	return nil
+	return w.call(&w.plan[d], d)
 }
 
 // sweep runs every discipline of a group once: in turn with the latest
@@ -433,29 +508,27 @@ func clip(x, lo, hi float64) float64 {
 	return x
 }
 
-// sweepLoop is a Gauss–Seidel sweep after the first: gatherLoop, then
-// compute and scatter of each discipline of g written out in one loop (the
-// hot path of every fixed-point solver).
+// sweepLoop is a Gauss–Seidel sweep after the first (the hot path of
+// every fixed-point solver): for each discipline of g, gatherLoop and call
+// written out in one loop.
 func (w *Workspace) sweepLoop(g *group) error {
 	for _, d := range g.discs {
-		if err := w.gatherLoop(d); err != nil {
-			return err
-		}
 		p := &w.plan[d]
-		w.cnt.DisciplineCalls++
-		w.cur = d
-		// only w, p and d live across the call: Go saves no registers
-		if err := p.fn(p.in, p.out); err != nil {
-			return w.disciplineError(d, err)
-		}
-		out, val := p.out, w.val
-		for k, x := range out {
-			if x-x != 0 { // NaN or ±Inf: x − x is 0 for every finite x
-				return &NonFiniteError{Discipline: w.sys.discs[d].Name(), Var: w.sys.vars.At(w.sys.outIdx[d][k]).Name, Value: x}
+		in, val := p.in, w.val
+		for i := range p.ops {
+			op := &p.ops[i]
+			x := val[op.src]
+			if !(x >= op.lo && x <= op.hi) {
+				if !w.solving || x != x {
+					return w.inputError(d, op.k, x)
+				}
+				// project the iterate onto the discipline's range
+				x = math.Max(op.lo, math.Min(op.hi, x))
 			}
+			in[op.k] = x
 		}
-		for k, v := range p.outIdx[:len(out)] {
-			val[v] = out[k]
+		if err := w.call(p, d); err != nil {
+			return err
 		}
 	}
 	return nil
@@ -478,13 +551,18 @@ const divergeLimit = 1e12
 // limit the disciplines never saw that value, so no state inside the
 // ranges closes the balance: solve returns a *NotClosingError naming the
 // variable and how far beyond the limit it runs.
-func (w *Workspace) solve(ctx context.Context, g *group, set SolverSettings, p solvePath, rep *CouplingReport) error {
+//
+// The group's report is w.reports[rk]; the three worst residuals of a
+// converged solve are filled in when the report is read (CouplingReports).
+func (w *Workspace) solve(ctx context.Context, g *group, set SolverSettings, p solvePath, rk int) error {
+	rep := &w.reports[rk]
 	nt := len(g.tear)
-	y, gy, r, rPrev, scale := w.y[:nt], w.gy[:nt], w.r[:nt], w.rPrev[:nt], w.scale[:nt]
+	y, gy, r, rPrev, scale := w.y[:nt], w.gy[:nt], w.res[rk][:nt], w.rPrev[:nt], w.scale[:nt]
 	copy(scale, g.scale)
 	for k, v := range g.tear {
 		w.val[v] = clip(w.guess[v], g.lo[k], g.hi[k])
 	}
+	w.worstDue[rk] = false
 	rep.Method = set.Method
 	rep.Tolerance = set.Tolerance
 	rep.Converged, rep.Diverged = false, false
@@ -514,6 +592,9 @@ func (w *Workspace) solve(ctx context.Context, g *group, set SolverSettings, p s
 	anderson := set.Method == AndersonGaussSeidel
 	damped := p.damped()
 	omega := set.Relaxation
+	if !jacobi && !aitken && !anderson && omega == 1 {
+		return w.solvePlain(ctx, g, set, p, rk)
+	}
 	w.and.reset()
 	// a context whose Done is nil can never be cancelled
 	cancellable := ctx.Done() != nil
@@ -533,7 +614,7 @@ func (w *Workspace) solve(ctx context.Context, g *group, set SolverSettings, p s
 		norm := 0.0
 		for k, v := range tear {
 			gy[k] = clip(w.val[v], lo[k], hi[k])
-			r[k] = (gy[k] - y[k]) / scale[k]
+			r[k] = g.scaled(k, gy[k]-y[k])
 			if a := math.Abs(r[k]); a > norm || math.IsNaN(a) {
 				norm = a
 			}
@@ -544,7 +625,7 @@ func (w *Workspace) solve(ctx context.Context, g *group, set SolverSettings, p s
 		w.cnt.CouplingIterations++
 		if norm <= set.Tolerance {
 			rep.Converged = true
-			w.fillWorst(g, r, rep)
+			w.worstDue[rk] = true
 			return w.closure(g, p)
 		}
 		if !(norm < divergeLimit) {
@@ -598,10 +679,76 @@ func (w *Workspace) solve(ctx context.Context, g *group, set SolverSettings, p s
 	return &ConvergenceError{CouplingReport: rep.Clone()}
 }
 
+// solvePlain is solve's loop for plain Gauss–Seidel (no relaxation), the
+// iteration every other method and the fallback chain fall back to: the
+// same steps as solve's loop without the relaxation.
+func (w *Workspace) solvePlain(ctx context.Context, g *group, set SolverSettings, p solvePath, rk int) error {
+	rep := &w.reports[rk]
+	nt := len(g.tear)
+	tear, lo, hi := g.tear[:nt], g.lo[:nt], g.hi[:nt]
+	y, r, val := w.y[:nt], w.res[rk][:nt], w.val
+	// a context whose Done is nil can never be cancelled
+	cancellable := ctx.Done() != nil
+	for it := 1; it <= set.MaxIterations; it++ {
+		if cancellable {
+			if err := ctx.Err(); err != nil {
+				return fmt.Errorf("mdo: coupled group {%s} cancelled at iteration %d: %w", joinNames(g.names), it, err)
+			}
+		}
+		for k, v := range tear {
+			y[k] = val[v]
+		}
+		var err error
+		if it == 1 {
+			err = w.sweep(g, false, true)
+		} else {
+			err = w.sweepLoop(g)
+		}
+		if err != nil {
+			return w.loopError(g, err, p)
+		}
+		norm := 0.0
+		for k, v := range tear {
+			d := g.scaled(k, clip(val[v], lo[k], hi[k])-y[k])
+			r[k] = d
+			if a := math.Abs(d); a > norm || a != a {
+				norm = a
+			}
+		}
+		rep.CouplingIterations = it
+		rep.Residual = norm
+		rep.History = append(rep.History, norm)
+		w.cnt.CouplingIterations++
+		if norm <= set.Tolerance {
+			rep.Converged = true
+			w.worstDue[rk] = true
+			return w.closure(g, p)
+		}
+		if !(norm < divergeLimit) {
+			rep.Diverged = true
+			break
+		}
+	}
+	w.fillWorst(g, r, rep)
+	if err := w.closure(g, p); err != nil {
+		return err
+	}
+	return &ConvergenceError{CouplingReport: rep.Clone()}
+}
+
 // closure checks the coupling variables of group g against the ranges of
 // their consumers: the first one beyond a limit (the largest excess in
 // units of its scale) is returned as a *NotClosingError.
 func (w *Workspace) closure(g *group, p solvePath) error {
+	inside := true
+	for k, v := range g.tear {
+		if x := w.val[v]; x < g.lo[k] || x > g.hi[k] {
+			inside = false
+		}
+	}
+	if inside {
+		return nil
+	}
 	worst, excess, limit, disc := -1, 0.0, 0.0, -1
 	for k, v := range g.tear {
 		x := w.val[v]
