@@ -6,8 +6,9 @@ import (
 )
 
 // BenchmarkPSOPressureVessel is the budget row of the speed issue: the
-// default particle swarm (40 particles) on the pressure vessel for 4 999
-// generations after the first, 200 000 points asked for. It reports the
+// default particle swarm (80 particles on its 4 variables) on the
+// pressure vessel for at most 4 999 generations after the first and
+// 200 000 evaluations, the budget that ends it. It reports the
 // analyses and repeats of a run and the best cost found; with the
 // fresh-point rule every point asked for is analysed.
 func BenchmarkPSOPressureVessel(b *testing.B) {

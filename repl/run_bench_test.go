@@ -13,8 +13,8 @@ import (
 // BenchmarkBusinessJetGARun replays studies/business_jet.study with a GA
 // of population 100 over 99 generations in place of its Nelder–Mead
 // (about 9 400 analyses) into a fresh folder: the whole run, results.db,
-// evaluations.csv, figures and report included. It reports the size of
-// results.db per evaluation.
+// evaluations.csv, figures and report included. It reports the sizes of
+// results.db and evaluations.csv per evaluation and the evaluations.
 func BenchmarkBusinessJetGARun(b *testing.B) {
 	src, err := os.ReadFile(filepath.Join("..", "studies", "business_jet.study"))
 	if err != nil {
@@ -30,25 +30,39 @@ func BenchmarkBusinessJetGARun(b *testing.B) {
 		b.Fatal(err)
 	}
 	b.ReportAllocs()
-	var perEval float64
+	var dbPerEval, csvPerEval, evaluations float64
 	for b.Loop() {
 		dir := filepath.Join(b.TempDir(), "out")
 		if _, err := Run(context.Background(), RunOptions{File: file, OutDir: dir}); err != nil {
-			b.Fatal(err)
-		}
-		dbs, _ := filepath.Glob(filepath.Join(dir, "*", "results.db"))
-		if len(dbs) != 1 {
-			b.Fatalf("%d results.db files", len(dbs))
-		}
-		st, err := os.Stat(dbs[0])
-		if err != nil {
 			b.Fatal(err)
 		}
 		sum, err := store.ReadSummary(filepath.Join(dir, "summary.json"))
 		if err != nil {
 			b.Fatal(err)
 		}
-		perEval = float64(st.Size()) / float64(sum.Evaluations)
+		if sum.Evaluations <= 0 {
+			b.Fatalf("summary.json counts %d evaluations", sum.Evaluations)
+		}
+		evaluations = float64(sum.Evaluations)
+		dbPerEval = float64(runFileSize(b, dir, "results.db")) / evaluations
+		csvPerEval = float64(runFileSize(b, dir, "evaluations.csv")) / evaluations
 	}
-	b.ReportMetric(perEval, "db-bytes/evaluation")
+	b.ReportMetric(dbPerEval, "db-bytes/evaluation")
+	b.ReportMetric(csvPerEval, "csv-bytes/evaluation")
+	b.ReportMetric(evaluations, "evaluations")
+}
+
+// runFileSize returns the size of the one file called name in a result
+// folder of the script's folder dir.
+func runFileSize(b *testing.B, dir, name string) int64 {
+	b.Helper()
+	files, _ := filepath.Glob(filepath.Join(dir, "*", name))
+	if len(files) != 1 {
+		b.Fatalf("%d %s files in the result folders of %s", len(files), name, dir)
+	}
+	st, err := os.Stat(files[0])
+	if err != nil {
+		b.Fatal(err)
+	}
+	return st.Size()
 }
