@@ -44,6 +44,11 @@ type RunOutputs struct {
 	// script); by default it holds the status, design, objectives,
 	// constraints and margins, and results.db keeps every output.
 	EveryOutput bool
+	// KeepEvaluations keeps each run's evaluations in memory beside its
+	// store until Close (store.Options.KeepEvaluations), so that its
+	// folder is written without reading results.db back: for a replay
+	// (Run), which writes every folder as soon as the script has run.
+	KeepEvaluations bool
 
 	mu      sync.Mutex
 	stores  []*store.Store
@@ -154,7 +159,7 @@ func FolderName(study string) string {
 
 // options are the store options of every run.
 func (o *RunOutputs) options() store.Options {
-	return store.Options{ToolVersion: toolVersion(), Overwrite: true}
+	return store.Options{ToolVersion: toolVersion(), Overwrite: true, KeepEvaluations: o.KeepEvaluations}
 }
 
 // keep registers a store for Close.

@@ -145,6 +145,7 @@ func Run(ctx context.Context, opts RunOptions) (*RunRecord, error) {
 	outs.PickUp = opts.PickUp
 	outs.Figures = opts.Figures
 	outs.EveryOutput = opts.EveryOutput
+	outs.KeepEvaluations = true
 	defer outs.Close()
 	s, err := NewSession(Options{
 		Policy: opts.Policy, Stdout: out, Stderr: errw, NoErrorEcho: true, OutDir: opts.OutDir,

@@ -14,11 +14,23 @@ import (
 // Evaluations returns every recorded evaluation in ID order, ready for
 // mdo.Evaluator.PickUp. A store in which no run has begun has none.
 func (s *Store) Evaluations() ([]*mdo.Evaluation, error) {
+	if s.db != nil && !s.readOnly && s.began {
+		if err := s.flush(); err != nil {
+			return nil, err
+		}
+	}
+	if evs, ok := s.keptEvaluations(); ok {
+		return evs, nil
+	}
 	var out []*mdo.Evaluation
 	err := s.Scan(func(e *mdo.Evaluation) error {
 		out = append(out, e)
 		return nil
 	})
+	if err == nil && s.kept == nil {
+		// the whole file, before the run is picked up
+		s.keepReadBack(out)
+	}
 	return out, err
 }
 
@@ -35,6 +47,14 @@ func (s *Store) Scan(fn func(*mdo.Evaluation) error) error {
 		if err := s.flush(); err != nil {
 			return err
 		}
+	}
+	if evs, ok := s.keptEvaluations(); ok {
+		for _, e := range evs {
+			if err := fn(e); err != nil {
+				return err
+			}
+		}
+		return nil
 	}
 	l := s.lay
 	var h rowHead

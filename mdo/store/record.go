@@ -86,6 +86,9 @@ func (s *Store) Begin(info mdo.RunInfo) error {
 			Settings: nonNil(info.Settings), Started: started}
 	}
 	s.lay = lay
+	if !pickingUp && s.opt.KeepEvaluations && lay.columns {
+		s.kept = &keptSet{}
+	}
 	if err := s.prepare(); err != nil {
 		return err
 	}

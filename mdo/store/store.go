@@ -50,6 +50,15 @@ type Options struct {
 	// store's writer goroutine and must not call the store's Flush, End
 	// or Close, which wait for that goroutine.
 	OnCommit func(rows int)
+	// KeepEvaluations keeps every evaluation the store commits (and, on a
+	// store picked up, those Evaluations read back before Begin) in memory
+	// until Close, so that Evaluations and Scan answer from memory, with
+	// what a read of the file would give, instead of reading the file
+	// back: for a run whose outputs are written from its store as soon as
+	// it ends. It costs the evaluations' memory until Close (the
+	// evaluations themselves, which the store holds by reference). A
+	// store in the JSON text layout reads its file regardless.
+	KeepEvaluations bool
 
 	// jsonText makes Begin write the JSON text layout of schema versions
 	// 1 and 2 (the package's tests of older stores).
@@ -113,6 +122,8 @@ type Store struct {
 	noFailure bool
 
 	w         *writer // the background writer, between Begin and End
+	keptMu    sync.Mutex
+	kept      *keptSet // the evaluations kept in memory (Options.KeepEvaluations), or nil
 	txMu      sync.Mutex
 	batchRows int
 	stmts     []driver.Stmt
@@ -437,6 +448,9 @@ func (s *Store) Close() error {
 		return nil
 	}
 	first := s.stopWriter()
+	s.keptMu.Lock()
+	s.kept = nil
+	s.keptMu.Unlock()
 	if len(s.stmts) > 0 {
 		_ = s.conn.Raw(func(any) error {
 			for _, st := range s.stmts {

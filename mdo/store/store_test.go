@@ -79,6 +79,8 @@ func sameEvaluation(a, b *mdo.Evaluation) string {
 		return "Converged"
 	case a.Err != b.Err:
 		return "Err"
+	case a.Failure != b.Failure:
+		return "Failure"
 	case a.CouplingIterations != b.CouplingIterations:
 		return "Iterations"
 	case a.DisciplineCalls != b.DisciplineCalls:

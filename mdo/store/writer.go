@@ -332,6 +332,7 @@ func (s *Store) commitLoop(w *writer) {
 			w.err = fmt.Errorf("store: %s: committing %d evaluations: %w", s.path, len(b.rows), err)
 			w.evs, w.its = nil, nil
 		} else if !failed {
+			s.keepCommitted(b.evs)
 			w.committed += int64(len(b.rows) + len(b.its))
 			w.rows += len(b.rows) // a replaced row counts too until End recounts
 		}
