@@ -125,6 +125,7 @@ func (w *Workspace) newton(ctx context.Context, g *group, set SolverSettings, p 
 	copy(s.gu, s.gLast)
 	w.usePlan(g)
 	fresh, haveJac := false, false
+	best, bestIt := math.Inf(1), 0
 	for it := 1; it <= set.MaxIterations; it++ {
 		if err := ctx.Err(); err != nil {
 			return fmt.Errorf("mdo: coupled group {%s} cancelled at iteration %d: %w", joinNames(g.names), it, err)
@@ -143,6 +144,13 @@ func (w *Workspace) newton(ctx context.Context, g *group, set SolverSettings, p 
 		if !(n0 < divergeLimit) {
 			rep.Diverged = true
 			break
+		}
+		if w.stall > 0 {
+			if n0 < best {
+				best, bestIt = n0, it
+			} else if it-bestIt >= w.stall {
+				break
+			}
 		}
 		if !haveJac {
 			if err := w.fdJacobian(g, u, r, lo, hi); err != nil {

@@ -53,7 +53,10 @@ type Workspace struct {
 	// continuation (newton.go, fallback.go): the reference that tests
 	// compare them with
 	exhaustive bool
-	and        *andersonScratch
+	// stall, when positive, ends a solve that has gone that many
+	// iterations without a new smallest residual (fallback.go)
+	stall int
+	and   *andersonScratch
 }
 
 // NewWorkspace returns a fresh workspace with every variable and guess at
@@ -599,6 +602,7 @@ func (w *Workspace) solve(ctx context.Context, g *group, set SolverSettings, p s
 	// a context whose Done is nil can never be cancelled
 	cancellable := ctx.Done() != nil
 	tear, lo, hi := g.tear[:nt], g.lo[:nt], g.hi[:nt]
+	best, bestIt := math.Inf(1), 0
 	for it := 1; it <= set.MaxIterations; it++ {
 		if cancellable {
 			if err := ctx.Err(); err != nil {
@@ -631,6 +635,13 @@ func (w *Workspace) solve(ctx context.Context, g *group, set SolverSettings, p s
 		if !(norm < divergeLimit) {
 			rep.Diverged = true
 			break
+		}
+		if w.stall > 0 {
+			if norm < best {
+				best, bestIt = norm, it
+			} else if it-bestIt >= w.stall {
+				break
+			}
 		}
 		if aitken && it > 1 {
 			num, den := 0.0, 0.0
