@@ -613,6 +613,12 @@ func frictionFrom(rePerM, comp, cut, mach, lnK float64) frictionCondition {
 	return fc
 }
 
+// frictionFromLogs is frictionFrom with the logarithms of the Reynolds
+// number per metre (floored at 1e-300) and of the cut-off factor given.
+func frictionFromLogs(lnRePerM, comp, lnCut, mach, lnK float64) frictionCondition {
+	return frictionCondition{comp: comp, lnCut: lnCut, lnK: lnK, lnRePerM: lnRePerM, fw: formFactorWeight(mach)}
+}
+
 // frictionCompressibility returns the compressibility factor
 // (1 + 0.144M²)^0.65 that divides the turbulent skin friction.
 func frictionCompressibility(mach float64) float64 { return math.Pow(1+0.144*mach*mach, 0.65) }
@@ -1105,7 +1111,7 @@ func (a *Aerodynamics) Compute(in, out []float64) error {
 	}
 	dq := in[aeroInAirframeCruise]
 	if hasPods {
-		fc := frictionFrom(in[aeroInReCruise], in[aeroInCompCruise], in[aeroInCutCruise], mach, lnK)
+		fc := frictionFromLogs(in[aeroInReCruise], in[aeroInCompCruise], in[aeroInCutCruise], mach, lnK)
 		dq += m.componentDragArea(&fc, false, lnN, swN, ffN)
 	}
 	var p Polar
@@ -1131,7 +1137,7 @@ func (a *Aerodynamics) Compute(in, out []float64) error {
 
 	dqLow := in[aeroInAirframeLow]
 	if hasPods {
-		fc := frictionFrom(in[aeroInReLow], in[aeroInCompLow], in[aeroInCutLow], o.TakeoffMach, lnK)
+		fc := frictionFromLogs(in[aeroInReLow], in[aeroInCompLow], in[aeroInCutLow], o.TakeoffMach, lnK)
 		dqLow += m.componentDragArea(&fc, false, lnN, swN, ffN)
 	}
 	waveLow, _ := m.waveDrag(&c, o.TakeoffMach, mddLow, false, nil)

@@ -16,13 +16,15 @@ import (
 //     the airframe at cruise and at the low-speed condition
 //     (aero.airframe_drag_area_cruise, aero.airframe_drag_area_low_speed;
 //     without the miscellaneous share, which aerodynamics applies after
-//     adding the pods), with the Reynolds numbers per metre of both
-//     conditions (aero.reynolds_per_metre_cruise, _low_speed), the
-//     skin friction's compressibility factors
-//     (aero.friction_compressibility_cruise, _low_speed) and the Mach
-//     factors of the roughness cut-off Reynolds number
-//     (aero.cutoff_reynolds_factor_cruise, _low_speed) for the pods' skin
-//     friction, and the cruise dynamic pressure
+//     adding the pods), with the natural logarithms of the Reynolds
+//     numbers per metre of both conditions
+//     (aero.ln_reynolds_per_metre_cruise, _low_speed), the skin
+//     friction's compressibility factors
+//     (aero.friction_compressibility_cruise, _low_speed) and the
+//     logarithms of the Mach factors of the roughness cut-off Reynolds
+//     number (aero.ln_cutoff_reynolds_factor_cruise, _low_speed) for the
+//     pods' skin friction (aerodynamics works with the logarithms, so
+//     they are taken once here), and the cruise dynamic pressure
 //     (aero.dynamic_pressure_cruise);
 //   - the drag-due-to-lift factors aero.k_cruise, aero.k_takeoff,
 //     aero.k_landing and the horizontal tail's at cruise,
@@ -186,6 +188,9 @@ func (a *AirframeAerodynamics) Inputs() []mdo.Var {
 	return in
 }
 
+// lnMaxRePerM is ln 1e10, the largest Reynolds number per metre accepted.
+const lnMaxRePerM = 23.025850929940457
+
 // airframeAeroOutputs returns the specifications of the airframe_aero
 // outputs (aerodynamics reads some of them).
 func airframeAeroOutputs() []mdo.Var {
@@ -195,12 +200,14 @@ func airframeAeroOutputs() []mdo.Var {
 	}
 	v(afOutAreaCruise, "aero.airframe_drag_area_cruise", "m2", "friction, form and interference drag area of wing, fuselage and tails at cruise (no pods, no miscellaneous share)", 1, 0, 1e4)
 	v(afOutAreaLow, "aero.airframe_drag_area_low_speed", "m2", "friction, form and interference drag area of wing, fuselage and tails at low speed (no pods, no miscellaneous share)", 1.5, 0, 1e4)
-	v(afOutReCruise, "aero.reynolds_per_metre_cruise", "1/m", "Reynolds number per metre at cruise", 5e6, 0, 1e10)
-	v(afOutReLow, "aero.reynolds_per_metre_low_speed", "1/m", "Reynolds number per metre of the low-speed polar at the airport", 4.5e6, 0, 1e10)
+	// the logarithms' ranges are the logarithms of the ranges [0, 1e10]
+	// (Reynolds number per metre, floored at 1e-300) and [1, 1000] (cut-off factor)
+	v(afOutReCruise, "aero.ln_reynolds_per_metre_cruise", "-", "natural logarithm of the Reynolds number per metre [1/m] at cruise", 15.4, -700, lnMaxRePerM)
+	v(afOutReLow, "aero.ln_reynolds_per_metre_low_speed", "-", "natural logarithm of the Reynolds number per metre [1/m] of the low-speed polar at the airport", 15.3, -700, lnMaxRePerM)
 	v(afOutCompCruise, "aero.friction_compressibility_cruise", "-", "compressibility factor (1 + 0.144M²)^0.65 dividing the turbulent skin friction at cruise", 1.2, 1, 10)
 	v(afOutCompLow, "aero.friction_compressibility_low_speed", "-", "compressibility factor (1 + 0.144M²)^0.65 dividing the turbulent skin friction at low speed", 1, 1, 10)
-	v(afOutCutCruise, "aero.cutoff_reynolds_factor_cruise", "-", "Mach factor C of the roughness cut-off Reynolds number C·(l/k)^1.053 at cruise", 70, 1, 1000)
-	v(afOutCutLow, "aero.cutoff_reynolds_factor_low_speed", "-", "Mach factor C of the roughness cut-off Reynolds number C·(l/k)^1.053 at low speed", 38.21, 1, 1000)
+	v(afOutCutCruise, "aero.ln_cutoff_reynolds_factor_cruise", "-", "natural logarithm of the Mach factor C of the roughness cut-off Reynolds number C·(l/k)^1.053 at cruise", 4.25, 0, ln1000)
+	v(afOutCutLow, "aero.ln_cutoff_reynolds_factor_low_speed", "-", "natural logarithm of the Mach factor C of the roughness cut-off Reynolds number C·(l/k)^1.053 at low speed", 3.64, 0, ln1000)
 	v(afOutQ, "aero.dynamic_pressure_cruise", "Pa", "dynamic pressure at cruise", 25000, 0, 1e7)
 	v(afOutK, "aero.k_cruise", "-", "drag-due-to-lift factor at cruise", 0.19, 0, 10)
 	v(afOutKTail, "aero.k_htail_cruise", "-", "drag-due-to-lift factor of the horizontal tail at cruise (0 = no tail)", 0.2, 0, 10)
@@ -253,9 +260,9 @@ func (a *AirframeAerodynamics) Compute(in, out []float64) error {
 	re := atm.Reynolds(mach)
 	cut := cutoffFactor(mach)
 	fc := a.friction(re, mach, cut, lnK)
-	out[afOutCompCruise], out[afOutCutCruise] = fc.comp, cut
+	out[afOutCompCruise], out[afOutCutCruise] = fc.comp, fc.lnCut
 	out[afOutAreaCruise] = m.dragArea(&tab, &fc) * in[afInFactorDragArea]
-	out[afOutReCruise] = re
+	out[afOutReCruise] = fc.lnRePerM
 	out[afOutQ] = atm.DynamicPressure(mach)
 	out[afOutK] = dragDueToLift(w, mach, e) * in[afInFactorInduced]
 	kt := 0.0
@@ -275,9 +282,9 @@ func (a *AirframeAerodynamics) Compute(in, out []float64) error {
 	reLow := atmTO.Reynolds(o.TakeoffMach)
 	cutLow := cutoffFactor(o.TakeoffMach)
 	fcLow := a.friction(reLow, o.TakeoffMach, cutLow, lnK)
-	out[afOutCompLow], out[afOutCutLow] = fcLow.comp, cutLow
+	out[afOutCompLow], out[afOutCutLow] = fcLow.comp, fcLow.lnCut
 	out[afOutAreaLow] = m.dragArea(&tab, &fcLow) * in[afInFactorDragArea]
-	out[afOutReLow] = reLow
+	out[afOutReLow] = fcLow.lnRePerM
 	if !(o.TakeoffMach >= 0 && o.TakeoffMach <= MaxMach) {
 		return inputErr("mach", o.TakeoffMach, "", "[0, 2.5]")
 	}

@@ -97,11 +97,17 @@ type MissionFuel struct {
 // FuelFractions returns the mission fuel, as fractions of the take-off
 // mass, that flies the range r [m] at cruise speed v [m/s], tsfc and ld.
 func (p MissionProfile) FuelFractions(r, mach, v, tsfc, ld float64) MissionFuel {
+	return p.fuelFractions(r, mach, v, tsfc, ld, EnduranceFraction(p.HoldTime, tsfc, ld))
+}
+
+// fuelFractions is FuelFractions with the hold's mass fraction
+// EnduranceFraction(p.HoldTime, tsfc, ld) given.
+func (p MissionProfile) fuelFractions(r, mach, v, tsfc, ld, holdFraction float64) MissionFuel {
 	f1 := WarmupTakeoffFraction * ClimbFraction(mach)
 	f2 := f1 * BreguetFraction(r, v, tsfc, ld)
 	f3 := f2 * LandingFraction
 	trip := 1 - f3
-	hold := f3 * (1 - EnduranceFraction(p.HoldTime, tsfc, ld))
+	hold := f3 * (1 - holdFraction)
 	res := p.ContingencyFraction*trip + hold
 	total := trip + res
 	return MissionFuel{Total: total, Trip: trip, Reserve: res, ToCruise: 1 - f1, AtCruiseEnd: total - (1 - f2)}
@@ -115,8 +121,14 @@ func (p MissionProfile) FuelFractions(r, mach, v, tsfc, ld float64) MissionFuel 
 // gives the trip fuel, and the cruise mass ratio follows from the fixed
 // segment fractions.
 func (p MissionProfile) RangeForFuel(fuel, mzf, mach, v, tsfc, ld float64) float64 {
+	return p.rangeForFuel(fuel, mzf, mach, v, tsfc, ld, EnduranceFraction(p.HoldTime, tsfc, ld))
+}
+
+// rangeForFuel is RangeForFuel with the hold's mass fraction given (see
+// fuelFractions).
+func (p MissionProfile) rangeForFuel(fuel, mzf, mach, v, tsfc, ld, holdFraction float64) float64 {
 	w0 := mzf + fuel
-	h := 1 - EnduranceFraction(p.HoldTime, tsfc, ld)
+	h := 1 - holdFraction
 	// fuel = (1+c)·trip + h·(w0 − trip)  →  trip = (fuel − h·w0)/(1 + c − h)
 	trip := (fuel - h*w0) / (1 + p.ContingencyFraction - h)
 	wEnd := w0 - trip // landing mass
@@ -390,7 +402,10 @@ func (m *Mission) Compute(in, out []float64) error {
 	ml := in[misInMassLanding]
 	tsfc, ld := in[misInTSFCCruise], in[misInLDCruise]
 	v := in[misInCruiseSpeed]
-	fr := m.Profile.FuelFractions(in[misInRange], mach, v, tsfc, ld)
+	// the hold's fraction is common to the design mission and the range
+	// with full tanks
+	hold := EnduranceFraction(m.Profile.HoldTime, tsfc, ld)
+	fr := m.Profile.fuelFractions(in[misInRange], mach, v, tsfc, ld, hold)
 	out[misOutFuel] = fr.Total * m0
 	out[misOutFuelFraction] = fr.Total
 	out[misOutReserveFraction] = fr.Reserve
@@ -398,7 +413,7 @@ func (m *Mission) Compute(in, out []float64) error {
 	out[misOutCruiseEndFraction] = fr.AtCruiseEnd
 	out[misOutTripFraction] = fr.Trip
 	out[misOutReserve] = fr.Reserve * m0
-	out[misOutRangeFull] = m.Profile.RangeForFuel(in[misInFuelCapacity], in[misInMassZeroFuel], mach, v, tsfc, ld)
+	out[misOutRangeFull] = m.Profile.rangeForFuel(in[misInFuelCapacity], in[misInMassZeroFuel], mach, v, tsfc, ld, hold)
 
 	rho, sound := in[misInAirportDensity], in[misInAirportSound]
 	area := in[misInArea]
