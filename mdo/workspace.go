@@ -530,8 +530,23 @@ func (w *Workspace) sweepLoop(g *group) error {
 			}
 			in[op.k] = x
 		}
-		if err := w.call(p, d); err != nil {
-			return err
+		// call, written out
+		w.cnt.DisciplineCalls++
+		w.cur = d
+		dst, old := p.dst, p.out[:len(p.dst)]
+		//lint:ignore S1001 copy calls memmove: the loop is cheaper for the few outputs of a small discipline
+		for k, x := range dst {
+			old[k] = x
+		}
+		if err := p.fn(in, dst); err != nil {
+			copy(dst, old)
+			return w.disciplineError(d, err)
+		}
+		for k, x := range dst {
+			if x-x != 0 { // NaN or ±Inf: x − x is 0 for every finite x
+				copy(dst, old)
+				return w.outputError(d, k, x)
+			}
 		}
 	}
 	return nil
@@ -560,8 +575,7 @@ const divergeLimit = 1e12
 func (w *Workspace) solve(ctx context.Context, g *group, set SolverSettings, p solvePath, rk int) error {
 	rep := &w.reports[rk]
 	nt := len(g.tear)
-	y, gy, r, rPrev, scale := w.y[:nt], w.gy[:nt], w.res[rk][:nt], w.rPrev[:nt], w.scale[:nt]
-	copy(scale, g.scale)
+	y, gy, r, rPrev, scale := w.y[:nt], w.gy[:nt], w.res[rk][:nt], w.rPrev[:nt], g.scale[:nt]
 	for k, v := range g.tear {
 		w.val[v] = clip(w.guess[v], g.lo[k], g.hi[k])
 	}
@@ -588,6 +602,7 @@ func (w *Workspace) solve(ctx context.Context, g *group, set SolverSettings, p s
 	w.solving = true
 	defer func() { w.solving = false }()
 	if set.Method == Newton {
+		copy(w.scale, scale) // newton reads the scales there
 		return w.newton(ctx, g, set, p, rep)
 	}
 	jacobi := set.Method == Jacobi || set.Method == AitkenJacobi
