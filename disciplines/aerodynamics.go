@@ -976,6 +976,8 @@ const (
 	aeroInKTail
 	aeroInKTO
 	aeroInCLTO
+	aeroInMDDZeroLift
+	aeroInKornLift
 	aeroInWave // RollAngles × (start, length, waveHarmonics coefficients)
 	aeroNumIn  = aeroInWave + RollAngles*areaRulePerRoll
 )
@@ -1023,6 +1025,7 @@ func (a *Aerodynamics) Inputs() []mdo.Var {
 		{aeroInCompCruise, afOutCompCruise}, {aeroInCompLow, afOutCompLow},
 		{aeroInCutCruise, afOutCutCruise}, {aeroInCutLow, afOutCutLow},
 		{aeroInK, afOutK}, {aeroInKTail, afOutKTail}, {aeroInKTO, afOutKTO}, {aeroInCLTO, afOutCLTO},
+		{aeroInMDDZeroLift, afOutMDDZeroLift}, {aeroInKornLift, afOutKornLift},
 	} {
 		in[k[0]] = af[k[1]]
 	}
@@ -1082,16 +1085,16 @@ func (a *Aerodynamics) Compute(in, out []float64) error {
 		in[aeroInNacDiameter], in[aeroInNacLength], &m.Geometry); err != nil {
 		return err
 	}
-	kf := m.Geometry.KornFactor
 	s := w.Area
 	q := in[aeroInQ]
 	mStart := in[aeroInMassStart]
 	mMid := 0.5 * (mStart + in[aeroInMassEnd])
 	cl := mMid * G0 / (q * s)
-	cosSweep := math.Cos(w.Sweep * math.Pi / 180)
-	mdd := kornFromCos(kf, w.ThicknessRatio, cosSweep, cl)
+	// Korn (kornFromCos) with the wing's parts from airframe_aero
+	mdd0, kornLift := in[aeroInMDDZeroLift], in[aeroInKornLift]
+	mdd := mdd0 - cl/kornLift
 	o := &m.Options
-	mddLow := kornFromCos(kf, w.ThicknessRatio, cosSweep, lowSpeedLift)
+	mddLow := mdd0 - lowSpeedLift/kornLift
 	if inFairing(mach, mdd) || inFairing(o.TakeoffMach, mddLow) {
 		if c, err = AssembleConfiguration(w, pos, f, in[aeroInHTailArea], in[aeroInVTailArea],
 			roundCount(in[aeroInEngines]), in[aeroInNacDiameter], in[aeroInNacLength], m.Geometry); err != nil {

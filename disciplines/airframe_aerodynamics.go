@@ -33,7 +33,11 @@ import (
 //     aero.cla_low_speed;
 //   - the maximum lift coefficients aero.cl_max_clean, _takeoff, _landing
 //     and the lift coefficient at V2 = 1.13·VSR (14 CFR 25.107),
-//     aero.cl_takeoff = CLmax,TO/1.13².
+//     aero.cl_takeoff = CLmax,TO/1.13²;
+//   - the wing's parts of the Korn drag-divergence Mach number
+//     (KornDragDivergence) Mdd = Mdd(CL = 0) − CL/(10 cos³Λ):
+//     aero.mach_drag_divergence_zero_lift and aero.korn_lift_divisor,
+//     to which aerodynamics adds the cruise lift.
 //
 // The methods are those of the aerodynamic model (AeroModel); the low-speed
 // condition is Mach AeroOptions.TakeoffMach at the airport. Three
@@ -161,6 +165,8 @@ const (
 	afOutCLMaxTO
 	afOutCLMaxLdg
 	afOutCLTO
+	afOutMDDZeroLift
+	afOutKornLift
 	afNumOut
 )
 
@@ -219,6 +225,8 @@ func airframeAeroOutputs() []mdo.Var {
 	v(afOutCLMaxTO, "aero.cl_max_takeoff", "-", "maximum lift coefficient, take-off flaps", 1.0, 0, 6)
 	v(afOutCLMaxLdg, "aero.cl_max_landing", "-", "maximum lift coefficient, landing flaps", 1.3, 0, 6)
 	v(afOutCLTO, "aero.cl_takeoff", "-", "lift coefficient at V2 (CLmax,TO/1.13²)", 0.8, 0, 6)
+	v(afOutMDDZeroLift, "aero.mach_drag_divergence_zero_lift", "-", "drag-divergence Mach number (Korn) at zero lift, κA/cos Λ − (t/c)/cos²Λ", 1.5, -100, 100)
+	v(afOutKornLift, "aero.korn_lift_divisor", "-", "10 cos³Λ of the Korn relation Mdd = Mdd(CL = 0) − CL/(10 cos³Λ)", 1.5, 0.1, 10)
 	return o
 }
 
@@ -301,6 +309,11 @@ func (a *AirframeAerodynamics) Compute(in, out []float64) error {
 	out[afOutCLMaxTO] = clTO
 	out[afOutCLMaxLdg] = clean + in[afInFlapLanding]*cq
 	out[afOutCLTO] = clTO / (1.13 * 1.13)
+	// the Korn relation's parts fixed by the wing (kornFromCos in two
+	// pieces, the same operations): aerodynamics adds the cruise lift
+	kf := m.Geometry.KornFactor
+	out[afOutMDDZeroLift] = kf/cq - w.ThicknessRatio/(cq*cq)
+	out[afOutKornLift] = 10 * cq * cq * cq
 	out[afOutKTO] = dragDueToLift(w, o.TakeoffMach, e-o.OswaldReductionTakeoff) * in[afInFactorInduced]
 	out[afOutKLdg] = dragDueToLift(w, o.TakeoffMach, e-o.OswaldReductionLanding) * in[afInFactorInduced]
 	return nil
