@@ -161,7 +161,7 @@ func (c *Comparison) writePage(w *bytes.Buffer, dir string, figs []*plot.Figure,
 		}
 		v.Heads = append(v.Heads, h)
 	}
-	v.Figures = figureViews(figs)
+	v.Figures = figureViews(figs, renderFigures(figs, nil))
 	if err := comparisonPage.Execute(w, v); err != nil {
 		return fmt.Errorf("report: the comparison page: %w", err)
 	}

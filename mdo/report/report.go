@@ -44,12 +44,17 @@ type Options struct {
 	// Figures are further plots (a study's own figures, the DSM, ...),
 	// shown after the standard ones; a figure that cannot be drawn
 	// (plot.LeftOut, or one that fails as it is drawn) has the reason written
-	// in its place.
+	// in its place. The figures are drawn concurrently with each other.
 	Figures []*plot.Figure
 	// Notes are extra lines of text.
 	Notes []string
 	// Generated is the time stamped on the report; default now.
 	Generated time.Time
+
+	// drawn, if not nil, are the standard figures followed by Figures,
+	// drawn already, in order (WriteRun, which saves them too, passes
+	// them all as Figures with NoStandardPlots).
+	drawn []rendered
 }
 
 // view is what the template shows.
@@ -199,13 +204,19 @@ func build(r *mdo.Result, opt Options) (*view, error) {
 	if len(r.Objectives) >= 2 && len(r.Front) > 0 {
 		v.Front = frontOf(r)
 	}
-	v.Figures = figureViews(append(standardFigures(r, opt), opt.Figures...))
+	figs := append(standardFigures(r, opt), opt.Figures...)
+	if opt.drawn != nil {
+		v.Figures = figureViews(figs, opt.drawn)
+	} else {
+		v.Figures = figureViews(figs, renderFigures(figs, nil))
+	}
 	return v, nil
 }
 
-// figureViews numbers the figures for a page and renders each inline;
-// a figure that cannot be drawn has the reason in its place.
-func figureViews(figs []*plot.Figure) []figView {
+// figureViews numbers the figures for a page and puts each inline from
+// its drawing (done, in the order of figs); a figure that cannot be drawn
+// has the reason in its place.
+func figureViews(figs []*plot.Figure, done []rendered) []figView {
 	var out []figView
 	for i, f := range figs {
 		if f == nil {
@@ -213,7 +224,7 @@ func figureViews(figs []*plot.Figure) []figView {
 		}
 		n := len(out) + 1
 		fv := figView{ID: fmt.Sprintf("%d-%s", i+1, f.Name), Caption: fmt.Sprintf("Figure %d. %s", n, f.Title)}
-		if svg, err := f.InlineSVG(); err != nil {
+		if svg, err := done[i].inline(); err != nil {
 			// the reason in the figure's place; the page is still written
 			fv.LeftOut = fmt.Sprintf("Figure %d (%s) could not be drawn: %v", n, f.Name, err)
 		} else {

@@ -2,10 +2,13 @@ package report
 
 import (
 	"bytes"
+	"cmp"
 	"context"
 	"fmt"
 	"os"
 	"path/filepath"
+	"slices"
+	"sync"
 	"time"
 
 	"couplet/mdo"
@@ -32,7 +35,9 @@ const (
 // further lines for the report. It is the hook through which an
 // application adds its own pictures, unknown to the writer. WriteRun
 // hands a source the run's recorded evaluations through ctx (see
-// Evaluations).
+// Evaluations). The figures of a run folder are drawn concurrently with
+// each other (each by one goroutine at a time), so a figure's drawing
+// must not change what another figure's drawing reads.
 type FigureSource func(ctx context.Context, r *mdo.Result, st *mdo.Study) (figs []*plot.Figure, notes []string)
 
 // Run is a finished run to be written as a run folder by WriteRun.
@@ -77,7 +82,9 @@ type Run struct {
 // scatter matrix if asked). A figure that cannot be drawn is left out
 // with the reason written in its place in the report; the rest is still
 // written. Every file is written atomically and never through a symbolic
-// link. It returns the files written.
+// link. The figures are drawn once each (the report's copies are those
+// saved), concurrently, while evaluations.csv is formatted. It returns
+// the files written.
 func WriteRun(ctx context.Context, dir string, run Run) ([]string, error) {
 	if err := os.MkdirAll(dir, 0o755); err != nil {
 		return nil, fmt.Errorf("report: output folder: %w", err)
@@ -101,30 +108,26 @@ func WriteRun(ctx context.Context, dir string, run Run) ([]string, error) {
 	}
 	files = append(files, p)
 	var evs []*mdo.Evaluation
+	// evaluations.csv is formatted while the figures are drawn
+	var csv bytes.Buffer
+	var csvErr error
+	var csvDone sync.WaitGroup
 	if run.Store != nil {
 		var err error
 		if evs, err = run.Store.Evaluations(); err != nil {
 			return files, fmt.Errorf("report: %w", err)
 		}
-		var b bytes.Buffer
-		if err := run.Store.WriteCSVOf(&b, evs, store.CSVOptions{AllOutputs: run.AllOutputs}); err != nil {
-			return files, fmt.Errorf("report: %w", err)
-		}
-		p := filepath.Join(dir, EvaluationsFile)
-		if err := runfolder.WriteFile(p, b.Bytes()); err != nil {
-			return files, fmt.Errorf("report: %w", err)
-		}
-		files = append(files, p)
+		csvDone.Add(1)
+		go func() {
+			defer csvDone.Done()
+			csvErr = run.Store.WriteCSVOf(&csv, evs, store.CSVOptions{AllOutputs: run.AllOutputs})
+		}()
 	}
-	// saved as files: the history (and front) and the further figures
-	var saved, extra []*plot.Figure
+	// the report's standard figures, of which the history (and front)
+	// are saved as files too, then the further figures, all saved
+	std := standardFigures(r, Options{Evaluations: evs, ScatterMatrix: run.ScatterMatrix})
+	var extra []*plot.Figure
 	notes := append(append([]string(nil), r.Notes...), run.Notes...)
-	if len(evs) > 0 {
-		saved = append(saved, drawn("history", "optimisation history", func() (*plot.Figure, error) { return plot.History(r, evs) }))
-		if len(r.Objectives) > 1 {
-			saved = append(saved, drawn("pareto", "Pareto front", func() (*plot.Figure, error) { return plot.Pareto(r, evs) }))
-		}
-	}
 	sctx := context.WithValue(ctx, evaluationsKey{}, evs)
 	for _, src := range run.Figures {
 		figs, n := src(sctx, r, run.Study)
@@ -138,15 +141,37 @@ func WriteRun(ctx context.Context, dir string, run Run) ([]string, error) {
 	if run.Study != nil && run.Study.System != nil {
 		extra = append(extra, drawn("dsm", "design structure matrix", func() (*plot.Figure, error) { return plot.DSM(run.Study.System) }))
 	}
-	for _, figs := range [][]*plot.Figure{saved, extra} {
-		written, err := saveFigures(dir, figs)
-		files = append(files, written...)
-		if err != nil {
-			return files, err
+	all := append(slices.Clip(std), extra...)
+	saved := make([]bool, len(all))
+	for i, f := range all {
+		saved[i] = i >= len(std) || f.Name == "history" || f.Name == "pareto"
+	}
+	done := renderFigures(all, saved)
+	csvDone.Wait()
+	if run.Store != nil {
+		if csvErr != nil {
+			return files, fmt.Errorf("report: %w", csvErr)
+		}
+		p := filepath.Join(dir, EvaluationsFile)
+		if err := runfolder.WriteFile(p, csv.Bytes()); err != nil {
+			return files, fmt.Errorf("report: %w", err)
+		}
+		files = append(files, p)
+	}
+	written, err := writeFigures(dir, all, done, saved)
+	files = append(files, written...)
+	if err != nil {
+		return files, err
+	}
+	// a further figure that failed as its files were drawn has the
+	// reason in its place (a standard one shows its SVG if that was drawn)
+	for i := len(std); i < len(all); i++ {
+		if d := &done[i]; d.svgErr == nil && d.pngErr != nil {
+			d.svgErr = d.pngErr
 		}
 	}
 	p = filepath.Join(dir, ReportFile)
-	opt := Options{Script: run.Script, ToolVersion: run.ToolVersion, Evaluations: evs, ScatterMatrix: run.ScatterMatrix, Figures: extra, Notes: notes}
+	opt := Options{Script: run.Script, ToolVersion: run.ToolVersion, Evaluations: evs, NoStandardPlots: true, Figures: all, Notes: notes, drawn: done}
 	if err := WriteFile(p, r, opt); err != nil {
 		return files, err
 	}
@@ -165,48 +190,50 @@ func Evaluations(ctx context.Context) []*mdo.Evaluation {
 }
 
 // saveFigures writes each figure that can be drawn into dir as
-// NAME.svg and NAME.png (saveFigure); one that fails as it is drawn is
-// replaced in figs by its stand-in with the reason. err is a failure to
-// write.
-func saveFigures(dir string, figs []*plot.Figure) (files []string, err error) {
+// NAME.svg and NAME.png (the figures drawn concurrently, see
+// renderFigures); one that fails as it is drawn is replaced in figs by
+// its stand-in with the reason. err is a failure to write.
+func saveFigures(dir string, figs []*plot.Figure) ([]string, error) {
+	save := make([]bool, len(figs))
+	for i := range save {
+		save[i] = true
+	}
+	done := renderFigures(figs, save)
+	files, err := writeFigures(dir, figs, done, save)
 	for i, f := range figs {
 		if f == nil || f.Reason != nil {
 			continue
 		}
-		written, drawErr, err := saveFigure(dir, f)
-		files = append(files, written...)
-		if err != nil {
-			return files, err
-		}
-		if drawErr != nil {
+		if drawErr := cmp.Or(done[i].svgErr, done[i].pngErr); drawErr != nil {
 			figs[i] = plot.LeftOut(f.Name, f.Title, drawErr)
 		}
 	}
-	return files, nil
+	return files, err
 }
 
-// saveFigure writes a figure into dir as NAME.svg and NAME.png. A
-// figure that fails as it is drawn is returned as drawErr with nothing written; err is
-// a failure to write.
-func saveFigure(dir string, f *plot.Figure) (files []string, drawErr, err error) {
-	var svg, png bytes.Buffer
-	if err := f.WriteSVG(&svg); err != nil {
-		return nil, err, nil
-	}
-	if err := f.WritePNG(&png); err != nil {
-		return nil, err, nil
-	}
-	for _, out := range []struct {
-		ext string
-		b   []byte
-	}{{".svg", svg.Bytes()}, {".png", png.Bytes()}} {
-		p := filepath.Join(dir, f.Name+out.ext)
-		if err := runfolder.WriteFile(p, out.b); err != nil {
-			return files, nil, fmt.Errorf("report: %w", err)
+// writeFigures writes, for each figure with save[i] drawn without
+// failure (done[i]), NAME.svg and NAME.png into dir, in order; it returns
+// the files written. A figure that is nil, a stand-in (plot.LeftOut) or
+// failed as it was drawn is not written.
+func writeFigures(dir string, figs []*plot.Figure, done []rendered, save []bool) ([]string, error) {
+	var files []string
+	for i, f := range figs {
+		d := done[i]
+		if !save[i] || f == nil || f.Reason != nil || d.svgErr != nil || d.pngErr != nil {
+			continue
 		}
-		files = append(files, p)
+		for _, out := range []struct {
+			ext string
+			b   []byte
+		}{{".svg", d.svg}, {".png", d.png}} {
+			p := filepath.Join(dir, f.Name+out.ext)
+			if err := runfolder.WriteFile(p, out.b); err != nil {
+				return files, fmt.Errorf("report: %w", err)
+			}
+			files = append(files, p)
+		}
 	}
-	return files, nil, nil
+	return files, nil
 }
 
 // drawn returns the figure make draws, or its stand-in with the reason

@@ -16,9 +16,14 @@ import (
 
 // recordedRun evaluates n points of a study into a store in dir and
 // returns the result and the store.
-func recordedRun(t *testing.T, dir string, st *mdo.Study, n int) (*mdo.Result, *store.Store) {
+func recordedRun(t testing.TB, dir string, st *mdo.Study, n int) (*mdo.Result, *store.Store) {
+	return recordedRunWith(t, dir, st, n, store.Options{ToolVersion: "t"})
+}
+
+// recordedRunWith is recordedRun with the store's options.
+func recordedRunWith(t testing.TB, dir string, st *mdo.Study, n int, opt store.Options) (*mdo.Result, *store.Store) {
 	t.Helper()
-	s, err := store.Create(filepath.Join(dir, "results.db"), store.Options{ToolVersion: "t"})
+	s, err := store.Create(filepath.Join(dir, "results.db"), opt)
 	if err != nil {
 		t.Fatal(err)
 	}
