@@ -457,16 +457,25 @@ func fmtG(x float64) string { return strconv.FormatFloat(x, 'g', 5, 64) }
 // regression of D. P. Raymer, "Aircraft Design: A Conceptual Approach"
 // (from memory): W[lb] = 0.084·T[lbf]^1.1·exp(−0.045·BPR).
 func EngineMassRaymer(t, bpr float64) float64 {
-	tl := t / unitLbf
-	return 0.084 * math.Exp(1.1*math.Log(tl)-0.045*bpr) * unitLb
+	return engineMassRaymerLn(math.Log(t/unitLbf), bpr)
+}
+
+// engineMassRaymerLn is EngineMassRaymer with lnT = ln(T[lbf]) given.
+func engineMassRaymerLn(lnT, bpr float64) float64 {
+	return 0.084 * math.Exp(1.1*lnT-0.045*bpr) * unitLb
 }
 
 // EngineLengthRaymer returns the bare-engine length [m] by Raymer's
 // regression (from memory): L[ft] = 0.185·T[lbf]^0.4·M^0.2, with the design
 // Mach number taken as at least 0.5.
 func EngineLengthRaymer(t, mach float64) float64 {
+	return engineLengthRaymerLn(math.Log(t/unitLbf), mach)
+}
+
+// engineLengthRaymerLn is EngineLengthRaymer with lnT = ln(T[lbf]) given.
+func engineLengthRaymerLn(lnT, mach float64) float64 {
 	m := math.Max(mach, 0.5)
-	return 0.185 * math.Exp(0.4*math.Log(t/unitLbf)+0.2*math.Log(m)) * unitFt
+	return 0.185 * math.Exp(0.4*lnT+0.2*math.Log(m)) * unitFt
 }
 
 // Nacelle sizing constants (common practice, no source): fan-face Mach
@@ -486,6 +495,11 @@ const (
 // length plus an inlet of (0.5 + 1.5·max(0, M − 1)) nacelle diameters
 // (common practice, no source).
 func NacelleSize(mdot, t, mach float64) (diameter, length float64) {
+	return nacelleSizeLn(mdot, math.Log(t/unitLbf), mach)
+}
+
+// nacelleSizeLn is NacelleSize with lnT = ln(T[lbf]) given.
+func nacelleSizeLn(mdot, lnT, mach float64) (diameter, length float64) {
 	// mass-flow parameter sqrt(γ/R)·M·(1 + (γ−1)M²/2)^(−(γ+1)/(2(γ−1))), γ = 1.4
 	x := 1 + 0.2*fanFaceMach*fanFaceMach
 	mfp := math.Sqrt(Gamma/RAir) * fanFaceMach / (x * x * x)
@@ -493,7 +507,7 @@ func NacelleSize(mdot, t, mach float64) (diameter, length float64) {
 	area := mdot / flux
 	dfan := math.Sqrt(4 * area / (math.Pi * (1 - fanHubTip*fanHubTip)))
 	diameter = nacelleDiaFactor * dfan
-	length = 1.1*EngineLengthRaymer(t, mach) + diameter*(0.5+1.5*math.Max(0, mach-1))
+	length = 1.1*engineLengthRaymerLn(lnT, mach) + diameter*(0.5+1.5*math.Max(0, mach-1))
 	return diameter, length
 }
 
@@ -945,10 +959,12 @@ func (p *Propulsion) Compute(in, out []float64) error {
 	tsfc, thr := PartThrottleInterp(drag/n/tCruiseMax, in[propInTSFCCruiseMax],
 		in[propInThrustNode1], in[propInTSFCNode1], in[propInTt4Node1],
 		in[propInThrustNode2], in[propInTSFCNode2], in[propInTt4Node2])
-	dn, ln := NacelleSize(mdot, tsls, mach)
+	// the engine's length and mass regressions share ln T
+	lnT := math.Log(tsls / unitLbf)
+	dn, ln := nacelleSizeLn(mdot, lnT, mach)
 	out[propOutThrustSLS] = tsls
 	out[propOutMassFlow] = mdot
-	out[propOutMass] = EngineMassRaymer(tsls, in[propInBypass])
+	out[propOutMass] = engineMassRaymerLn(lnT, in[propInBypass])
 	out[propOutTSFCCruise] = tsfc
 	out[propOutThrustCruise] = tCruiseMax
 	out[propOutNacelleDiameter] = dn
