@@ -124,6 +124,9 @@ func (w *Workspace) fallback(ctx context.Context, first error) error {
 	if !allowed {
 		return first
 	}
+	// the stall limit holds for one attempt at most, and a panic in a
+	// discipline must not leave it to the next analysis
+	defer func() { w.stall = 0 }()
 	if w.fb == nil {
 		n := len(w.val)
 		w.fb = &fallbackScratch{target: make([]float64, n), guess: make([]float64, n), state: make([]float64, n), unstable: make([]float64, n)}
