@@ -526,7 +526,7 @@ func (w *Workspace) sweepLoop(g *group) error {
 					return w.inputError(d, op.k, x)
 				}
 				// project the iterate onto the discipline's range
-				x = math.Max(op.lo, math.Min(op.hi, x))
+				x = clip(x, op.lo, op.hi)
 			}
 			in[op.k] = x
 		}
@@ -715,14 +715,18 @@ func (w *Workspace) solvePlain(ctx context.Context, g *group, set SolverSettings
 	y, r, val := w.y[:nt], w.res[rk][:nt], w.val
 	// a context whose Done is nil can never be cancelled
 	cancellable := ctx.Done() != nil
+	// y is the state a sweep starts from: the values of the coupling
+	// variables, which only the sweep changes (the residual loop below
+	// takes them for the next sweep)
+	for k, v := range tear {
+		y[k] = val[v]
+	}
+	best, bestIt := math.Inf(1), 0
 	for it := 1; it <= set.MaxIterations; it++ {
 		if cancellable {
 			if err := ctx.Err(); err != nil {
 				return fmt.Errorf("mdo: coupled group {%s} cancelled at iteration %d: %w", joinNames(g.names), it, err)
 			}
-		}
-		for k, v := range tear {
-			y[k] = val[v]
 		}
 		var err error
 		if it == 1 {
@@ -735,8 +739,9 @@ func (w *Workspace) solvePlain(ctx context.Context, g *group, set SolverSettings
 		}
 		norm := 0.0
 		for k, v := range tear {
-			d := g.scaled(k, clip(val[v], lo[k], hi[k])-y[k])
-			r[k] = d
+			x := val[v]
+			d := g.scaled(k, clip(x, lo[k], hi[k])-y[k])
+			r[k], y[k] = d, x
 			if a := math.Abs(d); a > norm || a != a {
 				norm = a
 			}
@@ -753,6 +758,13 @@ func (w *Workspace) solvePlain(ctx context.Context, g *group, set SolverSettings
 		if !(norm < divergeLimit) {
 			rep.Diverged = true
 			break
+		}
+		if w.stall > 0 {
+			if norm < best {
+				best, bestIt = norm, it
+			} else if it-bestIt >= w.stall {
+				break
+			}
 		}
 	}
 	w.fillWorst(g, r, rep)

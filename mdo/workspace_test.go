@@ -135,3 +135,32 @@ func TestScaledResidualIsTheQuotient(t *testing.T) {
 		}
 	}
 }
+
+// Plain Gauss–Seidel gives up, like the other fixed-point loops, after
+// w.stall iterations without a new smallest residual when the fallback
+// chain sets a stall limit. The loop a = 2 − b, b = a oscillates between
+// (2, 2) and (0, 0) from (0, 0) with a residual of 2 in every sweep.
+func TestPlainGaussSeidelStalls(t *testing.T) {
+	a := FuncVars("a", []Var{{Name: "b", Default: 0, Min: -10, Max: 10}}, []Var{{Name: "a", Default: 0, Min: -10, Max: 10}},
+		func(in, out []float64) error { out[0] = 2 - in[0]; return nil })
+	b := FuncVars("b", []Var{{Name: "a", Default: 0, Min: -10, Max: 10}}, []Var{{Name: "b", Default: 0, Min: -10, Max: 10}},
+		func(in, out []float64) error { out[0] = in[0]; return nil })
+	for _, c := range []struct{ stall, want int }{{0, 50}, {5, 6}} {
+		sys, err := NewSystem(a, b)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if err := sys.SetSolver(SolverSettings{Method: GaussSeidel, MaxIterations: 50, NoFallback: true}); err != nil {
+			t.Fatal(err)
+		}
+		w := sys.NewWorkspace()
+		w.stall = c.stall
+		var ce *ConvergenceError
+		if err := w.Analyze(context.Background()); !errors.As(err, &ce) {
+			t.Fatalf("stall %d: want a convergence error, got %v", c.stall, err)
+		}
+		if it := ce.CouplingReport.CouplingIterations; it != c.want {
+			t.Errorf("stall %d: %d iterations, want %d", c.stall, it, c.want)
+		}
+	}
+}
