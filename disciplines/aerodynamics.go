@@ -1061,7 +1061,9 @@ const lowSpeedLift = 0.5
 // Compute implements mdo.Discipline. It allocates nothing.
 func (a *Aerodynamics) Compute(in, out []float64) error {
 	m := a.model
-	w, err := NewWing(in[geoInArea], in[geoInAspect], in[geoInTaper], in[geoInSweep], in[geoInTC])
+	// the planform places the pods; the whole wing (NewWing) only in the
+	// transonic fairing
+	w, err := surfacePlanform("wing", in[geoInArea], in[geoInAspect], in[geoInTaper], in[geoInSweep], in[geoInTC])
 	if err != nil {
 		return err
 	}
@@ -1096,6 +1098,9 @@ func (a *Aerodynamics) Compute(in, out []float64) error {
 	o := &m.Options
 	mddLow := mdd0 - lowSpeedLift/kornLift
 	if inFairing(mach, mdd) || inFairing(o.TakeoffMach, mddLow) {
+		if w, err = NewWing(w.Area, w.AspectRatio, w.Taper, w.Sweep, w.ThicknessRatio); err != nil {
+			return err
+		}
 		if c, err = AssembleConfiguration(w, pos, f, in[aeroInHTailArea], in[aeroInVTailArea],
 			roundCount(in[aeroInEngines]), in[aeroInNacDiameter], in[aeroInNacLength], m.Geometry); err != nil {
 			return err

@@ -46,6 +46,23 @@ func NewWing(area, aspectRatio, taper, sweep, thicknessRatio float64) (Wing, err
 
 // newSurface is NewWing with a variable prefix for the error messages.
 func newSurface(prefix string, area, ar, taper, sweep, tc float64) (Wing, error) {
+	w, err := surfacePlanform(prefix, area, ar, taper, sweep, tc)
+	if err != nil {
+		return Wing{}, err
+	}
+	w.MAC = 2.0 / 3.0 * w.RootChord * (1 + taper + taper*taper) / (1 + taper)
+	w.MACY = w.Span / 6 * (1 + 2*taper) / (1 + taper)
+	w.SweepLE = math.Atan(w.tanLE) * 180 / math.Pi
+	w.MACX = w.MACY * w.tanLE
+	return w, nil
+}
+
+// surfacePlanform checks a surface's parameters as newSurface does and
+// lays out its span, chords and leading-edge slope (the same values); the
+// mean aerodynamic chord, its position and the leading-edge sweep angle
+// are left zero. It serves the coupled loop's aerodynamics, which places
+// the pods under the wing with it outside the transonic fairing.
+func surfacePlanform(prefix string, area, ar, taper, sweep, tc float64) (Wing, error) {
 	switch {
 	case !(area > 0) || math.IsInf(area, 0):
 		return Wing{}, inputErr(prefix+".area", area, "m2", "> 0")
@@ -62,11 +79,7 @@ func newSurface(prefix string, area, ar, taper, sweep, tc float64) (Wing, error)
 	w.Span = math.Sqrt(area * ar)
 	w.RootChord = 2 * area / (w.Span * (1 + taper))
 	w.TipChord = taper * w.RootChord
-	w.MAC = 2.0 / 3.0 * w.RootChord * (1 + taper + taper*taper) / (1 + taper)
-	w.MACY = w.Span / 6 * (1 + 2*taper) / (1 + taper)
 	w.tanLE = math.Tan(sweep*math.Pi/180) + (1-taper)/(ar*(1+taper))
-	w.SweepLE = math.Atan(w.tanLE) * 180 / math.Pi
-	w.MACX = w.MACY * w.tanLE
 	return w, nil
 }
 
