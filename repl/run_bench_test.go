@@ -14,7 +14,8 @@ import (
 // of population 100 over 99 generations in place of its Nelder–Mead
 // (about 9 400 analyses) into a fresh folder: the whole run, results.db,
 // evaluations.csv, figures and report included. It reports the sizes of
-// results.db and evaluations.csv per evaluation and the evaluations.
+// results.db and evaluations.csv per evaluation, the evaluations and
+// the discipline calls of their analyses.
 func BenchmarkBusinessJetGARun(b *testing.B) {
 	src, err := os.ReadFile(filepath.Join("..", "studies", "business_jet.study"))
 	if err != nil {
@@ -30,12 +31,17 @@ func BenchmarkBusinessJetGARun(b *testing.B) {
 		b.Fatal(err)
 	}
 	b.ReportAllocs()
-	var dbPerEval, csvPerEval, evaluations float64
+	var dbPerEval, csvPerEval, evaluations, calls float64
 	for b.Loop() {
 		dir := filepath.Join(b.TempDir(), "out")
-		if _, err := Run(context.Background(), RunOptions{File: file, OutDir: dir}); err != nil {
+		rec, err := Run(context.Background(), RunOptions{File: file, OutDir: dir})
+		if err != nil {
 			b.Fatal(err)
 		}
+		if rec.Result == nil {
+			b.Fatal("the study handed over no result")
+		}
+		calls = float64(rec.Result.DisciplineCalls)
 		sum, err := store.ReadSummary(filepath.Join(dir, "summary.json"))
 		if err != nil {
 			b.Fatal(err)
@@ -50,6 +56,7 @@ func BenchmarkBusinessJetGARun(b *testing.B) {
 	b.ReportMetric(dbPerEval, "db-bytes/evaluation")
 	b.ReportMetric(csvPerEval, "csv-bytes/evaluation")
 	b.ReportMetric(evaluations, "evaluations")
+	b.ReportMetric(calls, "discipline-calls")
 }
 
 // runFileSize returns the size of the one file called name in a result
