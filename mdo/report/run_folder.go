@@ -1,10 +1,10 @@
 package report
 
 import (
-	"bytes"
 	"cmp"
 	"context"
 	"fmt"
+	"io"
 	"os"
 	"path/filepath"
 	"slices"
@@ -108,10 +108,10 @@ func WriteRun(ctx context.Context, dir string, run Run) ([]string, error) {
 	}
 	files = append(files, p)
 	var evs []*mdo.Evaluation
-	// evaluations.csv is formatted while the figures are drawn
-	var csv bytes.Buffer
+	// evaluations.csv is written while the figures are drawn
 	var csvErr error
 	var csvDone sync.WaitGroup
+	csvPath := filepath.Join(dir, EvaluationsFile)
 	if run.Store != nil {
 		var err error
 		if evs, err = run.Store.Evaluations(); err != nil {
@@ -120,7 +120,9 @@ func WriteRun(ctx context.Context, dir string, run Run) ([]string, error) {
 		csvDone.Add(1)
 		go func() {
 			defer csvDone.Done()
-			csvErr = run.Store.WriteCSVOf(&csv, evs, store.CSVOptions{AllOutputs: run.AllOutputs})
+			csvErr = runfolder.WriteFileFrom(csvPath, func(w io.Writer) error {
+				return run.Store.WriteCSVOf(w, evs, store.CSVOptions{AllOutputs: run.AllOutputs})
+			})
 		}()
 	}
 	// the report's standard figures, of which the history (and front)
@@ -152,11 +154,7 @@ func WriteRun(ctx context.Context, dir string, run Run) ([]string, error) {
 		if csvErr != nil {
 			return files, fmt.Errorf("report: %w", csvErr)
 		}
-		p := filepath.Join(dir, EvaluationsFile)
-		if err := runfolder.WriteFile(p, csv.Bytes()); err != nil {
-			return files, fmt.Errorf("report: %w", err)
-		}
-		files = append(files, p)
+		files = append(files, csvPath)
 	}
 	written, err := writeFigures(dir, all, done, saved)
 	files = append(files, written...)

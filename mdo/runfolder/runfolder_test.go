@@ -2,6 +2,7 @@ package runfolder
 
 import (
 	"errors"
+	"io"
 	"os"
 	"path/filepath"
 	"slices"
@@ -248,5 +249,39 @@ func TestWriteOwnFigure(t *testing.T) {
 	}
 	if err := WriteOwn(dir, "wing_map.svg", nil); err == nil {
 		t.Error("WriteOwn wrote an .svg")
+	}
+}
+
+// WriteFileFrom writes what its function writes; a failing function
+// leaves the file as it was and no temporary file behind.
+func TestWriteFileFrom(t *testing.T) {
+	dir := t.TempDir()
+	p := filepath.Join(dir, "evaluations.csv")
+	if err := os.WriteFile(p, []byte("old\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	refused := errors.New("the store is closed")
+	err := WriteFileFrom(p, func(w io.Writer) error {
+		if _, err := io.WriteString(w, "half a "); err != nil {
+			return err
+		}
+		return refused
+	})
+	if !errors.Is(err, refused) || !strings.Contains(err.Error(), "evaluations.csv") {
+		t.Errorf("error %v; want it to wrap the function's and name the file", err)
+	}
+	if b, _ := os.ReadFile(p); string(b) != "old\n" {
+		t.Errorf("a failed write left %q", b)
+	}
+	big := strings.Repeat("0123456789", 20000) // beyond the buffer
+	if err := WriteFileFrom(p, func(w io.Writer) error { _, err := io.WriteString(w, big); return err }); err != nil {
+		t.Fatal(err)
+	}
+	if b, _ := os.ReadFile(p); string(b) != big {
+		t.Errorf("wrote %d bytes, want %d", len(b), len(big))
+	}
+	entries, _ := os.ReadDir(dir)
+	if len(entries) != 1 {
+		t.Errorf("the folder holds %d entries, want the file alone", len(entries))
 	}
 }

@@ -1,7 +1,9 @@
 package runfolder
 
 import (
+	"bufio"
 	"fmt"
+	"io"
 	"os"
 	"path/filepath"
 )
@@ -12,6 +14,17 @@ import (
 // its target untouched, and a reader sees the old file or the whole new
 // one. The file gets permissions 0644.
 func WriteFile(path string, data []byte) error {
+	return WriteFileFrom(path, func(w io.Writer) error {
+		_, err := w.Write(data)
+		return err
+	})
+}
+
+// WriteFileFrom writes what write writes to path, as WriteFile writes
+// its bytes (atomically, never through a symbolic link), without holding
+// the whole file in memory: write's writer is the temporary file, behind
+// a buffer. An error of write leaves path as it was and is returned.
+func WriteFileFrom(path string, write func(io.Writer) error) error {
 	dir, name := filepath.Split(path)
 	if dir == "" {
 		dir = "."
@@ -28,7 +41,11 @@ func WriteFile(path string, data []byte) error {
 	if err := tmp.Chmod(0o644); err != nil {
 		return fail(err)
 	}
-	if _, err := tmp.Write(data); err != nil {
+	bw := bufio.NewWriterSize(tmp, 64<<10)
+	if err := write(bw); err != nil {
+		return fail(err)
+	}
+	if err := bw.Flush(); err != nil {
 		return fail(err)
 	}
 	if err := tmp.Close(); err != nil {
