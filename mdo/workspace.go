@@ -429,10 +429,25 @@ func (w *Workspace) scatter(d int) {
 	}
 }
 
-// call runs discipline d on its gathered inputs, its outputs written
-// straight into the values; when it fails (an error, or an output that is
-// not finite) the values are put back as they were.
-func (w *Workspace) call(p *discPlan, d int) error {
+// run gathers and computes one discipline, its outputs into the values.
+func (w *Workspace) run(d int) error {
+	// gather, written out
+	p := &w.plan[d]
+	in, val := p.in, w.val
+	lo, hi := p.lo[:len(in)], p.hi[:len(in)]
+	for k, v := range p.inIdx[:len(in)] {
+		x := val[v]
+		if !(x >= lo[k] && x <= hi[k]) {
+			if !w.solving || !p.loopIn[k] || x != x {
+				return w.inputError(d, k, x)
+			}
+			x = clip(x, lo[k], hi[k])
+		}
+		in[k] = x
+	}
+	// the computation, its outputs straight into the values; when it
+	// fails (an error, or an output that is not finite) the values are
+	// put back as they were
 	w.cnt.DisciplineCalls++
 	w.cur = d
 	dst, old := p.dst, p.out[:len(p.dst)]
@@ -440,7 +455,7 @@ func (w *Workspace) call(p *discPlan, d int) error {
 	for k, x := range dst {
 		old[k] = x
 	}
-	if err := p.fn(p.in, dst); err != nil {
+	if err := p.fn(in, dst); err != nil {
 		copy(dst, old)
 		return w.disciplineError(d, err)
 	}
@@ -451,14 +466,6 @@ func (w *Workspace) call(p *discPlan, d int) error {
 		}
 	}
 	return nil
-}
-
-// run gathers and computes one discipline, its outputs into the values.
-func (w *Workspace) run(d int) error {
-	if err := w.gather(d); err != nil {
-		return err
-	}
-	return w.call(&w.plan[d], d)
 }
 
 // sweep runs every discipline of a group once: in turn with the latest
@@ -530,7 +537,7 @@ func (w *Workspace) sweepLoop(g *group) error {
 			}
 			in[op.k] = x
 		}
-		// call, written out
+		// run's computation, written out
 		w.cnt.DisciplineCalls++
 		w.cur = d
 		dst, old := p.dst, p.out[:len(p.dst)]
