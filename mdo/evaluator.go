@@ -33,8 +33,10 @@ type Evaluator struct {
 	resid     [][]float64
 	outputs   []Var
 
-	cache    map[string]*Evaluation
-	pickedUp map[*Evaluation]bool // picked-up points not yet asked for
+	cache    designMap[*Evaluation] // by physical design
+	batch    designMap[int]         // Evaluate's and Cost's points of one batch
+	scratch  []float64              // the physical designs of a batch
+	pickedUp map[*Evaluation]bool   // picked-up points not yet asked for
 	nextID   int
 	best     *Evaluation
 	archive  paretoArchive
@@ -98,7 +100,7 @@ func (s *Study) NewEvaluator() (*Evaluator, error) {
 	if err := s.validate(); err != nil {
 		return nil, err
 	}
-	e := &Evaluator{study: *s, sys: s.System, cache: map[string]*Evaluation{}}
+	e := &Evaluator{study: *s, sys: s.System}
 	sys := s.System
 	n := sys.vars.Len()
 	e.base = make([]float64, n)
@@ -321,18 +323,18 @@ func (e *Evaluator) PickUp(evals []*Evaluation) {
 		e.pickedUp = map[*Evaluation]bool{}
 	}
 	for _, ev := range evals {
-		key := designKey(ev.Design)
-		if _, ok := e.cache[key]; ok {
+		if _, ok := e.cache.get(ev.Design); ok {
 			continue
 		}
 		c := *ev
 		c.PickedUp = true
-		e.cache[key] = &c
+		e.cache.put(c.Design, &c)
 		e.pickedUp[&c] = true
 	}
 }
 
-// designKey is the cache key of a physical design.
+// designKey is the bits of a physical design as a string, the key of
+// designMap's overflow.
 func designKey(d []float64) string {
 	b := make([]byte, 0, 8*len(d))
 	for _, x := range d {
@@ -350,32 +352,47 @@ func designKey(d []float64) string {
 // for). Repeats cost nothing. Optimisers check their budgets with it.
 func (e *Evaluator) Cost(xs [][]float64) int {
 	n := 0
-	seen := make(map[string]bool, len(xs))
-	for _, x := range xs {
+	designs := e.batchDesigns(len(xs))
+	defer e.batch.reset()
+	for i, x := range xs {
 		if len(x) != len(e.slots) {
 			n++ // Evaluate refuses it
 			continue
 		}
-		key := designKey(e.physicalKey(x))
-		if seen[key] {
+		d := designs[i]
+		e.physicalInto(d, x)
+		if _, ok := e.batch.get(d); ok {
 			continue
 		}
-		seen[key] = true
-		if c, ok := e.cache[key]; !ok || e.pickedUp[c] {
+		e.batch.put(d, i)
+		if c, ok := e.cache.get(d); !ok || e.pickedUp[c] {
 			n++
 		}
 	}
 	return n
 }
 
-// physicalKey returns the physical design of a unit-box point, as the
-// cache keys it.
-func (e *Evaluator) physicalKey(x []float64) []float64 {
-	d := make([]float64, len(x))
+// batchDesigns returns n slices of Dim values each, in storage the next
+// call reuses.
+func (e *Evaluator) batchDesigns(n int) [][]float64 {
+	dim := len(e.slots)
+	if cap(e.scratch) < n*dim {
+		e.scratch = make([]float64, n*dim)
+	}
+	buf := e.scratch[:n*dim]
+	out := make([][]float64, n)
+	for i := range out {
+		out[i] = buf[i*dim : (i+1)*dim : (i+1)*dim]
+	}
+	return out
+}
+
+// physicalInto writes the physical design of unit-box point x, as the
+// cache keys it, to d.
+func (e *Evaluator) physicalInto(d, x []float64) {
 	for k, s := range e.slots {
 		d[k] = s.physical(x[k])
 	}
-	return d
 }
 
 // Evaluate answers a batch of unit-box points, in order. Points seen
@@ -390,7 +407,8 @@ func (e *Evaluator) Evaluate(ctx context.Context, xs [][]float64) ([]*Evaluation
 	fresh := make([]*Evaluation, len(xs))
 	dupOf := make([]int, len(xs))
 	var todo []int
-	batch := map[string]int{}
+	designs := e.batchDesigns(len(xs))
+	defer e.batch.reset()
 	for i, x := range xs {
 		dupOf[i] = -1
 		if len(x) != len(e.slots) {
@@ -401,18 +419,18 @@ func (e *Evaluator) Evaluate(ctx context.Context, xs [][]float64) ([]*Evaluation
 				return nil, fmt.Errorf("mdo: point %d: coordinate %s is NaN", i, e.slots[k].name)
 			}
 		}
-		ev := e.newEvaluation(x)
-		key := designKey(ev.Design)
-		if c, ok := e.cache[key]; ok {
+		d := designs[i]
+		e.physicalInto(d, x)
+		if c, ok := e.cache.get(d); ok {
 			out[i] = c
 			continue
 		}
-		if j, ok := batch[key]; ok {
+		if j, ok := e.batch.get(d); ok {
 			dupOf[i] = j
 			continue
 		}
-		batch[key] = i
-		fresh[i] = ev
+		e.batch.put(d, i)
+		fresh[i] = e.newEvaluation(x)
 		todo = append(todo, i)
 	}
 	cancelled, derr := e.dispatch(ctx, todo, fresh)
@@ -459,18 +477,27 @@ func (e *Evaluator) EvaluateOne(ctx context.Context, x []float64) (*Evaluation, 
 	return evs[0], err
 }
 
-// newEvaluation allocates the record of a point.
+// newEvaluation allocates the record of a point: its slices share one
+// array (each capped at its length, so an append to one cannot write into
+// the next), Outputs empty with room for every output.
 func (e *Evaluator) newEvaluation(x []float64) *Evaluation {
-	no, nc := len(e.objIdx), len(e.cons)
-	ev := &Evaluation{
-		X:           make([]float64, len(x)),
-		Design:      make([]float64, len(x)),
-		Objectives:  make([]float64, no),
-		F:           make([]float64, no),
-		Constraints: make([]float64, nc),
-		Margins:     make([]float64, nc),
-		G:           make([]float64, nc),
+	n, no, nc, nv := len(x), len(e.objIdx), len(e.cons), len(e.outputs)
+	buf := make([]float64, 2*n+2*no+3*nc+nv)
+	take := func(k int) []float64 {
+		s := buf[:k:k]
+		buf = buf[k:]
+		return s
 	}
+	ev := &Evaluation{
+		X:           take(n),
+		Design:      take(n),
+		Objectives:  take(no),
+		F:           take(no),
+		Constraints: take(nc),
+		Margins:     take(nc),
+		G:           take(nc),
+	}
+	ev.Outputs = buf[:0:nv]
 	for k, s := range e.slots {
 		ev.X[k] = math.Max(0, math.Min(1, x[k]))
 		ev.Design[k] = s.physical(x[k])
@@ -556,7 +583,7 @@ func (e *Evaluator) analyse(ctx context.Context, w int, ev *Evaluation) (ok bool
 	}
 	ev.Converged = true
 	ev.Path = ws.Path()
-	ev.Outputs = append([]float64(nil), ws.val...)
+	ev.Outputs = append(ev.Outputs[:0], ws.val...)
 	vals := Values{sys: e.sys, val: ws.val}
 	reason, misnamed := e.score(vals, ws, w, ev)
 	if reason != "" {
@@ -696,8 +723,8 @@ func (e *Evaluator) accept(ev *Evaluation) {
 	}
 	e.cnt.DisciplineCalls += ev.DisciplineCalls
 	e.cnt.CouplingIterations += ev.CouplingIterations
-	if e.study.CacheLimit > 0 && len(e.cache) < e.study.CacheLimit {
-		e.cache[designKey(ev.Design)] = ev
+	if e.study.CacheLimit > 0 && e.cache.len() < e.study.CacheLimit {
+		e.cache.put(ev.Design, ev)
 	}
 	if e.study.Recorder != nil && e.recErr == nil {
 		if !e.began {

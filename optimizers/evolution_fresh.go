@@ -1,6 +1,7 @@
 package optimizers
 
 import (
+	"crypto/sha256"
 	"encoding/binary"
 	"math"
 	"math/rand"
@@ -29,16 +30,23 @@ import (
 // numbers it drew before the rule existed.
 //
 // The set is the run's own, not the Evaluator's cache, so a run picked up
-// from its store asks for the same points as the first session did.
+// from its store asks for the same points as the first session did. It
+// keeps each point as the first 128 bits of the SHA-256 digest of its
+// physical values' bits (16 bytes a point instead of 8 a coordinate): two
+// different points share a digest with probability about n²/2¹²⁹ among n
+// points, below 10⁻²⁶ for a million.
 type freshPoints struct {
 	ev    *mdo.Evaluator
 	specs []mdo.DesignSpec
-	seen  map[string]struct{}
+	seen  map[pointDigest]struct{}
 	rng   *rand.Rand
 	// moved counts the candidates moved because they repeated a point.
 	moved int
 	buf   []byte
 }
+
+// pointDigest is the key of a point in freshPoints.
+type pointDigest [16]byte
 
 // freshTries bounds the mutations, then the uniform draws, tried to make a
 // repeated candidate new.
@@ -50,27 +58,28 @@ const freshIndex = 20
 // newFreshPoints returns an empty set for the evaluator's design space,
 // its moves drawing from stream of the study's seed.
 func newFreshPoints(ev *mdo.Evaluator, stream uint64) *freshPoints {
-	return &freshPoints{ev: ev, specs: ev.DesignSpecs(), seen: map[string]struct{}{}, rng: newRand(ev.Seed(), stream)}
+	return &freshPoints{ev: ev, specs: ev.DesignSpecs(), seen: map[pointDigest]struct{}{}, rng: newRand(ev.Seed(), stream)}
 }
 
-// key returns the cache key of unit-box point x, its physical values'
-// bits, in a buffer reused by the next call.
-func (f *freshPoints) key(x []float64) []byte {
+// key returns the key of unit-box point x: the digest of its physical
+// values' bits (as the Evaluator's cache compares them).
+func (f *freshPoints) key(x []float64) pointDigest {
 	f.buf = f.buf[:0]
 	for _, v := range f.ev.ToPhysical(x) {
 		f.buf = binary.LittleEndian.AppendUint64(f.buf, math.Float64bits(v))
 	}
-	return f.buf
+	sum := sha256.Sum256(f.buf)
+	return pointDigest(sum[:16])
 }
 
 // add records x unless it was asked for before; it reports whether it
 // was new.
 func (f *freshPoints) add(x []float64) bool {
 	k := f.key(x)
-	if _, ok := f.seen[string(k)]; ok {
+	if _, ok := f.seen[k]; ok {
 		return false
 	}
-	f.seen[string(k)] = struct{}{}
+	f.seen[k] = struct{}{}
 	return true
 }
 
