@@ -3,7 +3,9 @@ package store
 import (
 	"context"
 	"database/sql"
+	"database/sql/driver"
 	"fmt"
+	"math"
 	"strings"
 
 	"couplet/mdo"
@@ -102,9 +104,11 @@ func sqlString(s string) string { return "'" + strings.ReplaceAll(s, "'", "''") 
 // failure): NaN as NULL, and every output NULL when the analysis recorded
 // none.
 func (s *Store) bindColumns(e *mdo.Evaluation) {
+	k := 0
 	for _, xs := range [4][]float64{e.Design, e.Objectives, e.Constraints, e.Margins} {
 		for _, x := range xs {
-			s.add(nanNull(x))
+			s.add(s.last.value(k, x))
+			k++
 		}
 	}
 	if len(e.Outputs) == 0 {
@@ -114,8 +118,33 @@ func (s *Store) bindColumns(e *mdo.Evaluation) {
 		return
 	}
 	for _, x := range e.Outputs {
-		s.add(nanNull(x))
+		s.add(s.last.value(k, x))
+		k++
 	}
+}
+
+// lastBound holds, per value column, the value bound last and its driver
+// value, so that a value equal (bit for bit) to the one before it in its
+// column is bound from the same interface: a float64 put in an interface
+// is an allocation, and the values of a study's parameters, and many of
+// its outputs, repeat from row to row.
+type lastBound struct {
+	bits []uint64
+	vals []driver.Value
+}
+
+// value returns x as the driver value of column k: nil for NaN (NULL).
+func (l *lastBound) value(k int, x float64) driver.Value {
+	if math.IsNaN(x) {
+		return nil
+	}
+	b := math.Float64bits(x)
+	if l.vals[k] != nil && l.bits[k] == b {
+		return l.vals[k]
+	}
+	v := driver.Value(x)
+	l.bits[k], l.vals[k] = b, v
+	return v
 }
 
 // columnsSelect is the SELECT of Scan in the REAL column layout.

@@ -152,3 +152,49 @@ func TestColumnLayoutSameAsJSONText(t *testing.T) {
 		})
 	}
 }
+
+// A value bound from the interface of the row before (lastBound) reads
+// back as recorded, through repeats, NaN, −0 and 0.
+func TestRepeatedValuesBound(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "repeats.db")
+	s, err := Create(path, Options{BatchSize: 3})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer s.Close()
+	if err := s.Begin(syntheticRun()); err != nil {
+		t.Fatal(err)
+	}
+	seq := []float64{1.5, 1.5, math.NaN(), 1.5, math.Copysign(0, -1), 0, 0, 2, 2, math.Inf(1), math.Inf(1)}
+	var recorded []*mdo.Evaluation
+	for i, x := range seq {
+		e := &mdo.Evaluation{}
+		syntheticEval(e, i)
+		e.Design[0], e.Margins[1], e.Outputs[5] = x, x, x
+		recorded = append(recorded, e)
+		if err := s.Record(e); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if err := s.End(nil); err != nil {
+		t.Fatal(err)
+	}
+	evs, err := s.Evaluations()
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i, e := range evs {
+		want := seq[i]
+		if want == 0 {
+			want = 0 // −0 reads back as 0
+		}
+		for _, got := range []float64{e.Design[0], e.Margins[1], e.Outputs[5]} {
+			if !sameFloat(got, want) {
+				t.Errorf("evaluation %d: read %v, recorded %v", i, got, seq[i])
+			}
+		}
+		if f := sameEvaluation(e, storedForm(recorded[i], s.lay)); f != "" {
+			t.Errorf("evaluation %d differs from the recorded one in %s", i, f)
+		}
+	}
+}

@@ -199,6 +199,8 @@ func writeVariables(ctx context.Context, s *Store, lay *layout, outputs []mdo.Va
 func (s *Store) prepare() error {
 	ctx := context.Background()
 	ncols := len(s.lay.stored())
+	nvals := len(s.lay.named()) + len(s.lay.outputs)
+	s.last = lastBound{bits: make([]uint64, nvals), vals: make([]driver.Value, nvals)}
 	s.batchRows = min(maxBatchRows, s.opt.BatchSize, maxVariables/ncols)
 	err := s.conn.Raw(func(dc any) error {
 		pc, ok := dc.(driver.ConnPrepareContext)

@@ -131,6 +131,7 @@ type Store struct {
 	stmtOne   driver.StmtExecContext
 	stmtIt    driver.StmtExecContext
 	args      []driver.NamedValue
+	last      lastBound // the value columns bound last (bindColumns)
 	rows      int
 	began     bool
 	ended     bool
