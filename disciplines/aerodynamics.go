@@ -651,7 +651,7 @@ func (m *AeroModel) dragArea(t *dragComponents, fc *frictionCondition) float64 {
 func (m *AeroModel) componentDragArea(fc *frictionCondition, surface bool, lnL, swetQ, ff float64) float64 {
 	const lnMin = 11.512925464970229 // ln 1e5
 	o := &m.Options
-	lnRe := math.Max(fc.lnRePerM+lnL, lnMin)
+	lnRe := max(fc.lnRePerM+lnL, lnMin) // math.Max exactly (a finite constant operand), inlined
 	lnRe = math.Min(lnRe, fc.lnCut+1.053*(lnL-fc.lnK))
 	cf := 0.455 / (math.Exp(2.58*math.Log(lnRe/math.Ln10)) * fc.comp)
 	if o.LaminarFraction > 0 {
@@ -845,7 +845,7 @@ func (m *AeroModel) waveDrag(c *Configuration, mach, mdd float64, withLift bool,
 		dq, kl := m.VolumeWaveDragArea(c, mach, withLift)
 		return dq / s, kl
 	}
-	md := math.Min(mdd, blendLow)
+	md := min(mdd, blendLow)
 	mc := md - lockOffset
 	if mach <= md {
 		return LockDragRise(mach, mc), 0
@@ -857,7 +857,7 @@ func (m *AeroModel) waveDrag(c *Configuration, mach, mdd float64, withLift bool,
 	t := (mach - md) / h
 	t2, t3 := t*t, t*t*t
 	v := (2*t3-3*t2+1)*y0 + (t3-2*t2+t)*h*d0 + (-2*t3+3*t2)*y1
-	return math.Max(0, v), 0
+	return max(0, v), 0
 }
 
 // CLMaxClean returns the clean wing's maximum lift coefficient,
@@ -1162,5 +1162,5 @@ func (a *Aerodynamics) Compute(in, out []float64) error {
 // wave drag (above the drag-divergence Mach number mdd, held at or below
 // 0.95, and below Mach 1), where the whole configuration is cut.
 func inFairing(mach, mdd float64) bool {
-	return mach < 1 && mach > math.Min(mdd, blendLow)
+	return mach < 1 && mach > min(mdd, blendLow)
 }

@@ -474,7 +474,7 @@ func EngineLengthRaymer(t, mach float64) float64 {
 
 // engineLengthRaymerLn is EngineLengthRaymer with lnT = ln(T[lbf]) given.
 func engineLengthRaymerLn(lnT, mach float64) float64 {
-	m := math.Max(mach, 0.5)
+	m := max(mach, 0.5)
 	return 0.185 * math.Exp(0.4*lnT+0.2*math.Log(m)) * unitFt
 }
 
@@ -507,7 +507,7 @@ func nacelleSizeLn(mdot, lnT, mach float64) (diameter, length float64) {
 	area := mdot / flux
 	dfan := math.Sqrt(4 * area / (math.Pi * (1 - fanHubTip*fanHubTip)))
 	diameter = nacelleDiaFactor * dfan
-	length = 1.1*engineLengthRaymerLn(lnT, mach) + diameter*(0.5+1.5*math.Max(0, mach-1))
+	length = 1.1*engineLengthRaymerLn(lnT, mach) + diameter*(0.5+1.5*max(0, mach-1))
 	return diameter, length
 }
 
@@ -752,7 +752,7 @@ func (e *EngineCycle) Compute(in, out []float64) error {
 // part-throttle nodes (x1, s1, t1), (x2, s2, t2). x below 0.3 is taken as
 // 0.3 (the deck is not extrapolated further).
 func PartThrottleInterp(x, s0, x1, s1, t1, x2, s2, t2 float64) (tsfc, tt4ratio float64) {
-	x = math.Max(x, 0.3)
+	x = max(x, 0.3)
 	l0 := (x - x1) * (x - x2) / ((1 - x1) * (1 - x2))
 	l1 := (x - 1) * (x - x2) / ((x1 - 1) * (x1 - x2))
 	l2 := (x - 1) * (x - x1) / ((x2 - 1) * (x2 - x1))
