@@ -107,10 +107,15 @@ type fallbackScratch struct {
 // an attempt has returned such an error, Newton and the continuation's
 // solves give up when they stall (newtonStall, continuationStall): their
 // failures could no longer change the error, only a success matters.
+// SolverSettings.Exhaustive turns this and the shortcuts of Newton and
+// the continuation off.
 func (w *Workspace) fallback(ctx context.Context, first error) error {
 	best := first
-	allNewton, allPlain, allowed := true, true, false
+	allNewton, allPlain, allowed, exhaustive := true, true, false, false
 	for gi, g := range w.sys.groups {
+		if g.coupled && w.settings[gi].Exhaustive {
+			exhaustive = true
+		}
 		if g.coupled && w.settings[gi].Method != Newton {
 			allNewton = false
 		}
@@ -163,7 +168,7 @@ func (w *Workspace) fallback(ctx context.Context, first error) error {
 			continue
 		}
 		w.stall = 0
-		if !w.exhaustive && Classify(best) == DoesNotClose {
+		if !exhaustive && Classify(best) == DoesNotClose {
 			w.stall = stallLimit(p)
 		}
 		err := w.analyzeWith(ctx, p)
@@ -180,10 +185,10 @@ func (w *Workspace) fallback(ctx context.Context, first error) error {
 	}
 	if w.ref != nil {
 		w.stall = 0
-		if !w.exhaustive && Classify(best) == DoesNotClose {
+		if !exhaustive && Classify(best) == DoesNotClose {
 			w.stall = stallLimit(pathContinuation)
 		}
-		err := w.continuation(ctx)
+		err := w.continuation(ctx, exhaustive)
 		w.stall = 0
 		if err == nil {
 			w.path = pathContinuation
@@ -252,7 +257,7 @@ const continuationSteps = 64
 // failed (both reach t = 1) would solve the same parameters from the same
 // state: it is not solved again but fails as that one did, and counts as
 // a step all the same, so the march is the one it always was.
-func (w *Workspace) continuation(ctx context.Context) error {
+func (w *Workspace) continuation(ctx context.Context, exhaustive bool) error {
 	fb := w.fb
 	copy(fb.target, w.val)
 	copy(fb.guess, w.guess)
@@ -268,7 +273,7 @@ func (w *Workspace) continuation(ctx context.Context) error {
 	failed := -1.0 // the t the last step failed to reach; -1 after a success
 	for steps := 0; steps < continuationSteps; steps++ {
 		tn := math.Min(1, t+h)
-		if tn == failed && !w.exhaustive {
+		if tn == failed && !exhaustive {
 			// the same solve as the step that just failed
 			if ctx.Err() != nil {
 				return ctx.Err()

@@ -83,12 +83,12 @@ func sizingLoop(t *testing.T) *System {
 // (Newton's Jacobian columns sweep only the disciplines that read the
 // perturbed variable; a continuation step that would repeat the one that
 // just failed is not solved again; the stall limits once the point does
-// not close) and without them. Every point gets the same answer bit for
-// bit — values, path, error, and the coupling reports of the points that
-// close — and the shortcuts spend fewer discipline calls. The grid must
-// hold points rescued by Newton and by the continuation, and points that
-// run the whole chain and fail. (A continuation stall limit of 8 or a
-// Newton one of 1 fails it.)
+// not close) and without them (SolverSettings.Exhaustive). Every point
+// gets the same answer bit for bit — values, path, error, and the
+// coupling reports of the points that close — and the shortcuts spend
+// fewer discipline calls. The grid must hold points rescued by Newton and
+// by the continuation, and points that run the whole chain and fail. (A
+// continuation stall limit of 8 or a Newton one of 1 fails it.)
 func TestFallbackShortcutsChangeNothing(t *testing.T) {
 	ctx := context.Background()
 	sets := []SolverSettings{{Method: AitkenGaussSeidel}, {Method: AitkenGaussSeidel, MaxIterations: 25}}
@@ -108,7 +108,13 @@ func TestFallbackShortcutsChangeNothing(t *testing.T) {
 		var ws [2]*Workspace
 		for k := range ws {
 			w := sys.NewWorkspace()
-			w.exhaustive = k == 1
+			if k == 1 {
+				ex := set
+				ex.Exhaustive = true
+				if err := w.SetSolver(ex); err != nil {
+					t.Fatal(err)
+				}
+			}
 			if err := w.Set("s", 30); err != nil {
 				t.Fatal(err)
 			}

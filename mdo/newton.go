@@ -153,7 +153,7 @@ func (w *Workspace) newton(ctx context.Context, g *group, set SolverSettings, p 
 			}
 		}
 		if !haveJac {
-			if err := w.fdJacobian(g, u, r, lo, hi); err != nil {
+			if err := w.fdJacobian(g, u, r, lo, hi, set.Exhaustive); err != nil {
 				return w.loopError(g, err, p)
 			}
 			haveJac, fresh = true, true
@@ -210,7 +210,7 @@ func (w *Workspace) newton(ctx context.Context, g *group, set SolverSettings, p 
 
 // fdJacobian fills the Newton Jacobian by finite differences at u, where
 // the residual is r.
-func (w *Workspace) fdJacobian(g *group, u, r []float64, lo, hi func(int) float64) error {
+func (w *Workspace) fdJacobian(g *group, u, r []float64, lo, hi func(int) float64, exhaustive bool) error {
 	s := w.nw
 	copy(s.trial, u)
 	for j := range u {
@@ -219,11 +219,11 @@ func (w *Workspace) fdJacobian(g *group, u, r []float64, lo, hi func(int) float6
 			h = -h
 		}
 		s.trial[j] = u[j] + h
-		err := w.fdColumn(g, j, s.trial, s.col)
+		err := w.fdColumn(g, j, s.trial, s.col, exhaustive)
 		if err != nil {
 			h = -h
 			s.trial[j] = u[j] + h
-			err = w.fdColumn(g, j, s.trial, s.col)
+			err = w.fdColumn(g, j, s.trial, s.col, exhaustive)
 		}
 		s.trial[j] = u[j]
 		if err != nil {
@@ -247,13 +247,13 @@ func (w *Workspace) fdJacobian(g *group, u, r []float64, lo, hi func(int) float6
 // accepts, and so the values of a converged group, come from such
 // sweeps). The error is the whole sweep's too: the disciplines left out
 // succeeded on these inputs at u.
-func (w *Workspace) fdColumn(g *group, j int, x, dst []float64) error {
+func (w *Workspace) fdColumn(g *group, j int, x, dst []float64, exhaustive bool) error {
 	s := w.nw
 	scale := w.scale[:len(g.tear)]
 	for k, v := range g.tear {
 		w.val[v] = x[k] * scale[k]
 	}
-	if w.exhaustive {
+	if exhaustive {
 		if err := w.sweep(g, true, false); err != nil {
 			return err
 		}

@@ -68,6 +68,15 @@ type SolverSettings struct {
 	// is the analysis's failure (see Workspace.Analyze). The chain runs
 	// when any coupled group of the workspace allows it.
 	NoFallback bool
+	// Exhaustive runs the fallback chain and Newton's method without
+	// their shortcuts: every Jacobian column sweeps the whole group, a
+	// continuation step that repeats the one that just failed is solved
+	// again, and no attempt stops when it stalls (see Workspace.Analyze).
+	// The answers are the same, bit for bit, on every point where this was
+	// checked; it costs more discipline calls on points that do not close
+	// and is there to check that a point's answer is not a shortcut's. The
+	// chain runs without them when any coupled group asks for it.
+	Exhaustive bool
 	// FromReference starts the group at every point of a study from the
 	// converged state of the study's reference point (its Start design,
 	// analysed once by NewEvaluator) instead of the variables' defaults.

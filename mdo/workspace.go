@@ -49,10 +49,6 @@ type Workspace struct {
 	unstable   bool      // the last analysis ended on an unstable branch
 	nw         *newtonScratch
 	fb         *fallbackScratch
-	// exhaustive turns off the shortcuts of Newton's Jacobian and of the
-	// continuation (newton.go, fallback.go): the reference that tests
-	// compare them with
-	exhaustive bool
 	// stall, when positive, ends a solve that has gone that many
 	// iterations without a new smallest residual (fallback.go)
 	stall int
