@@ -42,13 +42,16 @@ type Workspace struct {
 	// loopFailed is true when the last analyzeWith failed in a coupled
 	// group (the failures a fallback may cure).
 	loopFailed bool
-	cur        int       // discipline being computed, for a panic
-	path       solvePath // the path that converged the last analysis
-	ref        []float64 // reference state for continuation, nil if none
-	saved      []float64 // the values, while the branch is checked
-	unstable   bool      // the last analysis ended on an unstable branch
-	nw         *newtonScratch
-	fb         *fallbackScratch
+	cur        int // discipline being computed, for a panic
+	// buffered is true while a Jacobi sweep's discipline computes into
+	// its buffer (compute) rather than into the values
+	buffered bool
+	path     solvePath // the path that converged the last analysis
+	ref      []float64 // reference state for continuation, nil if none
+	saved    []float64 // the values, while the branch is checked
+	unstable bool      // the last analysis ended on an unstable branch
+	nw       *newtonScratch
+	fb       *fallbackScratch
 	// stall, when positive, ends a solve that has gone that many
 	// iterations without a new smallest residual (fallback.go)
 	stall int
@@ -284,7 +287,14 @@ func (w *Workspace) panicked(r any) error {
 	name := "(none)"
 	if w.cur >= 0 {
 		name = w.sys.discs[w.cur].Name()
+		if !w.buffered {
+			// the discipline was writing into the values: put back the
+			// outputs it had (see discPlan)
+			p := &w.plan[w.cur]
+			copy(p.dst, p.out[:len(p.dst)])
+		}
 	}
+	w.buffered = false
 	return &DisciplineError{Discipline: name, Err: fmt.Errorf("panic: %v", r)}
 }
 
@@ -405,7 +415,10 @@ func (w *Workspace) compute(d int) error {
 	w.cnt.DisciplineCalls++
 	w.cur = d
 	out := p.out
-	if err := p.fn(p.in, out); err != nil {
+	w.buffered = true
+	err := p.fn(p.in, out)
+	w.buffered = false
+	if err != nil {
 		return w.disciplineError(d, err)
 	}
 	for k, x := range out {

@@ -164,3 +164,43 @@ func TestPlainGaussSeidelStalls(t *testing.T) {
 		}
 	}
 }
+
+// A discipline that panics after writing part of its outputs leaves the
+// values as they were before its run too, under Gauss–Seidel (which
+// writes into the values) and Jacobi (which writes into a buffer).
+func TestPanickedRunLeavesValues(t *testing.T) {
+	for _, m := range []Method{GaussSeidel, Jacobi} {
+		calls := 0
+		a := FuncVars("a", []Var{{Name: "b", Default: 1, Min: -1e6, Max: 1e6}}, []Var{{Name: "a", Default: 1, Min: -1e6, Max: 1e6}},
+			func(in, out []float64) error {
+				calls++
+				out[0] = 0.5*in[0] + 1
+				if calls == 3 {
+					out[0] = 999
+					panic("third call")
+				}
+				return nil
+			})
+		b := FuncVars("b", []Var{{Name: "a", Default: 1, Min: -1e6, Max: 1e6}}, []Var{{Name: "b", Default: 1, Min: -1e6, Max: 1e6}},
+			func(in, out []float64) error { out[0] = 0.5 * in[0]; return nil })
+		sys, err := NewSystem(a, b)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if err := sys.SetSolver(SolverSettings{Method: m, NoFallback: true}); err != nil {
+			t.Fatal(err)
+		}
+		w := sys.NewWorkspace()
+		err = w.Analyze(context.Background())
+		var de *DisciplineError
+		if !errors.As(err, &de) || de.Discipline != "a" {
+			t.Fatalf("%s: want the panic of discipline a, got %v", m, err)
+		}
+		// Gauss–Seidel: a = 1.5, b = 0.75, a = 1.375, b = 0.6875, then the
+		// panic; Jacobi: (a, b) = (1.5, 0.5), (1.25, 0.75), then the panic
+		want := map[Method]float64{GaussSeidel: 1.375, Jacobi: 1.25}[m]
+		if got := w.Get("a"); got != want {
+			t.Errorf("%s: after the panic a = %g, want %g (the last run's)", m, got, want)
+		}
+	}
+}
