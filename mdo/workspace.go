@@ -528,8 +528,8 @@ func clip(x, lo, hi float64) float64 {
 }
 
 // sweepLoop is a Gauss–Seidel sweep after the first (the hot path of
-// every fixed-point solver): for each discipline of g, gatherLoop and call
-// written out in one loop.
+// every fixed-point solver): for each discipline of g, gatherLoop and
+// run's computation written out in one loop.
 func (w *Workspace) sweepLoop(g *group) error {
 	for _, d := range g.discs {
 		p := &w.plan[d]
@@ -546,7 +546,7 @@ func (w *Workspace) sweepLoop(g *group) error {
 			}
 			in[op.k] = x
 		}
-		// run's computation, written out
+		// run's computation
 		w.cnt.DisciplineCalls++
 		w.cur = d
 		dst, old := p.dst, p.out[:len(p.dst)]
