@@ -16,67 +16,55 @@ import (
 // the file back. The file stays the record: a store opened afterwards,
 // and a store in the JSON text layout, read it.
 
-// keptSet is the evaluations a store holds in memory, in the order they
-// reached the file: read back (picked up), then committed.
+// keptSet is the evaluations a store holds in memory, in stored form,
+// in the order they reached the file: read back (picked up), then
+// committed.
 type keptSet struct {
 	evs []*mdo.Evaluation
-	// raw[i] is true for an evaluation this store committed (kept as
-	// recorded, put in stored form when read), false for one read back
-	// from the file.
-	raw []bool
 }
 
-// keepCommitted adds the evaluations of a committed batch; the writer's
-// goroutine calls it under w.mu before it counts them committed.
+// keepCommitted adds the evaluations of a committed batch, in stored
+// form; the writer's goroutine calls it before it counts them committed.
 func (s *Store) keepCommitted(evs []*mdo.Evaluation) {
 	if s.kept == nil {
 		return
 	}
-	s.keptMu.Lock()
-	for _, e := range evs {
-		s.kept.evs = append(s.kept.evs, e)
-		s.kept.raw = append(s.kept.raw, true)
+	stored := make([]*mdo.Evaluation, len(evs))
+	for i, e := range evs {
+		stored[i] = storedForm(e, s.lay)
 	}
+	s.keptMu.Lock()
+	s.kept.evs = append(s.kept.evs, stored...)
 	s.keptMu.Unlock()
 }
 
 // keepReadBack starts the memory of a store picked up with the
-// evaluations read back from its file (already in stored form).
+// evaluations read back from its file (in stored form already).
 func (s *Store) keepReadBack(evs []*mdo.Evaluation) {
 	if !s.opt.KeepEvaluations || s.began || s.lay == nil || !s.lay.columns {
 		return
 	}
 	s.keptMu.Lock()
-	s.kept = &keptSet{evs: slices.Clone(evs), raw: make([]bool, len(evs))}
+	s.kept = &keptSet{evs: slices.Clone(evs)}
 	s.keptMu.Unlock()
 }
 
 // keptEvaluations returns the kept evaluations as the file holds them:
 // in ID order, one per ID (the last recorded, as INSERT OR REPLACE
-// leaves it), each in stored form. ok is false when the store does not
-// keep them.
+// leaves it). ok is false when the store does not keep them.
 func (s *Store) keptEvaluations() (out []*mdo.Evaluation, ok bool) {
 	if s.kept == nil || s.readOnly {
 		return nil, false
 	}
 	s.keptMu.Lock()
 	evs := slices.Clone(s.kept.evs)
-	raw := slices.Clone(s.kept.raw)
 	s.keptMu.Unlock()
-	idx := make([]int, len(evs))
-	for i := range idx {
-		idx[i] = i
-	}
 	// stable: of two with one ID, the later recorded stays last
-	slices.SortStableFunc(idx, func(a, b int) int { return evs[a].ID - evs[b].ID })
-	out = make([]*mdo.Evaluation, 0, len(evs))
-	for k, i := range idx {
-		if k+1 < len(idx) && evs[idx[k+1]].ID == evs[i].ID {
+	slices.SortStableFunc(evs, func(a, b *mdo.Evaluation) int { return a.ID - b.ID })
+	out = evs[:0]
+	for k, e := range evs {
+		if k+1 < len(evs) && evs[k+1].ID == e.ID {
 			continue
-		}
-		e := evs[i]
-		if raw[i] {
-			e = storedForm(e, s.lay)
 		}
 		out = append(out, e)
 	}

@@ -12,7 +12,10 @@ import (
 )
 
 // Evaluations returns every recorded evaluation in ID order, ready for
-// mdo.Evaluator.PickUp. A store in which no run has begun has none.
+// mdo.Evaluator.PickUp. A store in which no run has begun has none. A
+// store that keeps its evaluations (Options.KeepEvaluations) answers
+// from memory with the same evaluations on every call: do not modify
+// them.
 func (s *Store) Evaluations() ([]*mdo.Evaluation, error) {
 	if s.db != nil && !s.readOnly && s.began {
 		if err := s.flush(); err != nil {
@@ -35,7 +38,8 @@ func (s *Store) Evaluations() ([]*mdo.Evaluation, error) {
 }
 
 // Scan calls fn with each recorded evaluation in ID order, streaming from
-// the file (for exports of large runs). fn may keep the evaluation.
+// the file (for exports of large runs), or from memory when the store
+// keeps its evaluations (see Evaluations). fn may keep the evaluation.
 func (s *Store) Scan(fn func(*mdo.Evaluation) error) error {
 	if s.db == nil {
 		return fmt.Errorf("store: %s is closed", s.path)

@@ -327,12 +327,16 @@ func (s *Store) commitLoop(w *writer) {
 		if !failed {
 			err = s.commit(b.rows, b.its)
 		}
+		if err == nil && !failed {
+			// kept before they count as committed, so that a flush
+			// sees them
+			s.keepCommitted(b.evs)
+		}
 		w.mu.Lock()
 		if err != nil {
 			w.err = fmt.Errorf("store: %s: committing %d evaluations: %w", s.path, len(b.rows), err)
 			w.evs, w.its = nil, nil
 		} else if !failed {
-			s.keepCommitted(b.evs)
 			w.committed += int64(len(b.rows) + len(b.its))
 			w.rows += len(b.rows) // a replaced row counts too until End recounts
 		}
