@@ -3,20 +3,16 @@ package mdo
 import "math"
 
 // designMap maps physical designs, compared bit by bit (as designKey
-// does), to values. It keys them by a 64-bit hash of their bits and keeps
-// a reference to the design (no copy, which must then not change), so an
-// entry costs a few words instead of a string of 8 bytes per coordinate;
-// a design whose hash an earlier, different design holds goes to an
-// overflow map keyed by its full bits, so the map is exact.
+// does), to values from which it reads the design back (design, which
+// must give the design put with the value, unchanged). It keys them by a
+// 64-bit hash of their bits, so an entry costs two words instead of a
+// string of 8 bytes per coordinate; a design whose hash an earlier,
+// different design holds goes to an overflow map keyed by its full bits,
+// so the map is exact.
 type designMap[V any] struct {
-	first map[uint64]designEntry[V]
-	more  map[string]V
-}
-
-// designEntry is a design and its value.
-type designEntry[V any] struct {
-	d []float64
-	v V
+	design func(V) []float64
+	first  map[uint64]V
+	more   map[string]V
 }
 
 // hashDesign mixes the bits of a design into 64 bits.
@@ -48,8 +44,8 @@ func (m *designMap[V]) len() int { return len(m.first) + len(m.more) }
 
 // get returns the value of design d.
 func (m *designMap[V]) get(d []float64) (V, bool) {
-	if e, ok := m.first[hashDesign(d)]; ok && sameBits(e.d, d) {
-		return e.v, true
+	if v, ok := m.first[hashDesign(d)]; ok && sameBits(m.design(v), d) {
+		return v, true
 	}
 	if len(m.more) > 0 {
 		v, ok := m.more[designKey(d)]
@@ -59,18 +55,16 @@ func (m *designMap[V]) get(d []float64) (V, bool) {
 	return zero, false
 }
 
-// put sets the value of design d, keeping a reference to d.
+// put sets the value of design d (design(v) must be d).
 func (m *designMap[V]) put(d []float64, v V) {
 	if m.first == nil {
-		m.first = map[uint64]designEntry[V]{}
+		m.first = map[uint64]V{}
 	}
 	h := hashDesign(d)
-	e, ok := m.first[h]
+	old, ok := m.first[h]
 	switch {
-	case !ok:
-		m.first[h] = designEntry[V]{d: d, v: v}
-	case sameBits(e.d, d):
-		m.first[h] = designEntry[V]{d: e.d, v: v}
+	case !ok || sameBits(m.design(old), d):
+		m.first[h] = v
 	default:
 		if m.more == nil {
 			m.more = map[string]V{}

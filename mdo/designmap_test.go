@@ -8,28 +8,30 @@ import (
 // TestDesignMapExact checks that designMap tells designs apart bit by bit
 // and stays exact when two designs share a hash (the overflow map).
 func TestDesignMapExact(t *testing.T) {
-	var m designMap[int]
-	a := []float64{0.5, 1, 2}
-	negZero := []float64{math.Copysign(0, -1), 1, 2}
-	zero := []float64{0, 1, 2}
-	m.put(a, 1)
-	m.put(zero, 2)
-	if v, ok := m.get([]float64{0.5, 1, 2}); !ok || v != 1 {
-		t.Errorf("get(a) = %d, %v; want 1, true", v, ok)
+	designs := [][]float64{
+		{0.5, 1, 2},
+		{0, 1, 2},
+		{7, 8, 9},
 	}
-	if _, ok := m.get(negZero); ok {
+	m := designMap[int]{design: func(i int) []float64 { return designs[i] }}
+	a, zero, b := 0, 1, 2
+	m.put(designs[a], a)
+	m.put(designs[zero], zero)
+	if v, ok := m.get([]float64{0.5, 1, 2}); !ok || v != a {
+		t.Errorf("get(a) = %d, %v; want %d, true", v, ok, a)
+	}
+	if _, ok := m.get([]float64{math.Copysign(0, -1), 1, 2}); ok {
 		t.Errorf("−0 found as 0: designs are compared bit by bit")
 	}
-	if _, ok := m.get(a[:2]); ok {
+	if _, ok := m.get(designs[a][:2]); ok {
 		t.Errorf("a prefix of a design found as the design")
 	}
 	// b takes a's place in the hash table as if their hashes were equal:
 	// a then goes to the overflow map when put again
-	b := []float64{7, 8, 9}
-	m.first[hashDesign(a)] = designEntry[int]{d: b, v: 3}
-	m.put(a, 4)
-	if v, ok := m.get(a); !ok || v != 4 {
-		t.Errorf("get(a) after a collision = %d, %v; want 4, true", v, ok)
+	m.first[hashDesign(designs[a])] = b
+	m.put(designs[a], a)
+	if v, ok := m.get(designs[a]); !ok || v != a {
+		t.Errorf("get(a) after a collision = %d, %v; want %d, true", v, ok, a)
 	}
 	if len(m.more) != 1 {
 		t.Errorf("overflow holds %d designs, want 1", len(m.more))
@@ -40,12 +42,12 @@ func TestDesignMapExact(t *testing.T) {
 	if n := m.len(); n != 3 {
 		t.Errorf("len = %d, want 3", n)
 	}
-	m.put(zero, 5)
-	if v, _ := m.get(zero); v != 5 || m.len() != 3 {
-		t.Errorf("put of a design held: value %d, len %d; want 5, 3", v, m.len())
+	m.put(designs[zero], zero)
+	if v, _ := m.get(designs[zero]); v != zero || m.len() != 3 {
+		t.Errorf("put of a design held: value %d, len %d; want %d, 3", v, m.len(), zero)
 	}
 	m.reset()
-	if _, ok := m.get(zero); ok || m.len() != 0 {
+	if _, ok := m.get(designs[zero]); ok || m.len() != 0 {
 		t.Errorf("reset left %d designs", m.len())
 	}
 }

@@ -137,7 +137,7 @@ func (b *Batch) Finish(k int, r AnalysisResult) (bool, error) {
 	}
 	b.done[k] = true
 	b.left--
-	r.fill(ev)
+	r.fill(b, ev)
 	return true, nil
 }
 
@@ -170,7 +170,7 @@ func (b *Batch) RunHere(ctx context.Context) error {
 }
 
 // fill writes the result into the point's Evaluation.
-func (r AnalysisResult) fill(ev *Evaluation) {
+func (r AnalysisResult) fill(b *Batch, ev *Evaluation) {
 	a := &r.Analysis
 	copy(ev.Objectives, a.Objectives)
 	copy(ev.F, a.F)
@@ -188,7 +188,7 @@ func (r AnalysisResult) fill(ev *Evaluation) {
 		ev.Outputs = append([]float64(nil), a.Outputs...)
 	}
 	if r.Misnamed != "" {
-		ev.misnamed = errors.New(r.Misnamed)
+		b.e.setMisnamed(ev, errors.New(r.Misnamed))
 	}
 }
 
@@ -215,11 +215,11 @@ func (e *Evaluator) fits(r AnalysisResult) error {
 }
 
 // result reads an analysed Evaluation back as an AnalysisResult.
-func result(ev *Evaluation) AnalysisResult {
+func (e *Evaluator) result(ev *Evaluation) AnalysisResult {
 	r := AnalysisResult{Analysis: *ev}
-	r.Analysis.ID, r.Analysis.X, r.Analysis.Design, r.Analysis.misnamed = 0, nil, nil, nil
-	if ev.misnamed != nil {
-		r.Misnamed = ev.misnamed.Error()
+	r.Analysis.ID, r.Analysis.X, r.Analysis.Design = 0, nil, nil
+	if err := e.takeMisnamed(ev); err != nil {
+		r.Misnamed = err.Error()
 	}
 	return r
 }
@@ -307,7 +307,7 @@ func (a *Analyst) Analyse(ctx context.Context, design []float64) (AnalysisResult
 	if !e.analyse(ctx, w, ev) {
 		return AnalysisResult{}, fmt.Errorf("mdo: analysis of study %q cut short: %w", e.study.Name, context.Cause(ctx))
 	}
-	return result(ev), nil
+	return e.result(ev), nil
 }
 
 // Fingerprint is a digest of what decides the analyses of e's study: its

@@ -46,10 +46,6 @@ type Evaluation struct {
 	// of the run and read from its store (see Evaluator.PickUp) rather
 	// than analysed by this one.
 	PickedUp bool
-
-	// misnamed is set by an objective or constraint function that read a
-	// variable the system does not have; the point is then not accepted.
-	misnamed error
 }
 
 // Better reports whether a is better than b by Deb's feasibility rules on

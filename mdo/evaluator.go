@@ -36,18 +36,25 @@ type Evaluator struct {
 	cache    designMap[*Evaluation] // by physical design
 	batch    designMap[int]         // Evaluate's and Cost's points of one batch
 	scratch  []float64              // the physical designs of a batch
+	rows     [][]float64            // scratch, one design a point
 	pickedUp map[*Evaluation]bool   // picked-up points not yet asked for
-	nextID   int
-	best     *Evaluation
-	archive  paretoArchive
-	history  []HistoryPoint
-	cnt      EvalCounters
-	started  time.Time
-	began    bool
-	optName  string
-	settings map[string]string
-	recErr   error
-	progress Progress
+	// misnamed holds, for the points of the batch being analysed, an
+	// objective or constraint function's read of a variable the system
+	// does not have (the point is then not accepted); rare, so kept
+	// beside the points rather than in every Evaluation
+	misnamedMu sync.Mutex
+	misnamed   map[*Evaluation]error
+	nextID     int
+	best       *Evaluation
+	archive    paretoArchive
+	history    []HistoryPoint
+	cnt        EvalCounters
+	started    time.Time
+	began      bool
+	optName    string
+	settings   map[string]string
+	recErr     error
+	progress   Progress
 }
 
 // designSlot maps one unit-box coordinate to a system variable.
@@ -101,6 +108,8 @@ func (s *Study) NewEvaluator() (*Evaluator, error) {
 		return nil, err
 	}
 	e := &Evaluator{study: *s, sys: s.System}
+	e.cache.design = func(ev *Evaluation) []float64 { return ev.Design }
+	e.batch.design = func(i int) []float64 { return e.rows[i] }
 	sys := s.System
 	n := sys.vars.Len()
 	e.base = make([]float64, n)
@@ -267,6 +276,16 @@ func (e *Evaluator) ToPhysical(x []float64) []float64 {
 	return out
 }
 
+// AppendPhysical appends the physical values of unit-box point x (as
+// ToPhysical gives them) to dst and returns the extended slice; it
+// allocates nothing when dst has room.
+func (e *Evaluator) AppendPhysical(dst, x []float64) []float64 {
+	for k, s := range e.slots {
+		dst = append(dst, s.physical(x[k]))
+	}
+	return dst
+}
+
 // ToUnit maps physical values to the unit box.
 func (e *Evaluator) ToUnit(p []float64) []float64 {
 	out := make([]float64, len(p))
@@ -372,15 +391,17 @@ func (e *Evaluator) Cost(xs [][]float64) int {
 	return n
 }
 
-// batchDesigns returns n slices of Dim values each, in storage the next
-// call reuses.
+// batchDesigns returns n slices of Dim values each (the designs the batch
+// map reads back by index), in storage the next call reuses.
 func (e *Evaluator) batchDesigns(n int) [][]float64 {
 	dim := len(e.slots)
 	if cap(e.scratch) < n*dim {
 		e.scratch = make([]float64, n*dim)
 	}
-	buf := e.scratch[:n*dim]
-	out := make([][]float64, n)
+	if cap(e.rows) < n {
+		e.rows = make([][]float64, n)
+	}
+	buf, out := e.scratch[:n*dim], e.rows[:n]
 	for i := range out {
 		out[i] = buf[i*dim : (i+1)*dim : (i+1)*dim]
 	}
@@ -446,16 +467,19 @@ func (e *Evaluator) Evaluate(ctx context.Context, xs [][]float64) ([]*Evaluation
 			}
 		case cancelled[i]:
 			// left nil
-		case fresh[i].misnamed != nil:
-			// left nil: the study is at fault, not the point
-			if misnamed == nil {
-				misnamed = fresh[i].misnamed
-			}
 		default:
+			if err := e.takeMisnamed(fresh[i]); err != nil {
+				// left nil: the study is at fault, not the point
+				if misnamed == nil {
+					misnamed = err
+				}
+				continue
+			}
 			e.accept(fresh[i])
 			out[i] = fresh[i]
 		}
 	}
+	e.forgetMisnamed()
 	if err := ctx.Err(); err != nil {
 		return out, err
 	}
@@ -589,8 +613,37 @@ func (e *Evaluator) analyse(ctx context.Context, w int, ev *Evaluation) (ok bool
 	if reason != "" {
 		ev.failed(reason)
 	}
-	ev.misnamed = misnamed
+	if misnamed != nil {
+		e.setMisnamed(ev, misnamed)
+	}
 	return true
+}
+
+// setMisnamed notes point ev's misnamed read (safe for concurrent use).
+func (e *Evaluator) setMisnamed(ev *Evaluation, err error) {
+	e.misnamedMu.Lock()
+	defer e.misnamedMu.Unlock()
+	if e.misnamed == nil {
+		e.misnamed = map[*Evaluation]error{}
+	}
+	e.misnamed[ev] = err
+}
+
+// forgetMisnamed forgets the misnamed reads of the batch (those of points
+// cut short).
+func (e *Evaluator) forgetMisnamed() {
+	e.misnamedMu.Lock()
+	defer e.misnamedMu.Unlock()
+	clear(e.misnamed)
+}
+
+// takeMisnamed returns point ev's misnamed read, or nil, and forgets it.
+func (e *Evaluator) takeMisnamed(ev *Evaluation) error {
+	e.misnamedMu.Lock()
+	defer e.misnamedMu.Unlock()
+	err := e.misnamed[ev]
+	delete(e.misnamed, ev)
+	return err
 }
 
 // setReference analyses the study's reference point (Start: the fixed
