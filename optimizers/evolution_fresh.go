@@ -43,6 +43,7 @@ type freshPoints struct {
 	// moved counts the candidates moved because they repeated a point.
 	moved int
 	buf   []byte
+	phys  []float64
 }
 
 // pointDigest is the key of a point in freshPoints.
@@ -65,7 +66,8 @@ func newFreshPoints(ev *mdo.Evaluator, stream uint64) *freshPoints {
 // values' bits (as the Evaluator's cache compares them).
 func (f *freshPoints) key(x []float64) pointDigest {
 	f.buf = f.buf[:0]
-	for _, v := range f.ev.ToPhysical(x) {
+	f.phys = f.ev.AppendPhysical(f.phys[:0], x)
+	for _, v := range f.phys {
 		f.buf = binary.LittleEndian.AppendUint64(f.buf, math.Float64bits(v))
 	}
 	sum := sha256.Sum256(f.buf)

@@ -66,16 +66,31 @@ func (o NSGA2) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error) 
 	for i := range pop {
 		pop[i] = nsgaInd{x: xs[i], ev: evs[i]}
 	}
-	rankFronts(pop)
+	var sc nsgaScratch
+	sc.rank(pop)
 	r.iteration()
 	gens := or(o.Generations, 200)
 	stop = mdo.StopIterations
+	// the generations reuse their slices: the offspring take the points
+	// of the individuals the last survival dropped
+	off := make([][]float64, 0, n)
+	all := make([]nsgaInd, 0, 2*n)
+	next := make([]nsgaInd, 0, n)
+	var spare [][]float64
+	child := func(parent []float64) []float64 {
+		if k := len(spare) - 1; k >= 0 {
+			c := spare[k]
+			spare = spare[:k]
+			return append(c[:0], parent...)
+		}
+		return append([]float64(nil), parent...)
+	}
 	for g := 0; g < gens; g++ {
-		off := make([][]float64, 0, n)
+		off = off[:0]
 		for len(off) < n {
 			a, b := tournament(pop, rng), tournament(pop, rng)
-			c1 := append([]float64(nil), pop[a].x...)
-			c2 := append([]float64(nil), pop[b].x...)
+			c1 := child(pop[a].x)
+			c2 := child(pop[b].x)
 			vary.pair(c1, c2, rng)
 			fresh.fresh(c1)
 			fresh.fresh(c2)
@@ -89,11 +104,18 @@ func (o NSGA2) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error) 
 			}
 			break
 		}
-		all := append([]nsgaInd(nil), pop...)
+		all = append(all[:0], pop...)
 		for i := range off {
 			all = append(all, nsgaInd{x: off[i], ev: oevs[i]})
 		}
-		pop = selectNext(all, n)
+		next = sc.selectNext(next[:0], all, n)
+		pop, next = next, pop
+		for i, kept := range sc.kept[:len(all)] {
+			if !kept {
+				spare = append(spare, all[i].x)
+			}
+		}
+		clear(all)
 		r.iteration()
 	}
 	return r.finish(stop, nil)
@@ -123,13 +145,45 @@ func tournament(pop []nsgaInd, rng interface{ Intn(int) int }) int {
 	return min(a, b)
 }
 
+// nsgaScratch holds the slices NSGA-II's ranking and survival reuse from
+// one generation to the next.
+type nsgaScratch struct {
+	evs       []*mdo.Evaluation
+	dominated [][]int // per individual, those it dominates
+	count     []int   // per individual, how many dominate it
+	fronts    [][]int
+	frontBuf  []int // the fronts' storage
+	order     []int
+	dist      []float64
+	kept      []bool // per individual of the last survival, whether it was kept
+}
+
 // nonDominatedSort returns the fronts of evs (indices), best first, by the
 // fast non-dominated sort of Deb et al. (2002) with mdo.Dominates.
 func nonDominatedSort(evs []*mdo.Evaluation) [][]int {
+	var s nsgaScratch
+	return s.sort(evs)
+}
+
+// sort is nonDominatedSort; the fronts it returns live in s until the
+// next call.
+func (s *nsgaScratch) sort(evs []*mdo.Evaluation) [][]int {
 	n := len(evs)
-	dominated := make([][]int, n)
-	count := make([]int, n)
-	var front []int
+	for len(s.dominated) < n {
+		s.dominated = append(s.dominated, nil)
+	}
+	dominated := s.dominated[:n]
+	for p := range dominated {
+		dominated[p] = dominated[p][:0]
+	}
+	s.count = append(s.count[:0], make([]int, n)...)
+	count := s.count
+	// every index enters one front once: the fronts' storage never grows
+	// past n, so the fronts may be slices of it
+	if cap(s.frontBuf) < n {
+		s.frontBuf = make([]int, 0, n)
+	}
+	buf := s.frontBuf[:0]
 	for p := 0; p < n; p++ {
 		for q := 0; q < n; q++ {
 			if p == q {
@@ -143,24 +197,26 @@ func nonDominatedSort(evs []*mdo.Evaluation) [][]int {
 			}
 		}
 		if count[p] == 0 {
-			front = append(front, p)
+			buf = append(buf, p)
 		}
 	}
-	var fronts [][]int
+	fronts := s.fronts[:0]
+	front := buf
 	for len(front) > 0 {
 		fronts = append(fronts, front)
-		var next []int
+		from := len(buf)
 		for _, p := range front {
 			for _, q := range dominated[p] {
 				count[q]--
 				if count[q] == 0 {
-					next = append(next, q)
+					buf = append(buf, q)
 				}
 			}
 		}
-		sort.Ints(next)
-		front = next
+		front = buf[from:]
+		sort.Ints(front)
 	}
+	s.fronts = fronts
 	return fronts
 }
 
@@ -168,12 +224,21 @@ func nonDominatedSort(evs []*mdo.Evaluation) [][]int {
 // (Deb et al., 2002): per objective, the normalised gap between its two
 // neighbours, infinite at the ends.
 func crowdingDistance(evs []*mdo.Evaluation, front []int) []float64 {
-	d := make([]float64, len(front))
+	var s nsgaScratch
+	return s.crowding(evs, front)
+}
+
+// crowding is crowdingDistance; the distances it returns live in s until
+// the next call.
+func (s *nsgaScratch) crowding(evs []*mdo.Evaluation, front []int) []float64 {
+	s.dist = append(s.dist[:0], make([]float64, len(front))...)
+	d := s.dist
 	if len(front) == 0 {
 		return d
 	}
 	no := len(evs[front[0]].F)
-	order := make([]int, len(front))
+	s.order = append(s.order[:0], make([]int, len(front))...)
+	order := s.order
 	for m := 0; m < no; m++ {
 		for i := range order {
 			order[i] = i
@@ -192,46 +257,59 @@ func crowdingDistance(evs []*mdo.Evaluation, front []int) []float64 {
 	return d
 }
 
-// rankFronts is NSGA-II's ranking: it sets the rank (front number) and
-// the crowding distance within its front of every individual and returns
-// the fronts, best first.
-func rankFronts(pop []nsgaInd) [][]int {
-	evs := make([]*mdo.Evaluation, len(pop))
+// rank is NSGA-II's ranking: it sets the rank (front number) and the
+// crowding distance within its front of every individual and returns the
+// fronts, best first (living in s until the next call).
+func (s *nsgaScratch) rank(pop []nsgaInd) [][]int {
+	s.evs = s.evs[:0]
 	for i := range pop {
-		evs[i] = pop[i].ev
+		s.evs = append(s.evs, pop[i].ev)
 	}
-	fronts := nonDominatedSort(evs)
+	fronts := s.sort(s.evs)
 	for r, f := range fronts {
-		cd := crowdingDistance(evs, f)
+		cd := s.crowding(s.evs, f)
 		for k, i := range f {
 			pop[i].rank, pop[i].crowd = r, cd[k]
 		}
 	}
+	clear(s.evs)
 	return fronts
 }
 
 // selectNext keeps n of all front by front, the last front cut by
 // decreasing crowding distance.
 func selectNext(all []nsgaInd, n int) []nsgaInd {
-	next := make([]nsgaInd, 0, n)
-	for _, f := range rankFronts(all) {
+	var s nsgaScratch
+	return s.selectNext(make([]nsgaInd, 0, n), all, n)
+}
+
+// selectNext is selectNext appending to next; s.kept then says which of
+// all were kept.
+func (s *nsgaScratch) selectNext(next, all []nsgaInd, n int) []nsgaInd {
+	s.kept = append(s.kept[:0], make([]bool, len(all))...)
+	keep := func(i int) {
+		next = append(next, all[i])
+		s.kept[i] = true
+	}
+	for _, f := range s.rank(all) {
 		if len(next)+len(f) <= n {
 			for _, i := range f {
-				next = append(next, all[i])
+				keep(i)
 			}
 			if len(next) == n {
 				break
 			}
 			continue
 		}
-		order := append([]int(nil), f...)
+		order := append(s.order[:0], f...)
 		sort.SliceStable(order, func(a, b int) bool { return all[order[a]].crowd > all[order[b]].crowd })
 		for _, i := range order[:n-len(next)] {
-			next = append(next, all[i])
+			keep(i)
 		}
+		s.order = order
 		break
 	}
 	// crowding within the kept population, for the next tournaments
-	rankFronts(next)
+	s.rank(next)
 	return next
 }
