@@ -22,7 +22,9 @@ const manyObjectiveLimit = 1000
 // first increases, so the only member that can dominate a new point is
 // its predecessor in the first objective, and the members the new point
 // dominates follow it in one run: an update costs O(log n) plus the
-// members it removes.
+// members it removes. The tree's items hold the two objectives beside the
+// evaluation (its comparisons read no record), and the nodes of removed
+// members go to a free list for the next insertions.
 //
 // With three or more objectives it keeps the mutually non-dominated
 // points in a slice sorted by the first objective (ties in the order they
@@ -37,12 +39,19 @@ const manyObjectiveLimit = 1000
 // costs O(limit·m), bounded, and the pruning O(m·limit·log limit) once per
 // limit insertions.
 type paretoArchive struct {
-	two  *btree.BTreeG[*Evaluation]
+	two  *btree.BTreeG[paretoItem]
+	gone []paretoItem // add2's scratch
 	many []*Evaluation
 }
 
+// paretoItem is a member of a two-objective archive.
+type paretoItem struct {
+	f0, f1 float64
+	ev     *Evaluation
+}
+
 // lessF0 orders two-objective members by their first objective.
-func lessF0(a, b *Evaluation) bool { return a.F[0] < b.F[0] }
+func lessF0(a, b paretoItem) bool { return a.f0 < b.f0 }
 
 // add offers a feasible evaluation with m ≥ 2 objectives to the archive.
 func (p *paretoArchive) add(ev *Evaluation) {
@@ -56,13 +65,14 @@ func (p *paretoArchive) add(ev *Evaluation) {
 // add2 is add for two objectives.
 func (p *paretoArchive) add2(ev *Evaluation) {
 	if p.two == nil {
-		p.two = btree.NewG(32, lessF0)
+		p.two = btree.NewG(32, lessF0) // with a free list of btree.DefaultFreeListSize nodes
 	}
+	it := paretoItem{f0: ev.F[0], f1: ev.F[1], ev: ev}
 	// The member with the largest first objective ≤ ev's has the smallest
 	// second objective among those that could dominate ev.
 	dominated := false
-	p.two.DescendLessOrEqual(ev, func(a *Evaluation) bool {
-		dominated = a.F[1] <= ev.F[1]
+	p.two.DescendLessOrEqual(it, func(a paretoItem) bool {
+		dominated = a.f1 <= it.f1
 		return false
 	})
 	if dominated {
@@ -71,9 +81,9 @@ func (p *paretoArchive) add2(ev *Evaluation) {
 	// ev dominates the members from its first objective on whose second
 	// objective is not below its own (the members' second objectives
 	// decrease along the tree).
-	var gone []*Evaluation
-	p.two.AscendGreaterOrEqual(ev, func(a *Evaluation) bool {
-		if a.F[1] < ev.F[1] {
+	gone := p.gone[:0]
+	p.two.AscendGreaterOrEqual(it, func(a paretoItem) bool {
+		if a.f1 < it.f1 {
 			return false
 		}
 		gone = append(gone, a)
@@ -82,7 +92,9 @@ func (p *paretoArchive) add2(ev *Evaluation) {
 	for _, a := range gone {
 		p.two.Delete(a)
 	}
-	p.two.ReplaceOrInsert(ev)
+	clear(gone)
+	p.gone = gone[:0]
+	p.two.ReplaceOrInsert(it)
 }
 
 // addMany is add for three or more objectives.
@@ -159,8 +171,8 @@ func (p *paretoArchive) prune(keep int) {
 func (p *paretoArchive) members() []*Evaluation {
 	if p.two != nil {
 		out := make([]*Evaluation, 0, p.two.Len())
-		p.two.Ascend(func(a *Evaluation) bool {
-			out = append(out, a)
+		p.two.Ascend(func(a paretoItem) bool {
+			out = append(out, a.ev)
 			return true
 		})
 		return out
