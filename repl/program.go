@@ -71,7 +71,7 @@ func (s *Session) runProgram(ctx, hard context.Context, c *Cell, p *cellProgram)
 	{
 		s.errBuf.reset()
 		s.ranChunk(c, p.decls, 1)
-		_, err := s.it.EvalWithContext(hard, p.decls)
+		_, err := s.compile(p.decls)
 		trace := s.errBuf.take()
 		s.forwardStderr(trace)
 		if err != nil {
@@ -84,7 +84,7 @@ func (s *Session) runProgram(ctx, hard context.Context, c *Cell, p *cellProgram)
 	}
 	s.errBuf.reset()
 	s.ranChunk(c, p.body, 1)
-	if _, err := s.it.EvalWithContext(hard, p.body); err != nil {
+	if _, err := s.compile(p.body); err != nil {
 		s.forwardStderr(s.errBuf.take())
 		return false, s.cellError(c, whole, err, "")
 	}
@@ -95,6 +95,12 @@ func (s *Session) runProgram(ctx, hard context.Context, c *Cell, p *cellProgram)
 	// goroutine to finish by reading that value, and a constant reads
 	// no memory that the next cell writes.
 	s.exited, s.exitOnce = make(chan struct{}), &sync.Once{}
+	if hard.Err() != nil {
+		// stopped while it compiled: the call is not started, for the
+		// interpreter gives a program started after its stop the new
+		// run's mark, and such a program would never see the stop
+		return true, s.stopped(ctx, c, firstLine(c.Source))
+	}
 	_, err = s.it.EvalWithContext(hard, p.call+"; 0")
 	trace := s.errBuf.take()
 	s.forwardStderr(trace)
@@ -125,6 +131,16 @@ func (s *Session) runProgram(ctx, hard context.Context, c *Cell, p *cellProgram)
 		s.display(c, p)
 	}
 	return true, nil
+}
+
+// compile gives the interpreter source that declares and runs nothing of
+// the user's (imports, the cell's declarations and hoisted variables,
+// the body function) and waits for it. Stopping it part-way would leave
+// the interpreter's goroutine compiling beside the next cell (a data race
+// inside the interpreter); it ends by itself, and the cell's statements
+// run only in the call that follows, which can be stopped.
+func (s *Session) compile(src string) (reflect.Value, error) {
+	return s.it.EvalWithContext(context.Background(), src)
 }
 
 // firstLine is the line of a cell's first statement or declaration

@@ -438,7 +438,7 @@ func (s *Session) importChunk(hard context.Context, c *Cell, ch chunk) error {
 		return nil
 	}
 	s.errBuf.reset()
-	if _, err := s.it.EvalWithContext(hard, fresh); err != nil {
+	if _, err := s.compile(fresh); err != nil {
 		s.forwardStderr(s.errBuf.take())
 		return s.cellError(c, ch, err, "")
 	}
