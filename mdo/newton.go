@@ -125,32 +125,19 @@ func (w *Workspace) newton(ctx context.Context, g *group, set SolverSettings, p 
 	copy(s.gu, s.gLast)
 	w.usePlan(g)
 	fresh, haveJac := false, false
-	best, bestIt := math.Inf(1), 0
+	watch := stallWatch{best: math.Inf(1)}
 	for it := 1; it <= set.MaxIterations; it++ {
 		if err := ctx.Err(); err != nil {
 			return fmt.Errorf("mdo: coupled group {%s} cancelled at iteration %d: %w", joinNames(g.names), it, err)
 		}
 		n0 := infNorm(r)
-		rep.CouplingIterations = it
-		rep.Residual = n0
-		rep.History = append(rep.History, n0)
-		w.cnt.CouplingIterations++
-		if n0 <= set.Tolerance {
-			// the values are those of the last sweep, G(u)
-			rep.Converged = true
-			w.fillWorst(g, r, rep)
-			return w.closure(g, p)
-		}
-		if !(n0 < divergeLimit) {
-			rep.Diverged = true
-			break
-		}
-		if w.stall > 0 {
-			if n0 < best {
-				best, bestIt = n0, it
-			} else if it-bestIt >= w.stall {
-				break
+		if done := w.logIteration(rep, it, n0, set.Tolerance, &watch); done {
+			if rep.Converged {
+				// the values are those of the last sweep, G(u)
+				w.fillWorst(g, r, rep)
+				return w.closure(g, p)
 			}
+			break
 		}
 		if !haveJac {
 			if err := w.fdJacobian(g, u, r, lo, hi, set.Exhaustive); err != nil {

@@ -568,6 +568,40 @@ func (w *Workspace) sweepLoop(g *group) error {
 	return nil
 }
 
+// stallWatch follows a solve's smallest residual for the stall limit.
+type stallWatch struct {
+	best   float64 // smallest residual norm so far
+	bestIt int     // the iteration that reached it
+}
+
+// logIteration records iteration it's residual norm in the group's
+// report and the counters, and says whether the solve ends there:
+// converged (rep.Converged), diverged (rep.Diverged, the norm beyond
+// divergeLimit or not a number) or stalled (the workspace's stall limit
+// passed without a new smallest residual).
+func (w *Workspace) logIteration(rep *CouplingReport, it int, norm, tol float64, watch *stallWatch) (done bool) {
+	rep.CouplingIterations = it
+	rep.Residual = norm
+	rep.History = append(rep.History, norm)
+	w.cnt.CouplingIterations++
+	if norm <= tol {
+		rep.Converged = true
+		return true
+	}
+	if !(norm < divergeLimit) {
+		rep.Diverged = true
+		return true
+	}
+	if w.stall > 0 {
+		if norm < watch.best {
+			watch.best, watch.bestIt = norm, it
+		} else if it-watch.bestIt >= w.stall {
+			return true
+		}
+	}
+	return false
+}
+
 // divergeLimit is the scaled residual beyond which a group is declared
 // divergent.
 const divergeLimit = 1e12
@@ -633,7 +667,7 @@ func (w *Workspace) solve(ctx context.Context, g *group, set SolverSettings, p s
 	// a context whose Done is nil can never be cancelled
 	cancellable := ctx.Done() != nil
 	tear, lo, hi := g.tear[:nt], g.lo[:nt], g.hi[:nt]
-	best, bestIt := math.Inf(1), 0
+	watch := stallWatch{best: math.Inf(1)}
 	for it := 1; it <= set.MaxIterations; it++ {
 		if cancellable {
 			if err := ctx.Err(); err != nil {
@@ -654,25 +688,12 @@ func (w *Workspace) solve(ctx context.Context, g *group, set SolverSettings, p s
 				norm = a
 			}
 		}
-		rep.CouplingIterations = it
-		rep.Residual = norm
-		rep.History = append(rep.History, norm)
-		w.cnt.CouplingIterations++
-		if norm <= set.Tolerance {
-			rep.Converged = true
-			w.worstDue[rk] = true
-			return w.closure(g, p)
-		}
-		if !(norm < divergeLimit) {
-			rep.Diverged = true
-			break
-		}
-		if w.stall > 0 {
-			if norm < best {
-				best, bestIt = norm, it
-			} else if it-bestIt >= w.stall {
-				break
+		if done := w.logIteration(rep, it, norm, set.Tolerance, &watch); done {
+			if rep.Converged {
+				w.worstDue[rk] = true
+				return w.closure(g, p)
 			}
+			break
 		}
 		if aitken && it > 1 {
 			num, den := 0.0, 0.0
@@ -737,7 +758,7 @@ func (w *Workspace) solvePlain(ctx context.Context, g *group, set SolverSettings
 	for k, v := range tear {
 		y[k] = val[v]
 	}
-	best, bestIt := math.Inf(1), 0
+	watch := stallWatch{best: math.Inf(1)}
 	for it := 1; it <= set.MaxIterations; it++ {
 		if cancellable {
 			if err := ctx.Err(); err != nil {
@@ -762,25 +783,12 @@ func (w *Workspace) solvePlain(ctx context.Context, g *group, set SolverSettings
 				norm = a
 			}
 		}
-		rep.CouplingIterations = it
-		rep.Residual = norm
-		rep.History = append(rep.History, norm)
-		w.cnt.CouplingIterations++
-		if norm <= set.Tolerance {
-			rep.Converged = true
-			w.worstDue[rk] = true
-			return w.closure(g, p)
-		}
-		if !(norm < divergeLimit) {
-			rep.Diverged = true
-			break
-		}
-		if w.stall > 0 {
-			if norm < best {
-				best, bestIt = norm, it
-			} else if it-bestIt >= w.stall {
-				break
+		if done := w.logIteration(rep, it, norm, set.Tolerance, &watch); done {
+			if rep.Converged {
+				w.worstDue[rk] = true
+				return w.closure(g, p)
 			}
+			break
 		}
 	}
 	w.fillWorst(g, r, rep)
