@@ -39,22 +39,104 @@ func sellarByHand(tol float64) (f, g1, g2 float64, sweeps int) {
 	return x*x + z2 + y1 + math.Exp(-y2), y1, y2, sweeps
 }
 
+// sellarCalls is the second floor of BenchmarkSellarOverhead: the same
+// Gauss–Seidel loop as sellarByHand, but calling the computations the
+// framework calls (computeFunc of each Sellar discipline, as System keeps
+// them) through function values on in/out slices, with every value in one
+// array: the work of any framework built on Compute(in, out), without its
+// checks. The inputs that do not change in the loop (x, z1, z2) are put
+// in the input slices once, the coupling ones copied in before each call,
+// the outputs written in place into the array, the error of each call
+// tested; nothing else (no range checks, no residual scaling, no report).
+type sellarCalls struct {
+	fn            [3]ComputeFunc // sellar1, sellar2, sellar_functions
+	v             [8]float64     // x, z1, z2, y1, y2, f, g1, g2
+	in1, in2, in3 [4]float64
+}
+
+// The positions of Sellar's variables in sellarCalls.v.
+const (
+	scX = iota
+	scZ1
+	scZ2
+	scY1
+	scY2
+	scF
+	scG1
+	scG2
+)
+
+// newSellarCalls returns the second floor on the computations of Sellar().
+func newSellarCalls() *sellarCalls {
+	c := &sellarCalls{}
+	for i, d := range Sellar() {
+		c.fn[i] = computeFunc(d)
+	}
+	return c
+}
+
+// run converges y1, y2 from y = (1, 1) at x = 1, z = (5, 2) until the
+// largest change in a sweep is at most tol, as sellarByHand does, then
+// computes f, g1, g2 once. It returns them, the sweeps and the first
+// error of a computation.
+func (c *sellarCalls) run(tol float64) (f, g1, g2 float64, sweeps int, err error) {
+	v := &c.v
+	v[scX], v[scZ1], v[scZ2], v[scY1], v[scY2] = 1, 5, 2, 1, 1
+	in1, in2, in3 := c.in1[:4], c.in2[:3], c.in3[:4]
+	in1[0], in1[1], in1[2] = v[scZ1], v[scZ2], v[scX] // sellar1: z1, z2, x, y2
+	in2[1], in2[2] = v[scZ1], v[scZ2]                 // sellar2: y1, z1, z2
+	y1, y2 := v[scY1:scY1+1], v[scY2:scY2+1]
+	for sweeps = 1; sweeps < 1000; sweeps++ {
+		p1, p2 := v[scY1], v[scY2]
+		in1[3] = v[scY2]
+		if err := c.fn[0](in1, y1); err != nil {
+			return 0, 0, 0, sweeps, err
+		}
+		in2[0] = v[scY1]
+		if err := c.fn[1](in2, y2); err != nil {
+			return 0, 0, 0, sweeps, err
+		}
+		if math.Max(math.Abs(v[scY1]-p1), math.Abs(v[scY2]-p2)) <= tol {
+			break
+		}
+	}
+	in3[0], in3[1], in3[2], in3[3] = v[scX], v[scZ2], v[scY1], v[scY2] // sellar_functions: x, z2, y1, y2
+	if err := c.fn[2](in3, v[scF:scG2+1]); err != nil {
+		return 0, 0, 0, sweeps, err
+	}
+	return v[scF], v[scG1], v[scG2], sweeps, nil
+}
+
 // BenchmarkSellarOverhead runs the framework's plain Gauss–Seidel on
-// Sellar and the hand-written loop of the same equations from the same
-// start to the same tolerance (1e-10) in one binary: the ratio of their
-// ns/op is the framework's overhead on tiny disciplines. The ratio
-// sub-benchmark alternates batches of both (sellarBatch analyses each)
-// and reports the ratio of the fastest batch of each: a batch that
-// another process interrupts is slower, never faster, so the fastest
-// ones are those that ran alone, and the ratio holds on a loaded machine.
+// Sellar and two hand-written floors of the same analysis, from the same
+// start (x = 1, z = (5, 2), y = (1, 1)) to the same tolerance (1e-10) with
+// the same residual test, in one binary:
+//
+//   - by-hand (sellarByHand): both equations fused in one loop, no calls;
+//     the cost of the arithmetic itself.
+//   - by-hand-calls (sellarCalls): the loop calling the very functions the
+//     framework calls, through function values on in/out slices; the cost
+//     of the arithmetic plus the calls any framework of Compute(in, out)
+//     disciplines pays (Go passes no values in callee-saved registers and
+//     never inlines an indirect call).
+//
+// framework/by-hand is the framework's overhead on tiny disciplines;
+// framework/by-hand-calls the part of it the framework itself adds
+// (gathering, range checks, residual scaling, reports, counters), and
+// by-hand-calls/by-hand the part the calls cost. The ratio sub-benchmark
+// alternates batches of the three (sellarBatch analyses each) and reports
+// the fastest batch of each: a batch that another process interrupts is
+// slower, never faster, so the fastest ones are those that ran alone, and
+// the ratios hold on a loaded machine.
 func BenchmarkSellarOverhead(b *testing.B) {
 	const tol = 1e-10
 	b.Run("framework", func(b *testing.B) { benchSellar(b, GaussSeidel, tol) })
 	b.Run("ratio", func(b *testing.B) {
 		const sellarBatch = 50
 		w := sellarWorkspace(b, GaussSeidel, tol)
+		c := newSellarCalls()
 		ctx := context.Background()
-		framework, hand := time.Duration(math.MaxInt64), time.Duration(math.MaxInt64)
+		framework, hand, calls := time.Duration(math.MaxInt64), time.Duration(math.MaxInt64), time.Duration(math.MaxInt64)
 		var sum float64
 		for b.Loop() {
 			t0 := time.Now()
@@ -68,14 +150,26 @@ func BenchmarkSellarOverhead(b *testing.B) {
 				f, g1, g2, _ := sellarByHand(tol)
 				sum += f + g1 + g2
 			}
-			framework, hand = min(framework, t1.Sub(t0)), min(hand, time.Since(t1))
+			t2 := time.Now()
+			for range sellarBatch {
+				f, g1, g2, _, err := c.run(tol)
+				if err != nil {
+					b.Fatal(err)
+				}
+				sum += f + g1 + g2
+			}
+			t3 := time.Now()
+			framework, hand, calls = min(framework, t1.Sub(t0)), min(hand, t2.Sub(t1)), min(calls, t3.Sub(t2))
 		}
 		if math.IsNaN(sum) {
 			b.Fatal("NaN")
 		}
 		b.ReportMetric(float64(framework)/sellarBatch, "framework-ns")
 		b.ReportMetric(float64(hand)/sellarBatch, "by-hand-ns")
+		b.ReportMetric(float64(calls)/sellarBatch, "by-hand-calls-ns")
 		b.ReportMetric(float64(framework)/float64(hand), "framework/by-hand")
+		b.ReportMetric(float64(framework)/float64(calls), "framework/by-hand-calls")
+		b.ReportMetric(float64(calls)/float64(hand), "by-hand-calls/by-hand")
 	})
 	b.Run("by-hand", func(b *testing.B) {
 		b.ReportAllocs()
@@ -85,6 +179,23 @@ func BenchmarkSellarOverhead(b *testing.B) {
 			var f, g1, g2 float64
 			f, g1, g2, sweeps = sellarByHand(tol)
 			sum += f + g1 + g2
+		}
+		if math.IsNaN(sum) {
+			b.Fatal("NaN")
+		}
+		b.ReportMetric(float64(sweeps), "iterations")
+	})
+	b.Run("by-hand-calls", func(b *testing.B) {
+		b.ReportAllocs()
+		c := newSellarCalls()
+		var sweeps int
+		var sum float64
+		for b.Loop() {
+			f, g1, g2, n, err := c.run(tol)
+			if err != nil {
+				b.Fatal(err)
+			}
+			sweeps, sum = n, sum+f+g1+g2
 		}
 		if math.IsNaN(sum) {
 			b.Fatal("NaN")
@@ -119,8 +230,8 @@ func benchSellar(b *testing.B, m Method, tol float64) {
 	b.ReportMetric(float64(w.CouplingReports()[0].CouplingIterations), "iterations")
 }
 
-// TestSellarByHandIsTheFramework checks that the floor of
-// BenchmarkSellarOverhead computes what the framework computes: the same
+// TestSellarByHandIsTheFramework checks that both floors of
+// BenchmarkSellarOverhead compute what the framework computes: the same
 // f, g1, g2 to 1e-12 and the same number of sweeps.
 func TestSellarByHandIsTheFramework(t *testing.T) {
 	const tol = 1e-10
@@ -128,16 +239,33 @@ func TestSellarByHandIsTheFramework(t *testing.T) {
 	if err := w.Analyze(context.Background()); err != nil {
 		t.Fatal(err)
 	}
-	f, g1, g2, sweeps := sellarByHand(tol)
-	for _, c := range []struct {
+	c := newSellarCalls()
+	for _, floor := range []struct {
 		name string
-		hand float64
-	}{{"f", f}, {"g1", g1}, {"g2", g2}} {
-		if got := w.Get(c.name); math.Abs(got-c.hand) > 1e-12 {
-			t.Errorf("%s: framework %.15g, by hand %.15g", c.name, got, c.hand)
-		}
-	}
-	if it := w.CouplingReports()[0].CouplingIterations; it != sweeps {
-		t.Errorf("framework %d iterations, by hand %d sweeps", it, sweeps)
+		run  func() (f, g1, g2 float64, sweeps int, err error)
+	}{
+		{"by-hand", func() (f, g1, g2 float64, sweeps int, err error) {
+			f, g1, g2, sweeps = sellarByHand(tol)
+			return f, g1, g2, sweeps, nil
+		}},
+		{"by-hand-calls", func() (f, g1, g2 float64, sweeps int, err error) { return c.run(tol) }},
+	} {
+		t.Run(floor.name, func(t *testing.T) {
+			f, g1, g2, sweeps, err := floor.run()
+			if err != nil {
+				t.Fatal(err)
+			}
+			for _, v := range []struct {
+				name string
+				hand float64
+			}{{"f", f}, {"g1", g1}, {"g2", g2}} {
+				if got := w.Get(v.name); math.Abs(got-v.hand) > 1e-12 {
+					t.Errorf("%s: framework %.15g, %s %.15g", v.name, got, floor.name, v.hand)
+				}
+			}
+			if it := w.CouplingReports()[0].CouplingIterations; it != sweeps {
+				t.Errorf("framework %d iterations, %s %d sweeps", it, floor.name, sweeps)
+			}
+		})
 	}
 }
