@@ -27,9 +27,10 @@ import (
 // folder of the run that produced it: summary.json, the evaluations as
 // CSV, the plots as SVG and PNG (with the study's further figures from
 // Figures) and the self-contained report.html; and DIR's own
-// summary.json and index.html, listing every result written
-// (report.WriteIndex). Use Recorder as the session's recorder, then
-// Close it.
+// summary.json and index.html, listing every result the folder holds:
+// those written now and those written there before by this session or
+// an earlier interpreter of it (report.WriteIndex, whose doc gives the
+// order). Use Recorder as the session's recorder, then Close it.
 type RunOutputs struct {
 	dir string
 	// PickUp makes each run continue the store an earlier, interrupted
@@ -313,8 +314,8 @@ func (o *RunOutputs) writeRun(ctx context.Context, script string, r *mdo.Result,
 
 // writeResults writes the folder of each result (in order; a result
 // given twice once), then the output folder's summary.json and
-// index.html listing every result written so far, with the last of rs as
-// the principal one. It returns the principal result's folder.
+// index.html listing every result the folder holds (report.WriteIndex),
+// with the last of rs as the principal one. It returns the principal result's folder.
 func (o *RunOutputs) writeResults(ctx context.Context, script string, rs []*mdo.Result, fresh bool) (string, error) {
 	dirs := map[*mdo.Result]string{}
 	for _, r := range rs {
@@ -342,7 +343,8 @@ func (o *RunOutputs) writeResults(ctx context.Context, script string, rs []*mdo.
 }
 
 // writeIndex writes the output folder's summary.json and index.html
-// from the results written.
+// from the results written by this process, the last the principal,
+// with those the folder held before (report.WriteIndex).
 func (o *RunOutputs) writeIndex(script string) error {
 	o.mu.Lock()
 	var entries []report.IndexEntry

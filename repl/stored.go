@@ -15,7 +15,9 @@ import (
 // the script can no longer write it (it died). Each result is rebuilt
 // from its store (store.Result) and written with report.WriteRun into
 // the result folder holding the store; then dir's summary.json and
-// index.html list them, the last as the principal result. script is the
+// index.html list them, the last as the principal result, with the
+// results the folder held before (a @report of the session, say: see
+// report.WriteIndex). script is the
 // study file's text. The study's system died with that process, so the
 // design structure matrix is left out; figures drawn from the result
 // alone (the aircraft drawings of its best design) are kept. figures nil

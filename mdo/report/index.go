@@ -2,11 +2,14 @@ package report
 
 import (
 	"bytes"
+	"cmp"
 	"encoding/json"
 	"fmt"
 	"html/template"
 	"os"
 	"path/filepath"
+	"slices"
+	"strings"
 
 	"couplet/mdo/runfolder"
 	"couplet/mdo/store"
@@ -47,13 +50,19 @@ type IndexResult struct {
 }
 
 // WriteIndex writes the summary.json and index.html of a script's
-// folder dir, whose results are in the sub-folders the entries name (each
-// written by WriteRun); the principal result is the last entry. The
-// principal result's case store and report are also linked into dir as
-// results.db and report.html (hard links, or copies where the file system
-// has none), so that dir holds the principal result's summary, case store
-// and report under the names a single result gives them. It returns the
-// files written.
+// folder dir, listing every result the folder holds: the entries, just
+// written into the sub-folders they name (each by WriteRun), and the
+// results written there before, by an earlier report of this session, by
+// an interpreter of it that died, or by the run that a pick-up continues
+// (see Listed for what counts as a result and the order). No result the
+// folder holds drops out of its index, and a result written again into
+// its folder replaces its line. The principal result is the last entry:
+// summary.json is its summary, with the list, and its case store and
+// report are also linked into dir as results.db and report.html (hard
+// links, or copies where the file system has none), so that dir holds
+// the principal result's summary, case store and report under the names
+// a single result gives them. Nothing is read or written through a
+// symbolic link. It returns the files written.
 func WriteIndex(dir string, entries []IndexEntry) ([]string, error) {
 	if len(entries) == 0 {
 		return nil, fmt.Errorf("report: an index of no results in %s", dir)
@@ -61,9 +70,13 @@ func WriteIndex(dir string, entries []IndexEntry) ([]string, error) {
 	if err := os.MkdirAll(dir, 0o755); err != nil {
 		return nil, fmt.Errorf("report: output folder: %w", err)
 	}
+	listed, err := Listed(dir, entries)
+	if err != nil {
+		return nil, err
+	}
 	last := entries[len(entries)-1]
 	sum := IndexSummary{Summary: last.Summary, Principal: last.Folder}
-	for _, e := range entries {
+	for _, e := range listed {
 		line := IndexResult{Folder: e.Folder, Study: e.Summary.Study, Optimizer: e.Summary.Optimizer,
 			Evaluations: e.Summary.Evaluations, Stop: e.Summary.Stop, FrontPoints: len(e.Summary.Front),
 			Report: e.Folder + "/" + ReportFile}
@@ -102,6 +115,104 @@ func WriteIndex(dir string, entries []IndexEntry) ([]string, error) {
 		written = append(written, dst)
 	}
 	return written, nil
+}
+
+// Listed returns the results a script's folder dir lists once entries
+// are written into it, in the order of its index:
+//
+//   - first the results its summary.json listed already, in that order
+//     (a line whose folder no longer holds a result is dropped; one whose
+//     folder an entry names takes the entry's summary, in its place);
+//   - then the results the folder holds that its summary.json did not
+//     list (written by a process that died before it wrote the index), by
+//     the start time in their summary, then by folder name;
+//   - then the entries not listed yet, in the order given.
+//
+// A result is a sub-folder of dir (itself, not a symbolic link) whose
+// summary.json (a regular file, not a link) is the summary of a result:
+// it names its study and why the run stopped. A comparison's folder is
+// not one. A summary.json of dir that is a symbolic link, or not an
+// index, lists nothing; nothing is read through a link.
+func Listed(dir string, entries []IndexEntry) ([]IndexEntry, error) {
+	given := map[string]IndexEntry{}
+	for _, e := range entries {
+		given[e.Folder] = e
+	}
+	var out []IndexEntry
+	placed := map[string]bool{}
+	place := func(e IndexEntry) {
+		out = append(out, e)
+		placed[e.Folder] = true
+	}
+	if b, err := runfolder.ReadFile(filepath.Join(dir, SummaryFile)); err == nil {
+		var old IndexSummary
+		if json.Unmarshal(b, &old) == nil {
+			for _, line := range old.Results {
+				if placed[line.Folder] {
+					continue
+				}
+				if e, ok := given[line.Folder]; ok {
+					place(e)
+					continue
+				}
+				if s, ok := resultIn(dir, line.Folder); ok {
+					place(IndexEntry{Folder: line.Folder, Summary: s})
+				}
+			}
+		}
+	}
+	subs, err := os.ReadDir(dir)
+	if err != nil {
+		return nil, fmt.Errorf("report: reading the output folder: %w", err)
+	}
+	var found []IndexEntry
+	for _, d := range subs {
+		name := d.Name()
+		if !d.IsDir() || placed[name] {
+			continue
+		}
+		if _, ok := given[name]; ok {
+			continue
+		}
+		if s, ok := resultIn(dir, name); ok {
+			found = append(found, IndexEntry{Folder: name, Summary: s})
+		}
+	}
+	slices.SortStableFunc(found, func(a, b IndexEntry) int {
+		return cmp.Or(cmp.Compare(a.Summary.Timestamps.Started, b.Summary.Timestamps.Started), cmp.Compare(a.Folder, b.Folder))
+	})
+	for _, e := range found {
+		place(e)
+	}
+	for _, e := range entries {
+		if !placed[e.Folder] {
+			place(given[e.Folder])
+		}
+	}
+	return out, nil
+}
+
+// resultIn reads the summary of the result in dir's sub-folder name: ok
+// is false when name is not a plain folder name, the folder is a
+// symbolic link or a comparison's, or it holds no summary of a result
+// (a summary.json that is a link does not count).
+func resultIn(dir, name string) (store.Summary, bool) {
+	var s store.Summary
+	if name == "" || name != filepath.Base(name) || strings.HasPrefix(name, ".") {
+		return s, false
+	}
+	sub := filepath.Join(dir, name)
+	if fi, err := os.Lstat(sub); err != nil || !fi.IsDir() {
+		return s, false
+	}
+	if _, err := os.Lstat(filepath.Join(sub, runfolder.ComparisonFile)); err == nil {
+		return s, false
+	}
+	b, err := runfolder.ReadFile(filepath.Join(sub, SummaryFile))
+	if err != nil || json.Unmarshal(b, &s) != nil {
+		return s, false
+	}
+	return s, s.Study != "" && s.Stop != ""
 }
 
 // ReadIndex reads the summary.json of a folder: a script's folder lists
@@ -143,10 +254,10 @@ var indexPage = template.Must(template.New("index").Funcs(template.FuncMap{
 <body>
 <h1>Results of the script</h1>
 <p class="caution" id="caution"><strong>Caution.</strong> {{.Caution}}</p>
-<p>Each result the script handed over has a folder of its own, with its case store (results.db), summary, evaluations, plots and report. The folder's summary.json is that of the principal result, {{.Principal}}, with this list; its results.db and report.html are the principal result's too.</p>
+<p>Each result written into this folder has a sub-folder of its own, with its case store (results.db), summary, evaluations, plots and report. The list holds every result the folder holds, in the order they were first listed here (results new to the list follow in the order they were written); a result written again into its sub-folder keeps its line. The folder's summary.json is that of the principal result, {{.Principal}} (the last written), with this list; its results.db and report.html are the principal result's too.</p>
 <table id="results">
 <tr><th>folder</th><th>study</th><th>optimiser</th><th>evaluations</th><th>stop</th><th>best objective</th><th>best point</th><th>report</th></tr>
-{{range .Results}}<tr><td>{{.Folder}}</td><td>{{.Study}}</td><td>{{.Optimizer}}</td><td class="num">{{.Evaluations}}</td><td>{{.Stop}}</td><td class="num">{{if .Objective}}{{num .Objective}}{{else if .FrontPoints}}front of {{.FrontPoints}}{{end}}</td><td>{{if .Feasible}}{{if deref .Feasible}}<span class="verdict-feasible">feasible</span>{{else}}<span class="verdict-infeasible">INFEASIBLE</span>{{end}}{{end}}</td><td><a href="{{.Report}}">{{.Report}}</a></td></tr>
+{{range .Results}}<tr{{if eq .Folder $.Principal}} class="principal"{{end}}><td>{{.Folder}}{{if eq .Folder $.Principal}} (principal){{end}}</td><td>{{.Study}}</td><td>{{.Optimizer}}</td><td class="num">{{.Evaluations}}</td><td>{{.Stop}}</td><td class="num">{{if .Objective}}{{num .Objective}}{{else if .FrontPoints}}front of {{.FrontPoints}}{{end}}</td><td>{{if .Feasible}}{{if deref .Feasible}}<span class="verdict-feasible">feasible</span>{{else}}<span class="verdict-infeasible">INFEASIBLE</span>{{end}}{{end}}</td><td><a href="{{.Report}}">{{.Report}}</a></td></tr>
 {{end}}</table>
 </body>
 </html>

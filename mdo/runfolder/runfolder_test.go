@@ -285,3 +285,27 @@ func TestWriteFileFrom(t *testing.T) {
 		t.Errorf("the folder holds %d entries, want the file alone", len(entries))
 	}
 }
+
+// ReadFile reads a regular file and refuses a symbolic link (whatever
+// it points at) and a folder.
+func TestReadFileFollowsNoLink(t *testing.T) {
+	dir := t.TempDir()
+	target, text := outside(t)
+	p := filepath.Join(dir, "summary.json")
+	if err := os.WriteFile(p, []byte("{}"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if b, err := ReadFile(p); err != nil || string(b) != "{}" {
+		t.Errorf("ReadFile of a file: %q, %v", b, err)
+	}
+	link := filepath.Join(dir, "linked.json")
+	if err := os.Symlink(target, link); err != nil {
+		t.Fatal(err)
+	}
+	if b, err := ReadFile(link); err == nil || !strings.Contains(err.Error(), "symbolic link") {
+		t.Errorf("ReadFile of a link: %q, %v; want a refusal (the target holds %q)", b, err, text)
+	}
+	if _, err := ReadFile(dir); err == nil || !strings.Contains(err.Error(), "not a regular file") {
+		t.Errorf("ReadFile of a folder: %v, want a refusal", err)
+	}
+}

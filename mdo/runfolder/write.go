@@ -6,6 +6,7 @@ import (
 	"io"
 	"os"
 	"path/filepath"
+	"syscall"
 )
 
 // WriteFile writes data to path atomically and never through a
@@ -95,4 +96,28 @@ func LinkFile(src, dst string) error {
 		return fmt.Errorf("runfolder: linking %s: %w", dst, err)
 	}
 	return nil
+}
+
+// ReadFile reads a file of a run folder, never through a symbolic link:
+// a link named path is refused (the file is opened with O_NOFOLLOW), and
+// so is anything but a regular file (a folder, a device, a pipe). The
+// folders above path are the caller's to check.
+func ReadFile(path string) ([]byte, error) {
+	f, err := os.OpenFile(path, os.O_RDONLY|syscall.O_NOFOLLOW|syscall.O_NONBLOCK, 0)
+	if err != nil {
+		return nil, fmt.Errorf("runfolder: reading %s (a symbolic link is refused): %w", path, err)
+	}
+	defer f.Close()
+	info, err := f.Stat()
+	if err != nil {
+		return nil, fmt.Errorf("runfolder: reading %s: %w", path, err)
+	}
+	if !info.Mode().IsRegular() {
+		return nil, fmt.Errorf("runfolder: reading %s: not a regular file (%s)", path, info.Mode().Type())
+	}
+	b, err := io.ReadAll(f)
+	if err != nil {
+		return nil, fmt.Errorf("runfolder: reading %s: %w", path, err)
+	}
+	return b, nil
 }
