@@ -359,5 +359,8 @@ func (s *Session) cmdReport(ctx context.Context, arg string) bool {
 		return false
 	}
 	fmt.Fprintf(s.opts.Stdout, "wrote %s\n", filepath.Join(dir, "report.html"))
+	if note := s.opts.Outputs.reportNote(r); note != "" {
+		fmt.Fprintf(s.opts.Stdout, "(%s)\n", note)
+	}
 	return false
 }

@@ -50,6 +50,37 @@ type RunOutputs struct {
 	// folder is written without reading results.db back: for a replay
 	// (Run), which writes every folder as soon as the script has run.
 	KeepEvaluations bool
+	// KeepWithin, if positive, keeps the evaluations of a session's runs
+	// in memory beside their stores, as KeepEvaluations does, as long as
+	// those kept take no more than this many bytes (an estimate from each
+	// run's count of evaluations and values): @report then writes a
+	// result's folder from memory. A run begun when the kept evaluations
+	// fill the budget keeps none, and when a run ends past it, the oldest
+	// runs' kept evaluations are let go (their stores closed, the run that
+	// ended included if it alone passes it); the report of such a run
+	// reads its evaluations back from its results.db, which holds every
+	// one of them, and says so. The folder is the same, byte for byte,
+	// either way. The couplet command gives it a quarter of the session's
+	// --memory-cap. The budget is checked when a run begins and when it
+	// ends: a run that keeps its evaluations holds them all until it ends
+	// (no more than a report read back from results.db holds while it is
+	// written).
+	KeepWithin int64
+
+	// use is held while a result's folder is written and while kept
+	// evaluations are let go, so that a store is not closed as a report
+	// reads it
+	use sync.Mutex
+	// kept are the stores that keep their evaluations within KeepWithin,
+	// oldest first, with the estimate of what they hold (guarded by mu)
+	kept []keptStore
+	// letGo are the stores whose kept evaluations were let go (closed)
+	letGo map[*store.Store]bool
+	// readBack counts the reports written from a results.db read back
+	// because the run's evaluations were let go; notes holds what the
+	// last report of a result said about it
+	readBack int
+	notes    map[*mdo.Result]string
 
 	mu      sync.Mutex
 	stores  []*store.Store
@@ -77,7 +108,7 @@ func DefaultFigures() []report.FigureSource {
 // NewRunOutputs returns the outputs of a run into dir.
 func NewRunOutputs(dir string) *RunOutputs {
 	return &RunOutputs{dir: dir, ended: map[*mdo.Result]*store.Store{}, studies: map[string]*mdo.Study{}, added: map[*mdo.Result][]report.FigureSource{},
-		folders: map[string]bool{}, storeIn: map[*store.Store]string{}}
+		folders: map[string]bool{}, storeIn: map[*store.Store]string{}, letGo: map[*store.Store]bool{}, notes: map[*mdo.Result]string{}}
 }
 
 // Recorder makes the recorder cell.Attach installs in a study: each run
@@ -158,9 +189,100 @@ func FolderName(study string) string {
 	return b.String()
 }
 
-// options are the store options of every run.
+// options are the store options of every run: a run keeps its
+// evaluations with KeepEvaluations, or within KeepWithin while the
+// evaluations kept leave room.
 func (o *RunOutputs) options() store.Options {
-	return store.Options{ToolVersion: toolVersion(), Overwrite: true, KeepEvaluations: o.KeepEvaluations}
+	o.mu.Lock()
+	defer o.mu.Unlock()
+	return store.Options{ToolVersion: toolVersion(), Overwrite: true, KeepEvaluations: o.KeepEvaluations || o.roomToKeep()}
+}
+
+// keptStore is a store that keeps its evaluations within KeepWithin.
+type keptStore struct {
+	s *store.Store
+	// perRow estimates the bytes an evaluation kept takes; bytes is the
+	// estimate of the whole run's, set when it ends (0 while it runs)
+	perRow, bytes int64
+	ended         bool
+}
+
+// roomToKeep reports whether a run begun now keeps its evaluations
+// within KeepWithin (never with KeepEvaluations, which keeps them all).
+// The caller holds o.mu.
+func (o *RunOutputs) roomToKeep() bool {
+	if o.KeepEvaluations || o.KeepWithin <= 0 {
+		return false
+	}
+	var held int64
+	for _, k := range o.kept {
+		held += k.bytes
+	}
+	return held < o.KeepWithin
+}
+
+// keptRowBytes estimates the memory an evaluation of a run kept by its
+// store takes: the record itself (288 bytes, mdo.Evaluation) and its
+// values (design point in the unit box and physical, objectives twice,
+// constraints three times with the margins, outputs), 8 bytes each, with
+// room for a failure's message. The values are shared with the
+// evaluations the optimiser holds as long as it holds them; the estimate
+// counts them whole.
+func keptRowBytes(info mdo.RunInfo) int64 {
+	n := 2*len(info.Design) + 2*len(info.Objectives) + 3*len(info.Constraints) + len(info.Outputs)
+	return 288 + 8*int64(n) + 64
+}
+
+// keeping notes a store that keeps its evaluations within KeepWithin
+// (one made with options() when there was room), with the estimate of
+// an evaluation of its run.
+func (o *RunOutputs) keeping(s *store.Store, info mdo.RunInfo, keeps bool) {
+	if !keeps {
+		return
+	}
+	o.mu.Lock()
+	defer o.mu.Unlock()
+	for _, k := range o.kept {
+		if k.s == s {
+			return
+		}
+	}
+	o.kept = append(o.kept, keptStore{s: s, perRow: keptRowBytes(info)})
+}
+
+// runEnded estimates what the run of a store that ended keeps and, past
+// KeepWithin, lets the oldest runs' kept evaluations go (their stores
+// closed: their results.db holds every evaluation) until the rest fit.
+func (o *RunOutputs) runEnded(s *store.Store) error {
+	o.use.Lock()
+	defer o.use.Unlock()
+	o.mu.Lock()
+	var held int64
+	for i := range o.kept {
+		if k := &o.kept[i]; k.s == s {
+			k.ended, k.bytes = true, int64(s.Rows())*k.perRow
+		}
+		held += o.kept[i].bytes
+	}
+	var release []*store.Store
+	for held > o.KeepWithin {
+		i := slices.IndexFunc(o.kept, func(k keptStore) bool { return k.ended })
+		if i < 0 {
+			break
+		}
+		held -= o.kept[i].bytes
+		release = append(release, o.kept[i].s)
+		o.letGo[o.kept[i].s] = true
+		o.kept = slices.Delete(o.kept, i, i+1)
+	}
+	o.mu.Unlock()
+	var first error
+	for _, st := range release {
+		if err := st.Close(); err != nil && first == nil {
+			first = fmt.Errorf("repl: letting the kept evaluations of %s go: %w", st.Path(), err)
+		}
+	}
+	return first
 }
 
 // keep registers a store for Close.
@@ -178,6 +300,7 @@ type runRecorder struct {
 	path    string       // store file reserved by PickedUp
 	pending *store.Store // store reopened by PickedUp
 	cur     *store.Store
+	keeps   bool // the store keeps its evaluations within KeepWithin
 }
 
 // PickedUp implements mdo.PickUpRecorder: it reserves the run's store file
@@ -195,10 +318,12 @@ func (r *runRecorder) PickedUp(script string, seed uint64) ([]*mdo.Evaluation, e
 	if _, err := os.Stat(r.path); errors.Is(err, os.ErrNotExist) {
 		return nil, nil
 	}
-	s, err := store.PickUp(r.path, r.o.options())
+	opt := r.o.options()
+	s, err := store.PickUp(r.path, opt)
 	if err != nil {
 		return nil, err
 	}
+	r.keeps = opt.KeepEvaluations && !r.o.KeepEvaluations
 	evs, err := s.PickedUp(script, seed)
 	if err != nil {
 		s.Close()
@@ -220,11 +345,14 @@ func (r *runRecorder) Begin(info mdo.RunInfo) error {
 				return err
 			}
 		}
-		if s, err = store.Create(path, r.o.options()); err != nil {
+		opt := r.o.options()
+		if s, err = store.Create(path, opt); err != nil {
 			return err
 		}
+		r.keeps = opt.KeepEvaluations && !r.o.KeepEvaluations
 		r.o.keep(s)
 	}
+	r.o.keeping(s, info, r.keeps)
 	r.o.mu.Lock()
 	r.o.storeIn[s] = filepath.Base(filepath.Dir(s.Path()))
 	r.o.mu.Unlock()
@@ -255,6 +383,11 @@ func (r *runRecorder) End(res *mdo.Result) error {
 	r.o.mu.Lock()
 	r.o.ended[res] = r.cur
 	r.o.mu.Unlock()
+	if r.keeps {
+		if lerr := r.o.runEnded(r.cur); err == nil {
+			err = lerr
+		}
+	}
 	return err
 }
 
@@ -298,6 +431,18 @@ func (o *RunOutputs) writeRun(ctx context.Context, script string, r *mdo.Result,
 		return "", nil, err
 	}
 	dir := filepath.Join(o.dir, folder)
+	o.use.Lock()
+	defer o.use.Unlock()
+	st, note, err := o.readable(st)
+	if err != nil {
+		return dir, nil, err
+	}
+	if note != "" {
+		defer st.Close()
+	}
+	o.mu.Lock()
+	o.notes[r] = note
+	o.mu.Unlock()
 	files, err := report.WriteRun(ctx, dir, report.Run{
 		Result: r, Study: study, Store: st, Script: script, ToolVersion: toolVersion(),
 		ScatterMatrix: isDOE(r), Figures: figs, AllOutputs: o.everyOutput(),
@@ -310,6 +455,44 @@ func (o *RunOutputs) writeRun(ctx context.Context, script string, r *mdo.Result,
 	o.written = append(o.written, writtenResult{folder: folder, r: r})
 	o.mu.Unlock()
 	return dir, files, nil
+}
+
+// readable returns the store to write a result's folder from: st
+// itself, or, when its kept evaluations were let go (KeepWithin), its
+// results.db opened again to be read back, with a note that says so
+// (the caller closes that store). The caller holds o.use.
+func (o *RunOutputs) readable(st *store.Store) (*store.Store, string, error) {
+	o.mu.Lock()
+	gone := st != nil && o.letGo[st]
+	o.mu.Unlock()
+	if !gone {
+		return st, "", nil
+	}
+	back, err := store.Open(st.Path())
+	if err != nil {
+		return nil, "", fmt.Errorf("repl: reading back the evaluations of %s: %w", st.Path(), err)
+	}
+	o.mu.Lock()
+	o.readBack++
+	o.mu.Unlock()
+	return back, fmt.Sprintf("its %d evaluations were read back from %s: keeping them in memory beside the session's other results would pass the share of the memory cap the session keeps for them (%s); nothing is lost",
+		back.Rows(), st.Path(), formatBytes(o.KeepWithin)), nil
+}
+
+// formatBytes writes a size in MiB (KiB below one MiB).
+func formatBytes(n int64) string {
+	if n < 1<<20 {
+		return fmt.Sprintf("%d KiB", n>>10)
+	}
+	return fmt.Sprintf("%d MiB", n>>20)
+}
+
+// reportNote is what the last writing of r's folder said of it ("" if
+// nothing): that its evaluations were read back from results.db.
+func (o *RunOutputs) reportNote(r *mdo.Result) string {
+	o.mu.Lock()
+	defer o.mu.Unlock()
+	return o.notes[r]
 }
 
 // writeResults writes the folder of each result (in order; a result

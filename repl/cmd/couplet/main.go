@@ -378,7 +378,7 @@ func interactive(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		}
 	}
 	if ev, child := interpreterProcess(); child {
-		return ev.exit(interpreterSession(ev, st, seed, seedSet))
+		return ev.exit(interpreterSession(ev, st, seed, seedSet, memCap))
 	}
 	if st.out != "" {
 		lock, err := repl.GuardSessionFolder(st.out, st.replace)

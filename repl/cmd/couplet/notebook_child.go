@@ -79,7 +79,10 @@ func (c *counted) count() int64 {
 // it runs the cells and commands its parent sends (requestsFD) in a
 // repl.Session, writing their output to its standard output and its
 // error reports to stderrFD, and tells the parent what it does (ev).
-func interpreterSession(ev *events, st *settings, seed uint64, seedSet bool) int {
+// memCap is the process's memory cap (--memory-cap), of which a quarter
+// may hold the evaluations of the session's runs for @report
+// (repl.RunOutputs.KeepWithin).
+func interpreterSession(ev *events, st *settings, seed uint64, seedSet bool, memCap uint64) int {
 	reqs := json.NewDecoder(os.NewFile(requestsFD, "couplet-requests"))
 	var start request
 	if err := reqs.Decode(&start); err != nil || start.Op != "start" {
@@ -101,6 +104,9 @@ func interpreterSession(ev *events, st *settings, seed uint64, seedSet bool) int
 			fmt.Fprintln(os.Stderr, "couplet:", err)
 			return 1
 		}
+		// a quarter of the cap: the rest is the running study's, the
+		// interpreter's and the report's (our choice, no source)
+		outs.KeepWithin = int64(min(memCap/4, 1<<62))
 		opts.Outputs = outs
 	}
 	if isTerminal(os.Stdout) {
