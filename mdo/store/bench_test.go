@@ -17,11 +17,14 @@ import (
 // shape is the size of a synthetic run.
 type shape struct{ design, cons, outputs int }
 
-// Run shapes: the Sellar problem's, a small aircraft study's and a wide one.
+// Run shapes: the Sellar problem's, a small aircraft study's, a wide one
+// and studies/business_jet.study's (4 design variables, 9 constraints, 236
+// outputs: 269 columns of evaluation_data).
 var (
 	sellarShape   = shape{3, 2, 8}
 	aircraftShape = shape{6, 4, 24}
 	wideShape     = shape{10, 8, 100}
+	jetShape      = shape{4, 9, 236}
 )
 
 // syntheticRunOf describes a run of the given shape with one objective.
@@ -75,8 +78,8 @@ func syntheticEvalOf(e *mdo.Evaluation, i int, sh shape) {
 
 // BenchmarkRecord measures the cost of recording one evaluation for runs
 // shaped like the Sellar problem (3 design variables, 2 constraints, 8
-// outputs), a small aircraft study (6, 4, 24) and a wide study (10, 8,
-// 100), committed in batches of 4096 in WAL mode (COUPLET_BENCH_BATCH
+// outputs), a small aircraft study (6, 4, 24), a wide study (10, 8, 100)
+// and the business jet (4, 9, 236), committed in batches of 4096 in WAL mode (COUPLET_BENCH_BATCH
 // changes the batch size), in two ways:
 //
 //   - end-to-end: Record back to back, then Flush; ns/op is the wall time
@@ -96,7 +99,7 @@ func BenchmarkRecord(b *testing.B) {
 	for _, tc := range []struct {
 		name string
 		sh   shape
-	}{{"sellar", sellarShape}, {"aircraft", aircraftShape}, {"wide", wideShape}} {
+	}{{"sellar", sellarShape}, {"aircraft", aircraftShape}, {"wide", wideShape}, {"business-jet", jetShape}} {
 		b.Run(tc.name+"/end-to-end", func(b *testing.B) { benchRecord(b, tc.sh, 0) })
 		b.Run(tc.name+"/caller-side-2us", func(b *testing.B) { benchRecord(b, tc.sh, 2*time.Microsecond) })
 		b.Run(tc.name+"/caller-side-25us", func(b *testing.B) { benchRecord(b, tc.sh, 25*time.Microsecond) })

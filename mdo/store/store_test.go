@@ -922,3 +922,49 @@ func TestSchemaVersion1ReadsAndPicksUp(t *testing.T) {
 		t.Errorf("second session's resumed_rows = %d, %v; want 4", rows, err)
 	}
 }
+
+// TestLogCheckpointedDuringRun records a run of 12 MB in commits of 100
+// evaluations and checks that the write-ahead log never held more than
+// the automatic checkpoint's pages and a commit, so that Close has little
+// to copy: before the checkpoint was made small, the log held the whole
+// run until Close.
+func TestLogCheckpointedDuringRun(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "log.db")
+	s, err := Create(path, Options{BatchSize: 100, FlushInterval: time.Hour})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer s.Close()
+	if err := s.Begin(syntheticRunOf(jetShape)); err != nil {
+		t.Fatal(err)
+	}
+	const n = 5000
+	for i := 0; i < n; i++ {
+		e := new(mdo.Evaluation)
+		syntheticEvalOf(e, i, jetShape)
+		if err := s.Record(e); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if err := s.End(nil); err != nil {
+		t.Fatal(err)
+	}
+	const page = 32 << 10
+	var pages int64
+	if err := s.conn.QueryRowContext(context.Background(), "SELECT page_count FROM pragma_page_count()").Scan(&pages); err != nil {
+		t.Fatal(err)
+	}
+	st, err := os.Stat(path + "-wal")
+	if err != nil {
+		t.Fatal(err)
+	}
+	// 64 pages of checkpoint and a commit of 100 rows of 2.4 KB (8
+	// pages and the interior pages), with the frames' headers
+	limit := int64(80) * (page + 24)
+	if pages*page < 4*limit {
+		t.Fatalf("the run took %d pages; too few to test the log", pages)
+	}
+	if st.Size() > limit {
+		t.Errorf("the write-ahead log holds %d bytes after the run (at most %d wanted) beside a file of %d pages", st.Size(), limit, pages)
+	}
+}
