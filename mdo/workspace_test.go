@@ -204,3 +204,19 @@ func TestPanickedRunLeavesValues(t *testing.T) {
 		}
 	}
 }
+
+// TestNotFinite checks the output test of the hot path against
+// math.IsNaN || math.IsInf on the edges of the float64 format: NaNs of
+// either sign and any payload, infinities, the largest finite values,
+// subnormals and signed zeros.
+func TestNotFinite(t *testing.T) {
+	for _, x := range []float64{
+		math.NaN(), -math.NaN(), math.Float64frombits(0x7ff0000000000001), math.Float64frombits(0xfff8000000000123),
+		math.Inf(1), math.Inf(-1), math.MaxFloat64, -math.MaxFloat64, math.SmallestNonzeroFloat64,
+		-math.SmallestNonzeroFloat64, 0, math.Copysign(0, -1), 1, -1e308, 0x1p-1022, math.Nextafter(math.Inf(1), 0),
+	} {
+		if got, want := notFinite(x), math.IsNaN(x) || math.IsInf(x, 0); got != want {
+			t.Errorf("notFinite(%g) (bits %#x) = %v, want %v", x, math.Float64bits(x), got, want)
+		}
+	}
+}
