@@ -31,8 +31,16 @@
 //     an integer becomes a counted loop, and a loop variable that a
 //     closure captures gets a copy per iteration, as in Go 1.22.
 //   - Each statement of the body records its cell line first, so a panic
-//     reports the line of the statement that panicked (for a panic inside a
-//     function the cell calls, the line of the call).
+//     reports the line of the statement that panicked. A function or
+//     function literal of a cell that can panic by itself records its
+//     lines too, in a variable of its call, and a deferred function
+//     wraps the value of a panic with its cell and line (placed.go):
+//     a panic in an earlier cell's function names that cell and line, and
+//     an objective that panics in an optimiser is a failed evaluation
+//     whose reason names them. The cell's recover calls unwrap the value.
+//   - A variable of an earlier cell that the cell declares again and
+//     reads first (x := x + 1) is read from a copy taken before the
+//     cell's declarations replace it.
 //
 // Every rewrite keeps the cell's lines, so the errors of the type check
 // and of the interpreter name the line of the cell. A cell the type check

@@ -11,6 +11,11 @@ type CellError struct {
 	// Kind is "syntax", "compile", "panic", "stopped" or "error".
 	Kind string
 	Msg  string
+	// AtCell and AtLine place a panic that happened in the code of an
+	// earlier cell (a function it declared, which this cell called):
+	// the cell and line of the statement that panicked. Line is then
+	// the line of this cell that was running. Both are 0 otherwise.
+	AtCell, AtLine int
 	// Err is the interpreter's own error, if any.
 	Err error
 }
@@ -19,6 +24,9 @@ type CellError struct {
 func (e *CellError) Error() string {
 	switch e.Kind {
 	case "panic":
+		if e.AtCell > 0 {
+			return fmt.Sprintf("cell %d, line %d: panic: %s (in the code of cell %d, line %d)", e.Cell, e.Line, e.Msg, e.AtCell, e.AtLine)
+		}
 		return fmt.Sprintf("cell %d, line %d: panic: %s", e.Cell, e.Line, e.Msg)
 	case "stopped":
 		return fmt.Sprintf("cell %d, line %d: stopped: %s", e.Cell, e.Line, e.Msg)

@@ -68,6 +68,17 @@ func (s *Session) runProgram(ctx, hard context.Context, c *Cell, p *cellProgram)
 			return false, err
 		}
 	}
+	if len(p.prev) > 0 {
+		s.errBuf.reset()
+		_, err := s.compile(strings.Join(p.prev, "; "))
+		if err == nil {
+			_, err = s.compile(strings.Join(p.keepPrev, "; "))
+		}
+		s.forwardStderr(s.errBuf.take())
+		if err != nil {
+			return true, s.cellError(c, whole, err, "")
+		}
+	}
 	{
 		s.errBuf.reset()
 		s.ranChunk(c, p.decls, 1)
@@ -214,17 +225,29 @@ func (s *Session) display(c *Cell, p *cellProgram) {
 
 // panicked is the error of a cell that panicked on a line. A script's
 // panic(err) keeps err in the chain (the interpreter hands the value over
-// as a reflect.Value).
+// as a reflect.Value). A panic a function of the cells placed (see
+// placed.go) is reported on the line of its statement: in this cell, as
+// the cell's line, in an earlier cell's code beside the line of this
+// cell that was running.
 func (s *Session) panicked(c *Cell, line int, p interp.Panic) error {
 	var err error = p
 	v := p.Value
+	atCell, atLine := 0, 0
+	if cp, ok := asCellPanic(v); ok {
+		v = cp.value
+		if cp.cell == c.Number {
+			line = cp.line
+		} else {
+			atCell, atLine = cp.cell, cp.line
+		}
+	}
 	if rv, ok := v.(reflect.Value); ok && rv.IsValid() && rv.CanInterface() {
 		v = rv.Interface()
 	}
 	if ve, ok := v.(error); ok {
 		err = panicError{p: p, value: ve}
 	}
-	return &CellError{Cell: c.Number, Line: line, Kind: "panic", Msg: fmt.Sprint(p.Value), Err: err}
+	return &CellError{Cell: c.Number, Line: line, Kind: "panic", Msg: panicText(v), AtCell: atCell, AtLine: atLine, Err: err}
 }
 
 // lineOf is line n (1-based) of src.

@@ -229,7 +229,8 @@ func (s *Session) reset() error {
 	if err := it.Use(s.env.Exports()); err != nil {
 		return fmt.Errorf("repl: loading the cell package: %w", err)
 	}
-	keep := interp.Exports{keepPath + "/keep": {"Value": reflect.ValueOf(s.keepValue), "Show": reflect.ValueOf(s.showValues), "Exited": reflect.ValueOf(s.bodyExited)}}
+	keep := interp.Exports{keepPath + "/keep": {"Value": reflect.ValueOf(s.keepValue), "Show": reflect.ValueOf(s.showValues), "Exited": reflect.ValueOf(s.bodyExited),
+		"Repanic": reflect.ValueOf(s.repanic), "Unplaced": reflect.ValueOf(unplacePanic)}}
 	if err := it.Use(keep); err != nil {
 		return fmt.Errorf("repl: loading the command package: %w", err)
 	}

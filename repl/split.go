@@ -103,7 +103,7 @@ func scanUnits(src string) ([]unit, error) {
 			// the scanner's file knows the line of every offset
 			start, startLine = off, file.Line(pos)
 		}
-		if len(first) < 8 {
+		if len(first) < 64 { // enough for a long receiver: func (p *pair[K, V]) swap(
 			first = append(first, tok)
 			firstLit = append(firstLit, lit)
 		}

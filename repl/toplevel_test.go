@@ -3,6 +3,7 @@ package repl
 import (
 	"context"
 	"errors"
+	"fmt"
 	"strings"
 	"testing"
 )
@@ -59,6 +60,14 @@ func TestTopLevelIsOrdinaryGo(t *testing.T) {
 		{"a variable's type changes in a later cell", []string{"x := 1", "x := \"one\"\nx + \"!\""}, "one!\n"},
 		{"a variable of a type from a package scripts cannot import", []string{"import \"couplet/optimizers/designmap\"\nsrc := designmap.RecordedFigures(designmap.Spec{X: \"z1\", Y: \"z2\"})\nif src != nil {\n\ta, b := 1, 2\n\tfmt.Println(a+b, src != nil)\n}", "src == nil", "other := designmap.RecordedFigures(designmap.Spec{X: \"z2\", Y: \"z1\"})\nother == nil"}, "3 true\nfalse\nfalse\n"},
 		{"an older settings literal the interpreter accepts still runs", []string{"s := optimizers.NSGA2{Population: 28}\ns.Evolution.Population"}, "28\n"},
+		{"a variable declared again reads its earlier value", []string{"x := 1", "x := x + 1\nx", "x"}, "2\n2\n"},
+		{"a slice declared again by appending to it", []string{"xs := []int{1, 2}", "fmt.Println(len(xs))\nxs := append(xs, 3)\nlen(xs)"}, "2\n3\n"},
+		{"a variable declared again with another type from its value", []string{"n := 3", "n := fmt.Sprint(n) + \" wings\"\nn"}, "3 wings\n"},
+		{"a generic type with a method", []string{"type pair[T any] struct{ a, b T }\nfunc (p pair[T]) sum(f func(T, T) T) T { return f(p.a, p.b) }\np := pair[int]{1, 2}\np.sum(func(a, b int) int { return a + b })"}, "3\n"},
+		{"a generic type with a pointer method and two type parameters", []string{"type entry[K comparable, V any] struct {\n\tk K\n\tv V\n}\nfunc (e *entry[K, V]) set(v V) { e.v = v }\ne := &entry[string, float64]{\"span\", 30}\ne.set(32)\ne.v"}, "32\n"},
+		{"a recover at the top of the cell gets the value itself", []string{"defer func() {\n\tr := recover()\n\ts, isString := r.(string)\n\tfmt.Println(isString, s)\n}()\npanic(\"flutter\")"}, "true flutter\n"},
+		{"a recover in a caller gets the value the callee panicked with", []string{"func bad() { panic(fmt.Sprint(\"spar \", 2)) }\nfunc safe() (r any) {\n\tdefer func() { r = recover() }()\n\tbad()\n\treturn nil\n}\nfmt.Printf(\"%T %v\\n\", safe(), safe())"}, "string spar 2\n"},
+		{"a recover at the top of the cell gets the value of a function of an earlier cell", []string{"func fly() { panic(fmt.Errorf(\"stall at %d\", 3)) }", "defer func() {\n\tr := recover()\n\t_, isErr := r.(error)\n\tfmt.Println(isErr, r)\n}()\nfly()"}, "true stall at 3\n"},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
@@ -92,7 +101,7 @@ func TestTopLevelErrorsNameTheCauseAndLine(t *testing.T) {
 		{"panic inside an if", "x := 1\nif x > 0 {\n\tfmt.Println(\"a\")\n\tpanic(\"boom\")\n}", "panic", 4, "boom"},
 		{"panic inside a loop inside an if", "if true {\n\tfor i := 0; i < 3; i++ {\n\t\tif i == 2 {\n\t\t\tpanic(fmt.Sprint(\"at \", i))\n\t\t}\n\t}\n}", "panic", 4, "at 2"},
 		{"runtime error in a switch case", "xs := []float64{1}\nswitch {\ncase len(xs) > 0:\n\tk := 3\n\t_ = xs[k]\n}", "panic", 5, "index out of range"},
-		{"panic in a function the cell calls: the line of the call", "func stall() {\n\tpanic(\"stall\")\n}\nfmt.Print()\nstall()", "panic", 5, "stall"},
+		{"panic in a function the cell calls: the line in the function", "func stall() {\n\tpanic(\"stall\")\n}\nfmt.Print()\nstall()", "panic", 2, "stall"},
 		{"undefined name inside an if body", "x := 1\nif x > 0 {\n\ty := x + undefinedThing\n\t_ = y\n}", "compile", 3, "undefined: undefinedThing"},
 		{"no such field, with the type", "r := &mdo.Result{}\nif r != nil {\n\tv := r.Bestt\n\t_ = v\n}", "compile", 3, "r.Bestt undefined (type *mdo.Result has no field or method Bestt"},
 		{"a generic function of a compiled package", "import \"slices\"\nxs := []int{3, 1, 2}\nslices.Sort(xs)", "compile", 3, "undefined: slices.Sort; the functions of package slices are generic"},
@@ -181,5 +190,125 @@ func TestVarsListsTheCellsVariables(t *testing.T) {
 	}
 	if strings.Contains(out.String(), sessionPrefix) {
 		t.Errorf("@vars %q lists the session's own names", out)
+	}
+}
+
+// A panic in code a cell declares (a function, a closure, a method, a
+// function of an earlier cell) is reported on the line of the statement
+// that panicked, not on the line of the cell that called it; a panic in
+// an earlier cell's code names that cell and line beside the running
+// cell's line.
+func TestPanicIsPlacedInsideTheFunction(t *testing.T) {
+	tests := []struct {
+		name           string
+		cells          []string // the last one fails
+		line           int
+		atCell, atLine int
+		msg            string
+	}{
+		{"a function", []string{"func stall(v float64) {\n\tif v < 60 {\n\t\tpanic(fmt.Sprintf(\"stall at %g m/s\", v))\n\t}\n}\nstall(80)\nstall(50)"}, 3, 0, 0, "stall at 50 m/s"},
+		{"a closure", []string{"check := func(cl float64) {\n\tif cl > 1.5 {\n\t\tpanic(\"beyond the maximum lift coefficient\")\n\t}\n}\ncheck(1.2)\ncheck(1.8)"}, 3, 0, 0, "beyond the maximum lift coefficient"},
+		{"a method of a cell's type", []string{"type spar struct{ loads []float64 }\nfunc (s spar) load(i int) float64 {\n\tx := s.loads[i]\n\treturn x\n}\nsp := spar{loads: []float64{1, 2}}\nsp.load(1)\nsp.load(5)"}, 3, 0, 0, "runtime error: index out of range"},
+		{"a pointer method through a nil receiver", []string{"type rib struct{ n int }\nfunc (r *rib) count() int {\n\tk := 1\n\treturn r.n + k\n}\nvar r *rib\nr.count()"}, 4, 0, 0, "runtime error: invalid memory address or nil pointer dereference"},
+		{"a function of an earlier cell", []string{"func mass(parts []float64, i int) float64 {\n\ts := 0.0\n\ts += parts[i]\n\treturn s\n}", "fmt.Println(mass([]float64{1}, 0))\nmass([]float64{1}, 3)"}, 2, 1, 3, "out of range"},
+		{"through a function of another earlier cell", []string{"func inner(x float64) float64 {\n\tif x > 1 {\n\t\tpanic(fmt.Sprint(\"x = \", x))\n\t}\n\treturn x\n}", "func outer(x float64) float64 {\n\treturn 2 * inner(x)\n}", "y := 3.0\nif y > 0 {\n\touter(y)\n}"}, 3, 1, 3, "x = 3"},
+		{"a closure a framework function calls back", []string{"import \"sort\"\nxs := []float64{3, 1, 2}\nsort.Slice(xs, func(i, j int) bool {\n\tif xs[i] == 2 {\n\t\tpanic(\"no order\")\n\t}\n\treturn xs[i] < xs[j]\n})"}, 5, 0, 0, "no order"},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			s, _, _ := newTest(t, Options{})
+			defer s.Close()
+			for i, src := range tc.cells[:len(tc.cells)-1] {
+				if c := s.Exec(context.Background(), src); c.Err != nil {
+					t.Fatalf("cell %d: %v", i+1, c.Err)
+				}
+			}
+			c := s.Exec(context.Background(), tc.cells[len(tc.cells)-1])
+			var ce *CellError
+			if !errors.As(c.Err, &ce) {
+				t.Fatalf("error %v (%T), want a *CellError", c.Err, c.Err)
+			}
+			if ce.Kind != "panic" || ce.Cell != len(tc.cells) || ce.Line != tc.line || ce.AtCell != tc.atCell || ce.AtLine != tc.atLine || !strings.Contains(ce.Msg, tc.msg) {
+				t.Errorf("got %q (cell %d, line %d, at cell %d, line %d), want cell %d, line %d, at cell %d, line %d, containing %q",
+					ce, ce.Cell, ce.Line, ce.AtCell, ce.AtLine, len(tc.cells), tc.line, tc.atCell, tc.atLine, tc.msg)
+			}
+			if tc.atCell > 0 && !strings.Contains(ce.Error(), fmt.Sprintf("(in the code of cell %d, line %d)", tc.atCell, tc.atLine)) {
+				t.Errorf("message %q does not name cell %d, line %d", ce, tc.atCell, tc.atLine)
+			}
+		})
+	}
+}
+
+// An objective, a constraint or a discipline function of a cell that
+// panics when an optimiser calls it makes a failed evaluation whose
+// reason names the cell and line of the panic; the cell goes on, and a
+// misspelt name read there is still the study's error.
+func TestPanicInAFunctionAnOptimiserCalls(t *testing.T) {
+	study := "st, _ := mdo.SellarStudy(mdo.MDF)\n"
+	run := "r, err := optimizers.RandomDesign{Samples: 3}.Minimize(cell.Context(), st)\nfmt.Println(err)\nfmt.Println(r.Evaluations, r.Failed)\nfmt.Println(r.Best.Err)"
+	tests := []struct {
+		name, cell, want string
+	}{
+		{"objective", study + "st.Objectives = []mdo.Objective{mdo.MinimizeFunc(\"bad\", func(v mdo.Values) float64 {\n\tif v.Get(\"x\") >= 0 {\n\t\tpanic(\"objective broke\")\n\t}\n\treturn 1\n})}\n" + run,
+			"<nil>\n3 3\nobjective bad panicked: objective broke (cell 1, line 4)\n"},
+		{"constraint", study + "st.Constraints = []mdo.Constraint{mdo.AtMost(\"g\", 1).WithFunc(func(v mdo.Values) float64 {\n\tys := []float64{v.Get(\"y1\")}\n\treturn ys[1]\n})}\n" + run,
+			"<nil>\n3 3\nconstraint g panicked: runtime error: index out of range (cell 1, line 4)\n"},
+		{"declared in an earlier cell", "func obj(v mdo.Values) float64 {\n\tpanic(fmt.Sprint(\"no value at x = \", v.Get(\"x\") > -1))\n}\n", "<nil>\n3 3\nobjective f panicked: no value at x = true (cell 1, line 2)\n"},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			s, out, _ := newTest(t, Options{})
+			defer s.Close()
+			cells := []string{tc.cell}
+			if tc.name == "declared in an earlier cell" {
+				cells = append(cells, study+"st.Objectives = []mdo.Objective{mdo.MinimizeFunc(\"f\", obj)}\n"+run)
+			}
+			for i, src := range cells {
+				if c := s.Exec(context.Background(), src); c.Err != nil {
+					t.Fatalf("cell %d: %v", i+1, c.Err)
+				}
+			}
+			if out.String() != tc.want {
+				t.Errorf("output %q, want %q", out.String(), tc.want)
+			}
+		})
+	}
+}
+
+// Only a function that can panic by itself records its lines (the
+// recording costs a deferred call per call); the others are left as
+// they are.
+func TestOnlyFunctionsThatMayPanicRecordTheirLines(t *testing.T) {
+	tests := []struct {
+		name, fn string
+		records  bool
+	}{
+		{"arithmetic on floats", "func f(x float64) float64 { return x*x/2 + 1 }", false},
+		{"package math and conversions", "func f(x float64) int { return int(math.Sqrt(x)) }", false},
+		{"a call of a cell function", "func g(x float64) float64 { return x }\nfunc f(x float64) float64 { return g(x) + 1 }", false},
+		{"reading a map and a constant array index", "func f(m map[string]int) int {\n\tvar a [2]int\n\treturn m[\"x\"] + a[1]\n}", false},
+		{"comma-ok assertion", "func f(v any) bool {\n\t_, ok := v.(string)\n\treturn ok\n}", false},
+		{"indexing a slice", "func f(xs []float64) float64 { return xs[0] }", true},
+		{"integer division", "func f(a, b int) int { return a / b }", true},
+		{"a framework call", "func f(v mdo.Values) float64 { return v.Get(\"x\") }", true},
+		{"a function value", "func f(g func() int) int { return g() }", true},
+		{"following a pointer", "type w struct{ s float64 }\nfunc f(p *w) float64 { return p.s }", true},
+		{"an assertion", "func f(v any) string { return v.(string) }", true},
+		{"writing a map", "func f(m map[string]int) { m[\"a\"] = 1 }", true},
+		{"panic", "func f() { panic(\"x\") }", true},
+		{"a closure that indexes, inside one that does not", "func f() func([]int) int {\n\treturn func(xs []int) int { return xs[1] }\n}", true},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			s, _, _ := newTest(t, Options{})
+			defer s.Close()
+			p, err := s.transform(&Cell{Number: 1, Source: tc.fn})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if got := strings.Contains(p.decls, placeVar); got != tc.records {
+				t.Errorf("records its lines: %v, want %v\n%s", got, tc.records, p.decls)
+			}
+		})
 	}
 }

@@ -25,6 +25,9 @@ const (
 	showFunc  = keepName + ".Show"
 	cellFunc  = "couplet_cell"
 	resultVar = "couplet_r"
+	// prevPrefix, with the name, is the variable that keeps the value an
+	// earlier cell's variable had before a cell declares it again
+	prevPrefix = "couplet_prev_"
 )
 
 // cellProgram is a cell rewritten for the interpreter (see the package
@@ -37,11 +40,15 @@ type cellProgram struct {
 	// standIns are the stand-in packages (see symbolImporter.standIn)
 	// among the imports, which the interpreter must be given first
 	standIns []string
-	decls    string // package-level source: the cell's declarations and the hoisted variables ("" for none)
-	body     string // the declaration of the body function
-	call     string // the statement that runs the body
-	lines    int    // lines of the cell
-	line     string // the variable that holds the line the body is on
+	// prev declares, and keepPrev sets, before decls run, the variables
+	// that keep the values of an earlier cell's variables that the cell
+	// declares again and reads first (x := x + 1)
+	prev, keepPrev []string
+	decls          string // package-level source: the cell's declarations and the hoisted variables ("" for none)
+	body           string // the declaration of the body function
+	call           string // the statement that runs the body
+	lines          int    // lines of the cell
+	line           string // the variable that holds the line the body is on
 	// show is set when the cell ends in an expression whose values are
 	// shown: call when it is a call, errLast when its last value is an
 	// error (a nil error is not shown).
@@ -258,6 +265,41 @@ func transformCell(src string, number int, units []unit, imports []string, local
 			edits = append(edits, edit{off: start, del: end - start, text: onLines(fset.Position(g.Pos()).Line, string(b[start:end]), placed)})
 		}
 	}
+	// a use of an earlier cell's variable that the cell declares again
+	// (x := x + 1) reads the value it had before the cell: it is kept
+	// aside before the cell's declarations replace the variable
+	var prevDecls []string
+	prevOf := map[types.Object]string{}
+	for _, h := range hoisted {
+		name := strings.Fields(h)[1]
+		old := mainPkg.Scope().Lookup(name)
+		if _, ok := old.(*types.Var); !ok || fset.Position(old.Pos()).Filename != "prelude" || !nameable(old.Type(), mainPkg, ts.im, map[types.Type]bool{}) {
+			continue
+		}
+		prevOf[old] = prevPrefix + name
+		prevDecls = append(prevDecls, "var "+prevPrefix+name+" "+types.TypeString(old.Type(), qual))
+	}
+	if len(prevOf) > 0 {
+		used := map[string]bool{}
+		ast.Inspect(body, func(n ast.Node) bool {
+			if id, ok := n.(*ast.Ident); ok {
+				if prev, ok := prevOf[info1.Uses[id]]; ok {
+					edits = append(edits, edit{off: bOff(id.Pos()), del: len(id.Name), text: prev})
+					used[prev] = true
+				}
+			}
+			return true
+		})
+		var kept []string
+		for _, d := range prevDecls {
+			if name := strings.Fields(d)[1]; used[name] {
+				kept = append(kept, d)
+				p.prev = append(p.prev, d)
+				p.keepPrev = append(p.keepPrev, name+" = "+strings.TrimPrefix(name, prevPrefix))
+			}
+		}
+		prevDecls = kept
+	}
 	// each statement of the body records its line (a panic reports it)
 	var lineEdits []edit
 	ast.Inspect(body, func(n ast.Node) bool {
@@ -313,11 +355,13 @@ func transformCell(src string, number int, units []unit, imports []string, local
 		}
 	}
 	edits = append(edits, rewrites(body, info1, qual, ts.im, bOff, string(b))...)
+	edits = append(edits, placing(body, info1, fset, number, bOff)...)
 	dOff := func(pos token.Pos) int { return fset.Position(pos).Offset - len(dPrefix) }
 	var dEdits []edit
 	for _, decl := range files[1].Decls {
 		if _, ok := decl.(*ast.FuncDecl); ok {
 			dEdits = append(dEdits, rewrites(decl, info1, qual, ts.im, dOff, string(d))...)
+			dEdits = append(dEdits, placing(decl, info1, fset, number, dOff)...)
 		}
 	}
 	bText := applyEdits(string(b), append(lineEdits, edits...))
@@ -332,7 +376,11 @@ func transformCell(src string, number int, units []unit, imports []string, local
 		redeclared[strings.Fields(h)[1]] = true
 	}
 	fset2 := token.NewFileSet()
-	files2, err := parseAll(fset2, ts.source(importDecl2, redeclared), pkgClause+importDecl2+"; "+dText, pkgClause+importDecl2+"; "+bodyHead+bText+bodyTail)
+	dCheck := dText
+	if len(prevDecls) > 0 {
+		dCheck += "; " + strings.Join(prevDecls, "; ")
+	}
+	files2, err := parseAll(fset2, ts.source(importDecl2, redeclared), pkgClause+importDecl2+"; "+dCheck, pkgClause+importDecl2+"; "+bodyHead+bText+bodyTail)
 	if err != nil {
 		return nil, err
 	}
