@@ -4,6 +4,7 @@ import (
 	"context"
 	"path/filepath"
 	"slices"
+	"strings"
 	"testing"
 
 	"couplet/mdo/report"
@@ -82,5 +83,20 @@ func TestIndexKeepsTheSessionsEarlierResults(t *testing.T) {
 	}
 	if got, principal := indexFolders(t, dir); !slices.Equal(got, []string{"wing", "tail", "fin"}) || principal != "fin" {
 		t.Errorf("after the results written from their stores: %v, principal %q; want [wing tail fin], fin", got, principal)
+	}
+	// the record written from a store keeps the optimiser's settings and
+	// says that the coupling solvers died with the interpreter; the one
+	// the session wrote names them
+	for _, tc := range []struct{ folder, solvers string }{{"fin", "not recorded"}, {"tail", ""}} {
+		rec, err := report.ReadRecord(filepath.Join(dir, tc.folder, report.SummaryFile))
+		if err != nil {
+			t.Fatal(err)
+		}
+		if rec.OptimizerSettings["Samples"] != "6" || rec.Caution != report.Caution {
+			t.Errorf("%s: optimiser settings %v, caution %q", tc.folder, rec.OptimizerSettings, rec.Caution)
+		}
+		if tc.solvers == "" && len(rec.CouplingSolvers) != 1 || tc.solvers != "" && !strings.Contains(rec.SolverNote, tc.solvers) {
+			t.Errorf("%s: coupling solvers %+v, note %q", tc.folder, rec.CouplingSolvers, rec.SolverNote)
+		}
 	}
 }

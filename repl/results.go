@@ -89,7 +89,16 @@ type RunOutputs struct {
 	added   map[*mdo.Result][]report.FigureSource // further figures a script asked for (cell.AddFigures)
 	folders map[string]bool                       // result folders taken in this session
 	storeIn map[*store.Store]string
+	// solvers are the coupling solvers of each store's study when its
+	// run began, with the note report.CouplingSolvers gives
+	solvers map[*store.Store]solverSnapshot
 	written []writtenResult // results written, in order, for the index
+}
+
+// solverSnapshot is what report.CouplingSolvers gave as a run began.
+type solverSnapshot struct {
+	solvers []report.CouplingSolver
+	note    string
 }
 
 // writtenResult is a result whose folder was written.
@@ -108,7 +117,7 @@ func DefaultFigures() []report.FigureSource {
 // NewRunOutputs returns the outputs of a run into dir.
 func NewRunOutputs(dir string) *RunOutputs {
 	return &RunOutputs{dir: dir, ended: map[*mdo.Result]*store.Store{}, studies: map[string]*mdo.Study{}, added: map[*mdo.Result][]report.FigureSource{},
-		folders: map[string]bool{}, storeIn: map[*store.Store]string{}, letGo: map[*store.Store]bool{}, notes: map[*mdo.Result]string{}}
+		folders: map[string]bool{}, storeIn: map[*store.Store]string{}, solvers: map[*store.Store]solverSnapshot{}, letGo: map[*store.Store]bool{}, notes: map[*mdo.Result]string{}}
 }
 
 // Recorder makes the recorder cell.Attach installs in a study: each run
@@ -355,6 +364,9 @@ func (r *runRecorder) Begin(info mdo.RunInfo) error {
 	r.o.keeping(s, info, r.keeps)
 	r.o.mu.Lock()
 	r.o.storeIn[s] = filepath.Base(filepath.Dir(s.Path()))
+	var snap solverSnapshot
+	snap.solvers, snap.note = report.CouplingSolvers(r.o.studies[r.study])
+	r.o.solvers[s] = snap
 	r.o.mu.Unlock()
 	r.path = ""
 	r.cur = s
@@ -433,6 +445,13 @@ func (o *RunOutputs) writeRun(ctx context.Context, script string, r *mdo.Result,
 	dir := filepath.Join(o.dir, folder)
 	o.use.Lock()
 	defer o.use.Unlock()
+	o.mu.Lock()
+	snap, ok := o.solvers[st]
+	o.mu.Unlock()
+	if !ok {
+		// no store recorded the run: its study's system now
+		snap.solvers, snap.note = report.CouplingSolvers(study)
+	}
 	st, note, err := o.readable(st)
 	if err != nil {
 		return dir, nil, err
@@ -446,6 +465,7 @@ func (o *RunOutputs) writeRun(ctx context.Context, script string, r *mdo.Result,
 	files, err := report.WriteRun(ctx, dir, report.Run{
 		Result: r, Study: study, Store: st, Script: script, ToolVersion: toolVersion(),
 		ScatterMatrix: isDOE(r), Figures: figs, AllOutputs: o.everyOutput(),
+		Solvers: snap.solvers, SolverNote: snap.note,
 	})
 	if err != nil {
 		return dir, files, err
@@ -522,22 +542,28 @@ func (o *RunOutputs) writeResults(ctx context.Context, script string, rs []*mdo.
 		o.written = append(slices.Delete(o.written, i, i+1), w)
 	}
 	o.mu.Unlock()
-	return dir, o.writeIndex(script)
+	return dir, o.writeIndex()
 }
 
 // writeIndex writes the output folder's summary.json and index.html
-// from the results written by this process, the last the principal,
-// with those the folder held before (report.WriteIndex).
-func (o *RunOutputs) writeIndex(script string) error {
+// from the results written by this process (their summary.json), the
+// last the principal, with those the folder held before
+// (report.WriteIndex).
+func (o *RunOutputs) writeIndex() error {
 	o.mu.Lock()
-	var entries []report.IndexEntry
-	for _, w := range o.written {
-		entries = append(entries, report.IndexEntry{Folder: w.folder,
-			Summary: store.NewSummary(w.r, store.SummaryOptions{Script: script, ToolVersion: toolVersion()})})
-	}
+	written := slices.Clone(o.written)
 	o.mu.Unlock()
-	if len(entries) == 0 {
+	if len(written) == 0 {
 		return nil
+	}
+	var entries []report.IndexEntry
+	for _, w := range written {
+		// the record as the result's folder holds it
+		rec, err := report.ReadRecord(filepath.Join(o.dir, w.folder, report.SummaryFile))
+		if err != nil {
+			return fmt.Errorf("repl: the index of %s: %w", o.dir, err)
+		}
+		entries = append(entries, report.IndexEntry{Folder: w.folder, Summary: rec})
 	}
 	_, err := report.WriteIndex(o.dir, entries)
 	return err

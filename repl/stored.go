@@ -17,9 +17,11 @@ import (
 // the result folder holding the store; then dir's summary.json and
 // index.html list them, the last as the principal result, with the
 // results the folder held before (a @report of the session, say: see
-// report.WriteIndex). script is the
-// study file's text. The study's system died with that process, so the
-// design structure matrix is left out; figures drawn from the result
+// report.WriteIndex). script is the study file's text. The study's
+// system died with that process, so the design structure matrix is left
+// out, and the coupling solvers are those an earlier report of the run
+// recorded in its folder (else its record says they were not at hand);
+// figures drawn from the result
 // alone (the aircraft drawings of its best design) are kept. figures nil
 // takes DefaultFigures; allOutputs writes every output to the CSV files
 // (--every-output). It returns the principal result's folder.
@@ -59,6 +61,15 @@ func writeStored(ctx context.Context, dir, script, path string, figures []report
 		return report.IndexEntry{}, fmt.Errorf("repl: reading back a published result: %w", err)
 	}
 	run := report.Run{Result: r, Store: st, Script: script, ToolVersion: toolVersion(), ScatterMatrix: isDOE(r), Figures: figures, AllOutputs: allOutputs}
+	// the study's system died with the interpreter: the coupling solvers
+	// are those an earlier writing of this run's folder recorded (a
+	// @report), if any
+	if old, err := report.ReadRecord(filepath.Join(filepath.Dir(path), report.SummaryFile)); err == nil {
+		now := store.NewSummary(r, store.SummaryOptions{})
+		if old.Study == now.Study && old.Seed == now.Seed && old.Timestamps.Started == now.Timestamps.Started && (len(old.CouplingSolvers) > 0 || old.SolverNote != "") {
+			run.Solvers, run.SolverNote = old.CouplingSolvers, old.SolverNote
+		}
+	}
 	if _, err := report.WriteRun(ctx, filepath.Dir(path), run); err != nil {
 		return report.IndexEntry{}, fmt.Errorf("repl: writing the published result of %s: %w", path, err)
 	}
@@ -66,5 +77,9 @@ func writeStored(ctx context.Context, dir, script, path string, figures []report
 	if err != nil {
 		return report.IndexEntry{}, fmt.Errorf("repl: %w", err)
 	}
-	return report.IndexEntry{Folder: folder, Summary: store.NewSummary(r, store.SummaryOptions{Script: script, ToolVersion: toolVersion()})}, nil
+	rec, err := report.ReadRecord(filepath.Join(filepath.Dir(path), report.SummaryFile))
+	if err != nil {
+		return report.IndexEntry{}, fmt.Errorf("repl: %w", err)
+	}
+	return report.IndexEntry{Folder: folder, Summary: rec}, nil
 }

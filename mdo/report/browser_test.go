@@ -171,6 +171,16 @@ func TestReportRendersInChromium(t *testing.T) {
 
 	res := render(t, ctx, path)
 	checkRendered(t, res, "Study report: sellar", 5)
+	// the settings of the run are laid out as tables with their rows
+	for _, id := range []string{"optimizer-settings", "coupling-solvers"} {
+		rows, err := chromedp.Run(ctx, chromedp.Evaluate[[]float64](`(() => { const t = document.getElementById("`+id+`"); if (!t) return []; return [t.rows.length, t.getBoundingClientRect().height]; })()`))
+		if err != nil {
+			t.Fatal(err)
+		}
+		if len(rows) != 2 || rows[0] < 2 || rows[1] < 20 {
+			t.Errorf("table %s rendered as %v (rows, height px), want a head and a row laid out", id, rows)
+		}
+	}
 	img, _, err := image.Decode(bytes.NewReader(res.shot))
 	if err != nil {
 		t.Fatalf("screenshot does not decode: %v", err)

@@ -63,7 +63,7 @@ func gridRun(t *testing.T, dir, folder, name string, design []mdo.DesignVar, con
 	if _, err := WriteRun(context.Background(), sub, Run{Result: r, Study: st, Store: db}); err != nil {
 		t.Fatal(err)
 	}
-	s, err := store.ReadSummary(filepath.Join(sub, SummaryFile))
+	s, err := ReadRecord(filepath.Join(sub, SummaryFile))
 	if err != nil {
 		t.Fatal(err)
 	}

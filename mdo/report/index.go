@@ -19,7 +19,7 @@ import (
 // wrote it into and its summary.
 type IndexEntry struct {
 	Folder  string
-	Summary store.Summary
+	Summary Record
 }
 
 // IndexSummary is the summary.json of a script's folder: the summary of
@@ -27,7 +27,7 @@ type IndexEntry struct {
 // the folder's study, seed, evaluations and best stay where a single
 // result puts them, with the list of every result's sub-folder.
 type IndexSummary struct {
-	store.Summary
+	Record
 	// Principal is the sub-folder of the principal result.
 	Principal string        `json:"principal"`
 	Results   []IndexResult `json:"results"`
@@ -75,7 +75,7 @@ func WriteIndex(dir string, entries []IndexEntry) ([]string, error) {
 		return nil, err
 	}
 	last := entries[len(entries)-1]
-	sum := IndexSummary{Summary: last.Summary, Principal: last.Folder}
+	sum := IndexSummary{Record: last.Summary, Principal: last.Folder}
 	for _, e := range listed {
 		line := IndexResult{Folder: e.Folder, Study: e.Summary.Study, Optimizer: e.Summary.Optimizer,
 			Evaluations: e.Summary.Evaluations, Stop: e.Summary.Stop, FrontPoints: len(e.Summary.Front),
@@ -196,8 +196,8 @@ func Listed(dir string, entries []IndexEntry) ([]IndexEntry, error) {
 // is false when name is not a plain folder name, the folder is a
 // symbolic link or a comparison's, or it holds no summary of a result
 // (a summary.json that is a link does not count).
-func resultIn(dir, name string) (store.Summary, bool) {
-	var s store.Summary
+func resultIn(dir, name string) (Record, bool) {
+	var s Record
 	if name == "" || name != filepath.Base(name) || strings.HasPrefix(name, ".") {
 		return s, false
 	}

@@ -7,9 +7,11 @@ import (
 	"fmt"
 	"html/template"
 	"io"
+	"maps"
 	"math"
 	"path/filepath"
 	"runtime"
+	"slices"
 	"strconv"
 	"strings"
 	"time"
@@ -50,6 +52,9 @@ type Options struct {
 	Notes []string
 	// Generated is the time stamped on the report; default now.
 	Generated time.Time
+	// Record, if not nil, is the result's record (summary.json): the
+	// report shows its optimiser settings and coupling solvers.
+	Record *Record
 
 	// drawn, if not nil, are the standard figures followed by Figures,
 	// drawn already, in order (WriteRun, which saves them too, passes
@@ -61,6 +66,7 @@ type Options struct {
 type view struct {
 	Title, Caution string
 	Provenance     []kv
+	Settings       *settingsView
 	Best           *bestView
 	Front          *frontView
 	Sensitivity    *sensView
@@ -73,6 +79,15 @@ type view struct {
 }
 
 type kv struct{ Key, Value string }
+
+// settingsView is the settings of the run: the optimiser's and the
+// coupling solvers, or a note saying why there are none.
+type settingsView struct {
+	Optimizer             string
+	OptimizerSettings     []kv
+	Solvers               []CouplingSolver
+	NoSettings, NoSolvers string
+}
 
 type bestView struct {
 	ID          int
@@ -193,6 +208,16 @@ func build(r *mdo.Result, opt Options) (*view, error) {
 	}
 	prov = append(prov, kv{"Go version", runtime.Version()}, kv{"report generated", gen.UTC().Format(time.RFC3339)})
 	v.Provenance = prov
+	if rec := opt.Record; rec != nil {
+		sv := &settingsView{Optimizer: r.Optimizer, Solvers: rec.CouplingSolvers, NoSolvers: rec.SolverNote}
+		for _, k := range slices.Sorted(maps.Keys(rec.OptimizerSettings)) {
+			sv.OptimizerSettings = append(sv.OptimizerSettings, kv{k, rec.OptimizerSettings[k]})
+		}
+		if len(sv.OptimizerSettings) == 0 {
+			sv.NoSettings = "not recorded: the run had no case store, or its optimiser recorded no settings"
+		}
+		v.Settings = sv
+	}
 	if r.Best != nil {
 		v.Best = bestOf(r)
 		v.Sensitivity = sensitivityOf(r)

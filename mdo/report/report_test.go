@@ -69,9 +69,11 @@ func demoReport(t testing.TB) string {
 		t.Fatal(err)
 	}
 	top := ownFigure(t)
+	solvers, note := CouplingSolvers(&mdo.Study{System: sys})
+	rec := &Record{OptimizerSettings: map[string]string{"Samples": "60"}, CouplingSolvers: solvers, SolverNote: note}
 	var b bytes.Buffer
 	err = Write(&b, r, Options{Script: script, ToolVersion: "couplet test", Evaluations: evs, ScatterMatrix: true,
-		Figures: []*plot.Figure{dsm, top}, Generated: time.Date(2026, 12, 1, 12, 0, 0, 0, time.UTC)})
+		Figures: []*plot.Figure{dsm, top}, Generated: time.Date(2026, 12, 1, 12, 0, 0, 0, time.UTC), Record: rec})
 	if err != nil {
 		t.Fatal(err)
 	}

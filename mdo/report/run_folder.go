@@ -61,6 +61,11 @@ type Run struct {
 	// by default it holds the status, design, objectives, constraints and
 	// margins (results.db keeps every output either way).
 	AllOutputs bool
+	// Solvers and SolverNote are the coupling solvers of the run's
+	// system when it began (see CouplingSolvers); both empty take them
+	// from Study.
+	Solvers    []CouplingSolver
+	SolverNote string
 	// Figures are the sources of the study's further figures, drawn after
 	// the standard ones and before the design structure matrix.
 	Figures []FigureSource
@@ -74,7 +79,8 @@ type Run struct {
 	Started time.Time
 }
 
-// WriteRun writes a run's folder dir (created if need be): summary.json;
+// WriteRun writes a run's folder dir (created if need be): summary.json
+// (the result's Record);
 // with a store, evaluations.csv; the history and, for several
 // objectives, the Pareto front, the further figures of the study and its
 // design structure matrix, each as NAME.svg and NAME.png; and
@@ -103,8 +109,9 @@ func WriteRun(ctx context.Context, dir string, run Run) ([]string, error) {
 		}
 		return []string{p}, nil
 	}
-	if err := store.WriteSummary(p, store.NewSummary(r, sopt)); err != nil {
-		return nil, fmt.Errorf("report: %w", err)
+	rec := NewRecord(run)
+	if err := WriteRecord(p, rec); err != nil {
+		return nil, err
 	}
 	files = append(files, p)
 	var evs []*mdo.Evaluation
@@ -169,7 +176,7 @@ func WriteRun(ctx context.Context, dir string, run Run) ([]string, error) {
 		}
 	}
 	p = filepath.Join(dir, ReportFile)
-	opt := Options{Script: run.Script, ToolVersion: run.ToolVersion, Evaluations: evs, NoStandardPlots: true, Figures: all, Notes: notes, drawn: done}
+	opt := Options{Script: run.Script, ToolVersion: run.ToolVersion, Evaluations: evs, NoStandardPlots: true, Figures: all, Notes: notes, Record: &rec, drawn: done}
 	if err := WriteFile(p, r, opt); err != nil {
 		return files, err
 	}

@@ -25,6 +25,20 @@ const page = `<!DOCTYPE html>
 {{range .Provenance}}<tr><th>{{.Key}}</th><td>{{.Value}}</td></tr>
 {{end}}</table>
 
+{{with .Settings}}
+<h2 id="settings">Settings</h2>
+<p>The optimiser, {{.Optimizer}}, as the run recorded its settings (where the method's documentation says so, a zero value stands for its default):</p>
+{{if .OptimizerSettings}}<table id="optimizer-settings">
+<tr><th>setting</th><th>value</th></tr>
+{{range .OptimizerSettings}}<tr><td>{{.Key}}</td><td>{{.Value}}</td></tr>
+{{end}}</table>{{else}}<p>{{.NoSettings}}.</p>{{end}}
+<p>The coupling solvers of the system's coupled groups when the run began:</p>
+{{if .Solvers}}<table id="coupling-solvers">
+<tr><th>coupled group</th><th>method</th><th>tolerance (scaled residual)</th><th>most iterations</th><th>relaxation</th><th>on a failed solve</th></tr>
+{{range .Solvers}}<tr><td>{{range $i, $d := .Disciplines}}{{if $i}}, {{end}}{{$d}}{{end}}</td><td>{{.Method}}</td><td class="num">{{printf "%g" .Tolerance}}</td><td class="num">{{.MaxIterations}}</td><td class="num">{{printf "%g" .Relaxation}}</td><td>{{if .Fallback}}fallback chain{{else}}the point fails{{end}}{{if .FromReference}}; started from the reference state{{end}}{{if .Exhaustive}}; exhaustive{{end}}</td></tr>
+{{end}}</table>{{else}}<p>Coupling solvers: {{.NoSolvers}}.</p>{{end}}
+{{end}}
+
 {{if .Best}}
 <h2 id="best">Best design</h2>
 <p>Evaluation #{{.Best.ID}}:
