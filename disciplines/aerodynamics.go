@@ -1009,10 +1009,10 @@ func (a *Aerodynamics) Inputs() []mdo.Var {
 	v := func(i int, name, unit, desc string, def, lo, hi, scale float64) {
 		in[i] = mdo.Var{Name: name, Unit: unit, Description: desc, Default: def, Min: lo, Max: hi, Scale: scale}
 	}
-	v(aeroInEngines, "engine.count", "-", "number of engines (rounded)", 2, 1, 5, 0)
+	in[aeroInEngines] = engineCountVar()
 	v(aeroInNacDiameter, "nacelle.diameter", "m", "nacelle maximum diameter", 1.2, 0, 6, 0)
 	v(aeroInNacLength, "nacelle.length", "m", "nacelle length (inlet to nozzle)", 6, 0, 30, 0)
-	v(aeroInMach, "cruise.mach", "-", "cruise Mach number", 1.5, 0, MaxMach, 0)
+	in[aeroInMach] = cruiseMachVar()
 	v(aeroInMassStart, "mass.cruise_start", "kg", "mass at the start of cruise", 42000, 100, 1e6, 1e4)
 	v(aeroInMassEnd, "mass.cruise_end", "kg", "mass at the end of cruise", 30000, 100, 1e6, 1e4)
 	v(aeroInTailLift, "stability.tail_lift_cruise", "N", "horizontal-tail lift in trimmed cruise (positive up)", 0, -1e7, 1e7, 1e4)

@@ -180,8 +180,8 @@ func (a *AirframeAerodynamics) Inputs() []mdo.Var {
 	v := func(i int, name, unit, desc string, def, lo, hi, scale float64) {
 		in[i] = mdo.Var{Name: name, Unit: unit, Description: desc, Default: def, Min: lo, Max: hi, Scale: scale}
 	}
-	v(afInMach, "cruise.mach", "-", "cruise Mach number", 1.5, 0, MaxMach, 0)
-	v(afInAltitude, "cruise.altitude", "m", "cruise altitude (geometric)", 15000, AtmosphereMinAltitude, AtmosphereMaxAltitude, 1000)
+	in[afInMach] = cruiseMachVar()
+	in[afInAltitude] = cruiseAltitudeVar()
 	v(afInFlapTakeoff, "flap.cl_increment_takeoff", "-", "CLmax increment of the take-off high-lift setting (unswept wing)", 0.4, 0, 3, 0)
 	v(afInFlapLanding, "flap.cl_increment_landing", "-", "CLmax increment of the landing high-lift setting (unswept wing)", 0.8, 0, 3, 0)
 	v(afInElevation, "airport.elevation", "m", "airport elevation", 0, -400, 4500, 1000)

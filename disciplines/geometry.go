@@ -243,6 +243,10 @@ func NewFuselage(c Cabin, noseFineness, tailFineness float64) (Fuselage, error) 
 	f.NoseLength = noseFineness * f.Diameter
 	f.TailLength = tailFineness * f.Diameter
 	f.finish()
+	if f.Length > MaxFuselageLength {
+		return Fuselage{}, inputErr("cabin.passengers", float64(c.Passengers), "", fmt.Sprintf("a cabin whose fuselage is at most %g m long (here %.4g m with %d abreast at %g m pitch): fewer passengers, more seats abreast, a shorter seat pitch or shorter nose and tail cones",
+			MaxFuselageLength, f.Length, c.SeatsAbreast, c.SeatPitch))
+	}
 	return f, nil
 }
 
@@ -416,6 +420,50 @@ type ConfigurationSpec struct {
 	NacelleDiameter, NacelleLength float64 // 0 = no nacelles
 }
 
+// MinHTailVolume is the smallest horizontal-tail volume coefficient the
+// aircraft model accepts: it trims with a horizontal tail (the stability
+// discipline's tail load, the aerodynamics' trim drag), so a tailless
+// aircraft, which trims with its wing, is not modelled.
+const MinHTailVolume = 0.01
+
+// htailVolumeRange is the allowed range of htail.volume, as text.
+const htailVolumeRange = "[0.01, 3]: the model trims with a horizontal tail (a tailless aircraft is not modelled)"
+
+// MaxTailArea is the largest tail (horizontal tail, fin) the model
+// accepts [m2].
+const MaxTailArea = 1000.0
+
+// MaxFuselageLength is the longest fuselage the model accepts [m].
+const MaxFuselageLength = 150.0
+
+// checkWingOnFuselage refuses a wing that does not sit on the fuselage
+// as the model lays it out, naming the input to change: a span no
+// larger than the fuselage diameter (no exposed wing), a mean
+// aerodynamic chord that begins ahead of the nose, or an aerodynamic
+// centre (MAC quarter chord) at or behind a tail's position, which
+// leaves that tail no arm.
+func checkWingOnFuselage(s *ConfigurationSpec, o *GeometryOptions) error {
+	w, f := &s.Wing, &s.Fuselage
+	L := f.Length
+	if !(w.Span > f.Diameter) {
+		return inputErr("wing.area", w.Area, "m2", fmt.Sprintf("above %.3g m2 with aspect ratio %g: a span (here %.3g m) larger than the fuselage diameter %.3g m",
+			f.Diameter*f.Diameter/w.AspectRatio, w.AspectRatio, w.Span, f.Diameter))
+	}
+	if lo := -w.MACX / L; s.WingPosition < lo {
+		return inputErr("wing.position", s.WingPosition, "", fmt.Sprintf("at least %.3g with this wing and fuselage: the mean aerodynamic chord of the forward-swept wing would begin ahead of the nose (move the wing aft)", lo))
+	}
+	tail := math.Min(o.HTailPosition, o.VTailPosition) * L
+	hi := (tail - w.MACX - 0.25*w.MAC) / L
+	if hi <= 0.05 {
+		return inputErr("wing.area", w.Area, "m2", fmt.Sprintf("a wing whose aerodynamic centre (MAC quarter chord, %.3g m behind its apex) can lie ahead of the tails' positions (%.3g m from the nose) at some wing.position in [0.05, 0.9]: a smaller wing or a longer fuselage",
+			w.MACX+0.25*w.MAC, tail))
+	}
+	if !(s.WingPosition < hi) {
+		return inputErr("wing.position", s.WingPosition, "", fmt.Sprintf("below %.3g with this wing and fuselage: the wing's aerodynamic centre (MAC quarter chord) must lie ahead of the tails' positions (move the wing forward)", hi))
+	}
+	return nil
+}
+
 // NewConfiguration places the wing, sizes the tails to their volume
 // coefficients with their arms as they sit on the fuselage (each at its
 // position of the options, or forward with its root trailing edge at the
@@ -427,11 +475,14 @@ func NewConfiguration(s ConfigurationSpec, o GeometryOptions) (Configuration, er
 	if !(s.WingPosition >= 0.05 && s.WingPosition <= 0.9) {
 		return c, inputErr("wing.position", s.WingPosition, "", "[0.05, 0.9] (apex x / fuselage length)")
 	}
-	if !(s.HTailVolume >= 0 && s.HTailVolume <= 3) {
-		return c, inputErr("htail.volume", s.HTailVolume, "", "[0, 3]")
+	if !(s.HTailVolume >= MinHTailVolume && s.HTailVolume <= 3) {
+		return c, inputErr("htail.volume", s.HTailVolume, "", htailVolumeRange)
 	}
 	if !(s.VTailVolume > 0 && s.VTailVolume <= 1) {
 		return c, inputErr("vtail.volume", s.VTailVolume, "", "(0, 1]")
+	}
+	if err := checkWingOnFuselage(&s, &o); err != nil {
+		return c, err
 	}
 	xac := s.WingPosition*L + s.Wing.MACX + 0.25*s.Wing.MAC
 	hUnit, err := newSurface("htail", 1, o.HTailAspectRatio, o.HTailTaper, o.HTailSweep, o.HTailThickness)
@@ -449,6 +500,15 @@ func NewConfiguration(s ConfigurationSpec, o GeometryOptions) (Configuration, er
 	sv, _, err := TailAreaForVolume("vtail.volume", s.VTailVolume, s.VTailVolume*s.Wing.Area*s.Wing.Span, vUnit, o.VTailPosition*L, o.VTailEnd*L, xac)
 	if err != nil {
 		return c, err
+	}
+	for _, t := range []struct {
+		name         string
+		volume, area float64
+	}{{"htail.volume", s.HTailVolume, sh}, {"vtail.volume", s.VTailVolume, sv}} {
+		if t.area > MaxTailArea {
+			return c, inputErr(t.name, t.volume, "", fmt.Sprintf("at most about %.3g with this wing: the tail would need %.4g m2, more than the %g m2 the model accepts",
+				t.volume*MaxTailArea/t.area, t.area, MaxTailArea))
+		}
 	}
 	return AssembleConfiguration(s.Wing, s.WingPosition, s.Fuselage, sh, sv, s.EngineCount, s.NacelleDiameter, s.NacelleLength, o)
 }
@@ -998,9 +1058,9 @@ func (g *Geometry) Inputs() []mdo.Var {
 	in := make([]mdo.Var, geoNumIn)
 	w := wingParamVars()
 	copy(in, w[:])
-	in[geoInHTailVolume] = mdo.Var{Name: "htail.volume", Unit: "-", Description: "horizontal-tail volume coefficient S_h·l_h/(S·c̄)", Default: 0.15, Min: 0, Max: 3}
+	in[geoInHTailVolume] = mdo.Var{Name: "htail.volume", Unit: "-", Description: "horizontal-tail volume coefficient S_h·l_h/(S·c̄)", Default: 0.15, Min: MinHTailVolume, Max: 3}
 	in[geoInVTailVolume] = mdo.Var{Name: "vtail.volume", Unit: "-", Description: "vertical-tail volume coefficient S_v·l_v/(S·b)", Default: 0.05, Min: 0.005, Max: 1}
-	in[geoInPassengers] = mdo.Var{Name: "cabin.passengers", Unit: "-", Description: "passenger seats (rounded)", Default: 12, Min: 1, Max: 1000, Scale: 10}
+	in[geoInPassengers] = mdo.Var{Name: "cabin.passengers", Unit: "-", Description: "passenger seats (rounded)", Default: 12, Min: 1, Max: 800, Scale: 10}
 	in[geoInAbreast] = mdo.Var{Name: "cabin.seats_abreast", Unit: "-", Description: "seats per row (rounded; 14 CFR 25.817: at most 6 with one aisle; 12 with two is this layout's limit)", Default: 2, Min: 1, Max: 12}
 	in[geoInAisles] = mdo.Var{Name: "cabin.aisles", Unit: "-", Description: "aisles of the cabin (rounded: 1 or 2)", Default: 1, Min: 1, Max: 2}
 	in[geoInPitch] = mdo.Var{Name: "cabin.seat_pitch", Unit: "m", Description: "seat pitch", Default: 0.95, Min: 0.5, Max: 2.5}

@@ -42,6 +42,32 @@ func TestClimbFraction(t *testing.T) {
 	}
 }
 
+func TestMissionSegmentFractions(t *testing.T) {
+	// Historical mission-segment mass fractions (conceptual-design
+	// textbooks, from memory; project reference): warm-up and take-off
+	// 0.970, landing 0.995. The reference's fixed climb fraction 0.985 is
+	// replaced here by the Mach-dependent climb/accelerate fraction of the
+	// same reference (1.0065 − 0.0325M, which is 0.985 at M = 0.6615).
+	if WarmupTakeoffFraction != 0.970 || LandingFraction != 0.995 {
+		t.Errorf("warm-up/take-off %g, landing %g; want 0.970, 0.995", WarmupTakeoffFraction, LandingFraction)
+	}
+	if got := ClimbFraction(0.6615); math.Abs(got-0.985) > 5e-5 {
+		t.Errorf("climb fraction at M 0.6615: %g, want 0.985", got)
+	}
+	// The trip fuel is 1 − Π(segment fractions): with the Breguet check
+	// values above (cruise Wf/Wi = 0.75) at Mach 1.6,
+	// 1 − 0.970·0.9542·0.75·0.995 = 0.309290.
+	p := DefaultMissionProfile()
+	r, _ := BreguetRange(250, 1.6e-5, 15, 1/0.75)
+	fr := p.FuelFractions(r, 1.6, 250, 1.6e-5, 15)
+	if math.Abs(fr.Trip-(1-0.970*ClimbFraction(1.6)*0.75*0.995)) > 1e-12 || math.Abs(fr.Trip-0.309290) > 1e-6 {
+		t.Errorf("trip fuel fraction %g, want 0.309290", fr.Trip)
+	}
+	if math.Abs(fr.ToCruise-(1-0.970*ClimbFraction(1.6))) > 1e-12 {
+		t.Errorf("fuel to the start of cruise %g", fr.ToCruise)
+	}
+}
+
 // Range for a fuel load inverts fuel for a range; range grows with fuel.
 func TestRangeFuelInverse(t *testing.T) {
 	p := DefaultMissionProfile()
