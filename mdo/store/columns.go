@@ -100,32 +100,9 @@ func (l *layout) outputRows() string {
 // sqlString quotes an SQL string literal.
 func sqlString(s string) string { return "'" + strings.ReplaceAll(s, "'", "''") + "'" }
 
-// bindColumns adds the value columns of e (the layout's stored order after
-// failure): NaN as NULL, and every output NULL when the analysis recorded
-// none.
-func (s *Store) bindColumns(e *mdo.Evaluation) {
-	k := 0
-	for _, xs := range [4][]float64{e.Design, e.Objectives, e.Constraints, e.Margins} {
-		for _, x := range xs {
-			s.add(s.last.value(k, x))
-			k++
-		}
-	}
-	if len(e.Outputs) == 0 {
-		for range s.lay.outputs {
-			s.add(nil)
-		}
-		return
-	}
-	for _, x := range e.Outputs {
-		s.add(s.last.value(k, x))
-		k++
-	}
-}
-
-// lastBound holds, per value column, the value bound last and its driver
-// value, so that a value equal (bit for bit) to the one before it in its
-// column is bound from the same interface: a float64 put in an interface
+// lastBound holds, per value column, the value given to SQLite last and
+// its driver value, so that a value equal (bit for bit) to the one before
+// it in its column is given from the same interface: a float64 put in an interface
 // is an allocation, and the values of a study's parameters, and many of
 // its outputs, repeat from row to row.
 type lastBound struct {

@@ -62,7 +62,10 @@
 // are its values in the views and its CSV cells (stores written before
 // this kept the variables' defaults there; they still read, without those
 // values). The file has pages of 32 KiB, so that rows of hundreds of
-// outputs share pages.
+// outputs share pages; its write-ahead log is copied into it whenever it
+// passes 2 MiB. In the REAL column layout the writer hands SQLite the
+// rows of a batch through a virtual table of the connection's temp schema
+// (one INSERT … SELECT per batch), which the file does not hold.
 //
 // Stores of schema versions 1 and 2, and a study with more values per
 // evaluation than a table has columns (1 900 here), keep the design,

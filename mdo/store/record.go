@@ -16,7 +16,8 @@ import (
 // SQLITE_MAX_VARIABLE_NUMBER is 32766).
 const maxVariables = 32000
 
-// maxBatchRows bounds the rows of one multi-row INSERT.
+// maxBatchRows bounds the rows of one multi-row INSERT of bound
+// parameters (the JSON text layout).
 const maxBatchRows = 64
 
 // Begin starts the run: on a new store it writes the provenance and the
@@ -199,8 +200,15 @@ func writeVariables(ctx context.Context, s *Store, lay *layout, outputs []mdo.Va
 func (s *Store) prepare() error {
 	ctx := context.Background()
 	ncols := len(s.lay.stored())
-	nvals := len(s.lay.named()) + len(s.lay.outputs)
-	s.last = lastBound{bits: make([]uint64, nvals), vals: make([]driver.Value, nvals)}
+	if s.lay.columns {
+		// the batch table, in the connection's temp schema (not in the file)
+		nvals := len(s.lay.named()) + len(s.lay.outputs)
+		s.batch.lay = s.lay
+		s.batch.last = lastBound{bits: make([]uint64, nvals), vals: make([]driver.Value, nvals)}
+		if _, err := s.conn.ExecContext(ctx, "CREATE VIRTUAL TABLE temp."+batchTable+" USING "+batchModule); err != nil {
+			return fmt.Errorf("store: %s: creating the batch table: %w", s.path, err)
+		}
+	}
 	s.batchRows = min(maxBatchRows, s.opt.BatchSize, maxVariables/ncols)
 	err := s.conn.Raw(func(dc any) error {
 		pc, ok := dc.(driver.ConnPrepareContext)
@@ -220,13 +228,20 @@ func (s *Store) prepare() error {
 			return ex, nil
 		}
 		var err error
-		if s.batchRows > 1 {
+		if s.lay.columns {
+			s.stmtBatch, err = prep(s.lay.insertFromBatchSQL())
+			if err != nil {
+				return err
+			}
+		} else if s.batchRows > 1 {
 			if s.stmtBatch, err = prep(s.lay.insertSQL(s.batchRows)); err != nil {
 				return err
 			}
 		}
-		if s.stmtOne, err = prep(s.lay.insertSQL(1)); err != nil {
-			return err
+		if !s.lay.columns {
+			if s.stmtOne, err = prep(s.lay.insertSQL(1)); err != nil {
+				return err
+			}
 		}
 		s.stmtIt, err = prep(`INSERT INTO iterations (session, optimizer, iteration, evaluations, best, feasible, violation, at) VALUES (?, ?, ?, ?, ?, ?, ?, ?)`)
 		return err
@@ -341,17 +356,12 @@ func (s *Store) add(vs ...driver.Value) {
 	}
 }
 
-// bind fills the argument list of an insert of encoded rows.
+// bind fills the argument list of an insert of encoded rows in the JSON
+// text layout (the REAL column layout reads them from the batch table).
 func (s *Store) bind(rows []encRow) []driver.NamedValue {
 	s.args = s.args[:0]
 	for _, r := range rows {
 		e := r.e
-		if s.lay.columns {
-			s.add(int64(e.ID), e.Feasible, e.Converged, e.Violation, e.Err,
-				int64(e.CouplingIterations), int64(e.DisciplineCalls), e.Wall.Seconds(), r.vectors, mdo.ClassOf(e).String())
-			s.bindColumns(e)
-			continue
-		}
 		s.add(int64(e.ID), e.Feasible, e.Converged, e.Violation, e.Err,
 			int64(e.CouplingIterations), int64(e.DisciplineCalls), e.Wall.Seconds(), r.numbers, r.outputs, r.vectors, mdo.ClassOf(e).String())
 	}

@@ -259,6 +259,17 @@ func (l *layout) insertSQL(rows int) string {
 	return b.String()
 }
 
+// insertFromBatchSQL is the INSERT of every row of the batch table into
+// the evaluations table (the REAL column layout).
+func (l *layout) insertFromBatchSQL() string {
+	cols := l.stored()
+	quoted := make([]string, len(cols))
+	for i, c := range cols {
+		quoted[i] = quote(c)
+	}
+	return "INSERT OR REPLACE INTO evaluation_data (" + strings.Join(quoted, ", ") + ") SELECT * FROM temp." + batchTable
+}
+
 // sanitize makes a name safe inside a quoted SQL identifier and a CSV
 // header: control characters become '_'.
 func sanitize(n string) string {

@@ -17,8 +17,6 @@ import (
 	"time"
 
 	"couplet/mdo"
-
-	_ "modernc.org/sqlite" // registers the "sqlite" driver
 )
 
 // Options configure a Store.
@@ -125,13 +123,13 @@ type Store struct {
 	keptMu    sync.Mutex
 	kept      *keptSet // the evaluations kept in memory (Options.KeepEvaluations), or nil
 	txMu      sync.Mutex
+	batch     *batchSource // the rows the batch table shows (REAL column layout)
 	batchRows int
 	stmts     []driver.Stmt
-	stmtBatch driver.StmtExecContext
-	stmtOne   driver.StmtExecContext
+	stmtBatch driver.StmtExecContext // a batch's insert: from the batch table, or of batchRows rows' parameters
+	stmtOne   driver.StmtExecContext // one row's insert of parameters (JSON text layout)
 	stmtIt    driver.StmtExecContext
 	args      []driver.NamedValue
-	last      lastBound // the value columns bound last (bindColumns)
 	rows      int
 	began     bool
 	ended     bool
@@ -174,12 +172,14 @@ func dsn(path string, durable bool) string {
 	return "file:" + (&url.URL{Path: path}).EscapedPath() + "?" + q.Encode()
 }
 
-// openDB opens the database with one pinned connection.
-func openDB(path string, durable bool) (*sql.DB, *sql.Conn, error) {
-	db, err := sql.Open("sqlite", dsn(path, durable))
+// openDB opens the database with one pinned connection, whose batch
+// table shows src.
+func openDB(path string, durable bool, src *batchSource) (*sql.DB, *sql.Conn, error) {
+	c, err := newConnector(dsn(path, durable), src)
 	if err != nil {
 		return nil, nil, fmt.Errorf("store: opening %s: %w", path, err)
 	}
+	db := sql.OpenDB(c)
 	db.SetMaxOpenConns(1)
 	conn, err := db.Conn(context.Background())
 	if err != nil {
@@ -206,11 +206,12 @@ func Create(path string, opt Options) (*Store, error) {
 			return nil, fmt.Errorf("store: replacing %s: %w", path, err)
 		}
 	}
-	db, conn, err := openDB(path, opt.Durable)
+	src := &batchSource{}
+	db, conn, err := openDB(path, opt.Durable, src)
 	if err != nil {
 		return nil, err
 	}
-	s := &Store{path: path, opt: opt, db: db, conn: conn, names: countersOf(SchemaVersion)}
+	s := &Store{path: path, opt: opt, db: db, conn: conn, batch: src, names: countersOf(SchemaVersion)}
 	ctx := context.Background()
 	// pages of 32 KiB hold several rows of a study with hundreds of
 	// outputs (4 KiB pages hold one and waste the rest); the page size of
@@ -261,11 +262,12 @@ func openExisting(path string, opt Options, readOnly bool) (*Store, error) {
 	if err := checkFile(path); err != nil {
 		return nil, err
 	}
-	db, conn, err := openDB(path, opt.Durable)
+	src := &batchSource{}
+	db, conn, err := openDB(path, opt.Durable, src)
 	if err != nil {
 		return nil, err
 	}
-	s := &Store{path: path, opt: opt, db: db, conn: conn, readOnly: readOnly}
+	s := &Store{path: path, opt: opt, db: db, conn: conn, batch: src, readOnly: readOnly}
 	if err := s.verify(); err != nil {
 		s.Close()
 		return nil, err

@@ -19,7 +19,8 @@ const minQueue = 256
 // iterations queued among them) at a time, when BatchSize evaluations are
 // waiting, when FlushInterval has passed since the last batch was taken,
 // or when a flush is asked for, and formats them into an encoded batch;
-// the committer binds an encoded batch and commits it in one
+// the committer inserts an encoded batch (in the REAL column layout
+// through the batch table, see batch_table.go) and commits it in one
 // transaction while the encoder formats the next. The queue is bounded
 // (limit evaluations, limit iterations): a caller that outruns the
 // writer waits for room. The first write error is kept and returned by
@@ -57,9 +58,10 @@ const encodedBatches = 2
 // arrays are formatted into arena and then copied once into a string
 // that the rows' numbers and outputs are cut from: one copy per batch,
 // none per row, and nothing that depends on the driver copying bound
-// text. The vectors blobs are cut from blobs; like any []byte argument,
-// the driver has bound them before the insert returns, and blobs is
-// reused only for the next batch, after this one's commit.
+// text. The vectors blobs are cut from blobs; the driver has copied them
+// (as a bound []byte, or a value of the batch table) before the insert
+// returns, and blobs is reused only for the next batch, after this one's
+// commit.
 type encBatch struct {
 	evs   []*mdo.Evaluation
 	rows  []encRow
@@ -67,8 +69,9 @@ type encBatch struct {
 	arena []byte
 	blobs []byte
 	cuts  []rowCuts
-	// columns: the layout keeps the values in REAL columns, bound from
-	// the evaluation; only the vectors blob is encoded
+	// columns: the layout keeps the values in REAL columns, which the
+	// batch table reads from the evaluation; only the vectors blob is
+	// encoded
 	columns bool
 }
 
@@ -360,22 +363,40 @@ func (s *Store) commitLoop(w *writer) {
 	}
 }
 
+// insertBound inserts encoded rows of the JSON text layout as bound
+// parameters: batchRows rows per statement, then one by one.
+func (s *Store) insertBound(ctx context.Context, p []encRow) error {
+	for s.stmtBatch != nil && len(p) >= s.batchRows {
+		if _, err := s.stmtBatch.ExecContext(ctx, s.bind(p[:s.batchRows])); err != nil {
+			return err
+		}
+		p = p[s.batchRows:]
+	}
+	for k := range p {
+		if _, err := s.stmtOne.ExecContext(ctx, s.bind(p[k:k+1])); err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
 // commit writes encoded evaluations and iterations in one transaction.
 func (s *Store) commit(evs []encRow, its []iterRow) error {
 	ctx := context.Background()
 	return s.inTx(func() error {
 		return s.conn.Raw(func(any) error {
-			p := evs
-			for s.stmtBatch != nil && len(p) >= s.batchRows {
-				if _, err := s.stmtBatch.ExecContext(ctx, s.bind(p[:s.batchRows])); err != nil {
-					return err
+			if s.lay.columns {
+				// the whole batch in one statement, read from the batch table
+				if len(evs) > 0 {
+					s.batch.rows = evs
+					_, err := s.stmtBatch.ExecContext(ctx, nil)
+					s.batch.rows = nil
+					if err != nil {
+						return err
+					}
 				}
-				p = p[s.batchRows:]
-			}
-			for k := range p {
-				if _, err := s.stmtOne.ExecContext(ctx, s.bind(p[k:k+1])); err != nil {
-					return err
-				}
+			} else if err := s.insertBound(ctx, evs); err != nil {
+				return err
 			}
 			for _, it := range its {
 				s.args = s.args[:0]
