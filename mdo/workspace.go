@@ -35,6 +35,9 @@ type Workspace struct {
 	// them (fillWorst runs when the reports are read: CouplingReports).
 	res      [][]float64
 	worstDue []bool
+	// tv holds, per report, its group's coupling variables as
+	// solvePlain's residual reads them
+	tv       [][]tearVar
 	onceMode bool
 	// solving is true while a coupled group is solved: loop inputs are
 	// then projected onto their ranges.
@@ -93,6 +96,11 @@ func (s *System) NewWorkspace() *Workspace {
 			w.reports = append(w.reports, rep)
 			w.res = append(w.res, make([]float64, len(g.tear)))
 			w.worstDue = append(w.worstDue, false)
+			tv := make([]tearVar, len(g.tear))
+			for k, v := range g.tear {
+				tv[k] = tearVar{v: v, lo: g.lo[k], hi: g.hi[k], inv: g.inv[k], scale: g.scale[k]}
+			}
+			w.tv = append(w.tv, tv)
 		}
 	}
 	w.saved = make([]float64, n)
@@ -342,6 +350,14 @@ type discPlan struct {
 	lo, hi        []float64
 	loopIn        []bool
 	fn            ComputeFunc
+}
+
+// tearVar is a coupling variable of a group as solvePlain's residual
+// reads it: its index in the values, the bounds of its consumers' ranges
+// (group.lo, group.hi), its residual scale and the reciprocal.
+type tearVar struct {
+	v                  int
+	lo, hi, inv, scale float64
 }
 
 // loopInput is an input of a discipline produced inside its own coupled
@@ -760,15 +776,15 @@ func (w *Workspace) solve(ctx context.Context, g *group, set SolverSettings, p s
 func (w *Workspace) solvePlain(ctx context.Context, g *group, set SolverSettings, p solvePath, rk int) error {
 	rep := &w.reports[rk]
 	nt := len(g.tear)
-	tear, lo, hi := g.tear[:nt], g.lo[:nt], g.hi[:nt]
+	tv, pow2 := w.tv[rk][:nt], g.pow2
 	y, r, val := w.y[:nt], w.res[rk][:nt], w.val
 	// a context whose Done is nil can never be cancelled
 	cancellable := ctx.Done() != nil
 	// y is the state a sweep starts from: the values of the coupling
 	// variables, which only the sweep changes (the residual loop below
 	// takes them for the next sweep)
-	for k, v := range tear {
-		y[k] = val[v]
+	for k := range tv {
+		y[k] = val[tv[k].v]
 	}
 	watch := stallWatch{best: math.Inf(1)}
 	for it := 1; it <= set.MaxIterations; it++ {
@@ -787,9 +803,15 @@ func (w *Workspace) solvePlain(ctx context.Context, g *group, set SolverSettings
 			return w.loopError(g, err, p)
 		}
 		norm := 0.0
-		for k, v := range tear {
-			x := val[v]
-			d := g.scaled(k, clip(x, lo[k], hi[k])-y[k])
+		for k := range tv {
+			t := &tv[k]
+			x := val[t.v]
+			d := clip(x, t.lo, t.hi) - y[k]
+			if pow2 {
+				d *= t.inv // d/scale bit for bit (see group.inv)
+			} else {
+				d /= t.scale
+			}
 			r[k], y[k] = d, x
 			if a := math.Abs(d); a > norm || a != a {
 				norm = a
