@@ -1,6 +1,7 @@
 package disciplines
 
 import (
+	"fmt"
 	"math"
 
 	"couplet/mdo"
@@ -309,6 +310,9 @@ func (a *AirframeAerodynamics) Compute(in, out []float64) error {
 	out[afOutCLMaxTO] = clTO
 	out[afOutCLMaxLdg] = clean + in[afInFlapLanding]*cq
 	out[afOutCLTO] = clTO / (1.13 * 1.13)
+	if err := checkCalibratedLift(out[afOutCLACruise], out[afOutCLALow], in[afInFactorLiftSlope], clean, cq, in[afInFlapTakeoff], in[afInFlapLanding]); err != nil {
+		return err
+	}
 	// the Korn relation's parts fixed by the wing (kornFromCos in two
 	// pieces, the same operations): aerodynamics adds the cruise lift
 	kf := m.Geometry.KornFactor
@@ -316,5 +320,40 @@ func (a *AirframeAerodynamics) Compute(in, out []float64) error {
 	out[afOutKornLift] = 10 * cq * cq * cq
 	out[afOutKTO] = dragDueToLift(w, o.TakeoffMach, e-o.OswaldReductionTakeoff) * in[afInFactorInduced]
 	out[afOutKLdg] = dragDueToLift(w, o.TakeoffMach, e-o.OswaldReductionLanding) * in[afInFactorInduced]
+	return nil
+}
+
+// Ranges the disciplines downstream of airframe_aero accept for its lift
+// outputs (neutral_point's lift slopes, propulsion's and mission's
+// maximum lift coefficients).
+const (
+	maxLiftSlope    = 10.0
+	minCLMax        = 0.3
+	maxCLMaxTakeoff = 4.0
+	maxCLMaxLanding = 4.5
+)
+
+// checkCalibratedLift refuses lift outputs the disciplines that read
+// them would refuse, naming the input that drives them: the lift-slope
+// calibration factor (slopes cla, claLow [1/rad] with the factor
+// applied) and the high-lift increments (clean maximum lift clean, cos Λc/4
+// cq). Without it the design would be reported as not closing through
+// aero.cla_cruise or aero.cl_max_takeoff.
+func checkCalibratedLift(cla, claLow, factor, clean, cq, dTO, dLdg float64) error {
+	if hi := math.Max(cla, claLow); hi > maxLiftSlope {
+		return inputErr("aero.factor_lift_slope", factor, "", fmt.Sprintf("at most %.3g with this wing: the calibrated lift-curve slope %.3g /rad exceeds the %g /rad the neutral point accepts", factor*maxLiftSlope/hi, hi, maxLiftSlope))
+	}
+	for _, f := range []struct {
+		name      string
+		inc, high float64
+	}{{"flap.cl_increment_takeoff", dTO, maxCLMaxTakeoff}, {"flap.cl_increment_landing", dLdg, maxCLMaxLanding}} {
+		cl := clean + f.inc*cq
+		switch {
+		case cl > f.high:
+			return inputErr(f.name, f.inc, "", fmt.Sprintf("at most %.3g with this wing: the maximum lift coefficient %.3g exceeds the %g the field-length and climb analyses accept", (f.high-clean)/cq, cl, f.high))
+		case cl < minCLMax:
+			return inputErr(f.name, f.inc, "", fmt.Sprintf("at least %.3g with this wing: the maximum lift coefficient %.3g (clean %.3g at its sweep) is below the %g the field-length and climb analyses accept", (minCLMax-clean)/cq, cl, clean, minCLMax))
+		}
+	}
 	return nil
 }

@@ -115,7 +115,8 @@ func checklistClass(mach, seats float64) AircraftClass {
 // whether the value exists) and returns the designer's checklist: static
 // margins at take-off and at the start and end of cruise (5–15 % MAC,
 // about 10 % typical), fuselage fineness ratio (10–15), aft-fuselage
-// upsweep for rotation clearance (10–25°), and for a supersonic cruise the
+// upsweep for rotation clearance (10–25°), the cruise lift coefficient
+// at most CLmax,clean/1.3 (CruiseManoeuvreMargin), and for a supersonic cruise the
 // leading edge behind the Mach cone and a take-off lift-to-drag ratio of
 // about 5 (all common practice, no source); the layout clearances of the
 // wing and tails (layout.go); the seats abreast of 14 CFR 25.817; the fuel
@@ -177,6 +178,12 @@ func DesignChecklist(get func(name string) (float64, bool)) Checklist {
 				"far from the slender-wing value: look at the low-speed polar", commonPractice)
 		}
 	}
+	if v, ok := val("aero.cl_cruise", "aero.cl_max_clean"); ok && v[1] > 0 {
+		band("cruise lift coefficient over the clean maximum", v[0]/v[1], "", math.Inf(-1), 1/CruiseManoeuvreMargin,
+			fmt.Sprintf("<= %.3g (a %g g margin)", 1/CruiseManoeuvreMargin, CruiseManoeuvreMargin),
+			"too little lift in hand at cruise: the wing nears its clean maximum (above 1 it cannot carry the cruise weight); fly lower or faster, or a larger wing",
+			commonPractice)
+	}
 	if v, ok := val("layout.wing_tail_clearance"); ok {
 		band("gap from the wing trailing edge to the tail leading edge", v[0], "m", 0, math.Inf(1), ">= 0",
 			"the tail overlaps the wing in the top view", commonPractice)
@@ -221,6 +228,13 @@ func DesignChecklist(get func(name string) (float64, bool)) Checklist {
 	}
 	return c
 }
+
+// CruiseManoeuvreMargin is the load factor a cruising aircraft should
+// reach before its clean maximum lift: the cruise lift coefficient at
+// most CLmax,clean/1.3 (a 1.3 g margin, common practice, no source;
+// buffet onset lies below the clean maximum, so this is the optimistic
+// side of the usual buffet margin).
+const CruiseManoeuvreMargin = 1.3
 
 // DeclaredTailOverhang is the name under which DesignChecklist reads the
 // declared overhang of the tail tips behind the fuselage end [m] (the

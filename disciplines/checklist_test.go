@@ -22,14 +22,15 @@ func checklistBase() map[string]float64 {
 		"layout.wing_tail_clearance": 0.5, "layout.tail_span_ratio": 0.4, "layout.wing_overhang": -1, "layout.tail_overhang": -0.2,
 		"cabin.seats_abreast": 2, "cabin.aisles": 1, "mass.fuel_capacity": 20000, "mass.fuel": 18000,
 		"mass.empty": 19500, "mass.crew": 190, "mass.takeoff": 36000, "cabin.passengers": 12,
+		"aero.cl_cruise": 0.15, "aero.cl_max_clean": 0.5,
 	}
 }
 
 func TestDesignChecklistFlags(t *testing.T) {
 	// Each rule of thumb flags a value outside its band (static margin
 	// 5–15 % MAC, fineness 10–15, upsweep 10–25°, subsonic leading edge,
-	// take-off L/D about 5, layout clearances: common practice, no
-	// source; 14 CFR 25.817; empty masses against their class).
+	// take-off L/D about 5, layout clearances, cruise CL at most
+	// CLmax,clean/1.3: common practice, no source; 14 CFR 25.817; empty masses against their class).
 	tests := []struct {
 		name string
 		set  map[string]float64
@@ -47,6 +48,7 @@ func TestDesignChecklistFlags(t *testing.T) {
 		{"wing past the fuselage end", map[string]float64{"layout.wing_overhang": 1.2}, "wing behind the fuselage end"},
 		{"tail tips past the fuselage end", map[string]float64{"layout.tail_overhang": 1.5}, "tail tips behind the fuselage end"},
 		{"eight abreast, one aisle", map[string]float64{"cabin.seats_abreast": 8}, "seats abreast with 1 aisle(s)"},
+		{"cruise near the clean maximum lift", map[string]float64{"aero.cl_cruise": 0.4}, "cruise lift coefficient over the clean maximum"},
 		{"fuel beyond the tanks", map[string]float64{"mass.fuel": 21000}, "tank capacity less mission fuel"},
 		{"light empty mass", map[string]float64{"mass.empty": 11000}, "operating empty mass per seat (business jet)"},
 	}

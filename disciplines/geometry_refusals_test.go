@@ -14,13 +14,7 @@ import (
 // variable (wing.mac_x, fuselage.length, htail.arm, aero.cla_cruise, a
 // tail area) outside a later discipline's range.
 func TestGeometryRefusesImpossibleLayouts(t *testing.T) {
-	cases := []struct {
-		name  string
-		scen  Scenario
-		set   map[string]float64
-		class mdo.FailureClass
-		want  []string // substrings of the message
-	}{
+	runRefusals(t, []refusalCase{
 		{"wing inside the fuselage", Swiftlet(), map[string]float64{"wing.area": 1},
 			mdo.InvalidInput, []string{"wing.area = 1 m2", "larger than the fuselage diameter"}},
 		{"forward-swept MAC ahead of the nose", SwiftletForwardSwept(), map[string]float64{"wing.position": 0.05},
@@ -33,7 +27,23 @@ func TestGeometryRefusesImpossibleLayouts(t *testing.T) {
 			mdo.InvalidInput, []string{"cabin.passengers = 800", "at most 150 m", "196 m"}},
 		{"tailless", Swiftlet(), map[string]float64{"htail.volume": 0},
 			mdo.InvalidInput, []string{"htail.volume", "[0.01, 3]"}},
-	}
+	})
+}
+
+// refusalCase is a scenario with parameters changed whose analysis must
+// fail with the given class and a message holding every want.
+type refusalCase struct {
+	name  string
+	scen  Scenario
+	set   map[string]float64
+	class mdo.FailureClass
+	want  []string // substrings of the message
+}
+
+// runRefusals analyses each case through a study (vtail.volume its one
+// design variable, at the scenario's value) and checks the failure.
+func runRefusals(t *testing.T, cases []refusalCase) {
+	t.Helper()
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
 			sys, err := c.scen.NewSystem()
@@ -69,6 +79,25 @@ func TestGeometryRefusesImpossibleLayouts(t *testing.T) {
 			}
 		})
 	}
+}
+
+// Lift outputs of airframe_aero the disciplines reading them would
+// refuse (the lift slopes of neutral_point, the maximum lift coefficients
+// of propulsion and mission) are refused as invalid inputs naming the
+// calibration factor or high-lift increment that drives them, not as a
+// design that does not close through aero.cla_cruise or
+// aero.cl_max_takeoff.
+func TestAirframeAeroRefusesLiftOutOfRange(t *testing.T) {
+	runRefusals(t, []refusalCase{
+		{"lift-slope factor", Kestrel(), map[string]float64{"aero.factor_lift_slope": 3},
+			mdo.InvalidInput, []string{"aero.factor_lift_slope = 3 is not allowed", "exceeds the 10 /rad"}},
+		{"take-off flaps", Kestrel(), map[string]float64{"flap.cl_increment_takeoff": 3, "wing.sweep": 0},
+			mdo.InvalidInput, []string{"flap.cl_increment_takeoff = 3 is not allowed", "at most 2.59", "exceeds the 4"}},
+		{"landing flaps", Kestrel(), map[string]float64{"flap.cl_increment_landing": 3, "wing.sweep": 0, "wing.thickness_ratio": 0.18},
+			mdo.InvalidInput, []string{"flap.cl_increment_landing = 3 is not allowed", "exceeds the 4.5"}},
+		{"no take-off flaps on a highly swept wing", Swiftlet(), map[string]float64{"flap.cl_increment_takeoff": 0, "wing.sweep": 70, "wing.thickness_ratio": 0.01, "wing.position": 0.3, "htail.volume": 0.1},
+			mdo.InvalidInput, []string{"flap.cl_increment_takeoff = 0 is not allowed", "at least", "below the 0.3"}},
+	})
 }
 
 // A tail larger than the model accepts (1000 m2, the range of htail.area

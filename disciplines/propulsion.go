@@ -1006,11 +1006,11 @@ func massTakeoffVar() mdo.Var {
 }
 
 func clMaxTakeoffVar() mdo.Var {
-	return mdo.Var{Name: "aero.cl_max_takeoff", Unit: "-", Description: "maximum lift coefficient, take-off configuration", Default: 1.4, Min: 0.3, Max: 4}
+	return mdo.Var{Name: "aero.cl_max_takeoff", Unit: "-", Description: "maximum lift coefficient, take-off configuration", Default: 1.4, Min: minCLMax, Max: maxCLMaxTakeoff}
 }
 
 func clMaxLandingVar() mdo.Var {
-	return mdo.Var{Name: "aero.cl_max_landing", Unit: "-", Description: "maximum lift coefficient, landing configuration", Default: 1.7, Min: 0.3, Max: 4.5}
+	return mdo.Var{Name: "aero.cl_max_landing", Unit: "-", Description: "maximum lift coefficient, landing configuration", Default: 1.7, Min: minCLMax, Max: maxCLMaxLanding}
 }
 
 func wingAreaVar() mdo.Var {

@@ -38,6 +38,7 @@ func init() {
 		"Condor":                     reflect.ValueOf(disciplines.Condor),
 		"CorrectedFlowLapse":         reflect.ValueOf(disciplines.CorrectedFlowLapse),
 		"CriticalMach":               reflect.ValueOf(disciplines.CriticalMach),
+		"CruiseManoeuvreMargin":      reflect.ValueOf(constant.MakeFromLiteral("1.29999999999999999995663191310057982263970188796520233154296875", token.FLOAT, 0)),
 		"CutoffReynolds":             reflect.ValueOf(disciplines.CutoffReynolds),
 		"DeclaredTailOverhang":       reflect.ValueOf(constant.MakeFromLiteral("\"layout.declared_tail_overhang\"", token.STRING, 0)),
 		"DefaultAeroOptions":         reflect.ValueOf(disciplines.DefaultAeroOptions),
