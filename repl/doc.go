@@ -28,8 +28,11 @@
 //   - Around faults the interpreter also has inside functions: a method
 //     value of a framework type becomes a closure over its receiver, a
 //     generic call gets the type arguments go/types inferred, a range over
-//     an integer becomes a counted loop, and a loop variable that a
-//     closure captures gets a copy per iteration, as in Go 1.22.
+//     an integer becomes a counted loop, a range over a function (Go
+//     1.23: for x := range seq, seq a func(yield func(T) bool)) becomes
+//     the call of seq with the body as yield (rangefunc.go), and a loop
+//     variable that a closure captures gets a copy per iteration, as in
+//     Go 1.22.
 //   - Each statement of the body records its cell line first, so a panic
 //     reports the line of the statement that panicked. A function or
 //     function literal of a cell that can panic by itself records its

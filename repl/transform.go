@@ -356,12 +356,27 @@ func transformCell(src string, number int, units []unit, imports []string, local
 	}
 	edits = append(edits, rewrites(body, info1, qual, ts.im, bOff, string(b))...)
 	edits = append(edits, placing(body, info1, fset, number, bOff)...)
+	canWrite := func(t types.Type) bool { return nameable(t, mainPkg, ts.im, map[types.Type]bool{}) }
+	for _, decl := range files[2].Decls {
+		if fd, ok := decl.(*ast.FuncDecl); ok {
+			rf, rerr := rangeFuncs(fd, number, p.line, info1, qual, canWrite, bOff, string(b))
+			if rerr != nil {
+				return nil, &typeCheckError{line: fset.Position(rerr.pos).Line, msg: rerr.msg}
+			}
+			edits = append(edits, rf...)
+		}
+	}
 	dOff := func(pos token.Pos) int { return fset.Position(pos).Offset - len(dPrefix) }
 	var dEdits []edit
 	for _, decl := range files[1].Decls {
 		if _, ok := decl.(*ast.FuncDecl); ok {
-			dEdits = append(dEdits, rewrites(decl, info1, qual, ts.im, dOff, string(d))...)
 			dEdits = append(dEdits, placing(decl, info1, fset, number, dOff)...)
+			dEdits = append(dEdits, rewrites(decl, info1, qual, ts.im, dOff, string(d))...)
+			rf, rerr := rangeFuncs(decl, number, placeVar, info1, qual, canWrite, dOff, string(d))
+			if rerr != nil {
+				return nil, &typeCheckError{line: fset.Position(rerr.pos).Line, msg: rerr.msg}
+			}
+			dEdits = append(dEdits, rf...)
 		}
 	}
 	bText := applyEdits(string(b), append(lineEdits, edits...))
@@ -833,8 +848,8 @@ func rewrites(root ast.Node, info *checked, qual types.Qualifier, im *symbolImpo
 				out = append(out, edit{off: off(n.For), del: len(span), text: head})
 				return true
 			}
-			if n.Tok != token.DEFINE {
-				return true
+			if _, isFunc := types.Unalias(tv.Type).Underlying().(*types.Signature); n.Tok != token.DEFINE || isFunc {
+				return true // a range over a function has a variable per iteration (rangefunc.go)
 			}
 			var names []string
 			for _, x := range []ast.Expr{n.Key, n.Value} {
