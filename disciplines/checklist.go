@@ -19,7 +19,15 @@ const (
 	commonPractice = "common practice (no source)"
 	seatRule       = "14 CFR 25.817"
 	roskamSource   = "Roskam, Airplane Design Part I, Table 2.15 (from memory)"
+	divergenceRule = "14 CFR 25.629(b) (from memory)"
 )
+
+// DivergenceEnvelopeFactor is the least ratio of the wing's divergence
+// dynamic pressure to the dive dynamic pressure the checklist asks for:
+// 14 CFR 25.629(b) asks for freedom from aeroelastic instability up to
+// the dive speed increased by 15 % in equivalent airspeed (from memory),
+// a dynamic pressure 1.15² = 1.3225 times the dive's.
+const DivergenceEnvelopeFactor = 1.15 * 1.15
 
 // ChecklistRow is one rule of thumb of the designer's checklist.
 type ChecklistRow struct {
@@ -116,7 +124,9 @@ func checklistClass(mach, seats float64) AircraftClass {
 // margins at take-off and at the start and end of cruise (5–15 % MAC,
 // about 10 % typical), fuselage fineness ratio (10–15), aft-fuselage
 // upsweep for rotation clearance (10–25°), the cruise lift coefficient
-// at most CLmax,clean/1.3 (CruiseManoeuvreMargin), and for a supersonic cruise the
+// at most CLmax,clean/1.3 (CruiseManoeuvreMargin), the wing's divergence
+// dynamic pressure at least 1.15² times the dive's (14 CFR 25.629(b),
+// DivergenceEnvelopeFactor), and for a supersonic cruise the
 // leading edge behind the Mach cone and a take-off lift-to-drag ratio of
 // about 5 (all common practice, no source); the layout clearances of the
 // wing and tails (layout.go); the seats abreast of 14 CFR 25.817; the fuel
@@ -183,6 +193,11 @@ func DesignChecklist(get func(name string) (float64, bool)) Checklist {
 			fmt.Sprintf("<= %.3g (a %g g margin)", 1/CruiseManoeuvreMargin, CruiseManoeuvreMargin),
 			"too little lift in hand at cruise: the wing nears its clean maximum (above 1 it cannot carry the cruise weight); fly lower or faster, or a larger wing",
 			commonPractice)
+	}
+	if v, ok := val("stability.divergence_dynamic_pressure", "dive.dynamic_pressure"); ok && v[1] > 0 {
+		band("wing divergence dynamic pressure over the dive dynamic pressure", v[0]/v[1], "", DivergenceEnvelopeFactor, math.Inf(1),
+			fmt.Sprintf(">= %.4g (the dive speed + 15 %%)", DivergenceEnvelopeFactor),
+			"the wing diverges inside the speed envelope enlarged by 15 %: a stiffer wing box or less forward sweep", divergenceRule)
 	}
 	if v, ok := val("layout.wing_tail_clearance"); ok {
 		band("gap from the wing trailing edge to the tail leading edge", v[0], "m", 0, math.Inf(1), ">= 0",

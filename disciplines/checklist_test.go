@@ -23,6 +23,7 @@ func checklistBase() map[string]float64 {
 		"cabin.seats_abreast": 2, "cabin.aisles": 1, "mass.fuel_capacity": 20000, "mass.fuel": 18000,
 		"mass.empty": 19500, "mass.crew": 190, "mass.takeoff": 36000, "cabin.passengers": 12,
 		"aero.cl_cruise": 0.15, "aero.cl_max_clean": 0.5,
+		"stability.divergence_dynamic_pressure": 1e9, "dive.dynamic_pressure": 40000,
 	}
 }
 
@@ -49,6 +50,8 @@ func TestDesignChecklistFlags(t *testing.T) {
 		{"tail tips past the fuselage end", map[string]float64{"layout.tail_overhang": 1.5}, "tail tips behind the fuselage end"},
 		{"eight abreast, one aisle", map[string]float64{"cabin.seats_abreast": 8}, "seats abreast with 1 aisle(s)"},
 		{"cruise near the clean maximum lift", map[string]float64{"aero.cl_cruise": 0.4}, "cruise lift coefficient over the clean maximum"},
+		// 14 CFR 25.629(b): the dive speed + 15 %, q ratio 1.3225 (from memory)
+		{"divergence inside the enlarged envelope", map[string]float64{"stability.divergence_dynamic_pressure": 52000}, "wing divergence dynamic pressure over the dive dynamic pressure"},
 		{"fuel beyond the tanks", map[string]float64{"mass.fuel": 21000}, "tank capacity less mission fuel"},
 		{"light empty mass", map[string]float64{"mass.empty": 11000}, "operating empty mass per seat (business jet)"},
 	}

@@ -47,6 +47,7 @@ func init() {
 		"DefaultLandingSettings":     reflect.ValueOf(disciplines.DefaultLandingSettings),
 		"DefaultMissionProfile":      reflect.ValueOf(disciplines.DefaultMissionProfile),
 		"DesignChecklist":            reflect.ValueOf(disciplines.DesignChecklist),
+		"DivergenceEnvelopeFactor":   reflect.ValueOf(constant.MakeFromLiteral("1.32249999999999999999132638262011596452794037759304046630859375", token.FLOAT, 0)),
 		"DivergenceMargin":           reflect.ValueOf(disciplines.DivergenceMargin),
 		"DivergenceMarginCap":        reflect.ValueOf(constant.MakeFromLiteral("10", token.FLOAT, 0)),
 		"DownwashGradient":           reflect.ValueOf(disciplines.DownwashGradient),
