@@ -30,7 +30,9 @@
 //     generic call gets the type arguments go/types inferred, a range over
 //     an integer becomes a counted loop, a range over a function (Go
 //     1.23: for x := range seq, seq a func(yield func(T) bool)) becomes
-//     the call of seq with the body as yield (rangefunc.go), and a loop
+//     the call of seq with the body as yield (rangefunc.go), a value of a
+//     cell's type with a String or Error method printed by package fmt
+//     (or shown) is handed over with its method's text (shown.go), and a loop
 //     variable that a closure captures gets a copy per iteration, as in
 //     Go 1.22.
 //   - Each statement of the body records its cell line first, so a panic

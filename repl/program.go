@@ -209,6 +209,13 @@ func (s *Session) display(c *Cell, p *cellProgram) {
 			texts = append(texts, "<nil>")
 			continue
 		}
+		if st, ok := v.(shownText); ok { // a cell's type with a String or Error method
+			if i == 0 {
+				c.Value = st.raw
+			}
+			texts = append(texts, st.text)
+			continue
+		}
 		text, val, ok := formatValue(reflect.ValueOf(v))
 		if !ok {
 			continue

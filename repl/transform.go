@@ -349,7 +349,8 @@ func transformCell(src string, number int, units []unit, imports []string, local
 				}
 			case nil:
 			default:
-				edits = append(edits, edit{off: start, text: showFunc + "("}, edit{off: end, text: ")"})
+				before, after := textWrap(tv.Type, mainPkg, qual, func(t types.Type) bool { return nameable(t, mainPkg, ts.im, map[types.Type]bool{}) })
+				edits = append(edits, edit{off: start, text: showFunc + "(" + before}, edit{off: end, text: after + ")"})
 				p.show, p.call1 = true, isCall
 			}
 		}
@@ -366,6 +367,7 @@ func transformCell(src string, number int, units []unit, imports []string, local
 			edits = append(edits, rf...)
 		}
 	}
+	edits = append(edits, textArgs(body, info1, qual, canWrite, bOff)...)
 	dOff := func(pos token.Pos) int { return fset.Position(pos).Offset - len(dPrefix) }
 	var dEdits []edit
 	for _, decl := range files[1].Decls {
@@ -377,6 +379,7 @@ func transformCell(src string, number int, units []unit, imports []string, local
 				return nil, &typeCheckError{line: fset.Position(rerr.pos).Line, msg: rerr.msg}
 			}
 			dEdits = append(dEdits, rf...)
+			dEdits = append(dEdits, textArgs(decl, info1, qual, canWrite, dOff)...)
 		}
 	}
 	bText := applyEdits(string(b), append(lineEdits, edits...))
