@@ -32,7 +32,9 @@
 //     1.23: for x := range seq, seq a func(yield func(T) bool)) becomes
 //     the call of seq with the body as yield (rangefunc.go), a value of a
 //     cell's type with a String or Error method printed by package fmt
-//     (or shown) is handed over with its method's text (shown.go), and a loop
+//     (or shown) is handed over with its method's text (shown.go), an
+//     errors.As whose target is of a cell's type becomes a loop of the
+//     cell's own over the error's tree (errchain.go), and a loop
 //     variable that a closure captures gets a copy per iteration, as in
 //     Go 1.22.
 //   - Each statement of the body records its cell line first, so a panic

@@ -209,6 +209,9 @@ func (s *Session) display(c *Cell, p *cellProgram) {
 			texts = append(texts, "<nil>")
 			continue
 		}
+		if se, ok := v.(shownError); ok {
+			v = se.shownText
+		}
 		if st, ok := v.(shownText); ok { // a cell's type with a String or Error method
 			if i == 0 {
 				c.Value = st.raw

@@ -230,7 +230,7 @@ func (s *Session) reset() error {
 		return fmt.Errorf("repl: loading the cell package: %w", err)
 	}
 	keep := interp.Exports{keepPath + "/keep": {"Value": reflect.ValueOf(s.keepValue), "Show": reflect.ValueOf(s.showValues), "Exited": reflect.ValueOf(s.bodyExited),
-		"Repanic": reflect.ValueOf(s.repanic), "Unplaced": reflect.ValueOf(unplacePanic), "Text": reflect.ValueOf(showText)}}
+		"Repanic": reflect.ValueOf(s.repanic), "Unplaced": reflect.ValueOf(unplacePanic), "Text": reflect.ValueOf(showText), "Fault": reflect.ValueOf(showError), "ErrorTree": reflect.ValueOf(errorTree)}}
 	if err := it.Use(keep); err != nil {
 		return fmt.Errorf("repl: loading the command package: %w", err)
 	}

@@ -44,6 +44,17 @@ func (t shownText) String() string { return t.text }
 // showText is the shownText of a value and its method's text.
 func showText(text string, raw any) any { return shownText{text: text, raw: raw} }
 
+// shownError is the shownText of a value of a cell's error type: an
+// error itself, so that fmt.Errorf's %w wraps it (errors.As finds the
+// value inside, see errorTree).
+type shownError struct{ shownText }
+
+// Error is the text of the value's Error method.
+func (e shownError) Error() string { return e.text }
+
+// showError is the shownError of a value and its Error text.
+func showError(text string, raw any) any { return shownError{shownText{text: text, raw: raw}} }
+
 // printArgs gives, for the printing functions of package fmt, the index
 // of the first argument printed.
 var printArgs = map[string]int{
@@ -97,7 +108,11 @@ func textWrap(t types.Type, main *types.Package, qual types.Qualifier, canWrite 
 	if _, ptr := types.Unalias(t).(*types.Pointer); ptr {
 		nilCheck = "if couplet_s == nil { return couplet_s }; " // fmt prints <nil>
 	}
-	return "func(couplet_s " + types.TypeString(t, qual) + ") any { " + nilCheck + "return " + keepName + ".Text(couplet_s." + m + "(), couplet_s) }(", ")"
+	show := ".Text("
+	if m == "Error" {
+		show = ".Fault("
+	}
+	return "func(couplet_s " + types.TypeString(t, qual) + ") any { " + nilCheck + "return " + keepName + show + "couplet_s." + m + "(), couplet_s) }(", ")"
 }
 
 // textArgs are the edits that hand the values of a cell's types printed

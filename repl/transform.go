@@ -237,32 +237,37 @@ func transformCell(src string, number int, units []unit, imports []string, local
 			if !ok || g.Tok != token.VAR {
 				continue
 			}
-			var placed []lineText
+			// each spec becomes an assignment in place (the edits
+			// leave its values to the other rewrites)
+			if g.Lparen.IsValid() {
+				edits = append(edits, edit{off: bOff(g.Pos()), del: bOff(g.Lparen) + 1 - bOff(g.Pos()), text: strings.Repeat(" ", bOff(g.Lparen)+1-bOff(g.Pos()))},
+					edit{off: bOff(g.Rparen), del: 1, text: " "})
+			} else {
+				edits = append(edits, edit{off: bOff(g.Pos()), del: bOff(g.Specs[0].Pos()) - bOff(g.Pos())})
+			}
 			for _, sp := range g.Specs {
 				vs := sp.(*ast.ValueSpec)
-				var names []string
 				for _, id := range vs.Names {
-					names = append(names, id.Name)
 					if v := hoist(info1, id, mainPkg, ts.im, qual); v != "" {
 						hoisted = append(hoisted, v)
 					} else if id.Name != "_" {
 						return nil, &typeCheckError{line: fset.Position(id.Pos()).Line, msg: fmt.Sprintf("the type of %s cannot be written in a script (%s)", id.Name, info1.Defs[id].Type()), unwritable: true}
 					}
 				}
-				var values []string
-				if len(vs.Values) == 0 {
-					for range vs.Names {
-						values = append(values, "*new("+textOf(fset, string(b), len(bPrefix), vs.Type)+")")
-					}
-				} else {
-					for _, v := range vs.Values {
-						values = append(values, textOf(fset, string(b), len(bPrefix), v))
-					}
+				switch {
+				case vs.Type == nil:
+				case len(vs.Values) == 0:
+					zero := "*new(" + textOf(fset, string(b), len(bPrefix), vs.Type) + ")"
+					zeros := strings.TrimSuffix(strings.Repeat(zero+", ", len(vs.Names)), ", ")
+					edits = append(edits, edit{off: bOff(vs.Type.Pos()), del: bOff(vs.Type.End()) - bOff(vs.Type.Pos()), text: "= " + zeros})
+				default:
+					// the hoisted variable has the type
+					edits = append(edits, edit{off: bOff(vs.Type.Pos()), del: bOff(vs.Type.End()) - bOff(vs.Type.Pos())})
 				}
-				placed = append(placed, lineText{line: fset.Position(vs.Pos()).Line, text: strings.Join(names, ", ") + " = " + strings.Join(values, ", ") + "; "})
+				if g.Lparen.IsValid() {
+					edits = append(edits, edit{off: bOff(vs.End()), text: ";"})
+				}
 			}
-			start, end := bOff(g.Pos()), bOff(g.End())
-			edits = append(edits, edit{off: start, del: end - start, text: onLines(fset.Position(g.Pos()).Line, string(b[start:end]), placed)})
 		}
 	}
 	// a use of an earlier cell's variable that the cell declares again
@@ -368,6 +373,7 @@ func transformCell(src string, number int, units []unit, imports []string, local
 		}
 	}
 	edits = append(edits, textArgs(body, info1, qual, canWrite, bOff)...)
+	edits = append(edits, errorsAs(body, info1, qual, canWrite, bOff)...)
 	dOff := func(pos token.Pos) int { return fset.Position(pos).Offset - len(dPrefix) }
 	var dEdits []edit
 	for _, decl := range files[1].Decls {
@@ -380,6 +386,7 @@ func transformCell(src string, number int, units []unit, imports []string, local
 			}
 			dEdits = append(dEdits, rf...)
 			dEdits = append(dEdits, textArgs(decl, info1, qual, canWrite, dOff)...)
+			dEdits = append(dEdits, errorsAs(decl, info1, qual, canWrite, dOff)...)
 		}
 	}
 	bText := applyEdits(string(b), append(lineEdits, edits...))
@@ -703,29 +710,6 @@ func place(dst []byte, src string, u *unit) {
 // textOf is the source of a node of the body file.
 func textOf(fset *token.FileSet, b string, prefix int, n ast.Node) string {
 	return b[fset.Position(n.Pos()).Offset-prefix : fset.Position(n.End()).Offset-prefix]
-}
-
-// lineText is a text to be placed on a line.
-type lineText struct {
-	line int
-	text string
-}
-
-// onLines replaces a span of source that starts on line first: the texts
-// go on their lines and the span keeps its number of lines.
-func onLines(first int, span string, texts []lineText) string {
-	var b strings.Builder
-	line := first
-	for _, t := range texts {
-		for ; line < t.line; line++ {
-			b.WriteByte('\n')
-		}
-		b.WriteString(t.text)
-	}
-	for last := first + strings.Count(span, "\n"); line < last; line++ {
-		b.WriteByte('\n')
-	}
-	return b.String()
 }
 
 // edit replaces del bytes at off by text.
