@@ -121,7 +121,9 @@ func (e *Evaluator) Finish(stop StopReason) (*Result, error) {
 	return r, nil
 }
 
-// DesignValues returns the best design as name → physical value.
+// DesignValues returns the best design as name → physical value. A
+// misspelt name reads 0 from the map; Lookup (or Get) names it and the
+// nearest names.
 func (r *Result) DesignValues() map[string]float64 {
 	out := map[string]float64{}
 	if r.Best == nil {
