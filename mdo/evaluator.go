@@ -54,6 +54,8 @@ type Evaluator struct {
 	optName    string
 	settings   map[string]string
 	recErr     error
+	// stopDetail is the optimiser's words on its stop (SetStopDetail)
+	stopDetail string
 	progress   Progress
 }
 

@@ -36,9 +36,15 @@ type Result struct {
 	// from a gradient-based optimiser that converged (nil otherwise).
 	Sensitivity *Sensitivity
 	// Stop says why the optimiser stopped.
-	Stop    StopReason
-	Started time.Time
-	Elapsed time.Duration
+	Stop StopReason
+	// StopDetail says in words what Stop does not: the cause when the
+	// optimiser did not meet its convergence test, or when it met it at an
+	// infeasible point (a start that does not analyse, no feasible point
+	// found, a stalled search, the budget spent before convergence); empty
+	// when the optimiser has nothing to add (see Evaluator.SetStopDetail).
+	StopDetail string
+	Started    time.Time
+	Elapsed    time.Duration
 }
 
 // beginRecording starts the recorder with the run's description.
@@ -96,6 +102,11 @@ func (e *Evaluator) Iteration(it int) {
 	}
 }
 
+// SetStopDetail gives the words the Result (Result.StopDetail), its text
+// and its summary show beside the stop reason; an optimiser calls it
+// before Finish.
+func (e *Evaluator) SetStopDetail(detail string) { e.stopDetail = detail }
+
 // Finish builds the Result and closes the recorder. stop says why the
 // optimiser stopped.
 func (e *Evaluator) Finish(stop StopReason) (*Result, error) {
@@ -104,7 +115,7 @@ func (e *Evaluator) Finish(stop StopReason) (*Result, error) {
 		Design: e.DesignSpecs(), Objectives: append([]Objective(nil), e.study.Objectives...),
 		Constraints: e.Constraints(), Outputs: e.OutputVars(),
 		Best: e.best, Front: e.Front(), History: append([]HistoryPoint(nil), e.history...),
-		EvalCounters: e.cnt, Notes: append([]string(nil), e.study.Notes...), Stop: stop, Started: e.started, Elapsed: time.Since(e.started),
+		EvalCounters: e.cnt, Notes: append([]string(nil), e.study.Notes...), Stop: stop, StopDetail: e.stopDetail, Started: e.started, Elapsed: time.Since(e.started),
 		Surrogates: e.study.surrogateUses(),
 	}
 	if e.study.Recorder != nil && e.recErr == nil {
@@ -191,6 +202,9 @@ func (r *Result) String() string {
 	var b strings.Builder
 	fmt.Fprintf(&b, "study %q by %s (%s, seed %d): %s after %s\n",
 		r.Study, r.Optimizer, r.Formulation, r.Seed, r.Stop, r.EvalCounters)
+	if r.StopDetail != "" {
+		fmt.Fprintf(&b, "stopped: %s\n", r.StopDetail)
+	}
 	b.WriteString(r.surrogateText())
 	if r.Best == nil {
 		b.WriteString("no point was evaluated\n")

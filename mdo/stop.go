@@ -27,6 +27,11 @@ const (
 	StopCancelled
 	// StopDeadline: the context's deadline passed.
 	StopDeadline
+	// StopStalled: the method could make no more progress before its
+	// convergence test was met (a line search that finds no decrease, a
+	// local minimum of the constraint violation); Result.StopDetail
+	// says which.
+	StopStalled
 )
 
 // stopText is the stored text of each reason, indexed by the reason.
@@ -38,10 +43,11 @@ var stopText = [...]string{
 	StopComplete:   "complete",
 	StopCancelled:  "cancelled",
 	StopDeadline:   "deadline",
+	StopStalled:    "stalled",
 }
 
 // String returns the reason's text: "converged", "budget", "iterations",
-// "complete", "cancelled" or "deadline"; "" for NotStopped.
+// "complete", "cancelled", "deadline" or "stalled"; "" for NotStopped.
 func (s StopReason) String() string {
 	if s < 0 || int(s) >= len(stopText) {
 		return fmt.Sprintf("StopReason(%d)", int(s))

@@ -1,6 +1,7 @@
 package mdo
 
 import (
+	"context"
 	"encoding/json"
 	"strings"
 	"testing"
@@ -21,6 +22,7 @@ func TestStopReasonText(t *testing.T) {
 		{StopComplete, "complete"},
 		{StopCancelled, "cancelled"},
 		{StopDeadline, "deadline"},
+		{StopStalled, "stalled"},
 	}
 	for _, tc := range tests {
 		if got := tc.reason.String(); got != tc.text {
@@ -53,5 +55,38 @@ func TestStopReasonBadText(t *testing.T) {
 	}
 	if got := StopReason(99).String(); got != "StopReason(99)" {
 		t.Errorf("StopReason(99).String() = %q", got)
+	}
+}
+
+// The optimiser's words on its stop (Evaluator.SetStopDetail) reach the
+// Result and its text; a Result without them shows no such line.
+func TestStopDetail(t *testing.T) {
+	for _, detail := range []string{"", "no feasible point found in 3 evaluations"} {
+		st, err := SellarStudy(MDF)
+		if err != nil {
+			t.Fatal(err)
+		}
+		ev, err := st.NewEvaluator()
+		if err != nil {
+			t.Fatal(err)
+		}
+		if err := ev.Begin("test", nil); err != nil {
+			t.Fatal(err)
+		}
+		if _, err := ev.EvaluateOne(context.Background(), ev.Start()); err != nil {
+			t.Fatal(err)
+		}
+		ev.SetStopDetail(detail)
+		r, err := ev.Finish(StopStalled)
+		if err != nil {
+			t.Fatal(err)
+		}
+		text := r.String()
+		if r.StopDetail != detail || strings.Contains(text, "stopped:") != (detail != "") || !strings.Contains(text, "stalled after") {
+			t.Errorf("StopDetail %q (set %q); text:\n%s", r.StopDetail, detail, text)
+		}
+		if detail != "" && !strings.Contains(text, "stopped: "+detail) {
+			t.Errorf("the text does not give the detail:\n%s", text)
+		}
 	}
 }

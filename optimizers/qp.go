@@ -101,6 +101,13 @@ func solveQP(p qpProblem) (qpSolution, error) {
 	rc := make([]float64, mi)
 	tmp := make([]float64, mi)
 	var lu mat.LU
+	// the iterate with the smallest residuals so far (their largest,
+	// relative to the data, or the complementarity times 1000, as the
+	// stopping test weighs them): its active set is tried when the
+	// iteration breaks down
+	bestScore := math.Inf(1)
+	bestS := make([]float64, mi)
+	bestZ := make([]float64, mi)
 	// step solves the Newton system for the complementarity residual rc.
 	step := func() error {
 		for i := 0; i < mi; i++ {
@@ -175,6 +182,17 @@ func solveQP(p qpProblem) (qpSolution, error) {
 		if mi > 0 {
 			mu /= float64(mi)
 		}
+		score := math.Max(math.Max(infNorm(rd), infNorm(rp)), math.Max(infNorm(rg), 1e3*mu))
+		if math.IsNaN(score) || math.IsInf(score, 0) {
+			// the Newton systems have lost all precision (complementarity
+			// far ahead of dual feasibility: z/s spans too many orders)
+			return breakdown(p, bestS, bestZ, bestScore, it)
+		}
+		if score < bestScore {
+			bestScore = score
+			copy(bestS, s)
+			copy(bestZ, z)
+		}
 		if infNorm(rd) <= tol*scale && infNorm(rp) <= tol*scale && infNorm(rg) <= tol*scale && mu <= 1e-3*tol*scale {
 			sol := qpSolution{x: x, y: y, z: z, iterations: it}
 			if pure, ok := purify(p, s, z); ok {
@@ -241,7 +259,25 @@ func solveQP(p qpProblem) (qpSolution, error) {
 		pure.iterations = maxIter
 		return pure, nil
 	}
+	if pure, ok := purify(p, bestS, bestZ); ok {
+		pure.iterations = maxIter
+		return pure, nil
+	}
 	return qpSolution{x: x, y: y, z: z, iterations: maxIter}, errQPNotConverged
+}
+
+// breakdown ends an interior-point iteration whose iterate became
+// non-finite at iteration it: the active set of the best iterate before
+// it (slacks s, multipliers z, with residual score) gives the solution
+// when purify accepts it.
+func breakdown(p qpProblem, s, z []float64, score float64, it int) (qpSolution, error) {
+	if !math.IsInf(score, 1) {
+		if pure, ok := purify(p, s, z); ok {
+			pure.iterations = it
+			return pure, nil
+		}
+	}
+	return qpSolution{}, fmt.Errorf("%w: the iterate became non-finite at iteration %d", errQPNotConverged, it)
 }
 
 // purify re-solves the programme with the inequalities the interior

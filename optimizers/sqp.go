@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
+	"strings"
 
 	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/stat/distmv"
@@ -49,15 +50,22 @@ import (
 // sqp_sampling.go): the same test, with the Lagrangian's gradient from the
 // gradients sampled within a radius of the point, certifies the optimum
 // when the radius has come down to 1e-4 of the box (Optimum.Sampled). The
-// run also stops, with mdo.StopConverged but Optimum.Converged false, when
-// no sampled step decreases the merit either: the search has then reached
-// the precision of the analysis and its derivatives.
+// run stops with mdo.StopStalled (Optimum.Converged false) when no sampled
+// step decreases the merit either: the search has then reached the
+// precision of the analysis and its derivatives, or, at an infeasible
+// point, a local minimum of the constraint violation.
 //
-// Starts > 1 runs it again from Starts − 1 points of a scrambled Halton
-// sequence drawn from the study's seed (deterministic) and keeps the best
-// point; Explore reports how many distinct optima the starts found. It
-// refuses integer design variables and several objectives. Zero values take
-// the defaults.
+// A start that does not analyse is replaced by the first analysable point
+// toward the centre of the box or spread over it. Starts > 1 runs it again
+// from Starts − 1 points of a scrambled Halton sequence drawn from the
+// study's seed (deterministic) and keeps the best point; Explore reports
+// how many distinct optima the starts found. While no start has found a
+// feasible point, up to Restarts further starts follow. Whenever a start
+// ends short of the convergence test or is moved, Result.StopDetail says
+// why (a start that does not analyse, no feasible point found and the
+// constraint most violated, a stalled search, a limit reached). It refuses
+// integer design variables and several objectives. Zero values take the
+// defaults.
 type Sextant struct {
 	// MaxIterations caps the iterations of each start; default 100.
 	MaxIterations int
@@ -72,6 +80,15 @@ type Sextant struct {
 	// Starts is the number of starting points, the study's baseline
 	// design first; default 1.
 	Starts int
+	// Restarts is the number of further starts, from points of a
+	// scrambled Halton sequence drawn from the study's seed, tried one
+	// after the other while every start so far has ended without a
+	// feasible point (at a local minimum of the constraint violation, or
+	// where nothing analyses): a local method cannot leave such a
+	// minimum, where the violated constraints may not even have a
+	// gradient (a thrust sized to a requirement, say); default 8,
+	// negative for none.
+	Restarts int
 	// Parameters names fixed parameters of the study (inputs nobody
 	// produces that are not design variables, e.g. mission.payload) whose
 	// effect on the optimal objective the post-optimality sensitivity
@@ -167,6 +184,7 @@ func (o Sextant) Explore(ctx context.Context, s *mdo.Study) (*mdo.Result, *Start
 		}
 	}
 	starts := [][]float64{r.ev.Start()}
+	var restartPoints [][]float64
 	if n := or(o.Starts, 1); n > 1 {
 		d := r.ev.Dim()
 		seed := r.ev.Seed()
@@ -174,26 +192,76 @@ func (o Sextant) Explore(ctx context.Context, s *mdo.Study) (*mdo.Result, *Start
 		samplemv.Halton{Kind: samplemv.Owen, Q: distmv.NewUnitUniform(d, nil), Src: rand.NewPCG(seed, mix(seed, 11))}.Sample(batch)
 		starts = append(starts, rows(batch)...)
 	}
+	restarts := o.Restarts
+	if restarts == 0 {
+		restarts = 8
+	}
+	if restarts > 0 {
+		// further starts while none has found a feasible point
+		d := r.ev.Dim()
+		seed := r.ev.Seed()
+		batch := mat.NewDense(restarts, d, nil)
+		samplemv.Halton{Kind: samplemv.Owen, Q: distmv.NewUnitUniform(d, nil), Src: rand.NewPCG(seed, mix(seed, 19))}.Sample(batch)
+		restartPoints = rows(batch)
+	}
 	rep := &StartsReport{}
 	stop := mdo.NotStopped
-	for _, x0 := range starts {
+	var details []string
+	last := ""
+	planned := len(starts)
+	for k := 0; k < len(starts); k++ {
+		x0 := starts[k]
 		sq := newSQP(r, o)
 		opt, st, err := sq.run(x0)
 		rep.LinearSolves += sq.solves
 		rep.DisciplineCalls += sq.calls
+		sq.explain(opt, st)
+		switch {
+		case k >= planned:
+			// of the restarts, the last one's words only
+			last = ""
+			if sq.detail != "" {
+				last = fmt.Sprintf("start %d: %s", k+1, sq.detail)
+			}
+		case sq.detail != "":
+			details = append(details, fmt.Sprintf("start %d: %s", k+1, sq.detail))
+		}
 		if err != nil {
+			r.ev.SetStopDetail(strings.Join(details, "; "))
 			res, ferr := r.finish(mdo.NotStopped, err)
 			return res, rep, ferr
 		}
 		if opt != nil {
 			rep.Optima = append(rep.Optima, *opt)
 		}
-		if st != mdo.NotStopped && st != mdo.StopConverged && st != mdo.StopIterations {
+		if st != mdo.NotStopped && st != mdo.StopConverged && st != mdo.StopIterations && st != mdo.StopStalled {
 			stop = st
 			break
 		}
 		stop = st
+		if k == len(starts)-1 && len(restartPoints) > 0 {
+			// every start so far ended without a feasible point (a
+			// local minimum of the constraint violation, or no
+			// analysable point): go on from the next restart point
+			if b := r.ev.Best(); b == nil || !b.Feasible {
+				starts = append(starts, restartPoints[0])
+				restartPoints = restartPoints[1:]
+			}
+		}
 	}
+	if len(starts) == 1 && len(details) == 1 {
+		details[0] = strings.TrimPrefix(details[0], "start 1: ")
+	}
+	if len(starts) > planned {
+		details = append(details, fmt.Sprintf("restarted from %d spread points (Restarts) as no start had found a feasible point", len(starts)-planned))
+		if last != "" {
+			details = append(details, last)
+		}
+	}
+	if b := r.ev.Best(); b != nil && !b.Feasible && r.ev.Counters().Evaluations > 0 {
+		details = append(details, fmt.Sprintf("no feasible point found in %d evaluations", r.ev.Counters().Evaluations))
+	}
+	r.ev.SetStopDetail(strings.Join(details, "; "))
 	rep.Distinct = countDistinct(rep.Optima)
 	bestF := math.Inf(1)
 	for _, o := range rep.Optima {
@@ -263,6 +331,11 @@ type sqp struct {
 	rows          []sqpRow
 	fscale        float64
 	solves, calls int
+	// detail says why the start ended where it did when the convergence
+	// test was not met or the start was moved (Result.StopDetail)
+	detail string
+	// failed is the last trial point whose analysis failed
+	failed *mdo.Evaluation
 }
 
 // newSQP prepares the rows of the study's constraints.
@@ -309,6 +382,7 @@ func (s *sqp) trial(u []float64) (*sqpPoint, error) {
 	}
 	ev := evs[0]
 	if ev == nil || !ev.Converged || ev.Err != "" {
+		s.failed = ev
 		return nil, nil
 	}
 	p := &sqpPoint{u: u, ev: ev}
@@ -317,6 +391,121 @@ func (s *sqp) trial(u []float64) (*sqpPoint, error) {
 	}
 	s.values(p)
 	return p, nil
+}
+
+// explain completes s.detail for a start that ended at opt with stop st:
+// a limit reached before the convergence test was met, or the test met
+// at a point the Evaluator finds infeasible.
+func (s *sqp) explain(opt *Optimum, st mdo.StopReason) {
+	if opt == nil || opt.X == nil {
+		return
+	}
+	var what string
+	switch {
+	case opt.Converged && !opt.Feasible:
+		what = fmt.Sprintf("the convergence test was met at a point that breaks a limit by rounding (largest scaled violation %.3g), which the Evaluator does not count as feasible", opt.Violation)
+	case opt.Converged:
+		return
+	case st == mdo.StopBudget:
+		what = fmt.Sprintf("the evaluation budget (MaxEvaluations %d) was spent before the convergence test was met (optimality %.3g, largest scaled violation %.3g)", or(s.o.MaxEvaluations, 2000), opt.Optimality, opt.Violation)
+	case st == mdo.StopIterations:
+		what = fmt.Sprintf("the iteration limit (MaxIterations %d) was reached before the convergence test was met (optimality %.3g, largest scaled violation %.3g)", or(s.o.MaxIterations, 100), opt.Optimality, opt.Violation)
+	default:
+		return
+	}
+	if s.detail != "" {
+		s.detail += "; "
+	}
+	s.detail += what
+}
+
+// startTries is the number of points start tries when the start does not
+// analyse (the start itself included).
+const startTries = 16
+
+// start returns the first point to descend from: u0 when it analyses,
+// otherwise the first analysable one of the points toward the centre of
+// the box, u0 + t(½ − u0) for t = ¼, ½, ¾, 1, and then of a scrambled
+// Halton sequence drawn from the study's seed, startTries points in all
+// (an SQP needs a point where the functions are defined; as in the
+// line search, a failed analysis is met by moving back toward the
+// interior). It is nil when none analyses; s.detail says what happened.
+func (s *sqp) start(u0 []float64) (*sqpPoint, error) {
+	p, err := s.trial(u0)
+	if err != nil || p != nil {
+		return p, err
+	}
+	why := "its analysis failed"
+	if s.failed != nil && s.failed.Err != "" {
+		why = s.failed.Err
+	}
+	n := len(u0)
+	var tries [][]float64
+	for _, t := range []float64{0.25, 0.5, 0.75, 1} {
+		u := make([]float64, n)
+		for j := range u {
+			u[j] = u0[j] + t*(0.5-u0[j])
+		}
+		tries = append(tries, u)
+	}
+	if m := startTries - 1 - len(tries); m > 0 {
+		seed := s.r.ev.Seed()
+		batch := mat.NewDense(m, n, nil)
+		samplemv.Halton{Kind: samplemv.Owen, Q: distmv.NewUnitUniform(n, nil), Src: rand.NewPCG(seed, mix(seed, 17))}.Sample(batch)
+		tries = append(tries, rows(batch)...)
+	}
+	for _, u := range tries {
+		q, err := s.trial(u)
+		if err != nil {
+			return nil, err
+		}
+		if q != nil {
+			s.detail = fmt.Sprintf("the start %s does not analyse (%s); started from %s instead, the first analysable point found toward the centre of the box", s.physical(u0), why, s.physical(u))
+			return q, nil
+		}
+	}
+	s.detail = fmt.Sprintf("no analysable start: the start %s does not analyse (%s), nor do %d points toward the centre of the box and spread over it", s.physical(u0), why, len(tries))
+	return nil, nil
+}
+
+// physical formats the design of the unit point u as name = value pairs.
+func (s *sqp) physical(u []float64) string {
+	names := s.r.ev.DesignNames()
+	specs := s.r.ev.DesignSpecs()
+	parts := make([]string, len(u))
+	for j := range u {
+		parts[j] = fmt.Sprintf("%s = %.6g", names[j], specs[j].Lower+u[j]*(specs[j].Upper-specs[j].Lower))
+	}
+	return "(" + strings.Join(parts, ", ") + ")"
+}
+
+// stalled says why a start ended at p without meeting the convergence
+// test: what happened, and which of the test's measures (opt's) failed.
+func (s *sqp) stalled(opt *Optimum, p *sqpPoint, what string) string {
+	optTol := or(s.o.OptimalityTolerance, 1e-6)
+	feasTol := or(s.o.FeasibilityTolerance, 1e-8)
+	msg := "stalled: " + what
+	if opt.Violation > feasTol {
+		worst, at := 0.0, -1
+		for i, row := range s.rows {
+			v := math.Max(0, -p.c[i])
+			if row.eq {
+				v = math.Abs(p.c[i])
+			}
+			if v > worst {
+				worst, at = v, i
+			}
+		}
+		name := ""
+		if at >= 0 {
+			name = " (" + s.r.ev.Constraints()[s.rows[at].k].Name + ")"
+		}
+		msg += fmt.Sprintf("; no feasible point found near the end point, a local minimum of the constraint violation: the largest scaled violation %.3g%s is above the feasibility tolerance %g", opt.Violation, name, feasTol)
+	}
+	if opt.Optimality > optTol {
+		msg += fmt.Sprintf("; the optimality measure %.3g is above the tolerance %g", opt.Optimality, optTol)
+	}
+	return msg
 }
 
 // gradients adds the gradients at p.
@@ -377,7 +566,7 @@ func (s *sqp) run(x0 []float64) (*Optimum, mdo.StopReason, error) {
 	for j := range x0 {
 		u0[j] = clip01(x0[j])
 	}
-	p, err := s.trial(u0)
+	p, err := s.start(u0)
 	if err == nil && p != nil {
 		err = s.gradients(p)
 	}
@@ -387,9 +576,9 @@ func (s *sqp) run(x0 []float64) (*Optimum, mdo.StopReason, error) {
 	}
 	opt := &Optimum{Start: u0}
 	if p == nil {
-		// the start does not analyse: nothing to descend from
+		// no analysable point to descend from (s.detail says why)
 		opt.X = u0
-		return opt, mdo.StopIterations, nil
+		return opt, mdo.StopStalled, nil
 	}
 	n := len(u0)
 	B := mat.NewDense(n, n, nil)
@@ -434,7 +623,11 @@ func (s *sqp) run(x0 []float64) (*Optimum, mdo.StopReason, error) {
 			d, lamRows, model, lin, measure, err = subproblem()
 		}
 		if err != nil {
-			return nil, mdo.NotStopped, err
+			// the subproblem has no solution the solver finds: the
+			// point reached so far stands, and the Result says why
+			s.detail = fmt.Sprintf("stalled at iteration %d: %v", it, err)
+			s.fill(opt, p, lam)
+			return opt, mdo.StopStalled, nil
 		}
 		lam = lamRows
 		_, worst := s.violation(p.c)
@@ -467,7 +660,10 @@ func (s *sqp) run(x0 []float64) (*Optimum, mdo.StopReason, error) {
 		phi := p.f + nu*viol
 		dphi := model - nu*(viol-lin)
 		if infNorm(d) <= 1e-15 {
-			stop = mdo.StopConverged
+			// no step: stationary for the subproblem, but the test
+			// above was not met
+			stop = mdo.StopStalled
+			s.detail = s.stalled(opt, p, "the subproblem's step is zero")
 			break
 		}
 		// backtracking on the merit function, with one second-order
@@ -537,7 +733,8 @@ func (s *sqp) run(x0 []float64) (*Optimum, mdo.StopReason, error) {
 			// no decrease along the sampled step either: the search has
 			// reached the precision of the analysis (Optimum.Converged
 			// stays false)
-			stop = mdo.StopConverged
+			stop = mdo.StopStalled
+			s.detail = s.stalled(opt, p, "the line search found no decrease of the merit function, even with gradients sampled within 1e-4 of the box")
 			break
 		}
 		if err := s.gradients(next); err != nil {

@@ -176,16 +176,32 @@ func (s *sqp) bundleSubproblem(p *sqpPoint, bundle []*sqpPoint) (d, lam []float6
 		}
 	}
 	measure = s.optimality(p, d, gl, lam, ineq)
+
 	return d, lam, model, lin, measure, nil
 }
 
+// boundTol is the distance, in the unit box, within which a point or the
+// end of a step counts as on a bound in the optimality measure: the
+// interior-point subproblem ends its steps within about 1e-9 of a bound
+// it holds (and boxStep puts only those within 1e-10 on it).
+const boundTol = 1e-8
+
 // optimality is the optimality measure at p: the largest component of the
 // Lagrangian's gradient gl that does not point out of the box at a bound
-// the step d holds, and the complementarity |λᵢcᵢ| of the inequalities.
+// p lies on or the step d holds, and the complementarity |λᵢcᵢ| of the
+// inequalities. A component at a bound that points out of the box is the
+// bound's multiplier, of the right sign (the first-order conditions of a
+// bound-constrained problem, Nocedal & Wright, Numerical Optimization,
+// 2nd ed., §12.3 and §16.7): the step of the subproblem, which its
+// interior-point solver ends within about 1e-9 of the bound rather than
+// on it, does not decide it, and a point within boundTol of a bound is on
+// it.
 func (s *sqp) optimality(p *sqpPoint, d, gl, lam []float64, ineq []int) float64 {
 	measure := 0.0
 	for j, v := range gl {
-		if (p.u[j]+d[j] <= 1e-9 && v > 0) || (p.u[j]+d[j] >= 1-1e-9 && v < 0) {
+		lower := p.u[j] <= boundTol || p.u[j]+d[j] <= boundTol
+		upper := p.u[j] >= 1-boundTol || p.u[j]+d[j] >= 1-boundTol
+		if (lower && v > 0) || (upper && v < 0) {
 			continue
 		}
 		measure = math.Max(measure, math.Abs(v))

@@ -194,7 +194,7 @@ func build(r *mdo.Result, opt Options) (*view, error) {
 		{"optimiser", r.Optimizer},
 		{"formulation", r.Formulation.String()},
 		{"seed", strconv.FormatUint(r.Seed, 10)},
-		{"stopped", r.Stop.String()},
+		{"stopped", stoppedText(r)},
 		{"evaluations", r.EvalCounters.String()},
 		{"work", fmt.Sprintf("%d discipline calls, %d coupling iterations", r.DisciplineCalls, r.CouplingIterations)},
 		{"started", r.Started.UTC().Format(time.RFC3339)},
@@ -344,4 +344,12 @@ func frontOf(r *mdo.Result) *frontView {
 func scriptHash(s string) string {
 	h := sha256.Sum256([]byte(s))
 	return hex.EncodeToString(h[:])
+}
+
+// stoppedText is the stop reason with the optimiser's detail, if any.
+func stoppedText(r *mdo.Result) string {
+	if r.StopDetail == "" {
+		return r.Stop.String()
+	}
+	return r.Stop.String() + ": " + r.StopDetail
 }

@@ -192,6 +192,16 @@ func TestSummary(t *testing.T) {
 	if _, ok := s.Front[0].Objectives["y2"]; !ok {
 		t.Errorf("front point lacks objective y2: %+v", s.Front[0])
 	}
+	// the optimiser's words on its stop: absent when it has none (the
+	// summaries above), kept when it has some
+	if strings.Contains(texts[0], "stop_detail") {
+		t.Errorf("a summary without a stop detail has the key: %s", texts[0])
+	}
+	r.StopDetail = "no feasible point found in 60 evaluations"
+	js, err := json.Marshal(NewSummary(r, SummaryOptions{}))
+	if err != nil || !strings.Contains(string(js), `"stop_detail":"no feasible point found in 60 evaluations"`) {
+		t.Errorf("summary with a stop detail: %s, %v", js, err)
+	}
 	// NaN encodes as null
 	b, err := json.Marshal(Number(math.NaN()))
 	if err != nil || string(b) != "null" {

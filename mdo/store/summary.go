@@ -28,6 +28,8 @@ type Summary struct {
 	Repeats     int    `json:"repeats"`
 	Failed      int    `json:"failed"`
 	Stop        string `json:"stop"`
+	// StopDetail is mdo.Result.StopDetail (absent when empty).
+	StopDetail string `json:"stop_detail,omitempty"`
 	// Best is the best point of a single-objective study; a study with
 	// several objectives gives Front instead.
 	Best         *SummaryPoint  `json:"best,omitempty"`
@@ -122,7 +124,7 @@ type SummaryOptions struct {
 func NewSummary(r *mdo.Result, opt SummaryOptions) Summary {
 	s := Summary{
 		Study: r.Study, Seed: r.Seed, Optimizer: r.Optimizer, Formulation: r.Formulation.String(),
-		Evaluations: r.Evaluations, Analyses: r.Analyses, PickedUp: r.PickedUp, Repeats: r.Repeats, Failed: r.Failed, Stop: r.Stop.String(), ToolVersion: opt.ToolVersion,
+		Evaluations: r.Evaluations, Analyses: r.Analyses, PickedUp: r.PickedUp, Repeats: r.Repeats, Failed: r.Failed, Stop: r.Stop.String(), StopDetail: r.StopDetail, ToolVersion: opt.ToolVersion,
 		Notes: append([]string(nil), r.Notes...), Sensitivity: summarySensitivity(r.Sensitivity),
 	}
 	for _, u := range r.Surrogates {

@@ -79,6 +79,7 @@ func init() {
 		"StopConverged":       reflect.ValueOf(mdo.StopConverged),
 		"StopDeadline":        reflect.ValueOf(mdo.StopDeadline),
 		"StopIterations":      reflect.ValueOf(mdo.StopIterations),
+		"StopStalled":         reflect.ValueOf(mdo.StopStalled),
 		"SurrogateCaution":    reflect.ValueOf(constant.MakeFromLiteral("\"a surrogate's number is an estimate of the analysis it was fitted to: confirm a design found on it with the true analysis\"", token.STRING, 0)),
 		"WithDispatcher":      reflect.ValueOf(mdo.WithDispatcher),
 		"WithPartials":        reflect.ValueOf(mdo.WithPartials),
