@@ -48,7 +48,10 @@
 // when empty). The folder holds the input file; the command runs there.
 // It is removed after a good run and kept after a failed one (the error
 // names it). A run longer than Timeout is killed with its whole process
-// group. A failed run (non-zero exit, time-out, unreadable answer) is
+// group. On Linux a running program is also killed when the process that
+// started it dies (a run or session killed with SIGKILL leaves none
+// running); what the program itself started is the program's to end (a
+// shell script should exec its last command). A failed run (non-zero exit, time-out, unreadable answer) is
 // tried again up to Retries more times, each in a fresh folder; the last
 // failure is returned as a *ProgramError with the exit status and the
 // tail of the program's standard error. Inside mdo that is a failed
