@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
+	"slices"
 	"strings"
 
 	"gonum.org/v1/gonum/mat"
@@ -61,9 +62,13 @@ type estimator interface {
 }
 
 // Discipline is a surrogate stand-in for a discipline: the same name and
-// variables (units, defaults, validity ranges) as the discipline it was
-// fitted to (FitDiscipline), each output estimated by a model of the
-// sampled inputs. It is an mdo.SurrogateDiscipline, so a study using it
+// variables (units, defaults) as the discipline it was fitted to
+// (FitDiscipline), each output estimated by a model of the sampled
+// inputs. The validity range of each sampled input is its sampled
+// interval: a model is not asked beyond its samples, so a point outside
+// them is an invalid input that names the variable, its value and the
+// interval (a coupling variable is projected onto it while its group is
+// solved, and a balance that closes only outside it does not close). It is an mdo.SurrogateDiscipline, so a study using it
 // says which of its numbers are estimates.
 type Discipline struct {
 	name            string
@@ -93,11 +98,11 @@ func FitDiscipline(ctx context.Context, d mdo.Discipline, fit Fit) (*Discipline,
 	if len(out) == 0 {
 		return nil, fmt.Errorf("surrogate: FitDiscipline(%s): the discipline has no outputs", d.Name())
 	}
-	lo, hi, err := sampledBox(d.Name(), in, fit.Ranges)
+	lo, hi, err := sampledBox(d.Name(), "validity range", in, fit.Ranges)
 	if err != nil {
 		return nil, err
 	}
-	sd := &Discipline{name: d.Name(), inputs: in, outputs: out}
+	sd := &Discipline{name: d.Name(), inputs: sampledInputs(in, lo, hi), outputs: out}
 	for k := range in {
 		if hi[k] > lo[k] {
 			sd.coords = append(sd.coords, k)
@@ -159,6 +164,25 @@ func FitDiscipline(ctx context.Context, d mdo.Discipline, fit Fit) (*Discipline,
 	return sd, nil
 }
 
+// sampledInputs returns the input declarations of a stand-in: vars with
+// the validity range of each sampled input narrowed to its sampled
+// interval [lo, hi], so that the system refuses (or, for an input solved
+// inside a coupled group, projects onto the interval) a value outside
+// it instead of letting the model extrapolate beyond its samples; a
+// default outside the interval moves to its nearer end. An input held
+// at one value keeps its declaration: the model does not depend on it.
+func sampledInputs(vars []mdo.Var, lo, hi []float64) []mdo.Var {
+	out := slices.Clone(vars)
+	for k := range out {
+		if hi[k] > lo[k] {
+			out[k].Min, out[k].Max = lo[k], hi[k]
+			out[k].Default = math.Max(lo[k], math.Min(hi[k], out[k].Default))
+			out[k].Description = strings.TrimSpace(out[k].Description + " (the stand-in's sampled interval)")
+		}
+	}
+	return out
+}
+
 // computes runs d at x into y, true when it answers with finite values
 // (a panic is a refusal).
 func computes(d mdo.Discipline, x, y []float64) (ok bool) {
@@ -179,8 +203,9 @@ func computes(d mdo.Discipline, x, y []float64) (ok bool) {
 }
 
 // sampledBox returns the sampled interval of each variable: the range
-// given, else the variable's validity range, which must be finite.
-func sampledBox(who string, vars []mdo.Var, ranges map[string][2]float64) (lo, hi []float64, err error) {
+// given, which must lie inside the variable's range (limit names it),
+// else that range, which must be finite.
+func sampledBox(who, limit string, vars []mdo.Var, ranges map[string][2]float64) (lo, hi []float64, err error) {
 	known := map[string]bool{}
 	for _, v := range vars {
 		known[v.Name] = true
@@ -202,9 +227,20 @@ func sampledBox(who string, vars []mdo.Var, ranges map[string][2]float64) (lo, h
 		if math.IsNaN(r[0]) || math.IsNaN(r[1]) || math.IsInf(r[0], 0) || math.IsInf(r[1], 0) || r[1] < r[0] {
 			return nil, nil, fmt.Errorf("surrogate: %s: the sampled range of %s is [%g, %g], allowed a finite interval with lower ≤ upper", who, v.Name, r[0], r[1])
 		}
+		if ok && !v.Unbounded() && (r[0] < v.Min || r[1] > v.Max) {
+			return nil, nil, fmt.Errorf("surrogate: %s: Fit.Ranges gives %s the interval [%g, %g]%s, not inside its %s [%g, %g]", who, v.Name, r[0], r[1], unitText(v.Unit), limit, v.Min, v.Max)
+		}
 		lo[k], hi[k] = r[0], r[1]
 	}
 	return lo, hi, nil
+}
+
+// unitText is " unit" for a unit other than none.
+func unitText(unit string) string {
+	if unit == "" || unit == "-" {
+		return ""
+	}
+	return " " + unit
 }
 
 // latinHypercube returns n seeded Latin-hypercube points of the unit box

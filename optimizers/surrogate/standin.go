@@ -3,6 +3,7 @@ package surrogate
 import (
 	"context"
 	"fmt"
+	"math"
 	"slices"
 	"strings"
 
@@ -16,7 +17,8 @@ import (
 // their units and ranges) and whose outputs are every other variable of
 // the true system, each estimated by a model fitted to a seeded
 // Latin hypercube of true analyses over the design bounds (Fit.Ranges
-// may narrow them). Failed analyses are left out and counted. The true
+// may narrow them: the stand-in study's bounds are then the narrowed
+// ones, so that its search never asks the model beyond its samples). Failed analyses are left out and counted. The true
 // analyses go to no recorder. The stand-in's result says that its
 // numbers are estimates (mdo.Result.Surrogates); Confirm analyses its
 // best design with the true study.
@@ -46,11 +48,11 @@ func StandIn(ctx context.Context, s *mdo.Study, fit Fit) (*mdo.Study, error) {
 		v.Min, v.Max = specs[k].Lower, specs[k].Upper
 		inputs[k] = v
 	}
-	lo, hi, err := sampledBox("StandIn("+s.Name+")", inputs, fit.Ranges)
+	lo, hi, err := sampledBox("StandIn("+s.Name+")", "design bounds", inputs, fit.Ranges)
 	if err != nil {
 		return nil, err
 	}
-	sd := &Discipline{name: "surrogate of " + s.Name, inputs: inputs}
+	sd := &Discipline{name: "surrogate of " + s.Name, inputs: sampledInputs(inputs, lo, hi)}
 	for k := range inputs {
 		if hi[k] > lo[k] {
 			sd.coords = append(sd.coords, k)
@@ -127,6 +129,16 @@ func StandIn(ctx context.Context, s *mdo.Study, fit Fit) (*mdo.Study, error) {
 	ns := *s
 	ns.Name = s.Name + "_surrogate"
 	ns.System = sys
+	// the search stays inside the sampled box: no extrapolation
+	ns.Design = slices.Clone(s.Design)
+	for k := range ns.Design {
+		if hi[k] > lo[k] {
+			ns.Design[k].Lower, ns.Design[k].Upper = lo[k], hi[k]
+			if ns.Design[k].Integer {
+				ns.Design[k].Lower, ns.Design[k].Upper = math.Ceil(lo[k]), math.Floor(hi[k])
+			}
+		}
+	}
 	ns.Fixed, ns.CouplingBounds = nil, nil
 	ns.Recorder, ns.Progress = nil, nil
 	ns.Notes = append(slices.Clone(s.Notes), "Every number of this study is the estimate of a surrogate of study "+s.Name+": "+sd.about+".")

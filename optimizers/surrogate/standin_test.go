@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"context"
 	"encoding/json"
+	"errors"
 	"math"
 	"slices"
 	"strings"
@@ -43,8 +44,20 @@ func sellar2StandIn(t *testing.T) *surrogate.Discipline {
 func TestDisciplineStandIn(t *testing.T) {
 	sd := sellar2StandIn(t)
 	d2 := mdo.Sellar()[1]
-	if sd.Name() != d2.Name() || !slices.Equal(sd.Inputs(), d2.Inputs()) || !slices.Equal(sd.Outputs(), d2.Outputs()) {
+	if sd.Name() != d2.Name() || !slices.Equal(sd.Outputs(), d2.Outputs()) || len(sd.Inputs()) != len(d2.Inputs()) {
 		t.Fatalf("stand-in %s %v → %v, true %s %v → %v", sd.Name(), sd.Inputs(), sd.Outputs(), d2.Name(), d2.Inputs(), d2.Outputs())
+	}
+	// the same variables, the sampled inputs' ranges narrowed to the
+	// intervals sampled (y1 and z1 by Fit.Ranges, z2 over its validity range)
+	sampled := map[string][2]float64{"y1": {1, 40}, "z1": {-2, 10}, "z2": {0, 10}}
+	for k, v := range sd.Inputs() {
+		tv := d2.Inputs()[k]
+		if v.Name != tv.Name || v.Unit != tv.Unit || v.Default != tv.Default {
+			t.Errorf("input %d: stand-in %+v, true %+v", k, v, tv)
+		}
+		if r := sampled[v.Name]; v.Min != r[0] || v.Max != r[1] {
+			t.Errorf("input %s: stand-in range [%g, %g], want the sampled [%g, %g]", v.Name, v.Min, v.Max, r[0], r[1])
+		}
 	}
 	var worst float64
 	out, want := make([]float64, 1), make([]float64, 1)
@@ -191,6 +204,18 @@ func TestStandInBadInput(t *testing.T) {
 			_, err := surrogate.StandIn(context.Background(), idf, surrogate.Fit{})
 			return err
 		}, "allowed MDF"},
+		{func() error {
+			_, err := surrogate.FitDiscipline(context.Background(), d2, surrogate.Fit{Ranges: map[string][2]float64{"z1": {-20, 5}}})
+			return err
+		}, "Fit.Ranges gives z1 the interval [-20, 5], not inside its validity range [-10, 10]"},
+		{func() error {
+			mdf, err := mdo.SellarStudy(mdo.MDF)
+			if err != nil {
+				return err
+			}
+			_, err = surrogate.StandIn(context.Background(), mdf, surrogate.Fit{Ranges: map[string][2]float64{"x": {0, 12}}})
+			return err
+		}, "Fit.Ranges gives x the interval [0, 12], not inside its design bounds [0, 10]"},
 	}
 	for _, tc := range tests {
 		if err := tc.run(); err == nil || !strings.Contains(err.Error(), tc.want) {
@@ -228,5 +253,67 @@ func TestRBFStandInReproducesALinearDiscipline(t *testing.T) {
 	in := []float64{1, 0.2, 4}
 	if a := testing.AllocsPerRun(100, func() { _ = sd.Compute(in, out) }); a != 0 {
 		t.Errorf("Compute allocates %v times", a)
+	}
+}
+
+// TestStandInIsNotAskedBeyondItsSamples: a stand-in answers inside the
+// interval it was sampled over and nowhere else. A discipline's
+// stand-in refuses an input beyond its samples as an invalid input
+// naming the variable, its value and the sampled interval (it
+// extrapolated before), and a study's stand-in searches only the
+// sampled box.
+func TestStandInIsNotAskedBeyondItsSamples(t *testing.T) {
+	lin := mdo.FuncVars("linear", []mdo.Var{{Name: "a", Unit: "m", Min: 0, Max: 2}, {Name: "b", Min: -1, Max: 1}},
+		[]mdo.Var{{Name: "y", Unit: "m", Min: -100, Max: 100}}, func(in, out []float64) error {
+			out[0] = 2*in[0] + 3*in[1] - 1
+			return nil
+		})
+	sd, err := surrogate.FitDiscipline(context.Background(), lin, surrogate.Fit{Seed: 1, Ranges: map[string][2]float64{"a": {0, 1}}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	sys, err := mdo.NewSystem(sd)
+	if err != nil {
+		t.Fatal(err)
+	}
+	w := sys.NewWorkspace()
+	for _, tc := range []struct {
+		a, b float64
+		want string // "" when the stand-in answers
+	}{
+		{0.5, 0.5, ""},
+		{1, -1, ""},
+		{1.5, 0, "a = 1.5 m is outside its validity range [0, 1]"},
+		{0.5, 1.5, "b = 1.5 is outside its validity range [-1, 1]"},
+	} {
+		// the workspace refuses the value as it is set, or the analysis does
+		err := errors.Join(w.Set("a", tc.a), w.Set("b", tc.b))
+		if err == nil {
+			err = w.Analyze(context.Background())
+		}
+		var re *mdo.RangeError
+		switch {
+		case tc.want == "" && err != nil:
+			t.Errorf("a = %g, b = %g: %v", tc.a, tc.b, err)
+		case tc.want == "" && math.Abs(w.Get("y")-(2*tc.a+3*tc.b-1)) > 1e-9:
+			t.Errorf("a = %g, b = %g: y = %.12g, want %g", tc.a, tc.b, w.Get("y"), 2*tc.a+3*tc.b-1)
+		case tc.want != "" && (!errors.As(err, &re) || !strings.Contains(err.Error(), tc.want)):
+			t.Errorf("a = %g, b = %g: error %v, want a *mdo.RangeError saying %q", tc.a, tc.b, err, tc.want)
+		}
+	}
+
+	study, err := mdo.SellarStudy(mdo.MDF)
+	if err != nil {
+		t.Fatal(err)
+	}
+	st, err := surrogate.StandIn(context.Background(), study, surrogate.Fit{Samples: 30, Seed: 5, Ranges: map[string][2]float64{"x": {0, 4}, "z1": {1, 3}}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := map[string][2]float64{"x": {0, 4}, "z1": {1, 3}, "z2": {0, 10}}
+	for _, d := range st.Design {
+		if r := want[d.Name]; d.Lower != r[0] || d.Upper != r[1] {
+			t.Errorf("stand-in study's bounds of %s [%g, %g], want the sampled [%g, %g]", d.Name, d.Lower, d.Upper, r[0], r[1])
+		}
 	}
 }
