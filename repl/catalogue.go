@@ -2,53 +2,11 @@ package repl
 
 import (
 	"context"
-	"flag"
 	"fmt"
-	"io"
 	"strings"
 
-	"couplet/disciplines"
 	"couplet/mdo"
 )
-
-// VarsCommand is `couplet vars [--prefix P] [--markdown]`: it prints the
-// catalogue of the aircraft model's variables (disciplines.NewAircraft
-// with the default configuration), those whose names start with P, as a
-// text table or, with --markdown, as the Markdown table of the reference
-// page disciplines/VARIABLES.md. It returns the exit status: 0, or 2 for
-// a bad flag or a prefix no variable has.
-func VarsCommand(args []string, stdout, stderr io.Writer) int {
-	fs := flag.NewFlagSet("vars", flag.ContinueOnError)
-	fs.SetOutput(stderr)
-	prefix := fs.String("prefix", "", "list only the variables whose names start with this, e.g. mass. or wing.area")
-	markdown := fs.Bool("markdown", false, "print a Markdown table")
-	if err := fs.Parse(args); err != nil {
-		if err == flag.ErrHelp {
-			return 0
-		}
-		return 2
-	}
-	if fs.NArg() > 0 {
-		fmt.Fprintf(stderr, "couplet vars: unexpected argument %q; use --prefix P to filter\n", fs.Arg(0))
-		return 2
-	}
-	sys, err := disciplines.NewAircraft(disciplines.DefaultAircraftConfig())
-	if err != nil {
-		fmt.Fprintf(stderr, "couplet vars: %v\n", err)
-		return 1
-	}
-	entries, err := sys.Catalogue(*prefix)
-	if err != nil {
-		fmt.Fprintf(stderr, "couplet vars: --prefix %q: %v\n", *prefix, err)
-		return 2
-	}
-	if *markdown {
-		fmt.Fprint(stdout, mdo.CatalogueMarkdown(entries))
-	} else {
-		fmt.Fprint(stdout, mdo.FormatCatalogue(entries))
-	}
-	return 0
-}
 
 // cmdCatalogue is `@catalogue EXPR [PREFIX]`: the catalogue of the
 // variables of a system (or of a study's system), filtered by a prefix.

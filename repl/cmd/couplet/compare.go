@@ -25,34 +25,26 @@ const compareUsage = "couplet compare FOLDER... [--out DIR [--replace]]"
 // that another process writes.
 func compareCommand(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 	fs := flag.NewFlagSet("compare", flag.ContinueOnError)
-	fs.SetOutput(stderr)
-	out := fs.String("out", "", "write the comparison page (comparison.html and the overlay figures) into this folder")
-	replace := fs.Bool("replace", false, "clear the files of an earlier run or comparison in --out DIR first")
-	fs.Usage = func() {} // a bad flag is named, then the usage line
-
+	out := fs.String("out", "", "write the comparison page (comparison.html and the overlaid figures) into this folder, created if need be; it must not hold a run")
+	replace := fs.Bool("replace", false, "clear the files of an earlier comparison in --out DIR first")
 	// flags may come before, between or after the folders
-	var folders []string
-	for {
-		if err := fs.Parse(args); err != nil {
-			if errors.Is(err, flag.ErrHelp) {
-				usage(stdout) // as every command's --help
-				return 0
-			}
-			fmt.Fprintf(stderr, "usage: %s\n", compareUsage)
-			return 2
-		}
-		if fs.NArg() == 0 {
-			break
-		}
-		folders = append(folders, fs.Arg(0))
-		args = fs.Args()[1:]
+	folders, err := parseFlags("compare", fs, args, nil)
+	if errors.Is(err, errHelp) {
+		compareHelp(stdout, fs)
+		return 0
+	}
+	if err == nil {
+		err = outFolder(*out)
+	}
+	if err != nil {
+		return usageFailed(stderr, "compare", err)
 	}
 	if *replace && *out == "" {
 		fmt.Fprintln(stderr, "couplet compare: --replace clears the --out folder: give --out DIR too")
 		return 2
 	}
 	if len(folders) == 0 {
-		fmt.Fprintf(stderr, "couplet compare: no folder given; usage: %s\n", compareUsage)
+		fmt.Fprintf(stderr, "couplet compare: no folder given: %s\n", compareUsage)
 		return 2
 	}
 	results, err := report.ReadCompared(folders...)
@@ -103,4 +95,19 @@ func writeComparison(ctx context.Context, dir string, c *report.Comparison, repl
 		return 1
 	}
 	return 0
+}
+
+// compareHelp prints the usage of `couplet compare`.
+func compareHelp(w io.Writer, fs *flag.FlagSet) {
+	fmt.Fprintf(w, `usage: %s
+
+Compares two or more result folders (those couplet run or @report wrote,
+each with a summary.json) side by side on the terminal; a script's folder
+stands for every result it holds. A folder that holds no result is refused.
+With --out DIR the comparison page, with the optimisation histories, Pareto
+fronts and planforms overlaid, is written into DIR too.
+
+flags:
+`, compareUsage)
+	printFlags(w, fs)
 }

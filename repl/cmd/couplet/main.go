@@ -1,10 +1,17 @@
 // Command couplet is the notebook and headless runner of the couplet MDO
 // framework.
 //
-//	couplet [--out DIR [--replace]] [--seed N] [--memory-cap SIZE] [--trust-script]   interactive notebook session
-//	couplet run FILE.study --out DIR [--seed N] [--timeout D] [--memory-cap SIZE] [--trust-script] [--quiet] [--every-output] [--pick-up | --replace]
+//	couplet [--out DIR [--replace]] [--seed N] [--memory-cap SIZE] [--trust-script] [--allow-program PATH]...   interactive notebook session
+//	couplet run FILE.study --out DIR [--seed N] [--timeout D] [--memory-cap SIZE] [--trust-script] [--allow-program PATH]... [--quiet] [--every-output] [--pick-up | --replace] [spreading flags]
+//	couplet worker --connect URL [flags]                  answer the analyses of runs spread over a cluster
+//	couplet hub [--listen HOST:PORT] [--cluster-token TOKEN] [--store DIR]   a JetStream server for workers
+//	couplet compare FOLDER... [--out DIR [--replace]]     compare results side by side
+//	couplet vars [--prefix P] [--markdown]                list the aircraft model's variables
 //	couplet imports [--trust-script]                      list the importable packages
 //	couplet version
+//
+// A bad flag or argument is named with its value and what is allowed
+// (flags.go), once, and exits 2.
 //
 // Exit status: 0 on success; 1 when the script fails (a cell fails, the
 // sandbox refuses an import, every evaluation of the published study
@@ -69,47 +76,87 @@ type settings struct {
 // errHelp is returned by parse when the flags ask for the usage.
 var errHelp = errors.New("help requested")
 
-// flagSet declares the flags shared by the commands.
+// notebookFlags are the flags of the notebook session; couplet run takes
+// them and the rest of flagSet's.
+var notebookFlags = []string{"out", "replace", "seed", "memory-cap", "trust-script", "allow-program"}
+
+// importsFlags are the flags of couplet imports.
+var importsFlags = []string{"trust-script"}
+
+// flagSet declares the flags of the notebook session, couplet run and
+// couplet imports.
 func flagSet(name string, st *settings) *flag.FlagSet {
 	fs := flag.NewFlagSet(name, flag.ContinueOnError)
-	fs.StringVar(&st.out, "out", "", "output folder of the study (created; run: required)")
-	fs.StringVar(&st.seed, "seed", "", "seed overriding the one the script declares: a decimal whole number from 0 to 18446744073709551615")
-	fs.DurationVar(&st.timeout, "timeout", 0, "time limit of the whole replay, e.g. 90s or 5m (run only)")
-	fs.BoolVar(&st.trust, strings.TrimPrefix(repl.TrustFlag, "--"), false, "lift the sandbox: the script may use files and processes (trusted scripts only)")
-	fs.Var(&st.programs, strings.TrimPrefix(repl.AllowProgramFlag, "--"), "approve one external program for the script (repeatable); a trusted script may run any")
-	fs.BoolVar(&st.quiet, "quiet", false, "do not echo the cells' output (run only)")
-	fs.BoolVar(&st.pickUp, "pick-up", false, "continue the results.db an interrupted run of the same study file and seed left in --out; any change to the file is refused (run only)")
-	fs.BoolVar(&st.replace, "replace", false, "clear every file of the run --out holds, then run afresh")
-	fs.BoolVar(&st.every, "every-output", false, "write every output of the analyses to evaluations.csv, not only the status, design, objectives, constraints and margins (run only; results.db keeps them all)")
+	fs.StringVar(&st.out, "out", "", "the output folder, created if need be (run: required; the notebook session writes its reports there)")
+	fs.StringVar(&st.seed, "seed", "", "seed overriding the one the script declares: "+seedWant)
+	fs.Var(positiveDuration{&st.timeout}, "timeout", "time limit of the whole replay, e.g. 90s or 5m; what the study had by then is written")
+	fs.BoolVar(&st.trust, strings.TrimPrefix(repl.TrustFlag, "--"), false, "lift the sandbox: the script may import every package the interpreter carries, use files and start any program (trusted scripts only)")
+	fs.Var(&st.programs, strings.TrimPrefix(repl.AllowProgramFlag, "--"), "approve one external program (an executable's path) that the script may run through mdo/external; repeatable; a trusted script may run any")
+	fs.BoolVar(&st.quiet, "quiet", false, "do not echo the cells' output")
+	fs.BoolVar(&st.pickUp, "pick-up", false, "continue the results.db an interrupted run of the same study file and seed left in --out: its evaluations are picked up, not analysed again; any change to the file is refused")
+	fs.BoolVar(&st.replace, "replace", false, "clear every file of the run or session --out holds first, then start afresh")
+	fs.BoolVar(&st.every, "every-output", false, "write every output of the analyses to evaluations.csv, not only the status, design, objectives, constraints and margins (results.db keeps them all)")
 	spreadFlags(fs, &st.spread)
-	fs.StringVar(&st.memory, "memory-cap", "", "memory cap of the process that runs the script, e.g. 512MiB or 4GiB; past it the process ends and what it published is written (default half of the machine's memory)")
+	fs.StringVar(&st.memory, "memory-cap", "", "memory cap of the process that runs the script, e.g. 512MiB or 4GiB (at least 128MiB); past it that process ends and what it published is written (default half of the machine's memory)")
 	return fs
 }
 
-// parse parses flags placed before or after the positional arguments. It
-// returns errHelp for -h or --help; other errors are reported on stderr.
-func parse(name string, args []string, stderr io.Writer) (*settings, []string, error) {
+// parse parses the flags of the notebook session (name "couplet"),
+// couplet run or couplet imports, placed before or after the positional
+// arguments. It returns errHelp for -h or --help; any other error is a
+// usage error, for the caller to print.
+func parse(name string, args []string) (*settings, []string, error) {
 	st := &settings{}
 	fs := flagSet(name, st)
-	fs.SetOutput(io.Discard)
-	fs.Usage = func() {}
-	var pos []string
-	for {
-		if err := fs.Parse(args); err != nil {
-			if errors.Is(err, flag.ErrHelp) {
-				return nil, nil, errHelp
-			}
-			fmt.Fprintf(stderr, "couplet %s: %v (couplet help lists the flags)\n", name, err)
-			return nil, nil, err
+	var takes []string
+	switch name {
+	case "couplet":
+		takes = notebookFlags
+	case "imports":
+		takes = importsFlags
+	}
+	pos, err := parseFlags(name, fs, args, takes)
+	if err != nil {
+		return nil, nil, err
+	}
+	switch name {
+	case "couplet":
+		// the spreading flags have a message of their own
+		if err = st.spread.runOnly(); err == nil {
+			err = onlyFlags(name, fs, notebookFlags)
 		}
-		args = fs.Args()
-		if len(args) == 0 {
-			break
+		if err == nil && st.replace && st.out == "" {
+			err = errors.New("--replace clears the --out folder: give --out DIR too")
 		}
-		pos = append(pos, args[0])
-		args = args[1:]
+	case "imports":
+		err = onlyFlags(name, fs, importsFlags)
+	}
+	if err == nil {
+		err = outFolder(st.out)
+	}
+	if err != nil {
+		return nil, nil, err
 	}
 	return st, pos, nil
+}
+
+// outFolder refuses an --out that names something other than a folder.
+func outFolder(dir string) error {
+	if fi, err := os.Stat(dir); dir != "" && err == nil && !fi.IsDir() {
+		return fmt.Errorf("--out %q is a file: want a folder (created if need be)", dir)
+	}
+	return nil
+}
+
+// usageFailed prints a usage error of a command, prefixed by its name
+// ("couplet run:"), and returns exit status 2.
+func usageFailed(stderr io.Writer, cmd string, err error) int {
+	prefix := "couplet"
+	if cmd != "couplet" {
+		prefix += " " + cmd
+	}
+	fmt.Fprintf(stderr, "%s: %v\n", prefix, err)
+	return 2
 }
 
 // seedOf parses the --seed flag: a decimal whole number in its plain
@@ -122,58 +169,59 @@ func (st *settings) seedOf() (uint64, bool, error) {
 	}
 	v, err := strconv.ParseUint(st.seed, 10, 64)
 	if err != nil || strconv.FormatUint(v, 10) != st.seed {
-		return 0, false, fmt.Errorf("--seed %q: want a decimal whole number from 0 to 18446744073709551615, written without sign, leading zeros or spaces", st.seed)
+		return 0, false, fmt.Errorf("--seed %q: want %s", st.seed, seedWant)
 	}
 	return v, true, nil
 }
 
 // usage prints the whole usage: commands, flags and exit status.
 func usage(w io.Writer) {
-	fmt.Fprintf(w, `couplet %s — multidisciplinary design optimisation notebook for conceptual aircraft design
+	fmt.Fprintf(w, `couplet %s — multidisciplinary design optimisation notebook for conceptual
+aircraft design
 
 usage:
-  couplet [--out DIR [--replace]] [--seed N] [--memory-cap SIZE] [%s]
-                                                   interactive notebook session, the cells in
-                                                   a process of their own
-  couplet run FILE.study --out DIR [--seed N] [--timeout D] [--memory-cap SIZE] [%s] [--quiet] [--every-output] [--pick-up | --replace]
-              [--workers-on URL [--cluster-token TOKEN | --cluster-creds FILE] | --local-workers N] [--redeliver-after D]
-                                                   replay a saved study headless, the script in a
-                                                   process of its own, its analyses on workers if asked
-  couplet worker --connect URL [--cluster-token TOKEN | --cluster-creds FILE] [--name NAME] [--workspace DIR] [--parallel N] [--verbose]
-                                                   answer the analyses of the runs on a cluster
-                                                   (couplet worker --help lists its flags)
+  couplet [--out DIR [--replace]] [--seed N] [--memory-cap SIZE]
+          [--trust-script] [--allow-program PATH]...
+      the interactive notebook session; its cells run in a process of their own
+  couplet run FILE.study --out DIR [--seed N] [--timeout D] [--memory-cap SIZE]
+          [--trust-script] [--allow-program PATH]... [--quiet] [--every-output]
+          [--pick-up | --replace]
+          [--workers-on URL [--cluster-token TOKEN | --cluster-creds FILE]
+           | --local-workers N] [--redeliver-after D]
+      replay a saved study headless, the script in a process of its own, its
+      analyses on worker processes if asked
+  couplet worker --connect URL [--cluster-token TOKEN | --cluster-creds FILE]
+          [--name NAME] [--workspace DIR] [--parallel N] [--trust-script]
+          [--allow-program PATH]... [--verbose]
+      answer the analyses of the runs spread over a cluster
   couplet hub [--listen HOST:PORT] [--cluster-token TOKEN] [--store DIR]
-                                                   a JetStream server for workers on other machines
-  couplet imports [%s]                    list the packages a script may import
-  couplet vars [--prefix P] [--markdown]           list the aircraft model's variables
+      a NATS JetStream server for workers on other machines
   couplet compare FOLDER... [--out DIR [--replace]]
-                                                   compare result folders (or a script's
-                                                   folder) side by side; --out DIR writes
-                                                   the page with the overlays
-  couplet version                                  print the version
-  couplet help                                     print this text (also -h, --help)
+      compare result folders (or the results of a script's folder) side by
+      side; --out DIR writes the page with the overlaid figures
+  couplet vars [--prefix P] [--markdown]
+      list the aircraft model's variables
+  couplet imports [--trust-script]
+      list the packages a script may import
+  couplet version
+      print the version
+  couplet help
+      print this text (also -h, --help, and --help after couplet run)
 
-flags:
-`, repl.Version, repl.TrustFlag, repl.TrustFlag, repl.TrustFlag)
+couplet worker, hub, compare and vars --help describe their own flags.
+
+flags of the notebook session and couplet run:
+`, repl.Version)
 	fs := flagSet("couplet", &settings{})
+	printFlags(w, fs, notebookFlags...)
+	fmt.Fprint(w, "\nflags of couplet run only:\n")
+	var runOnly []string
 	fs.VisitAll(func(f *flag.Flag) {
-		arg := ""
-		switch f.Name {
-		case "out":
-			arg = " DIR"
-		case "seed":
-			arg = " N"
-		case "timeout":
-			arg = " D"
-		case "allow-program":
-			arg = " PATH"
-		case "memory-cap":
-			arg = " SIZE"
-		default:
-			arg = spreadArg(f.Name)
+		if !slices.Contains(notebookFlags, f.Name) {
+			runOnly = append(runOnly, f.Name)
 		}
-		fmt.Fprintf(w, "  --%-16s %s\n", f.Name+arg, f.Usage)
 	})
+	printFlags(w, fs, runOnly...)
 	fmt.Fprint(w, `
 exit status of run:
   0  the study ran to its end, or Ctrl-C interrupted it and it returned its
@@ -188,8 +236,9 @@ exit status of run:
      used or picked up (another version of the study file, another --seed),
      a study file that cannot be read or whose header is garbled
 
-Results are conceptual-design estimates, not for certification, flight or airworthiness
-decisions; defer to the applicable regulations and licensed engineering practice.
+Results are conceptual-design estimates, not for certification, flight or
+airworthiness decisions; defer to the applicable regulations and licensed
+engineering practice.
 `)
 }
 
@@ -205,18 +254,21 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	case "run":
 		return replay(args, stdout, stderr)
 	case "imports":
-		st, _, err := parse("imports", args, stderr)
+		st, pos, err := parse("imports", args)
 		if errors.Is(err, errHelp) {
 			usage(stdout)
 			return 0
 		}
+		if err == nil && len(pos) > 0 {
+			err = fmt.Errorf("unexpected argument %q: couplet imports takes none", pos[0])
+		}
 		if err != nil {
-			return 2
+			return usageFailed(stderr, "imports", err)
 		}
 		fmt.Fprintln(stdout, strings.Join(st.policy().Importable(), "\n"))
 		return 0
 	case "vars":
-		return repl.VarsCommand(args, stdout, stderr)
+		return varsCommand(args, stdout, stderr)
 	case "compare":
 		return compareCommand(context.Background(), args, stdout, stderr)
 	case "worker":
@@ -230,8 +282,11 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		usage(stdout)
 		return 0
 	}
-	fmt.Fprintf(stderr, "couplet: unknown command %q\n", cmd)
-	usage(stderr)
+	if strings.HasSuffix(cmd, ".study") {
+		fmt.Fprintf(stderr, "couplet: unknown command %q: a study file is replayed with couplet run %s --out DIR\n", cmd, cmd)
+		return 2
+	}
+	fmt.Fprintf(stderr, "couplet: unknown command %q: the commands are run, worker, hub, compare, vars, imports, version and help (couplet help describes them)\n", cmd)
 	return 2
 }
 
@@ -243,26 +298,33 @@ func isTerminal(w any) bool {
 
 // replay is `couplet run`.
 func replay(args []string, stdout, stderr io.Writer) int {
-	st, pos, err := parse("run", args, stderr)
+	st, pos, err := parse("run", args)
 	if errors.Is(err, errHelp) {
 		usage(stdout)
 		return 0
 	}
 	if err != nil {
-		return 2
+		return usageFailed(stderr, "run", err)
 	}
-	if len(pos) != 1 || st.out == "" {
-		fmt.Fprintln(stderr, "couplet run: need exactly one study file and --out DIR")
-		usage(stderr)
-		return 2
+	switch {
+	case len(pos) == 0 && st.out == "":
+		err = errors.New("need a study file and --out DIR: couplet run FILE.study --out DIR (couplet help describes the flags)")
+	case len(pos) == 0:
+		err = errors.New("need a study file: couplet run FILE.study --out DIR")
+	case len(pos) > 1:
+		err = fmt.Errorf("%d study files given (%s): couplet run replays one", len(pos), strings.Join(pos, ", "))
+	case st.out == "":
+		err = fmt.Errorf("need --out DIR, the folder where the replay of %s writes its results", pos[0])
+	}
+	if err != nil {
+		return usageFailed(stderr, "run", err)
 	}
 	seed, seedSet, err := st.seedOf()
 	if err == nil {
 		err = st.spread.check()
 	}
 	if err != nil {
-		fmt.Fprintln(stderr, "couplet run:", err)
-		return 2
+		return usageFailed(stderr, "run", err)
 	}
 	opts := repl.RunOptions{
 		File: pos[0], OutDir: st.out, Seed: seed, SeedSet: seedSet, Timeout: st.timeout,
@@ -275,8 +337,7 @@ func replay(args []string, stdout, stderr io.Writer) int {
 	memCap := defaultMemoryCap()
 	if st.memory != "" {
 		if memCap, err = parseSize("--memory-cap", st.memory); err != nil {
-			fmt.Fprintln(stderr, "couplet run:", err)
-			return 2
+			return usageFailed(stderr, "run", err)
 		}
 	}
 	ev, child := interpreterProcess()
@@ -349,32 +410,25 @@ func banner(w io.Writer, trusted bool) {
 
 // interactive is the notebook session.
 func interactive(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
-	st, pos, err := parse("couplet", args, stderr)
+	st, pos, err := parse("couplet", args)
 	if errors.Is(err, errHelp) {
 		usage(stdout)
 		return 0
 	}
-	if err != nil {
-		return 2
+	if err == nil && len(pos) > 0 {
+		err = fmt.Errorf("unexpected argument %q: the notebook session takes flags only (a study file is replayed with couplet run FILE.study --out DIR)", pos[0])
 	}
-	if len(pos) > 0 {
-		fmt.Fprintf(stderr, "couplet: unexpected argument %q\n", pos[0])
-		usage(stderr)
-		return 2
+	if err != nil {
+		return usageFailed(stderr, "couplet", err)
 	}
 	seed, seedSet, err := st.seedOf()
-	if err == nil {
-		err = st.spread.runOnly()
-	}
 	if err != nil {
-		fmt.Fprintln(stderr, "couplet:", err)
-		return 2
+		return usageFailed(stderr, "couplet", err)
 	}
 	memCap := defaultMemoryCap()
 	if st.memory != "" {
 		if memCap, err = parseSize("--memory-cap", st.memory); err != nil {
-			fmt.Fprintln(stderr, "couplet:", err)
-			return 2
+			return usageFailed(stderr, "couplet", err)
 		}
 	}
 	if ev, child := interpreterProcess(); child {

@@ -19,6 +19,9 @@ var sizeUnits = []struct {
 // margin of four times that).
 const minMemoryCap = 128 << 20
 
+// sizeWant is what a memory size may be.
+const sizeWant = "a decimal whole number followed by KiB, MiB, GiB or TiB, e.g. 512MiB or 4GiB"
+
 // parseSize reads a memory size: a decimal whole number followed by KiB,
 // MiB, GiB or TiB, e.g. 512MiB or 4GiB.
 func parseSize(flagName, s string) (uint64, error) {
@@ -36,7 +39,7 @@ func parseSize(flagName, s string) (uint64, error) {
 		}
 		return v * u.bytes, nil
 	}
-	return 0, fmt.Errorf("%s %q: want a decimal whole number followed by KiB, MiB, GiB or TiB, e.g. 512MiB or 4GiB", flagName, s)
+	return 0, fmt.Errorf("%s %q: want %s", flagName, s, sizeWant)
 }
 
 // formatSize writes a size in the largest unit that divides it, or MiB.

@@ -1,7 +1,6 @@
 package main
 
 import (
-	"io"
 	"slices"
 	"testing"
 )
@@ -9,7 +8,7 @@ import (
 // TestAllowProgramRepeats checks that --allow-program may be given more
 // than once and that each path reaches the sandbox policy.
 func TestAllowProgramRepeats(t *testing.T) {
-	st, pos, err := parse("run", []string{"x.study", "--allow-program", "/opt/vlm/bin/vlm", "--out", "o", "--allow-program=/usr/local/bin/deck"}, io.Discard)
+	st, pos, err := parse("run", []string{"x.study", "--allow-program", "/opt/vlm/bin/vlm", "--out", "o", "--allow-program=/usr/local/bin/deck"})
 	if err != nil {
 		t.Fatal(err)
 	}

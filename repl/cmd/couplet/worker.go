@@ -40,16 +40,11 @@ type spreadSettings struct {
 
 // spreadFlags declares the spreading flags of `couplet run`.
 func spreadFlags(fs *flag.FlagSet, sp *spreadSettings) {
-	fs.StringVar(&sp.on, "workers-on", "", "spread the analyses over the `couplet worker`s connected to this NATS JetStream server, e.g. nats://host:4222 (run only)")
-	fs.IntVar(&sp.local, "local-workers", 0, "spread the analyses over this many worker processes on this machine, through a JetStream server the run starts for itself (run only)")
-	fs.StringVar(&sp.token, "cluster-token", "", "the server's token (default: $"+tokenEnv+")")
-	fs.StringVar(&sp.creds, "cluster-creds", "", "a NATS credentials file (user JWT and NKey seed) for the server")
-	fs.DurationVar(&sp.ackWait, "redeliver-after", 30*time.Second, "hand an analysis to another worker when its worker has not answered nor said it is at work for this long (run only)")
-}
-
-// spreadArg is the placeholder of a spreading flag's value in the usage.
-func spreadArg(name string) string {
-	return map[string]string{"workers-on": " URL", "local-workers": " N", "cluster-token": " TOKEN", "cluster-creds": " FILE", "redeliver-after": " D", "connect": " URL", "listen": " HOST:PORT", "name": " NAME", "workspace": " DIR", "parallel": " N", "store": " DIR"}[name]
+	fs.StringVar(&sp.on, "workers-on", "", "spread the analyses over the workers (couplet worker) connected to this NATS JetStream server, e.g. nats://host:4222")
+	fs.IntVar(&sp.local, "local-workers", 0, "spread the analyses over this many worker processes on this machine, through a JetStream server the run starts for itself")
+	fs.StringVar(&sp.token, "cluster-token", "", "the token of the --workers-on server (default: $"+tokenEnv+")")
+	fs.StringVar(&sp.creds, "cluster-creds", "", "a NATS credentials file (user JWT and NKey seed) for the --workers-on server")
+	fs.DurationVar(&sp.ackWait, "redeliver-after", 30*time.Second, "hand an analysis to another worker when its worker has neither answered nor said it is at work for this long (default 30s)")
 }
 
 // check refuses contradictory spreading flags (a usage error).
@@ -198,23 +193,34 @@ func workerCommand(args []string, stdout, stderr io.Writer) int {
 		sp                 spreadSettings
 	)
 	fs := flag.NewFlagSet("worker", flag.ContinueOnError)
-	fs.SetOutput(io.Discard)
 	fs.StringVar(&connect, "connect", "", "the NATS JetStream server of the cluster, e.g. nats://host:4222 (required)")
 	fs.StringVar(&sp.token, "cluster-token", "", "the server's token (default: $"+tokenEnv+")")
 	fs.StringVar(&sp.creds, "cluster-creds", "", "a NATS credentials file (user JWT and NKey seed) for the server")
 	fs.StringVar(&name, "name", "", "the worker's name in results and notices (default HOST-PID)")
 	fs.StringVar(&dir, "workspace", "", "the worker's workspace: each run gets a folder in it (default: a temporary folder)")
-	fs.IntVar(&parallel, "parallel", 1, "analyses run at once")
+	fs.IntVar(&parallel, "parallel", 1, "analyses run at once (default 1)")
 	fs.BoolVar(&verbose, "verbose", false, "log every request taken and answered")
 	fs.BoolVar(&st.trust, strings.TrimPrefix(repl.TrustFlag, "--"), false, "lift the sandbox for the scripts this worker replays (trusted coordinators only)")
 	fs.Var(&st.programs, strings.TrimPrefix(repl.AllowProgramFlag, "--"), "approve one external program for the scripts this worker replays (repeatable)")
-	if code, done := parseCommand(fs, args, workerUsage, stdout, stderr); done {
-		return code
+	pos, err := parseFlags("worker", fs, args, nil)
+	if errors.Is(err, errHelp) {
+		workerUsage(stdout, fs)
+		return 0
 	}
-	if connect == "" || fs.NArg() > 0 || parallel < 1 || (sp.token != "" && sp.creds != "") {
-		fmt.Fprintln(stderr, "couplet worker: need --connect URL, no arguments, --parallel of 1 or more and at most one of --cluster-token and --cluster-creds")
-		workerUsage(stderr, fs)
-		return 2
+	if err == nil {
+		switch {
+		case len(pos) > 0:
+			err = fmt.Errorf("unexpected argument %q: couplet worker takes flags only", pos[0])
+		case connect == "":
+			err = errors.New("need --connect URL, the NATS JetStream server of the cluster, e.g. nats://host:4222")
+		case parallel < 1:
+			err = fmt.Errorf("--parallel %d: want %s", parallel, flagValues["parallel"].want)
+		case sp.token != "" && sp.creds != "":
+			err = errors.New("--cluster-token and --cluster-creds: give one")
+		}
+	}
+	if err != nil {
+		return usageFailed(stderr, "worker", err)
 	}
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
 	defer stop()
@@ -239,38 +245,21 @@ func workerCommand(args []string, stdout, stderr io.Writer) int {
 	return 0
 }
 
-// parseCommand parses the flags of a command of this file. done is true
-// when the command ends here: with the usage asked for (code 0) or after
-// a bad flag (code 2).
-func parseCommand(fs *flag.FlagSet, args []string, usage func(io.Writer, *flag.FlagSet), stdout, stderr io.Writer) (code int, done bool) {
-	err := fs.Parse(args)
-	switch {
-	case err == nil:
-		return 0, false
-	case errors.Is(err, flag.ErrHelp):
-		usage(stdout, fs)
-		return 0, true
-	}
-	fmt.Fprintf(stderr, "couplet %s: %v\n", fs.Name(), err)
-	usage(stderr, fs)
-	return 2, true
-}
-
 // workerUsage prints the usage of `couplet worker`.
 func workerUsage(w io.Writer, fs *flag.FlagSet) {
-	fmt.Fprintf(w, "usage: couplet worker --connect URL [--cluster-token TOKEN | --cluster-creds FILE] [--name NAME] [--workspace DIR] [--parallel N] [%s] [%s PATH] [--verbose]\n\nflags:\n", repl.TrustFlag, repl.AllowProgramFlag)
-	printFlags(w, fs)
-}
+	fmt.Fprintf(w, `usage: couplet worker --connect URL
+          [--cluster-token TOKEN | --cluster-creds FILE] [--name NAME]
+          [--workspace DIR] [--parallel N] [%s]
+          [%s PATH]... [--verbose]
 
-// printFlags lists a flag set's flags with their placeholders.
-func printFlags(w io.Writer, fs *flag.FlagSet) {
-	fs.VisitAll(func(f *flag.Flag) {
-		arg := spreadArg(f.Name)
-		if f.Name == "allow-program" {
-			arg = " PATH"
-		}
-		fmt.Fprintf(w, "  --%-22s %s\n", f.Name+arg, f.Usage)
-	})
+A worker answers the analyses of the runs spread over the cluster
+(couplet run --workers-on URL): it replays each run's study file under its
+own sandbox and in its own workspace, and refuses a run of another build.
+It stops on Ctrl-C or SIGTERM.
+
+flags:
+`, repl.TrustFlag, repl.AllowProgramFlag)
+	printFlags(w, fs)
 }
 
 // hubCommand is `couplet hub`: a JetStream server for workers on other
@@ -278,21 +267,31 @@ func printFlags(w io.Writer, fs *flag.FlagSet) {
 func hubCommand(args []string, stdout, stderr io.Writer) int {
 	var listen, store, token string
 	fs := flag.NewFlagSet("hub", flag.ContinueOnError)
-	fs.SetOutput(io.Discard)
-	fs.StringVar(&listen, "listen", "127.0.0.1:4222", "where the server listens")
-	fs.StringVar(&token, "cluster-token", "", "the token clients must give (default: $"+tokenEnv+"; required)")
+	fs.StringVar(&listen, "listen", "127.0.0.1:4222", "where the server listens (default 127.0.0.1:4222, this machine only; 0.0.0.0:4222 for other machines)")
+	fs.StringVar(&token, "cluster-token", "", "the token clients must give (default: $"+tokenEnv+"; one of the two is required)")
 	fs.StringVar(&store, "store", "", "the folder of the streams (default: a temporary folder)")
-	if code, done := parseCommand(fs, args, hubUsage, stdout, stderr); done {
-		return code
+	pos, err := parseFlags("hub", fs, args, nil)
+	if errors.Is(err, errHelp) {
+		hubUsage(stdout, fs)
+		return 0
 	}
 	if token == "" {
 		token = os.Getenv(tokenEnv)
 	}
-	host, port, err := splitHostPort(listen)
-	if err != nil || token == "" || fs.NArg() > 0 {
-		fmt.Fprintln(stderr, "couplet hub: need --listen HOST:PORT (port 0 to 65535), a token (--cluster-token or $"+tokenEnv+") and no arguments")
-		hubUsage(stderr, fs)
-		return 2
+	var host string
+	var port int
+	if err == nil {
+		switch {
+		case len(pos) > 0:
+			err = fmt.Errorf("unexpected argument %q: couplet hub takes flags only", pos[0])
+		case token == "":
+			err = errors.New("need a token: --cluster-token TOKEN or $" + tokenEnv)
+		default:
+			host, port, err = splitHostPort(listen)
+		}
+	}
+	if err != nil {
+		return usageFailed(stderr, "hub", err)
 	}
 	hub, err := distribute.StartHub(distribute.HubConfig{Host: host, Port: port, Token: token, StoreDir: store})
 	if err != nil {
@@ -307,21 +306,25 @@ func hubCommand(args []string, stdout, stderr io.Writer) int {
 	return 0
 }
 
-// splitHostPort reads HOST:PORT.
+// splitHostPort reads the HOST:PORT of --listen.
 func splitHostPort(s string) (string, int, error) {
 	i := strings.LastIndex(s, ":")
-	if i < 0 {
-		return "", 0, fmt.Errorf("%q has no port", s)
-	}
 	p, err := strconv.Atoi(s[i+1:])
-	if err != nil || p < 0 || p > 65535 {
-		return "", 0, fmt.Errorf("port %q: want 0 to 65535", s[i+1:])
+	if i < 0 || err != nil || p < 0 || p > 65535 || strconv.Itoa(p) != s[i+1:] {
+		return "", 0, fmt.Errorf("--listen %q: want %s", s, flagValues["listen"].want)
 	}
 	return s[:i], p, nil
 }
 
 // hubUsage prints the usage of `couplet hub`.
 func hubUsage(w io.Writer, fs *flag.FlagSet) {
-	fmt.Fprintln(w, "usage: couplet hub [--listen HOST:PORT] [--cluster-token TOKEN] [--store DIR]\n\nflags:")
+	fmt.Fprint(w, `usage: couplet hub [--listen HOST:PORT] [--cluster-token TOKEN] [--store DIR]
+
+The hub is a NATS JetStream server for couplet worker and
+couplet run --workers-on on other machines, when no NATS server of your own
+is at hand. It serves until Ctrl-C or SIGTERM.
+
+flags:
+`)
 	printFlags(w, fs)
 }

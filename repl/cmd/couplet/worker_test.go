@@ -221,7 +221,7 @@ func TestLocalWorkersSameBest(t *testing.T) {
 
 func TestWorkerAndHubHelp(t *testing.T) {
 	for cmd, want := range map[string]string{
-		"worker": "usage: couplet worker --connect URL [--cluster-token TOKEN | --cluster-creds FILE]",
+		"worker": "usage: couplet worker --connect URL\n          [--cluster-token TOKEN | --cluster-creds FILE]",
 		"hub":    "usage: couplet hub [--listen HOST:PORT]",
 	} {
 		code, stdout, _ := runCmd(cmd, "--help")
@@ -242,8 +242,8 @@ func TestSpreadFlagsRefused(t *testing.T) {
 		{[]string{"run", spreadStudy, "--out", "x", "--local-workers", "1", "--redeliver-after", "1ms"}, "--redeliver-after 1ms: want at least 100ms"},
 		{[]string{"worker"}, "couplet worker: need --connect URL"},
 		{[]string{"--local-workers", "2"}, "couplet: --workers-on and --local-workers go with couplet run"},
-		{[]string{"worker", "--connect", "nats://127.0.0.1:1", "--parallel", "0"}, "--parallel of 1 or more"},
-		{[]string{"hub", "--listen", "127.0.0.1:99999", "--cluster-token", "t"}, "couplet hub: need --listen HOST:PORT (port 0 to 65535)"},
+		{[]string{"worker", "--connect", "nats://127.0.0.1:1", "--parallel", "0"}, "couplet worker: --parallel 0: want a whole number of 1 or more\n"},
+		{[]string{"hub", "--listen", "127.0.0.1:99999", "--cluster-token", "t"}, `couplet hub: --listen "127.0.0.1:99999": want HOST:PORT with a port from 0 to 65535, e.g. 0.0.0.0:4222` + "\n"},
 	} {
 		code, _, stderr := runCmd(tc.args...)
 		if code != 2 || !strings.Contains(stderr, tc.want) {
