@@ -24,7 +24,9 @@ package disciplines
 // q_D = π²·GJ/(4·ℓ²·c·e·a0) exactly) and bending η², η³, η⁴ (η = y/ℓ;
 // the torsionally rigid forward-swept beam comes within 0.05 % of its
 // exact eigenvalue). The divergence dynamic pressure is the smallest
-// positive real q of det(K − q·A) = 0.
+// positive real q of det(K − q·A) = 0, continued through a complex pair
+// of roots by its real part (largestPositiveEigen4) where a few degrees
+// of aft sweep make the lowest two meet.
 
 import "math"
 
@@ -173,12 +175,29 @@ func cubicRealRoots(b, c, d float64) (roots [3]float64, n int) {
 	return roots, n
 }
 
-// largestPositiveEigen4 returns the largest real eigenvalue of a 4×4
-// matrix if it is positive (0 otherwise). The characteristic polynomial
-// comes from the Faddeev–LeVerrier recursion; its real roots lie on the
-// monotone pieces between the roots of its derivative (a cubic, solved in
-// closed form), searched from the right by Newton's method safeguarded by
-// bisection.
+// largestPositiveEigen4 returns the largest real part of the eigenvalues
+// of a 4×4 matrix if it is positive (0 otherwise): the largest real
+// eigenvalue, or the real part of a complex pair where that is larger.
+// The characteristic polynomial comes from the Faddeev–LeVerrier
+// recursion; its real roots lie on the monotone pieces between the roots
+// of its derivative (a cubic, solved in closed form), searched from the
+// right by Newton's method safeguarded by bisection; the complex pairs
+// come from its factorisation into two quadratics (Ferrari's resolvent
+// cubic, complexPairRealPart).
+//
+// The complex pair matters on aft-swept wings: at a few degrees of aft
+// sweep the torsion root (falling with sweep) meets a bending root
+// (rising from zero) and the two go complex; their real part then falls
+// through zero. Between the meeting and that zero the static problem has
+// no real root, yet the largest real eigenvalue alone would jump there
+// from a finite q_D straight to "no divergence". The real part continues
+// the branch, so that q_D = 1/Re μ grows without bound as it does in the
+// single-mode textbook estimate of the swept wing,
+// q_D = q_D,0/(cos²Λ·(1 − r·tanΛ)) (structural dynamics and
+// aeroelasticity textbooks, from memory: a few degrees of sweepback
+// remove divergence), a conservative estimate between the meeting and the
+// zero; wherever the largest real part is a real root the value is the
+// real root as before.
 func largestPositiveEigen4(m [4][4]float64) float64 {
 	s := 0.0
 	for i := range m {
@@ -279,9 +298,53 @@ func largestPositiveEigen4(m [4][4]float64) float64 {
 			}
 			x = next
 		}
+		if re, ok := complexPairRealPart(c); ok && re > x {
+			x = re
+		}
 		return positiveOrZero(x * s)
 	}
+	if re, ok := complexPairRealPart(c); ok {
+		return positiveOrZero(re * s)
+	}
 	return 0
+}
+
+// complexPairRealPart returns the largest real part of the complex roots
+// of μ⁴ + c[3]μ³ + c[2]μ² + c[1]μ + c[0] (false when every root is real).
+// With μ = y − c[3]/4 the depressed quartic y⁴ + p·y² + q·y + r factors
+// as (y² + σy + u)(y² − σy + v), σ² the largest root of Ferrari's
+// resolvent cubic S³ + 2pS² + (p² − 4r)S − q² = 0 (non-negative: the
+// cubic is −q² ≤ 0 at S = 0), u, v = (p + σ² ∓ q/σ)/2; a quadratic
+// factor with a negative discriminant holds a complex pair of real part
+// ∓σ/2. With q = 0 the quartic is a quadratic in y².
+func complexPairRealPart(c [4]float64) (float64, bool) {
+	a3, a2, a1, a0 := c[3], c[2], c[1], c[0]
+	sh := a3 / 4
+	p := a2 - 6*sh*sh
+	q := a1 - 2*a2*sh + 8*sh*sh*sh
+	r := a0 - a1*sh + a2*sh*sh - 3*sh*sh*sh*sh
+	roots, n := cubicRealRoots(2*p, p*p-4*r, -q*q)
+	ss := math.Max(0, roots[n-1])
+	best, found := math.Inf(-1), false
+	if ss > 0 && q != 0 {
+		sg := math.Sqrt(ss)
+		u := 0.5 * (p + ss - q/sg)
+		v := 0.5 * (p + ss + q/sg)
+		if ss-4*u < 0 { // y² + σy + u
+			best, found = -0.5*sg, true
+		}
+		if ss-4*v < 0 { // y² − σy + v
+			best, found = 0.5*sg, true
+		}
+	} else if d := p*p - 4*r; d < 0 {
+		// y² = z, z = (−p ± i√−d)/2: y = ±√z, real part ±√((|z| + Re z)/2)
+		mod := math.Sqrt(r)
+		best, found = math.Sqrt(math.Max(0, 0.5*(mod-0.5*p))), true
+	}
+	if !found {
+		return 0, false
+	}
+	return best - sh, true
 }
 
 // positiveOrZero returns x if it is clearly positive (above the round-off

@@ -74,6 +74,56 @@ func TestDivergenceSweepAndStiffness(t *testing.T) {
 	}
 }
 
+// At a few degrees of aft sweep the torsion root of the swept beam meets
+// a bending root and the two go complex; the divergence dynamic pressure
+// is continued by their real part, so that μ = 1/q_D falls continuously
+// to zero (q_D grows without bound) instead of jumping from a finite
+// q_D to no divergence (the Kestrel wing jumped from 1.6 MPa to none at
+// 2.417° of sweep). Where the two roots meet μ has a square-root branch
+// point: continuous with an infinite slope. So the check refines: the
+// largest change of μ between 0.001° steps from 0° to 20° is found, and
+// over that step, cut in 100, no sub-step may carry more than a fifth of
+// it (a square-root branch point keeps a tenth, a jump all of it).
+func TestDivergenceContinuousThroughAftSweep(t *testing.T) {
+	for _, c := range []struct{ semispan, chord, gj, ei float64 }{
+		{9, 3, 3e7, 8e7}, {12.5, 3.2, 1.6e8, 2.2e8}, {6.5, 8.5, 1.5e8, 1.3e8},
+	} {
+		mu := func(deg float64) float64 {
+			sw := deg * math.Pi / 180
+			cs := math.Cos(sw)
+			b := SweptBeam{Length: c.semispan / cs, Chord: c.chord * cs, Offset: 0.125 * c.chord * cs,
+				LiftSlope: 0.95 * 2 * math.Pi, Sweep: sw, GJ: c.gj, EI: c.ei}
+			q, err := b.DivergenceDynamicPressure()
+			if err != nil {
+				t.Fatal(err)
+			}
+			return 1 / q
+		}
+		const h = 1e-3
+		prev, worst, at, gone := mu(0), 0.0, 0.0, false
+		for i := 1; i <= 20000; i++ {
+			x := float64(i) * h
+			m := mu(x)
+			if d := math.Abs(m - prev); d > worst {
+				worst, at = d, x-h
+			}
+			gone = gone || m == 0
+			prev = m
+		}
+		if !gone {
+			t.Errorf("%+v: still diverges at 20° of aft sweep", c)
+		}
+		prev = mu(at)
+		for k := 1; k <= 100; k++ {
+			m := mu(at + float64(k)*h/100)
+			if d := math.Abs(m - prev); d > 0.2*worst {
+				t.Errorf("%+v: 1/q_D jumps from %g to %g at %.5f° of sweep (%g over the 0.001° step from %.3f°)", c, prev, m, at+float64(k)*h/100, worst, at)
+			}
+			prev = m
+		}
+	}
+}
+
 // Bending divergence of a torsionally rigid forward-swept wing: with
 // τ = q·c·a0·cos²Λ·tanΛ·ℓ³/EI the exact uniform-beam eigenvalue solves
 // u‴ + τ·u = 0, u(0) = u′(1) = u″(1) = 0 (textbook value τD ≈ −6.33,
