@@ -125,7 +125,7 @@ type CycleResult struct {
 	SpecificThrust   float64 // F/ṁ0 [N s/kg]
 	FuelAirRatio     float64 // ṁf/ṁ0 (per total inlet air)
 	TSFC             float64 // S = ṁf/F [kg/(N s)]
-	FanPressureRatio float64 // πf that balances the mixer (Pt16 = Pt6); 1 for a turbojet
+	FanPressureRatio float64 // πf = πc·πb·πt that balances the mixer (Pt16 = Pt6); for a turbojet its limit α → 0
 	TurbineTempRatio float64 // τt
 	ExitVelocity     float64 // V9 [m/s]
 	ExitTemperature  float64 // T9 [K]
@@ -180,7 +180,7 @@ func IdealTurbojet(mach, t0, pic, tt4, gamma, cp, hPR float64) (CycleResult, err
 	fs := a0 * (v9a0 - mach)
 	f := cp * t0 * (taul - taur*tauc) / hPR
 	return CycleResult{
-		SpecificThrust: fs, FuelAirRatio: f, TSFC: f / fs, FanPressureRatio: 1,
+		SpecificThrust: fs, FuelAirRatio: f, TSFC: f / fs, FanPressureRatio: pic * math.Pow(taut, gamma/(gamma-1)),
 		TurbineTempRatio: taut, ExitVelocity: v9a0 * a0, ExitTemperature: tt4 / (taur * tauc),
 		InletRecovery: 1, RamTempRatio: taur, RamPressureRatio: math.Pow(taur, gamma/(gamma-1)),
 		FlightVelocity: a0 * mach,
@@ -337,6 +337,9 @@ func (k *cycleCondition) run(tt4 float64) (CycleResult, error) {
 		pit = pif / (k.pic * c.BurnerPressureRatio) // the mixer condition Pt16 = Pt6
 	} else {
 		pit = math.Pow(taut, k.mt)
+		// the mixer identity's limit α → 0: the pressure ratio a vanishing
+		// bypass stream would need (it was 1, a jump at α = 0)
+		pif = k.pic * c.BurnerPressureRatio * pit
 	}
 	// mixing by the energy balance with mass-weighted properties
 	mix := massf + alpha

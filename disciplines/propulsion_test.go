@@ -69,6 +69,39 @@ func TestComponentCycleReducesToIdeal(t *testing.T) {
 	}
 }
 
+// The fan pressure ratio of the mixed-flow turbofan, πc·πb·πt at the
+// mixer (Pt16 = Pt6), joins the turbojet's continuously as the bypass
+// ratio goes to zero (it was reported as 1 at α = 0); the ideal turbojet
+// reports the same limit as the component cycle with ideal components.
+func TestFanPressureRatioContinuousAtZeroBypass(t *testing.T) {
+	for _, c := range []CycleComponents{IdealComponents(), TypicalComponents()} {
+		for _, r := range []struct{ m, t0, pic, tt4 float64 }{{0, 288.15, 26, 1600}, {1.5, 216.65, 20, 1850}, {0.8, 216.65, 10, 1400}} {
+			jet, err := MixedFlowTurbofan(c, r.m, r.t0, r.pic, 0, r.tt4)
+			if err != nil {
+				t.Fatal(err)
+			}
+			fan, err := MixedFlowTurbofan(c, r.m, r.t0, r.pic, 1e-9, r.tt4)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if e := propRel(fan.FanPressureRatio, jet.FanPressureRatio); e > 1e-6 {
+				t.Errorf("%+v: πf %.8g at α = 1e-9, %.8g at α = 0", r, fan.FanPressureRatio, jet.FanPressureRatio)
+			}
+		}
+	}
+	ideal, err := IdealTurbojet(2, 216.7, 10, 1800, 1.4, 1004, 42.8e6)
+	if err != nil {
+		t.Fatal(err)
+	}
+	comp, err := Turbojet(IdealComponents(), 2, 216.7, 10, 1800)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if e := propRel(ideal.FanPressureRatio, comp.FanPressureRatio); e > 1e-12 {
+		t.Errorf("ideal turbojet πf %.10g, component cycle %.10g", ideal.FanPressureRatio, comp.FanPressureRatio)
+	}
+}
+
 func TestInletRecoveryMIL5007D(t *testing.T) {
 	// MIL-E-5007D: ηr = 1 − 0.075 (M − 1)^1.35 (project reference checks)
 	for _, c := range []struct{ m, want float64 }{{0, 1}, {0.9, 1}, {1, 1}, {1.6, 0.96237}, {2.0, 0.925}} {
