@@ -310,7 +310,7 @@ func (a *AirframeAerodynamics) Compute(in, out []float64) error {
 	out[afOutCLMaxTO] = clTO
 	out[afOutCLMaxLdg] = clean + in[afInFlapLanding]*cq
 	out[afOutCLTO] = clTO / (1.13 * 1.13)
-	if err := checkCalibratedLift(out[afOutCLACruise], out[afOutCLALow], in[afInFactorLiftSlope], clean, cq, in[afInFlapTakeoff], in[afInFlapLanding]); err != nil {
+	if err := checkCalibratedLift(out[afOutCLACruise], out[afOutCLALow], in[afInFactorLiftSlope], in[geoInArea], clean, cq, in[afInFlapTakeoff], in[afInFlapLanding]); err != nil {
 		return err
 	}
 	// the Korn relation's parts fixed by the wing (kornFromCos in two
@@ -327,6 +327,7 @@ func (a *AirframeAerodynamics) Compute(in, out []float64) error {
 // outputs (neutral_point's lift slopes, propulsion's and mission's
 // maximum lift coefficients).
 const (
+	minLiftSlope    = 0.1
 	maxLiftSlope    = 10.0
 	minCLMax        = 0.3
 	maxCLMaxTakeoff = 4.0
@@ -338,10 +339,19 @@ const (
 // calibration factor (slopes cla, claLow [1/rad] with the factor
 // applied) and the high-lift increments (clean maximum lift clean, cos Λc/4
 // cq). Without it the design would be reported as not closing through
-// aero.cla_cruise or aero.cl_max_takeoff.
-func checkCalibratedLift(cla, claLow, factor, clean, cq, dTO, dLdg float64) error {
+// aero.cla_cruise or aero.cl_max_takeoff. A slope below the neutral
+// point's minimum names the factor when it is below 1, else the wing
+// area (area [m2]): a wing whose span barely exceeds the fuselage
+// diameter exposes almost none of itself.
+func checkCalibratedLift(cla, claLow, factor, area, clean, cq, dTO, dLdg float64) error {
 	if hi := math.Max(cla, claLow); hi > maxLiftSlope {
 		return inputErr("aero.factor_lift_slope", factor, "", fmt.Sprintf("at most %.3g with this wing: the calibrated lift-curve slope %.3g /rad exceeds the %g /rad the neutral point accepts", factor*maxLiftSlope/hi, hi, maxLiftSlope))
+	}
+	if lo := math.Min(cla, claLow); lo < minLiftSlope {
+		if factor < 1 {
+			return inputErr("aero.factor_lift_slope", factor, "", fmt.Sprintf("at least %.3g with this wing: the calibrated lift-curve slope %.3g /rad is below the %g /rad the neutral point accepts", factor*minLiftSlope/lo, lo, minLiftSlope))
+		}
+		return inputErr("wing.area", area, "m2", fmt.Sprintf("a larger wing: its exposed part gives a wing-body lift-curve slope of %.3g /rad, below the %g /rad the neutral point accepts", lo, minLiftSlope))
 	}
 	for _, f := range []struct {
 		name      string

@@ -95,6 +95,13 @@ func TestAirframeAeroRefusesLiftOutOfRange(t *testing.T) {
 			mdo.InvalidInput, []string{"flap.cl_increment_takeoff = 3 is not allowed", "at most 2.59", "exceeds the 4"}},
 		{"landing flaps", Kestrel(), map[string]float64{"flap.cl_increment_landing": 3, "wing.sweep": 0, "wing.thickness_ratio": 0.18},
 			mdo.InvalidInput, []string{"flap.cl_increment_landing = 3 is not allowed", "exceeds the 4.5"}},
+		// a wing whose span barely exceeds the fuselage diameter exposes
+		// almost none of itself: the wing-body lift slope falls below the
+		// neutral point's 0.1 /rad and the wing area is named
+		{"tiny wing", Swiftlet(), map[string]float64{"wing.area": 1.21},
+			mdo.InvalidInput, []string{"wing.area = 1.21 m2 is not allowed", "a larger wing", "below the 0.1 /rad"}},
+		{"lift-slope factor too low", Swiftlet(), map[string]float64{"wing.area": 1.3, "aero.factor_lift_slope": 0.2},
+			mdo.InvalidInput, []string{"aero.factor_lift_slope = 0.2 is not allowed", "at least", "below the 0.1 /rad"}},
 		{"no take-off flaps on a highly swept wing", Swiftlet(), map[string]float64{"flap.cl_increment_takeoff": 0, "wing.sweep": 70, "wing.thickness_ratio": 0.01, "wing.position": 0.3, "htail.volume": 0.1},
 			mdo.InvalidInput, []string{"flap.cl_increment_takeoff = 0 is not allowed", "at least", "below the 0.3"}},
 	})

@@ -75,8 +75,8 @@ func (n *NeutralPoints) Inputs() []mdo.Var {
 	in[npInHtArm] = wt[wtInHtArm]
 	in[npInHtSpan] = mdo.Var{Name: "htail.span", Unit: "m", Description: "horizontal-tail span", Default: 8, Min: 0.1, Max: 100}
 	in[npInHtMAC] = htailMACVar()
-	in[npInCLaCruise] = mdo.Var{Name: "aero.cla_cruise", Unit: "1/rad", Description: "wing lift-curve slope at cruise Mach", Default: 2.8, Min: 0.1, Max: maxLiftSlope}
-	in[npInCLaLow] = mdo.Var{Name: "aero.cla_low_speed", Unit: "1/rad", Description: "wing lift-curve slope at low speed", Default: 3.0, Min: 0.1, Max: maxLiftSlope}
+	in[npInCLaCruise] = mdo.Var{Name: "aero.cla_cruise", Unit: "1/rad", Description: "wing lift-curve slope at cruise Mach", Default: 2.8, Min: minLiftSlope, Max: maxLiftSlope}
+	in[npInCLaLow] = mdo.Var{Name: "aero.cla_low_speed", Unit: "1/rad", Description: "wing lift-curve slope at low speed", Default: 3.0, Min: minLiftSlope, Max: maxLiftSlope}
 	in[npInMach] = cruiseMachVar()
 	return in
 }
