@@ -104,6 +104,12 @@ func TestAckeret(t *testing.T) {
 	if got := AckeretDoubleWedgeDrag(2, 0.05, 0.02); math.Abs(got-0.0066973) > 5e-8 {
 		t.Errorf("cd = %g", got)
 	}
+	// Biconvex at incidence, 4(α² + (4/3)(t/c)²)/β recomputed from the
+	// project reference's formula: M = 1.8, t/c = 0.04, α = 0.03 rad →
+	// 0.0081069243.
+	if got := AckeretBiconvexDrag(1.8, 0.04, 0.03); math.Abs(got-0.0081069243) > 1e-10 {
+		t.Errorf("biconvex cd = %.10f", got)
+	}
 	// Biconvex: the thickness term is 4/3 of the double wedge's.
 	if got := AckeretBiconvexDrag(2, 0.05, 0) / AckeretDoubleWedgeDrag(2, 0.05, 0); math.Abs(got-4.0/3) > 1e-12 {
 		t.Errorf("biconvex/double-wedge = %g", got)
@@ -167,6 +173,49 @@ func TestKornAndLock(t *testing.T) {
 	h := 1e-6
 	if s := (LockDragRise(mdd+h, mc) - LockDragRise(mdd-h, mc)) / (2 * h); math.Abs(s-0.1) > 1e-6 {
 		t.Errorf("slope at Mdd %g", s)
+	}
+}
+
+func TestInducedDragSubsonic(t *testing.T) {
+	// Induced drag CDi = CL²/(π A e) (project reference): below the
+	// transonic blend (Mach 0.95) K is 1/(π A e) with the Oswald estimate
+	// e, less the flap reduction; e stays within [0.3, 0.95] and falls
+	// with sweep beyond the straight-wing range.
+	for _, c := range []struct{ area, ar, taper, sweep float64 }{{84, 9, 0.3, 25}, {115, 3, 0.12, 58}, {60, 12, 0.4, 0}, {100, 6, 0.3, -30}} {
+		w, err := NewWing(c.area, c.ar, c.taper, c.sweep, 0.1)
+		if err != nil {
+			t.Fatal(err)
+		}
+		e := OswaldEfficiency(w.AspectRatio, w.SweepLE)
+		if !(e >= 0.3 && e <= 0.95) {
+			t.Errorf("A %g Λ %g: e = %g outside [0.3, 0.95]", c.ar, c.sweep, e)
+		}
+		for _, m := range []float64{0, 0.5, 0.95} {
+			for _, de := range []float64{0, 0.05} {
+				if got, want := DragDueToLift(w, m, de), 1/(math.Pi*w.AspectRatio*(e-de)); relErr(got, want) > 1e-14 {
+					t.Errorf("A %g Λ %g M %g Δe %g: K = %g, want 1/(πAe) = %g", c.ar, c.sweep, m, de, got, want)
+				}
+			}
+		}
+	}
+	if !(OswaldEfficiency(8, 50) < OswaldEfficiency(8, 20)) {
+		t.Error("Oswald e does not fall with sweep")
+	}
+}
+
+func TestSupersonicCentreNotAftOfMidChord(t *testing.T) {
+	// Linear supersonic theory puts the centre of pressure of a flat
+	// plate at mid-chord (Ackeret; project reference); the tip Mach cones
+	// of a finite wing move it forward, so the model's aerodynamic centre
+	// (ACFraction, a fraction of the MAC) lies aft of the subsonic quarter
+	// chord and never aft of mid-chord.
+	for m := 1.3; m <= MaxMach+1e-9; m += 0.1 {
+		if ac := ACFraction(m); !(ac > 0.25 && ac <= 0.5) {
+			t.Errorf("M %.1f: aerodynamic centre at %.3f MAC, want (0.25, 0.5]", m, ac)
+		}
+	}
+	if ac := ACFraction(0.5); ac != 0.25 {
+		t.Errorf("subsonic aerodynamic centre at %.3f MAC, want the quarter chord", ac)
 	}
 }
 

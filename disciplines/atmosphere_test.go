@@ -114,6 +114,28 @@ func TestAtmosphereLayersContinuous(t *testing.T) {
 	}
 }
 
+func TestStandardAtmosphereUpperLayers(t *testing.T) {
+	// U.S. Standard Atmosphere 1976 above 32 km: the layers' lapse rates
+	// +2.8, 0, −2.8, −2.0 K/km from 32, 47, 51 and 71 km geopotential
+	// (project reference); T and p recomputed from the defining equations
+	// (hydrostatic integration from 101 325 Pa, g0 = 9.80665 m/s²,
+	// R = 287.05287 J/(kg K)).
+	for _, c := range []struct{ h, t, p float64 }{
+		{40000, 251.05, 277.5204}, {47000, 270.65, 110.9058}, {50000, 270.65, 75.94438},
+		{51000, 270.65, 66.93853}, {60000, 245.45, 20.31414}, {71000, 214.65, 3.956392}, {80000, 196.65, 0.8862722},
+	} {
+		at, err := StandardAtmosphere(GeometricAltitude(c.h))
+		if err != nil {
+			t.Fatal(err)
+		}
+		// below 80 km geometric the kinetic and molecular-scale temperatures agree
+		tm := at.SpeedOfSound * at.SpeedOfSound / (Gamma * RAir)
+		if relErr(tm, c.t) > 1e-6 || relErr(at.Pressure, c.p) > 1e-5 {
+			t.Errorf("H = %g m: T_M = %.4f K, p = %.7g Pa; want %.4f K, %.7g Pa", c.h, tm, at.Pressure, c.t, c.p)
+		}
+	}
+}
+
 func TestOffsetAtmosphere(t *testing.T) {
 	// Hot day ISA+20 at sea level: p unchanged, T = 308.15 K, ρ = p/(R T)
 	// (definition of an ISA offset day).
