@@ -132,7 +132,10 @@ func checklistClass(mach, seats float64) AircraftClass {
 // wing and tails (layout.go); the seats abreast of 14 CFR 25.817; the fuel
 // in the tanks; the operating empty mass per seat and the empty-mass
 // fraction against the statistics of the aircraft's class (inferred from
-// cruise Mach and seats; mass_statistics.go). A row whose variables the
+// cruise Mach and seats; mass_statistics.go), and the class's bands of
+// take-off mass, mission fuel fraction and field lengths and the cruise
+// regime's bands of lift-to-drag ratio and TSFC (common practice, from
+// memory; mass_statistics.go). A row whose variables the
 // aircraft does not have is left out; a result without the static margins
 // and the fuselage has no checklist (nil).
 func DesignChecklist(get func(name string) (float64, bool)) Checklist {
@@ -240,8 +243,45 @@ func DesignChecklist(get func(name string) (float64, bool)) Checklist {
 					"the statistics of the class disagree", roskamSource)
 			}
 		}
+		classRows(band, class, v[1], v[3], val)
 	}
 	return c
+}
+
+// classRows adds the rows of the class's common-practice bands (classBands,
+// cruiseBands) for a design of take-off mass mto [kg] cruising at mach.
+func classRows(band func(rule string, v float64, unit string, lo, hi float64, text, note, source string),
+	class AircraftClass, mto, mach float64, val func(names ...string) ([]float64, bool)) {
+	const memory = "common practice (no source; from memory)"
+	b := class.bands()
+	name := " (" + class.String() + ")"
+	band("take-off mass"+name, mto, "kg", b.takeoffMass[0], b.takeoffMass[1],
+		fmt.Sprintf("%g–%g t", b.takeoffMass[0]/1e3, b.takeoffMass[1]/1e3), "outside the class's band", memory)
+	if f, ok := val("mass.fuel"); ok {
+		band("mission fuel over take-off mass"+name, f[0]/mto, "", b.fuelFraction[0], b.fuelFraction[1],
+			fmt.Sprintf("%g–%g", b.fuelFraction[0], b.fuelFraction[1]), "outside the class's band", memory)
+	}
+	if f, ok := val("perf.takeoff_field_length"); ok {
+		band("take-off field length"+name, f[0], "m", b.takeoffField[0], b.takeoffField[1],
+			fmt.Sprintf("%g–%g", b.takeoffField[0], b.takeoffField[1]), "outside the class's band", memory)
+	}
+	if f, ok := val("perf.landing_field_length"); ok {
+		band("landing field length"+name, f[0], "m", b.landingField[0], b.landingField[1],
+			fmt.Sprintf("%g–%g", b.landingField[0], b.landingField[1]), "outside the class's band", memory)
+	}
+	ld, tsfc := cruiseBands(mach)
+	regime := " (subsonic cruise)"
+	if mach > 1 {
+		regime = " (supersonic cruise)"
+	}
+	if f, ok := val("aero.ld_cruise"); ok {
+		band("cruise lift-to-drag ratio"+regime, f[0], "", ld[0], ld[1], fmt.Sprintf("%g–%g", ld[0], ld[1]),
+			"outside the band of the regime: look at the polar", memory)
+	}
+	if f, ok := val("engine.tsfc_cruise"); ok {
+		band("cruise TSFC"+regime, 1e6*f[0], "mg/(N s)", 1e6*tsfc[0], 1e6*tsfc[1], fmt.Sprintf("%g–%g", 1e6*tsfc[0], 1e6*tsfc[1]),
+			"outside the band of the regime's engines", memory)
+	}
 }
 
 // CruiseManoeuvreMargin is the load factor a cruising aircraft should

@@ -24,6 +24,7 @@ func checklistBase() map[string]float64 {
 		"mass.empty": 19500, "mass.crew": 190, "mass.takeoff": 36000, "cabin.passengers": 12,
 		"aero.cl_cruise": 0.15, "aero.cl_max_clean": 0.5,
 		"stability.divergence_dynamic_pressure": 1e9, "dive.dynamic_pressure": 40000,
+		"aero.ld_cruise": 9, "engine.tsfc_cruise": 2.9e-5, "perf.takeoff_field_length": 2200, "perf.landing_field_length": 1800,
 	}
 }
 
@@ -54,6 +55,14 @@ func TestDesignChecklistFlags(t *testing.T) {
 		{"divergence inside the enlarged envelope", map[string]float64{"stability.divergence_dynamic_pressure": 52000}, "wing divergence dynamic pressure over the dive dynamic pressure"},
 		{"fuel beyond the tanks", map[string]float64{"mass.fuel": 21000}, "tank capacity less mission fuel"},
 		{"light empty mass", map[string]float64{"mass.empty": 11000}, "operating empty mass per seat (business jet)"},
+		// the class's and the cruise regime's bands (common practice, from memory)
+		{"heavy business jet", map[string]float64{"mass.takeoff": 60000, "mass.empty": 32000, "cabin.passengers": 16, "mass.fuel": 29000, "mass.fuel_capacity": 30000}, "take-off mass (business jet)"},
+		{"fuel-heavy", map[string]float64{"mass.fuel": 19900}, "mission fuel over take-off mass (business jet)"},
+		{"long take-off field", map[string]float64{"perf.takeoff_field_length": 3400}, "take-off field length (business jet)"},
+		{"long landing field", map[string]float64{"perf.landing_field_length": 2500}, "landing field length (business jet)"},
+		{"subsonic L/D at Mach 1.5", map[string]float64{"aero.ld_cruise": 14}, "cruise lift-to-drag ratio (supersonic cruise)"},
+		{"high-bypass TSFC at Mach 1.5", map[string]float64{"engine.tsfc_cruise": 1.6e-5}, "cruise TSFC (supersonic cruise)"},
+		{"subsonic business jet, supersonic L/D", map[string]float64{"cruise.mach": 0.85, "aero.ld_cruise": 9, "engine.tsfc_cruise": 2e-5}, "cruise lift-to-drag ratio (subsonic cruise)"},
 	}
 	for _, c := range tests {
 		m := checklistBase()

@@ -81,6 +81,52 @@ func (c AircraftClass) EmptyMassPerSeatBand() (lo, hi float64) {
 	return math.NaN(), math.NaN()
 }
 
+// Common-practice bands of the figures a designer reads a solved aircraft
+// of the class against (from memory, no source; the designer's checklist
+// flags a value outside them). Take-off mass: jet transports from the
+// regional jets (the smallest about 19 t) to the wide bodies about 15–600 t; business jets about
+// 5–55 t (the supersonic business-jet studies at the top); supersonic
+// airliners about 30–400 t. Mission fuel over take-off mass: jet
+// transports about 0.12–0.45 (regional to long range); business jets
+// about 0.25–0.55 (supersonic ones near the top); supersonic airliners
+// about 0.35–0.60 (one supersonic airliner in service carried about half
+// its take-off mass as fuel). FAR 25 take-off field length: jet
+// transports about 1 100–3 000 m; business jets about 900–3 000 m;
+// supersonic airliners about 1 800–3 700 m. Landing field length
+// (121.195(b)): jet transports about 1 000–2 200 m; business jets about
+// 800–2 200 m; supersonic airliners about 1 400–2 600 m.
+type classBands struct {
+	takeoffMass, fuelFraction, takeoffField, landingField [2]float64
+}
+
+// bands returns the class's common-practice bands (NaN for no class).
+func (c AircraftClass) bands() classBands {
+	switch c {
+	case ClassJetTransport:
+		return classBands{[2]float64{15e3, 600e3}, [2]float64{0.12, 0.45}, [2]float64{1100, 3000}, [2]float64{1000, 2200}}
+	case ClassBusinessJet:
+		return classBands{[2]float64{5e3, 55e3}, [2]float64{0.25, 0.55}, [2]float64{900, 3000}, [2]float64{800, 2200}}
+	case ClassSupersonicCruise:
+		return classBands{[2]float64{30e3, 400e3}, [2]float64{0.35, 0.60}, [2]float64{1800, 3700}, [2]float64{1400, 2600}}
+	}
+	n := [2]float64{math.NaN(), math.NaN()}
+	return classBands{n, n, n, n}
+}
+
+// cruiseBands returns the common-practice bands of the cruise
+// lift-to-drag ratio and TSFC [kg/(N s)] at cruise Mach number mach
+// (from memory, no source): subsonic jets cruise at L/D about 12–20 on
+// turbofans of 0.5–0.88 lb/(lbf h) (1.4e-5–2.5e-5 kg/(N s); high-bypass
+// about 0.5, low-bypass about 0.8 in the conceptual-design textbooks'
+// tables); supersonic cruise at L/D about 6–11 on low-bypass engines or
+// turbojets of 0.8–1.3 lb/(lbf h) (2.3e-5–3.7e-5 kg/(N s)).
+func cruiseBands(mach float64) (ld, tsfc [2]float64) {
+	if mach > 1 {
+		return [2]float64{6, 11}, [2]float64{2.3e-5, 3.7e-5}
+	}
+	return [2]float64{12, 20}, [2]float64{1.4e-5, 2.5e-5}
+}
+
 // EmptyMassCalibration returns the factor weights.calibration of the
 // class: the statistical equations of weights.go (Raymer's
 // cargo/transport group, Torenbeek's flight controls) assembled into the
