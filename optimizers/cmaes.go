@@ -87,7 +87,7 @@ func (o CMAES) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error) 
 	seed := r.ev.Seed()
 	var repair *gradientRepair
 	if o.GradientSteps >= 0 {
-		if repair = newGradientRepair(1, r.ev.Constraints()); repair != nil {
+		if repair = newGradientRepair(1, r.ev.Constraints(), false); repair != nil {
 			repair.steps = or(o.GradientSteps, 3)
 		}
 	}

@@ -52,7 +52,7 @@ func (o DifferentialEvolution) blocks() (Evolution, EqualityHandling) {
 
 // Minimize implements Optimizer.
 func (o DifferentialEvolution) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error) {
-	e, err := newEngine(ctx, s, o, 2)
+	e, err := newEngine(ctx, s, o, 2, false)
 	if err != nil {
 		return nil, err
 	}

@@ -119,7 +119,14 @@ type evolutionary interface {
 // checks o's settings, validates the study, refuses several objectives,
 // and sets the evaluation budget and the equality handling
 // (gradient-based mutation rate and ε-level relaxation) from o's blocks.
-func newEngine(ctx context.Context, s *mdo.Study, o evolutionary, stream uint64) (*engine, error) {
+// With inequalities (GA, ParticleSwarm) the ε level acts in a study with
+// inequality constraints only too, and so does the gradient-based
+// mutation when every design variable is continuous (the differences of
+// a rounded integer coordinate vanish, so the Newton step moves only the
+// continuous ones, onto the constrained optimum of the integer values it
+// has: on the pressure vessel a particle swarm settled 4.3 % above the
+// best known cost, seed 6, on the plate thicknesses next to the best).
+func newEngine(ctx context.Context, s *mdo.Study, o evolutionary, stream uint64, inequalities bool) (*engine, error) {
 	if err := o.validate(); err != nil {
 		return nil, err
 	}
@@ -132,7 +139,8 @@ func newEngine(ctx context.Context, s *mdo.Study, o evolutionary, stream uint64)
 		return nil, err
 	}
 	r.maxEvals = evo.MaxEvaluations
-	return &engine{r: r, dim: r.ev.Dim(), relax: eq.relaxFraction(), grad: newGradientRepair(eq.gradientRate(), r.ev.Constraints()),
+	return &engine{r: r, dim: r.ev.Dim(), relax: eq.relaxFraction(), relaxInequalities: inequalities,
+		grad:   newGradientRepair(eq.gradientRate(), r.ev.Constraints(), inequalities && !r.ev.HasInteger()),
 		stream: stream, fresh: newFreshPoints(r.ev, freshStream+stream)}, nil
 }
 

@@ -38,8 +38,9 @@ func (b Evolution) validate(method string, minPopulation int) error {
 // DifferentialEvolution, ParticleSwarm) embed: the gradient-based mutation
 // and the ε-level comparison of Takahama & Sakai (2006). It acts in a
 // study with an equality constraint; the ε level of GA and ParticleSwarm
-// also acts in a study with inequality constraints only. Zero values take
-// the defaults.
+// also acts in a study with inequality constraints only, and so does
+// their gradient-based mutation when every design variable is
+// continuous. Zero values take the defaults.
 type EqualityHandling struct {
 	// GradientRate is the probability that an infeasible offspring gets
 	// the gradient-based mutation (up to 3 forward-difference Newton

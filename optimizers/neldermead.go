@@ -147,7 +147,7 @@ func repairSamples(r *run, g *gradientRepair, xs [][]float64, evs []*mdo.Evaluat
 		}
 		return nil
 	}
-	if err := g.newton(eval, r.ev.Dim(), chosen); err != nil && stop == mdo.NotStopped {
+	if err := g.newton(eval, r.ev.Dim(), chosen, nil); err != nil && stop == mdo.NotStopped {
 		return mdo.NotStopped, err
 	}
 	for k, i := range at {

@@ -20,7 +20,8 @@ import (
 // groups before it converges on one best. (With the whole swarm as every
 // particle's neighbourhood from the start, it settled up to 45 % above the
 // welded beam's best known cost.) In a constrained study it compares by
-// the ε level of Takahama & Sakai, inequalities included (see GA). With
+// the ε level of Takahama & Sakai and gives the gradient-based mutation to
+// some infeasible particles, inequalities included (see GA). With
 // these defaults it reaches the welded beam's and the pressure vessel's
 // best known costs within 1 % (seeds 1–20). (eaopt's own SPSO lets particles leave the box,
 // evaluates them one at a time and, in v0.4.2, moves a particle to
@@ -68,7 +69,7 @@ func (o ParticleSwarm) blocks() (Evolution, EqualityHandling) { return o.Evoluti
 
 // Minimize implements Optimizer.
 func (o ParticleSwarm) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error) {
-	e, err := newEngine(ctx, s, o, 3)
+	e, err := newEngine(ctx, s, o, 3, true)
 	if err != nil {
 		return nil, err
 	}
@@ -155,7 +156,6 @@ func (o ParticleSwarm) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result,
 		rankBy(next, e.eps, func(p *member) *mdo.Evaluation { return p.best })
 		return next, nil
 	}
-	e.relaxInequalities = true
 	stop, err := e.evolve(n, gens)
 	return r.finish(stop, err)
 }
