@@ -18,7 +18,10 @@ import (
 // (augmented Lagrangian by default). Each generation is evaluated as one
 // batch on the study's workers; each outer iteration restarts the strategy
 // from the best point so far with a smaller step. Its random numbers come
-// from the study's seed. It refuses integer design variables and several
+// from the study's seed. When none of its first samples analyses, it
+// starts again from the first analysable point toward the centre of the
+// box, and while no feasible point has been found it stops stalled as
+// NelderMead does. It refuses integer design variables and several
 // objectives. Zero values take the defaults.
 type CMAES struct {
 	// MaxEvaluations caps the evaluations of the whole run (repeats are

@@ -174,6 +174,30 @@ type engine struct {
 	fresh *freshPoints
 	// stream is the method's random stream of the study seed.
 	stream uint64
+	// watch stops a run that finds no feasible point (stallWindow)
+	watch infeasibleStall
+}
+
+// stallWindow is the number of generations without a feasible point
+// over which the least violation must fall by a thousandth (once the ε
+// level has fallen to 0), or the run stops stalled: a fifth of the
+// generations, at least 20.
+func stallWindow(generations int) int { return max(20, generations/5) }
+
+// stalledInfeasible reports, before each generation, whether the run has
+// stalled without a feasible point; the Result's detail then says so.
+func (e *engine) stalledInfeasible() bool {
+	if e.gen < e.relaxGens {
+		// constraints are relaxed: the population is not aiming at the
+		// least violation yet
+		e.watch.reset()
+		return false
+	}
+	if !e.watch.stalled(e.r.ev.Best()) {
+		return false
+	}
+	e.r.detail = joinDetail(e.r.detail, e.watch.stallDetail("generations"))
+	return true
 }
 
 // freshStream offsets the random stream of a method's fresh-point moves
@@ -322,6 +346,8 @@ func (e *engine) evolve(popSize, generations int) (mdo.StopReason, error) {
 	if cs := e.r.ev.Constraints(); e.relax > 0 && (hasEquality(cs) || e.relaxInequalities && len(cs) > 0) {
 		e.relaxGens = int(math.Ceil(e.relax * float64(generations)))
 	}
+	e.watch = infeasibleStall{window: stallWindow(generations)}
+	e.watch.reset()
 	ga, err := eaopt.GAConfig{
 		NPops:        1,
 		PopSize:      uint(popSize),
@@ -334,6 +360,9 @@ func (e *engine) evolve(popSize, generations int) (mdo.StopReason, error) {
 		EarlyStop: func(*eaopt.GA) bool {
 			if err := e.r.ctx.Err(); err != nil {
 				e.stop = ctxStop(err)
+			}
+			if e.stop == mdo.NotStopped && e.stalledInfeasible() {
+				e.stop = mdo.StopStalled
 			}
 			return e.stop != mdo.NotStopped
 		},

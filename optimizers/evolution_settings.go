@@ -8,6 +8,12 @@ import (
 // Evolution is the settings block that the population-based methods (GA,
 // DifferentialEvolution, ParticleSwarm and NSGA2) embed. Zero values take
 // the defaults.
+//
+// A run that has found no feasible point stops with mdo.StopStalled when
+// its least violation has not fallen by a thousandth over a fifth of its
+// Generations (at least 20), counted once the ε level of GA and
+// ParticleSwarm has fallen to 0; Result.StopDetail names the constraint
+// most violated.
 type Evolution struct {
 	// Population is the number of individuals (agents, particles); its
 	// default depends on the method and the number of variables (see the

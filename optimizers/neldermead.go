@@ -13,9 +13,15 @@ import (
 // package, on the unit box folded by x = (1 − cos(π u))/2, with the
 // constraints handled by Penalty (augmented Lagrangian by default). Each
 // outer iteration restarts the simplex from the best point so far. It
-// starts from the study's baseline design (fixed values, else defaults)
-// and refuses integer design variables and several objectives. Zero
-// values take the defaults.
+// starts from the study's baseline design (fixed values, else defaults);
+// a start that does not analyse is replaced by the first analysable point
+// toward the centre of the box or spread over it, as Sextant's is (it
+// spent its whole budget on failed analyses). While no feasible point has
+// been found, the run stops with mdo.StopStalled when the least violation
+// has not fallen by a thousandth over three outer iterations, and an
+// inner search ends when it has not over StallIterations (see
+// Result.StopDetail). It refuses integer design variables and several
+// objectives. Zero values take the defaults.
 type NelderMead struct {
 	// MaxEvaluations caps the evaluations of the whole run (repeats are
 	// free, see mdo.EvalCounters); default 5000.
@@ -90,6 +96,11 @@ func gonumInner(r *run, method optimize.Method, tasks int, x0 []float64, m *meri
 		if stop != mdo.NotStopped || err != nil {
 			return nil, stop, err
 		}
+		if !r.searchedStart && r.diag.analysed == 0 {
+			// the run's first batch failed entirely: outerLoop looks
+			// for an analysable start
+			return nil, mdo.NotStopped, errNothingAnalysed
+		}
 		if repair != nil {
 			if stop, err := repairSamples(r, repair, xs, evs); stop != mdo.NotStopped || err != nil {
 				return nil, stop, err
@@ -106,9 +117,14 @@ func gonumInner(r *run, method optimize.Method, tasks int, x0 []float64, m *meri
 	}
 	conv := &optimize.FunctionConverge{Absolute: tol, Relative: tol, Iterations: stall}
 	conv.Init(len(x0))
+	// while the run has no feasible point, the inner search also ends
+	// when the least violation has not fallen by a thousandth over stall
+	// iterations (the outer loop then raises the weight or stops)
+	watch := infeasibleStall{window: stall}
+	watch.reset()
 	major := func(loc *optimize.Location) mdo.StopReason {
 		r.iteration()
-		if conv.Converged(loc) != optimize.NotTerminated {
+		if conv.Converged(loc) != optimize.NotTerminated || watch.stalled(r.ev.Best()) {
 			return mdo.StopConverged
 		}
 		return mdo.NotStopped

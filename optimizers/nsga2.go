@@ -76,6 +76,8 @@ func (o NSGA2) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error) 
 	off := make([][]float64, 0, n)
 	all := make([]nsgaInd, 0, 2*n)
 	next := make([]nsgaInd, 0, n)
+	watch := infeasibleStall{window: stallWindow(gens)}
+	watch.reset()
 	var spare [][]float64
 	child := func(parent []float64) []float64 {
 		if k := len(spare) - 1; k >= 0 {
@@ -86,6 +88,12 @@ func (o NSGA2) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error) 
 		return append([]float64(nil), parent...)
 	}
 	for g := 0; g < gens; g++ {
+		if watch.stalled(r.ev.Best()) {
+			// no feasible point, and the least violation stalled
+			r.detail = watch.stallDetail("generations")
+			stop = mdo.StopStalled
+			break
+		}
 		off = off[:0]
 		for len(off) < n {
 			a, b := tournament(pop, rng), tournament(pop, rng)

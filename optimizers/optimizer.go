@@ -12,6 +12,14 @@
 // Study's Evaluator (so the worker pool is used and the result does not
 // depend on the number of workers), reports progress at each iteration and
 // stops, returning the best point so far, when its context is cancelled.
+//
+// When a run's answer does not hold, Result.StopDetail says why: the
+// start moved because it did not analyse, the commonest cause of failure
+// when most evaluations failed to analyse, and, when no feasible point
+// was found, the constraint most violated at the least violating point and
+// by how much. The searches stop early with mdo.StopStalled when they find
+// no feasible point and their least violation stops falling (a local
+// minimum of the constraint violation), instead of spending their budget.
 package optimizers
 
 import (
@@ -48,6 +56,13 @@ type run struct {
 	name     string
 	maxEvals int
 	iter     int
+	// detail is the method's words on its stop; finish adds the
+	// diagnosis of the evaluations (Result.StopDetail)
+	detail string
+	diag   diagnosis
+	// searchedStart is set once the run has looked for an analysable
+	// start (Nelder–Mead, CMA-ES)
+	searchedStart bool
 }
 
 // begin validates the study, makes its evaluator and starts the record.
@@ -129,6 +144,7 @@ func (r *run) evaluate(xs [][]float64) ([]*mdo.Evaluation, mdo.StopReason, error
 		return nil, mdo.StopBudget, nil
 	}
 	evs, err := r.ev.Evaluate(r.ctx, xs)
+	r.diag.note(evs)
 	if cerr := r.ctx.Err(); cerr != nil {
 		return evs, ctxStop(cerr), nil
 	}
@@ -144,8 +160,10 @@ func (r *run) iteration() {
 	r.ev.Iteration(r.iter)
 }
 
-// finish builds the Result.
+// finish builds the Result, its StopDetail the method's words (r.detail)
+// and the diagnosis of the evaluations (see diagnosis).
 func (r *run) finish(stop mdo.StopReason, err error) (*mdo.Result, error) {
+	r.ev.SetStopDetail(joinDetail(r.detail, r.diag.summary(r.ev.Best(), r.ev.Constraints())))
 	res, ferr := r.ev.Finish(stop)
 	if err != nil {
 		return res, err

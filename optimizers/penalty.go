@@ -1,6 +1,7 @@
 package optimizers
 
 import (
+	"errors"
 	"fmt"
 	"math"
 
@@ -211,8 +212,21 @@ func (m *merit) update(ev *mdo.Evaluation) {
 // an error.
 type innerFunc func(x0 []float64, m *merit, outer int) (best *mdo.Evaluation, stop mdo.StopReason, err error)
 
+// outerStallWindow is the number of outer iterations without a feasible
+// point over which the least violation must fall by a thousandth, or the
+// run stops stalled.
+const outerStallWindow = 3
+
 // outerLoop runs the penalty or augmented-Lagrangian outer iterations
 // around inner minimisations, starting from the box point x0.
+//
+// When the run's first batch fails to analyse entirely (an inner search
+// returns errNothingAnalysed), the search starts again from the first
+// analysable point toward the centre of the box (run.analysableStart), or
+// stops stalled when there is none. While no feasible point has been
+// found, the run stops stalled when the least violation has not fallen
+// by a thousandth over outerStallWindow outer iterations (the weight
+// having grown meanwhile): a local minimum of the constraint violation.
 func outerLoop(r *run, p Penalty, x0 []float64, inner innerFunc) (mdo.StopReason, error) {
 	m := newMerit(p, r.ev.Constraints())
 	outer := or(p.OuterIterations, 10)
@@ -221,8 +235,27 @@ func outerLoop(r *run, p Penalty, x0 []float64, inner innerFunc) (mdo.StopReason
 	}
 	x := append([]float64(nil), x0...)
 	prevF := math.NaN()
+	stall := infeasibleStall{window: outerStallWindow}
+	stall.reset()
 	for k := 0; k < outer; k++ {
 		best, stop, err := inner(x, m, k)
+		if errors.Is(err, errNothingAnalysed) {
+			r.searchedStart = true
+			u, ev, detail, stop, err := r.analysableStart(x)
+			if err != nil || stop != mdo.NotStopped {
+				return stop, err
+			}
+			r.detail = detail
+			if ev == nil {
+				return mdo.StopStalled, nil
+			}
+			if detail != "" {
+				// moved: the same outer iteration from the new start
+				x = append(x[:0], u...)
+				k--
+			}
+			continue
+		}
 		if err != nil || (stop != mdo.NotStopped && stop != mdo.StopConverged) {
 			return stop, err
 		}
@@ -239,6 +272,10 @@ func outerLoop(r *run, p Penalty, x0 []float64, inner innerFunc) (mdo.StopReason
 			prevF = f
 		} else {
 			prevF = math.NaN()
+		}
+		if stall.stalled(r.ev.Best()) {
+			r.detail = joinDetail(r.detail, stall.stallDetail(fmt.Sprintf("outer iterations (penalty weight now %.3g)", m.rho)))
+			return mdo.StopStalled, nil
 		}
 	}
 	return mdo.StopIterations, nil

@@ -227,7 +227,7 @@ func (o Sextant) Explore(ctx context.Context, s *mdo.Study) (*mdo.Result, *Start
 			details = append(details, fmt.Sprintf("start %d: %s", k+1, sq.detail))
 		}
 		if err != nil {
-			r.ev.SetStopDetail(strings.Join(details, "; "))
+			r.detail = strings.Join(details, "; ")
 			res, ferr := r.finish(mdo.NotStopped, err)
 			return res, rep, ferr
 		}
@@ -258,10 +258,7 @@ func (o Sextant) Explore(ctx context.Context, s *mdo.Study) (*mdo.Result, *Start
 			details = append(details, last)
 		}
 	}
-	if b := r.ev.Best(); b != nil && !b.Feasible && r.ev.Counters().Evaluations > 0 {
-		details = append(details, fmt.Sprintf("no feasible point found in %d evaluations", r.ev.Counters().Evaluations))
-	}
-	r.ev.SetStopDetail(strings.Join(details, "; "))
+	r.detail = strings.Join(details, "; ")
 	rep.Distinct = countDistinct(rep.Optima)
 	bestF := math.Inf(1)
 	for _, o := range rep.Optima {
@@ -334,8 +331,6 @@ type sqp struct {
 	// detail says why the start ended where it did when the convergence
 	// test was not met or the start was moved (Result.StopDetail)
 	detail string
-	// failed is the last trial point whose analysis failed
-	failed *mdo.Evaluation
 }
 
 // newSQP prepares the rows of the study's constraints.
@@ -380,17 +375,21 @@ func (s *sqp) trial(u []float64) (*sqpPoint, error) {
 	if stop != mdo.NotStopped {
 		return nil, errSQPStop{stop}
 	}
-	ev := evs[0]
-	if ev == nil || !ev.Converged || ev.Err != "" {
-		s.failed = ev
+	if !analysable(evs[0]) {
 		return nil, nil
 	}
+	return s.point(u, evs[0]), nil
+}
+
+// point is the point u analysed by ev, with its scaled values (the first
+// point analysed sets the objective's scale).
+func (s *sqp) point(u []float64, ev *mdo.Evaluation) *sqpPoint {
 	p := &sqpPoint{u: u, ev: ev}
 	if s.fscale == 0 {
 		s.fscale = math.Max(math.Abs(ev.F[0]), 1)
 	}
 	s.values(p)
-	return p, nil
+	return p
 }
 
 // explain completes s.detail for a start that ended at opt with stop st:
@@ -419,64 +418,26 @@ func (s *sqp) explain(opt *Optimum, st mdo.StopReason) {
 	s.detail += what
 }
 
-// startTries is the number of points start tries when the start does not
-// analyse (the start itself included).
-const startTries = 16
-
 // start returns the first point to descend from: u0 when it analyses,
-// otherwise the first analysable one of the points toward the centre of
-// the box, u0 + t(½ − u0) for t = ¼, ½, ¾, 1, and then of a scrambled
-// Halton sequence drawn from the study's seed, startTries points in all
-// (an SQP needs a point where the functions are defined; as in the
-// line search, a failed analysis is met by moving back toward the
-// interior). It is nil when none analyses; s.detail says what happened.
+// otherwise the first analysable point toward the centre of the box or
+// spread over it (run.analysableStart; as in the line search, a failed
+// analysis is met by moving back toward the interior). It is nil when
+// none analyses; s.detail says what happened.
 func (s *sqp) start(u0 []float64) (*sqpPoint, error) {
-	p, err := s.trial(u0)
-	if err != nil || p != nil {
-		return p, err
+	u, ev, detail, stop, err := s.r.analysableStart(u0)
+	if err != nil {
+		return nil, err
 	}
-	why := "its analysis failed"
-	if s.failed != nil && s.failed.Err != "" {
-		why = s.failed.Err
+	if stop != mdo.NotStopped {
+		return nil, errSQPStop{stop}
 	}
-	n := len(u0)
-	var tries [][]float64
-	for _, t := range []float64{0.25, 0.5, 0.75, 1} {
-		u := make([]float64, n)
-		for j := range u {
-			u[j] = u0[j] + t*(0.5-u0[j])
-		}
-		tries = append(tries, u)
+	if detail != "" {
+		s.detail = detail
 	}
-	if m := startTries - 1 - len(tries); m > 0 {
-		seed := s.r.ev.Seed()
-		batch := mat.NewDense(m, n, nil)
-		samplemv.Halton{Kind: samplemv.Owen, Q: distmv.NewUnitUniform(n, nil), Src: rand.NewPCG(seed, mix(seed, 17))}.Sample(batch)
-		tries = append(tries, rows(batch)...)
+	if ev == nil {
+		return nil, nil
 	}
-	for _, u := range tries {
-		q, err := s.trial(u)
-		if err != nil {
-			return nil, err
-		}
-		if q != nil {
-			s.detail = fmt.Sprintf("the start %s does not analyse (%s); started from %s instead, the first analysable point found toward the centre of the box", s.physical(u0), why, s.physical(u))
-			return q, nil
-		}
-	}
-	s.detail = fmt.Sprintf("no analysable start: the start %s does not analyse (%s), nor do %d points toward the centre of the box and spread over it", s.physical(u0), why, len(tries))
-	return nil, nil
-}
-
-// physical formats the design of the unit point u as name = value pairs.
-func (s *sqp) physical(u []float64) string {
-	names := s.r.ev.DesignNames()
-	specs := s.r.ev.DesignSpecs()
-	parts := make([]string, len(u))
-	for j := range u {
-		parts[j] = fmt.Sprintf("%s = %.6g", names[j], specs[j].Lower+u[j]*(specs[j].Upper-specs[j].Lower))
-	}
-	return "(" + strings.Join(parts, ", ") + ")"
+	return s.point(u, ev), nil
 }
 
 // stalled says why a start ended at p without meeting the convergence
