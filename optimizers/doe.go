@@ -5,6 +5,9 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
+	"slices"
+	"sort"
+	"strings"
 
 	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/stat/distmv"
@@ -125,13 +128,23 @@ func (o FullFactorial) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result,
 	if err := checkInt("FullFactorial", "MaxPoints", o.MaxPoints, 1); err != nil {
 		return nil, err
 	}
-	for name, l := range o.VariableLevels {
-		if l < 1 {
+	for _, name := range sortedKeys(o.VariableLevels) {
+		if l := o.VariableLevels[name]; l < 1 {
 			return nil, settingError("FullFactorial", "VariableLevels["+name+"]", l, "must be >= 1")
 		}
 	}
 	var specs []mdo.DesignSpec
 	gen := func(_, d int, _ uint64) ([][]float64, error) {
+		names := make([]string, len(specs))
+		for k, sp := range specs {
+			names[k] = sp.Name
+		}
+		for _, name := range sortedKeys(o.VariableLevels) {
+			if !slices.Contains(names, name) {
+				return nil, settingError("FullFactorial", "VariableLevels["+name+"]", o.VariableLevels[name],
+					fmt.Sprintf("names no design variable of the study; allowed: %s", strings.Join(names, ", ")))
+			}
+		}
 		levels := make([]int, d)
 		total := 1.0
 		for k, sp := range specs {
@@ -167,6 +180,17 @@ func (o FullFactorial) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result,
 		return xs, nil
 	}
 	return runDesignSpecs(ctx, s, o.Name(), o, "FullFactorial", 0, false, o.BatchSize, &specs, gen)
+}
+
+// sortedKeys returns the keys of m in order, so that the first bad one
+// reported does not depend on the map's order.
+func sortedKeys(m map[string]int) []string {
+	keys := make([]string, 0, len(m))
+	for k := range m {
+		keys = append(keys, k)
+	}
+	sort.Strings(keys)
+	return keys
 }
 
 // rows copies the rows of a matrix.

@@ -2,6 +2,7 @@ package optimizers
 
 import (
 	"context"
+	"fmt"
 	"math"
 	"math/rand/v2"
 
@@ -43,10 +44,15 @@ func (ExpectedImprovement) Name() string { return "expected improvement" }
 // validate checks the settings.
 func (o ExpectedImprovement) validate() error {
 	const m = "ExpectedImprovement"
+	var within error
+	if budget := or(o.MaxEvaluations, 60); o.InitialSamples > budget {
+		within = settingError(m, "InitialSamples", o.InitialSamples, fmt.Sprintf("must be at most MaxEvaluations (%d)", budget))
+	}
 	return firstError(
 		checkInt(m, "InitialSamples", o.InitialSamples, 3),
 		checkInt(m, "MaxEvaluations", o.MaxEvaluations, 4),
 		checkInt(m, "Candidates", o.Candidates, 10),
+		within,
 	)
 }
 

@@ -2,6 +2,7 @@ package optimizers
 
 import (
 	"context"
+	"fmt"
 	"math/rand"
 
 	"github.com/MaxHalford/eaopt"
@@ -96,6 +97,11 @@ func (o GA) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error) {
 		n, gens, pm = min(max(40*dim, 80), 400), 100, min(1, 2/float64(dim))
 	}
 	n = or(o.Population, n)
+	if o.Tournament > n-1 {
+		// the default population is known only now
+		res, _ := r.finish(mdo.NotStopped, nil)
+		return res, settingError("GA", "Tournament", o.Tournament, fmt.Sprintf("must be less than Population (%d, the default for this study)", n))
+	}
 	k := or(o.Tournament, 2)
 	if k > n-1 {
 		k = n - 1

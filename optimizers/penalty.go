@@ -81,6 +81,9 @@ func (p Penalty) validate(method string) error {
 	if err := checkRange(m, "MaxWeight", p.MaxWeight, 0, 1e300, true); err != nil {
 		return err
 	}
+	if max := or(p.MaxWeight, 1e9); p.Weight > max {
+		return settingError(m, "Weight", p.Weight, fmt.Sprintf("must be at most MaxWeight (%g)", max))
+	}
 	if err := checkInt(m, "OuterIterations", p.OuterIterations, 1); err != nil {
 		return err
 	}

@@ -3,53 +3,176 @@ package optimizers
 import (
 	"context"
 	"errors"
+	"fmt"
+	"math"
+	"reflect"
 	"strings"
 	"testing"
 
 	"couplet/mdo"
 )
 
-// Bad settings are errors naming the setting, its value and what is allowed.
-func TestSettingsValidation(t *testing.T) {
-	cases := []struct {
-		opt  Optimizer
-		want []string
-	}{
-		{NelderMead{MaxEvaluations: -1}, []string{"NelderMead.MaxEvaluations", "-1", ">= 1"}},
-		{NelderMead{SimplexSize: 2}, []string{"NelderMead.SimplexSize", "2", "(0, 1]"}},
-		{NelderMead{Penalty: Penalty{Growth: 0.5}}, []string{"NelderMead.Penalty.Growth", "0.5", "[1, 1e6]"}},
-		{NelderMead{Penalty: Penalty{Method: 7}}, []string{"NelderMead.Penalty.Method", "7", "AugmentedLagrangian or QuadraticPenalty"}},
-		{CMAES{Population: 1}, []string{"CMAES.Population", "1", ">= 2"}},
-		{CMAES{StepSize: -0.1}, []string{"CMAES.StepSize", "-0.1"}},
-		{GA{Evolution: Evolution{Population: 3}}, []string{"GA.Population", "3", ">= 4"}},
-		{GA{Variation: Variation{CrossoverRate: 1.5}}, []string{"GA.CrossoverRate", "1.5", "[0, 1]"}},
-		{GA{Evolution: Evolution{Population: 10}, Tournament: 10}, []string{"GA.Tournament", "10", "less than Population"}},
-		{GA{EqualityHandling: EqualityHandling{Relax: 2}}, []string{"GA.Relax", "2", "at most 1"}},
-		{DifferentialEvolution{Weight: 3}, []string{"DifferentialEvolution.Weight", "3", "(0, 2]"}},
-		{DifferentialEvolution{Repair: 5}, []string{"DifferentialEvolution.Repair", "5", "Clip or Reflect"}},
-		{ParticleSwarm{Inertia: 1.5}, []string{"ParticleSwarm.Inertia", "1.5"}},
-		{NSGA2{Evolution: Evolution{Generations: -2}}, []string{"NSGA2.Generations", "-2"}},
-		{NSGA2{Variation: Variation{MutationRate: -0.1}}, []string{"NSGA2.MutationRate", "-0.1"}},
-		{RandomDesign{Samples: -5}, []string{"RandomDesign.Samples", "-5"}},
-		{LatinHypercube{BatchSize: -1}, []string{"LatinHypercube.BatchSize", "-1"}},
-		{FullFactorial{VariableLevels: map[string]int{"x": 0}}, []string{"FullFactorial.VariableLevels[x]", "0", ">= 1"}},
-		{FullFactorial{Levels: 100, MaxPoints: 1000}, []string{"FullFactorial", "MaxPoints"}},
+// badSetting is a value out of range of a setting: field is its path in
+// the method's settings (an embedded block's fields read as the method's
+// own, a named block's with its name), allowed words of what is allowed;
+// shown is the value as the message gives it when not fmt.Sprint(value).
+type badSetting struct {
+	field   string
+	value   any
+	allowed string
+	shown   string
+}
+
+// badSettings lists values out of range; each applies to every method
+// that has the field.
+var badSettings = []badSetting{
+	{field: "MaxEvaluations", value: -1, allowed: ">= "},
+	{field: "MaxIterations", value: -3, allowed: ">= 1"},
+	{field: "SimplexSize", value: 2.0, allowed: "(0, 1]"},
+	{field: "Tolerance", value: 2.0, allowed: "(0, 1]"},
+	{field: "StallIterations", value: -5, allowed: ">= 1"},
+	{field: "StallGenerations", value: -5, allowed: ">= 1"},
+	{field: "Penalty.Method", value: PenaltyMethod(7), allowed: "AugmentedLagrangian or QuadraticPenalty", shown: "7"},
+	{field: "Penalty.Weight", value: -1.0, allowed: "(0, 1e+12]"},
+	{field: "Penalty.Weight", value: 1e10, allowed: "at most MaxWeight (1e+09)"},
+	{field: "Penalty.Growth", value: 0.5, allowed: "[1, 1e6]"},
+	{field: "Penalty.MaxWeight", value: -1.0, allowed: "(0, 1e+300]"},
+	{field: "Penalty.OuterIterations", value: -1, allowed: ">= 1"},
+	{field: "Penalty.Tolerance", value: 1.5, allowed: "(0, 1]"},
+	{field: "Penalty.ObjectiveScale", value: -2.0, allowed: "must lie in (0, "},
+	{field: "Penalty.FailedValue", value: math.NaN(), allowed: "must lie in (0, "},
+	{field: "Population", value: 1, allowed: ">= "},
+	{field: "StepSize", value: -0.1, allowed: "(0, 10]"},
+	{field: "Generations", value: -2, allowed: ">= 1"},
+	{field: "GradientRate", value: 1.5, allowed: "at most 1"},
+	{field: "Relax", value: 2.0, allowed: "at most 1"},
+	{field: "Tournament", value: -1, allowed: ">= 1"},
+	{field: "Tournament", value: 200, allowed: "less than Population (120, the default for this study)"},
+	{field: "CrossoverRate", value: 1.5, allowed: "[0, 1]"},
+	{field: "CrossoverIndex", value: -1.0, allowed: "(0, 1000]"},
+	{field: "MutationRate", value: -0.1, allowed: "[0, 1]"},
+	{field: "MutationIndex", value: 2000.0, allowed: "(0, 1000]"},
+	{field: "Weight", value: 3.0, allowed: "(0, 2]"},
+	{field: "Repair", value: Repair(5), allowed: "Clip or Reflect", shown: "5"},
+	{field: "Inertia", value: 1.5, allowed: "(0, 1]"},
+	{field: "Cognitive", value: 5.0, allowed: "(0, 4]"},
+	{field: "Social", value: -1.0, allowed: "(0, 4]"},
+	{field: "Samples", value: -5, allowed: ">= 1"},
+	{field: "BatchSize", value: -1, allowed: ">= 1"},
+	{field: "Levels", value: -1, allowed: ">= 1"},
+	{field: "VariableLevels", value: map[string]int{"x": 0}, allowed: ">= 1", shown: "0"},
+	{field: "VariableLevels", value: map[string]int{"wing_area": 3}, allowed: "names no design variable of the study; allowed: x, z1, z2", shown: "3"},
+	{field: "MaxPoints", value: -1, allowed: ">= 1"},
+	{field: "OptimalityTolerance", value: 0.0 - 1, allowed: "(0, 1]"},
+	{field: "FeasibilityTolerance", value: 3.0, allowed: "(0, 1]"},
+	{field: "Starts", value: -2, allowed: ">= 1"},
+	{field: "Parameters", value: []string{"z1"}, allowed: "must name fixed parameters", shown: `"z1"`},
+	{field: "InitialSamples", value: 2, allowed: ">= 3"},
+	{field: "InitialSamples", value: 100, allowed: "at most MaxEvaluations (60)"},
+	{field: "Candidates", value: 5, allowed: ">= 10"},
+}
+
+// anySetting lists the settings every value of which is allowed, and why.
+var anySetting = map[string]string{
+	"CMAES.GradientSteps": "negative means none, 0 the default, a positive value the steps",
+	"Sextant.Restarts":    "negative means none, 0 the default, a positive value the restarts",
+}
+
+// settingMethods is a settings value of every method.
+func settingMethods() []Optimizer {
+	return []Optimizer{NelderMead{}, CMAES{}, GA{}, DifferentialEvolution{}, ParticleSwarm{}, NSGA2{}, Sextant{}, ExpectedImprovement{},
+		RandomDesign{}, LatinHypercube{}, Halton{}, FullFactorial{}}
+}
+
+// settingFields lists the paths of a settings struct's fields (as
+// badSetting.field).
+func settingFields(t reflect.Type, prefix string) []string {
+	var out []string
+	for i := 0; i < t.NumField(); i++ {
+		f := t.Field(i)
+		switch {
+		case !f.IsExported():
+		case f.Type.Kind() == reflect.Struct && f.Anonymous:
+			out = append(out, settingFields(f.Type, prefix)...)
+		case f.Type.Kind() == reflect.Struct:
+			out = append(out, settingFields(f.Type, prefix+f.Name+".")...)
+		default:
+			out = append(out, prefix+f.Name)
+		}
 	}
-	for _, c := range cases {
-		s, err := SellarMDF()
-		if err != nil {
-			t.Fatal(err)
+	return out
+}
+
+// withSetting returns o with the setting at path set to value, and
+// whether o has it.
+func withSetting(o Optimizer, path string, value any) (Optimizer, bool) {
+	v := reflect.New(reflect.TypeOf(o)).Elem()
+	v.Set(reflect.ValueOf(o))
+	f := v
+	for _, name := range strings.Split(path, ".") {
+		if f = f.FieldByName(name); !f.IsValid() {
+			return nil, false
 		}
-		_, err = c.opt.Minimize(context.Background(), s)
-		if err == nil {
-			t.Errorf("%#v: no error", c.opt)
-			continue
+	}
+	f.Set(reflect.ValueOf(value))
+	return v.Interface().(Optimizer), true
+}
+
+// Every setting of every method that is out of range is refused with an
+// error naming the setting (Method.Field), its value and what is allowed;
+// the table covers every field of every method (a setting every value of
+// which is allowed is listed in anySetting with the reason).
+func TestSettingsValidation(t *testing.T) {
+	for _, o := range settingMethods() {
+		typ := reflect.TypeOf(o)
+		covered := map[string]bool{}
+		for _, b := range badSettings {
+			bad, ok := withSetting(o, b.field, b.value)
+			if !ok {
+				continue
+			}
+			covered[b.field] = true
+			setting := typ.Name() + "." + b.field
+			t.Run(setting+"="+fmt.Sprint(b.value), func(t *testing.T) {
+				s, err := SellarMDF()
+				if err != nil {
+					t.Fatal(err)
+				}
+				_, err = bad.Minimize(context.Background(), s)
+				if err == nil {
+					t.Fatalf("%#v: no error", bad)
+				}
+				shown := b.shown
+				if shown == "" {
+					shown = fmt.Sprint(b.value)
+				}
+				for _, w := range []string{setting, shown, b.allowed} {
+					if !strings.Contains(err.Error(), w) {
+						t.Errorf("error %q does not say %q", err, w)
+					}
+				}
+			})
 		}
-		for _, w := range c.want {
-			if !strings.Contains(err.Error(), w) {
-				t.Errorf("%#v: error %q does not mention %q", c.opt, err, w)
+		for _, f := range settingFields(typ, "") {
+			if _, ok := anySetting[typ.Name()+"."+f]; !covered[f] && !ok {
+				t.Errorf("%s.%s: no value out of range in badSettings, nor a reason in anySetting", typ.Name(), f)
 			}
 		}
+	}
+	// the map of a full factorial that names several variables: the
+	// first bad one in order of the names is reported
+	s, err := SellarMDF()
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, err = FullFactorial{VariableLevels: map[string]int{"z2": 0, "x": -1, "z1": 0}}.Minimize(context.Background(), s)
+	if err == nil || !strings.Contains(err.Error(), "VariableLevels[x] = -1") {
+		t.Errorf("error %v, want one naming VariableLevels[x] = -1", err)
+	}
+	// a design too large for MaxPoints names it
+	_, err = FullFactorial{Levels: 100, MaxPoints: 1000}.Minimize(context.Background(), s)
+	if err == nil || !strings.Contains(err.Error(), "MaxPoints = 1000") {
+		t.Errorf("error %v, want one naming MaxPoints = 1000", err)
 	}
 }
 

@@ -178,7 +178,7 @@ func (o Sextant) Explore(ctx context.Context, s *mdo.Study) (*mdo.Result, *Start
 			design = design || d == p
 		}
 		if !s.System.IsParameter(p) || design {
-			err := fmt.Errorf("optimizers: Sextant: Parameters names %q, which is not a fixed parameter of study %q (an input nobody produces that is not a design variable)", p, s.Name)
+			err := settingError("Sextant", "Parameters", fmt.Sprintf("%q", p), fmt.Sprintf("must name fixed parameters of study %q (inputs nobody produces that are not design variables)", s.Name))
 			res, _ := r.finish(mdo.NotStopped, nil)
 			return res, nil, err
 		}
