@@ -4,6 +4,7 @@ import (
 	"flag"
 	"os"
 	"path/filepath"
+	"regexp"
 	"strings"
 	"testing"
 )
@@ -137,4 +138,32 @@ func TestUsageAligned(t *testing.T) {
 			t.Errorf("couplet help does not show --%s in a synopsis and in the list of flags", f.Name)
 		}
 	})
+}
+
+// The README names every flag of the notebook session, couplet run,
+// couplet worker and couplet hub.
+func TestReadmeNamesEveryFlag(t *testing.T) {
+	b, err := os.ReadFile(filepath.Join("..", "..", "..", "README.md"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	readme := string(b)
+	check := func(cmd string, fs *flag.FlagSet) {
+		fs.VisitAll(func(f *flag.Flag) {
+			if !regexp.MustCompile(`--` + regexp.QuoteMeta(f.Name) + `([^a-z-]|$)`).MatchString(readme) {
+				t.Errorf("README.md does not name --%s of %s", f.Name, cmd)
+			}
+		})
+	}
+	check("couplet run", flagSet("run", &settings{}))
+	for _, cmd := range []string{"worker", "hub"} {
+		_, help, _ := runCmd(cmd, "--help")
+		fs := flag.NewFlagSet(cmd, flag.ContinueOnError)
+		for _, l := range strings.Split(help, "\n") {
+			if name, ok := strings.CutPrefix(l, "  --"); ok {
+				fs.Bool(strings.Fields(name)[0], false, "")
+			}
+		}
+		check("couplet "+cmd, fs)
+	}
 }
