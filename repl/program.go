@@ -122,14 +122,18 @@ func (s *Session) runProgram(ctx, hard context.Context, c *Cell, p *cellProgram)
 			// most: a host call may never come back), so that the next
 			// cell does not run beside it.
 			t := time.NewTimer(s.opts.Grace)
+			line := firstLine(c.Source)
 			select {
 			case <-s.exited:
+				// the body has unwound: the line it was on when it
+				// was stopped (a loop that never ends, say) is read
+				// after its last write
+				line = s.runningLine(c, p)
 			case <-t.C:
+				// the body may still be running: its line is not read
 			}
 			t.Stop()
-			// the body may still be running for a moment: its line
-			// is not read
-			return true, s.stopped(ctx, c, firstLine(c.Source))
+			return true, s.stopped(ctx, c, line)
 		}
 		line := s.runningLine(c, p)
 		var pe interp.Panic

@@ -149,7 +149,7 @@ func Run(ctx context.Context, opts RunOptions) (*RunRecord, error) {
 	defer outs.Close()
 	s, err := NewSession(Options{
 		Policy: opts.Policy, Stdout: out, Stderr: errw, NoErrorEcho: true, OutDir: opts.OutDir,
-		Seed: opts.Seed, SeedSet: opts.SeedSet, Progress: opts.Progress, Outputs: outs, Grace: opts.Grace,
+		Seed: opts.Seed, SeedSet: opts.SeedSet, Progress: opts.Progress, Outputs: outs, Grace: opts.Grace, TimeLimit: opts.Timeout,
 		Script: string(text),
 		OnPublish: func(r *mdo.Result) {
 			ev := RunEvent{Kind: "published", Study: r.Study}

@@ -67,6 +67,10 @@ type Options struct {
 	// optimiser returning its best point) before the interpreter is
 	// stopped; default 2 s.
 	Grace time.Duration
+	// TimeLimit is the time limit the caller set on the cells' context
+	// (`couplet run --timeout`), named by the report of a cell it stops;
+	// 0 when there is none or it is not known.
+	TimeLimit time.Duration
 
 	// Kept, if not empty, are the cells of an earlier interpreter of this
 	// session, which died: the session starts with them as its history,
@@ -551,6 +555,9 @@ func (s *Session) reason(ctx context.Context) string {
 	case n > 0:
 		return "interrupted (Ctrl-C)"
 	case errors.Is(ctx.Err(), context.DeadlineExceeded):
+		if s.opts.TimeLimit > 0 {
+			return fmt.Sprintf("the time limit of %v was reached", s.opts.TimeLimit)
+		}
 		return "time limit reached"
 	}
 	return "cancelled"
