@@ -6,6 +6,7 @@ import (
 	"go/token"
 	"go/types"
 	"reflect"
+	"sort"
 	"strconv"
 	"strings"
 )
@@ -98,10 +99,99 @@ func placePanic(v any, cell, line int) any {
 // process, and that is how it can still be placed).
 func (s *Session) repanic(v any, cell, line int) {
 	p := placePanic(v, cell, line)
-	if _, was := asCellPanic(v); !was && s.opts.OnPanicLine != nil {
-		s.opts.OnPanicLine(cell, line)
+	if _, was := asCellPanic(v); !was {
+		if cp, ok := p.(*cellPanic); ok {
+			s.notePanic(cp)
+		}
+		if s.opts.OnPanicLine != nil {
+			s.opts.OnPanicLine(cell, line)
+		}
 	}
 	panic(p)
+}
+
+// A panic of the cells' code that the framework recovers (an objective,
+// a constraint or a discipline that panics fails that evaluation, and
+// the optimiser goes on) leaves the cell running to its end with nothing
+// said; the session keeps each panic placed while a cell runs, forgets
+// those the cells' own recover calls take back, and names what is left
+// when the cell ends (see reportRecovered).
+
+// notePanic keeps a panic placed while the cell runs.
+func (s *Session) notePanic(p *cellPanic) {
+	s.panicMu.Lock()
+	defer s.panicMu.Unlock()
+	if s.panics == nil {
+		s.panics = map[*cellPanic]int{}
+	}
+	s.panics[p] = len(s.panics)
+}
+
+// unplace is what a script's recover call returns (unplacePanic); the
+// panic it takes back is the script's own business, not the framework's.
+func (s *Session) unplace(v any) any {
+	if p, ok := asCellPanic(v); ok {
+		s.panicMu.Lock()
+		delete(s.panics, p)
+		s.panicMu.Unlock()
+	}
+	return unplacePanic(v)
+}
+
+// takePanics returns the panics kept since the last call, oldest first,
+// and forgets them.
+func (s *Session) takePanics() []*cellPanic {
+	s.panicMu.Lock()
+	defer s.panicMu.Unlock()
+	out := make([]*cellPanic, 0, len(s.panics))
+	for p := range s.panics {
+		out = append(out, p)
+	}
+	order := s.panics
+	sort.Slice(out, func(i, j int) bool { return order[out[i]] < order[out[j]] })
+	s.panics = nil
+	return out
+}
+
+// recoveredReport is the note of a cell that ran to its end although
+// code of the cells panicked in calls the framework recovered: how many,
+// and each message and place with its count, the commonest first (at
+// most three). "" when there were none.
+func recoveredReport(cell int, ps []*cellPanic) string {
+	if len(ps) == 0 {
+		return ""
+	}
+	type group struct {
+		text  string
+		count int
+	}
+	var groups []*group
+	byText := map[string]*group{}
+	for _, p := range ps {
+		t := p.Error()
+		g := byText[t]
+		if g == nil {
+			g = &group{text: t}
+			byText[t] = g
+			groups = append(groups, g)
+		}
+		g.count++
+	}
+	sort.SliceStable(groups, func(i, j int) bool { return groups[i].count > groups[j].count })
+	times := "once in a call"
+	if len(ps) > 1 {
+		times = fmt.Sprintf("%d times in calls", len(ps))
+	}
+	var b strings.Builder
+	fmt.Fprintf(&b, "cell %d ran to its end, but code of the cells panicked %s the framework recovered (an objective, constraint or discipline that panics fails the evaluation, and the run goes on):", cell, times)
+	for i, g := range groups {
+		if i == 3 {
+			fmt.Fprintf(&b, "\n  and %d more messages", len(groups)-3)
+			break
+		}
+		fmt.Fprintf(&b, "\n  %d × %s", g.count, g.text)
+	}
+	return b.String()
 }
 
 // unplacePanic is what a script's recover call returns: the value the

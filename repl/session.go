@@ -143,6 +143,11 @@ type Session struct {
 	// ran are the chunks the cells ran, the last ranKept (guarded by mu),
 	// for OnPanicLine
 	ran []ranChunk
+	// panics are the panics of the cells' code placed while the cell
+	// runs and not taken back by its recover calls, numbered in order
+	// (guarded by panicMu; see notePanic)
+	panicMu sync.Mutex
+	panics  map[*cellPanic]int
 }
 
 // NewSession starts a session with a fresh interpreter.
@@ -234,7 +239,7 @@ func (s *Session) reset() error {
 		return fmt.Errorf("repl: loading the cell package: %w", err)
 	}
 	keep := interp.Exports{keepPath + "/keep": {"Value": reflect.ValueOf(s.keepValue), "Show": reflect.ValueOf(s.showValues), "Exited": reflect.ValueOf(s.bodyExited),
-		"Repanic": reflect.ValueOf(s.repanic), "Unplaced": reflect.ValueOf(unplacePanic), "Text": reflect.ValueOf(showText), "Fault": reflect.ValueOf(showError), "ErrorTree": reflect.ValueOf(errorTree)}}
+		"Repanic": reflect.ValueOf(s.repanic), "Unplaced": reflect.ValueOf(s.unplace), "Text": reflect.ValueOf(showText), "Fault": reflect.ValueOf(showError), "ErrorTree": reflect.ValueOf(errorTree)}}
 	if err := it.Use(keep); err != nil {
 		return fmt.Errorf("repl: loading the command package: %w", err)
 	}
@@ -364,7 +369,13 @@ func (s *Session) run(ctx context.Context, c *Cell) {
 	}
 	start := time.Now()
 	s.current = c
+	s.takePanics()
 	c.Err = s.exec(ctx, c)
+	if ps := s.takePanics(); c.Err == nil {
+		if note := recoveredReport(c.Number, ps); note != "" {
+			fmt.Fprintln(s.opts.Stderr, note)
+		}
+	}
 	s.current = nil
 	c.Elapsed = time.Since(start)
 	s.opts.Progress.Close()
