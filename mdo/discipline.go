@@ -30,8 +30,10 @@ type FuncDiscipline struct {
 }
 
 // Func makes a discipline from a function and the names of its inputs and
-// outputs. Variables named only by a string are unbounded with default 1;
-// use FuncVars to give full specifications.
+// outputs. Variables named only by a string are unbounded with default 1,
+// unless another discipline of the system declares them (a variable of
+// the aircraft, say): they then take its specification, unit and range
+// included (see NewSystem). Use FuncVars to give full specifications.
 func Func(name string, inputs, outputs []string, fn ComputeFunc) *FuncDiscipline {
 	return FuncVars(name, Specs(inputs...), Specs(outputs...), fn)
 }

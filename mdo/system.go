@@ -63,6 +63,13 @@ type group struct {
 	tearNames      []string // names of the coupling variables
 }
 
+// nameOnly reports whether v declares a variable by its name alone: no
+// unit, description, validity range or scale (its default aside), as
+// Func and Specs declare one.
+func nameOnly(v Var) bool {
+	return v.Unit == "" && v.Description == "" && v.Unbounded() && v.Scale == 0
+}
+
 // scaled returns d, the change of coupling variable k, in units of its
 // scale: d/scale, computed as d·(1/scale) when that is exact (pow2).
 func (g *group) scaled(k int, d float64) float64 {
@@ -74,7 +81,11 @@ func (g *group) scaled(k int, d float64) float64 {
 
 // NewSystem builds a System from disciplines. Each variable must have
 // exactly one producer; a second producer is an error naming both.
-// Variables declared by several disciplines must agree on their unit.
+// Variables declared by several disciplines must agree on their unit,
+// except that a variable one of them declares by its name alone (no
+// unit, description, range or scale, as Func and Specs declare it)
+// takes the specification another gives it: a discipline written in a
+// few lines with Func reads and feeds the variables of a larger model.
 func NewSystem(ds ...Discipline) (*System, error) {
 	if len(ds) == 0 {
 		return nil, fmt.Errorf("mdo: NewSystem needs at least one discipline")
@@ -95,6 +106,13 @@ func NewSystem(ds ...Discipline) (*System, error) {
 			return len(specs) - 1, nil
 		}
 		if specs[i].Unit != v.Unit {
+			switch {
+			case nameOnly(v):
+				return i, nil // the specification given elsewhere holds
+			case nameOnly(specs[i]):
+				specs[i] = v
+				return i, nil
+			}
 			return 0, fmt.Errorf("mdo: variable %s declared in unit %q by discipline %s but in %q elsewhere", v.Name, v.Unit, d.Name(), specs[i].Unit)
 		}
 		if produced {
