@@ -199,8 +199,12 @@ const boundTol = 1e-8
 func (s *sqp) optimality(p *sqpPoint, d, gl, lam []float64, ineq []int) float64 {
 	measure := 0.0
 	for j, v := range gl {
-		lower := p.u[j] <= boundTol || p.u[j]+d[j] <= boundTol
-		upper := p.u[j] >= 1-boundTol || p.u[j]+d[j] >= 1-boundTol
+		// the step's end decides only for a short step: a long one
+		// that reaches a bound says the variable should go there, not
+		// that it is held there (its gradient is not a multiplier)
+		short := math.Abs(d[j]) <= boundTol
+		lower := p.u[j] <= boundTol || (short && p.u[j]+d[j] <= boundTol)
+		upper := p.u[j] >= 1-boundTol || (short && p.u[j]+d[j] >= 1-boundTol)
 		if (lower && v > 0) || (upper && v < 0) {
 			continue
 		}
