@@ -127,8 +127,9 @@ func checklistClass(mach, seats float64) AircraftClass {
 // at most CLmax,clean/1.3 (CruiseManoeuvreMargin), the wing's divergence
 // dynamic pressure at least 1.15² times the dive's (14 CFR 25.629(b),
 // DivergenceEnvelopeFactor), and for a supersonic cruise the
-// leading edge behind the Mach cone and a take-off lift-to-drag ratio of
-// about 5 (all common practice, no source); the layout clearances of the
+// leading edge behind the Mach cone, a take-off lift-to-drag ratio of
+// about 5 and a wing thickness ratio of about 3–5 % (all common
+// practice, no source); the layout clearances of the
 // wing and tails (layout.go); the seats abreast of 14 CFR 25.817; the fuel
 // in the tanks; the operating empty mass per seat and the empty-mass
 // fraction against the statistics of the aircraft's class (inferred from
@@ -189,6 +190,10 @@ func DesignChecklist(get func(name string) (float64, bool)) Checklist {
 		if v, ok := val("aero.ld_takeoff"); ok {
 			band("take-off lift-to-drag ratio of a slender supersonic wing", v[0], "", 4, 6, "about 5 (4–6)",
 				"far from the slender-wing value: look at the low-speed polar", commonPractice)
+		}
+		if v, ok := val("wing.thickness_ratio"); ok {
+			band("thickness ratio of a supersonic cruise wing", 100*v[0], "%", 2.5, 5.5, "about 3–5 (2.5–5.5)",
+				"a thick wing pays volume wave drag as (t/c)²; a thinner one than this is hard to build stiff", commonPractice)
 		}
 	}
 	if v, ok := val("aero.cl_cruise", "aero.cl_max_clean"); ok && v[1] > 0 {

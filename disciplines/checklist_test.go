@@ -24,14 +24,14 @@ func checklistBase() map[string]float64 {
 		"mass.empty": 19500, "mass.crew": 190, "mass.takeoff": 36000, "cabin.passengers": 12,
 		"aero.cl_cruise": 0.15, "aero.cl_max_clean": 0.5,
 		"stability.divergence_dynamic_pressure": 1e9, "dive.dynamic_pressure": 40000,
-		"aero.ld_cruise": 9, "engine.tsfc_cruise": 2.9e-5, "perf.takeoff_field_length": 2200, "perf.landing_field_length": 1800,
+		"wing.thickness_ratio": 0.03, "aero.ld_cruise": 9, "engine.tsfc_cruise": 2.9e-5, "perf.takeoff_field_length": 2200, "perf.landing_field_length": 1800,
 	}
 }
 
 func TestDesignChecklistFlags(t *testing.T) {
 	// Each rule of thumb flags a value outside its band (static margin
 	// 5–15 % MAC, fineness 10–15, upsweep 10–25°, subsonic leading edge,
-	// take-off L/D about 5, layout clearances, cruise CL at most
+	// take-off L/D about 5, supersonic wing t/c about 3–5 %, layout clearances, cruise CL at most
 	// CLmax,clean/1.3: common practice, no source; 14 CFR 25.817; empty masses against their class).
 	tests := []struct {
 		name string
@@ -45,6 +45,7 @@ func TestDesignChecklistFlags(t *testing.T) {
 		{"long thin tail cone", map[string]float64{"fuselage.tail_length": 14}, "aft-fuselage upsweep for rotation clearance"},
 		{"supersonic leading edge", map[string]float64{"wing.sweep_le": 30}, "leading edge behind the Mach cone (β·cot|Λ_LE|)"},
 		{"take-off L/D of a fat wing", map[string]float64{"aero.ld_takeoff": 8}, "take-off lift-to-drag ratio of a slender supersonic wing"},
+		{"thick supersonic wing", map[string]float64{"wing.thickness_ratio": 0.07}, "thickness ratio of a supersonic cruise wing"},
 		{"tail over the wing", map[string]float64{"layout.wing_tail_clearance": -2}, "gap from the wing trailing edge to the tail leading edge"},
 		{"tail as wide as the wing", map[string]float64{"layout.tail_span_ratio": 1.02}, "horizontal-tail span over wing span"},
 		{"wing past the fuselage end", map[string]float64{"layout.wing_overhang": 1.2}, "wing behind the fuselage end"},
