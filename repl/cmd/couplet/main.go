@@ -51,6 +51,7 @@ import (
 
 	"github.com/chzyer/readline"
 
+	"couplet/mdo"
 	"couplet/repl"
 )
 
@@ -372,13 +373,22 @@ func interpret(opts repl.RunOptions, sp *spreadSettings, file, out string, stdou
 		}
 		return 1
 	}
+	fmt.Fprintf(stderr, "%s; wrote %s\n", doneLine(file, rec), out)
+	return 0
+}
+
+// doneLine is the last line of a run that ended without an error: the
+// cells, the evaluations, the best objective and whether it is feasible
+// (when it is not, the constraint it violates most, as scaled, with its
+// value: the line a headless run leaves says why), the size of a front.
+func doneLine(file string, rec *repl.RunRecord) string {
 	line := fmt.Sprintf("couplet run: %s: %d cells", filepath.Base(file), len(rec.Cells))
 	if s := rec.Summary; s != nil {
 		line += fmt.Sprintf(", %d evaluations", s.Evaluations)
 		if s.Best != nil {
 			state := "feasible"
 			if !s.Best.Feasible {
-				state = "infeasible"
+				state = "infeasible" + worstViolation(rec.Result)
 			}
 			line += fmt.Sprintf(", best objective %.6g (%s)", float64(s.Best.Objective), state)
 		}
@@ -386,8 +396,38 @@ func interpret(opts repl.RunOptions, sp *spreadSettings, file, out string, stdou
 			line += fmt.Sprintf(", front of %d points", len(s.Front))
 		}
 	}
-	fmt.Fprintf(stderr, "%s; wrote %s\n", line, out)
-	return 0
+	return line
+}
+
+// worstViolation names the constraint the best point of r violates most
+// (by its scaled violation) with its value, and how many it violates:
+// "; worst of 2 violated: perf.takeoff_field_length <= 600 at 1308.62 m".
+// "" when there is nothing to name.
+func worstViolation(r *mdo.Result) string {
+	if r == nil || r.Best == nil || len(r.Best.G) != len(r.Constraints) || len(r.Best.Constraints) != len(r.Constraints) {
+		return ""
+	}
+	if !r.Best.Converged {
+		return "; its analysis failed: " + r.Best.Err
+	}
+	worst, n := -1, 0
+	for i, g := range r.Best.G {
+		if g > 0 {
+			n++
+			if worst < 0 || g > r.Best.G[worst] {
+				worst = i
+			}
+		}
+	}
+	if worst < 0 {
+		return ""
+	}
+	c := r.Constraints[worst]
+	value := fmt.Sprintf("%.6g", r.Best.Constraints[worst])
+	if u := r.Unit(c.Name); u != "" && u != "-" {
+		value += " " + u
+	}
+	return fmt.Sprintf("; worst of %d violated: %s at %s", n, c, value)
 }
 
 // historyFile is where the notebook keeps its input history.
