@@ -414,7 +414,7 @@ func (s *Session) exec(ctx context.Context, c *Cell) error {
 	prog, terr := s.transform(c)
 	var te *typeCheckError
 	if errors.As(terr, &te) && !te.interpreterMay() {
-		return &CellError{Cell: c.Number, Line: te.line, Kind: "compile", Msg: te.msg + renamedHint(te.msg, lineOf(c.Source, te.line)), Err: terr}
+		return &CellError{Cell: c.Number, Line: te.line, Kind: "compile", Msg: te.msg + renamedHint(te.msg, lineOf(c.Source, te.line)) + s.nearHint(te.msg), Err: terr}
 	}
 	if terr == nil {
 		ran, err := s.runProgram(ctx, hard, c, prog)
@@ -428,7 +428,7 @@ func (s *Session) exec(ctx context.Context, c *Cell) error {
 			var ce *CellError
 			if errors.As(err, &ce) && ce.Kind == "compile" {
 				// the type check names the real cause and its line
-				return &CellError{Cell: c.Number, Line: te.line, Kind: "compile", Msg: te.msg + renamedHint(te.msg, lineOf(c.Source, te.line)) + s.genericHint(te.msg), Err: err}
+				return &CellError{Cell: c.Number, Line: te.line, Kind: "compile", Msg: te.msg + renamedHint(te.msg, lineOf(c.Source, te.line)) + s.genericHint(te.msg) + s.nearHint(te.msg), Err: err}
 			}
 		}
 		if ce, ok := terr.(*CellError); ok {
@@ -607,7 +607,7 @@ func (s *Session) cellError(c *Cell, ch chunk, err error, trace string) error {
 	}
 	msg = cleanMessage(msg)
 	if lines := strings.Split(ch.src, "\n"); line-ch.line >= 0 && line-ch.line < len(lines) {
-		msg += renamedHint(msg, lines[line-ch.line])
+		msg += renamedHint(msg, lines[line-ch.line]) + s.nearHint(msg)
 	}
 	return &CellError{Cell: c.Number, Line: line, Kind: "compile", Msg: msg, Err: err}
 }
