@@ -74,3 +74,19 @@ func commonestFailures(st *store.Store, n int) ([]FailureReason, error) {
 	}
 	return reasons, nil
 }
+
+// allFailedNote is what a session says of a result a cell published
+// whose every evaluation failed (a constraint that is NaN everywhere, an
+// analysis that never closes): the cell ran to its end, and the result,
+// which the cell need not show, has no point to speak of. "" for a
+// result with a point that did not fail.
+func allFailedNote(cell int, r *mdo.Result) string {
+	if r == nil || r.Evaluations == 0 || r.Failed < r.Evaluations {
+		return ""
+	}
+	note := fmt.Sprintf("cell %d published the result of study %q, every one of whose %d evaluations failed", cell, r.Study, r.Evaluations)
+	if r.Best != nil && r.Best.Err != "" {
+		note += ": " + r.Best.Err
+	}
+	return note
+}

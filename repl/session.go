@@ -370,10 +370,19 @@ func (s *Session) run(ctx context.Context, c *Cell) {
 	start := time.Now()
 	s.current = c
 	s.takePanics()
+	published := len(s.env.Published())
 	c.Err = s.exec(ctx, c)
 	if ps := s.takePanics(); c.Err == nil {
 		if note := recoveredReport(c.Number, ps); note != "" {
 			fmt.Fprintln(s.opts.Stderr, note)
+		}
+	}
+	if c.Err == nil && !s.opts.NoErrorEcho {
+		// a headless run says it of its result itself (AllFailedError)
+		for _, r := range s.env.Published()[published:] {
+			if note := allFailedNote(c.Number, r); note != "" {
+				fmt.Fprintln(s.opts.Stderr, note)
+			}
 		}
 	}
 	s.current = nil
