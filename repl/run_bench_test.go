@@ -6,6 +6,7 @@ import (
 	"os"
 	"path/filepath"
 	"testing"
+	"time"
 
 	"couplet/mdo/store"
 )
@@ -14,8 +15,10 @@ import (
 // of population 100 over 99 generations in place of its Nelder–Mead
 // (about 9 400 analyses) into a fresh folder: the whole run, results.db,
 // evaluations.csv, figures and report included. It reports the sizes of
-// results.db and evaluations.csv per evaluation, the evaluations and
-// the discipline calls of their analyses.
+// results.db and evaluations.csv per evaluation, the evaluations, the
+// discipline calls of their analyses and the time of the writing of the
+// folder (from the "writing" event of RunOptions.Watch, after the last
+// cell, to the return of Run, the stores closed).
 func BenchmarkBusinessJetGARun(b *testing.B) {
 	src, err := os.ReadFile(filepath.Join("..", "studies", "business_jet.study"))
 	if err != nil {
@@ -32,12 +35,26 @@ func BenchmarkBusinessJetGARun(b *testing.B) {
 	}
 	b.ReportAllocs()
 	var dbPerEval, csvPerEval, evaluations, calls float64
+	var writing time.Duration
+	runs := 0
 	for b.Loop() {
 		dir := filepath.Join(b.TempDir(), "out")
-		rec, err := Run(context.Background(), RunOptions{File: file, OutDir: dir})
+		var began time.Time
+		watch := func(ev RunEvent) {
+			if ev.Kind == "writing" {
+				began = time.Now()
+			}
+		}
+		rec, err := Run(context.Background(), RunOptions{File: file, OutDir: dir, Watch: watch})
+		ended := time.Now()
 		if err != nil {
 			b.Fatal(err)
 		}
+		if began.IsZero() {
+			b.Fatal("Run did not say when it began writing the folder")
+		}
+		writing += ended.Sub(began)
+		runs++
 		if rec.Result == nil {
 			b.Fatal("the study handed over no result")
 		}
@@ -57,6 +74,7 @@ func BenchmarkBusinessJetGARun(b *testing.B) {
 	b.ReportMetric(csvPerEval, "csv-bytes/evaluation")
 	b.ReportMetric(evaluations, "evaluations")
 	b.ReportMetric(calls, "discipline-calls")
+	b.ReportMetric(float64(writing.Microseconds())/1000/float64(runs), "writing-ms/op")
 }
 
 // runFileSize returns the size of the one file called name in a result
