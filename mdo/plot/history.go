@@ -219,7 +219,7 @@ func AddScatter(p *plot.Plot, xys plotter.XYs, c color.Color, shape draw.GlyphDr
 	s.GlyphStyle.Color = c
 	s.GlyphStyle.Shape = shape
 	s.GlyphStyle.Radius = vg.Points(2)
-	p.Add(s)
+	p.Add(markers{s})
 	p.Legend.Add(name, s)
 	return nil
 }
@@ -236,7 +236,7 @@ func AddLine(p *plot.Plot, xys plotter.XYs, c color.Color, width float64, name s
 	}
 	l.LineStyle.Color = c
 	l.LineStyle.Width = vg.Points(width)
-	p.Add(l)
+	p.Add(lines{l})
 	if name != "" {
 		p.Legend.Add(name, l)
 	}

@@ -71,7 +71,7 @@ func ParallelCoordinates(r *mdo.Result, evs []*mdo.Evaluation) (*Figure, error) 
 		if l == nil {
 			continue
 		}
-		p.Add(l)
+		p.Add(lines{l})
 		if e.Feasible && feasLeg == nil {
 			feasLeg = l
 		} else if !e.Feasible && infeasLeg == nil {
@@ -90,7 +90,7 @@ func ParallelCoordinates(r *mdo.Result, evs []*mdo.Evaluation) (*Figure, error) 
 			return nil, fmt.Errorf("plot: parallel coordinates of the best point: %w", err)
 		}
 		if l != nil {
-			p.Add(l)
+			p.Add(lines{l})
 			p.Legend.Add(fmt.Sprintf("best #%d", r.Best.ID), l)
 		}
 	}
@@ -100,7 +100,7 @@ func ParallelCoordinates(r *mdo.Result, evs []*mdo.Evaluation) (*Figure, error) 
 			return nil, err
 		}
 		l.LineStyle.Color = color.Black
-		p.Add(l)
+		p.Add(lines{l})
 	}
 	w := max(16*vg.Centimeter, vg.Length(len(cols))*2.6*vg.Centimeter)
 	return NewFigure("parallel_coordinates", p.Title.Text, w, 11*vg.Centimeter, func(dc draw.Canvas) { p.Draw(dc) }), nil
