@@ -94,20 +94,7 @@ func parseNumbers(what, s string, n int) ([]float64, error) {
 	return out, nil
 }
 
-// formatFloat formats x for CSV so that parseFloat gives it back exactly.
-func formatFloat(x float64) string {
-	switch {
-	case math.IsNaN(x):
-		return "NaN"
-	case math.IsInf(x, 1):
-		return "Infinity"
-	case math.IsInf(x, -1):
-		return "-Infinity"
-	}
-	return strconv.FormatFloat(x, 'g', -1, 64)
-}
-
-// parseFloat reads a number written by formatFloat (or any Go float).
+// parseFloat reads a number written by appendCSVFloat (or any Go float).
 func parseFloat(s string) (float64, error) {
 	switch s {
 	case "NaN", "nan", "":

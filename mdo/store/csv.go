@@ -1,6 +1,7 @@
 package store
 
 import (
+	"bufio"
 	"encoding/csv"
 	"fmt"
 	"io"
@@ -8,6 +9,8 @@ import (
 	"strconv"
 	"strings"
 	"time"
+	"unicode"
+	"unicode/utf8"
 
 	"couplet/mdo"
 )
@@ -84,27 +87,44 @@ func (c Columns) header(outputs bool) []string {
 }
 
 // csvWriter writes one CSV export: the header, then a row per
-// evaluation.
+// evaluation. Each row is formatted into one buffer (the numbers
+// appended in place, a text field quoted as encoding/csv quotes it) and
+// written at once: the file is the same, byte for byte, as one written
+// by a csv.Writer, without a string per number.
 type csvWriter struct {
 	c       Columns
 	outputs bool
-	cw      *csv.Writer
-	row     []string
+	w       *bufio.Writer
+	line    []byte
 }
 
 // newCSVWriter writes the header of an export of columns c to w.
 func newCSVWriter(w io.Writer, c Columns, opt CSVOptions) (*csvWriter, error) {
-	x := &csvWriter{c: c, outputs: opt.AllOutputs, cw: csv.NewWriter(w)}
-	if err := x.cw.Write(c.header(x.outputs)); err != nil {
-		return nil, fmt.Errorf("store: writing CSV: %w", err)
+	x := &csvWriter{c: c, outputs: opt.AllOutputs, w: bufio.NewWriterSize(w, 64<<10)}
+	for i, h := range c.header(x.outputs) {
+		if i > 0 {
+			x.line = append(x.line, ',')
+		}
+		x.line = appendCSVField(x.line, h)
+	}
+	if err := x.end(); err != nil {
+		return nil, err
 	}
 	return x, nil
 }
 
 // write writes the row of one evaluation.
 func (x *csvWriter) write(e *mdo.Evaluation) error {
-	x.row = x.c.appendRow(x.row[:0], e, x.outputs)
-	if err := x.cw.Write(x.row); err != nil {
+	x.line = x.c.appendRow(x.line, e, x.outputs)
+	return x.end()
+}
+
+// end writes the line formatted and empties it.
+func (x *csvWriter) end() error {
+	x.line = append(x.line, '\n')
+	_, err := x.w.Write(x.line)
+	x.line = x.line[:0]
+	if err != nil {
 		return fmt.Errorf("store: writing CSV: %w", err)
 	}
 	return nil
@@ -112,20 +132,80 @@ func (x *csvWriter) write(e *mdo.Evaluation) error {
 
 // flush ends the export.
 func (x *csvWriter) flush() error {
-	x.cw.Flush()
-	if err := x.cw.Error(); err != nil {
+	if err := x.w.Flush(); err != nil {
 		return fmt.Errorf("store: writing CSV: %w", err)
 	}
 	return nil
 }
 
-// appendRow formats one evaluation, with its outputs if outputs.
-func (c Columns) appendRow(row []string, e *mdo.Evaluation, outputs bool) []string {
-	row = append(row, strconv.Itoa(e.ID), strconv.FormatBool(e.Feasible), strconv.FormatBool(e.Converged),
-		formatFloat(e.Violation), e.Err, strconv.Itoa(e.CouplingIterations), strconv.Itoa(e.DisciplineCalls), formatFloat(e.Wall.Seconds()))
+// appendCSVField appends a text field as encoding/csv's Writer (comma
+// ',', no CRLF) writes it: in double quotes, each quote doubled, if it
+// holds a comma, quote, CR or LF, begins with a space or is \. ;
+// verbatim otherwise.
+func appendCSVField(b []byte, field string) []byte {
+	if !csvNeedsQuotes(field) {
+		return append(b, field...)
+	}
+	b = append(b, '"')
+	for i := 0; i < len(field); i++ {
+		if field[i] == '"' {
+			b = append(b, '"')
+		}
+		b = append(b, field[i])
+	}
+	return append(b, '"')
+}
+
+// csvNeedsQuotes is encoding/csv's rule for a field with the comma ','.
+func csvNeedsQuotes(field string) bool {
+	if field == "" {
+		return false
+	}
+	if field == `\.` {
+		return true
+	}
+	if strings.ContainsAny(field, ",\"\r\n") {
+		return true
+	}
+	r1, _ := utf8.DecodeRuneInString(field)
+	return unicode.IsSpace(r1)
+}
+
+// appendCSVFloat appends x so that parseFloat gives it back exactly:
+// the shortest decimal, NaN, Infinity or -Infinity (never quoted).
+func appendCSVFloat(b []byte, x float64) []byte {
+	switch {
+	case math.IsNaN(x):
+		return append(b, "NaN"...)
+	case math.IsInf(x, 1):
+		return append(b, "Infinity"...)
+	case math.IsInf(x, -1):
+		return append(b, "-Infinity"...)
+	}
+	return strconv.AppendFloat(b, x, 'g', -1, 64)
+}
+
+// appendRow formats one evaluation as a CSV line (without its end), with
+// its outputs if outputs.
+func (c Columns) appendRow(b []byte, e *mdo.Evaluation, outputs bool) []byte {
+	b = strconv.AppendInt(b, int64(e.ID), 10)
+	b = append(b, ',')
+	b = strconv.AppendBool(b, e.Feasible)
+	b = append(b, ',')
+	b = strconv.AppendBool(b, e.Converged)
+	b = append(b, ',')
+	b = appendCSVFloat(b, e.Violation)
+	b = append(b, ',')
+	b = appendCSVField(b, e.Err)
+	b = append(b, ',')
+	b = strconv.AppendInt(b, int64(e.CouplingIterations), 10)
+	b = append(b, ',')
+	b = strconv.AppendInt(b, int64(e.DisciplineCalls), 10)
+	b = append(b, ',')
+	b = appendCSVFloat(b, e.Wall.Seconds())
 	for _, xs := range [][]float64{e.Design, e.Objectives, e.Constraints, e.Margins} {
 		for _, x := range xs {
-			row = append(row, formatFloat(x))
+			b = appendCSVFloat(append(b, ','), x)
 		}
 	}
 	for i := range c.Outputs {
@@ -133,18 +213,17 @@ func (c Columns) appendRow(row []string, e *mdo.Evaluation, outputs bool) []stri
 			break
 		}
 		// a failed analysis has no outputs: its cells stay empty
-		cell := ""
+		b = append(b, ',')
 		if i < len(e.Outputs) {
-			cell = formatFloat(e.Outputs[i])
+			b = appendCSVFloat(b, e.Outputs[i])
 		}
-		row = append(row, cell)
 	}
 	for _, xs := range [][]float64{e.X, e.F, e.G} {
 		for _, x := range xs {
-			row = append(row, formatFloat(x))
+			b = appendCSVFloat(append(b, ','), x)
 		}
 	}
-	return row
+	return b
 }
 
 // WriteCSV streams the store's evaluations, in the order they were
