@@ -61,8 +61,10 @@ type IndexResult struct {
 // report are also linked into dir as results.db and report.html (hard
 // links, or copies where the file system has none), so that dir holds
 // the principal result's summary, case store and report under the names
-// a single result gives them. Nothing is read or written through a
-// symbolic link. It returns the files written.
+// a single result gives them. The linked or copied results.db is a
+// complete database on its own once the result's run has ended (see
+// store.LinkFile), before its store is closed. Nothing is read or
+// written through a symbolic link. It returns the files written.
 func WriteIndex(dir string, entries []IndexEntry) ([]string, error) {
 	if len(entries) == 0 {
 		return nil, fmt.Errorf("report: an index of no results in %s", dir)
@@ -109,13 +111,23 @@ func WriteIndex(dir string, entries []IndexEntry) ([]string, error) {
 			continue // the principal result has none (a report left out)
 		}
 		dst := filepath.Join(dir, name)
-		if err := runfolder.LinkFile(src, dst); err != nil {
+		link := runfolder.LinkFile
+		if name == StoreFile {
+			link = linkStore
+		}
+		if err := link(src, dst); err != nil {
 			return written, fmt.Errorf("report: the principal result's %s: %w", name, err)
 		}
 		written = append(written, dst)
 	}
 	return written, nil
 }
+
+// linkStore links the principal result's case store into the script's
+// folder: a hard link, or a copy SQLite makes, complete even while the
+// store is open (store.LinkFile). The tests make it store.CopyFile, as
+// on a file system without hard links.
+var linkStore = store.LinkFile
 
 // Listed returns the results a script's folder dir lists once entries
 // are written into it, in the order of its index:

@@ -309,3 +309,58 @@ func TestReadFileFollowsNoLink(t *testing.T) {
 		t.Errorf("ReadFile of a folder: %v, want a refusal", err)
 	}
 }
+
+// LinkFileWith links, or copies where asked (NoHardLink) with the
+// caller's Copy or the bytes; a copy is a file of its own, and a failed
+// copy leaves dst as it was and no temporary file behind.
+func TestLinkFileWith(t *testing.T) {
+	failed := errors.New("the copy failed")
+	tests := []struct {
+		name    string
+		opt     LinkOptions
+		linked  bool   // dst is src's file
+		want    string // dst's content
+		wantErr error
+	}{
+		{name: "hard link", opt: LinkOptions{}, linked: true, want: "the store"},
+		{name: "bytes copied", opt: LinkOptions{NoHardLink: true}, want: "the store"},
+		{name: "the caller's copy", opt: LinkOptions{NoHardLink: true, Copy: func(src, tmp string) error {
+			b, err := os.ReadFile(src)
+			if err != nil {
+				return err
+			}
+			return os.WriteFile(tmp, append(b, " (copied)"...), 0o644)
+		}}, want: "the store (copied)"},
+		{name: "a failed copy", opt: LinkOptions{NoHardLink: true, Copy: func(src, tmp string) error { return failed }}, want: "old", wantErr: failed},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			dir := t.TempDir()
+			src, dst := filepath.Join(dir, "sub-results.db"), filepath.Join(dir, "results.db")
+			if err := os.WriteFile(src, []byte("the store"), 0o644); err != nil {
+				t.Fatal(err)
+			}
+			if err := os.WriteFile(dst, []byte("old"), 0o644); err != nil {
+				t.Fatal(err)
+			}
+			err := LinkFileWith(src, dst, tc.opt)
+			if !errors.Is(err, tc.wantErr) {
+				t.Fatalf("error %v, want %v", err, tc.wantErr)
+			}
+			if b, _ := os.ReadFile(dst); string(b) != tc.want {
+				t.Errorf("%s holds %q, want %q", dst, b, tc.want)
+			}
+			a, _ := os.Stat(src)
+			b, _ := os.Stat(dst)
+			if os.SameFile(a, b) != tc.linked {
+				t.Errorf("dst is src's file: %v, want %v", os.SameFile(a, b), tc.linked)
+			}
+			if fi, err := os.Stat(dst); err == nil && fi.Mode().Perm() != 0o644 {
+				t.Errorf("%s has permissions %v, want 0644", dst, fi.Mode().Perm())
+			}
+			if entries, _ := os.ReadDir(dir); len(entries) != 2 {
+				t.Errorf("the folder holds %d entries, want src and dst alone (no temporary file left)", len(entries))
+			}
+		})
+	}
+}

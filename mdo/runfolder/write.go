@@ -65,7 +65,30 @@ func WriteFileFrom(path string, write func(io.Writer) error) error {
 // and renamed over dst, so that a link named dst is replaced, its target
 // untouched. Where the file system refuses hard links (another device,
 // no support), src's bytes are copied instead, as WriteFile writes them.
-func LinkFile(src, dst string) error {
+// A file another process may still be writing (a SQLite database with
+// its write-ahead log) is linked with LinkFileWith and a Copy that knows
+// its format.
+func LinkFile(src, dst string) error { return LinkFileWith(src, dst, LinkOptions{}) }
+
+// LinkOptions change what LinkFileWith does where it cannot make a hard
+// link.
+type LinkOptions struct {
+	// Copy, if not nil, makes the copy where no hard link is made: it
+	// writes src's content into tmp, a new, empty file (permissions
+	// 0644) in dst's folder, which is then renamed over dst. nil copies
+	// src's bytes.
+	Copy func(src, tmp string) error
+	// NoHardLink copies even where the file system could link, so that
+	// dst is a file of its own that does not change with src.
+	NoHardLink bool
+}
+
+// LinkFileWith is LinkFile with options: dst names the same file as
+// src (a hard link renamed over dst) or, where the file system refuses
+// hard links or opt.NoHardLink asks for a copy, a copy made by opt.Copy,
+// renamed over dst. Neither follows a symbolic link named dst; a failed
+// copy leaves dst as it was and no temporary file behind.
+func LinkFileWith(src, dst string, opt LinkOptions) error {
 	dir, name := filepath.Split(dst)
 	if dir == "" {
 		dir = "."
@@ -82,20 +105,59 @@ func LinkFile(src, dst string) error {
 		return fmt.Errorf("runfolder: linking %s: %w", dst, err)
 	}
 	tmpName := tmp.Name()
-	tmp.Close()
-	os.Remove(tmpName)
-	if err := os.Link(src, tmpName); err != nil {
-		data, rerr := os.ReadFile(src)
-		if rerr != nil {
-			return fmt.Errorf("runfolder: linking %s: %w", dst, rerr)
+	if !opt.NoHardLink {
+		tmp.Close()
+		os.Remove(tmpName)
+		if err := os.Link(src, tmpName); err == nil {
+			if err := os.Rename(tmpName, dst); err != nil {
+				os.Remove(tmpName)
+				return fmt.Errorf("runfolder: linking %s: %w", dst, err)
+			}
+			return nil
 		}
-		return WriteFile(dst, data)
+		// no hard link here: a copy, into a new temporary file
+		if tmp, err = os.CreateTemp(dir, "."+name+".tmp-*"); err != nil {
+			return fmt.Errorf("runfolder: linking %s: %w", dst, err)
+		}
+		tmpName = tmp.Name()
+	}
+	fail := func(err error) error {
+		os.Remove(tmpName)
+		return fmt.Errorf("runfolder: copying %s to %s: %w", src, dst, err)
+	}
+	if err := tmp.Chmod(0o644); err != nil {
+		tmp.Close()
+		return fail(err)
+	}
+	if opt.Copy == nil {
+		err = copyBytes(src, tmp)
+		if cerr := tmp.Close(); err == nil {
+			err = cerr
+		}
+	} else {
+		if err = tmp.Close(); err == nil {
+			err = opt.Copy(src, tmpName)
+		}
+	}
+	if err != nil {
+		return fail(err)
 	}
 	if err := os.Rename(tmpName, dst); err != nil {
-		os.Remove(tmpName)
-		return fmt.Errorf("runfolder: linking %s: %w", dst, err)
+		return fail(err)
 	}
 	return nil
+}
+
+// copyBytes copies the bytes of the regular file src (not through a
+// symbolic link) into f.
+func copyBytes(src string, f *os.File) error {
+	in, err := os.OpenFile(src, os.O_RDONLY|syscall.O_NOFOLLOW, 0)
+	if err != nil {
+		return err
+	}
+	defer in.Close()
+	_, err = io.Copy(f, in)
+	return err
 }
 
 // ReadFile reads a file of a run folder, never through a symbolic link:

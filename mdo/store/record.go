@@ -370,7 +370,9 @@ func (s *Store) bind(rows []encRow) []driver.NamedValue {
 
 // End commits the last evaluations and writes the run's outcome: stop
 // reason, counters, best point, the objectives' senses, the constraints'
-// relations and the Pareto front.
+// relations and the Pareto front. Then it copies the write-ahead log
+// into the file, so that the file alone holds the whole run before
+// Close (see LinkFile).
 func (s *Store) End(r *mdo.Result) error {
 	if err := s.usable(); err != nil {
 		return err
@@ -446,6 +448,16 @@ func (s *Store) End(r *mdo.Result) error {
 	})
 	if err != nil {
 		s.err = fmt.Errorf("store: %s: ending the run: %w", s.path, err)
+		return s.err
+	}
+	// the log goes into the file now, not at Close: the file alone (the
+	// hard link or copy a script's folder makes of it, see LinkFile)
+	// holds the whole run even while the store stays open, and so does a
+	// file left by a process that dies before Close (PASSIVE: a reader
+	// of another connection is not waited for)
+	var busy, logPages, done int
+	if err := s.conn.QueryRowContext(ctx, "PRAGMA wal_checkpoint(PASSIVE)").Scan(&busy, &logPages, &done); err != nil {
+		s.err = fmt.Errorf("store: %s: copying the log into the file: %w", s.path, err)
 		return s.err
 	}
 	s.ended = true
