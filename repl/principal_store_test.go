@@ -5,46 +5,22 @@ import (
 	"database/sql"
 	"os"
 	"path/filepath"
+	"reflect"
 	"strings"
 	"testing"
 
 	"couplet/mdo"
 	"couplet/mdo/report"
+	"couplet/mdo/runfolder"
+	"couplet/mdo/store"
 )
 
-// interruptedCells are a Sellar optimisation that says "interrupt" at
-// its fifth iteration (the test cancels the run then) and publishes the
-// result it comes back with.
-const interruptedCells = `
-//~ cell 1
-import (
-	"fmt"
-
-	"couplet/mdo"
-	"couplet/optimizers"
-	"couplet/repl/cell"
-)
-
-study, err := mdo.SellarStudy(mdo.MDF)
-if err != nil {
-	panic(err)
-}
-study.Seed = 2
-study.Workers = 1
-study.Progress = func(p mdo.Progress) {
-	if p.Iteration == 5 {
-		fmt.Println("interrupt")
-	}
-}
-if err := cell.Attach(study); err != nil {
-	panic(err)
-}
-result, err := optimizers.NelderMead{MaxEvaluations: 400}.Minimize(cell.Context(), study)
-if err != nil {
-	panic(err)
-}
-cell.Publish(result)
-`
+// interruptedCells are sellarCells with a budget of 400 evaluations,
+// saying "interrupt" at the optimiser's fifth iteration (the test
+// cancels the run then).
+var interruptedCells = strings.NewReplacer("import (\n", "import (\n\t\"fmt\"\n",
+	"study.Workers = 1\n", "study.Workers = 1\nstudy.Progress = func(p mdo.Progress) {\n\tif p.Iteration == 5 {\n\t\tfmt.Println(\"interrupt\")\n\t}\n}\n",
+	"MaxEvaluations: 30", "MaxEvaluations: 400").Replace(sellarCells)
 
 // principalRecord is what a folder's results.db, read alone, says of
 // its run.
@@ -57,12 +33,8 @@ type principalRecord struct {
 // without its write-ahead log).
 func readAlone(t *testing.T, path string) principalRecord {
 	t.Helper()
-	b, err := os.ReadFile(path)
-	if err != nil {
-		t.Fatal(err)
-	}
 	alone := filepath.Join(t.TempDir(), "alone.db")
-	if err := os.WriteFile(alone, b, 0o644); err != nil {
+	if err := runfolder.LinkFileWith(path, alone, runfolder.LinkOptions{NoHardLink: true}); err != nil {
 		t.Fatal(err)
 	}
 	db, err := sql.Open("sqlite", "file:"+alone+"?mode=ro")
@@ -100,6 +72,54 @@ func wantPrincipalAgrees(t *testing.T, dir string) {
 	if want := (principalRecord{rows: idx.Evaluations, bestID: best, stop: idx.Stop}); top != want {
 		t.Errorf("results.db says %+v, summary.json %+v", top, want)
 	}
+	sum, err := report.ReadRecord(filepath.Join(dir, idx.Principal, report.SummaryFile))
+	if err != nil {
+		t.Fatal(err)
+	}
+	wantSameRecord(t, filepath.Join(dir, StoreFile), sum)
+}
+
+// wantSameRecord checks that the store at path holds the run record a
+// result's summary.json gives: the caution, the optimiser's settings,
+// the coupling solvers, the constraints as declared, the stop and its
+// detail, the tool version and the script's hash.
+func wantSameRecord(t *testing.T, path string, sum report.Record) {
+	t.Helper()
+	st, err := store.Open(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer st.Close()
+	meta, _ := st.Run()
+	rec, err := st.StoredRecord()
+	if err != nil {
+		t.Fatal(err)
+	}
+	var defs []report.ConstraintDefinition
+	for _, c := range rec.Constraints {
+		defs = append(defs, report.ConstraintDefinition{Name: c.Name, Relation: c.String(), Unit: c.Unit})
+	}
+	for _, d := range []struct {
+		what      string
+		got, want any
+	}{
+		{"caution", rec.Caution, sum.Caution},
+		{"optimiser settings", meta.Settings, sum.OptimizerSettings},
+		{"coupling solvers", rec.CouplingSolvers, sum.CouplingSolvers},
+		{"coupling solver note", rec.SolverNote, sum.SolverNote},
+		{"constraints as declared", defs, sum.ConstraintDefinitions},
+		{"stop", meta.Stop.String(), sum.Stop},
+		{"stop detail", rec.StopDetail, sum.StopDetail},
+		{"tool version", meta.ToolVersion, sum.ToolVersion},
+		{"script SHA-256", meta.ScriptSHA256, sum.ScriptSHA256},
+	} {
+		if !reflect.DeepEqual(d.got, d.want) {
+			t.Errorf("%s: %s says %v, summary.json %v", d.what, filepath.Base(path), d.got, d.want)
+		}
+	}
+	if rec.Caution == "" || len(rec.CouplingSolvers) == 0 || len(defs) == 0 {
+		t.Errorf("%s holds no caution, coupling solver or constraint: %+v", path, rec)
+	}
 }
 
 // The folder's results.db is the principal result's, complete on its
@@ -110,6 +130,32 @@ func TestPrincipalStoreAgreesWithSummary(t *testing.T) {
 		dir := filepath.Join(t.TempDir(), "out")
 		if stderr, err := runInto(t, context.Background(), writeStudy(t, "finished", sellarCells), dir, nil); err != nil {
 			t.Fatalf("%v\n%s", err, stderr)
+		}
+		wantPrincipalAgrees(t, dir)
+	})
+	t.Run("written from the stores", func(t *testing.T) {
+		// the interpreter died before it wrote the folder: the folder is
+		// written from the case stores alone, which give the coupling
+		// solvers and the stop detail (before, its record said the
+		// solvers were "not recorded")
+		dir := filepath.Join(t.TempDir(), "out")
+		file := writeStudy(t, "finished", sellarCells)
+		if stderr, err := runInto(t, context.Background(), file, dir, nil); err != nil {
+			t.Fatalf("%v\n%s", err, stderr)
+		}
+		idx, err := report.ReadIndex(dir)
+		if err != nil {
+			t.Fatal(err)
+		}
+		sub := filepath.Join(dir, idx.Principal)
+		for _, p := range []string{filepath.Join(dir, report.SummaryFile), filepath.Join(sub, report.SummaryFile), filepath.Join(dir, StoreFile)} {
+			if err := os.Remove(p); err != nil {
+				t.Fatal(err)
+			}
+		}
+		text, _ := os.ReadFile(file)
+		if _, err := WriteStored(context.Background(), dir, string(text), []string{filepath.Join(sub, StoreFile)}, nil, false); err != nil {
+			t.Fatal(err)
 		}
 		wantPrincipalAgrees(t, dir)
 	})

@@ -370,7 +370,34 @@ func (r *runRecorder) Begin(info mdo.RunInfo) error {
 	r.o.mu.Unlock()
 	r.path = ""
 	r.cur = s
-	return s.Begin(info)
+	if err := s.Begin(info); err != nil {
+		return err
+	}
+	// results.db keeps the record summary.json and the report give: the
+	// caution, the goals as declared and the coupling solvers
+	rec := store.RunRecord{Caution: report.Caution, CouplingSolvers: snap.solvers, SolverNote: snap.note}
+	if st := r.o.study(r.study); st != nil {
+		// those of the run's (the run adds IDF's consistency constraints,
+		// whose relations End writes)
+		for _, o := range st.Objectives {
+			if slices.Contains(info.Objectives, o.Name) {
+				rec.Objectives = append(rec.Objectives, o)
+			}
+		}
+		for _, c := range st.Constraints {
+			if slices.Contains(info.Constraints, c.Name) {
+				rec.Constraints = append(rec.Constraints, c)
+			}
+		}
+	}
+	return s.SetRunRecord(rec)
+}
+
+// study returns the study of a name (nil if none was attached).
+func (o *RunOutputs) study(name string) *mdo.Study {
+	o.mu.Lock()
+	defer o.mu.Unlock()
+	return o.studies[name]
 }
 
 func (r *runRecorder) Record(e *mdo.Evaluation) error {

@@ -19,8 +19,9 @@ import (
 // results the folder held before (a @report of the session, say: see
 // report.WriteIndex). script is the study file's text. The study's
 // system died with that process, so the design structure matrix is left
-// out, and the coupling solvers are those an earlier report of the run
-// recorded in its folder (else its record says they were not at hand);
+// out, and the coupling solvers are those the store recorded (a store
+// written before it kept them: those an earlier report of the run
+// recorded in its folder, else its record says they were not at hand);
 // figures drawn from the result
 // alone (the aircraft drawings of its best design) are kept. figures nil
 // takes DefaultFigures; allOutputs writes every output to the CSV files
@@ -62,9 +63,12 @@ func writeStored(ctx context.Context, dir, script, path string, figures []report
 	}
 	run := report.Run{Result: r, Store: st, Script: script, ToolVersion: toolVersion(), ScatterMatrix: isDOE(r), Figures: figures, AllOutputs: allOutputs}
 	// the study's system died with the interpreter: the coupling solvers
-	// are those an earlier writing of this run's folder recorded (a
-	// @report), if any
-	if old, err := report.ReadRecord(filepath.Join(filepath.Dir(path), report.SummaryFile)); err == nil {
+	// are those the store recorded as the run began, else (a store
+	// written before it kept them) those an earlier writing of this run's
+	// folder recorded (a @report), if any
+	if rec, err := st.StoredRecord(); err == nil && (len(rec.CouplingSolvers) > 0 || rec.SolverNote != "") {
+		run.Solvers, run.SolverNote = rec.CouplingSolvers, rec.SolverNote
+	} else if old, err := report.ReadRecord(filepath.Join(filepath.Dir(path), report.SummaryFile)); err == nil {
 		now := store.NewSummary(r, store.SummaryOptions{})
 		if old.Study == now.Study && old.Seed == now.Seed && old.Timestamps.Started == now.Timestamps.Started && (len(old.CouplingSolvers) > 0 || old.SolverNote != "") {
 			run.Solvers, run.SolverNote = old.CouplingSolvers, old.SolverNote

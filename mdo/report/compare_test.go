@@ -28,6 +28,15 @@ import (
 // folder dir/folder with WriteRun; it returns the index entry.
 func gridRun(t *testing.T, dir, folder, name string, design []mdo.DesignVar, cons []mdo.Constraint, fixed map[string]float64, points [][]float64) IndexEntry {
 	t.Helper()
+	e, db := gridRunOpen(t, dir, folder, name, design, cons, fixed, points)
+	db.Close()
+	return e
+}
+
+// gridRunOpen is gridRun with the case store left open after End (the
+// test closes it), as a session keeps it until it closes its stores.
+func gridRunOpen(t *testing.T, dir, folder, name string, design []mdo.DesignVar, cons []mdo.Constraint, fixed map[string]float64, points [][]float64) (IndexEntry, *store.Store) {
+	t.Helper()
 	st, err := mdo.SellarStudy(mdo.MDF)
 	if err != nil {
 		t.Fatal(err)
@@ -44,7 +53,7 @@ func gridRun(t *testing.T, dir, folder, name string, design []mdo.DesignVar, con
 	if err != nil {
 		t.Fatal(err)
 	}
-	defer db.Close()
+	t.Cleanup(func() { db.Close() })
 	st.Recorder = db
 	ev, err := st.NewEvaluator()
 	if err != nil {
@@ -67,7 +76,7 @@ func gridRun(t *testing.T, dir, folder, name string, design []mdo.DesignVar, con
 	if err != nil {
 		t.Fatal(err)
 	}
-	return IndexEntry{Folder: folder, Summary: s}
+	return IndexEntry{Folder: folder, Summary: s}, db
 }
 
 // twoResults writes a script's folder with two results of the Sellar

@@ -1,74 +1,22 @@
 package report
 
 import (
-	"context"
 	"database/sql"
 	"os"
 	"path/filepath"
 	"testing"
 
 	"couplet/mdo"
+	"couplet/mdo/runfolder"
 	"couplet/mdo/store"
 )
-
-// openGridRun is gridRun on the Sellar problem with the store left
-// open after End (as a session keeps it until it closes its stores):
-// it returns the entry and the number of evaluations.
-func openGridRun(t *testing.T, dir, folder string, n int) (IndexEntry, int) {
-	t.Helper()
-	st, err := mdo.SellarStudy(mdo.MDF)
-	if err != nil {
-		t.Fatal(err)
-	}
-	st.Name, st.Seed, st.Workers = folder, 3, 1
-	sub := filepath.Join(dir, folder)
-	if err := os.MkdirAll(sub, 0o755); err != nil {
-		t.Fatal(err)
-	}
-	db, err := store.Create(filepath.Join(sub, StoreFile), store.Options{})
-	if err != nil {
-		t.Fatal(err)
-	}
-	t.Cleanup(func() { db.Close() })
-	st.Recorder = db
-	ev, err := st.NewEvaluator()
-	if err != nil {
-		t.Fatal(err)
-	}
-	if err := ev.Begin("grid", nil); err != nil {
-		t.Fatal(err)
-	}
-	var points [][]float64
-	for i := 0; i < n; i++ {
-		points = append(points, []float64{float64(i%10) / 10, float64(i/10%10) / 10, float64(i/100) / 10})
-	}
-	if _, err := ev.Evaluate(context.Background(), points); err != nil {
-		t.Fatal(err)
-	}
-	r, err := ev.Finish(mdo.StopBudget)
-	if err != nil {
-		t.Fatal(err)
-	}
-	if _, err := WriteRun(context.Background(), sub, Run{Result: r, Study: st, Store: db}); err != nil {
-		t.Fatal(err)
-	}
-	rec, err := ReadRecord(filepath.Join(sub, SummaryFile))
-	if err != nil {
-		t.Fatal(err)
-	}
-	return IndexEntry{Folder: folder, Summary: rec}, r.Evaluations
-}
 
 // rowsAlone counts the evaluations of the store file path read on its
 // own, copied into a folder without its write-ahead log.
 func rowsAlone(t *testing.T, path string) int {
 	t.Helper()
-	b, err := os.ReadFile(path)
-	if err != nil {
-		t.Fatal(err)
-	}
 	alone := filepath.Join(t.TempDir(), "alone.db")
-	if err := os.WriteFile(alone, b, 0o644); err != nil {
+	if err := runfolder.LinkFileWith(path, alone, runfolder.LinkOptions{NoHardLink: true}); err != nil {
 		t.Fatal(err)
 	}
 	db, err := sql.Open("sqlite", "file:"+alone+"?mode=ro")
@@ -99,7 +47,13 @@ func TestWriteIndexLinksACompleteStore(t *testing.T) {
 			defer func(was func(src, dst string) error) { linkStore = was }(linkStore)
 			linkStore = tc.link
 			dir := t.TempDir()
-			e, n := openGridRun(t, dir, "wing", 300)
+			var points [][]float64
+			for i := 0; i < 300; i++ {
+				points = append(points, []float64{float64(i%10) / 10, float64(i/10%10) / 10, float64(i/100) / 10})
+			}
+			e, _ := gridRunOpen(t, dir, "wing", "wing",
+				[]mdo.DesignVar{mdo.Continuous("x", 0, 10), mdo.Continuous("z1", -10, 10), mdo.Continuous("z2", 0, 10)}, nil, nil, points)
+			n := e.Summary.Evaluations
 			if _, err := WriteIndex(dir, []IndexEntry{e}); err != nil {
 				t.Fatal(err)
 			}
@@ -113,8 +67,8 @@ func TestWriteIndexLinksACompleteStore(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			if got != n || idx.Evaluations != n {
-				t.Errorf("results.db holds %d evaluations, summary.json says %d; the run made %d", got, idx.Evaluations, n)
+			if got != len(points) || idx.Evaluations != n || n != len(points) {
+				t.Errorf("results.db holds %d evaluations, summary.json says %d; the run made %d", got, idx.Evaluations, len(points))
 			}
 		})
 	}

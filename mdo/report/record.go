@@ -37,19 +37,8 @@ type Record struct {
 }
 
 // CouplingSolver is the solver of one coupled group of a study's system
-// (mdo.SolverSettings).
-type CouplingSolver struct {
-	// Disciplines are the group's disciplines in execution order.
-	Disciplines   []string     `json:"disciplines"`
-	Method        string       `json:"method"`
-	Tolerance     store.Number `json:"tolerance"`
-	MaxIterations int          `json:"max_iterations"`
-	Relaxation    store.Number `json:"relaxation"`
-	// Fallback says whether a failed solve runs the fallback chain.
-	Fallback      bool `json:"fallback"`
-	FromReference bool `json:"from_reference,omitempty"`
-	Exhaustive    bool `json:"exhaustive,omitempty"`
-}
+// (mdo.SolverSettings), as results.db keeps it too.
+type CouplingSolver = store.CouplingSolver
 
 // ConstraintDefinition is a constraint as the study declared it.
 type ConstraintDefinition struct {

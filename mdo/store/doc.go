@@ -48,8 +48,47 @@
 //	iterations(n, session, optimizer, iteration, evaluations, best,
 //	          feasible, violation, at)
 //	front(eval_id, rank)            the Pareto front of a multi-objective run
+//	run_record(key, value)          the run's record beside the run table,
+//	                                as summary.json and report.html give it:
+//	                                caution, stop_detail
+//	                                (mdo.Result.StopDetail, written at End),
+//	                                coupling_solver_note (why there is no
+//	                                coupled group's solver), notes (the
+//	                                study's provenance notes, a JSON array);
+//	                                an empty entry is absent
+//	coupling_solvers(n, disciplines, method, tolerance, max_iterations,
+//	          relaxation, fallback, from_reference, exhaustive)
+//	                                one row per coupled group of the system
+//	                                as the run began (disciplines: a JSON
+//	                                array in execution order)
+//	run_summary                     a view, one row: study, seed, optimizer,
+//	                                formulation, stop, stop_detail,
+//	                                evaluations, analyses, picked_up,
+//	                                repeats, failed, best_id, caution,
+//	                                coupling_solver_note, script_sha256,
+//	                                tool_version, started, ended,
+//	                                elapsed_seconds
+//	optimizer_settings(name, value) a view of run.settings, one row each
+//	constraint_definitions(position, name, relation, kind, lower, upper,
+//	          tolerance, scale, unit)
+//	                                a view of the constraints as declared
+//	                                (relation: "g1 >= 3.16")
 //
-// So SELECT "design:z1", "objective:f" FROM evaluations
+// The run's caution, goals (objectives' senses, constraints' relations)
+// and coupling solvers are written as it begins (Store.SetRunRecord),
+// its outcome (run.stop and the counters, best_id, stop_detail, the
+// front) at End; Store.StoredRecord and Store.Result read them back. A
+// run picked up keeps its record, and has no outcome again until its
+// next End: a session killed before it leaves a run that did not end.
+// Stores written before the run record's tables read (their record is
+// the goals of the variables table alone); picked up, they get the
+// tables. End also copies the write-ahead log into the file, so that
+// the file alone holds the whole run before Close: a script's folder
+// shows its principal result's store under a second name with
+// LinkFile, a hard link or a copy SQLite makes (CopyFile).
+//
+// So SELECT stop, stop_detail, evaluations FROM run_summary says how
+// the run ended, SELECT "design:z1", "objective:f" FROM evaluations
 // WHERE feasible works as it reads, and so does SELECT name, value, unit
 // FROM outputs WHERE eval_id = (SELECT best_id FROM run). A row of
 // evaluation_data keeps each value in a REAL column of its own, which

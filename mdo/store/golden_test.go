@@ -86,6 +86,26 @@ func goldenEval(i int) *mdo.Evaluation {
 	return e
 }
 
+// goldenRecord is the run record of the golden run: the caution, the
+// goals as declared (every other constraint with a tolerance and a
+// scale) and two coupled groups' solvers, one with a NaN tolerance.
+func goldenRecord(info mdo.RunInfo) RunRecord {
+	rec := RunRecord{Caution: "Conceptual estimates: not for certification, flight or airworthiness decisions.",
+		Objectives: []mdo.Objective{mdo.Minimize(info.Objectives[0])}}
+	for k, c := range info.Constraints {
+		if k%2 == 0 {
+			rec.Constraints = append(rec.Constraints, mdo.AtMost(c, float64(k)))
+		} else {
+			rec.Constraints = append(rec.Constraints, mdo.AtLeast(c, -float64(k)))
+		}
+	}
+	rec.CouplingSolvers = []CouplingSolver{
+		{Disciplines: []string{"aero", "weights", "propulsion"}, Method: "gauss-seidel", Tolerance: 1e-8, MaxIterations: 50, Relaxation: 0.7, Fallback: true},
+		{Disciplines: []string{"mission"}, Method: "newton", Tolerance: Number(math.NaN()), MaxIterations: 20, Relaxation: 1, FromReference: true, Exhaustive: true},
+	}
+	return rec
+}
+
 // writeGoldenRun writes the golden run into a new store at path.
 func writeGoldenRun(t *testing.T, path string) {
 	t.Helper()
@@ -95,6 +115,9 @@ func writeGoldenRun(t *testing.T, path string) {
 	}
 	info := goldenRun()
 	if err := s.Begin(info); err != nil {
+		t.Fatal(err)
+	}
+	if err := s.SetRunRecord(goldenRecord(info)); err != nil {
 		t.Fatal(err)
 	}
 	const n = goldenRows
@@ -122,6 +145,8 @@ func writeGoldenRun(t *testing.T, path string) {
 		}
 	}
 	res.EvalCounters = mdo.EvalCounters{Evaluations: n, Analyses: n, Failed: 11, DisciplineCalls: 3600, CouplingIterations: 975}
+	res.StopDetail = "the budget of 75 evaluations was spent before the simplex converged"
+	res.Notes = []string{"fixed parameters from the calibration of 2 January", "a note with \"quotes\", a tab\tand ünïcode"}
 	if err := s.End(res); err != nil {
 		t.Fatal(err)
 	}
@@ -157,23 +182,7 @@ func TestStoreFileUnchanged(t *testing.T) {
 		t.Logf("rewrote %s", goldenFile)
 		return
 	}
-	golden := filepath.Join(t.TempDir(), "golden.db")
-	f, err := os.Open(goldenFile)
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	zr, err := gzip.NewReader(f)
-	if err != nil {
-		t.Fatal(err)
-	}
-	var b bytes.Buffer
-	if _, err := b.ReadFrom(zr); err != nil {
-		t.Fatal(err)
-	}
-	if err := os.WriteFile(golden, b.Bytes(), 0o644); err != nil {
-		t.Fatal(err)
-	}
+	golden := gunzipTo(t, goldenFile)
 	want, got := dumpStore(t, golden), dumpStore(t, path)
 	for _, q := range storeQueries(t, golden) {
 		w, g := want[q], got[q]
@@ -223,7 +232,7 @@ func readEvaluations(t *testing.T, path string) []*mdo.Evaluation {
 var maskedColumns = map[string]bool{
 	"run.started": true, "run.ended": true, "run.go_version": true,
 	"sessions.started": true, "sessions.ended": true, "sessions.go_version": true,
-	"iterations.at": true,
+	"iterations.at": true, "run_summary.started": true, "run_summary.ended": true,
 }
 
 // storeQueries lists the SELECTs that dump a store: the schema, then

@@ -7,6 +7,7 @@ import (
 	"time"
 
 	"couplet/mdo"
+	"couplet/mdo/runfolder"
 )
 
 // countAlone counts the evaluation rows of the store file path read on
@@ -15,12 +16,8 @@ import (
 // copied out of the run folder is read).
 func countAlone(t *testing.T, path string) int {
 	t.Helper()
-	b, err := os.ReadFile(path)
-	if err != nil {
-		t.Fatal(err)
-	}
 	alone := filepath.Join(t.TempDir(), "alone.db")
-	if err := os.WriteFile(alone, b, 0o644); err != nil {
+	if err := runfolder.LinkFileWith(path, alone, runfolder.LinkOptions{NoHardLink: true}); err != nil {
 		t.Fatal(err)
 	}
 	_, rows := queryAll(t, alone, "SELECT count(*) FROM evaluation_data")

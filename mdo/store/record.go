@@ -69,6 +69,20 @@ func (s *Store) Begin(info mdo.RunInfo) error {
 				return err
 			}
 		}
+		if pickingUp {
+			// the run goes on: its outcome is the next End's (a session
+			// killed before it leaves a run that did not end, whose
+			// counters count its rows, not an earlier session's outcome)
+			if _, err := s.conn.ExecContext(ctx, `UPDATE run SET ended = NULL, stop = NULL, elapsed_seconds = NULL, evaluations = NULL, analyses = NULL, `+
+				s.names.repeats+` = NULL, `+s.names.pickedUp+` = NULL, failed = NULL, discipline_calls = NULL, coupling_iterations = NULL, best_id = NULL WHERE id = 1`); err != nil {
+				return err
+			}
+			if !s.noRecord {
+				if err := s.setRecordValue(ctx, keyStopDetail, ""); err != nil {
+					return err
+				}
+			}
+		}
 		res, err := s.conn.ExecContext(ctx, `INSERT INTO sessions (started, tool_version, go_version, `+s.names.pickedUpRows+`) VALUES (?, ?, ?, ?)`,
 			now, s.opt.ToolVersion, goVersion(), s.rows)
 		if err != nil {
@@ -81,7 +95,9 @@ func (s *Store) Begin(info mdo.RunInfo) error {
 	if err != nil {
 		return fmt.Errorf("store: %s: beginning the run: %w", s.path, err)
 	}
-	if !pickingUp {
+	if pickingUp {
+		s.meta.Ended, s.meta.Stop = time.Time{}, mdo.NotStopped
+	} else {
 		s.meta = &RunMeta{Study: info.Study, Script: info.Script, ScriptSHA256: ScriptHash(info.Script), ToolVersion: s.opt.ToolVersion,
 			GoVersion: goVersion(), Seed: info.Seed, Optimizer: info.Optimizer, Formulation: info.Formulation.String(),
 			Settings: nonNil(info.Settings), Started: started}
@@ -412,29 +428,11 @@ func (s *Store) End(r *mdo.Result) error {
 		if r == nil {
 			return nil
 		}
-		for k, o := range r.Objectives {
-			rel := "minimise"
-			if o.Maximize {
-				rel = "maximise"
-			}
-			if _, err := s.conn.ExecContext(ctx, `UPDATE variables SET relation = ? WHERE role = 'objective' AND position = ?`, rel, k); err != nil {
-				return err
-			}
+		if err := s.writeGoals(ctx, r.Objectives, r.Constraints, false); err != nil {
+			return err
 		}
-		for k, c := range r.Constraints {
-			var lo, hi any
-			switch c.Kind {
-			case mdo.LessEqual:
-				hi = c.Upper
-			case mdo.GreaterEqual, mdo.Equal:
-				lo = c.Lower
-			default:
-				lo, hi = c.Lower, c.Upper
-			}
-			if _, err := s.conn.ExecContext(ctx, `UPDATE variables SET relation = ?, kind = ?, lower = ?, upper = ?, tolerance = ?, scale = ? WHERE role = 'constraint' AND position = ?`,
-				c.String(), c.Kind.String(), lo, hi, c.Tolerance, c.Scale, k); err != nil {
-				return err
-			}
+		if err := s.writeOutcome(ctx, r); err != nil {
+			return err
 		}
 		if _, err := s.conn.ExecContext(ctx, `DELETE FROM front`); err != nil {
 			return err

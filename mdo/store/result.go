@@ -15,7 +15,9 @@ import (
 // point is the stored one if the run ended, else the best recorded by
 // Deb's rules; the history is replayed from the evaluations in ID order;
 // the counters are the stored ones if the run ended, else they count the
-// rows. Constraints of a run that never ended have unknown bounds (NaN).
+// rows. The goals, stop detail and notes are the run record's
+// (StoredRecord): the constraints of a run that neither had its record
+// set (SetRunRecord) nor ended have unknown bounds (NaN).
 func (s *Store) Result() (*mdo.Result, error) {
 	meta, ok := s.Run()
 	if !ok {
@@ -31,9 +33,11 @@ func (s *Store) Result() (*mdo.Result, error) {
 		r.Formulation = mdo.IDF
 	}
 	ctx := context.Background()
-	if err := s.loadGoals(ctx, r); err != nil {
+	rec, err := s.StoredRecord()
+	if err != nil {
 		return nil, err
 	}
+	r.Objectives, r.Constraints, r.StopDetail, r.Notes = rec.Objectives, rec.Constraints, rec.StopDetail, rec.Notes
 	byID := map[int]*mdo.Evaluation{}
 	var best *mdo.Evaluation
 	for i, e := range evs {

@@ -121,6 +121,9 @@ type Store struct {
 	// noFailure marks a store written before evaluation_data had its
 	// failure column, opened read-only (see failureColumn).
 	noFailure bool
+	// noRecord marks a store written before the run record's tables,
+	// opened read-only (see recordTables).
+	noRecord bool
 
 	w         *writer // the background writer, between Begin and End
 	keptMu    sync.Mutex
@@ -226,7 +229,7 @@ func Create(path string, opt Options) (*Store, error) {
 		}
 	}
 	err = s.inTx(func() error {
-		if _, err := conn.ExecContext(ctx, fixedSchema); err != nil {
+		if _, err := conn.ExecContext(ctx, fixedSchema+recordSchema+recordViews(s.names)); err != nil {
 			return err
 		}
 		_, err := conn.ExecContext(ctx, `INSERT INTO store_info (key, value) VALUES ('format', ?), ('schema_version', ?), ('created', ?)`,
@@ -276,6 +279,10 @@ func openExisting(path string, opt Options, readOnly bool) (*Store, error) {
 		return nil, err
 	}
 	if err := s.loadMeta(); err != nil {
+		s.Close()
+		return nil, err
+	}
+	if err := s.recordTables(); err != nil {
 		s.Close()
 		return nil, err
 	}
