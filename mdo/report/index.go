@@ -4,8 +4,10 @@ import (
 	"bytes"
 	"cmp"
 	"encoding/json"
+	"errors"
 	"fmt"
 	"html/template"
+	"io/fs"
 	"os"
 	"path/filepath"
 	"slices"
@@ -61,10 +63,12 @@ type IndexResult struct {
 // report are also linked into dir as results.db and report.html (hard
 // links, or copies where the file system has none), so that dir holds
 // the principal result's summary, case store and report under the names
-// a single result gives them. The linked or copied results.db is a
-// complete database on its own once the result's run has ended (see
-// store.LinkFile), before its store is closed. Nothing is read or
-// written through a symbolic link. It returns the files written.
+// a single result gives them; where the principal result has no case
+// store (or no report), dir has none either: an earlier principal's is
+// removed. The linked or copied results.db is a complete database on
+// its own once the result's run has ended (see store.LinkFile), before
+// its store is closed. Nothing is read or written through a symbolic
+// link. It returns the files written.
 func WriteIndex(dir string, entries []IndexEntry) ([]string, error) {
 	if len(entries) == 0 {
 		return nil, fmt.Errorf("report: an index of no results in %s", dir)
@@ -107,10 +111,18 @@ func WriteIndex(dir string, entries []IndexEntry) ([]string, error) {
 	written := []string{p, q}
 	for _, name := range []string{StoreFile, ReportFile} {
 		src := filepath.Join(dir, last.Folder, name)
-		if _, err := os.Lstat(src); err != nil {
-			continue // the principal result has none (a report left out)
-		}
 		dst := filepath.Join(dir, name)
+		if _, err := os.Lstat(src); err != nil {
+			// the principal result has none (no store recorded its run, a
+			// report left out): an earlier principal's would stand beside
+			// this one's summary
+			for _, old := range []string{dst, dst + "-wal", dst + "-shm"} {
+				if err := os.Remove(old); err != nil && !errors.Is(err, fs.ErrNotExist) {
+					return written, fmt.Errorf("report: removing the earlier principal result's %s: %w", name, err)
+				}
+			}
+			continue
+		}
 		link := runfolder.LinkFile
 		if name == StoreFile {
 			link = linkStore

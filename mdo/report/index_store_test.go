@@ -1,7 +1,10 @@
 package report
 
 import (
+	"context"
 	"database/sql"
+	"errors"
+	"io/fs"
 	"os"
 	"path/filepath"
 	"testing"
@@ -71,5 +74,56 @@ func TestWriteIndexLinksACompleteStore(t *testing.T) {
 				t.Errorf("results.db holds %d evaluations, summary.json says %d; the run made %d", got, idx.Evaluations, len(points))
 			}
 		})
+	}
+}
+
+// A principal result without a case store (no store recorded its run)
+// leaves the script's folder without results.db: before, the earlier
+// principal's stayed, beside a summary.json of another result.
+func TestWriteIndexDropsAnEarlierPrincipalsStore(t *testing.T) {
+	dir := t.TempDir()
+	a := sellarGrid(t, dir, "wing", "wing", [][]float64{{0.1, 0.7, 0.2}, {0.05, 0.6, 0.05}})
+	if _, err := WriteIndex(dir, []IndexEntry{a}); err != nil {
+		t.Fatal(err)
+	}
+	if _, err := os.Stat(filepath.Join(dir, StoreFile)); err != nil {
+		t.Fatalf("the first principal's results.db: %v", err)
+	}
+	// a result no store recorded
+	st, err := mdo.SellarStudy(mdo.MDF)
+	if err != nil {
+		t.Fatal(err)
+	}
+	st.Name, st.Workers = "tail", 1
+	ev, err := st.NewEvaluator()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, err := ev.Evaluate(context.Background(), [][]float64{{0.2, 0.65, 0.1}}); err != nil {
+		t.Fatal(err)
+	}
+	r, err := ev.Finish(mdo.StopBudget)
+	if err != nil {
+		t.Fatal(err)
+	}
+	sub := filepath.Join(dir, "tail")
+	if _, err := WriteRun(context.Background(), sub, Run{Result: r, Study: st}); err != nil {
+		t.Fatal(err)
+	}
+	rec, err := ReadRecord(filepath.Join(sub, SummaryFile))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, err := WriteIndex(dir, []IndexEntry{{Folder: "tail", Summary: rec}}); err != nil {
+		t.Fatal(err)
+	}
+	if idx, _ := ReadIndex(dir); idx.Principal != "tail" {
+		t.Fatalf("principal %q, want tail", idx.Principal)
+	}
+	if _, err := os.Lstat(filepath.Join(dir, StoreFile)); !errors.Is(err, fs.ErrNotExist) {
+		t.Errorf("results.db of the earlier principal is left beside the summary of one without a store (%v)", err)
+	}
+	if _, err := os.Stat(filepath.Join(dir, ReportFile)); err != nil {
+		t.Errorf("the principal's report.html: %v", err)
 	}
 }
