@@ -54,8 +54,11 @@
 //	                                (mdo.Result.StopDetail, written at End),
 //	                                coupling_solver_note (why there is no
 //	                                coupled group's solver), notes (the
-//	                                study's provenance notes, a JSON array);
-//	                                an empty entry is absent
+//	                                study's provenance notes, a JSON array),
+//	                                surrogates (the surrogate models the
+//	                                numbers come from, a JSON array of
+//	                                objects discipline, model, outputs,
+//	                                affects); an empty entry is absent
 //	coupling_solvers(n, disciplines, method, tolerance, max_iterations,
 //	          relaxation, fallback, from_reference, exhaustive)
 //	                                one row per coupled group of the system
@@ -76,8 +79,8 @@
 //
 // The run's caution, goals (objectives' senses, constraints' relations)
 // and coupling solvers are written as it begins (Store.SetRunRecord),
-// its outcome (run.stop and the counters, best_id, stop_detail, the
-// front) at End; Store.StoredRecord and Store.Result read them back. A
+// its outcome (run.stop and the counters, best_id, stop_detail, notes,
+// surrogates, the front) at End; Store.StoredRecord and Store.Result read them back. A
 // run picked up keeps its record, and has no outcome again until its
 // next End: a session killed before it leaves a run that did not end.
 // Stores written before the run record's tables read (their record is

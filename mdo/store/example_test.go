@@ -2,6 +2,7 @@ package store_test
 
 import (
 	"context"
+	"database/sql"
 	"fmt"
 	"os"
 	"path/filepath"
@@ -100,4 +101,75 @@ func ExamplePickUp() {
 	fmt.Println("picked up:", r.PickedUp, "analysed:", r.Analyses, "rows:", s.Rows())
 	// Output:
 	// picked up: 6 analysed: 4 rows: 10
+}
+
+// withRecord is a store that writes the run's record as the run begins,
+// as the session does: the caution and the coupling solvers.
+type withRecord struct {
+	*store.Store
+	rec store.RunRecord
+}
+
+func (w withRecord) Begin(info mdo.RunInfo) error {
+	if err := w.Store.Begin(info); err != nil {
+		return err
+	}
+	return w.SetRunRecord(w.rec)
+}
+
+// results.db keeps the run's record beside its evaluations: how it
+// ended, its caution, its coupling solvers and its optimiser's
+// settings, read back by StoredRecord or with SQL through the views
+// run_summary, optimizer_settings and constraint_definitions and the
+// table coupling_solvers.
+func ExampleStore_SetRunRecord() {
+	dir, _ := os.MkdirTemp("", "couplet-example")
+	defer os.RemoveAll(dir)
+	path := filepath.Join(dir, "results.db")
+	s, err := store.Create(path, store.Options{ToolVersion: "couplet dev"})
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	defer s.Close()
+	rec := store.RunRecord{Caution: "Conceptual estimates only.", CouplingSolvers: []store.CouplingSolver{
+		{Disciplines: []string{"sellar1", "sellar2"}, Method: "gauss-seidel", Tolerance: 1e-10, MaxIterations: 200, Relaxation: 1, Fallback: true}}}
+	if _, err := runGrid(withRecord{s, rec}, nil, 10); err != nil {
+		fmt.Println(err)
+		return
+	}
+	back, err := s.StoredRecord()
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Println("caution:", back.Caution)
+	// the Sellar problem's constraints as declared (Sellar, Batill and
+	// Renaud, 1996), from End
+	fmt.Println("constraints:", back.Constraints[0], "and", back.Constraints[1])
+
+	// the same with SQL (the sqlite3 shell, Python's sqlite3 module)
+	db, err := sql.Open("sqlite", "file:"+path+"?mode=ro")
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	defer db.Close()
+	var stop, method string
+	var evaluations, iterations int
+	if err := db.QueryRow(`SELECT stop, evaluations FROM run_summary`).Scan(&stop, &evaluations); err != nil {
+		fmt.Println(err)
+		return
+	}
+	if err := db.QueryRow(`SELECT method, max_iterations FROM coupling_solvers WHERE n = 1`).Scan(&method, &iterations); err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Println("stop:", stop, "evaluations:", evaluations)
+	fmt.Println("coupling solver:", method, "of at most", iterations, "iterations")
+	// Output:
+	// caution: Conceptual estimates only.
+	// constraints: g1 >= 3.16 and g2 <= 24
+	// stop: budget evaluations: 10
+	// coupling solver: gauss-seidel of at most 200 iterations
 }

@@ -146,6 +146,7 @@ func writeGoldenRun(t *testing.T, path string) {
 	}
 	res.EvalCounters = mdo.EvalCounters{Evaluations: n, Analyses: n, Failed: 11, DisciplineCalls: 3600, CouplingIterations: 975}
 	res.StopDetail = "the budget of 75 evaluations was spent before the simplex converged"
+	res.Surrogates = []mdo.SurrogateUse{{Discipline: "aero-fit", Model: "quadratic response surface of 40 samples", Outputs: []string{"out.v3", "out.v4"}, Affects: []string{"mass.takeoff", "perf.c2"}}}
 	res.Notes = []string{"fixed parameters from the calibration of 2 January", "a note with \"quotes\", a tab\tand ünïcode"}
 	if err := s.End(res); err != nil {
 		t.Fatal(err)

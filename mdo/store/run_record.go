@@ -32,8 +32,8 @@ type CouplingSolver struct {
 // (the run table: script and its SHA-256, tool version, optimiser and
 // its settings, stop reason and counters), so that the file holds what
 // the run's summary.json and report.html record. SetRunRecord writes
-// Caution, the goals and the coupling solvers; End writes StopDetail and
-// Notes from the result. StoredRecord reads it all back.
+// Caution, the goals and the coupling solvers; End writes StopDetail,
+// Notes and Surrogates from the result. StoredRecord reads it all back.
 type RunRecord struct {
 	// Caution is the statement every result carries (the report's).
 	Caution string
@@ -49,10 +49,21 @@ type RunRecord struct {
 	// the IDF formulation).
 	CouplingSolvers []CouplingSolver
 	SolverNote      string
-	// StopDetail is the result's mdo.Result.StopDetail and Notes its
-	// provenance notes (mdo.Result.Notes), written by End.
+	// StopDetail is the result's mdo.Result.StopDetail, Notes its
+	// provenance notes (mdo.Result.Notes) and Surrogates the surrogate
+	// models its numbers come from (mdo.Result.Surrogates), written by
+	// End.
 	StopDetail string
 	Notes      []string
+	Surrogates []mdo.SurrogateUse
+}
+
+// surrogateJSON is a surrogate use as run_record.surrogates holds it.
+type surrogateJSON struct {
+	Discipline string   `json:"discipline"`
+	Model      string   `json:"model"`
+	Outputs    []string `json:"outputs"`
+	Affects    []string `json:"affects"`
 }
 
 // The keys of the run_record table.
@@ -61,6 +72,7 @@ const (
 	keySolverNote = "coupling_solver_note"
 	keyStopDetail = "stop_detail"
 	keyNotes      = "notes"
+	keySurrogates = "surrogates"
 )
 
 // recordSchema creates the tables of the run record (see the package
@@ -127,8 +139,8 @@ func (s *Store) recordTables() error {
 }
 
 // SetRunRecord writes the caution, the goals and the coupling solvers
-// of the run's record (see RunRecord; StopDetail and Notes are End's and
-// are not read here), replacing what the store held: call it after
+// of the run's record (see RunRecord; StopDetail, Notes and Surrogates
+// are End's and are not read here), replacing what the store held: call it after
 // Begin, also on a run picked up. An objective or constraint the run
 // does not have is an error naming it.
 func (s *Store) SetRunRecord(rec RunRecord) error {
@@ -257,7 +269,7 @@ func (s *Store) writeOutcome(ctx context.Context, r *mdo.Result) error {
 	if err := s.setRecordValue(ctx, keyStopDetail, r.StopDetail); err != nil {
 		return err
 	}
-	notes := ""
+	notes, surrogates := "", ""
 	if len(r.Notes) > 0 {
 		b, err := json.Marshal(r.Notes)
 		if err != nil {
@@ -265,7 +277,21 @@ func (s *Store) writeOutcome(ctx context.Context, r *mdo.Result) error {
 		}
 		notes = string(b)
 	}
-	return s.setRecordValue(ctx, keyNotes, notes)
+	if len(r.Surrogates) > 0 {
+		uses := make([]surrogateJSON, len(r.Surrogates))
+		for i, u := range r.Surrogates {
+			uses[i] = surrogateJSON{Discipline: u.Discipline, Model: u.Model, Outputs: nonNilStrings(u.Outputs), Affects: nonNilStrings(u.Affects)}
+		}
+		b, err := json.Marshal(uses)
+		if err != nil {
+			return err
+		}
+		surrogates = string(b)
+	}
+	if err := s.setRecordValue(ctx, keyNotes, notes); err != nil {
+		return err
+	}
+	return s.setRecordValue(ctx, keySurrogates, surrogates)
 }
 
 // StoredRecord reads the run's record back (see RunRecord): the goals
@@ -308,6 +334,15 @@ func (s *Store) StoredRecord() (RunRecord, error) {
 	if n := vals[keyNotes]; n != "" {
 		if err := json.Unmarshal([]byte(n), &rec.Notes); err != nil {
 			return rec, fmt.Errorf("store: %s: run_record.notes is not a JSON array of text: %w", s.path, ErrDamaged)
+		}
+	}
+	if u := vals[keySurrogates]; u != "" {
+		var uses []surrogateJSON
+		if err := json.Unmarshal([]byte(u), &uses); err != nil {
+			return rec, fmt.Errorf("store: %s: run_record.surrogates is not a JSON array of surrogate uses: %w", s.path, ErrDamaged)
+		}
+		for _, x := range uses {
+			rec.Surrogates = append(rec.Surrogates, mdo.SurrogateUse{Discipline: x.Discipline, Model: x.Model, Outputs: x.Outputs, Affects: x.Affects})
 		}
 	}
 	rows, err = s.conn.QueryContext(ctx, `SELECT disciplines, method, tolerance, max_iterations, relaxation, fallback, from_reference, exhaustive FROM coupling_solvers ORDER BY n`)

@@ -88,6 +88,7 @@ func TestRunRecordReadsBack(t *testing.T) {
 	want := goldenRecord(goldenRun())
 	want.StopDetail = "the budget of 75 evaluations was spent before the simplex converged"
 	want.Notes = []string{"fixed parameters from the calibration of 2 January", "a note with \"quotes\", a tab\tand ünïcode"}
+	want.Surrogates = []mdo.SurrogateUse{{Discipline: "aero-fit", Model: "quadratic response surface of 40 samples", Outputs: []string{"out.v3", "out.v4"}, Affects: []string{"mass.takeoff", "perf.c2"}}}
 	// the constraints read back carry their units (none here), as End wrote them
 	if !sameRecord(got, want) {
 		t.Errorf("read back\n%+v\nwant\n%+v", got, want)
@@ -96,8 +97,8 @@ func TestRunRecordReadsBack(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if r.StopDetail != want.StopDetail || !reflect.DeepEqual(r.Notes, want.Notes) {
-		t.Errorf("the rebuilt result: stop detail %q, notes %q; want %q, %q", r.StopDetail, r.Notes, want.StopDetail, want.Notes)
+	if r.StopDetail != want.StopDetail || !reflect.DeepEqual(r.Notes, want.Notes) || !reflect.DeepEqual(r.Surrogates, want.Surrogates) {
+		t.Errorf("the rebuilt result: stop detail %q, notes %q, surrogates %+v; want %q, %q, %+v", r.StopDetail, r.Notes, r.Surrogates, want.StopDetail, want.Notes, want.Surrogates)
 	}
 }
 
