@@ -1,8 +1,10 @@
 package repl
 
 import (
+	"bytes"
 	"context"
 	"database/sql"
+	"encoding/json"
 	"os"
 	"path/filepath"
 	"reflect"
@@ -133,32 +135,55 @@ func TestPrincipalStoreAgreesWithSummary(t *testing.T) {
 		}
 		wantPrincipalAgrees(t, dir)
 	})
-	t.Run("written from the stores", func(t *testing.T) {
-		// the interpreter died before it wrote the folder: the folder is
-		// written from the case stores alone, which give the coupling
-		// solvers and the stop detail (before, its record said the
-		// solvers were "not recorded")
-		dir := filepath.Join(t.TempDir(), "out")
-		file := writeStudy(t, "finished", sellarCells)
-		if stderr, err := runInto(t, context.Background(), file, dir, nil); err != nil {
-			t.Fatalf("%v\n%s", err, stderr)
-		}
-		idx, err := report.ReadIndex(dir)
-		if err != nil {
-			t.Fatal(err)
-		}
-		sub := filepath.Join(dir, idx.Principal)
-		for _, p := range []string{filepath.Join(dir, report.SummaryFile), filepath.Join(sub, report.SummaryFile), filepath.Join(dir, StoreFile)} {
-			if err := os.Remove(p); err != nil {
+	for _, tc := range []struct{ name, cells string }{
+		{"simplex", sellarCells},
+		{"gradient", strings.Replace(sellarCells, "optimizers.NelderMead{MaxEvaluations: 30}", "optimizers.Sextant{}", 1)},
+	} {
+		t.Run("written from the stores, "+tc.name, func(t *testing.T) {
+			// the interpreter died before it wrote the folder: the folder
+			// is written from the case stores alone, and its summary is
+			// the one the run wrote but for the times (before, it said the
+			// coupling solvers were "not recorded" and lacked the stop
+			// detail and the sensitivity)
+			dir := filepath.Join(t.TempDir(), "out")
+			file := writeStudy(t, "finished", tc.cells)
+			if stderr, err := runInto(t, context.Background(), file, dir, nil); err != nil {
+				t.Fatalf("%v\n%s", err, stderr)
+			}
+			idx, err := report.ReadIndex(dir)
+			if err != nil {
 				t.Fatal(err)
 			}
-		}
-		text, _ := os.ReadFile(file)
-		if _, err := WriteStored(context.Background(), dir, string(text), []string{filepath.Join(sub, StoreFile)}, nil, false); err != nil {
-			t.Fatal(err)
-		}
-		wantPrincipalAgrees(t, dir)
-	})
+			sub := filepath.Join(dir, idx.Principal)
+			ran, err := report.ReadRecord(filepath.Join(sub, report.SummaryFile))
+			if err != nil {
+				t.Fatal(err)
+			}
+			for _, p := range []string{filepath.Join(dir, report.SummaryFile), filepath.Join(sub, report.SummaryFile), filepath.Join(dir, StoreFile)} {
+				if err := os.Remove(p); err != nil {
+					t.Fatal(err)
+				}
+			}
+			text, _ := os.ReadFile(file)
+			if _, err := WriteStored(context.Background(), dir, string(text), []string{filepath.Join(sub, StoreFile)}, nil, false); err != nil {
+				t.Fatal(err)
+			}
+			wantPrincipalAgrees(t, dir)
+			stored, err := report.ReadRecord(filepath.Join(sub, report.SummaryFile))
+			if err != nil {
+				t.Fatal(err)
+			}
+			if tc.name == "gradient" && ran.Sensitivity == nil {
+				t.Fatalf("the gradient run's summary has no sensitivity to compare")
+			}
+			ran.Timestamps, stored.Timestamps = store.Timestamps{}, store.Timestamps{}
+			a, _ := json.MarshalIndent(ran, "", " ")
+			b, _ := json.MarshalIndent(stored, "", " ")
+			if !bytes.Equal(a, b) {
+				t.Errorf("summary.json written from the store differs from the run's:\n%s\nthe run's:\n%s", b, a)
+			}
+		})
+	}
 	t.Run("a later cell fails", func(t *testing.T) {
 		dir := filepath.Join(t.TempDir(), "out")
 		file := writeStudy(t, "fails_later", sellarCells+"\n//~ cell 2\npanic(\"a later cell fails\")\n")

@@ -485,6 +485,13 @@ func (o *RunOutputs) writeRun(ctx context.Context, script string, r *mdo.Result,
 	}
 	if note != "" {
 		defer st.Close()
+	} else if st != nil {
+		// what the optimiser added to its result after End (the best
+		// point's sensitivity), so that results.db records what the
+		// folder's summary and report say
+		if err := st.SetOutcome(r); err != nil {
+			return dir, nil, err
+		}
 	}
 	o.mu.Lock()
 	o.notes[r] = note

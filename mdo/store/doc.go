@@ -58,12 +58,23 @@
 //	                                surrogates (the surrogate models the
 //	                                numbers come from, a JSON array of
 //	                                objects discipline, model, outputs,
-//	                                affects); an empty entry is absent
+//	                                affects), sensitivity_objective and
+//	                                sensitivity_unit (present when the best
+//	                                point has a sensitivity); an empty
+//	                                entry is absent
 //	coupling_solvers(n, disciplines, method, tolerance, max_iterations,
 //	          relaxation, fallback, from_reference, exhaustive)
 //	                                one row per coupled group of the system
 //	                                as the run began (disciplines: a JSON
 //	                                array in execution order)
+//	sensitivity(n, kind, name, bound, value, unit, active, per_unit,
+//	          per_unit_unit)
+//	                                the best point's post-optimality
+//	                                sensitivity (mdo.Result.Sensitivity):
+//	                                one row per constraint limit (kind
+//	                                'limit', bound upper/lower/target) and
+//	                                fixed parameter (kind 'parameter');
+//	                                per_unit: d(optimal objective)/d(value)
 //	run_summary                     a view, one row: study, seed, optimizer,
 //	                                formulation, stop, stop_detail,
 //	                                evaluations, analyses, picked_up,
@@ -80,9 +91,12 @@
 // The run's caution, goals (objectives' senses, constraints' relations)
 // and coupling solvers are written as it begins (Store.SetRunRecord),
 // its outcome (run.stop and the counters, best_id, stop_detail, notes,
-// surrogates, the front) at End; Store.StoredRecord and Store.Result read them back. A
-// run picked up keeps its record, and has no outcome again until its
-// next End: a session killed before it leaves a run that did not end.
+// surrogates, the sensitivity, the front) at End, and again from the
+// result the optimiser returned (Store.SetOutcome: the sensitivity is
+// worked out after End); Store.StoredRecord and Store.Result read them
+// back. A run picked up keeps its record, and has no outcome again until
+// its next End: a session killed before it leaves a run that did not
+// end.
 // Stores written before the run record's tables read (their record is
 // the goals of the variables table alone); picked up, they get the
 // tables. End also copies the write-ahead log into the file, so that

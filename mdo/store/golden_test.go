@@ -106,6 +106,20 @@ func goldenRecord(info mdo.RunInfo) RunRecord {
 	return rec
 }
 
+// goldenSensitivity is the sensitivity of the golden run's best point:
+// limits active and not, a NaN multiplier and a parameter without a
+// unit (invented values).
+func goldenSensitivity() *mdo.Sensitivity {
+	return &mdo.Sensitivity{Objective: "mass.takeoff", Unit: "kg",
+		Limits: []mdo.LimitCost{
+			{Constraint: "perf.c0", Bound: "upper", Limit: 0, Unit: "m", Active: true, PerUnit: -12.5},
+			{Constraint: "perf.c1", Bound: "lower", Limit: -1, Unit: "", Active: false, PerUnit: 0},
+			{Constraint: "perf.c2", Bound: "upper", Limit: 2, Unit: "kg", Active: true, PerUnit: math.NaN()},
+		},
+		Parameters: []mdo.ParameterCost{{Parameter: "range", Value: 5556e3, Unit: "m", PerUnit: 1.0 / 3}, {Parameter: "k", Value: 0.1 + 0.2, PerUnit: -7}},
+	}
+}
+
 // writeGoldenRun writes the golden run into a new store at path.
 func writeGoldenRun(t *testing.T, path string) {
 	t.Helper()
@@ -147,6 +161,7 @@ func writeGoldenRun(t *testing.T, path string) {
 	res.EvalCounters = mdo.EvalCounters{Evaluations: n, Analyses: n, Failed: 11, DisciplineCalls: 3600, CouplingIterations: 975}
 	res.StopDetail = "the budget of 75 evaluations was spent before the simplex converged"
 	res.Surrogates = []mdo.SurrogateUse{{Discipline: "aero-fit", Model: "quadratic response surface of 40 samples", Outputs: []string{"out.v3", "out.v4"}, Affects: []string{"mass.takeoff", "perf.c2"}}}
+	res.Sensitivity = goldenSensitivity()
 	res.Notes = []string{"fixed parameters from the calibration of 2 January", "a note with \"quotes\", a tab\tand ünïcode"}
 	if err := s.End(res); err != nil {
 		t.Fatal(err)

@@ -70,7 +70,8 @@ func (s *Store) Begin(info mdo.RunInfo) error {
 			}
 		}
 		if pickingUp {
-			// the run goes on: its outcome is the next End's (a session
+			// the run goes on: its outcome (stop, stop detail, counters,
+			// best point and its sensitivity) is the next End's (a session
 			// killed before it leaves a run that did not end, whose
 			// counters count its rows, not an earlier session's outcome)
 			if _, err := s.conn.ExecContext(ctx, `UPDATE run SET ended = NULL, stop = NULL, elapsed_seconds = NULL, evaluations = NULL, analyses = NULL, `+
@@ -79,6 +80,9 @@ func (s *Store) Begin(info mdo.RunInfo) error {
 			}
 			if !s.noRecord {
 				if err := s.setRecordValue(ctx, keyStopDetail, ""); err != nil {
+					return err
+				}
+				if err := s.writeSensitivity(ctx, nil); err != nil {
 					return err
 				}
 			}
@@ -448,15 +452,8 @@ func (s *Store) End(r *mdo.Result) error {
 		s.err = fmt.Errorf("store: %s: ending the run: %w", s.path, err)
 		return s.err
 	}
-	// the log goes into the file now, not at Close: the file alone (the
-	// hard link or copy a script's folder makes of it, see LinkFile)
-	// holds the whole run even while the store stays open, and so does a
-	// file left by a process that dies before Close (PASSIVE: a reader
-	// of another connection is not waited for)
-	var busy, logPages, done int
-	if err := s.conn.QueryRowContext(ctx, "PRAGMA wal_checkpoint(PASSIVE)").Scan(&busy, &logPages, &done); err != nil {
-		s.err = fmt.Errorf("store: %s: copying the log into the file: %w", s.path, err)
-		return s.err
+	if err := s.checkpoint(); err != nil {
+		return err
 	}
 	s.ended = true
 	s.meta.Ended = now
@@ -464,4 +461,43 @@ func (s *Store) End(r *mdo.Result) error {
 		s.meta.Stop = r.Stop
 	}
 	return nil
+}
+
+// checkpoint copies the write-ahead log into the file now, not at
+// Close: the file alone (the hard link or copy a script's folder makes
+// of it, see LinkFile) then holds the whole run even while the store
+// stays open, and so does a file left by a process that dies before
+// Close. It is PASSIVE: a reader of another connection is not waited
+// for.
+func (s *Store) checkpoint() error {
+	var busy, logPages, done int
+	if err := s.conn.QueryRowContext(context.Background(), "PRAGMA wal_checkpoint(PASSIVE)").Scan(&busy, &logPages, &done); err != nil {
+		s.err = fmt.Errorf("store: %s: copying the log into the file: %w", s.path, err)
+		return s.err
+	}
+	return nil
+}
+
+// SetOutcome writes again, from r, what End took from the result for
+// the run record: the stop detail, the notes, the surrogates and the
+// sensitivity. An optimiser may complete its result after End (the
+// sensitivity of the best point is worked out once the run is over):
+// the caller hands the store the result the optimiser returned, so that
+// results.db records what summary.json and the report say. Call it
+// after End.
+func (s *Store) SetOutcome(r *mdo.Result) error {
+	if err := s.usable(); err != nil {
+		return err
+	}
+	if !s.ended {
+		return fmt.Errorf("store: %s: SetOutcome before End", s.path)
+	}
+	if r == nil {
+		return fmt.Errorf("store: %s: SetOutcome(nil)", s.path)
+	}
+	if err := s.inTx(func() error { return s.writeOutcome(context.Background(), r) }); err != nil {
+		s.err = fmt.Errorf("store: %s: writing the run's outcome: %w", s.path, err)
+		return s.err
+	}
+	return s.checkpoint()
 }

@@ -15,9 +15,9 @@ import (
 // point is the stored one if the run ended, else the best recorded by
 // Deb's rules; the history is replayed from the evaluations in ID order;
 // the counters are the stored ones if the run ended, else they count the
-// rows. The goals, stop detail, notes and surrogates are the run record's
-// (StoredRecord): the constraints of a run that neither had its record
-// set (SetRunRecord) nor ended have unknown bounds (NaN).
+// rows. The goals, stop detail, notes, surrogates and sensitivity are
+// the run record's (StoredRecord): the constraints of a run that neither
+// had its record set (SetRunRecord) nor ended have unknown bounds (NaN).
 func (s *Store) Result() (*mdo.Result, error) {
 	meta, ok := s.Run()
 	if !ok {
@@ -37,7 +37,7 @@ func (s *Store) Result() (*mdo.Result, error) {
 	if err != nil {
 		return nil, err
 	}
-	r.Objectives, r.Constraints, r.StopDetail, r.Notes, r.Surrogates = rec.Objectives, rec.Constraints, rec.StopDetail, rec.Notes, rec.Surrogates
+	r.Objectives, r.Constraints, r.StopDetail, r.Notes, r.Surrogates, r.Sensitivity = rec.Objectives, rec.Constraints, rec.StopDetail, rec.Notes, rec.Surrogates, rec.Sensitivity
 	byID := map[int]*mdo.Evaluation{}
 	var best *mdo.Evaluation
 	for i, e := range evs {

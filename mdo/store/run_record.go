@@ -33,7 +33,8 @@ type CouplingSolver struct {
 // its settings, stop reason and counters), so that the file holds what
 // the run's summary.json and report.html record. SetRunRecord writes
 // Caution, the goals and the coupling solvers; End writes StopDetail,
-// Notes and Surrogates from the result. StoredRecord reads it all back.
+// Notes, Surrogates and Sensitivity from the result. StoredRecord reads
+// it all back.
 type RunRecord struct {
 	// Caution is the statement every result carries (the report's).
 	Caution string
@@ -56,6 +57,10 @@ type RunRecord struct {
 	StopDetail string
 	Notes      []string
 	Surrogates []mdo.SurrogateUse
+	// Sensitivity is the best point's post-optimality sensitivity
+	// (mdo.Result.Sensitivity; nil when the result has none), written by
+	// End.
+	Sensitivity *mdo.Sensitivity
 }
 
 // surrogateJSON is a surrogate use as run_record.surrogates holds it.
@@ -139,8 +144,8 @@ func (s *Store) recordTables() error {
 }
 
 // SetRunRecord writes the caution, the goals and the coupling solvers
-// of the run's record (see RunRecord; StopDetail, Notes and Surrogates
-// are End's and are not read here), replacing what the store held: call it after
+// of the run's record (see RunRecord; StopDetail, Notes, Surrogates and
+// Sensitivity are End's and are not read here), replacing what the store held: call it after
 // Begin, also on a run picked up. An objective or constraint the run
 // does not have is an error naming it.
 func (s *Store) SetRunRecord(rec RunRecord) error {
@@ -260,8 +265,8 @@ func (s *Store) writeGoals(ctx context.Context, objectives []mdo.Objective, cons
 	return nil
 }
 
-// writeOutcome writes End's part of the run record: the stop detail
-// and the notes of the result. The caller holds the transaction.
+// writeOutcome writes End's part of the run record: the stop detail,
+// the notes, the surrogates and the sensitivity of the result. The caller holds the transaction.
 func (s *Store) writeOutcome(ctx context.Context, r *mdo.Result) error {
 	if s.noRecord {
 		return nil
@@ -291,7 +296,10 @@ func (s *Store) writeOutcome(ctx context.Context, r *mdo.Result) error {
 	if err := s.setRecordValue(ctx, keyNotes, notes); err != nil {
 		return err
 	}
-	return s.setRecordValue(ctx, keySurrogates, surrogates)
+	if err := s.setRecordValue(ctx, keySurrogates, surrogates); err != nil {
+		return err
+	}
+	return s.writeSensitivity(ctx, r.Sensitivity)
 }
 
 // StoredRecord reads the run's record back (see RunRecord): the goals
@@ -344,6 +352,9 @@ func (s *Store) StoredRecord() (RunRecord, error) {
 		for _, x := range uses {
 			rec.Surrogates = append(rec.Surrogates, mdo.SurrogateUse{Discipline: x.Discipline, Model: x.Model, Outputs: x.Outputs, Affects: x.Affects})
 		}
+	}
+	if rec.Sensitivity, err = s.readSensitivity(ctx, vals); err != nil {
+		return rec, err
 	}
 	rows, err = s.conn.QueryContext(ctx, `SELECT disciplines, method, tolerance, max_iterations, relaxation, fallback, from_reference, exhaustive FROM coupling_solvers ORDER BY n`)
 	if err != nil {

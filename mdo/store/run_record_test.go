@@ -12,6 +12,7 @@ import (
 	"time"
 
 	"couplet/mdo"
+	"couplet/mdo/runfolder"
 )
 
 // oldStoreFile is a case store written before the run record's tables
@@ -56,6 +57,16 @@ func sameRecord(a, b RunRecord) bool {
 				c.Relaxation = -1
 			}
 		}
+		if r.Sensitivity != nil {
+			sens := *r.Sensitivity
+			sens.Limits = append([]mdo.LimitCost(nil), sens.Limits...)
+			for i := range sens.Limits {
+				if math.IsNaN(sens.Limits[i].PerUnit) {
+					sens.Limits[i].PerUnit = -1
+				}
+			}
+			r.Sensitivity = &sens
+		}
 		r.Constraints = append([]mdo.Constraint(nil), r.Constraints...)
 		for i := range r.Constraints {
 			c := &r.Constraints[i]
@@ -88,6 +99,7 @@ func TestRunRecordReadsBack(t *testing.T) {
 	want := goldenRecord(goldenRun())
 	want.StopDetail = "the budget of 75 evaluations was spent before the simplex converged"
 	want.Notes = []string{"fixed parameters from the calibration of 2 January", "a note with \"quotes\", a tab\tand ünïcode"}
+	want.Sensitivity = goldenSensitivity()
 	want.Surrogates = []mdo.SurrogateUse{{Discipline: "aero-fit", Model: "quadratic response surface of 40 samples", Outputs: []string{"out.v3", "out.v4"}, Affects: []string{"mass.takeoff", "perf.c2"}}}
 	// the constraints read back carry their units (none here), as End wrote them
 	if !sameRecord(got, want) {
@@ -97,7 +109,8 @@ func TestRunRecordReadsBack(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if r.StopDetail != want.StopDetail || !reflect.DeepEqual(r.Notes, want.Notes) || !reflect.DeepEqual(r.Surrogates, want.Surrogates) {
+	if r.StopDetail != want.StopDetail || !reflect.DeepEqual(r.Notes, want.Notes) || !reflect.DeepEqual(r.Surrogates, want.Surrogates) ||
+		!sameRecord(RunRecord{Sensitivity: r.Sensitivity}, RunRecord{Sensitivity: want.Sensitivity}) {
 		t.Errorf("the rebuilt result: stop detail %q, notes %q, surrogates %+v; want %q, %q, %+v", r.StopDetail, r.Notes, r.Surrogates, want.StopDetail, want.Notes, want.Surrogates)
 	}
 }
@@ -197,8 +210,9 @@ func TestStoreWithoutRunRecord(t *testing.T) {
 // until that session ends it is a run that has not ended: a session
 // killed before End leaves no outcome of an earlier session (its stop,
 // stop detail, counters and best point) beside rows that outcome does
-// not count. Before, the first session's outcome stayed: the rebuilt
-// result said 40 evaluations, stopped "cancelled", of a store holding 70.
+// not count (nor its best point's sensitivity). Before, the first
+// session's outcome stayed: the rebuilt result said 40 evaluations,
+// stopped "cancelled", of a store holding 70.
 func TestPickedUpRunKeepsItsRecord(t *testing.T) {
 	path := filepath.Join(t.TempDir(), "results.db")
 	info := syntheticRunOf(sellarShape)
@@ -228,7 +242,8 @@ func TestPickedUpRunKeepsItsRecord(t *testing.T) {
 	}
 	record(s, 0, 40)
 	first := &mdo.Result{Stop: mdo.StopCancelled, StopDetail: "the run was cancelled", Best: evs[3],
-		EvalCounters: mdo.EvalCounters{Evaluations: 40, Analyses: 40}}
+		EvalCounters: mdo.EvalCounters{Evaluations: 40, Analyses: 40},
+		Sensitivity:  &mdo.Sensitivity{Objective: "mass.takeoff", Unit: "kg", Limits: []mdo.LimitCost{{Constraint: "perf.c0", Bound: "upper", Active: true, PerUnit: -3}}}}
 	if err := s.End(first); err != nil {
 		t.Fatal(err)
 	}
@@ -260,11 +275,54 @@ func TestPickedUpRunKeepsItsRecord(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if r.Stop != mdo.NotStopped || r.StopDetail != "" || r.Evaluations != 70 || !r.Objectives[0].Maximize {
-		t.Errorf("the rebuilt result: stop %q (%q), %d evaluations, objective %+v; want a run not ended, of 70 evaluations, maximised",
-			r.Stop, r.StopDetail, r.Evaluations, r.Objectives[0])
+	if r.Stop != mdo.NotStopped || r.StopDetail != "" || r.Evaluations != 70 || !r.Objectives[0].Maximize || r.Sensitivity != nil {
+		t.Errorf("the rebuilt result: stop %q (%q), %d evaluations, objective %+v, sensitivity %v; want a run not ended, of 70 evaluations, maximised, without the first session's sensitivity",
+			r.Stop, r.StopDetail, r.Evaluations, r.Objectives[0], r.Sensitivity)
 	}
 	if _, rows := queryAll(t, path, "SELECT stop, stop_detail, evaluations, best_id FROM run_summary"); rows[0][0] != nil || rows[0][1] != nil || rows[0][2] != nil || rows[0][3] != nil {
 		t.Errorf("run_summary of the killed session: %v, want no outcome", rows[0])
+	}
+}
+
+// SetOutcome records what an optimiser adds to its result after End
+// (the best point's sensitivity) in the file itself, before Close, and
+// is refused before End.
+func TestSetOutcome(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "results.db")
+	s, err := Create(path, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer s.Close()
+	if err := s.Begin(syntheticRunOf(sellarShape)); err != nil {
+		t.Fatal(err)
+	}
+	r := &mdo.Result{Stop: mdo.StopConverged, StopDetail: "converged"}
+	if err := s.SetOutcome(r); err == nil || !strings.Contains(err.Error(), "before End") {
+		t.Errorf("SetOutcome before End: %v", err)
+	}
+	if err := s.End(r); err != nil {
+		t.Fatal(err)
+	}
+	r.Sensitivity = &mdo.Sensitivity{Objective: "mass.takeoff", Unit: "kg", Limits: []mdo.LimitCost{{Constraint: "perf.c1", Bound: "lower", Limit: 2, Active: true, PerUnit: 0.5}}}
+	if err := s.SetOutcome(r); err != nil {
+		t.Fatal(err)
+	}
+	// the file alone, before Close
+	alone := filepath.Join(t.TempDir(), "alone.db")
+	if err := runfolder.LinkFileWith(path, alone, runfolder.LinkOptions{NoHardLink: true}); err != nil {
+		t.Fatal(err)
+	}
+	back, err := Open(alone)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer back.Close()
+	rec, err := back.StoredRecord()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !reflect.DeepEqual(rec.Sensitivity, r.Sensitivity) || rec.StopDetail != "converged" {
+		t.Errorf("read back: sensitivity %+v, stop detail %q; want %+v, %q", rec.Sensitivity, rec.StopDetail, r.Sensitivity, "converged")
 	}
 }

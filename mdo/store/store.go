@@ -124,6 +124,9 @@ type Store struct {
 	// noRecord marks a store written before the run record's tables,
 	// opened read-only (see recordTables).
 	noRecord bool
+	// noSensitivity marks a store written before the sensitivity table,
+	// opened read-only (see sensitivityTable).
+	noSensitivity bool
 
 	w         *writer // the background writer, between Begin and End
 	keptMu    sync.Mutex
@@ -229,7 +232,7 @@ func Create(path string, opt Options) (*Store, error) {
 		}
 	}
 	err = s.inTx(func() error {
-		if _, err := conn.ExecContext(ctx, fixedSchema+recordSchema+recordViews(s.names)); err != nil {
+		if _, err := conn.ExecContext(ctx, fixedSchema+recordSchema+sensitivitySchema+recordViews(s.names)); err != nil {
 			return err
 		}
 		_, err := conn.ExecContext(ctx, `INSERT INTO store_info (key, value) VALUES ('format', ?), ('schema_version', ?), ('created', ?)`,
@@ -283,6 +286,10 @@ func openExisting(path string, opt Options, readOnly bool) (*Store, error) {
 		return nil, err
 	}
 	if err := s.recordTables(); err != nil {
+		s.Close()
+		return nil, err
+	}
+	if err := s.sensitivityTable(); err != nil {
 		s.Close()
 		return nil, err
 	}
