@@ -501,14 +501,15 @@ func (o *RunOutputs) writeRun(ctx context.Context, script string, r *mdo.Result,
 		ScatterMatrix: isDOE(r), Figures: figs, AllOutputs: o.everyOutput(),
 		Solvers: snap.solvers, SolverNote: snap.note,
 	})
-	if err != nil {
-		return dir, files, err
+	// a folder whose summary.json was written goes into the index even
+	// if another of its files could not be written
+	if slices.Contains(files, filepath.Join(dir, report.SummaryFile)) {
+		o.mu.Lock()
+		o.written = slices.DeleteFunc(o.written, func(w writtenResult) bool { return w.folder == folder })
+		o.written = append(o.written, writtenResult{folder: folder, r: r})
+		o.mu.Unlock()
 	}
-	o.mu.Lock()
-	o.written = slices.DeleteFunc(o.written, func(w writtenResult) bool { return w.folder == folder })
-	o.written = append(o.written, writtenResult{folder: folder, r: r})
-	o.mu.Unlock()
-	return dir, files, nil
+	return dir, files, err
 }
 
 // readable returns the store to write a result's folder from: st
@@ -552,16 +553,20 @@ func (o *RunOutputs) reportNote(r *mdo.Result) string {
 // writeResults writes the folder of each result (in order; a result
 // given twice once), then the output folder's summary.json and
 // index.html listing every result the folder holds (report.WriteIndex),
-// with the last of rs as the principal one. It returns the principal result's folder.
+// with the last of rs as the principal one. It returns the principal
+// result's folder. A folder that cannot be written in full does not stop
+// the others nor the index (which lists the results whose folders were
+// written); the error joins every failure.
 func (o *RunOutputs) writeResults(ctx context.Context, script string, rs []*mdo.Result, fresh bool) (string, error) {
 	dirs := map[*mdo.Result]string{}
+	var errs []error
 	for _, r := range rs {
 		if _, ok := dirs[r]; ok {
 			continue
 		}
 		dir, _, err := o.writeRun(ctx, script, r, fresh)
 		if err != nil {
-			return dir, err
+			errs = append(errs, err)
 		}
 		dirs[r] = dir
 	}
@@ -576,7 +581,7 @@ func (o *RunOutputs) writeResults(ctx context.Context, script string, rs []*mdo.
 		o.written = append(slices.Delete(o.written, i, i+1), w)
 	}
 	o.mu.Unlock()
-	return dir, o.writeIndex()
+	return dir, errors.Join(append(errs, o.writeIndex())...)
 }
 
 // writeIndex writes the output folder's summary.json and index.html

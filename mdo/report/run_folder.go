@@ -3,6 +3,7 @@ package report
 import (
 	"cmp"
 	"context"
+	"errors"
 	"fmt"
 	"io"
 	"os"
@@ -36,8 +37,10 @@ const (
 // application adds its own pictures, unknown to the writer. WriteRun
 // hands a source the run's recorded evaluations through ctx (see
 // Evaluations). The figures of a run folder are drawn concurrently with
-// each other (each by one goroutine at a time), so a figure's drawing
-// must not change what another figure's drawing reads.
+// each other (each by one goroutine at a time), and the sources are
+// called while the standard figures are drawn, so neither a source nor a
+// figure's drawing may change what another reads (the result, the study,
+// the evaluations).
 type FigureSource func(ctx context.Context, r *mdo.Result, st *mdo.Study) (figs []*plot.Figure, notes []string)
 
 // Run is a finished run to be written as a run folder by WriteRun.
@@ -89,8 +92,10 @@ type Run struct {
 // with the reason written in its place in the report; the rest is still
 // written. Every file is written atomically and never through a symbolic
 // link. The figures are drawn once each (the report's copies are those
-// saved), concurrently, while evaluations.csv is formatted. It returns
-// the files written.
+// saved), concurrently, while evaluations.csv is formatted, the standard
+// ones while the further figures are made, each saved as soon as it is
+// drawn. A file that cannot be written does not stop the others: the
+// error joins every failure. It returns the files written.
 func WriteRun(ctx context.Context, dir string, run Run) ([]string, error) {
 	if err := os.MkdirAll(dir, 0o755); err != nil {
 		return nil, fmt.Errorf("report: output folder: %w", err)
@@ -109,11 +114,15 @@ func WriteRun(ctx context.Context, dir string, run Run) ([]string, error) {
 		}
 		return []string{p}, nil
 	}
+	// a file that cannot be written does not stop the others: the
+	// failures are joined
+	var errs []error
 	rec := NewRecord(run)
 	if err := WriteRecord(p, rec); err != nil {
-		return nil, err
+		errs = append(errs, err)
+	} else {
+		files = append(files, p)
 	}
-	files = append(files, p)
 	var evs []*mdo.Evaluation
 	// evaluations.csv is written while the figures are drawn
 	var csvErr error
@@ -122,7 +131,7 @@ func WriteRun(ctx context.Context, dir string, run Run) ([]string, error) {
 	if run.Store != nil {
 		var err error
 		if evs, err = run.Store.Evaluations(); err != nil {
-			return files, fmt.Errorf("report: %w", err)
+			return files, errors.Join(append(errs, fmt.Errorf("report: %w", err))...)
 		}
 		csvDone.Add(1)
 		go func() {
@@ -133,8 +142,14 @@ func WriteRun(ctx context.Context, dir string, run Run) ([]string, error) {
 		}()
 	}
 	// the report's standard figures, of which the history (and front)
-	// are saved as files too, then the further figures, all saved
+	// are saved as files too, are drawn while the further figures are
+	// made; those are all saved
+	d := newFigureDrawer(dir)
 	std := standardFigures(r, Options{Evaluations: evs, ScatterMatrix: run.ScatterMatrix})
+	d.add(std, func(i int) (bool, bool) {
+		save := std[i] != nil && (std[i].Name == "history" || std[i].Name == "pareto")
+		return save, save
+	})
 	var extra []*plot.Figure
 	notes := append(append([]string(nil), r.Notes...), run.Notes...)
 	sctx := context.WithValue(ctx, evaluationsKey{}, evs)
@@ -150,23 +165,24 @@ func WriteRun(ctx context.Context, dir string, run Run) ([]string, error) {
 	if run.Study != nil && run.Study.System != nil {
 		extra = append(extra, drawn("dsm", "design structure matrix", func() (*plot.Figure, error) { return plot.DSM(run.Study.System) }))
 	}
+	d.add(extra, func(int) (bool, bool) { return true, true })
 	all := append(slices.Clip(std), extra...)
-	saved := make([]bool, len(all))
-	for i, f := range all {
-		saved[i] = i >= len(std) || f.Name == "history" || f.Name == "pareto"
-	}
-	done := renderFigures(all, saved)
+	jobs := d.wait()
 	csvDone.Wait()
 	if run.Store != nil {
 		if csvErr != nil {
-			return files, fmt.Errorf("report: %w", csvErr)
+			errs = append(errs, fmt.Errorf("report: %w", csvErr))
+		} else {
+			files = append(files, csvPath)
 		}
-		files = append(files, csvPath)
 	}
-	written, err := writeFigures(dir, all, done, saved)
-	files = append(files, written...)
-	if err != nil {
-		return files, err
+	done := make([]rendered, len(jobs))
+	for i, j := range jobs {
+		done[i] = j.out
+		files = append(files, j.files...)
+		if j.err != nil {
+			errs = append(errs, j.err)
+		}
 	}
 	// a further figure that failed as its files were drawn has the
 	// reason in its place (a standard one shows its SVG if that was drawn)
@@ -178,9 +194,11 @@ func WriteRun(ctx context.Context, dir string, run Run) ([]string, error) {
 	p = filepath.Join(dir, ReportFile)
 	opt := Options{Script: run.Script, ToolVersion: run.ToolVersion, Evaluations: evs, NoStandardPlots: true, Figures: all, Notes: notes, Record: &rec, drawn: done}
 	if err := WriteFile(p, r, opt); err != nil {
-		return files, err
+		errs = append(errs, err)
+	} else {
+		files = append(files, p)
 	}
-	return append(files, p), nil
+	return files, errors.Join(errs...)
 }
 
 // evaluationsKey keys the run's evaluations in a FigureSource's context.
@@ -196,49 +214,25 @@ func Evaluations(ctx context.Context) []*mdo.Evaluation {
 
 // saveFigures writes each figure that can be drawn into dir as
 // NAME.svg and NAME.png (the figures drawn concurrently, see
-// renderFigures); one that fails as it is drawn is replaced in figs by
-// its stand-in with the reason. err is a failure to write.
+// figureDrawer), in order; one that fails as it is drawn is replaced in
+// figs by its stand-in with the reason. err joins the failures to write.
 func saveFigures(dir string, figs []*plot.Figure) ([]string, error) {
-	save := make([]bool, len(figs))
-	for i := range save {
-		save[i] = true
-	}
-	done := renderFigures(figs, save)
-	files, err := writeFigures(dir, figs, done, save)
-	for i, f := range figs {
-		if f == nil || f.Reason != nil {
-			continue
-		}
-		if drawErr := cmp.Or(done[i].svgErr, done[i].pngErr); drawErr != nil {
-			figs[i] = plot.LeftOut(f.Name, f.Title, drawErr)
-		}
-	}
-	return files, err
-}
-
-// writeFigures writes, for each figure with save[i] drawn without
-// failure (done[i]), NAME.svg and NAME.png into dir, in order; it returns
-// the files written. A figure that is nil, a stand-in (plot.LeftOut) or
-// failed as it was drawn is not written.
-func writeFigures(dir string, figs []*plot.Figure, done []rendered, save []bool) ([]string, error) {
+	d := newFigureDrawer(dir)
+	d.add(figs, func(int) (bool, bool) { return true, true })
 	var files []string
-	for i, f := range figs {
-		d := done[i]
-		if !save[i] || f == nil || f.Reason != nil || d.svgErr != nil || d.pngErr != nil {
-			continue
+	var errs []error
+	for i, j := range d.wait() {
+		files = append(files, j.files...)
+		if j.err != nil {
+			errs = append(errs, j.err)
 		}
-		for _, out := range []struct {
-			ext string
-			b   []byte
-		}{{".svg", d.svg}, {".png", d.png}} {
-			p := filepath.Join(dir, f.Name+out.ext)
-			if err := runfolder.WriteFile(p, out.b); err != nil {
-				return files, fmt.Errorf("report: %w", err)
+		if f := figs[i]; f != nil && f.Reason == nil {
+			if drawErr := cmp.Or(j.out.svgErr, j.out.pngErr); drawErr != nil {
+				figs[i] = plot.LeftOut(f.Name, f.Title, drawErr)
 			}
-			files = append(files, p)
 		}
 	}
-	return files, nil
+	return files, errors.Join(errs...)
 }
 
 // drawn returns the figure make draws, or its stand-in with the reason

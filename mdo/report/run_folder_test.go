@@ -147,3 +147,55 @@ func TestWriteRunWithoutResult(t *testing.T) {
 		t.Errorf("summary %+v", sum)
 	}
 }
+
+// A file of the run folder that cannot be written (a folder in its place)
+// does not stop the others: WriteRun writes every other file, the report
+// included, and its error names the one it could not write, each of two
+// written at the same time included.
+func TestWriteRunWritesTheRestPastAFailure(t *testing.T) {
+	st, err := mdo.SellarStudy(mdo.MDF)
+	if err != nil {
+		t.Fatal(err)
+	}
+	r, s := recordedRun(t, t.TempDir(), st, 30)
+	every := []string{"summary.json", "evaluations.csv", "history.svg", "history.png", "dsm.svg", "dsm.png", "report.html"}
+	for _, blocked := range [][]string{
+		{"summary.json"},
+		{"evaluations.csv"},
+		{"history.png"},
+		{"dsm.svg"},
+		{"report.html"},
+		{"evaluations.csv", "dsm.png", "history.svg"},
+	} {
+		t.Run(strings.Join(blocked, "+"), func(t *testing.T) {
+			out := t.TempDir()
+			for _, name := range blocked {
+				if err := os.MkdirAll(filepath.Join(out, name, "in the way"), 0o755); err != nil {
+					t.Fatal(err)
+				}
+			}
+			files, err := WriteRun(context.Background(), out, Run{Result: r, Study: st, Store: s, Script: script})
+			if err == nil {
+				t.Fatalf("WriteRun wrote over the folders %v without an error", blocked)
+			}
+			for _, name := range every {
+				p := filepath.Join(out, name)
+				if slices.Contains(blocked, name) {
+					if !strings.Contains(err.Error(), name) {
+						t.Errorf("the error does not name %s: %v", name, err)
+					}
+					if slices.Contains(files, p) {
+						t.Errorf("%s is among the files written", name)
+					}
+					continue
+				}
+				if fi, err := os.Stat(p); err != nil || !fi.Mode().IsRegular() || fi.Size() == 0 {
+					t.Errorf("%s not written past the failure: %v", name, err)
+				}
+				if !slices.Contains(files, p) {
+					t.Errorf("%s not among the files written: %v", name, files)
+				}
+			}
+		})
+	}
+}
