@@ -118,10 +118,13 @@ func (s *Session) runProgram(ctx, hard context.Context, c *Cell, p *cellProgram)
 	if err != nil {
 		if hard.Err() != nil && (errors.Is(err, context.Canceled) || errors.Is(err, context.DeadlineExceeded)) {
 			// The interpreter returns at once and leaves its goroutine
-			// to unwind the body; wait for that (a grace period at
-			// most: a host call may never come back), so that the next
-			// cell does not run beside it.
-			t := time.NewTimer(s.opts.Grace)
+			// to unwind the body; wait for that (a grace period, a
+			// second at least, at most: a host call may never come
+			// back), so that the next cell does not run beside it.
+			// The stop is seen at the body's next statement, but on a
+			// loaded machine its goroutine may wait longer than a
+			// short grace to be scheduled.
+			t := time.NewTimer(max(s.opts.Grace, minUnwind))
 			line := firstLine(c.Source)
 			select {
 			case <-s.exited:
@@ -147,6 +150,10 @@ func (s *Session) runProgram(ctx, hard context.Context, c *Cell, p *cellProgram)
 	}
 	return true, nil
 }
+
+// minUnwind is the least time a stopped cell's body has to unwind
+// before its line is given up (Options.Grace may be shorter).
+const minUnwind = time.Second
 
 // compile gives the interpreter source that declares and runs nothing of
 // the user's (imports, the cell's declarations and hoisted variables,
