@@ -274,7 +274,7 @@ func (w *Workspace) analyzeWith(ctx context.Context, p solvePath) error {
 			set = p.settings(set)
 		}
 		err := w.solve(ctx, g, set, p, k)
-		if err == nil && !w.onceMode && !set.plain() {
+		if err == nil && !w.onceMode && (!set.plain() || checkedPlain(w.reports[k].CouplingIterations)) {
 			err = w.stableBranch(g, set, p)
 		}
 		if err != nil {
