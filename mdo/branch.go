@@ -100,6 +100,12 @@ func (w *Workspace) stableBranch(g *group, set SolverSettings, p solvePath) erro
 			}
 		}
 		flips = s > 0 && d[worst]*before < 0
+		if n == 0 {
+			// the push is absorbed exactly (a loop of gain 0, such as a
+			// mass balance linear in the take-off mass): stable; the
+			// ratio 0/0 would read as a NaN gain and reject it
+			return nil
+		}
 		gain, prev = n/prev, n
 	}
 	// a displacement that flips sign from sweep to sweep is an
