@@ -96,31 +96,43 @@ func (c Constraint) WithScale(scale float64) Constraint {
 	return c
 }
 
-// validate checks the bounds.
+// validate checks the bounds: each must be a finite number (the bound
+// the kind does not use may be anything but NaN), the tolerance >= 0 and
+// finite, the scale > 0 and finite or 0 (the default), the kind known.
 func (c Constraint) validate() error {
 	if c.Name == "" {
 		return fmt.Errorf("mdo: a constraint has no name")
 	}
-	for _, b := range []float64{c.Lower, c.Upper, c.Tolerance, c.Scale} {
-		if math.IsNaN(b) {
-			return fmt.Errorf("mdo: constraint %s has a NaN bound", c.Name)
+	for _, b := range []struct {
+		field string
+		v     float64
+	}{{"Lower", c.Lower}, {"Upper", c.Upper}, {"Tolerance", c.Tolerance}, {"Scale", c.Scale}} {
+		if math.IsNaN(b.v) {
+			return fmt.Errorf("mdo: constraint %s: %s = NaN, must be a finite number", c.Name, b.field)
 		}
 	}
-	switch c.Kind {
-	case LessEqual, GreaterEqual:
-	case Equal:
-		if c.Tolerance < 0 {
-			return fmt.Errorf("mdo: constraint %s: tolerance %g must be >= 0", c.Name, c.Tolerance)
-		}
-	case InBand:
-		if c.Lower > c.Upper {
-			return fmt.Errorf("mdo: constraint %s: band [%g, %g] has lower > upper", c.Name, c.Lower, c.Upper)
-		}
-	default:
-		return fmt.Errorf("mdo: constraint %s: unknown kind %d", c.Name, int(c.Kind))
+	used := map[ConstraintKind][]string{LessEqual: {"Upper"}, GreaterEqual: {"Lower"}, Equal: {"Lower"}, InBand: {"Lower", "Upper"}}
+	fields, ok := used[c.Kind]
+	if !ok {
+		return fmt.Errorf("mdo: constraint %s: Kind = %d, must be LessEqual, GreaterEqual, Equal or InBand", c.Name, int(c.Kind))
 	}
-	if c.Scale < 0 {
-		return fmt.Errorf("mdo: constraint %s: scale %g must be > 0", c.Name, c.Scale)
+	for _, f := range fields {
+		v := c.Lower
+		if f == "Upper" {
+			v = c.Upper
+		}
+		if math.IsInf(v, 0) {
+			return fmt.Errorf("mdo: constraint %s (%s): %s = %g, must be a finite number", c.Name, c.Kind, f, v)
+		}
+	}
+	if c.Kind == InBand && c.Lower > c.Upper {
+		return fmt.Errorf("mdo: constraint %s: band [%g, %g] has lower > upper; Lower must be <= Upper", c.Name, c.Lower, c.Upper)
+	}
+	if c.Tolerance < 0 || math.IsInf(c.Tolerance, 0) {
+		return fmt.Errorf("mdo: constraint %s: Tolerance = %g, must be >= 0 and finite (0 means the default)", c.Name, c.Tolerance)
+	}
+	if c.Scale < 0 || math.IsInf(c.Scale, 0) {
+		return fmt.Errorf("mdo: constraint %s: Scale = %g, must be > 0 and finite (0 means the default max(|bound|, 1))", c.Name, c.Scale)
 	}
 	return nil
 }

@@ -67,15 +67,17 @@ type Study struct {
 	Formulation Formulation
 	// Seed drives every random choice of the optimisers.
 	Seed uint64
-	// Workers is the number of parallel analyses; 0 means all cores.
-	// Results do not depend on it.
+	// Workers is the number of parallel analyses; 0 means all cores, at
+	// most 1024 (each worker holds a workspace of the system and the
+	// machine has far fewer cores). Results do not depend on it.
 	Workers int
 	// CouplingBounds overrides, under IDF, the bounds of coupling
 	// variables (name → [lower, upper]); the others take their validity
 	// ranges. Tight, physically sensible bounds shorten the search.
 	CouplingBounds map[string][2]float64
 	// ConsistencyTolerance is the tolerance of the IDF consistency
-	// constraints on the scaled coupling residual; default 1e-4.
+	// constraints on the scaled coupling residual; default 1e-4, must be
+	// >= 0 and finite.
 	ConsistencyTolerance float64
 	// CacheLimit caps the number of cached evaluations; default 50 000,
 	// negative disables the cache.
@@ -91,6 +93,9 @@ type Study struct {
 	// calibration's CalibrationResult.Apply writes one).
 	Notes []string
 }
+
+// maxWorkers is the largest Workers a study accepts.
+const maxWorkers = 1024
 
 // Check validates the study against its system, as NewEvaluator does:
 // its declarations, and a dry run of its objective and constraint
@@ -117,7 +122,7 @@ func (s *Study) validate() error {
 			return fmt.Errorf("mdo: design variable: %w", err)
 		}
 		if seen[d.Name] {
-			return fmt.Errorf("mdo: design variable %s listed twice", d.Name)
+			return fmt.Errorf("mdo: design variable %s listed twice; list each variable once", d.Name)
 		}
 		seen[d.Name] = true
 		if !s.System.IsParameter(d.Name) {
@@ -173,8 +178,11 @@ func (s *Study) validate() error {
 	if err := s.dryRun(); err != nil {
 		return err
 	}
-	if s.Workers < 0 {
-		return fmt.Errorf("mdo: study %q: Workers = %d, must be >= 0 (0 = all cores)", s.Name, s.Workers)
+	if s.Workers < 0 || s.Workers > maxWorkers {
+		return fmt.Errorf("mdo: study %q: Workers = %d, must be in [0, %d] (0 = all cores; each worker holds a workspace of the system)", s.Name, s.Workers, maxWorkers)
+	}
+	if c := s.ConsistencyTolerance; !(c >= 0) || math.IsInf(c, 0) {
+		return fmt.Errorf("mdo: study %q: ConsistencyTolerance = %g, must be >= 0 and finite (0 means the default 1e-4)", s.Name, c)
 	}
 	if s.Formulation != MDF && s.Formulation != IDF {
 		return fmt.Errorf("mdo: study %q: unknown formulation %d (allowed MDF, IDF)", s.Name, int(s.Formulation))
