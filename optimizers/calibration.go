@@ -94,51 +94,11 @@ func (c Calibration) Run(ctx context.Context) (*CalibrationResult, error) {
 		name = "calibration"
 	}
 	fail := func(format string, a ...any) error {
-		return fmt.Errorf("optimizers: calibration %q: %s", name, fmt.Sprintf(format, a...))
+		return fmt.Errorf("optimizers: calibration %q: "+format, append([]any{name}, a...)...)
 	}
-	if c.System == nil || c.Data == nil {
-		return nil, fail("needs a System and Data")
-	}
-	if len(c.Factors) == 0 {
-		return nil, fail("no factors to fit; list parameters of the model in Factors, e.g. aero.factor_lift_slope")
-	}
-	start := make([]float64, len(c.Factors))
-	for j, f := range c.Factors {
-		v, err := c.System.Var(f)
-		if err != nil {
-			return nil, fmt.Errorf("optimizers: calibration %q: factor %s: %w", name, f, err)
-		}
-		if !c.System.IsParameter(f) {
-			return nil, fail("factor %s is computed by discipline %s; only parameters of the model can be fitted", f, c.System.Producer(f))
-		}
-		for _, cv := range c.Data.Conditions {
-			if cv.Name == f {
-				return nil, fail("factor %s is also a condition of the data %s", f, c.Data.Source)
-			}
-		}
-		start[j] = v.Default
-		if x, ok := c.Fixed[f]; ok {
-			start[j] = x
-		}
-	}
-	// The measured columns to fit.
-	qi := []int{}
-	if c.Quantities == nil {
-		for k := range c.Data.Quantities {
-			qi = append(qi, k)
-		}
-	} else {
-		for _, q := range c.Quantities {
-			k := slices.IndexFunc(c.Data.Quantities, func(v mdo.Var) bool { return v.Name == q })
-			if k < 0 {
-				names := make([]string, len(c.Data.Quantities))
-				for i, v := range c.Data.Quantities {
-					names[i] = v.Name
-				}
-				return nil, fail("quantity %s is not measured in %s (its measured columns: %s)", q, c.Data.Source, strings.Join(names, ", "))
-			}
-			qi = append(qi, k)
-		}
+	start, qi, err := c.check(fail)
+	if err != nil {
+		return nil, err
 	}
 	res := &CalibrationResult{Name: name, Source: c.Data.Source, Units: map[string]string{}}
 	for _, v := range c.Data.Conditions {
@@ -241,6 +201,85 @@ func (c Calibration) Run(ctx context.Context) (*CalibrationResult, error) {
 		return res, fmt.Errorf("optimizers: calibration %q: %w", name, err)
 	}
 	return res, err
+}
+
+// check refuses a bad declaration before any analysis runs, naming the
+// field (Calibration.Field) with its value and what is allowed, and
+// returns the factors' starting values and the indices of the measured
+// columns to fit.
+func (c Calibration) check(fail func(string, ...any) error) ([]float64, []int, error) {
+	if c.System == nil {
+		return nil, nil, fail("Calibration.System = nil, needs a System: the model whose factors are fitted")
+	}
+	if c.Data == nil {
+		return nil, nil, fail("Calibration.Data = nil, needs Data: the measurements (mdo.ReadMeasurements)")
+	}
+	if err := c.Fit.checkSettings("Calibration.Fit"); err != nil {
+		return nil, nil, fail("%w", err)
+	}
+	for _, n := range slices.Sorted(maps.Keys(c.Fixed)) {
+		v, err := c.System.Var(n)
+		if err != nil {
+			return nil, nil, fail("Calibration.Fixed[%s] = %g, must name a parameter of the model: %w", n, c.Fixed[n], err)
+		}
+		if !c.System.IsParameter(n) {
+			return nil, nil, fail("Calibration.Fixed[%s] = %g, must name a parameter of the model; %s is computed by discipline %s", n, c.Fixed[n], n, c.System.Producer(n))
+		}
+		if err := v.Check(c.Fixed[n]); err != nil {
+			return nil, nil, fail("Calibration.Fixed[%s] = %g: %w", n, c.Fixed[n], err)
+		}
+	}
+	if len(c.Factors) == 0 {
+		return nil, nil, fail("Calibration.Factors = [], no factors to fit; list parameters of the model in Factors, e.g. aero.factor_lift_slope")
+	}
+	start := make([]float64, len(c.Factors))
+	for j, f := range c.Factors {
+		v, err := c.System.Var(f)
+		if err != nil {
+			return nil, nil, fail("Calibration.Factors[%d] = factor %s, must name a parameter of the model: %w", j, f, err)
+		}
+		if !c.System.IsParameter(f) {
+			return nil, nil, fail("Calibration.Factors[%d] = factor %s is computed by discipline %s; only parameters of the model can be fitted", j, f, c.System.Producer(f))
+		}
+		if k := slices.Index(c.Factors, f); k < j {
+			return nil, nil, fail("Calibration.Factors[%d] = factor %s, listed twice (also Factors[%d]); list each factor once", j, f, k)
+		}
+		for _, cv := range c.Data.Conditions {
+			if cv.Name == f {
+				return nil, nil, fail("Calibration.Factors[%d] = factor %s is also a condition of the data %s; a factor must be a parameter the data do not set", j, f, c.Data.Source)
+			}
+		}
+		start[j] = v.Default
+		if x, ok := c.Fixed[f]; ok {
+			start[j] = x
+		}
+	}
+	// The measured columns to fit.
+	qi := []int{}
+	if c.Quantities == nil {
+		for k := range c.Data.Quantities {
+			qi = append(qi, k)
+		}
+		return start, qi, nil
+	}
+	if len(c.Quantities) == 0 {
+		return nil, nil, fail("Calibration.Quantities = [], nothing to fit; list measured columns, or leave it nil to fit them all")
+	}
+	for j, q := range c.Quantities {
+		k := slices.IndexFunc(c.Data.Quantities, func(v mdo.Var) bool { return v.Name == q })
+		if k < 0 {
+			names := make([]string, len(c.Data.Quantities))
+			for i, v := range c.Data.Quantities {
+				names[i] = v.Name
+			}
+			return nil, nil, fail("Calibration.Quantities[%d] = quantity %s is not measured in %s (its measured columns: %s)", j, q, c.Data.Source, strings.Join(names, ", "))
+		}
+		if i := slices.Index(c.Quantities, q); i < j {
+			return nil, nil, fail("Calibration.Quantities[%d] = quantity %s, listed twice (also Quantities[%d]); list each quantity once", j, q, i)
+		}
+		qi = append(qi, k)
+	}
+	return start, qi, nil
 }
 
 // Fixed returns the fitted factors as parameter values, to hand to the

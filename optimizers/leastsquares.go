@@ -45,24 +45,27 @@ type FitProblem struct {
 // parameters; or the largest cosine between the residual vector and a
 // column of the Jacobian is below GTol (the gradient test of MINPACK).
 type LeastSquares struct {
-	// MaxIterations caps the accepted and rejected steps (default 500).
+	// MaxIterations caps the accepted and rejected steps (default 500; >= 1).
 	MaxIterations int
 	// MaxEvaluations caps the calls of Predict, Jacobian columns included
-	// (default 100 000).
+	// (default 100 000; >= 1).
 	MaxEvaluations int
 	// FTol is the relative change of the sum of squares that counts as
-	// converged (default 1e-14).
+	// converged (default 1e-14; in (0, 1]).
 	FTol float64
-	// XTol is the relative step that counts as converged (default 1e-12).
+	// XTol is the relative step that counts as converged (default 1e-12;
+	// in (0, 1]).
 	XTol float64
-	// GTol is the gradient cosine that counts as converged (default 1e-12).
+	// GTol is the gradient cosine that counts as converged (default 1e-12;
+	// in (0, 1]).
 	GTol float64
-	// Step is the relative step of the central differences (default ∛ε ≈ 6e-6).
+	// Step is the relative step of the central differences (default ∛ε ≈ 6e-6;
+	// in (0, 1]).
 	// Raise it when the predictions carry solver noise (a coupled analysis).
 	Step float64
 	// RankTol is the ratio of the smallest to the largest singular value of
 	// the column-scaled Jacobian below which parameters count as not told
-	// apart by the data (default 1e-8).
+	// apart by the data (default 1e-8; in (0, 1]).
 	RankTol float64
 }
 
@@ -174,19 +177,24 @@ func (o LeastSquares) defaults() LeastSquares {
 	return o
 }
 
-// validate checks the settings and the problem.
+// checkSettings refuses a setting out of its range, naming it as
+// method.Field with its value and the allowed range: a count must be >= 1,
+// a tolerance, the difference step and RankTol must lie in (0, 1] (0 takes
+// the default).
+func (o LeastSquares) checkSettings(method string) error {
+	return firstError(
+		checkInt(method, "MaxIterations", o.MaxIterations, 1),
+		checkInt(method, "MaxEvaluations", o.MaxEvaluations, 1),
+		checkRange(method, "FTol", o.FTol, 0, 1, true),
+		checkRange(method, "XTol", o.XTol, 0, 1, true),
+		checkRange(method, "GTol", o.GTol, 0, 1, true),
+		checkRange(method, "Step", o.Step, 0, 1, true),
+		checkRange(method, "RankTol", o.RankTol, 0, 1, true),
+	)
+}
+
+// validate checks the problem.
 func (o LeastSquares) validate(pr *FitProblem) error {
-	for _, c := range []struct {
-		name string
-		v    float64
-	}{{"FTol", o.FTol}, {"XTol", o.XTol}, {"GTol", o.GTol}, {"Step", o.Step}, {"RankTol", o.RankTol}} {
-		if !(c.v >= 0) || math.IsInf(c.v, 0) {
-			return fmt.Errorf("optimizers: least squares: %s is %g; it must be a finite number ≥ 0 (0 takes the default)", c.name, c.v)
-		}
-	}
-	if o.MaxIterations < 0 || o.MaxEvaluations < 0 {
-		return fmt.Errorf("optimizers: least squares: MaxIterations %d and MaxEvaluations %d must be ≥ 0 (0 takes the default)", o.MaxIterations, o.MaxEvaluations)
-	}
 	p, n := len(pr.Start), len(pr.Observed)
 	switch {
 	case pr.Predict == nil:
@@ -307,6 +315,9 @@ func (s *lmState) jacobian(p []float64, jac *mat.Dense) (bool, error) {
 func (o LeastSquares) Fit(ctx context.Context, pr FitProblem) (*FitResult, error) {
 	if ctx == nil {
 		ctx = context.Background()
+	}
+	if err := o.checkSettings("LeastSquares"); err != nil {
+		return nil, err
 	}
 	o = o.defaults()
 	if err := o.validate(&pr); err != nil {

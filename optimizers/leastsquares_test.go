@@ -306,7 +306,6 @@ func TestLeastSquaresRefusesBadProblems(t *testing.T) {
 		{"names", LeastSquares{}, FitProblem{Names: []string{"a"}, Start: []float64{1, 1}, Observed: []float64{1, 2, 3}, Predict: pred}, "1 names for 2"},
 		{"sigma", LeastSquares{}, FitProblem{Names: []string{"a"}, Start: []float64{1}, Observed: []float64{1, 2}, Sigma: []float64{1, 0}, Predict: pred}, "uncertainty of point 2 is 0"},
 		{"start", LeastSquares{}, FitProblem{Names: []string{"a"}, Start: []float64{math.NaN()}, Observed: []float64{1, 2}, Predict: pred}, "start of a is NaN"},
-		{"tol", LeastSquares{FTol: -1}, FitProblem{Names: []string{"a"}, Start: []float64{1}, Observed: []float64{1, 2}, Predict: pred}, "FTol is -1"},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
