@@ -29,7 +29,9 @@ type CMAES struct {
 	MaxEvaluations int
 	// Population is the number of samples per generation, evaluated as
 	// one batch; default max(4 + ⌊3 ln n⌋, 4 (n + 1)) for n variables
-	// (gonum's default, 4 + ⌊3 ln n⌋, is slow on curved valleys).
+	// (gonum's default, 4 + ⌊3 ln n⌋, is slow on curved valleys). At
+	// most 100 000: each sample holds its point and an evaluation with
+	// every output of the system (about 2 kB for 250 variables).
 	Population int
 	// StepSize is the initial standard deviation in the folded
 	// coordinates (1 spans the box); default 0.3, divided by 3 at each
@@ -62,6 +64,7 @@ func (o CMAES) validate() error {
 	return firstError(
 		checkInt(m, "MaxEvaluations", o.MaxEvaluations, 1),
 		checkInt(m, "Population", o.Population, 2),
+		checkMax(m, "Population", o.Population, maxPopulation, "each sample of a generation holds its point and an evaluation with every output of the system (about 2 kB for 250 variables), 0.2 GB at the limit"),
 		checkRange(m, "StepSize", o.StepSize, 0, 10, true),
 		checkRange(m, "Tolerance", o.Tolerance, 0, 1, true),
 		checkInt(m, "StallGenerations", o.StallGenerations, 1),

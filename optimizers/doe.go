@@ -122,31 +122,34 @@ func (FullFactorial) Name() string { return "full factorial" }
 
 // Minimize implements Optimizer.
 func (o FullFactorial) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error) {
-	if err := checkInt("FullFactorial", "Levels", o.Levels, 1); err != nil {
-		return nil, err
-	}
-	if err := checkInt("FullFactorial", "MaxPoints", o.MaxPoints, 1); err != nil {
+	const m = "FullFactorial"
+	if err := firstError(
+		checkInt(m, "Levels", o.Levels, 1),
+		checkInt(m, "MaxPoints", o.MaxPoints, 1),
+		checkMax(m, "MaxPoints", o.MaxPoints, maxDesignPoints, designPointsWhy),
+	); err != nil {
 		return nil, err
 	}
 	for _, name := range sortedKeys(o.VariableLevels) {
 		if l := o.VariableLevels[name]; l < 1 {
-			return nil, settingError("FullFactorial", "VariableLevels["+name+"]", l, "must be >= 1")
+			return nil, settingError(m, "VariableLevels["+name+"]", l, "must be >= 1")
 		}
 	}
-	var specs []mdo.DesignSpec
-	gen := func(_, d int, _ uint64) ([][]float64, error) {
+	var levels []int
+	plan := func(specs []mdo.DesignSpec) (int, error) {
 		names := make([]string, len(specs))
 		for k, sp := range specs {
 			names[k] = sp.Name
 		}
 		for _, name := range sortedKeys(o.VariableLevels) {
 			if !slices.Contains(names, name) {
-				return nil, settingError("FullFactorial", "VariableLevels["+name+"]", o.VariableLevels[name],
+				return 0, settingError(m, "VariableLevels["+name+"]", o.VariableLevels[name],
 					fmt.Sprintf("names no design variable of the study; allowed: %s", strings.Join(names, ", ")))
 			}
 		}
-		levels := make([]int, d)
+		levels = make([]int, len(specs))
 		total := 1.0
+		each, factors := make([]string, len(specs)), make([]string, len(specs))
 		for k, sp := range specs {
 			l, set := o.VariableLevels[sp.Name]
 			if !set {
@@ -159,10 +162,15 @@ func (o FullFactorial) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result,
 			}
 			levels[k] = l
 			total *= float64(l)
+			each[k], factors[k] = fmt.Sprintf("%s %d", sp.Name, l), fmt.Sprint(l)
 		}
 		if max := float64(or(o.MaxPoints, 100000)); total > max {
-			return nil, fmt.Errorf("optimizers: FullFactorial: %v levels give %g points, more than MaxPoints = %g", levels, total, max)
+			return 0, fmt.Errorf("optimizers: FullFactorial: the levels (%s) give %s = %.4g points, more than MaxPoints = %d (at most %d: %s); lower Levels or VariableLevels",
+				strings.Join(each, ", "), strings.Join(factors, " × "), total, int(max), maxDesignPoints, designPointsWhy)
 		}
+		return int(total), nil
+	}
+	gen := func(_, d int, _ uint64) ([][]float64, error) {
 		xs := [][]float64{make([]float64, 0, d)}
 		for k := 0; k < d; k++ {
 			var next [][]float64
@@ -179,7 +187,7 @@ func (o FullFactorial) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result,
 		}
 		return xs, nil
 	}
-	return runDesignSpecs(ctx, s, o.Name(), o, "FullFactorial", 0, false, o.BatchSize, &specs, gen)
+	return runDesignSpecs(ctx, s, o.Name(), o, m, 0, false, o.BatchSize, plan, gen)
 }
 
 // sortedKeys returns the keys of m in order, so that the first bad one
@@ -211,26 +219,49 @@ func runDesign(ctx context.Context, s *mdo.Study, name string, settings any, met
 	return runDesignSpecs(ctx, s, name, settings, method, samples, true, batch, nil, gen)
 }
 
+// designPointsWhy says why a design's points are bounded.
+const designPointsWhy = "every point is drawn before the first evaluation, a slice of 8 bytes a variable"
+
 // runDesignSpecs evaluates a design; when hasSamples is false the
-// generator chooses the number of points; specs, when not nil, receives
-// the design variables before gen is called.
-func runDesignSpecs(ctx context.Context, s *mdo.Study, name string, settings any, method string, samples int, hasSamples bool, batch int, specs *[]mdo.DesignSpec, gen designFunc) (*mdo.Result, error) {
+// generator chooses the number of points, which plan returns from the
+// design variables before the run begins.
+func runDesignSpecs(ctx context.Context, s *mdo.Study, name string, settings any, method string, samples int, hasSamples bool, batch int, plan func([]mdo.DesignSpec) (int, error), gen designFunc) (*mdo.Result, error) {
 	if hasSamples {
-		if err := checkInt(method, "Samples", samples, 1); err != nil {
+		if err := firstError(
+			checkInt(method, "Samples", samples, 1),
+			checkMax(method, "Samples", samples, maxDesignPoints, designPointsWhy),
+		); err != nil {
 			return nil, err
 		}
 	}
-	if err := checkInt(method, "BatchSize", batch, 1); err != nil {
+	if err := firstError(
+		checkInt(method, "BatchSize", batch, 1),
+		checkMax(method, "BatchSize", batch, maxBatch, "a batch's evaluations, each with every output of the system, are held together"),
+	); err != nil {
 		return nil, err
 	}
-	r, err := begin(ctx, s, name, settings)
+	n := or(samples, 100)
+	check := func(ev *mdo.Evaluator) error {
+		if plan != nil {
+			var err error
+			if n, err = plan(ev.DesignSpecs()); err != nil {
+				return err
+			}
+		}
+		if bytes := float64(n) * float64(ev.Dim()) * 8; bytes > maxDesignBytes {
+			setting := "Samples"
+			if !hasSamples {
+				setting = "MaxPoints"
+			}
+			return fmt.Errorf("optimizers: %s: %d points of %d variables take %.3g GB, more than the limit of %.3g GB (every point is drawn before the first evaluation); lower %s", method, n, ev.Dim(), bytes/1e9, maxDesignBytes/1e9, setting)
+		}
+		return nil
+	}
+	r, err := beginChecked(ctx, s, name, settings, check)
 	if err != nil {
 		return nil, err
 	}
-	if specs != nil {
-		*specs = r.ev.DesignSpecs()
-	}
-	xs, err := gen(or(samples, 100), r.ev.Dim(), r.ev.Seed())
+	xs, err := gen(n, r.ev.Dim(), r.ev.Seed())
 	if err != nil {
 		return nil, err
 	}

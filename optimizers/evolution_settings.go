@@ -1,6 +1,7 @@
 package optimizers
 
 import (
+	"fmt"
 	"math"
 	"math/rand"
 )
@@ -17,10 +18,16 @@ import (
 type Evolution struct {
 	// Population is the number of individuals (agents, particles); its
 	// default depends on the method and the number of variables (see the
-	// method).
+	// method). At most 100 000: each individual and each offspring holds
+	// its point and an evaluation with every output of the system (about
+	// 2 kB for 250 variables), 0.4 GB at the limit.
 	Population int
 	// Generations after the first population; default 200 (100 for
-	// ParticleSwarm, and for GA without equality constraints).
+	// ParticleSwarm, and for GA without equality constraints). Without
+	// MaxEvaluations, Population × (Generations + 1) must be at most 10⁹
+	// (the smallest population of the method counting for a default
+	// Population): a longer run cannot end in a working day and its
+	// record would take hundreds of gigabytes.
 	Generations int
 	// MaxEvaluations caps the evaluations: analyses, plus points picked
 	// up from the store of an earlier session; repeats answered from the
@@ -32,10 +39,23 @@ type Evolution struct {
 // validate checks the block; minPopulation is the method's smallest
 // population.
 func (b Evolution) validate(method string, minPopulation int) error {
+	var planned error
+	if pop := max(b.Population, minPopulation); b.MaxEvaluations == 0 && b.Generations > 0 &&
+		float64(pop)*(float64(b.Generations)+1) > maxPlannedEvaluations {
+		who := fmt.Sprintf("Population = %d", b.Population)
+		if b.Population == 0 {
+			who = fmt.Sprintf("the smallest population of %d", pop)
+		}
+		planned = settingError(method, "Generations", b.Generations, fmt.Sprintf(
+			"with %s plans %g evaluations; Population × (Generations + 1) must be at most %g without MaxEvaluations: a longer run cannot end in a working day and its record would take hundreds of gigabytes (set MaxEvaluations to cap it)",
+			who, float64(pop)*(float64(b.Generations)+1), float64(maxPlannedEvaluations)))
+	}
 	return firstError(
 		checkInt(method, "Population", b.Population, minPopulation),
+		checkMax(method, "Population", b.Population, maxPopulation, "each individual and each offspring holds its point and an evaluation with every output of the system (about 2 kB for 250 variables), 0.4 GB at the limit"),
 		checkInt(method, "Generations", b.Generations, 1),
 		checkInt(method, "MaxEvaluations", b.MaxEvaluations, 1),
+		planned,
 	)
 }
 

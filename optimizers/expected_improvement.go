@@ -31,10 +31,14 @@ type ExpectedImprovement struct {
 	// InitialSamples is the size of the starting Latin-hypercube design;
 	// default 10 per design variable, at most half of MaxEvaluations.
 	InitialSamples int
-	// MaxEvaluations caps the true evaluations of the whole run; default 60.
+	// MaxEvaluations caps the true evaluations of the whole run; default
+	// 60, at most 2000 (the Gaussian processes are refitted to every
+	// analysed point at each iteration, each holding at least two n × n matrices,
+	// 64 MB at the limit, and costing n³ operations).
 	MaxEvaluations int
 	// Candidates is the number of random points the acquisition is tried
-	// at before the best few are refined; default 2000.
+	// at before the best few are refined; default 2000, at most
+	// 1 000 000 (drawn and scored at every iteration).
 	Candidates int
 }
 
@@ -52,6 +56,8 @@ func (o ExpectedImprovement) validate() error {
 		checkInt(m, "InitialSamples", o.InitialSamples, 3),
 		checkInt(m, "MaxEvaluations", o.MaxEvaluations, 4),
 		checkInt(m, "Candidates", o.Candidates, 10),
+		checkMax(m, "Candidates", o.Candidates, maxCandidates, "the candidates are drawn and scored by the surrogates at every iteration"),
+		checkMax(m, "MaxEvaluations", o.MaxEvaluations, maxSurrogatePoints, "the Gaussian processes are refitted to every analysed point at each iteration, each holding at least two n × n matrices (64 MB at the limit) and costing n³ operations"),
 		within,
 	)
 }

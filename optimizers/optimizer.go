@@ -68,6 +68,12 @@ type run struct {
 // begin validates the study, makes its evaluator and starts the record.
 // settings is the optimiser's settings struct, recorded field by field.
 func begin(ctx context.Context, s *mdo.Study, name string, settings any) (*run, error) {
+	return beginChecked(ctx, s, name, settings, nil)
+}
+
+// beginChecked is begin with a check of the settings against the
+// study's evaluator (its design variables) before the run begins.
+func beginChecked(ctx context.Context, s *mdo.Study, name string, settings any, check func(*mdo.Evaluator) error) (*run, error) {
 	if s == nil {
 		return nil, fmt.Errorf("optimizers: %s: the study is nil", name)
 	}
@@ -77,6 +83,11 @@ func begin(ctx context.Context, s *mdo.Study, name string, settings any) (*run, 
 	ev, err := s.NewEvaluator()
 	if err != nil {
 		return nil, fmt.Errorf("optimizers: %s: %w", name, err)
+	}
+	if check != nil {
+		if err := check(ev); err != nil {
+			return nil, err
+		}
 	}
 	if err := ev.Begin(name, settingsMap(settings)); err != nil {
 		return nil, fmt.Errorf("optimizers: %s: %w", name, err)

@@ -15,12 +15,14 @@ import (
 // badSetting is a value out of range of a setting: field is its path in
 // the method's settings (an embedded block's fields read as the method's
 // own, a named block's with its name), allowed words of what is allowed;
-// shown is the value as the message gives it when not fmt.Sprint(value).
+// shown is the value as the message gives it when not fmt.Sprint(value);
+// only, when set, is the one method the row applies to.
 type badSetting struct {
 	field   string
 	value   any
 	allowed string
 	shown   string
+	only    string
 }
 
 // badSettings lists values out of range; each applies to every method
@@ -70,12 +72,21 @@ var badSettings = []badSetting{
 	{field: "InitialSamples", value: 2, allowed: ">= 3"},
 	{field: "InitialSamples", value: 100, allowed: "at most MaxEvaluations (60)"},
 	{field: "Candidates", value: 5, allowed: ">= 10"},
+	// upper limits of the sizes the methods allocate for
+	{field: "Population", value: 200_000, allowed: "must be at most 100000: each "},
+	{field: "Generations", value: 1_000_000_000, allowed: "must be at most 1e+09 without MaxEvaluations"},
+	{field: "Starts", value: 20_000, allowed: "must be at most 10000: the starting points are drawn"},
+	{field: "Restarts", value: 20_000, allowed: "must be at most 10000: the restart points are drawn"},
+	{field: "Samples", value: 2_000_000, allowed: "must be at most 1000000: every point is drawn"},
+	{field: "BatchSize", value: 200_000, allowed: "must be at most 100000: a batch's evaluations"},
+	{field: "MaxPoints", value: 2_000_000, allowed: "must be at most 1000000: every point is drawn"},
+	{field: "Candidates", value: 2_000_000, allowed: "must be at most 1000000: the candidates"},
+	{field: "MaxEvaluations", value: 5000, allowed: "must be at most 2000: the Gaussian processes", only: "ExpectedImprovement"},
 }
 
 // anySetting lists the settings every value of which is allowed, and why.
 var anySetting = map[string]string{
 	"CMAES.GradientSteps": "negative means none, 0 the default, a positive value the steps",
-	"Sextant.Restarts":    "negative means none, 0 the default, a positive value the restarts",
 }
 
 // settingMethods is a settings value of every method.
@@ -127,6 +138,9 @@ func TestSettingsValidation(t *testing.T) {
 		typ := reflect.TypeOf(o)
 		covered := map[string]bool{}
 		for _, b := range badSettings {
+			if b.only != "" && b.only != typ.Name() {
+				continue
+			}
 			bad, ok := withSetting(o, b.field, b.value)
 			if !ok {
 				continue
@@ -169,10 +183,65 @@ func TestSettingsValidation(t *testing.T) {
 	if err == nil || !strings.Contains(err.Error(), "VariableLevels[x] = -1") {
 		t.Errorf("error %v, want one naming VariableLevels[x] = -1", err)
 	}
-	// a design too large for MaxPoints names it
-	_, err = FullFactorial{Levels: 100, MaxPoints: 1000}.Minimize(context.Background(), s)
-	if err == nil || !strings.Contains(err.Error(), "MaxPoints = 1000") {
-		t.Errorf("error %v, want one naming MaxPoints = 1000", err)
+}
+
+// beginCounter counts the runs begun on it.
+type beginCounter struct{ begun int }
+
+func (b *beginCounter) Begin(mdo.RunInfo) error      { b.begun++; return nil }
+func (b *beginCounter) Record(*mdo.Evaluation) error { return nil }
+func (b *beginCounter) End(*mdo.Result) error        { return nil }
+
+// A design of experiments whose points would not fit the limits is
+// refused before the run begins (the recorder is not begun), naming the
+// levels and their product, or the points, variables and bytes.
+func TestDesignSizeRefused(t *testing.T) {
+	sellar := func() (*mdo.Study, error) { return SellarMDF() }
+	wide := func() (*mdo.Study, error) { return ZDT1(200) }
+	tests := []struct {
+		name  string
+		study func() (*mdo.Study, error)
+		o     Optimizer
+		want  []string
+	}{
+		{"levels over MaxPoints", sellar, FullFactorial{Levels: 100, MaxPoints: 1000},
+			[]string{"FullFactorial", "levels (x 100, z1 100, z2 100)", "100 × 100 × 100 = 1e+06 points", "more than MaxPoints = 1000"}},
+		{"levels over the default MaxPoints", sellar, FullFactorial{VariableLevels: map[string]int{"x": 1000, "z1": 1000}},
+			[]string{"levels (x 1000, z1 1000, z2 3)", "1000 × 1000 × 3 = 3e+06 points", "more than MaxPoints = 100000", "at most 1000000"}},
+		{"levels whose product overflows", sellar, FullFactorial{Levels: 1 << 30, MaxPoints: 1_000_000},
+			[]string{"1073741824 × 1073741824 × 1073741824 = 1.238e+27 points", "more than MaxPoints = 1000000"}},
+		{"samples of many variables", wide, LatinHypercube{Samples: 1_000_000},
+			[]string{"LatinHypercube", "1000000 points of 200 variables take 1.6 GB", "limit of 1.07 GB", "lower Samples"}},
+		{"full factorial of many variables", wide, FullFactorial{Levels: 1, MaxPoints: 1},
+			nil},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			s, err := tc.study()
+			if err != nil {
+				t.Fatal(err)
+			}
+			rec := &beginCounter{}
+			s.Recorder = rec
+			_, err = tc.o.Minimize(context.Background(), s)
+			if tc.want == nil {
+				if err != nil {
+					t.Fatalf("a design within the limits refused: %v", err)
+				}
+				return
+			}
+			if err == nil {
+				t.Fatal("no error")
+			}
+			for _, w := range tc.want {
+				if !strings.Contains(err.Error(), w) {
+					t.Errorf("error %q does not say %q", err, w)
+				}
+			}
+			if rec.begun != 0 {
+				t.Errorf("the run was begun %d times before the refusal", rec.begun)
+			}
+		})
 	}
 }
 

@@ -78,7 +78,9 @@ type Sextant struct {
 	// FeasibilityTolerance on the largest scaled violation; default 1e-8.
 	FeasibilityTolerance float64
 	// Starts is the number of starting points, the study's baseline
-	// design first; default 1.
+	// design first; default 1, at most 10 000 (the points are drawn
+	// before the first start, and each start is a whole SQP run that
+	// keeps its report).
 	Starts int
 	// Restarts is the number of further starts, from points of a
 	// scrambled Halton sequence drawn from the study's seed, tried one
@@ -87,7 +89,8 @@ type Sextant struct {
 	// where nothing analyses): a local method cannot leave such a
 	// minimum, where the violated constraints may not even have a
 	// gradient (a thrust sized to a requirement, say); default 8,
-	// negative for none.
+	// negative for none, at most 10 000 (their points are drawn before
+	// the first start).
 	Restarts int
 	// Parameters names fixed parameters of the study (inputs nobody
 	// produces that are not design variables, e.g. mission.payload) whose
@@ -108,6 +111,8 @@ func (o Sextant) validate() error {
 		checkRange(m, "OptimalityTolerance", o.OptimalityTolerance, 0, 1, true),
 		checkRange(m, "FeasibilityTolerance", o.FeasibilityTolerance, 0, 1, true),
 		checkInt(m, "Starts", o.Starts, 1),
+		checkMax(m, "Starts", o.Starts, maxStarts, "the starting points are drawn before the first start and each start is a whole SQP run that keeps its report"),
+		checkMax(m, "Restarts", o.Restarts, maxStarts, "the restart points are drawn before the first start and each restart is a whole SQP run that keeps its report"),
 	)
 }
 
