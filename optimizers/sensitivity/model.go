@@ -115,3 +115,14 @@ func at(v []float64, i int) float64 {
 	}
 	return math.NaN()
 }
+
+// MaxRuns bounds the model runs of a screening or of Sobol' indices:
+// their points are drawn before the first run, d + 3 words each (a slice
+// of d values and its header), so 10⁷ points of 10 variables hold about
+// 1 GB. Far more than a conceptual model is run for.
+const MaxRuns = 10_000_000
+
+// MaxResamples bounds Sobol.Resamples: every resample's first-order and
+// total indices are kept for the percentile intervals (2d values), and
+// each resample costs N(d + 2) operations.
+const MaxResamples = 100_000

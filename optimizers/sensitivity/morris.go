@@ -19,9 +19,11 @@ import (
 // effects from linear ones. Zero values take the defaults.
 type Morris struct {
 	// Trajectories is R; default 20 (Morris 1991 and Saltelli et al.
-	// 2008 suggest 10 to 50).
+	// 2008 suggest 10 to 50); R(d + 1) for d variables at most MaxRuns
+	// (the points are drawn before the first run).
 	Trajectories int
-	// Levels is the number of grid levels p, even; default 4.
+	// Levels is the number of grid levels p, even; default 4. It sizes
+	// no allocation, so it has no upper limit.
 	Levels int
 }
 
@@ -63,6 +65,9 @@ func (m Morris) Screen(ctx context.Context, model Model, names []string, seed ui
 	d := len(names)
 	if d == 0 {
 		return nil, fmt.Errorf("sensitivity: Morris: no variables named")
+	}
+	if runs := float64(r) * float64(d+1); runs > MaxRuns {
+		return nil, fmt.Errorf("sensitivity: Morris.Trajectories = %d, allowed at most %d for %d variables: the R(d + 1) = %g points are drawn before the first run and the limit is %d runs", m.Trajectories, MaxRuns/(d+1), d, runs, MaxRuns)
 	}
 	if ctx == nil {
 		ctx = context.Background()

@@ -18,9 +18,11 @@ import (
 // Tibshirani 1993) over the N base rows. Zero values take the defaults.
 type Sobol struct {
 	// N is the number of base points; default 4096. A power of two keeps
-	// the sequence balanced.
+	// the sequence balanced. N(d + 2) for d variables at most MaxRuns
+	// (the points are drawn before the first run).
 	N int
-	// Resamples is the number of bootstrap resamples; default 500.
+	// Resamples is the number of bootstrap resamples; default 500, at
+	// most MaxResamples.
 	Resamples int
 	// Confidence is the level of the intervals; default 0.95.
 	Confidence float64
@@ -71,6 +73,12 @@ func (o Sobol) Indices(ctx context.Context, model Model, names []string, seed ui
 	d := len(names)
 	if d == 0 || 2*d > MaxSobolDim {
 		return nil, fmt.Errorf("sensitivity: Sobol: %d variables, allowed 1 to %d", d, MaxSobolDim/2)
+	}
+	if runs := float64(n) * float64(d+2); runs > MaxRuns {
+		return nil, fmt.Errorf("sensitivity: Sobol.N = %d, allowed at most %d for %d variables: the N(d + 2) = %g points are drawn before the first run and the limit is %d runs", o.N, MaxRuns/(d+2), d, runs, MaxRuns)
+	}
+	if nb > MaxResamples {
+		return nil, fmt.Errorf("sensitivity: Sobol.Resamples = %d, allowed at most %d: every resample's indices are kept for the percentiles and each costs N(d + 2) operations", nb, MaxResamples)
 	}
 	if ctx == nil {
 		ctx = context.Background()
