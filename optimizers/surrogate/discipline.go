@@ -42,7 +42,12 @@ func (k Kind) String() string {
 // Fit chooses how a stand-in is fitted. Zero values take the defaults.
 type Fit struct {
 	// Samples is the number of Latin-hypercube samples of the true
-	// analysis; default 10 per sampled variable plus 10.
+	// analysis; default 10 per sampled variable plus 10, at least the
+	// sampled variables plus 2, and at most what keeps the fitted model
+	// within 1 GiB: a CubicRBF model holds two dense matrices of
+	// (Samples + variables + 1)² values (about 8000 samples at the
+	// limit), a Kriging model (outputs + 2) matrices of Samples² values
+	// (about 6700 samples for one output, 3300 for 10).
 	Samples int
 	// Ranges give the sampled interval of variables by name; a variable
 	// not given is sampled over its validity range (Var.Min to Var.Max)
@@ -98,7 +103,7 @@ func FitDiscipline(ctx context.Context, d mdo.Discipline, fit Fit) (*Discipline,
 	if len(out) == 0 {
 		return nil, fmt.Errorf("surrogate: FitDiscipline(%s): the discipline has no outputs", d.Name())
 	}
-	lo, hi, err := sampledBox(d.Name(), "validity range", in, fit.Ranges)
+	lo, hi, err := sampledBox("FitDiscipline("+d.Name()+")", "validity range", in, fit.Ranges)
 	if err != nil {
 		return nil, err
 	}
@@ -111,12 +116,9 @@ func FitDiscipline(ctx context.Context, d mdo.Discipline, fit Fit) (*Discipline,
 	if len(sd.coords) == 0 {
 		return nil, fmt.Errorf("surrogate: FitDiscipline(%s): every input is held at one value: nothing to fit", d.Name())
 	}
-	n := fit.Samples
-	if n == 0 {
-		n = 10*len(sd.coords) + 10
-	}
-	if n < len(sd.coords)+2 {
-		return nil, fmt.Errorf("surrogate: FitDiscipline(%s): Fit.Samples = %d, need at least %d for %d sampled inputs", d.Name(), n, len(sd.coords)+2, len(sd.coords))
+	n, err := fit.check("FitDiscipline("+d.Name()+")", "inputs", len(sd.coords), len(out))
+	if err != nil {
+		return nil, err
 	}
 	unit := latinHypercube(n, len(sd.coords), fit.Seed)
 	var xs [][]float64
@@ -200,6 +202,45 @@ func computes(d mdo.Discipline, x, y []float64) (ok bool) {
 		}
 	}
 	return true
+}
+
+// maxFitBytes bounds the memory of a fitted model's matrices.
+const maxFitBytes = 1 << 30
+
+// check refuses a Fit whose Model is unknown or whose Samples are too
+// few for d sampled variables or too many for the memory of a model of
+// outputs outputs, before any sample is analysed (who names the fit,
+// vars the sampled variables); it returns the number of samples.
+func (fit Fit) check(who, vars string, d, outputs int) (int, error) {
+	if fit.Model != CubicRBF && fit.Model != Kriging {
+		return 0, fmt.Errorf("surrogate: %s: Fit.Model = %v, allowed CubicRBF or Kriging", who, fit.Model)
+	}
+	n := fit.Samples
+	if n == 0 {
+		n = 10*d + 10
+	}
+	if n < d+2 {
+		return 0, fmt.Errorf("surrogate: %s: Fit.Samples = %d, need at least %d for %d sampled %s", who, n, d+2, d, vars)
+	}
+	var bytes float64
+	var most int
+	var held string
+	switch fit.Model {
+	case CubicRBF:
+		m := float64(n + d + 1)
+		bytes = 2 * m * m * 8
+		most = int(math.Sqrt(maxFitBytes/16)) - d - 1
+		held = fmt.Sprintf("two dense matrices of (Samples + %d + 1)² values", d)
+	case Kriging:
+		bytes = float64(outputs+2) * float64(n) * float64(n) * 8
+		most = int(math.Sqrt(maxFitBytes / 8 / float64(outputs+2)))
+		held = fmt.Sprintf("%d + 2 matrices of Samples² values (one per output, two to fit)", outputs)
+	}
+	if bytes > maxFitBytes {
+		return 0, fmt.Errorf("surrogate: %s: Fit.Samples = %d, allowed at most %d for %d sampled %s and %d outputs with %v: the model holds %s, %.3g GB, more than the limit of %.3g GB",
+			who, n, most, d, vars, outputs, fit.Model, held, bytes/1e9, float64(maxFitBytes)/1e9)
+	}
+	return n, nil
 }
 
 // sampledBox returns the sampled interval of each variable: the range

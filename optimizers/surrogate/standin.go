@@ -68,12 +68,9 @@ func StandIn(ctx context.Context, s *mdo.Study, fit Fit) (*mdo.Study, error) {
 			sd.outputs = append(sd.outputs, v)
 		}
 	}
-	n := fit.Samples
-	if n == 0 {
-		n = 10*len(sd.coords) + 10
-	}
-	if n < len(sd.coords)+2 {
-		return nil, fmt.Errorf("surrogate: StandIn(%s): Fit.Samples = %d, need at least %d for %d sampled design variables", s.Name, n, len(sd.coords)+2, len(sd.coords))
+	n, err := fit.check("StandIn("+s.Name+")", "design variables", len(sd.coords), len(sd.outputs))
+	if err != nil {
+		return nil, err
 	}
 	var us [][]float64
 	for _, u := range latinHypercube(n, len(sd.coords), fit.Seed) {
