@@ -33,10 +33,13 @@ type Spec struct {
 	// Quantity is the mapped objective, constrained quantity or output;
 	// default the study's first objective.
 	Quantity string
-	// At fixes the other design variables (physical values by name);
-	// those not given sit at the study's baseline (Evaluator.Start).
+	// At fixes the other design variables (physical values by name,
+	// each inside the variable's bounds); those not given sit at the
+	// study's baseline (Evaluator.Start).
 	At map[string]float64
-	// Points is the number of grid points along each axis; default 21.
+	// Points is the number of grid points along each axis; default 21,
+	// allowed 2 to 201 (the Points² analyses are held together: 40 401
+	// evaluations, each with every output of the system, at the limit).
 	Points int
 }
 
@@ -119,7 +122,7 @@ func Sample(ctx context.Context, s *mdo.Study, spec Spec) (*Data, error) {
 		if k < 0 {
 			return nil, fmt.Errorf("designmap: Spec.At names %q, which is no design variable of study %q (%v)", name, s.Name, names)
 		}
-		if v < specs[k].Lower || v > specs[k].Upper {
+		if !(v >= specs[k].Lower && v <= specs[k].Upper) {
 			return nil, fmt.Errorf("designmap: Spec.At[%q] = %g, allowed [%g, %g]", name, v, specs[k].Lower, specs[k].Upper)
 		}
 		base[k] = v
