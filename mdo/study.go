@@ -80,7 +80,9 @@ type Study struct {
 	// >= 0 and finite.
 	ConsistencyTolerance float64
 	// CacheLimit caps the number of cached evaluations; default 50 000,
-	// negative disables the cache.
+	// negative disables the cache, at most 1 000 000 (each cached
+	// evaluation holds every output of the system, about 2 kB for 250
+	// variables: 2 GB at the limit).
 	CacheLimit int
 	// Recorder, if not nil, receives every evaluation.
 	Recorder Recorder
@@ -96,6 +98,9 @@ type Study struct {
 
 // maxWorkers is the largest Workers a study accepts.
 const maxWorkers = 1024
+
+// maxCacheLimit is the largest CacheLimit a study accepts.
+const maxCacheLimit = 1_000_000
 
 // Check validates the study against its system, as NewEvaluator does:
 // its declarations, and a dry run of its objective and constraint
@@ -180,6 +185,9 @@ func (s *Study) validate() error {
 	}
 	if s.Workers < 0 || s.Workers > maxWorkers {
 		return fmt.Errorf("mdo: study %q: Workers = %d, must be in [0, %d] (0 = all cores; each worker holds a workspace of the system)", s.Name, s.Workers, maxWorkers)
+	}
+	if s.CacheLimit > maxCacheLimit {
+		return fmt.Errorf("mdo: study %q: CacheLimit = %d, must be at most %d (negative disables the cache, 0 means the default 50 000): each cached evaluation holds every output of the system, about 2 kB for 250 variables", s.Name, s.CacheLimit, maxCacheLimit)
 	}
 	if c := s.ConsistencyTolerance; !(c >= 0) || math.IsInf(c, 0) {
 		return fmt.Errorf("mdo: study %q: ConsistencyTolerance = %g, must be >= 0 and finite (0 means the default 1e-4)", s.Name, c)

@@ -46,6 +46,7 @@ func TestStudyCheckRefusesBadDeclarations(t *testing.T) {
 		{"fixed value of an unknown variable", func(s *Study) { s.Fixed = map[string]float64{"zz2": 1} }, []string{"fixed value", `"zz2"`, "similar: z2"}},
 		{"workers negative", func(s *Study) { s.Workers = -2 }, []string{"Workers = -2", "[0, 1024]"}},
 		{"workers too many", func(s *Study) { s.Workers = 1 << 20 }, []string{"Workers = 1048576", "[0, 1024]"}},
+		{"cache limit too large", func(s *Study) { s.CacheLimit = 1 << 30 }, []string{"CacheLimit = 1073741824", "at most 1000000", "every output of the system"}},
 		{"consistency tolerance negative", func(s *Study) { s.ConsistencyTolerance = -1e-3 }, []string{"ConsistencyTolerance = -0.001", ">= 0"}},
 		{"consistency tolerance NaN", func(s *Study) { s.ConsistencyTolerance = nan }, []string{"ConsistencyTolerance = NaN", ">= 0 and finite"}},
 		{"coupling bounds NaN", func(s *Study) { s.CouplingBounds = map[string][2]float64{"y1": {nan, 3}} }, []string{"y1", "[NaN, 3]", "finite with lower < upper"}},
