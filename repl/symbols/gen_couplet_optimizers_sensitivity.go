@@ -13,6 +13,8 @@ func init() {
 	Symbols["couplet/optimizers/sensitivity/sensitivity"] = map[string]reflect.Value{
 		// function, constant and variable definitions
 		"FuncModel":        reflect.ValueOf(sensitivity.FuncModel),
+		"MaxResamples":     reflect.ValueOf(constant.MakeFromLiteral("100000", token.INT, 0)),
+		"MaxRuns":          reflect.ValueOf(constant.MakeFromLiteral("10000000", token.INT, 0)),
 		"MaxSobolDim":      reflect.ValueOf(constant.MakeFromLiteral("21", token.INT, 0)),
 		"MorrisFigure":     reflect.ValueOf(sensitivity.MorrisFigure),
 		"NewSobolSequence": reflect.ValueOf(sensitivity.NewSobolSequence),
