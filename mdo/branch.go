@@ -28,9 +28,15 @@ const (
 // power-iteration estimate of the loop's dominant eigenvalue) must stay
 // below 1 unless the displacement flips sign from sweep to sweep (an
 // iteration that oscillates about the state, not one that runs away). A state that fails is held back with a *BranchError while the
-// fallback chain looks for a stable one; when the chain finds none, the
-// unstable state is the answer and Workspace.Path says so (a linear loop
-// of gain above 1, say, has no other solution).
+// fallback chain looks for a stable one. With no reference state to
+// march from, the last attempt starts plain Gauss–Seidel beside the held
+// state, off it along the direction the iteration leaves it by
+// (fallback.go descend): the stable closure on the far side of the
+// saddle, when there is one. When none is found the unstable state is
+// the workspace's answer, every group after the unstable one computed on
+// it, and Workspace.Path and Workspace.Unstable say so (a linear loop of
+// gain above 1, say, has no other solution); a study's Evaluator refuses
+// it, as a point's answer and as the study's reference state.
 
 // checkedPlain reports whether a state plain Gauss–Seidel converged in
 // iterations iterations is checked all the same: an iteration that
@@ -49,6 +55,13 @@ type BranchError struct {
 	Var   string  // the coupling variable moving most along the unstable mode
 	Value float64 // its value in the rejected state
 	Unit  string
+	// group is the index of the group in the system's execution order:
+	// the groups after it were not run on the rejected state
+	group int
+	// mode is the displacement of the group's coupling variables, in
+	// units of their scales, after the check's last sweep: the direction
+	// in which the iteration leaves the state
+	mode []float64
 }
 
 // Error implements error.
@@ -115,5 +128,15 @@ func (w *Workspace) stableBranch(g *group, set SolverSettings, p solvePath) erro
 		return nil
 	}
 	spec := w.sys.vars.At(g.tear[worst])
-	return &BranchError{Group: g.names, Path: p.String(), Gain: gain, Var: spec.Name, Value: y[worst], Unit: spec.Unit}
+	return &BranchError{Group: g.names, Path: p.String(), Gain: gain, Var: spec.Name, Value: y[worst], Unit: spec.Unit, group: w.groupIndex(g), mode: append([]float64(nil), d...)}
+}
+
+// groupIndex returns the index of group g in the system's execution order.
+func (w *Workspace) groupIndex(g *group) int {
+	for gi := range w.sys.groups {
+		if &w.sys.groups[gi] == g {
+			return gi
+		}
+	}
+	return -1
 }

@@ -587,8 +587,10 @@ func (e *Evaluator) analyse(ctx context.Context, w int, ev *Evaluation) (ok bool
 	var err error
 	if len(e.coupling) > 0 {
 		err = ws.AnalyzeOnce(ctx)
-	} else {
-		err = ws.Analyze(ctx)
+	} else if err = ws.Analyze(ctx); err == nil {
+		// a state kept on an unstable branch is no closure of the loop:
+		// the point fails, naming the group and the runaway variable
+		err = ws.Unstable()
 	}
 	defer func() {
 		ev.Wall = time.Since(start)
@@ -650,12 +652,18 @@ func (e *Evaluator) takeMisnamed(ev *Evaluation) error {
 
 // setReference analyses the study's reference point (Start: the fixed
 // values or defaults of the design variables) from the default guesses
-// and, when it converges, makes its state the reference of every
+// and, when it converges on a stable branch, makes its state the reference of every
 // workspace's fallback chain (Workspace.SetReference) and, for the groups
 // whose solver settings ask for it (SolverSettings.FromReference), its
 // coupling variables the starting guesses of every point. It depends on the
 // study alone, so every point's answer stays independent of the
 // evaluation order. IDF studies solve no coupled group and keep none.
+//
+// A reference state kept on an unstable branch (Workspace.Unstable: no
+// path found a stable closure) is refused: as every point's guess it
+// would start each point on the runaway closure, and the continuation
+// would march from it; the points then start from the defaults and have
+// no continuation.
 func (e *Evaluator) setReference() {
 	if len(e.coupling) > 0 || len(e.sys.CoupledGroups()) == 0 {
 		return
@@ -667,7 +675,7 @@ func (e *Evaluator) setReference() {
 	for k, s := range e.slots {
 		ws.val[s.idx] = s.physical(start[k])
 	}
-	if ws.Analyze(context.Background()) != nil {
+	if ws.Analyze(context.Background()) != nil || ws.Unstable() != nil {
 		return
 	}
 	for _, w := range e.spaces {

@@ -3,6 +3,7 @@ package mdo
 import (
 	"context"
 	"errors"
+	"fmt"
 	"math"
 )
 
@@ -27,9 +28,14 @@ const (
 	// pathContinuation marches the parameters from the reference state to
 	// the point (continuation below).
 	pathContinuation
+	// pathDescent is plain Gauss–Seidel started next to an unstable
+	// state, off it along the direction the iteration leaves it by
+	// (descend below).
+	pathDescent
 )
 
-var pathNames = [...]string{"configured", "fallback: gauss-seidel", "fallback: relaxed gauss-seidel", "fallback: newton", "fallback: continuation"}
+var pathNames = [...]string{"configured", "fallback: gauss-seidel", "fallback: relaxed gauss-seidel", "fallback: newton", "fallback: continuation",
+	"fallback: gauss-seidel from beside the unstable state"}
 
 // String names the path.
 func (p solvePath) String() string { return pathNames[p] }
@@ -41,7 +47,7 @@ func (p solvePath) damped() bool { return p == pathRelaxed || p == pathContinuat
 // settings returns the solver settings of a group on this path.
 func (p solvePath) settings(s SolverSettings) SolverSettings {
 	switch p {
-	case pathPlain:
+	case pathPlain, pathDescent:
 		s.Method = GaussSeidel
 		s.Relaxation = 1
 	case pathRelaxed, pathContinuation:
@@ -73,15 +79,31 @@ func (w *Workspace) Path() string {
 		}
 	}
 	if w.unstable {
-		name += " (unstable branch: no stable state found; see BranchError)"
+		name += " (unstable branch: no stable state found; see Unstable)"
 	}
 	return name
+}
+
+// Unstable returns, when the last Analyze kept a state on an unstable
+// branch because no path of the fallback chain found a stable one, the
+// *BranchError that names the coupled group, the loop gain and the
+// coupling variable moving most along the unstable mode; nil otherwise.
+// The state is then not a closure a designer iterating the loop could
+// reach: a study's Evaluator refuses it (the point fails with this error).
+// Every group after the unstable one is computed on that state.
+func (w *Workspace) Unstable() error {
+	if !w.unstable || w.fb == nil || w.fb.held == nil {
+		return nil
+	}
+	return w.fb.held
 }
 
 // fallbackScratch holds the buffers of the fallback chain, allocated the
 // first time a fallback runs.
 type fallbackScratch struct {
 	target, guess, state, unstable []float64
+	// held is the unstable state's error when the last analysis kept it
+	held *BranchError
 }
 
 // fallback runs the fallback chain after the configured solver failed
@@ -96,7 +118,9 @@ type fallbackScratch struct {
 //  3. Newton with a line search (skipped when Newton was the configured
 //     solver of every group);
 //  4. continuation from the reference state, when one is set
-//     (SetReference).
+//     (SetReference);
+//  5. without a reference state, when an attempt found only an unstable
+//     state: plain Gauss–Seidel started beside it (descend).
 //
 // When the configured solver converged onto a range limit (a balance
 // that runs away, *NotClosingError) only the continuation runs: it is the one path
@@ -149,14 +173,25 @@ func (w *Workspace) fallback(ctx context.Context, first error) error {
 		}
 	}
 	hold(first, pathConfigured)
+	w.fb.held = nil
 	settle := func(best error) error {
 		if held == nil || w.ref != nil {
 			// with a reference state the continuation decided: no
 			// stable state connects to it, and the point does not close
 			return best
 		}
+		if err := w.descend(ctx, held); err == nil || ctx.Err() != nil {
+			return err
+		}
 		copy(w.val, w.fb.unstable)
-		w.path, w.unstable = heldPath, true
+		w.path, w.unstable, w.fb.held = heldPath, true, held
+		// the groups after the unstable one were not run on this state
+		// (the check failed before them): they still hold defaults or
+		// an earlier point's values, which would read as computed
+		if err := w.analyzeFrom(ctx, heldPath, held.group+1); err != nil {
+			w.unstable = false
+			return fmt.Errorf("%w; the groups after it, computed on that state: %w", held, err)
+		}
 		return nil
 	}
 	// a balance that runs away is physics, not numerics: only the march
@@ -201,6 +236,62 @@ func (w *Workspace) fallback(ctx context.Context, first error) error {
 		best = moreInformative(best, err)
 	}
 	return settle(best)
+}
+
+// descentPush is the distance, as a share of the runaway variable's
+// value (at least its scale), by which descend starts off an unstable
+// state.
+const descentPush = 1e-2
+
+// descend looks for a stable closure beside the unstable state be was
+// held with (in fb.unstable): an unstable fixed point of the loop is a
+// saddle of the iteration, which leaves it along its unstable mode
+// (be.mode) toward the runaway on one side and, when one exists, toward a
+// stable closure on the other (the light aircraft of a mass closure whose
+// heavy one is unstable). Plain Gauss–Seidel starts from the state pushed
+// off along the mode, first against the direction the check's push grew
+// in, then along it; the first that converges is the answer (plain
+// Gauss–Seidel converges only to stable states, and a short solve is
+// checked: checkedPlain). The guesses are restored afterwards.
+func (w *Workspace) descend(ctx context.Context, be *BranchError) error {
+	g := &w.sys.groups[be.group]
+	if len(be.mode) != len(g.tear) {
+		return be
+	}
+	worst, n := 0, 0.0
+	for k, d := range be.mode {
+		if a := math.Abs(d); a > n {
+			worst, n = k, a
+		}
+	}
+	if !(n > 0) || math.IsInf(n, 0) {
+		return be
+	}
+	saved := w.fb.guess
+	for _, v := range g.tear {
+		saved[v] = w.guess[v]
+	}
+	defer func() {
+		for _, v := range g.tear {
+			w.guess[v] = saved[v]
+		}
+	}()
+	v := g.tear[worst]
+	push := descentPush * math.Max(math.Abs(w.fb.unstable[v])/g.scale[worst], 1) / n
+	var err error
+	for _, sign := range [...]float64{-1, 1} {
+		for k, v := range g.tear {
+			w.guess[v] = w.fb.unstable[v] + sign*push*be.mode[k]*g.scale[k]
+		}
+		if err = w.analyzeWith(ctx, pathDescent); err == nil {
+			w.path = pathDescent
+			return nil
+		}
+		if ctx.Err() != nil {
+			return err
+		}
+	}
+	return err
 }
 
 // Stall limits of the fallback chain's attempts once the point already

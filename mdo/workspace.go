@@ -257,10 +257,21 @@ func (w *Workspace) Analyze(ctx context.Context) (err error) {
 // analyzeWith runs every group once, the coupled ones with the solver of
 // path p.
 func (w *Workspace) analyzeWith(ctx context.Context, p solvePath) error {
+	return w.analyzeFrom(ctx, p, 0)
+}
+
+// analyzeFrom runs the groups from index first on, as analyzeWith.
+func (w *Workspace) analyzeFrom(ctx context.Context, p solvePath, first int) error {
 	w.loopFailed = false
 	k := 0
 	for gi := range w.sys.groups {
 		g := &w.sys.groups[gi]
+		if gi < first {
+			if g.coupled {
+				k++
+			}
+			continue
+		}
 		if !g.coupled {
 			for _, d := range g.discs {
 				if err := w.run(d); err != nil {
