@@ -79,7 +79,7 @@ func (o DifferentialEvolution) Minimize(ctx context.Context, s *mdo.Study) (*mdo
 		if err := e.evaluateAll(trials); err != nil {
 			return nil, err
 		}
-		if err := e.grad.apply(e, trials, rng); err != nil {
+		if err := e.grad.apply(e, trials, rng, -1); err != nil {
 			return nil, err
 		}
 		next := make([]*member, n)

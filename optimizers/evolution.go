@@ -139,9 +139,14 @@ func newEngine(ctx context.Context, s *mdo.Study, o evolutionary, stream uint64,
 		return nil, err
 	}
 	r.maxEvals = evo.MaxEvaluations
+	grad := newGradientRepair(eq.gradientRate(), r.ev.Constraints(), inequalities && !r.ev.HasInteger())
+	if grad != nil {
+		// GA and ParticleSwarm update the repair's Jacobians by Broyden's
+		// formula without equality constraints (see gradientRepair)
+		grad.broyden = inequalities && !hasEquality(r.ev.Constraints())
+	}
 	return &engine{r: r, dim: r.ev.Dim(), relax: eq.relaxFraction(), relaxInequalities: inequalities,
-		grad:   newGradientRepair(eq.gradientRate(), r.ev.Constraints(), inequalities && !r.ev.HasInteger()),
-		stream: stream, fresh: newFreshPoints(r.ev, freshStream+stream)}, nil
+		grad: grad, stream: stream, fresh: newFreshPoints(r.ev, freshStream+stream)}, nil
 }
 
 // engine ties eaopt's GA to a run.

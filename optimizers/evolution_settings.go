@@ -69,8 +69,11 @@ func (b Evolution) validate(method string, minPopulation int) error {
 // continuous. Zero values take the defaults.
 type EqualityHandling struct {
 	// GradientRate is the probability that an infeasible offspring gets
-	// the gradient-based mutation (up to 3 forward-difference Newton
-	// steps on its constraint residuals); default 0.05, negative for none.
+	// the gradient-based mutation (up to 3 Newton steps on its constraint
+	// residuals, the Jacobian by forward differences, which GA and
+	// ParticleSwarm take once and update by Broyden's formula when there
+	// is no equality constraint; then the GA's count in its budget);
+	// default 0.05, negative for none.
 	GradientRate float64
 	// Relax is the fraction of the generations during which constraints
 	// are relaxed by the ε-level comparison; default 0.5, negative for

@@ -144,7 +144,7 @@ func (o ParticleSwarm) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result,
 		if err := e.evaluateAll(next); err != nil {
 			return nil, err
 		}
-		if err := e.grad.apply(e, next, rng); err != nil {
+		if err := e.grad.apply(e, next, rng, -1); err != nil {
 			return nil, err
 		}
 		for _, q := range next {
