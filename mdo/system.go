@@ -46,6 +46,7 @@ type System struct {
 type group struct {
 	discs   []int     // disciplines in declared order
 	coupled bool      // a cycle: needs a solver
+	at      int       // its index in System.groups
 	tear    []int     // coupling variables: produced and consumed inside the group
 	scale   []float64 // residual scale of each coupling variable
 	// inv holds 1/scale of each coupling variable; pow2 is true when
@@ -274,7 +275,7 @@ func (s *System) buildGroups() {
 			indeg[c]--
 		}
 		m := members[best]
-		gr := group{discs: m, coupled: len(m) > 1 || selfLoop[m[0]]}
+		gr := group{discs: m, coupled: len(m) > 1 || selfLoop[m[0]], at: len(s.groups)}
 		inGroup := map[int]bool{}
 		for _, d := range m {
 			inGroup[d] = true

@@ -24,7 +24,8 @@ type Workspace struct {
 	guess    []float64
 	inBuf    [][]float64
 	outBuf   [][]float64
-	plan     []discPlan // per discipline, what its run reads
+	plan     []discPlan  // per discipline, what its run reads
+	runs     [][]discRun // per group, its disciplines' runs (sweepRuns)
 	settings []SolverSettings
 	reports  []CouplingReport
 	cnt      Counters
@@ -79,7 +80,7 @@ func (s *System) NewWorkspace() *Workspace {
 		dst := w.val[s.outStart[d] : s.outStart[d]+len(s.outIdx[d])]
 		ops := make([]loopInput, len(s.inLoop[d]))
 		for i, k := range s.inLoop[d] {
-			ops[i] = loopInput{src: s.inIdx[d][k], k: k, lo: s.inLo[d][k], hi: s.inHi[d][k]}
+			ops[i] = loopInput{x: &w.val[s.inIdx[d][k]], to: &w.inBuf[d][k], src: s.inIdx[d][k], k: k, lo: s.inLo[d][k], hi: s.inHi[d][k]}
 		}
 		w.plan = append(w.plan, discPlan{in: w.inBuf[d], out: w.outBuf[d], dst: dst, ops: ops, inIdx: s.inIdx[d], outIdx: s.outIdx[d],
 			lo: s.inLo[d], hi: s.inHi[d], loop: s.inLoop[d], loopIn: s.loopIn[d], fn: s.fns[d]})
@@ -89,6 +90,18 @@ func (s *System) NewWorkspace() *Workspace {
 		if len(g.tear) > maxTear {
 			maxTear = len(g.tear)
 		}
+		runs := make([]discRun, len(g.discs))
+		for i, d := range g.discs {
+			p := &w.plan[d]
+			var fixed []loopInput
+			for k, v := range p.inIdx {
+				if !p.loopIn[k] {
+					fixed = append(fixed, loopInput{x: &w.val[v], to: &p.in[k], src: v, k: k, lo: p.lo[k], hi: p.hi[k]})
+				}
+			}
+			runs[i] = discRun{fn: p.fn, in: p.in, dst: p.dst, old: p.out[:len(p.dst)], fixed: fixed, ops: p.ops, d: d}
+		}
+		w.runs = append(w.runs, runs)
 		if g.coupled {
 			rep := CouplingReport{Disciplines: g.names, Tolerance: w.settings[gi].Tolerance, Method: w.settings[gi].Method}
 			rep.History = make([]float64, 0, w.settings[gi].MaxIterations+1)
@@ -273,10 +286,8 @@ func (w *Workspace) analyzeFrom(ctx context.Context, p solvePath, first int) err
 			continue
 		}
 		if !g.coupled {
-			for _, d := range g.discs {
-				if err := w.run(d); err != nil {
-					return err
-				}
+			if err := w.sweepRuns(w.runs[gi], true); err != nil {
+				return err
 			}
 			continue
 		}
@@ -371,13 +382,28 @@ type tearVar struct {
 	lo, hi, inv, scale float64
 }
 
-// loopInput is an input of a discipline produced inside its own coupled
-// group: the value it is read from, its position among the discipline's
-// inputs and its validity range.
+// loopInput is an input of a discipline (in discPlan.ops, one produced
+// inside its own coupled group): the value it is read from (its index src
+// and the value itself, x), its position k among the discipline's inputs
+// and its slot in the input buffer (to), and its validity range. The
+// pointers spare loadOps the indexing of both slices.
 type loopInput struct {
+	x, to  *float64
+	lo, hi float64
 	src    int
 	k      int
-	lo, hi float64
+}
+
+// discRun is one discipline as sweepRuns runs it: its computation, input
+// buffer, outputs (dst) and their previous values (old), as in its
+// discPlan, its inputs produced inside its own coupled group (ops, as in
+// discPlan), the others (fixed) and its index. Workspace.runs lists them
+// per group in the group's order.
+type discRun struct {
+	fn           ComputeFunc
+	in, dst, old []float64
+	fixed, ops   []loopInput
+	d            int
 }
 
 // gather copies discipline d's inputs into its buffer, checking ranges
@@ -465,60 +491,13 @@ func (w *Workspace) scatter(d int) {
 	}
 }
 
-// run gathers and computes one discipline, its outputs into the values.
-func (w *Workspace) run(d int) error {
-	// gather, written out
-	p := &w.plan[d]
-	in, val := p.in, w.val
-	lo, hi := p.lo[:len(in)], p.hi[:len(in)]
-	for k, v := range p.inIdx[:len(in)] {
-		x := val[v]
-		if !(x >= lo[k] && x <= hi[k]) {
-			if !w.solving || !p.loopIn[k] || x != x {
-				return w.inputError(d, k, x)
-			}
-			x = clip(x, lo[k], hi[k])
-		}
-		in[k] = x
-	}
-	// the computation, its outputs straight into the values; when it
-	// fails (an error, or an output that is not finite) the values are
-	// put back as they were
-	w.cnt.DisciplineCalls++
-	w.cur = d
-	dst, old := p.dst, p.out[:len(p.dst)]
-	//lint:ignore S1001 copy calls memmove: the loop is cheaper for the few outputs of a small discipline
-	for k, x := range dst {
-		old[k] = x
-	}
-	if err := p.fn(in, dst); err != nil {
-		copy(dst, old)
-		return w.disciplineError(d, err)
-	}
-	for k, x := range dst {
-		if notFinite(x) {
-			copy(dst, old)
-			return w.outputError(d, k, x)
-		}
-	}
-	return nil
-}
-
 // sweep runs every discipline of a group once: in turn with the latest
 // values (Gauss–Seidel) or all on the values at the start (Jacobi). The
 // first sweep of a solve gathers every input; later ones only those
 // produced inside the group.
 func (w *Workspace) sweep(g *group, jacobi, first bool) error {
 	if !jacobi {
-		if !first {
-			return w.sweepLoop(g)
-		}
-		for _, d := range g.discs {
-			if err := w.run(d); err != nil {
-				return err
-			}
-		}
-		return nil
+		return w.sweepRuns(w.runs[g.at], first)
 	}
 	for _, d := range g.discs {
 		var err error
@@ -558,45 +537,96 @@ func clip(x, lo, hi float64) float64 {
 	return x
 }
 
-// sweepLoop is a Gauss–Seidel sweep after the first (the hot path of
-// every fixed-point solver): for each discipline of g, gatherLoop and
-// run's computation written out in one loop.
-func (w *Workspace) sweepLoop(g *group) error {
-	for _, d := range g.discs {
-		p := &w.plan[d]
-		in, val := p.in, w.val
-		for i := range p.ops {
-			op := &p.ops[i]
-			x := val[op.src]
-			if !(x >= op.lo && x <= op.hi) {
-				if !w.solving || x != x {
-					return w.inputError(d, op.k, x)
+// sweepRuns runs, in turn, each discipline of runs (the runs of one
+// group, Workspace.runs) with its outputs straight into the values: a
+// Gauss–Seidel sweep of a coupled group, or the run of an uncoupled one.
+// A first sweep (or an uncoupled run) gathers every input, checking its
+// range; later ones only those produced inside the group (the others were
+// gathered and checked by the first and cannot change while the group is
+// solved), an iterate outside the range being projected onto it. When a
+// run fails (an error, or an output that is not finite) the values are
+// put back as they were before it (see discPlan).
+//
+// This is the hot path of every analysis: every input is loaded by
+// loadOps, which stops at the first one outside its range; the slower
+// gather (or projectOps) then takes over, so that the inputs, the
+// projections and the first error are those of an input-by-input check
+// in the discipline's order.
+func (w *Workspace) sweepRuns(runs []discRun, first bool) error {
+	for i := range runs {
+		p := &runs[i]
+		if first {
+			if !loadOps(p.fixed) || !loadOps(p.ops) {
+				if err := w.gather(p.d); err != nil {
+					return err
 				}
-				// project the iterate onto the discipline's range
-				x = clip(x, op.lo, op.hi)
 			}
-			in[op.k] = x
+		} else if !loadOps(p.ops) {
+			if err := w.projectOps(p); err != nil {
+				return err
+			}
 		}
-		// run's computation
 		w.cnt.DisciplineCalls++
-		w.cur = d
-		dst, old := p.dst, p.out[:len(p.dst)]
+		w.cur = p.d
+		dst := p.dst
+		old := p.old[:len(dst)]
 		//lint:ignore S1001 copy calls memmove: the loop is cheaper for the few outputs of a small discipline
 		for k, x := range dst {
 			old[k] = x
 		}
-		if err := p.fn(in, dst); err != nil {
-			copy(dst, old)
-			return w.disciplineError(d, err)
+		if err := p.fn(p.in, dst); err != nil {
+			return w.runFailed(p, err, 0, 0)
 		}
-		for k, x := range dst {
+		for k, x := range p.dst {
 			if notFinite(x) {
-				copy(dst, old)
-				return w.outputError(d, k, x)
+				return w.runFailed(p, nil, k, x)
 			}
 		}
 	}
 	return nil
+}
+
+// loadOps copies the inputs ops of a run from the values into its input
+// buffer and reports whether every one is inside its range; it stops
+// at the first that is not.
+func loadOps(ops []loopInput) bool {
+	for i := range ops {
+		op := &ops[i]
+		x := *op.x
+		if !(x >= op.lo && x <= op.hi) {
+			return false
+		}
+		*op.to = x
+	}
+	return true
+}
+
+// projectOps copies the inputs ops of run p as gatherLoop does: an input
+// outside its range is projected onto it while a group is solved (an
+// error otherwise, or when it is NaN).
+func (w *Workspace) projectOps(p *discRun) error {
+	for _, op := range p.ops {
+		x := w.val[op.src]
+		if !(x >= op.lo && x <= op.hi) {
+			if !w.solving || x != x {
+				return w.inputError(p.d, op.k, x)
+			}
+			// project the iterate onto the discipline's range
+			x = clip(x, op.lo, op.hi)
+		}
+		p.in[op.k] = x
+	}
+	return nil
+}
+
+// runFailed puts back the outputs of the run p that failed, with err or
+// with output k not finite (x), and returns its error.
+func (w *Workspace) runFailed(p *discRun, err error, k int, x float64) error {
+	copy(p.dst, p.old)
+	if err != nil {
+		return w.disciplineError(p.d, err)
+	}
+	return w.outputError(p.d, k, x)
 }
 
 // notFinite reports whether x is NaN or ±Inf: all its exponent bits are
@@ -663,11 +693,6 @@ const divergeLimit = 1e12
 // converged solve are filled in when the report is read (CouplingReports).
 func (w *Workspace) solve(ctx context.Context, g *group, set SolverSettings, p solvePath, rk int) error {
 	rep := &w.reports[rk]
-	nt := len(g.tear)
-	y, gy, r, rPrev, scale := w.y[:nt], w.gy[:nt], w.res[rk][:nt], w.rPrev[:nt], g.scale[:nt]
-	for k, v := range g.tear {
-		w.val[v] = clip(w.guess[v], g.lo[k], g.hi[k])
-	}
 	w.worstDue[rk] = false
 	rep.Method = set.Method
 	rep.Tolerance = set.Tolerance
@@ -677,7 +702,17 @@ func (w *Workspace) solve(ctx context.Context, g *group, set SolverSettings, p s
 	rep.Worst = rep.Worst[:0]
 	rep.Residual = math.Inf(1)
 	rep.Path = p.String()
-
+	if set.plain() && !w.onceMode {
+		// plain Gauss–Seidel starts from the guesses itself; a panic in a
+		// discipline clears solving too (panicked)
+		w.solving = true
+		err := w.solvePlain(ctx, g, set, p, rk)
+		w.solving = false
+		return err
+	}
+	for k, v := range g.tear {
+		w.val[v] = clip(w.guess[v], g.lo[k], g.hi[k])
+	}
 	if w.onceMode {
 		err := w.sweep(g, true, true)
 		rep.CouplingIterations = 1
@@ -688,6 +723,8 @@ func (w *Workspace) solve(ctx context.Context, g *group, set SolverSettings, p s
 		rep.Converged = true
 		return nil
 	}
+	nt := len(g.tear)
+	y, gy, r, rPrev, scale := w.y[:nt], w.gy[:nt], w.res[rk][:nt], w.rPrev[:nt], g.scale[:nt]
 	w.solving = true
 	defer func() { w.solving = false }()
 	if set.Method == Newton {
@@ -699,9 +736,6 @@ func (w *Workspace) solve(ctx context.Context, g *group, set SolverSettings, p s
 	anderson := set.Method == AndersonGaussSeidel
 	damped := p.damped()
 	omega := set.Relaxation
-	if !jacobi && !aitken && !anderson && omega == 1 {
-		return w.solvePlain(ctx, g, set, p, rk)
-	}
 	w.and.reset()
 	// a context whose Done is nil can never be cancelled
 	cancellable := ctx.Done() != nil
@@ -787,15 +821,18 @@ func (w *Workspace) solve(ctx context.Context, g *group, set SolverSettings, p s
 func (w *Workspace) solvePlain(ctx context.Context, g *group, set SolverSettings, p solvePath, rk int) error {
 	rep := &w.reports[rk]
 	nt := len(g.tear)
-	tv, pow2 := w.tv[rk][:nt], g.pow2
+	tv, pow2, runs := w.tv[rk][:nt], g.pow2, w.runs[g.at]
 	y, r, val := w.y[:nt], w.res[rk][:nt], w.val
 	// a context whose Done is nil can never be cancelled
 	cancellable := ctx.Done() != nil
-	// y is the state a sweep starts from: the values of the coupling
-	// variables, which only the sweep changes (the residual loop below
-	// takes them for the next sweep)
+	// the group starts from its guesses, clipped to the ranges; y is the
+	// state a sweep starts from: the values of the coupling variables,
+	// which only the sweep changes (the residual loop below takes them
+	// for the next sweep)
 	for k := range tv {
-		y[k] = val[tv[k].v]
+		t := &tv[k]
+		x := clip(w.guess[t.v], t.lo, t.hi)
+		val[t.v], y[k] = x, x
 	}
 	watch := stallWatch{best: math.Inf(1)}
 	for it := 1; it <= set.MaxIterations; it++ {
@@ -804,13 +841,7 @@ func (w *Workspace) solvePlain(ctx context.Context, g *group, set SolverSettings
 				return fmt.Errorf("mdo: coupled group {%s} cancelled at iteration %d: %w", joinNames(g.names), it, err)
 			}
 		}
-		var err error
-		if it == 1 {
-			err = w.sweep(g, false, true)
-		} else {
-			err = w.sweepLoop(g)
-		}
-		if err != nil {
+		if err := w.sweepRuns(runs, it == 1); err != nil {
 			return w.loopError(g, err, p)
 		}
 		norm := 0.0
@@ -831,7 +862,13 @@ func (w *Workspace) solvePlain(ctx context.Context, g *group, set SolverSettings
 		if done := w.logIteration(rep, it, norm, set.Tolerance, &watch); done {
 			if rep.Converged {
 				w.worstDue[rk] = true
-				return w.closure(g, p)
+				// closure's test, on tv: it has work only beyond a limit
+				for k := range tv {
+					if x := val[tv[k].v]; x < tv[k].lo || x > tv[k].hi {
+						return w.closure(g, p)
+					}
+				}
+				return nil
 			}
 			break
 		}
