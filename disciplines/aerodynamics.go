@@ -268,13 +268,41 @@ func AckeretBiconvexDrag(mach, tc, alpha float64) float64 {
 // e = 4.61(1 − 0.045A^0.68)(cos ΛLE)^0.15 − 3.1 for swept wings
 // (conceptual-design textbooks, Raymer; from memory), blended between 25°
 // and 35° of sweep and held within [0.3, 0.95].
+//
+// The swept-wing fit falls with aspect ratio 2.6 times as steeply as the
+// straight-wing one, so steeply that A·e, and with it the induced drag of
+// a given lift on a given area, got worse as the span grew beyond A ≈ 8
+// (at ΛLE 35°: e = 0.44 at A 9.5, the floor 0.3 at A 12): a swept
+// transport lost L/D by a larger span. The swept-wing fit is therefore
+// held at least at the transport relation e = 1/(1.05 + 0.007πA) (Obert,
+// "Aerodynamic Design of Transport Aircraft", 2009; from memory), taken
+// in full up to ΛLE 35° (the transports' sweeps) and scaled by
+// cos ΛLE/cos 35° beyond (common practice, no source). A·e then rises
+// with the aspect ratio at every sweep; the wings of the fit's own data,
+// highly swept and of low aspect ratio (the supersonic wings: A 3 at
+// ΛLE 62°, e = 0.63 against the floor's 0.54), keep Raymer's value.
 func OswaldEfficiency(aspectRatio, sweepLE float64) float64 {
 	f := 1 - 0.045*math.Pow(aspectRatio, 0.68)
 	straight := 1.78*f - 0.64
-	swept := 4.61*f*math.Pow(math.Cos(sweepLE*math.Pi/180), 0.15) - 3.1
-	e := blend(math.Abs(sweepLE), 25, 35, straight, swept)
+	s := math.Abs(sweepLE)
+	e := straight
+	if s > oswaldBlendLow {
+		c := math.Cos(sweepLE * math.Pi / 180)
+		swept := 4.61*f*math.Pow(c, 0.15) - 3.1
+		transport := math.Min(1, c/cosOswaldTransport) / (1.05 + 0.007*math.Pi*aspectRatio)
+		e = blend(s, oswaldBlendLow, oswaldBlendHigh, straight, math.Max(swept, transport))
+	}
 	return math.Max(0.3, math.Min(0.95, e))
 }
+
+// Leading-edge sweeps [deg] of OswaldEfficiency: the straight-wing fit
+// up to oswaldBlendLow, the swept-wing fit from oswaldBlendHigh, a
+// smooth step between; cosOswaldTransport is cos 35°, beyond which the
+// transport relation's floor is scaled by cos ΛLE/cos 35°.
+const (
+	oswaldBlendLow, oswaldBlendHigh = 25.0, 35.0
+	cosOswaldTransport              = 0.8191520442889918
+)
 
 // KornDragDivergence returns the drag-divergence Mach number of the Korn
 // equation, Mdd = κA/cosΛ − (t/c)/cos²Λ − CL/(10cos³Λ), κA the aerofoil
