@@ -913,6 +913,31 @@ func (p *Propulsion) Outputs() []mdo.Var {
 	return out
 }
 
+// Partials gives the propulsion's partial derivatives (mdo.Differentiable)
+// by central differences (mdo.FDPartials, whatever the Differences of the
+// caller), except that the row of engine.sizing_case is zero: the index of
+// the hardest requirement is piecewise constant and jumps where two
+// requirements tie, which is where an optimum that sizes its engines tends
+// to lie (a constraint on the climb gradient meeting the field length the
+// engines are sized for). There its finite difference was a jump over 2h
+// (±1e6 per unit of every input) that made the coupled Jacobian look
+// singular (condition 3.7e13): the Dunlin's Sextant run stopped with "no
+// derivatives". Analyses never call it.
+func (p *Propulsion) Partials(in, jac []float64) error {
+	out := make([]float64, propNumOut)
+	if err := p.Compute(in, out); err != nil {
+		return err
+	}
+	if err := mdo.FDPartials(p, in, out, jac, mdo.Central); err != nil {
+		return err
+	}
+	row := jac[propOutSizingCase*len(in) : (propOutSizingCase+1)*len(in)]
+	for j := range row {
+		row[j] = 0
+	}
+	return nil
+}
+
 // Compute implements mdo.Discipline.
 func (p *Propulsion) Compute(in, out []float64) error {
 	if len(in) != propNumIn || len(out) != propNumOut {
