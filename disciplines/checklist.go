@@ -122,7 +122,8 @@ func checklistClass(mach, seats float64) AircraftClass {
 // DesignChecklist reads a solved aircraft's values by name (get reports
 // whether the value exists) and returns the designer's checklist: static
 // margins at take-off and at the start and end of cruise (5–15 % MAC,
-// about 10 % typical), fuselage fineness ratio (10–15), aft-fuselage
+// about 10 % typical), fuselage fineness ratio (10–15 supersonic, 7–15
+// subsonic), aft-fuselage
 // upsweep for rotation clearance (10–25°), the cruise lift coefficient
 // at most CLmax,clean/1.3 (CruiseManoeuvreMargin), the wing's divergence
 // dynamic pressure at least 1.15² times the dive's (14 CFR 25.629(b),
@@ -133,7 +134,7 @@ func checklistClass(mach, seats float64) AircraftClass {
 // wing and tails (layout.go); the seats abreast of 14 CFR 25.817; the fuel
 // in the tanks; the operating empty mass per seat and the empty-mass
 // fraction against the statistics of the aircraft's class (inferred from
-// cruise Mach and seats; mass_statistics.go), and the class's bands of
+// cruise Mach and seats, twin-aisle jet transports apart; mass_statistics.go), and the class's bands of
 // take-off mass, mission fuel fraction and field lengths and the cruise
 // regime's bands of lift-to-drag ratio and TSFC (common practice, from
 // memory; mass_statistics.go). A row whose variables the
@@ -171,15 +172,20 @@ func DesignChecklist(get func(name string) (float64, bool)) Checklist {
 			band(sm.rule, 100*v[0], "% MAC", 5, 15, "5–15 (about 10 typical)", note, commonPractice)
 		}
 	}
+	mach, okM := get("cruise.mach")
 	if v, ok := val("fuselage.fineness"); ok {
-		band("fuselage fineness ratio", v[0], "", 10, 15, "10–15", "length over diameter", commonPractice)
+		if okM && mach <= 1 {
+			band("fuselage fineness ratio", v[0], "", subsonicFineness[0], subsonicFineness[1], "7–15 (subsonic)",
+				"length over diameter", "common practice (no source; from memory)")
+		} else {
+			band("fuselage fineness ratio", v[0], "", 10, 15, "10–15", "length over diameter", commonPractice)
+		}
 	}
 	if v, ok := val("fuselage.diameter", "fuselage.tail_length"); ok {
 		up := math.Atan(v[0]/v[1]) * 180 / math.Pi
 		band("aft-fuselage upsweep for rotation clearance", up, "deg", 10, 25, "10–25",
 			"estimated as a tail cone whose lower line rises one diameter over its length; the model's cone is not upswept", commonPractice)
 	}
-	mach, okM := get("cruise.mach")
 	if okM && mach > 1 {
 		if v, ok := val("wing.sweep_le"); ok {
 			m := math.Sqrt(mach*mach-1) / math.Tan(math.Abs(v[0])*math.Pi/180)
@@ -239,7 +245,11 @@ func DesignChecklist(get func(name string) (float64, bool)) Checklist {
 	if v, ok := val("mass.empty", "mass.takeoff", "cabin.passengers", "cruise.mach"); ok {
 		class := checklistClass(v[3], v[2])
 		lo, hi := class.EmptyMassPerSeatBand()
-		band("operating empty mass per seat ("+class.String()+")", v[0]/v[2], "kg", lo, hi, fmt.Sprintf("%g–%g", lo, hi),
+		name := class.String()
+		if a, ok := val("cabin.aisles"); ok && class == ClassJetTransport && math.Round(a[0]) >= 2 {
+			lo, hi, name = twinAisleEmptyMassPerSeat[0], twinAisleEmptyMassPerSeat[1], "twin-aisle "+name
+		}
+		band("operating empty mass per seat ("+name+")", v[0]/v[2], "kg", lo, hi, fmt.Sprintf("%g–%g", lo, hi),
 			"outside the class's band", "common practice (no source; from memory)")
 		if crew, ok := val("mass.crew"); ok {
 			if reg, err := class.EmptyMassRegression(v[1]); err == nil {
@@ -288,6 +298,22 @@ func classRows(band func(rule string, v float64, unit string, lo, hi float64, te
 			"outside the band of the regime's engines", memory)
 	}
 }
+
+// subsonicFineness is the common-practice band of the fuselage fineness
+// ratio of subsonic transports and business jets (from memory, no
+// source): the short business jets and the first short-haul jets about
+// 7.5–9, the stretched single-aisle transports up to about 14.5. The
+// 10–15 of the checklist is that of supersonic fuselages (area rule,
+// wave drag) and flagged a legitimate subsonic business jet of 9.
+var subsonicFineness = [2]float64{7, 15}
+
+// twinAisleEmptyMassPerSeat is the common-practice band of the operating
+// empty mass per seat [kg] of twin-aisle jet transports (from memory, no
+// source): the wide bodies carry about 320–470 kg per seat (a 260-seat
+// twin about 330, a 300-seat long-range twin about 420, a 365-seat one
+// about 460), against the 270–290 of the single-aisle jets
+// (EmptyMassPerSeatBand), which flagged every wide body.
+var twinAisleEmptyMassPerSeat = [2]float64{320, 470}
 
 // CruiseManoeuvreMargin is the load factor a cruising aircraft should
 // reach before its clean maximum lift: the cruise lift coefficient at
