@@ -167,6 +167,73 @@ var exampleChecks = map[string]func(t *testing.T, sum map[string]any){
 			t.Errorf("stop %v, want complete", sum["stop"])
 		}
 	},
+	"forward_swept_business_jet.study": func(t *testing.T, sum map[string]any) {
+		// The principal result is the differential evolution's: feasible,
+		// every constraint met, the wing still swept forward and its
+		// divergence beyond the dive speed + 15 % (14 CFR 25.629(b):
+		// q_D/q_dive − 1 ≥ 1.15² − 1 = 0.3225).
+		best := sum["best"].(map[string]any)
+		if best["feasible"] != true {
+			t.Fatalf("no feasible design: %v", best)
+		}
+		for name, v := range best["margins"].(map[string]any) {
+			if v.(float64) < 0 {
+				t.Errorf("constraint %s violated by %g", name, v)
+			}
+		}
+		if q := best["constraints"].(map[string]any)["stability.divergence_margin"].(float64); q < 0.3225 {
+			t.Errorf("divergence margin %g < 0.3225", q)
+		}
+		if sw := best["design"].(map[string]any)["wing.sweep"].(float64); !(sw < 0) {
+			t.Errorf("wing sweep %g°: want a forward-swept optimum", sw)
+		}
+	},
+	"long_range_transport.study": func(t *testing.T, sum map[string]any) {
+		// The principal result is the GA's: feasible and burning no more
+		// fuel than the Godwit L320 baseline wing, which meets every
+		// constraint of the study.
+		best := sum["best"].(map[string]any)
+		base := baselineOf(t, "long_range_transport.study")
+		if !base.Converged {
+			t.Fatalf("the baseline analysis failed: %s", base.Err)
+		}
+		for k, m := range base.Margins {
+			if m < -1e-12 {
+				t.Fatalf("the baseline design violates constraint %d by %g", k+1, -m)
+			}
+		}
+		if best["feasible"] != true || best["objective"].(float64) > base.Objectives[0] {
+			t.Errorf("best %v: want a feasible design burning at most the baseline's %.1f kg", best, base.Objectives[0])
+		}
+	},
+	"supersonic_transport.study": func(t *testing.T, sum map[string]any) {
+		// The principal result is the front of take-off mass against
+		// cruise Mach number: at least 5 feasible points which, sorted by
+		// mass, fly faster (a Pareto front of one minimised and one
+		// maximised objective), spanning at least Mach 1.75–1.95.
+		front, _ := sum["front"].([]any)
+		if len(front) < 5 {
+			t.Fatalf("front of %d points, want at least 5", len(front))
+		}
+		prevM, prevMach := math.Inf(-1), math.Inf(-1)
+		lo, hi := math.Inf(1), math.Inf(-1)
+		for _, p := range front {
+			pt := p.(map[string]any)
+			if pt["feasible"] != true {
+				t.Errorf("front point %v infeasible", pt["id"])
+			}
+			o := pt["objectives"].(map[string]any)
+			m, mach := o["mass.takeoff"].(float64), o["cruise.mach"].(float64)
+			if m < prevM || mach <= prevMach {
+				t.Errorf("front point (%g kg, Mach %g) after (%g kg, Mach %g) is dominated or out of order", m, mach, prevM, prevMach)
+			}
+			prevM, prevMach = m, mach
+			lo, hi = math.Min(lo, mach), math.Max(hi, mach)
+		}
+		if lo > 1.75 || hi < 1.95 {
+			t.Errorf("front spans Mach %g–%g, want at least 1.75–1.95", lo, hi)
+		}
+	},
 	"business_jet_front.study": func(t *testing.T, sum map[string]any) {
 		front, _ := sum["front"].([]any)
 		if len(front) < 5 {
