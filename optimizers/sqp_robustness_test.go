@@ -129,11 +129,15 @@ func TestSextantOnPerturbedAircraft(t *testing.T) {
 			// the field length is flat at 1 600 m where that sizing
 			// rules: the start ends at a local minimum of the violation
 			// (reported as converged, infeasible); a restart finds the
-			// designs whose engines another requirement sizes
+			// designs whose engines another requirement sizes (the
+			// seventh spread point since the Oswald efficiency of swept
+			// wings was held at the transport relation, which moved the
+			// reference from 8346.1292 to 8330.9275 kg, recomputed by
+			// differential evolution and Sextant with 12 starts)
 			name: "regional jet, take-off field length limit 16 m shorter", study: regionalJetExample,
 			edit:      func(t *testing.T, s *mdo.Study) { moveLimit(t, s, "perf.takeoff_field_length", -16) },
-			reference: 8346.1292,
-			detail:    []string{"local minimum of the constraint violation", "perf.takeoff_field_length", "restarted from 1 spread points"},
+			reference: 8330.9275,
+			detail:    []string{"local minimum of the constraint violation", "perf.takeoff_field_length", "restarted from 7 spread points"},
 		},
 		{
 			// no feasible design in the box (the wing area at least
