@@ -90,41 +90,55 @@ func TestSeedOverride(t *testing.T) {
 	}
 }
 
+// checkBestMeetsAll checks that the summary's best design is feasible
+// and meets every constraint, and returns it.
+func checkBestMeetsAll(t *testing.T, sum map[string]any) map[string]any {
+	t.Helper()
+	best := sum["best"].(map[string]any)
+	if best["feasible"] != true {
+		t.Errorf("no feasible design: %v", best)
+	}
+	// Every constraint is met at the best design.
+	for name, v := range best["margins"].(map[string]any) {
+		if v.(float64) < 0 {
+			t.Errorf("constraint %s violated by %g", name, v)
+		}
+	}
+	return best
+}
+
+// checkNoWorseThanBaseline checks that the baseline design of the study
+// file name meets every constraint and that the summary's best design is
+// feasible with an objective at most the baseline's.
+func checkNoWorseThanBaseline(t *testing.T, sum map[string]any, name string) {
+	t.Helper()
+	best := sum["best"].(map[string]any)
+	base := baselineOf(t, name)
+	if !base.Converged {
+		t.Fatalf("the baseline analysis failed: %s", base.Err)
+	}
+	for k, m := range base.Margins {
+		if m < -1e-12 {
+			t.Fatalf("the baseline design violates constraint %d by %g", k+1, -m)
+		}
+	}
+	t.Logf("baseline objective %.1f, margins %v", base.Objectives[0], base.Margins)
+	if best["feasible"] != true || best["objective"].(float64) > base.Objectives[0] {
+		t.Errorf("best %v: want a feasible design with an objective at most the baseline's %.1f", best, base.Objectives[0])
+	}
+}
+
 // exampleChecks are the checks of each example study beyond running.
 var exampleChecks = map[string]func(t *testing.T, sum map[string]any){
-	"sellar.study": checkSellar,
-	"business_jet.study": func(t *testing.T, sum map[string]any) {
-		best := sum["best"].(map[string]any)
-		if best["feasible"] != true {
-			t.Errorf("no feasible design: %v", best)
-		}
-		// Every constraint is met at the best design.
-		for name, v := range best["margins"].(map[string]any) {
-			if v.(float64) < 0 {
-				t.Errorf("constraint %s violated by %g", name, v)
-			}
-		}
-	},
+	"sellar.study":       checkSellar,
+	"business_jet.study": func(t *testing.T, sum map[string]any) { checkBestMeetsAll(t, sum) },
 	"regional_jet.study": func(t *testing.T, sum map[string]any) {
-		best := sum["best"].(map[string]any)
 		// The Kestrel R76 baseline wing (84 m², A = 9, 25°, t/c 0.12,
 		// disciplines.Kestrel) meets every constraint of the study, the
 		// second-segment climb gradient exactly (the engines are sized
 		// for it, so its margin is zero up to rounding); the optimum must
 		// burn no more fuel than it.
-		base := baselineOf(t, "regional_jet.study")
-		if !base.Converged {
-			t.Fatalf("the baseline analysis failed: %s", base.Err)
-		}
-		for k, m := range base.Margins {
-			if m < -1e-12 {
-				t.Fatalf("the baseline design violates constraint %d by %g", k+1, -m)
-			}
-		}
-		t.Logf("baseline fuel %.1f kg, margins %v", base.Objectives[0], base.Margins)
-		if best["feasible"] != true || best["objective"].(float64) > base.Objectives[0] {
-			t.Errorf("best %v: want a feasible design burning at most the baseline's %.1f kg", best, base.Objectives[0])
-		}
+		checkNoWorseThanBaseline(t, sum, "regional_jet.study")
 	},
 	"business_jet_calibration.study": func(t *testing.T, sum map[string]any) {
 		// The re-optimised study says its factors came from the
@@ -172,15 +186,7 @@ var exampleChecks = map[string]func(t *testing.T, sum map[string]any){
 		// every constraint met, the wing still swept forward and its
 		// divergence beyond the dive speed + 15 % (14 CFR 25.629(b):
 		// q_D/q_dive − 1 ≥ 1.15² − 1 = 0.3225).
-		best := sum["best"].(map[string]any)
-		if best["feasible"] != true {
-			t.Fatalf("no feasible design: %v", best)
-		}
-		for name, v := range best["margins"].(map[string]any) {
-			if v.(float64) < 0 {
-				t.Errorf("constraint %s violated by %g", name, v)
-			}
-		}
+		best := checkBestMeetsAll(t, sum)
 		if q := best["constraints"].(map[string]any)["stability.divergence_margin"].(float64); q < 0.3225 {
 			t.Errorf("divergence margin %g < 0.3225", q)
 		}
@@ -192,19 +198,7 @@ var exampleChecks = map[string]func(t *testing.T, sum map[string]any){
 		// The principal result is the GA's: feasible and burning no more
 		// fuel than the Godwit L320 baseline wing, which meets every
 		// constraint of the study.
-		best := sum["best"].(map[string]any)
-		base := baselineOf(t, "long_range_transport.study")
-		if !base.Converged {
-			t.Fatalf("the baseline analysis failed: %s", base.Err)
-		}
-		for k, m := range base.Margins {
-			if m < -1e-12 {
-				t.Fatalf("the baseline design violates constraint %d by %g", k+1, -m)
-			}
-		}
-		if best["feasible"] != true || best["objective"].(float64) > base.Objectives[0] {
-			t.Errorf("best %v: want a feasible design burning at most the baseline's %.1f kg", best, base.Objectives[0])
-		}
+		checkNoWorseThanBaseline(t, sum, "long_range_transport.study")
 	},
 	"supersonic_transport.study": func(t *testing.T, sum map[string]any) {
 		// The principal result is the front of take-off mass against
