@@ -119,7 +119,7 @@ func (s SolverSettings) normalized() (SolverSettings, error) {
 
 // plain reports whether the settings are plain Gauss–Seidel without
 // relaxation, whose converged states need no stability check (branch.go).
-func (s SolverSettings) plain() bool { return s.Method == GaussSeidel && s.Relaxation == 1 }
+func (s *SolverSettings) plain() bool { return s.Method == GaussSeidel && s.Relaxation == 1 }
 
 // VarResidual is one variable's scaled residual in a report.
 type VarResidual struct {

@@ -111,7 +111,7 @@ func (s *System) NewWorkspace() *Workspace {
 			w.worstDue = append(w.worstDue, false)
 			tv := make([]tearVar, len(g.tear))
 			for k, v := range g.tear {
-				tv[k] = tearVar{v: v, lo: g.lo[k], hi: g.hi[k], inv: g.inv[k], scale: g.scale[k]}
+				tv[k] = tearVar{x: &w.val[v], v: v, lo: g.lo[k], hi: g.hi[k], inv: g.inv[k], scale: g.scale[k]}
 			}
 			w.tv = append(w.tv, tv)
 		}
@@ -254,17 +254,26 @@ func (w *Workspace) Counters() Counters { return w.cnt }
 func (w *Workspace) Analyze(ctx context.Context) (err error) {
 	w.cnt.Analyses++
 	w.cur = -1
+	// returned is set where Analyze returns: the deferred function calls
+	// recover only while a panic unwinds (a call of recover costs, when
+	// nothing panics, a good part of a small discipline's analysis)
+	returned := false
 	defer func() {
-		if r := recover(); r != nil {
-			err = w.panicked(r)
+		if !returned {
+			if r := recover(); r != nil {
+				err = w.panicked(r)
+			}
 		}
 	}()
 	w.path, w.unstable = pathConfigured, false
 	err = w.analyzeWith(ctx, pathConfigured)
 	if err == nil || w.onceMode || !w.loopFailed || ctx.Err() != nil {
+		returned = true
 		return err
 	}
-	return w.fallback(ctx, err)
+	err = w.fallback(ctx, err)
+	returned = true
+	return err
 }
 
 // analyzeWith runs every group once, the coupled ones with the solver of
@@ -291,13 +300,16 @@ func (w *Workspace) analyzeFrom(ctx context.Context, p solvePath, first int) err
 			}
 			continue
 		}
-		set := w.settings[gi]
+		// the settings by reference: a copy of them per call costs more
+		// than a small group's analysis can spare
+		set := &w.settings[gi]
 		if p != pathConfigured {
-			set = p.settings(set)
+			ps := p.settings(*set)
+			set = &ps
 		}
 		err := w.solve(ctx, g, set, p, k)
 		if err == nil && !w.onceMode && (!set.plain() || checkedPlain(w.reports[k].CouplingIterations)) {
-			err = w.stableBranch(g, set, p)
+			err = w.stableBranch(g, *set, p)
 		}
 		if err != nil {
 			if ctx.Err() == nil {
@@ -375,11 +387,13 @@ type discPlan struct {
 }
 
 // tearVar is a coupling variable of a group as solvePlain's residual
-// reads it: its index in the values, the bounds of its consumers' ranges
-// (group.lo, group.hi), its residual scale and the reciprocal.
+// reads it: its value (x, at index v of the values), the bounds of its
+// consumers' ranges (group.lo, group.hi), its residual scale and the
+// reciprocal, and y, its value at the start of the sweep.
 type tearVar struct {
-	v                  int
-	lo, hi, inv, scale float64
+	x                     *float64
+	lo, hi, inv, scale, y float64
+	v                     int
 }
 
 // loopInput is an input of a discipline (in discPlan.ops, one produced
@@ -537,6 +551,12 @@ func clip(x, lo, hi float64) float64 {
 	return x
 }
 
+// clipOut is clip for a value not strictly inside its range, out of the
+// hot loops that inline clip's first test only.
+//
+//go:noinline
+func clipOut(x, lo, hi float64) float64 { return clip(x, lo, hi) }
+
 // sweepRuns runs, in turn, each discipline of runs (the runs of one
 // group, Workspace.runs) with its outputs straight into the values: a
 // Gauss–Seidel sweep of a coupled group, or the run of an uncoupled one.
@@ -553,15 +573,18 @@ func clip(x, lo, hi float64) float64 {
 // projections and the first error are those of an input-by-input check
 // in the discipline's order.
 func (w *Workspace) sweepRuns(runs []discRun, first bool) error {
+	if first {
+		// the inputs from outside the group cannot change while it is
+		// solved: loaded once for every run, before the first computes
+		for i := range runs {
+			if !loadOps(runs[i].fixed) {
+				return w.firstRuns(runs)
+			}
+		}
+	}
 	for i := range runs {
 		p := &runs[i]
-		if first {
-			if !loadOps(p.fixed) || !loadOps(p.ops) {
-				if err := w.gather(p.d); err != nil {
-					return err
-				}
-			}
-		} else if !loadOps(p.ops) {
+		if !loadOps(p.ops) {
 			if err := w.projectOps(p); err != nil {
 				return err
 			}
@@ -581,6 +604,23 @@ func (w *Workspace) sweepRuns(runs []discRun, first bool) error {
 			if notFinite(x) {
 				return w.runFailed(p, nil, k, x)
 			}
+		}
+	}
+	return nil
+}
+
+// firstRuns is sweepRuns's first sweep when an input from outside the
+// group lies outside its range: each run gathers its inputs one by one in
+// its order (gather), then computes as a later sweep does (its inputs
+// from the group loaded again, to the same values), so that the runs
+// before it compute and the error is that of the first input refused.
+func (w *Workspace) firstRuns(runs []discRun) error {
+	for i := range runs {
+		if err := w.gather(runs[i].d); err != nil {
+			return err
+		}
+		if err := w.sweepRuns(runs[i:i+1], false); err != nil {
+			return err
 		}
 	}
 	return nil
@@ -691,7 +731,7 @@ const divergeLimit = 1e12
 //
 // The group's report is w.reports[rk]; the three worst residuals of a
 // converged solve are filled in when the report is read (CouplingReports).
-func (w *Workspace) solve(ctx context.Context, g *group, set SolverSettings, p solvePath, rk int) error {
+func (w *Workspace) solve(ctx context.Context, g *group, set *SolverSettings, p solvePath, rk int) error {
 	rep := &w.reports[rk]
 	w.worstDue[rk] = false
 	rep.Method = set.Method
@@ -729,7 +769,7 @@ func (w *Workspace) solve(ctx context.Context, g *group, set SolverSettings, p s
 	defer func() { w.solving = false }()
 	if set.Method == Newton {
 		copy(w.scale, scale) // newton reads the scales there
-		return w.newton(ctx, g, set, p, rep)
+		return w.newton(ctx, g, *set, p, rep)
 	}
 	jacobi := set.Method == Jacobi || set.Method == AitkenJacobi
 	aitken := set.Method == AitkenGaussSeidel || set.Method == AitkenJacobi
@@ -818,21 +858,20 @@ func (w *Workspace) solve(ctx context.Context, g *group, set SolverSettings, p s
 // solvePlain is solve's loop for plain Gauss–Seidel (no relaxation), the
 // iteration every other method and the fallback chain fall back to: the
 // same steps as solve's loop without the relaxation.
-func (w *Workspace) solvePlain(ctx context.Context, g *group, set SolverSettings, p solvePath, rk int) error {
+func (w *Workspace) solvePlain(ctx context.Context, g *group, set *SolverSettings, p solvePath, rk int) error {
 	rep := &w.reports[rk]
-	nt := len(g.tear)
-	tv, pow2, runs := w.tv[rk][:nt], g.pow2, w.runs[g.at]
-	y, r, val := w.y[:nt], w.res[rk][:nt], w.val
+	tv, pow2, runs := w.tv[rk], g.pow2, w.runs[g.at]
+	r := w.res[rk][:len(tv)]
 	// a context whose Done is nil can never be cancelled
 	cancellable := ctx.Done() != nil
-	// the group starts from its guesses, clipped to the ranges; y is the
-	// state a sweep starts from: the values of the coupling variables,
-	// which only the sweep changes (the residual loop below takes them
-	// for the next sweep)
+	// the group starts from its guesses, clipped to the ranges; t.y is
+	// the state a sweep starts from: the values of the coupling
+	// variables, which only the sweep changes (the residual loop below
+	// takes them for the next sweep)
 	for k := range tv {
 		t := &tv[k]
 		x := clip(w.guess[t.v], t.lo, t.hi)
-		val[t.v], y[k] = x, x
+		*t.x, t.y = x, x
 	}
 	watch := stallWatch{best: math.Inf(1)}
 	for it := 1; it <= set.MaxIterations; it++ {
@@ -847,14 +886,18 @@ func (w *Workspace) solvePlain(ctx context.Context, g *group, set SolverSettings
 		norm := 0.0
 		for k := range tv {
 			t := &tv[k]
-			x := val[t.v]
-			d := clip(x, t.lo, t.hi) - y[k]
+			x := *t.x
+			c := x
+			if !(x > t.lo && x < t.hi) {
+				c = clipOut(x, t.lo, t.hi)
+			}
+			d := c - t.y
 			if pow2 {
 				d *= t.inv // d/scale bit for bit (see group.inv)
 			} else {
 				d /= t.scale
 			}
-			r[k], y[k] = d, x
+			r[k], t.y = d, x
 			if a := math.Abs(d); a > norm || a != a {
 				norm = a
 			}
@@ -864,7 +907,7 @@ func (w *Workspace) solvePlain(ctx context.Context, g *group, set SolverSettings
 				w.worstDue[rk] = true
 				// closure's test, on tv: it has work only beyond a limit
 				for k := range tv {
-					if x := val[tv[k].v]; x < tv[k].lo || x > tv[k].hi {
+					if x := *tv[k].x; x < tv[k].lo || x > tv[k].hi {
 						return w.closure(g, p)
 					}
 				}
