@@ -108,6 +108,21 @@ func sweepCases() []sweepCase {
 			"wing.area": 450, "cg.engine_position": 0.7}), nil,
 			[]convBox{{"wing.area", 300, 800}, {"wing.aspect_ratio", 1.6, 3}, {"wing.sweep", 52, 68}, {"wing.thickness_ratio", 0.022, 0.045},
 				{"cruise.mach", 1.6, 2.4}, {"mission.range", 5e6, 1.1e7}}},
+		// the concepts of other classes (concepts.go) over wide boxes
+		{"Dunlin F10 wide box", Dunlin(), nil, []convBox{
+			{"wing.area", 28, 90}, {"wing.aspect_ratio", 5, 11}, {"wing.sweep", -35, 5}, {"wing.taper", 0.2, 0.6},
+			{"wing.thickness_ratio", 0.08, 0.15}, {"wing.position", 0.4, 0.6}, {"htail.volume", 0.6, 1.2},
+			{"cruise.mach", 0.6, 0.86}, {"cruise.altitude", 9000, 14000}, {"mission.range", 2e6, 7e6},
+			{"dive.dynamic_pressure", 20000, 36000}, {"engine.sizing_field_length", 1200, 2200}}},
+		{"Godwit L320 wide box", Godwit(), nil, []convBox{
+			{"wing.area", 300, 600}, {"wing.aspect_ratio", 7, 14}, {"wing.sweep", 15, 40}, {"wing.taper", 0.15, 0.4},
+			{"wing.thickness_ratio", 0.09, 0.15}, {"wing.position", 0.26, 0.36}, {"cruise.mach", 0.72, 0.88},
+			{"cruise.altitude", 9000, 12500}, {"mission.range", 4e6, 1.1e7}, {"mission.payload", 20000, 45000},
+			{"engine.sizing_field_length", 2200, 3400}}},
+		{"Sanderling S56 wide box", Sanderling(), nil, []convBox{
+			{"wing.area", 150, 450}, {"wing.aspect_ratio", 1.5, 3.5}, {"wing.sweep", 50, 68}, {"wing.thickness_ratio", 0.02, 0.05},
+			{"wing.position", 0.36, 0.48}, {"cruise.mach", 1.4, 2.3}, {"cruise.altitude", 16000, 20000},
+			{"mission.range", 3e6, 8e6}, {"engine.bypass_ratio", 0.3, 1.5}, {"engine.turbine_temperature", 1700, 2100}}},
 		// the edges of the validity ranges
 		{"edges of validity", Swiftlet(), nil, []convBox{
 			{"wing.area", 1, 2000}, {"wing.aspect_ratio", 0.5, 20}, {"wing.sweep", -70, 70}, {"wing.taper", 0, 1},
