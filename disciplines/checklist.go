@@ -135,7 +135,8 @@ func checklistClass(mach, seats float64) AircraftClass {
 // in the tanks; the operating empty mass per seat and the empty-mass
 // fraction against the statistics of the aircraft's class (inferred from
 // cruise Mach and seats, twin-aisle jet transports apart; mass_statistics.go), and the class's bands of
-// take-off mass, mission fuel fraction and field lengths and the cruise
+// take-off mass, mission fuel fraction, field lengths, wing loading and
+// take-off thrust over weight and the cruise
 // regime's bands of lift-to-drag ratio and TSFC (common practice, from
 // memory; mass_statistics.go). A row whose variables the
 // aircraft does not have is left out; a result without the static margins
@@ -283,6 +284,14 @@ func classRows(band func(rule string, v float64, unit string, lo, hi float64, te
 	if f, ok := val("perf.landing_field_length"); ok {
 		band("landing field length"+name, f[0], "m", b.landingField[0], b.landingField[1],
 			fmt.Sprintf("%g–%g", b.landingField[0], b.landingField[1]), "outside the class's band", memory)
+	}
+	if f, ok := val("wing.area"); ok && f[0] > 0 {
+		band("wing loading at take-off"+name, mto/f[0], "kg/m2", b.wingLoading[0], b.wingLoading[1],
+			fmt.Sprintf("%g–%g", b.wingLoading[0], b.wingLoading[1]), "outside the class's band", memory)
+	}
+	if f, ok := val("engine.count", "engine.thrust_takeoff"); ok && mto > 0 {
+		band("take-off thrust over weight"+name, math.Round(f[0])*f[1]/(mto*G0), "", b.thrustWeight[0], b.thrustWeight[1],
+			fmt.Sprintf("%g–%g", b.thrustWeight[0], b.thrustWeight[1]), "outside the class's band", memory)
 	}
 	ld, tsfc := cruiseBands(mach)
 	regime := " (subsonic cruise)"

@@ -8,13 +8,16 @@ func TestChecklistSubsonicAndTwinAisleBands(t *testing.T) {
 	// business jets span about 7–15 (from memory, no source). The
 	// operating empty mass per seat of the single-aisle jet transports,
 	// 270–290 kg, is not that of the wide bodies, about 320–470 kg (from
-	// memory, no source). Each row: the values changed from a subsonic
+	// memory, no source). The wing loading and the take-off thrust over
+	// weight are read against the class's bands (mass_statistics.go).
+	// Each row: the values changed from a subsonic
 	// business jet inside every band, and whether the rule is flagged.
 	base := func() map[string]float64 {
 		m := checklistBase()
 		for k, v := range map[string]float64{
 			"cruise.mach": 0.8, "fuselage.fineness": 9, "aero.ld_cruise": 14, "engine.tsfc_cruise": 2.1e-5,
 			"mass.empty": 12000, "mass.crew": 190, "mass.takeoff": 22000, "cabin.passengers": 10, "mass.fuel": 8000, "mass.fuel_capacity": 9000,
+			"wing.area": 60, "engine.count": 2, "engine.thrust_takeoff": 40000,
 		} {
 			m[k] = v
 		}
@@ -35,6 +38,18 @@ func TestChecklistSubsonicAndTwinAisleBands(t *testing.T) {
 		{"wide body of 419 kg a seat", transport, "operating empty mass per seat (twin-aisle jet transport)", false},
 		{"wide body of 500 kg a seat", with2(transport, map[string]float64{"mass.empty": 160000}), "operating empty mass per seat (twin-aisle jet transport)", true},
 		{"wide body of 300 kg a seat", with2(transport, map[string]float64{"mass.empty": 96000, "mass.takeoff": 200000}), "operating empty mass per seat (twin-aisle jet transport)", true},
+		// wing loading and take-off T/W of a business jet: about
+		// 200–550 kg/m² and 0.28–0.55 (from memory, no source)
+		{"business jet of 367 kg/m²", nil, "wing loading at take-off (business jet)", false},
+		{"business jet of 733 kg/m²", map[string]float64{"wing.area": 30}, "wing loading at take-off (business jet)", true},
+		{"business jet of T/W 0.37", nil, "take-off thrust over weight (business jet)", false},
+		{"business jet of T/W 0.14", map[string]float64{"engine.thrust_takeoff": 15000}, "take-off thrust over weight (business jet)", true},
+		{"wide body of 675 kg/m², T/W 0.30", with2(transport, map[string]float64{"wing.area": 400, "engine.count": 4, "engine.thrust_takeoff": 200000}),
+			"wing loading at take-off (jet transport)", false},
+		{"wide body of T/W 0.30", with2(transport, map[string]float64{"wing.area": 400, "engine.count": 4, "engine.thrust_takeoff": 200000}),
+			"take-off thrust over weight (jet transport)", false},
+		{"wide body of 900 kg/m²", with2(transport, map[string]float64{"wing.area": 300, "engine.count": 4, "engine.thrust_takeoff": 200000}),
+			"wing loading at take-off (jet transport)", true},
 		{"single aisle of 419 kg a seat", with2(transport, map[string]float64{"cabin.aisles": 1, "cabin.seats_abreast": 6}), "operating empty mass per seat (jet transport)", true},
 	}
 	for _, c := range tests {

@@ -28,5 +28,5 @@ func ExampleDesignChecklist() {
 	fmt.Printf("%d of %d rules flagged\n", len(cl.Flagged()), len(cl))
 	// Output:
 	// tail tips behind the fuselage end: 0.288 m, <= 0 (or a declared overhang): FLAG (swept tail tips reach past the fuselage end: declare it or constrain it) [common practice (no source)]
-	// 1 of 21 rules flagged
+	// 1 of 23 rules flagged
 }

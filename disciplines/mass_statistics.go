@@ -94,23 +94,36 @@ func (c AircraftClass) EmptyMassPerSeatBand() (lo, hi float64) {
 // transports about 1 100–3 000 m; business jets about 900–3 000 m;
 // supersonic airliners about 1 800–3 700 m. Landing field length
 // (121.195(b)): jet transports about 1 000–2 200 m; business jets about
-// 800–2 200 m; supersonic airliners about 1 400–2 600 m.
+// 800–2 200 m; supersonic airliners about 1 400–2 600 m. Wing loading at
+// take-off: jet transports about 350–820 kg/m² (regional jets about
+// 430–550, long-range wide bodies 600–800); business jets about
+// 200–550 kg/m² (light jets about 250, the largest about 530);
+// supersonic airliners about 300–600 kg/m² (one in service about 520).
+// Take-off thrust (all engines, static) over weight: jet transports
+// about 0.22–0.40 (four-engine long range at the bottom, short-haul
+// twins about 0.3); business jets about 0.28–0.55 (subsonic about
+// 0.34–0.42, the supersonic business-jet studies near the top);
+// supersonic airliners about 0.30–0.50 (one in service about 0.37 with
+// reheat).
 type classBands struct {
-	takeoffMass, fuelFraction, takeoffField, landingField [2]float64
+	takeoffMass, fuelFraction, takeoffField, landingField, wingLoading, thrustWeight [2]float64
 }
 
 // bands returns the class's common-practice bands (NaN for no class).
 func (c AircraftClass) bands() classBands {
 	switch c {
 	case ClassJetTransport:
-		return classBands{[2]float64{15e3, 600e3}, [2]float64{0.12, 0.45}, [2]float64{1100, 3000}, [2]float64{1000, 2200}}
+		return classBands{[2]float64{15e3, 600e3}, [2]float64{0.12, 0.45}, [2]float64{1100, 3000}, [2]float64{1000, 2200},
+			[2]float64{350, 820}, [2]float64{0.22, 0.40}}
 	case ClassBusinessJet:
-		return classBands{[2]float64{5e3, 55e3}, [2]float64{0.25, 0.55}, [2]float64{900, 3000}, [2]float64{800, 2200}}
+		return classBands{[2]float64{5e3, 55e3}, [2]float64{0.25, 0.55}, [2]float64{900, 3000}, [2]float64{800, 2200},
+			[2]float64{200, 550}, [2]float64{0.28, 0.55}}
 	case ClassSupersonicCruise:
-		return classBands{[2]float64{30e3, 400e3}, [2]float64{0.35, 0.60}, [2]float64{1800, 3700}, [2]float64{1400, 2600}}
+		return classBands{[2]float64{30e3, 400e3}, [2]float64{0.35, 0.60}, [2]float64{1800, 3700}, [2]float64{1400, 2600},
+			[2]float64{300, 600}, [2]float64{0.30, 0.50}}
 	}
 	n := [2]float64{math.NaN(), math.NaN()}
-	return classBands{n, n, n, n}
+	return classBands{n, n, n, n, n, n}
 }
 
 // cruiseBands returns the common-practice bands of the cruise
