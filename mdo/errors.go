@@ -15,6 +15,8 @@ type RangeError struct {
 	// Produced is true when the value was computed by a discipline (a
 	// coupling iterate or an output) rather than given by the user.
 	Produced bool
+	// Producer names the discipline that computed the value, if known.
+	Producer string
 }
 
 // Error implements error.
@@ -26,6 +28,15 @@ func (e *RangeError) Error() string {
 	unit := ""
 	if e.Unit != "" && e.Unit != "-" {
 		unit = " " + e.Unit
+	}
+	if e.Produced {
+		// a state the design leads to, not a bad input: say who computed
+		// it and what to do (the class of Classify)
+		by := ""
+		if e.Producer != "" {
+			by = ", computed by discipline " + e.Producer + ","
+		}
+		return fmt.Sprintf("mdo: %s = %g%s%s is outside its validity range [%g, %g]%s; remedy: %s", e.Var, e.Value, unit, by, e.Min, e.Max, where, DoesNotClose.Remedy())
 	}
 	return fmt.Sprintf("mdo: %s = %g%s is outside its validity range [%g, %g]%s", e.Var, e.Value, unit, e.Min, e.Max, where)
 }

@@ -140,3 +140,49 @@ func TestUnstableReferenceRefused(t *testing.T) {
 		}
 	}
 }
+
+// TestProducedOutOfRangeNamesProducer analyses a system whose upstream
+// discipline computes a value below the validity range of the coupled
+// group's discipline that reads it (invented, no source; the business
+// jet's wide box met it: stability.neutral_point = −103.7 m, computed by
+// neutral_point, read by stability, range [−100, 300]). The point fails
+// as not closing, and its reason names the variable, its value, the
+// range, the discipline that computed it, the one that reads it and the
+// remedy (before: no producer and no remedy).
+func TestProducedOutOfRangeNamesProducer(t *testing.T) {
+	p := Var{Name: "p", Default: 1, Min: -10, Max: 10}
+	np := Var{Name: "np", Default: 0, Min: -1000, Max: 1000}
+	npIn := Var{Name: "np", Default: 0, Min: -1, Max: 1}
+	a := Var{Name: "a", Default: 0, Min: -100, Max: 100}
+	b := Var{Name: "b", Default: 0, Min: -100, Max: 100}
+	sys, err := NewSystem(
+		FuncVars("upstream", []Var{p}, []Var{np}, func(in, out []float64) error { out[0] = -20 * in[0]; return nil }),
+		FuncVars("reader", []Var{npIn, b}, []Var{a}, func(in, out []float64) error { out[0] = in[0] + 0.5*in[1]; return nil }),
+		FuncVars("back", []Var{a}, []Var{b}, func(in, out []float64) error { out[0] = 0.5 * in[0]; return nil }),
+	)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, m := range Methods() {
+		if err := sys.SetSolver(SolverSettings{Method: m}); err != nil {
+			t.Fatal(err)
+		}
+		st := &Study{Name: "produced", System: sys, Design: []DesignVar{Continuous("p", -1, 1)}, Objectives: []Objective{Minimize("a")}, Workers: 1, CacheLimit: -1}
+		e, err := st.NewEvaluator()
+		if err != nil {
+			t.Fatal(err)
+		}
+		ev, err := e.EvaluateOne(context.Background(), []float64{1})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if ev.Converged || ev.Failure != DoesNotClose {
+			t.Fatalf("%s: converged %v, failure %s: %s", m, ev.Converged, ev.Failure, ev.Err)
+		}
+		for _, want := range []string{"np = -20", "[-1, 1]", "computed by discipline upstream", "input of discipline reader", "remedy: " + DoesNotClose.Remedy()} {
+			if !strings.Contains(ev.Err, want) {
+				t.Errorf("%s: reason %q does not say %q", m, ev.Err, want)
+			}
+		}
+	}
+}

@@ -466,7 +466,8 @@ func (w *Workspace) inputError(d, k int, x float64) error {
 	if math.IsNaN(x) || math.IsInf(x, 0) {
 		return &NonFiniteError{Discipline: w.sys.Producer(spec.Name), Var: spec.Name, Value: x}
 	}
-	return &RangeError{Discipline: w.sys.discs[d].Name(), Var: spec.Name, Value: x, Min: spec.Min, Max: spec.Max, Unit: spec.Unit, Produced: w.sys.producer[w.sys.inIdx[d][k]] >= 0}
+	return &RangeError{Discipline: w.sys.discs[d].Name(), Var: spec.Name, Value: x, Min: spec.Min, Max: spec.Max, Unit: spec.Unit, Produced: w.sys.producer[w.sys.inIdx[d][k]] >= 0,
+		Producer: w.sys.Producer(spec.Name)}
 }
 
 // outputError builds the error for output k of discipline d, which is
