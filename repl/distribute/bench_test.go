@@ -11,8 +11,9 @@ import (
 )
 
 // sleepScript is a study whose one discipline sleeps for the analysis
-// time given (in ms) before it answers; its optimiser is only the way the
-// workers reach the study.
+// time given (in ms) before it answers, evaluated in ROUNDS batches of
+// BATCH points after a first one, as the benchmark's coordinator does:
+// the workers replay it to follow the run.
 const sleepScript = `//~ couplet-study 1 (couplet 0.1.0)
 
 //~ cell 1
@@ -20,7 +21,6 @@ import (
 	"time"
 
 	"couplet/mdo"
-	"couplet/optimizers"
 	"couplet/repl/cell"
 )
 
@@ -43,8 +43,26 @@ study := &mdo.Study{
 	Objectives: []mdo.Objective{mdo.Minimize("f")},
 	Workers:    1,
 }
-cell.Attach(study)
-optimizers.RandomDesign{Samples: 1}.Minimize(cell.Context(), study)
+ev, err := study.NewEvaluator()
+if err != nil {
+	panic(err)
+}
+n, rounds := BATCH, ROUNDS
+batch := func(i int) [][]float64 {
+	xs := make([][]float64, n)
+	for k := range xs {
+		xs[k] = []float64{float64(i*n+k+1) / float64(n*(rounds+2)), 0.5}
+	}
+	return xs
+}
+if _, err := ev.Evaluate(cell.Context(), batch(rounds+1)); err != nil {
+	panic(err)
+}
+for i := 0; i < rounds; i++ {
+	if _, err := ev.Evaluate(cell.Context(), batch(i)); err != nil {
+		panic(err)
+	}
+}
 `
 
 // sleeperStudy is the study of sleepScript built in Go, as the
@@ -93,7 +111,8 @@ func BenchmarkSpreadSleep(b *testing.B) {
 				b.Fatal(err)
 			}
 			defer conn.Close()
-			script := strings.Replace(sleepScript, "SLEEP", fmt.Sprint(tc.sleep.Milliseconds()), 1)
+			n := 8 * tc.workers
+			script := strings.NewReplacer("SLEEP", fmt.Sprint(tc.sleep.Milliseconds()), "BATCH", fmt.Sprint(n), "ROUNDS", fmt.Sprint(b.N)).Replace(sleepScript)
 			co, err := NewCoordinator(context.Background(), conn, CoordinatorConfig{Script: script, Build: "bench", AckWait: 10 * time.Second})
 			if err != nil {
 				b.Fatal(err)
@@ -114,7 +133,6 @@ func BenchmarkSpreadSleep(b *testing.B) {
 				b.Fatal(err)
 			}
 			dctx := mdo.WithDispatcher(ctx, co)
-			n := 8 * tc.workers
 			batch := func(i int) [][]float64 {
 				xs := make([][]float64, n)
 				for k := range xs {

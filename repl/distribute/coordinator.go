@@ -12,6 +12,7 @@ import (
 	"os"
 	"sync"
 	"time"
+	"weak"
 
 	"github.com/nats-io/nats.go"
 	"github.com/nats-io/nats.go/jetstream"
@@ -38,10 +39,15 @@ type CoordinatorConfig struct {
 	Log io.Writer
 }
 
-// Coordinator sends the analyses of a run's study to workers over
+// Coordinator sends the analyses of a run's studies to workers over
 // JetStream and collects their results: the mdo.Dispatcher of the
-// coordinating process. Its Dispatch serves one Evaluator (the first it
-// is given); the batches of any other run in that Evaluator's own pool.
+// coordinating process. Its Dispatch serves one Evaluator at a time, each
+// in turn: an Evaluator whose first batch comes while no batch of the
+// served one is out becomes the served one (the optimisations of a script
+// run one after another are spread, every one of them). A batch of an
+// Evaluator served before, or one that comes while a batch of the served
+// one is out (an optimisation the script runs at the same time as
+// another), runs in that Evaluator's own pool, which the log says once.
 type Coordinator struct {
 	conn *Conn
 	info runInfo
@@ -54,8 +60,14 @@ type Coordinator struct {
 
 	mu       sync.Mutex // guards what Dispatch keeps between calls and the counts
 	served   *mdo.Evaluator
-	print    string
-	batch    uint64
+	ordinal  int    // the served Evaluator's number, from 1
+	print    string // its fingerprint
+	batch    uint64 // its batches so far
+	inflight int    // Dispatch calls of the served Evaluator not returned yet
+	// the Evaluators served before (true) and those whose batches ran
+	// here, said once (false); weak, so that a loop of optimisations does
+	// not keep every one alive
+	seen     map[weak.Pointer[mdo.Evaluator]]bool
 	duplic   int
 	answered int
 }
@@ -79,7 +91,7 @@ func NewCoordinator(ctx context.Context, conn *Conn, cfg CoordinatorConfig) (*Co
 	}
 	host, _ := os.Hostname()
 	sum := sha256.Sum256([]byte(cfg.Script))
-	c := &Coordinator{conn: conn, log: cfg.Log, replies: make(chan reply, 256), closed: make(chan struct{})}
+	c := &Coordinator{conn: conn, log: cfg.Log, replies: make(chan reply, 256), closed: make(chan struct{}), seen: map[weak.Pointer[mdo.Evaluator]]bool{}}
 	if c.log == nil {
 		c.log = io.Discard
 	}
@@ -140,6 +152,9 @@ func (c *Coordinator) take(m jetstream.Msg) {
 		fmt.Fprintf(c.log, "couplet run: a result of run %s could not be read: %v\n", c.info.Run, err)
 		return
 	}
+	if r.Ended {
+		return // the coordinator's own word to the workers
+	}
 	select {
 	case c.replies <- r:
 	case <-c.closed:
@@ -158,26 +173,27 @@ func (c *Coordinator) noticed(m *nats.Msg) {
 // Dispatch implements mdo.Dispatcher: it publishes one request per point
 // and waits for their results.
 func (c *Coordinator) Dispatch(ctx context.Context, b *mdo.Batch) error {
-	c.mu.Lock()
-	if c.served == nil {
-		c.served, c.print = b.Evaluator(), b.Evaluator().Fingerprint()
+	ev, batch, print, here, err := c.serve(ctx, b.Evaluator())
+	if err != nil {
+		return err
 	}
-	if c.served != b.Evaluator() {
-		c.mu.Unlock()
+	if here {
 		return b.RunHere(ctx)
 	}
-	c.batch++
-	batch, print := c.batch, c.print
-	c.mu.Unlock()
+	defer func() {
+		c.mu.Lock()
+		c.inflight--
+		c.mu.Unlock()
+	}()
 	run := c.info.Run
 	var acks []jetstream.PubAckFuture
 	for k := 0; k < b.Len(); k++ {
 		req := b.Request(k)
-		data, err := encode(request{Batch: batch, Index: k, Fingerprint: print, Design: req.Design})
+		data, err := encode(request{Evaluator: ev, Batch: batch, Index: k, Fingerprint: print, Design: req.Design})
 		if err != nil {
 			return err
 		}
-		f, err := c.conn.js.PublishAsync(workPrefix+run, data, jetstream.WithMsgID(msgID(run, batch, k)))
+		f, err := c.conn.js.PublishAsync(workPrefix+run, data, jetstream.WithMsgID(msgID(run, ev, batch, k)))
 		if err != nil {
 			return fmt.Errorf("distribute: sending request %d of batch %d: %w", k, batch, err)
 		}
@@ -207,7 +223,7 @@ func (c *Coordinator) Dispatch(ctx context.Context, b *mdo.Batch) error {
 			timer.Reset(quiet)
 		case r := <-c.replies:
 			timer.Reset(quiet)
-			if r.Batch != batch {
+			if r.Evaluator != ev || r.Batch != batch {
 				continue // a late answer to a batch cut short
 			}
 			if r.Refused != "" {
@@ -229,6 +245,45 @@ func (c *Coordinator) Dispatch(ctx context.Context, b *mdo.Batch) error {
 		}
 	}
 	return nil
+}
+
+// serve decides where a batch of e goes. It returns the number of the
+// spread Evaluator and of the batch, with e's fingerprint, or here when
+// the batch runs in e's own pool. An Evaluator that becomes the served one
+// ends the turn of the one before: the workers are told how many batches
+// it had, so that one replaying the run answers any later batch of it in
+// its own pool, as this process does.
+func (c *Coordinator) serve(ctx context.Context, e *mdo.Evaluator) (ev int, batch uint64, print string, here bool, err error) {
+	c.mu.Lock()
+	defer c.mu.Unlock()
+	if e != c.served {
+		key := weak.Make(e)
+		if served, seen := c.seen[key]; seen || c.inflight > 0 {
+			if !seen || served {
+				why := "another optimisation (study %q) is being spread at the same time: only optimisations run one after another are spread"
+				if served {
+					why = "its turn ended when the analyses of study %q began to be spread"
+				}
+				fmt.Fprintf(c.log, "couplet run: the analyses of study %q run on this process: "+why+"\n", e.Study().Name, c.served.Study().Name)
+				c.seen[key] = false
+			}
+			return 0, 0, "", true, nil
+		}
+		if c.served != nil {
+			data, err := encode(reply{Evaluator: c.ordinal, Batch: c.batch, Ended: true})
+			if err != nil {
+				return 0, 0, "", false, err
+			}
+			if _, err := c.conn.js.Publish(ctx, resultPrefix+c.info.Run, data, jetstream.WithMsgID(fmt.Sprintf("%s.%d.ended", c.info.Run, c.ordinal))); err != nil {
+				return 0, 0, "", false, fmt.Errorf("distribute: telling the workers that the turn of study %q ended: %w", c.served.Study().Name, err)
+			}
+			c.seen[weak.Make(c.served)] = true
+		}
+		c.served, c.ordinal, c.print, c.batch = e, c.ordinal+1, e.Fingerprint(), 0
+	}
+	c.batch++
+	c.inflight++
+	return c.ordinal, c.batch, c.print, false, nil
 }
 
 // dropWork removes the requests of the run not taken yet (a batch cut

@@ -7,9 +7,14 @@
 // worker --connect URL`, or Serve) connects to the same server, learns of
 // the run from the runs bucket, checks that its build is the
 // coordinator's, replays the study file with its own sandbox policy and
-// in its own workspace up to the first evaluation (the same script and
-// seed build the same study: the fingerprint of the study is checked on
-// every request), and then answers analysis requests.
+// in its own workspace (the same script and seed build the same study:
+// the fingerprint of the study is checked on every request), and answers
+// analysis requests for the study its replay has reached. The replay
+// follows the coordinator: each batch of its own is answered with the
+// results the workers published for the coordinator's batch of the same
+// numbers (the designs checked bit for bit), so it comes to the script's
+// next optimisation with the state the coordinator had, and serves that
+// one in turn.
 //
 // The pieces on the server:
 //
@@ -18,7 +23,7 @@
 //     coordinator and the acknowledgement deadline. The coordinator
 //     deletes it when the run ends, which releases the workers;
 //   - the work stream COUPLET_WORK, a work queue: one message per fresh
-//     point, subject couplet.work.RUN, message id RUN.BATCH.INDEX (the
+//     point, subject couplet.work.RUN, message id RUN.TURN.BATCH.INDEX (the
 //     server drops a second copy), taken by the run's durable consumer
 //     with explicit acknowledgement. A worker acknowledges a request only
 //     after its result is published, and tells the server it is still
@@ -37,8 +42,11 @@
 // and the coordinator's Evaluator numbers, caches, records and tracks
 // every point as it does for its own worker pool, so a run gives the
 // same result, bit for bit, on one process and on any number of workers.
-// Only the first Evaluator of a run is spread; the analyses of any other
-// (a calibration inside the script, say) run in the coordinator's pool.
+// Every optimisation the script runs with cell.Context() is spread, one
+// after another: the Evaluators take turns (see Coordinator). One that a
+// script runs at the same time as another (in a goroutine) runs in the
+// coordinator's pool, and so does a later batch of an Evaluator whose turn
+// is over; the coordinator's log says so once for each.
 //
 // Hub is an embedded JetStream server for the local case and for tests:
 // nothing needs installing.

@@ -21,8 +21,11 @@ type runInfo struct {
 	Coordinator string        `json:"coordinator"`
 }
 
-// request is one analysis request on the work stream.
+// request is one analysis request on the work stream: request Index of
+// batch Batch (from 1) of the run's spread Evaluator number Evaluator
+// (from 1, in the order their first batches came).
 type request struct {
+	Evaluator   int
 	Batch       uint64
 	Index       int
 	Fingerprint string
@@ -30,13 +33,19 @@ type request struct {
 }
 
 // reply is a worker's answer on the result stream: the result, or why
-// the worker cannot give one.
+// the worker cannot give one, with the design it answers (a worker that
+// replays the run checks it against its own). A reply with Ended set is
+// the coordinator's word that Evaluator is served no more: its spread
+// batches were Batch in all.
 type reply struct {
-	Batch   uint64
-	Index   int
-	Worker  string
-	Result  mdo.AnalysisResult
-	Refused string
+	Evaluator int
+	Batch     uint64
+	Index     int
+	Worker    string
+	Design    []float64
+	Result    mdo.AnalysisResult
+	Refused   string
+	Ended     bool
 }
 
 // notice is a worker's word to the coordinator (JSON).
@@ -45,10 +54,10 @@ type notice struct {
 	Text   string `json:"text"`
 }
 
-// msgID is the message id of request (batch, index) of a run and of its
-// result.
-func msgID(run string, batch uint64, index int) string {
-	return fmt.Sprintf("%s.%d.%d", run, batch, index)
+// msgID is the message id of request (batch, index) of a run's spread
+// Evaluator number ev and of its result.
+func msgID(run string, ev int, batch uint64, index int) string {
+	return fmt.Sprintf("%s.%d.%d.%d", run, ev, batch, index)
 }
 
 // encode writes v with gob (float64s keep their bits, NaN and ±Inf

@@ -168,22 +168,49 @@ func (w *worker) serveRun(ctx context.Context, info runInfo) {
 		return
 	}
 	w.logf("worker %s: run %s of %s: rebuilding the study from the script (SHA-256 %s)", w.cfg.Name, run, info.Coordinator, info.ScriptHash)
-	sv := &studyServer{ready: make(chan *mdo.Evaluator, 1)}
+	sv := newStudyServer()
+	// the run's results, from its first: the replay answers its batches
+	// with them
+	res, err := w.conn.js.OrderedConsumer(runCtx, resultStream, jetstream.OrderedConsumerConfig{
+		FilterSubjects: []string{resultPrefix + run}, DeliverPolicy: jetstream.DeliverAllPolicy,
+	})
+	var results jetstream.ConsumeContext
+	if err == nil {
+		results, err = res.Consume(func(m jetstream.Msg) {
+			var r reply
+			if decode(m.Data(), &r) == nil {
+				sv.take(r)
+			}
+		})
+	}
+	if err != nil {
+		w.tell(run, "refused: reading the run's results: %v", err)
+		return
+	}
+	defer results.Stop()
 	ended := make(chan error, 1)
-	go func() { ended <- replay(runCtx, info, w.cfg.Policy, dir, sv) }()
+	go func() {
+		err := replay(runCtx, info, w.cfg.Policy, dir, sv)
+		if err != nil && runCtx.Err() == nil {
+			cancel(err)
+		}
+		ended <- err
+	}()
 	var ev *mdo.Evaluator
 	select {
 	case ev = <-sv.ready:
+	case <-runCtx.Done():
+		if err := <-ended; err != nil && context.Cause(runCtx) == err {
+			w.tell(run, "refused: the script does not reach its first evaluation on this worker: %v", err)
+		}
+		return
 	case err := <-ended:
-		if runCtx.Err() == nil {
+		if runCtx.Err() == nil || (err != nil && context.Cause(runCtx) == err) {
 			if err == nil {
 				err = errors.New("it evaluates nothing")
 			}
 			w.tell(run, "refused: the script does not reach its first evaluation on this worker: %v", err)
 		}
-		return
-	case <-runCtx.Done():
-		<-ended
 		return
 	}
 	cons, err := w.conn.js.Consumer(runCtx, workStream, consumerName(run))
@@ -193,16 +220,18 @@ func (w *worker) serveRun(ctx context.Context, info runInfo) {
 		<-ended
 		return
 	}
-	a := ev.Analyst()
-	n := min(w.cfg.Parallel, a.Workers())
+	n := min(w.cfg.Parallel, ev.Analyst().Workers())
 	w.logf("worker %s: run %s: serving study %q with %d analyses at a time", w.cfg.Name, run, ev.Study().Name, n)
-	st := &runState{w: w, info: info, a: a, print: ev.Fingerprint(), cancel: cancel}
+	st := &runState{w: w, info: info, sv: sv, cancel: cancel}
 	var wg sync.WaitGroup
 	for range n {
 		wg.Add(1)
 		go func() { defer wg.Done(); st.loop(runCtx, cons) }()
 	}
 	wg.Wait()
+	if err := context.Cause(runCtx); err != nil && !errors.Is(err, errRunOver) && !errors.Is(err, context.Canceled) {
+		w.tell(run, "left the run: %v", err)
+	}
 	cancel(errRunOver)
 	st.acks.Wait()
 	<-ended
@@ -213,8 +242,7 @@ func (w *worker) serveRun(ctx context.Context, info runInfo) {
 type runState struct {
 	w        *worker
 	info     runInfo
-	a        *mdo.Analyst
-	print    string
+	sv       *studyServer
 	cancel   context.CancelCauseFunc
 	acks     sync.WaitGroup // acknowledgements waiting for their result to be stored
 	mu       sync.Mutex
@@ -253,41 +281,59 @@ func (st *runState) handle(ctx context.Context, m jetstream.Msg) {
 		_ = m.Term()
 		return
 	}
-	if req.Fingerprint != st.print {
-		w.tell(run, "refused: the study this worker rebuilt from the script is not the coordinator's (fingerprint %.12s…, the coordinator's %.12s…): does the script read files, the environment or the clock?", st.print, req.Fingerprint)
-		_ = m.Nak()
-		st.cancel(errors.New("the study differs"))
-		return
-	}
 	delivered := uint64(1)
 	if md, err := m.Metadata(); err == nil {
 		delivered = md.NumDelivered
 	}
-	id := fmt.Sprintf("%d.%d", req.Batch, req.Index)
-	rep := reply{Batch: req.Batch, Index: req.Index, Worker: w.cfg.Name}
+	id := fmt.Sprintf("%d.%d.%d", req.Evaluator, req.Batch, req.Index)
+	rep := reply{Evaluator: req.Evaluator, Batch: req.Batch, Index: req.Index, Worker: w.cfg.Name, Design: req.Design}
 	if w.cfg.Verbose {
 		w.logf("worker %s: took request %s (delivery %d)", w.cfg.Name, id, delivered)
+	}
+	// the server hears that the request is at work while the replay
+	// reaches its study and while it is analysed
+	stop := make(chan struct{})
+	go func() {
+		t := time.NewTicker(st.info.AckWait / 3)
+		defer t.Stop()
+		for {
+			select {
+			case <-t.C:
+				_ = m.InProgress()
+			case <-stop:
+				return
+			}
+		}
+	}()
+	t, err := st.sv.analyst(ctx, req.Evaluator)
+	switch {
+	case errors.Is(err, errStale):
+		close(stop)
+		_ = m.Term()
+		return
+	case err != nil:
+		close(stop)
+		_ = m.Nak()
+		if errors.Is(err, errDiverged) {
+			st.cancel(err)
+		}
+		return
+	case req.Fingerprint != t.print:
+		close(stop)
+		st.sv.done(t)
+		w.tell(run, "refused: the study this worker rebuilt from the script is not the coordinator's (fingerprint %.12s…, the coordinator's %.12s…): does the script read files, the environment or the clock?", t.print, req.Fingerprint)
+		_ = m.Nak()
+		st.cancel(errors.New("the study differs"))
+		return
 	}
 	if delivered > maxDeliveries {
 		rep.Refused = fmt.Sprintf("it was handed out %d times and no worker answered it: each one died or stalled on it", delivered-1)
 	} else {
-		stop := make(chan struct{})
-		go func() {
-			t := time.NewTicker(st.info.AckWait / 3)
-			defer t.Stop()
-			for {
-				select {
-				case <-t.C:
-					_ = m.InProgress()
-				case <-stop:
-					return
-				}
-			}
-		}()
-		r, err := st.a.Analyse(ctx, req.Design)
-		close(stop)
+		r, err := t.a.Analyse(ctx, req.Design)
 		switch {
 		case err != nil && ctx.Err() != nil:
+			close(stop)
+			st.sv.done(t)
 			_ = m.Nak()
 			return
 		case err != nil:
@@ -297,10 +343,12 @@ func (st *runState) handle(ctx context.Context, m jetstream.Msg) {
 			rep.Result = r
 		}
 	}
+	close(stop)
+	st.sv.done(t)
 	data, err := encode(rep)
 	var stored jetstream.PubAckFuture
 	if err == nil {
-		stored, err = w.conn.js.PublishAsync(resultPrefix+run, data, jetstream.WithMsgID(msgID(run, req.Batch, req.Index)))
+		stored, err = w.conn.js.PublishAsync(resultPrefix+run, data, jetstream.WithMsgID(msgID(run, req.Evaluator, req.Batch, req.Index)))
 	}
 	if err != nil {
 		w.logf("worker %s: run %s: publishing the result of request %s: %v", w.cfg.Name, run, id, err)

@@ -1,0 +1,103 @@
+package distribute
+
+import (
+	"context"
+	"fmt"
+	"regexp"
+	"strconv"
+	"testing"
+	"time"
+
+	"couplet/mdo"
+	"couplet/repl"
+)
+
+// turnsScript runs three optimisations of the Sellar problem (Sellar,
+// Batill & Renaud 1996) one after another: a GA, then a loop of two
+// Nelder-Mead searches that start from the GA's best point, so that the
+// later ones depend on the earlier results. Each prints its best point's
+// bits and its analyses.
+const turnsScript = `//~ couplet-study 1 (couplet 0.1.0)
+
+//~ cell 1
+import (
+	"context"
+	"fmt"
+	"math"
+
+	"couplet/mdo"
+	"couplet/optimizers"
+	"couplet/repl/cell"
+)
+
+study, err := mdo.SellarStudy(mdo.MDF)
+if err != nil {
+	panic(err)
+}
+study.Seed = cell.Seed(5)
+study.Workers = 2
+cell.Attach(study)
+res, err := optimizers.GA{Evolution: optimizers.Evolution{Population: 12, Generations: 4}}.Minimize(cell.Context(), study)
+if err != nil {
+	panic(err)
+}
+fmt.Printf("GA: f %x, %d analyses\n", math.Float64bits(res.Best.F[0]), res.Analyses)
+
+//~ cell 2
+var last *mdo.Result
+for _, size := range []float64{0.2, 0.05} {
+	s, err := mdo.SellarStudy(mdo.MDF)
+	if err != nil {
+		panic(err)
+	}
+	s.Workers = 2
+	s.Fixed = res.DesignValues()
+	r, err := optimizers.NelderMead{MaxEvaluations: 30, SimplexSize: size}.Minimize(cell.Context(), s)
+	if err != nil {
+		panic(err)
+	}
+	fmt.Printf("Nelder-Mead %g: f %x, %d analyses\n", size, math.Float64bits(r.Best.F[0]), r.Analyses)
+	last = r
+}
+cell.Publish(last)
+`
+
+// TestEveryOptimisationIsSpread runs a script of three optimisations in
+// turn here and over two workers: every one of them is spread (the
+// coordinator takes a result for every analysis of the three) and the
+// outcome is the same, bit for bit.
+func TestEveryOptimisationIsSpread(t *testing.T) {
+	ctx, cancel := context.WithTimeout(context.Background(), 2*time.Minute)
+	defer cancel()
+	here, err := repl.Run(ctx, repl.RunOptions{File: writeStudy(t, turnsScript), OutDir: t.TempDir()})
+	if err != nil {
+		t.Fatal(err)
+	}
+	h := startHub(t)
+	log := newLog()
+	co := coordinate(t, h, turnsScript, 5*time.Second, log)
+	for i := range 2 {
+		startWorker(t, h, WorkerConfig{Name: fmt.Sprintf("w%d", i+1), Build: "test-build", Parallel: 2})
+	}
+	spread, err := repl.Run(mdo.WithDispatcher(ctx, co), repl.RunOptions{File: writeStudy(t, turnsScript), OutDir: t.TempDir()})
+	if err != nil {
+		t.Fatal(err)
+	}
+	analyses := 0
+	for i, c := range here.Cells {
+		if spread.Cells[i].Output != c.Output {
+			t.Errorf("cell %d printed here:\n%s\nspread:\n%s", i+1, c.Output, spread.Cells[i].Output)
+		}
+		for _, m := range regexp.MustCompile(`(\d+) analyses`).FindAllStringSubmatch(c.Output, -1) {
+			n, _ := strconv.Atoi(m[1])
+			analyses += n
+		}
+	}
+	sameBest(t, here.Result, spread.Result)
+	if taken, _ := co.Counts(); taken != analyses || analyses == 0 {
+		t.Errorf("the coordinator took %d results from the workers; the three optimisations analysed %d points", taken, analyses)
+	}
+	if t.Failed() {
+		t.Logf("the coordinator's log:\n%s", log)
+	}
+}
