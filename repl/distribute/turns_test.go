@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"regexp"
 	"strconv"
+	"strings"
 	"testing"
 	"time"
 
@@ -99,5 +100,65 @@ func TestEveryOptimisationIsSpread(t *testing.T) {
 	}
 	if t.Failed() {
 		t.Logf("the coordinator's log:\n%s", log)
+	}
+}
+
+// TestTurnsOfEvaluators checks the coordinator's rule for whose batch is
+// spread: an Evaluator that comes while a batch of the served one is out
+// runs here, said once; one that comes after becomes the served one; the
+// one before it, served no more, runs here, said once.
+func TestTurnsOfEvaluators(t *testing.T) {
+	ctx, cancel := context.WithTimeout(context.Background(), time.Minute)
+	defer cancel()
+	h := startHub(t)
+	log := newLog()
+	co := coordinate(t, h, turnsScript, time.Second, log)
+	evaluator := func(name string) *mdo.Evaluator {
+		s, err := mdo.SellarStudy(mdo.MDF)
+		if err != nil {
+			t.Fatal(err)
+		}
+		s.Name = name
+		e, err := s.NewEvaluator()
+		if err != nil {
+			t.Fatal(err)
+		}
+		return e
+	}
+	first, second, third := evaluator("first"), evaluator("second"), evaluator("third")
+	for _, step := range []struct {
+		e       *mdo.Evaluator
+		release bool // every batch out comes back before the next step
+		ev      int
+		here    bool
+		says    string
+	}{
+		{e: first, ev: 1},
+		{e: second, here: true, says: `the analyses of study "second" run on this process: another optimisation (study "first") is being spread at the same time`},
+		{e: second, here: true},
+		{e: first, release: true, ev: 1},
+		{e: second, here: true}, // it ran here: it goes on here, as the workers' replays do
+		{e: third, release: true, ev: 2},
+		{e: first, here: true, says: `the analyses of study "first" run on this process: its turn ended when the analyses of study "third" began to be spread`},
+		{e: first, here: true},
+		{e: third, ev: 2},
+	} {
+		before := log.String()
+		ev, _, _, here, err := co.serve(ctx, step.e)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if here != step.here || (!here && ev != step.ev) {
+			t.Errorf("batch of study %q: here %v, turn %d; want here %v, turn %d", step.e.Study().Name, here, ev, step.here, step.ev)
+		}
+		said := strings.TrimPrefix(log.String(), before)
+		if (step.says == "") != (said == "") || !strings.Contains(said, step.says) {
+			t.Errorf("batch of study %q: the log says %q, want %q", step.e.Study().Name, said, step.says)
+		}
+		if step.release {
+			co.mu.Lock()
+			co.inflight = 0
+			co.mu.Unlock()
+		}
 	}
 }
