@@ -12,8 +12,9 @@ type CellError struct {
 	Kind string
 	Msg  string
 	// AtCell and AtLine place a panic that happened in the code of an
-	// earlier cell (a function it declared, which this cell called):
-	// the cell and line of the statement that panicked. Line is then
+	// earlier cell (a function it declared, which this cell called), or
+	// a stop that held such a function in a loop: the cell and line of
+	// the statement that panicked or was running. Line is then
 	// the line of this cell that was running. Both are 0 otherwise.
 	AtCell, AtLine int
 	// Err is the interpreter's own error, if any.
@@ -29,6 +30,9 @@ func (e *CellError) Error() string {
 		}
 		return fmt.Sprintf("cell %d, line %d: panic: %s", e.Cell, e.Line, e.Msg)
 	case "stopped":
+		if e.AtCell > 0 {
+			return fmt.Sprintf("cell %d, line %d: stopped: %s (in the code of cell %d, line %d)", e.Cell, e.Line, e.Msg, e.AtCell, e.AtLine)
+		}
 		return fmt.Sprintf("cell %d, line %d: stopped: %s", e.Cell, e.Line, e.Msg)
 	}
 	return fmt.Sprintf("cell %d, line %d: %s", e.Cell, e.Line, e.Msg)

@@ -216,20 +216,34 @@ const placeVar = "couplet_at"
 // calls return.
 func placing(root ast.Node, info *checked, fset *token.FileSet, cell int, off func(token.Pos) int) []edit {
 	var out []edit
-	instrument := func(body *ast.BlockStmt) {
-		if body == nil || !mayPanic(body, info) {
+	instrument := func(body *ast.BlockStmt, literal bool) {
+		if body == nil {
 			return
 		}
-		out = append(out, edit{off: off(body.Lbrace) + 1, text: " " + placeVar + " := 0; defer func() { if couplet_p := recover(); couplet_p != nil { " +
-			keepName + ".Repanic(couplet_p, " + strconv.Itoa(cell) + ", " + placeVar + ") } }(); "})
+		loops := literal && hasLoop(body)
+		if !loops && !mayPanic(body, info) {
+			return
+		}
+		// a function literal with a loop (an objective, say: what the
+		// framework calls) also tells the session where it was held,
+		// for a stopped cell (see Session.left); a declared function
+		// does not pay for it (a deferred call of the host's)
+		text := " " + placeVar + " := 0; "
+		if loops {
+			text += "defer " + keepName + ".Left(" + strconv.Itoa(cell) + ", &" + placeVar + "); "
+		}
+		if mayPanic(body, info) {
+			text += "defer func() { if couplet_p := recover(); couplet_p != nil { " + keepName + ".Repanic(couplet_p, " + strconv.Itoa(cell) + ", " + placeVar + ") } }(); "
+		}
+		out = append(out, edit{off: off(body.Lbrace) + 1, text: text})
 		out = append(out, lineRecords(body, fset, off, placeVar)...)
 	}
 	ast.Inspect(root, func(n ast.Node) bool {
 		switch n := n.(type) {
 		case *ast.FuncDecl:
-			instrument(n.Body)
+			instrument(n.Body, false)
 		case *ast.FuncLit:
-			instrument(n.Body)
+			instrument(n.Body, true)
 		case *ast.CallExpr:
 			if id, ok := ast.Unparen(n.Fun).(*ast.Ident); ok && len(n.Args) == 0 && info.Uses[id] == types.Universe.Lookup("recover") {
 				out = append(out, edit{off: off(n.Pos()), text: keepName + ".Unplaced("}, edit{off: off(n.End()), text: ")"})
@@ -238,6 +252,55 @@ func placing(root ast.Node, info *checked, fset *token.FileSet, cell int, off fu
 		return true
 	})
 	return out
+}
+
+// hasLoop reports whether a function body holds a loop of its own (not
+// one of a function literal inside it): where a stopped cell may have
+// been held.
+func hasLoop(body *ast.BlockStmt) bool {
+	found := false
+	ast.Inspect(body, func(n ast.Node) bool {
+		switch n.(type) {
+		case *ast.FuncLit:
+			return false
+		case *ast.ForStmt, *ast.RangeStmt:
+			found = true
+		}
+		return !found
+	})
+	return found
+}
+
+// A cell that is stopped while a function literal of the cells runs a
+// loop that never ends (an objective the optimiser calls, say) would be
+// placed on the line of the cell's statement that called into the
+// framework: the interpreter ends the function without a panic when it
+// stops the cell, and without its interpreted deferred calls, but it
+// makes the deferred calls of the host's functions. A literal with a
+// loop therefore defers Session.left with the variable that holds its
+// line, and a call that returns once the interpreter was stopped gives
+// the place where it was held.
+
+// left notes where a function literal of cell returned, from the line
+// variable its statements write, when the running cell's interpreter
+// has been stopped; the first such place (the innermost call) is kept.
+func (s *Session) left(cell int, line *int) {
+	s.panicMu.Lock()
+	defer s.panicMu.Unlock()
+	if s.hard == nil || s.hard.Err() == nil || s.heldCell > 0 || *line < 1 {
+		return
+	}
+	s.heldCell, s.heldLine = cell, *line
+}
+
+// heldAt returns the place left kept (0, 0 if none) and forgets it. Call
+// it once the body of a stopped cell has unwound.
+func (s *Session) heldAt() (cell, line int) {
+	s.panicMu.Lock()
+	defer s.panicMu.Unlock()
+	cell, line = s.heldCell, s.heldLine
+	s.heldCell, s.heldLine = 0, 0
+	return cell, line
 }
 
 // lineRecords are the edits that make each statement of a function body

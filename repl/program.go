@@ -130,8 +130,10 @@ func (s *Session) runProgram(ctx, hard context.Context, c *Cell, p *cellProgram)
 			case <-s.exited:
 				// the body has unwound: the line it was on when it
 				// was stopped (a loop that never ends, say) is read
-				// after its last write
-				line = s.runningLine(c, p)
+				// after its last write, unless a function of the
+				// cells was held in a loop
+				t.Stop()
+				return true, s.stoppedIn(ctx, c, s.runningLine(c, p))
 			case <-t.C:
 				// the body may still be running: its line is not read
 			}

@@ -148,6 +148,11 @@ type Session struct {
 	// (guarded by panicMu; see notePanic)
 	panicMu sync.Mutex
 	panics  map[*cellPanic]int
+	// hard is the context the running cell's interpreter runs under,
+	// and heldCell, heldLine where a function literal of the cells was
+	// when it stopped (see left); guarded by panicMu
+	hard               context.Context
+	heldCell, heldLine int
 }
 
 // NewSession starts a session with a fresh interpreter.
@@ -239,7 +244,7 @@ func (s *Session) reset() error {
 		return fmt.Errorf("repl: loading the cell package: %w", err)
 	}
 	keep := interp.Exports{keepPath + "/keep": {"Value": reflect.ValueOf(s.keepValue), "Show": reflect.ValueOf(s.showValues), "Exited": reflect.ValueOf(s.bodyExited),
-		"Repanic": reflect.ValueOf(s.repanic), "Unplaced": reflect.ValueOf(s.unplace), "Text": reflect.ValueOf(showText), "Fault": reflect.ValueOf(showError), "ErrorTree": reflect.ValueOf(errorTree)}}
+		"Repanic": reflect.ValueOf(s.repanic), "Left": reflect.ValueOf(s.left), "Unplaced": reflect.ValueOf(s.unplace), "Text": reflect.ValueOf(showText), "Fault": reflect.ValueOf(showError), "ErrorTree": reflect.ValueOf(errorTree)}}
 	if err := it.Use(keep); err != nil {
 		return fmt.Errorf("repl: loading the command package: %w", err)
 	}
@@ -546,7 +551,13 @@ func (s *Session) guard(ctx context.Context) (soft, hard context.Context, releas
 	s.mu.Lock()
 	s.running, s.cellCtx, s.cancelSoft, s.cancelHard, s.interrupts = true, soft, cancelSoft, cancelHard, 0
 	s.mu.Unlock()
+	s.panicMu.Lock()
+	s.hard, s.heldCell, s.heldLine = hard, 0, 0
+	s.panicMu.Unlock()
 	return soft, hard, func() {
+		s.panicMu.Lock()
+		s.hard = nil
+		s.panicMu.Unlock()
 		stopWatch()
 		tmu.Lock()
 		if timer != nil {
@@ -564,6 +575,22 @@ func (s *Session) guard(ctx context.Context) (soft, hard context.Context, releas
 // stopped is the error of a cell stopped by the interpreter.
 func (s *Session) stopped(ctx context.Context, c *Cell, line int) error {
 	return &CellError{Cell: c.Number, Line: line, Kind: "stopped", Msg: s.reason(ctx)}
+}
+
+// stoppedIn is stopped for a cell whose body has unwound: placed where a
+// function of the cells with a loop was when the interpreter ended it
+// (see Session.left), in this cell as its line, in an earlier cell's
+// code beside the line of this cell that was running.
+func (s *Session) stoppedIn(ctx context.Context, c *Cell, line int) error {
+	e := &CellError{Cell: c.Number, Line: line, Kind: "stopped", Msg: s.reason(ctx)}
+	switch cell, at := s.heldAt(); {
+	case at == 0:
+	case cell == c.Number:
+		e.Line = at
+	default:
+		e.AtCell, e.AtLine = cell, at
+	}
+	return e
 }
 
 // reason tells why the running cell was cancelled.
