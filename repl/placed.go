@@ -6,6 +6,7 @@ import (
 	"go/token"
 	"go/types"
 	"reflect"
+	"runtime"
 	"sort"
 	"strconv"
 	"strings"
@@ -100,7 +101,7 @@ func placePanic(v any, cell, line int) any {
 func (s *Session) repanic(v any, cell, line int) {
 	p := placePanic(v, cell, line)
 	if _, was := asCellPanic(v); !was {
-		if cp, ok := p.(*cellPanic); ok {
+		if cp, ok := p.(*cellPanic); ok && !inStudyCheck() {
 			s.notePanic(cp)
 		}
 		if s.opts.OnPanicLine != nil {
@@ -108,6 +109,28 @@ func (s *Session) repanic(v any, cell, line int) {
 		}
 	}
 	panic(p)
+}
+
+// studyCheck is the function of package mdo through which Study.Check
+// (and so cell.Attach, and every optimiser's start) calls each objective
+// and constraint function once on the defaults, to refuse a misspelt
+// name before the run: a panic there is none of the run's evaluations.
+const studyCheck = "couplet/mdo.readsKnownNames"
+
+// inStudyCheck reports whether the goroutine is in Study.Check's call of
+// a function of the cells (a look at its stack, on a panic only).
+func inStudyCheck() bool {
+	pcs := make([]uintptr, 256)
+	frames := runtime.CallersFrames(pcs[:runtime.Callers(2, pcs)])
+	for {
+		f, more := frames.Next()
+		if f.Function == studyCheck {
+			return true
+		}
+		if !more {
+			return false
+		}
+	}
 }
 
 // A panic of the cells' code that the framework recovers (an objective,

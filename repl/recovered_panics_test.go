@@ -3,6 +3,8 @@ package repl
 import (
 	"context"
 	"fmt"
+	"regexp"
+	"strconv"
 	"strings"
 	"testing"
 )
@@ -56,6 +58,8 @@ func TestSessionNamesPanicsTheFrameworkRecovered(t *testing.T) {
 			[]string{"cell 2 ran to its end, but code of the cells panicked ", " times in calls the framework recovered", "× runtime error: index out of range (cell 1, line 24)"}, true},
 		{"objective panics on part of the box", "if v.Get(\"a\") > 0.5 {\n\t\t\tpanic(\"a past the rim\")\n\t\t}\n\t\treturn v.Get(\"f\")", "", run,
 			[]string{"× a past the rim (cell 1, line 25)"}, false},
+		{"objective indexes past its slice, study attached", "return v.Get(\"f\") / (seats[0] + seats[2])", "", "if err := cell.Attach(study); err != nil {\n\tpanic(err)\n}\n" + run,
+			[]string{"× runtime error: index out of range (cell 1, line 24)"}, true},
 		{"discipline panics", "return v.Get(\"f\")", "if in[0] < 2 {\n\t\t\tpanic(\"the spar cracks\")\n\t\t}", run,
 			[]string{"× the spar cracks (cell 1, line 12)"}, true},
 		{"the script recovers its own panic", "return v.Get(\"f\")", "",
@@ -72,7 +76,7 @@ func TestSessionNamesPanicsTheFrameworkRecovered(t *testing.T) {
 			}
 			errb.Reset()
 			out.Reset()
-			c := s.Exec(context.Background(), "import (\n\t\"context\"\n\t\"fmt\"\n)\n"+tc.run)
+			c := s.Exec(context.Background(), "import (\n\t\"context\"\n\t\"fmt\"\n\n\t\"couplet/repl/cell\"\n)\n_ = cell.Seed\n"+tc.run)
 			if c.Err != nil {
 				t.Fatalf("cell 2: %v", c.Err)
 			}
@@ -83,9 +87,18 @@ func TestSessionNamesPanicsTheFrameworkRecovered(t *testing.T) {
 			if all := failed == evals; all != tc.allFailed || (tc.notes == nil && failed > 0) {
 				t.Errorf("%d of %d evaluations failed", failed, evals)
 			}
-			// every failed evaluation is one of the panics the note counts
-			if tc.notes != nil && !strings.Contains(errb.String(), "panicked ") {
-				t.Errorf("no count of panics: %s", errb)
+			// every failed evaluation is one of the panics the note
+			// counts, and the note counts nothing else: not the call
+			// Study.Check makes of each function (the optimiser's
+			// start, cell.Attach), which counted one more before
+			if tc.notes != nil {
+				m := regexp.MustCompile(`panicked (once|\d+ times) in`).FindStringSubmatch(errb.String())
+				if m == nil {
+					t.Fatalf("no count of panics: %s", errb)
+				}
+				if n, _ := strconv.Atoi(strings.TrimSuffix(m[1], " times")); (m[1] == "once" && failed != 1) || (m[1] != "once" && n != failed) {
+					t.Errorf("the note counts %s panicked calls for %d failed evaluations: %s", m[1], failed, errb)
+				}
 			}
 			for _, w := range tc.notes {
 				if !strings.Contains(errb.String(), w) {
