@@ -56,7 +56,9 @@ type Evaluator struct {
 	recErr     error
 	// stopDetail is the optimiser's words on its stop (SetStopDetail)
 	stopDetail string
-	progress   Progress
+	// sensitivity is the best point's sensitivity (SetSensitivity)
+	sensitivity *Sensitivity
+	progress    Progress
 }
 
 // designSlot maps one unit-box coordinate to a system variable.

@@ -107,6 +107,12 @@ func (e *Evaluator) Iteration(it int) {
 // before Finish.
 func (e *Evaluator) SetStopDetail(detail string) { e.stopDetail = detail }
 
+// SetSensitivity gives the post-optimality sensitivity of the best point
+// that the Result carries (Result.Sensitivity); an optimiser that
+// computes one calls it before Finish, so that the recorder's End
+// records it with the rest of the outcome.
+func (e *Evaluator) SetSensitivity(s *Sensitivity) { e.sensitivity = s }
+
 // Finish builds the Result and closes the recorder. stop says why the
 // optimiser stopped.
 func (e *Evaluator) Finish(stop StopReason) (*Result, error) {
@@ -115,7 +121,7 @@ func (e *Evaluator) Finish(stop StopReason) (*Result, error) {
 		Design: e.DesignSpecs(), Objectives: append([]Objective(nil), e.study.Objectives...),
 		Constraints: e.Constraints(), Outputs: e.OutputVars(),
 		Best: e.best, Front: e.Front(), History: append([]HistoryPoint(nil), e.history...),
-		EvalCounters: e.cnt, Notes: append([]string(nil), e.study.Notes...), Stop: stop, StopDetail: e.stopDetail, Started: e.started, Elapsed: time.Since(e.started),
+		EvalCounters: e.cnt, Notes: append([]string(nil), e.study.Notes...), Stop: stop, StopDetail: e.stopDetail, Sensitivity: e.sensitivity, Started: e.started, Elapsed: time.Since(e.started),
 		Surrogates: e.study.surrogateUses(),
 	}
 	if e.study.Recorder != nil && e.recErr == nil {

@@ -275,10 +275,9 @@ func (o Sextant) Explore(ctx context.Context, s *mdo.Study) (*mdo.Result, *Start
 			bestF, rep.Sensitivity = f, o.Sensitivity
 		}
 	}
+	// handed over before Finish: the recorder's End records it
+	r.ev.SetSensitivity(rep.Sensitivity)
 	res, err := r.finish(stop, nil)
-	if res != nil {
-		res.Sensitivity = rep.Sensitivity
-	}
 	return res, rep, err
 }
 

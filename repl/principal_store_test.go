@@ -221,3 +221,46 @@ func TestPrincipalStoreAgreesWithSummary(t *testing.T) {
 		wantPrincipalAgrees(t, dir)
 	})
 }
+
+// A session result whose kept evaluations were let go at its End
+// (KeepWithin) has its store closed before the folder is written: the
+// best point's sensitivity, which Sextant computes after its last
+// evaluation, must reach results.db all the same, as it reaches
+// summary.json. Before, SetOutcome could not write it to the closed
+// store, and results.db lacked it.
+func TestLetGoStoreKeepsTheSensitivity(t *testing.T) {
+	dir := filepath.Join(t.TempDir(), "out")
+	outs := NewRunOutputs(dir)
+	outs.KeepWithin = 1 // every run's evaluations are let go at its End
+	s, out, errb := newTest(t, Options{OutDir: dir, Outputs: outs})
+	defer s.Close()
+	serve(t, s, strings.Replace(keptRun, "optimizers.NelderMead{MaxEvaluations: 120}", "optimizers.Sextant{}", 1)+"@report res\n")
+	if errb.Len() > 0 {
+		t.Fatalf("stderr: %s", errb)
+	}
+	if !strings.Contains(out.String(), "read back from") {
+		t.Fatalf("the report was not read back from a let-go store: %s", out)
+	}
+	folder := filepath.Join(dir, "sellar")
+	sum, err := store.ReadSummary(filepath.Join(folder, report.SummaryFile))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if sum.Sensitivity == nil {
+		t.Fatal("summary.json has no sensitivity to compare")
+	}
+	st, err := store.Open(filepath.Join(folder, StoreFile))
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer st.Close()
+	r, err := st.Result()
+	if err != nil {
+		t.Fatal(err)
+	}
+	a, _ := json.MarshalIndent(sum.Sensitivity, "", " ")
+	b, _ := json.MarshalIndent(store.NewSummary(r, store.SummaryOptions{}).Sensitivity, "", " ")
+	if !bytes.Equal(a, b) {
+		t.Errorf("results.db's sensitivity:\n%s\nsummary.json's:\n%s", b, a)
+	}
+}
