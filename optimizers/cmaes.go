@@ -77,7 +77,7 @@ func (o CMAES) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error) 
 	if err := o.validate(); err != nil {
 		return nil, err
 	}
-	r, err := beginLocal(ctx, s, o.Name(), o)
+	r, err := beginLocal(ctx, s, o.Name(), o, nil)
 	if err != nil {
 		return nil, err
 	}

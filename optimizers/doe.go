@@ -76,6 +76,10 @@ func (o LatinHypercube) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result
 	})
 }
 
+// maxHaltonDim is the most variables a Halton sequence handles (gonum's
+// samplemv.Halton has the first 1000 primes).
+const maxHaltonDim = 1000
+
 // Halton is a scrambled Halton sequence (gonum's stat/samplemv.Halton,
 // Owen's randomised van der Corput scrambling seeded from the study's
 // seed): a low-discrepancy design. Zero values take the defaults.
@@ -91,10 +95,13 @@ func (Halton) Name() string { return "Halton" }
 
 // Minimize implements Optimizer.
 func (o Halton) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error) {
-	return runDesign(ctx, s, o.Name(), o, "Halton", o.Samples, o.BatchSize, func(n, d int, seed uint64) ([][]float64, error) {
-		if d > 1000 {
-			return nil, fmt.Errorf("optimizers: Halton handles at most 1000 variables, the study has %d", d)
+	plan := func(specs []mdo.DesignSpec) (int, error) {
+		if len(specs) > maxHaltonDim {
+			return 0, fmt.Errorf("optimizers: Halton handles at most %d variables, the study has %d; use LatinHypercube or RandomDesign", maxHaltonDim, len(specs))
 		}
+		return or(o.Samples, 100), nil
+	}
+	return runDesignSpecs(ctx, s, o.Name(), o, "Halton", o.Samples, true, o.BatchSize, plan, func(n, d int, seed uint64) ([][]float64, error) {
 		src := rand.NewPCG(seed, mix(seed, 7))
 		batch := mat.NewDense(n, d, nil)
 		samplemv.Halton{Kind: samplemv.Owen, Q: distmv.NewUnitUniform(d, nil), Src: src}.Sample(batch)

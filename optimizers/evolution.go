@@ -131,11 +131,16 @@ func newEngine(ctx context.Context, s *mdo.Study, o evolutionary, stream uint64,
 		return nil, err
 	}
 	evo, eq := o.blocks()
-	r, err := begin(ctx, s, o.Name(), o)
+	r, err := beginChecked(ctx, s, o.Name(), o, func(ev *mdo.Evaluator) error {
+		if err := refuseMultiObjective(o.Name(), ev); err != nil {
+			return err
+		}
+		if c, ok := o.(interface{ checkStudy(*mdo.Evaluator) error }); ok {
+			return c.checkStudy(ev)
+		}
+		return nil
+	})
 	if err != nil {
-		return nil, err
-	}
-	if err := r.refuseMultiObjective(); err != nil {
 		return nil, err
 	}
 	r.maxEvals = evo.MaxEvaluations

@@ -67,7 +67,7 @@ func (o ExpectedImprovement) Minimize(ctx context.Context, s *mdo.Study) (*mdo.R
 	if err := o.validate(); err != nil {
 		return nil, err
 	}
-	r, err := beginLocal(ctx, s, o.Name(), o)
+	r, err := beginLocal(ctx, s, o.Name(), o, nil)
 	if err != nil {
 		return nil, err
 	}

@@ -97,6 +97,25 @@ func defaultPopulation(dim int) int { return min(max(10*dim, 20), 100) }
 // blocks implements evolutionary.
 func (o GA) blocks() (Evolution, EqualityHandling) { return o.Evolution, o.EqualityHandling }
 
+// gaSizes are the GA's default population, generations and mutation
+// rate for dim variables, broad without equality constraints.
+func gaSizes(dim int, broad bool) (population, generations int, mutation float64) {
+	if broad {
+		return min(max(40*dim, 80), 400), 100, min(1, 2/float64(dim))
+	}
+	return min(max(20*dim, 40), 200), 200, 1 / float64(dim)
+}
+
+// checkStudy checks, before the run begins, the Tournament that the
+// default population of the study bounds.
+func (o GA) checkStudy(ev *mdo.Evaluator) error {
+	n, _, _ := gaSizes(ev.Dim(), !hasEquality(ev.Constraints()))
+	if n = or(o.Population, n); o.Tournament > n-1 {
+		return settingError("GA", "Tournament", o.Tournament, fmt.Sprintf("must be less than Population (%d, the default for this study)", n))
+	}
+	return nil
+}
+
 // Minimize implements Optimizer.
 func (o GA) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error) {
 	e, err := newEngine(ctx, s, o, 1, true)
@@ -105,16 +124,8 @@ func (o GA) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error) {
 	}
 	r, dim := e.r, e.dim
 	broad := !hasEquality(r.ev.Constraints())
-	n, gens, pm := min(max(20*dim, 40), 200), 200, 1/float64(dim)
-	if broad {
-		n, gens, pm = min(max(40*dim, 80), 400), 100, min(1, 2/float64(dim))
-	}
+	n, gens, pm := gaSizes(dim, broad)
 	n = or(o.Population, n)
-	if o.Tournament > n-1 {
-		// the default population is known only now
-		res, _ := r.finish(mdo.NotStopped, nil)
-		return res, settingError("GA", "Tournament", o.Tournament, fmt.Sprintf("must be less than Population (%d, the default for this study)", n))
-	}
 	k := or(o.Tournament, 2)
 	if k > n-1 {
 		k = n - 1

@@ -60,7 +60,7 @@ func (o NelderMead) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, er
 	if err := o.validate(); err != nil {
 		return nil, err
 	}
-	r, err := beginLocal(ctx, s, o.Name(), o)
+	r, err := beginLocal(ctx, s, o.Name(), o, nil)
 	if err != nil {
 		return nil, err
 	}

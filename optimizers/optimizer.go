@@ -96,29 +96,25 @@ func beginChecked(ctx context.Context, s *mdo.Study, name string, settings any, 
 }
 
 // beginLocal is begin for the single-objective, continuous-only methods
-// (Nelder–Mead, CMA-ES): it refuses integer variables and several
-// objectives.
-func beginLocal(ctx context.Context, s *mdo.Study, name string, settings any) (*run, error) {
-	r, err := begin(ctx, s, name, settings)
-	if err != nil {
-		return nil, err
-	}
-	if err := r.refuseIntegers(); err != nil {
-		return nil, err
-	}
-	if err := r.refuseMultiObjective(); err != nil {
-		return nil, err
-	}
-	return r, nil
+// (Nelder–Mead, CMA-ES, Sextant, expected improvement): it refuses
+// integer variables and several objectives, and what check refuses
+// (nil: nothing more), before the run begins.
+func beginLocal(ctx context.Context, s *mdo.Study, name string, settings any, check func(*mdo.Evaluator) error) (*run, error) {
+	return beginChecked(ctx, s, name, settings, func(ev *mdo.Evaluator) error {
+		if err := firstError(refuseIntegers(name, ev), refuseMultiObjective(name, ev)); err != nil || check == nil {
+			return err
+		}
+		return check(ev)
+	})
 }
 
 // refuseIntegers returns an error when the study has an integer design
 // variable (for methods that only work on continuous variables).
-func (r *run) refuseIntegers() error {
-	for _, d := range r.ev.DesignSpecs() {
+func refuseIntegers(name string, ev *mdo.Evaluator) error {
+	for _, d := range ev.DesignSpecs() {
 		if d.Integer {
 			return fmt.Errorf("optimizers: %s works on continuous variables only, but design variable %s is an integer in [%g, %g]; use GA, DifferentialEvolution, ParticleSwarm, NSGA2 or a design of experiments, or declare it continuous",
-				r.name, d.Name, d.Lower, d.Upper)
+				name, d.Name, d.Lower, d.Upper)
 		}
 	}
 	return nil
@@ -126,10 +122,10 @@ func (r *run) refuseIntegers() error {
 
 // refuseMultiObjective returns an error when the study has more than one
 // objective (for single-objective methods).
-func (r *run) refuseMultiObjective() error {
-	if n := r.ev.NumObjectives(); n > 1 {
+func refuseMultiObjective(name string, ev *mdo.Evaluator) error {
+	if n := ev.NumObjectives(); n > 1 {
 		return fmt.Errorf("optimizers: %s minimises one objective, but study %q has %d (%v); use NSGA2 or a design of experiments, or turn all but one into constraints",
-			r.name, r.ev.Study().Name, n, r.ev.ObjectiveNames())
+			name, ev.Study().Name, n, ev.ObjectiveNames())
 	}
 	return nil
 }

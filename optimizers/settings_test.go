@@ -152,9 +152,14 @@ func TestSettingsValidation(t *testing.T) {
 				if err != nil {
 					t.Fatal(err)
 				}
+				rec := &beginCounter{}
+				s.Recorder = rec
 				_, err = bad.Minimize(context.Background(), s)
 				if err == nil {
 					t.Fatalf("%#v: no error", bad)
+				}
+				if rec.begun != 0 {
+					t.Errorf("the run was begun (its record started) before the refusal %q", err)
 				}
 				shown := b.shown
 				if shown == "" {
@@ -382,6 +387,71 @@ func TestRecorderFailure(t *testing.T) {
 		}
 		if res == nil {
 			t.Errorf("%s: no result with the recorder error", o.Name())
+		}
+	}
+}
+
+// A method refuses a study it cannot run before anything is recorded:
+// the recorder is never begun, so no empty run record is left (before,
+// each of these refusals came after the run had begun). The table has a
+// row for every method.
+func TestRefusedBeforeTheRecord(t *testing.T) {
+	wide := func() (*mdo.Study, error) { return Rosenbrock(maxHaltonDim + 1) }
+	wideFront := func() (*mdo.Study, error) { return ZDT1(maxHaltonDim + 1) }
+	front := func() (*mdo.Study, error) { return ZDT1(3) }
+	sellar := func() (*mdo.Study, error) { return SellarMDF() }
+	tests := []struct {
+		o     Optimizer
+		study func() (*mdo.Study, error)
+		want  []string
+	}{
+		{NelderMead{}, integerStudy, []string{"Nelder-Mead works on continuous variables only", "n_engines"}},
+		{NelderMead{}, front, []string{"minimises one objective", "has 2", "NSGA2"}},
+		{CMAES{}, integerStudy, []string{"continuous variables only", "n_engines"}},
+		{CMAES{}, front, []string{"minimises one objective"}},
+		{ExpectedImprovement{}, integerStudy, []string{"continuous variables only", "n_engines"}},
+		{ExpectedImprovement{}, front, []string{"minimises one objective"}},
+		{Sextant{}, integerStudy, []string{"continuous variables only", "n_engines"}},
+		{Sextant{}, front, []string{"minimises one objective"}},
+		{Sextant{Parameters: []string{"z1"}}, sellar, []string{"Sextant.Parameters = \"z1\"", "must name fixed parameters"}},
+		{Sextant{}, wide, []string{"Sextant.Restarts = 0", "Halton sequence", "at most 1000 variables", "the study has 1001", "Restarts = -1"}},
+		{Sextant{Restarts: -1, Starts: 3}, wide, []string{"Sextant.Starts = 3", "at most 1000 variables", "the study has 1001"}},
+		{GA{}, front, []string{"GA minimises one objective"}},
+		{DifferentialEvolution{}, front, []string{"minimises one objective"}},
+		{ParticleSwarm{}, front, []string{"minimises one objective"}},
+		{NSGA2{Evolution: Evolution{Population: 1}}, front, []string{"NSGA2.Population = 1"}},
+		{Halton{}, wideFront, []string{"Halton handles at most 1000 variables", "the study has 1001", "LatinHypercube"}},
+		{RandomDesign{Samples: -1}, sellar, []string{"RandomDesign.Samples = -1"}},
+		{LatinHypercube{BatchSize: -1}, sellar, []string{"LatinHypercube.BatchSize = -1"}},
+		{FullFactorial{VariableLevels: map[string]int{"span": 3}}, sellar, []string{"VariableLevels[span]", "names no design variable"}},
+	}
+	methods := map[string]bool{}
+	for _, tc := range tests {
+		methods[reflect.TypeOf(tc.o).Name()] = true
+		t.Run(fmt.Sprintf("%s/%s", tc.o.Name(), tc.want[0]), func(t *testing.T) {
+			s, err := tc.study()
+			if err != nil {
+				t.Fatal(err)
+			}
+			rec := &beginCounter{}
+			s.Recorder = rec
+			_, err = tc.o.Minimize(context.Background(), s)
+			if err == nil {
+				t.Fatal("no error")
+			}
+			for _, w := range tc.want {
+				if !strings.Contains(err.Error(), w) {
+					t.Errorf("error %q does not say %q", err, w)
+				}
+			}
+			if rec.begun != 0 {
+				t.Errorf("the run was begun %d times before the refusal", rec.begun)
+			}
+		})
+	}
+	for _, o := range settingMethods() {
+		if !methods[reflect.TypeOf(o).Name()] {
+			t.Errorf("%s has no row", reflect.TypeOf(o).Name())
 		}
 	}
 }

@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
+	"slices"
 	"strings"
 
 	"gonum.org/v1/gonum/mat"
@@ -166,28 +167,39 @@ func (o Sextant) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error
 	return res, err
 }
 
+// checkStudy checks the settings that depend on the study, before the run
+// begins: Parameters must name its fixed parameters, and the starting and
+// restart points drawn from a Halton sequence need at most maxHaltonDim
+// design variables.
+func (o Sextant) checkStudy(ev *mdo.Evaluator) error {
+	s := ev.Study()
+	for _, p := range o.Parameters {
+		if !s.System.IsParameter(p) || slices.Contains(ev.DesignNames(), p) {
+			return settingError("Sextant", "Parameters", fmt.Sprintf("%q", p), fmt.Sprintf("must name fixed parameters of study %q (inputs nobody produces that are not design variables)", s.Name))
+		}
+	}
+	if d := ev.Dim(); d > maxHaltonDim {
+		if or(o.Starts, 1) > 1 {
+			return settingError("Sextant", "Starts", o.Starts, fmt.Sprintf("draws the starts after the first from a Halton sequence, which handles at most %d variables; the study has %d: set Starts = 1", maxHaltonDim, d))
+		}
+		if o.Restarts >= 0 {
+			return settingError("Sextant", "Restarts", o.Restarts, fmt.Sprintf("(0 means 8) draws the restart points from a Halton sequence, which handles at most %d variables; the study has %d: set Restarts = -1 (none)", maxHaltonDim, d))
+		}
+	}
+	return nil
+}
+
 // Explore runs the method like Minimize and also reports where each start
 // ended and how many distinct optima were found.
 func (o Sextant) Explore(ctx context.Context, s *mdo.Study) (*mdo.Result, *StartsReport, error) {
 	if err := o.validate(); err != nil {
 		return nil, nil, err
 	}
-	r, err := beginLocal(ctx, s, o.Name(), o)
+	r, err := beginLocal(ctx, s, o.Name(), o, o.checkStudy)
 	if err != nil {
 		return nil, nil, err
 	}
 	r.maxEvals = or(o.MaxEvaluations, 2000)
-	for _, p := range o.Parameters {
-		design := false
-		for _, d := range r.ev.DesignNames() {
-			design = design || d == p
-		}
-		if !s.System.IsParameter(p) || design {
-			err := settingError("Sextant", "Parameters", fmt.Sprintf("%q", p), fmt.Sprintf("must name fixed parameters of study %q (inputs nobody produces that are not design variables)", s.Name))
-			res, _ := r.finish(mdo.NotStopped, nil)
-			return res, nil, err
-		}
-	}
 	starts := [][]float64{r.ev.Start()}
 	var restartPoints [][]float64
 	if n := or(o.Starts, 1); n > 1 {

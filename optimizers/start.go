@@ -62,7 +62,7 @@ func (r *run) analysableStart(u0 []float64) (u []float64, ev *mdo.Evaluation, de
 		}
 		tries = append(tries, u)
 	}
-	if m := startTries - 1 - len(tries); m > 0 {
+	if m := startTries - 1 - len(tries); m > 0 && n <= maxHaltonDim {
 		seed := r.ev.Seed()
 		batch := mat.NewDense(m, n, nil)
 		samplemv.Halton{Kind: samplemv.Owen, Q: distmv.NewUnitUniform(n, nil), Src: rand.NewPCG(seed, mix(seed, 17))}.Sample(batch)
