@@ -137,7 +137,15 @@ func (s *Study) validate() error {
 			return fmt.Errorf("mdo: design variable %s: bounds [%g, %g] must be finite with lower < upper", d.Name, d.Lower, d.Upper)
 		}
 		if !v.Unbounded() && (d.Lower < v.Min || d.Upper > v.Max) {
-			return fmt.Errorf("mdo: design variable %s: bounds [%g, %g] %s leave its validity range [%g, %g]", d.Name, d.Lower, d.Upper, v.Unit, v.Min, v.Max)
+			unit := ""
+			if v.Unit != "" && v.Unit != "-" {
+				unit = " " + v.Unit // a dimensionless "-" would read as a dash
+			}
+			which := fmt.Sprintf("the lower bound %g is below %g", d.Lower, v.Min)
+			if d.Upper > v.Max {
+				which = fmt.Sprintf("the upper bound %g is above %g", d.Upper, v.Max)
+			}
+			return fmt.Errorf("mdo: design variable %s: bounds [%g, %g]%s leave its validity range [%g, %g]%s (%s); choose bounds within it", d.Name, d.Lower, d.Upper, unit, v.Min, v.Max, unit, which)
 		}
 		if d.Integer && (d.Lower != math.Round(d.Lower) || d.Upper != math.Round(d.Upper)) {
 			return fmt.Errorf("mdo: integer design variable %s needs whole-number bounds, got [%g, %g]", d.Name, d.Lower, d.Upper)

@@ -17,6 +17,10 @@ func TestStudyCheckRefusesBadDeclarations(t *testing.T) {
 		want   []string
 	}{
 		{"bounds outside validity range", func(s *Study) { s.Design[0] = Continuous("x", 0, 20) }, []string{"x", "[0, 20]", "validity range [0, 10]"}},
+		// a dimensionless variable's unit "-" is not written (it read
+		// "bounds [0, 20] - leave"); the bound past the range is named
+		{"upper bound above the validity range", func(s *Study) { s.Design[0] = Continuous("x", 0, 20) }, []string{"bounds [0, 20] leave its validity range [0, 10] (the upper bound 20 is above 10)"}},
+		{"lower bound below the validity range", func(s *Study) { s.Design[0] = Continuous("x", -5, 5) }, []string{"bounds [-5, 5] leave its validity range [0, 10] (the lower bound -5 is below 0)"}},
 		{"lower bound NaN", func(s *Study) { s.Design[1] = Continuous("z1", nan, 10) }, []string{"z1", "[NaN, 10]", "finite with lower < upper"}},
 		{"upper bound NaN", func(s *Study) { s.Design[1] = Continuous("z1", -10, nan) }, []string{"z1", "[-10, NaN]", "finite with lower < upper"}},
 		{"infinite bound", func(s *Study) { s.Design[2] = Continuous("z2", 0, inf) }, []string{"z2", "[0, +Inf]", "finite with lower < upper"}},
