@@ -470,3 +470,38 @@ func TestOtherCommands(t *testing.T) {
 		})
 	}
 }
+
+// Scripts of a research engineer replayed in a terminal session, as a
+// user would (@replay FILE): each shows what its headless run prints,
+// and the session goes on. The tests synchronise on the scripts' own
+// output and the prompts.
+func TestTerminalReplaysUserScripts(t *testing.T) {
+	for _, tc := range []struct {
+		script string
+		says   []string // in order
+		prompt string   // the prompt once it has replayed
+	}{
+		{"noise_discipline", []string{`study "quiet_regional_jet" by Sextant`, `noise\.takeoff <= 84 +[\d.]+ +[\d.]+ +ok`, `post-optimality sensitivity of mass\.fuel`}, `c3> `},
+		{"sweep_series", []string{`sweep 15°: fuel`, `sweep 30°: fuel`, `least fuel at sweep_\d+`, `comparison of 4 results`}, `c4> `},
+	} {
+		t.Run(tc.script, func(t *testing.T) {
+			file, err := filepath.Abs(filepath.Join("..", "..", "testdata", "scripts", tc.script+".study"))
+			if err != nil {
+				t.Fatal(err)
+			}
+			tm := startTerm(t, "--out", t.TempDir())
+			tm.expect(`c1> `)
+			tm.send("@replay " + file + "\r")
+			for _, s := range tc.says {
+				tm.expect(s)
+			}
+			tm.expect(tc.prompt)
+			tm.send("6 * 7\r")
+			tm.expect(`\n42\r\n`)
+			tm.send("@quit\r")
+			if code := tm.wait(); code != 0 {
+				t.Errorf("exit status %d, want 0", code)
+			}
+		})
+	}
+}
