@@ -197,6 +197,26 @@ func (b *beginCounter) Begin(mdo.RunInfo) error      { b.begun++; return nil }
 func (b *beginCounter) Record(*mdo.Evaluation) error { return nil }
 func (b *beginCounter) End(*mdo.Result) error        { return nil }
 
+// wantRefusedUnbegun runs o on s and checks that it is refused with an
+// error saying every one of want, before the run's record began.
+func wantRefusedUnbegun(t *testing.T, o Optimizer, s *mdo.Study, want []string) {
+	t.Helper()
+	rec := &beginCounter{}
+	s.Recorder = rec
+	_, err := o.Minimize(context.Background(), s)
+	if err == nil {
+		t.Fatal("no error")
+	}
+	for _, w := range want {
+		if !strings.Contains(err.Error(), w) {
+			t.Errorf("error %q does not say %q", err, w)
+		}
+	}
+	if rec.begun != 0 {
+		t.Errorf("the run was begun %d times before the refusal", rec.begun)
+	}
+}
+
 // A design of experiments whose points would not fit the limits is
 // refused before the run begins (the recorder is not begun), naming the
 // levels and their product, or the points, variables and bytes.
@@ -226,26 +246,13 @@ func TestDesignSizeRefused(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			rec := &beginCounter{}
-			s.Recorder = rec
-			_, err = tc.o.Minimize(context.Background(), s)
 			if tc.want == nil {
-				if err != nil {
+				if _, err := tc.o.Minimize(context.Background(), s); err != nil {
 					t.Fatalf("a design within the limits refused: %v", err)
 				}
 				return
 			}
-			if err == nil {
-				t.Fatal("no error")
-			}
-			for _, w := range tc.want {
-				if !strings.Contains(err.Error(), w) {
-					t.Errorf("error %q does not say %q", err, w)
-				}
-			}
-			if rec.begun != 0 {
-				t.Errorf("the run was begun %d times before the refusal", rec.begun)
-			}
+			wantRefusedUnbegun(t, tc.o, s, tc.want)
 		})
 	}
 }
@@ -433,20 +440,7 @@ func TestRefusedBeforeTheRecord(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			rec := &beginCounter{}
-			s.Recorder = rec
-			_, err = tc.o.Minimize(context.Background(), s)
-			if err == nil {
-				t.Fatal("no error")
-			}
-			for _, w := range tc.want {
-				if !strings.Contains(err.Error(), w) {
-					t.Errorf("error %q does not say %q", err, w)
-				}
-			}
-			if rec.begun != 0 {
-				t.Errorf("the run was begun %d times before the refusal", rec.begun)
-			}
+			wantRefusedUnbegun(t, tc.o, s, tc.want)
 		})
 	}
 	for _, o := range settingMethods() {

@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"slices"
 	"sync"
 	"weak"
 
@@ -191,7 +192,7 @@ func (s *studyServer) Dispatch(ctx context.Context, b *mdo.Batch) error {
 			return fmt.Errorf("distribute: worker %s refused request %d of batch %d: %s", r.Worker, k, batch, r.Refused)
 		}
 		want := b.Request(k).Design
-		if !sameBits(want, r.Design) {
+		if !slices.EqualFunc(want, r.Design, func(x, y float64) bool { return math.Float64bits(x) == math.Float64bits(y) }) {
 			return s.diverge("analysis %d of batch %d of study %q is at %v here, at %v on the coordinator (does the script read files, the environment or the clock, or run optimisations at the same time?)", k+1, batch, e.Study().Name, want, r.Design)
 		}
 		if _, err := b.Finish(k, r.Result); err != nil {
@@ -199,19 +200,6 @@ func (s *studyServer) Dispatch(ctx context.Context, b *mdo.Batch) error {
 		}
 	}
 	return nil
-}
-
-// sameBits reports whether two designs hold the same float64 bits.
-func sameBits(a, b []float64) bool {
-	if len(a) != len(b) {
-		return false
-	}
-	for k := range a {
-		if math.Float64bits(a[k]) != math.Float64bits(b[k]) {
-			return false
-		}
-	}
-	return true
 }
 
 // errStale says a request is of an Evaluator whose turn is over here:
