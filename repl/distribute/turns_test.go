@@ -17,32 +17,10 @@ import (
 // Batill & Renaud 1996) one after another: a GA, then a loop of two
 // Nelder-Mead searches that start from the GA's best point, so that the
 // later ones depend on the earlier results. Each prints its best point's
-// bits and its analyses.
-const turnsScript = `//~ couplet-study 1 (couplet 0.1.0)
-
-//~ cell 1
-import (
-	"context"
-	"fmt"
-	"math"
-
-	"couplet/mdo"
-	"couplet/optimizers"
-	"couplet/repl/cell"
-)
-
-study, err := mdo.SellarStudy(mdo.MDF)
-if err != nil {
-	panic(err)
-}
-study.Seed = cell.Seed(5)
-study.Workers = 2
-cell.Attach(study)
-res, err := optimizers.GA{Evolution: optimizers.Evolution{Population: 12, Generations: 4}}.Minimize(cell.Context(), study)
-if err != nil {
-	panic(err)
-}
-fmt.Printf("GA: f %x, %d analyses\n", math.Float64bits(res.Best.F[0]), res.Analyses)
+// bits and its analyses (gaScript, then the loop).
+var turnsScript = strings.NewReplacer(
+	"import (\n", "import (\n\t\"fmt\"\n\t\"math\"\n\n",
+	"cell.Publish(res)\n", `fmt.Printf("GA: f %x, %d analyses\n", math.Float64bits(res.Best.F[0]), res.Analyses)
 
 //~ cell 2
 var last *mdo.Result
@@ -61,7 +39,7 @@ for _, size := range []float64{0.2, 0.05} {
 	last = r
 }
 cell.Publish(last)
-`
+`).Replace(gaScript)
 
 // TestEveryOptimisationIsSpread runs a script of three optimisations in
 // turn here and over two workers: every one of them is spread (the
