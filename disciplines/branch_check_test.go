@@ -1,9 +1,6 @@
 package disciplines
 
-import (
-	"math"
-	"testing"
-)
+import "testing"
 
 // TestBranchCheckSeesPastTransient analyses points of the S12-3 trijet's
 // wide box (two Latin-hypercube bases of TestDesignSpaceSweep's box,
@@ -23,12 +20,7 @@ import (
 // light closure of its neighbour (within 8 %) or not close. The masses
 // are this model's own (no source): the test checks the branch.
 func TestBranchCheckSeesPastTransient(t *testing.T) {
-	var wide sweepCase
-	for _, c := range sweepCases() {
-		if c.label == "Swiftlet S12-3 wide box" {
-			wide = c
-		}
-	}
+	wide := sweepCaseLabelled(t, "Swiftlet S12-3 wide box")
 	cases := []struct {
 		label     string
 		fixed     map[string]float64
@@ -48,27 +40,7 @@ func TestBranchCheckSeesPastTransient(t *testing.T) {
 	}
 	for _, c := range cases {
 		t.Run(c.label, func(t *testing.T) {
-			ev, idx, err := sweepEvaluator(sweepCase{label: c.label, scen: wide.scen, fixed: c.fixed, box: []convBox{{"wing.area", 70, 300}}}, 1)
-			if err != nil {
-				t.Fatal(err)
-			}
-			p := lineProbe{ev, idx}
-			k := idx["mass.takeoff"]
-			n := p.at(c.neighbour)
-			if !n.Converged {
-				t.Fatalf("wing.area = %g (the neighbour) does not converge: %s", c.neighbour, n.Err)
-			}
-			m0 := n.Outputs[k]
-			for _, x := range c.points {
-				e := p.at(x)
-				if !e.Converged {
-					continue
-				}
-				if m := e.Outputs[k]; math.Abs(m-m0) > 0.08*m0 {
-					t.Errorf("wing.area = %g: take-off mass %.1f t by %q; its neighbour at %g closes at %.1f t (a heavier, unstable closure)",
-						x, m/1000, e.Path, c.neighbour, m0/1000)
-				}
-			}
+			checkLightClosure(t, sweepCase{label: c.label, scen: wide.scen, fixed: c.fixed, box: []convBox{{"wing.area", 70, 300}}}, c.neighbour, c.points)
 		})
 	}
 }

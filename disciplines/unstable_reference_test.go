@@ -20,13 +20,8 @@ import (
 // state, and the points near it close on it. The masses are this model's
 // own (no source): the test checks the branch, not the figures.
 func TestHeavyReferenceOnStableClosure(t *testing.T) {
-	var heavy Scenario
-	for _, c := range sweepCases() {
-		if c.label == "heavy supersonic" {
-			heavy = c.scen
-		}
-	}
-	fixed := map[string]float64{"cruise.mach": 1.784, "wing.area": 775, "wing.aspect_ratio": 2.46, "wing.sweep": 53.2, "wing.thickness_ratio": 0.0259}
+	heavy := sweepCaseLabelled(t, "heavy supersonic").scen
+	fixed := heavySupersonicDesign()
 	sys, err := heavy.NewSystem()
 	if err != nil {
 		t.Fatal(err)
