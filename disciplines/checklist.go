@@ -320,7 +320,7 @@ var subsonicFineness = [2]float64{7, 15}
 // empty mass per seat [kg] of twin-aisle jet transports (from memory, no
 // source): the wide bodies carry about 320–470 kg per seat (a 260-seat
 // twin about 330, a 300-seat long-range twin about 420, a 365-seat one
-// about 460), against the 270–290 of the single-aisle jets
+// about 460), against the 220–320 of the single-aisle jets
 // (EmptyMassPerSeatBand), which flagged every wide body.
 var twinAisleEmptyMassPerSeat = [2]float64{320, 470}
 

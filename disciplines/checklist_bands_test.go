@@ -6,8 +6,10 @@ func TestChecklistSubsonicAndTwinAisleBands(t *testing.T) {
 	// The fuselage fineness band of 10–15 is that of supersonic fuselages
 	// (project reference, common practice); subsonic transports and
 	// business jets span about 7–15 (from memory, no source). The
-	// operating empty mass per seat of the single-aisle jet transports,
-	// 270–290 kg, is not that of the wide bodies, about 320–470 kg (from
+	// operating empty mass per seat of the single-aisle and regional jet
+	// transports, about 220–320 kg, is not that of the wide bodies, about
+	// 320–470 kg, and that of business jets runs from the light jets'
+	// about 480–600 kg to the large-cabin jets' 1 300–1 700 kg (from
 	// memory, no source). The wing loading and the take-off thrust over
 	// weight are read against the class's bands (mass_statistics.go).
 	// Each row: the values changed from a subsonic
@@ -51,6 +53,14 @@ func TestChecklistSubsonicAndTwinAisleBands(t *testing.T) {
 		{"wide body of 900 kg/m²", with2(transport, map[string]float64{"wing.area": 300, "engine.count": 4, "engine.thrust_takeoff": 200000}),
 			"wing loading at take-off (jet transport)", true},
 		{"single aisle of 419 kg a seat", with2(transport, map[string]float64{"cabin.aisles": 1, "cabin.seats_abreast": 6}), "operating empty mass per seat (jet transport)", true},
+		{"single aisle of 222 kg a seat", with2(transport, map[string]float64{"cabin.passengers": 189, "cabin.aisles": 1, "cabin.seats_abreast": 6,
+			"mass.takeoff": 79000, "mass.empty": 42000, "mass.fuel": 20000, "mass.fuel_capacity": 21000}), "operating empty mass per seat (jet transport)", false},
+		{"single aisle of 206 kg a seat", with2(transport, map[string]float64{"cabin.passengers": 189, "cabin.aisles": 1, "cabin.seats_abreast": 6,
+			"mass.takeoff": 75000, "mass.empty": 39000, "mass.fuel": 20000, "mass.fuel_capacity": 21000}), "operating empty mass per seat (jet transport)", true},
+		{"light business jet of 520 kg a seat", map[string]float64{"cabin.passengers": 9, "mass.empty": 4680, "mass.takeoff": 8000,
+			"mass.fuel": 2500, "mass.fuel_capacity": 2700, "wing.area": 28, "engine.thrust_takeoff": 28000}, "operating empty mass per seat (business jet)", false},
+		{"business jet of 420 kg a seat", map[string]float64{"cabin.passengers": 9, "mass.empty": 3780, "mass.takeoff": 8000,
+			"mass.fuel": 2500, "mass.fuel_capacity": 2700, "wing.area": 28, "engine.thrust_takeoff": 28000}, "operating empty mass per seat (business jet)", true},
 	}
 	for _, c := range tests {
 		m := base()

@@ -66,15 +66,20 @@ func (c AircraftClass) EmptyMassRegression(w0 float64) (float64, error) {
 
 // EmptyMassPerSeatBand returns the common-practice band of the operating
 // empty mass per passenger seat [kg] of the class (from memory, no
-// source): jet transports about 270–290 kg; business jets about
-// 1 000–2 000 kg; supersonic airliners about 700–1 500 kg (Concorde about
-// 790 kg, 78.7 t for 100 seats; fewer seats carry more per seat).
+// source): single-aisle and regional jet transports about 220–320 kg (a
+// densely seated 189-seat single aisle about 220, regional jets of
+// 76–100 seats about 240–290, a 200-seat single aisle about 290);
+// business jets about 450–2 000 kg (light jets of 7–9 seats about
+// 480–600, mid-size jets about 650–1 100, the large-cabin long-range
+// jets about 1 300–1 700); supersonic airliners about 700–1 500 kg
+// (Concorde about 790 kg, 78.7 t for 100 seats; fewer seats carry more
+// per seat). The wide bodies have a band of their own in the checklist.
 func (c AircraftClass) EmptyMassPerSeatBand() (lo, hi float64) {
 	switch c {
 	case ClassJetTransport:
-		return 270, 290
+		return 220, 320
 	case ClassBusinessJet:
-		return 1000, 2000
+		return 450, 2000
 	case ClassSupersonicCruise:
 		return 700, 1500
 	}
@@ -150,10 +155,11 @@ func cruiseBands(mach float64) (ld, tsfc [2]float64) {
 // value):
 //
 //   - jet transport 1.3: the model's 76-seat regional jet weighed
-//     187 kg of operating empty mass per seat against the 270–290 kg of
-//     common practice, 13 % below Roskam's empty-mass regression; the
-//     furnishings, equipment and operator's items of a passenger cabin
-//     that the cargo/transport equations leave out are the most of it;
+//     187 kg of operating empty mass per seat against the 240–290 kg of
+//     regional jets (common practice), 13 % below Roskam's empty-mass
+//     regression; the furnishings, equipment and operator's items of a
+//     passenger cabin that the cargo/transport equations leave out are
+//     the most of it;
 //   - business jet 1.0: the supersonic business jets lie within 10 % of
 //     Roskam's business-jet regression (about 7–10 % below: a supersonic
 //     business jet carries a larger fuel fraction than the subsonic
