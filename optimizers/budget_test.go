@@ -52,3 +52,53 @@ func TestBudgetCountsEvaluations(t *testing.T) {
 		}
 	}
 }
+
+// Without equality constraints the particle swarm's gradient-based
+// repairs count in its budget, as the GA's do: a generation leaves as
+// many particles unmoved and unanalysed as the repairs of the one before
+// analysed, and the last generation repairs none, so a run analyses
+// Population × (Generations + 1) points. On the welded beam (inequality
+// constraints only, every variable continuous) the repairs act: a
+// generation that follows one without repairs and repairs itself
+// analyses more than the Population, which a run without repairs never
+// does. The count does not depend on the number of workers.
+func TestSwarmRepairsCountInBudget(t *testing.T) {
+	const n, g = 40, 30
+	var first *mdo.Result
+	for _, workers := range []int{1, 3} {
+		s, err := WeldedBeam()
+		if err != nil {
+			t.Fatal(err)
+		}
+		s.Seed, s.Workers = 1, workers
+		var perGen []int
+		last := 0
+		s.Progress = func(p mdo.Progress) {
+			perGen = append(perGen, p.Evaluations-last)
+			last = p.Evaluations
+		}
+		res, err := ParticleSwarm{Evolution: Evolution{Population: n, Generations: g}}.Minimize(context.Background(), s)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if res.Stop != mdo.StopIterations || res.Analyses != n*(g+1) || res.Evaluations != res.Analyses || res.Repeats != 0 {
+			t.Errorf("%d workers: %s after %v; want the run ended by its generations with %d × (%d + 1) = %d evaluations, all analysed, no repeat",
+				workers, res.Stop, res.EvalCounters, n, g, n*(g+1))
+		}
+		repaired := 0
+		for _, a := range perGen[1:] {
+			if a > n {
+				repaired++
+			}
+		}
+		if len(perGen) != g+1 || perGen[0] != n || repaired == 0 || perGen[g] > n {
+			t.Errorf("%d workers: analyses per generation %v; want %d generations after a first of %d, some with more than %d (repairs), the last with at most %d",
+				workers, perGen, g, n, n, n)
+		}
+		if first == nil {
+			first = res
+		} else if d := sameResult(first, res); d != "" {
+			t.Errorf("%d workers against 1: %s", workers, d)
+		}
+	}
+}
