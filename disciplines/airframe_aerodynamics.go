@@ -313,6 +313,9 @@ func (a *AirframeAerodynamics) Compute(in, out []float64) error {
 	if err := checkCalibratedLift(out[afOutCLACruise], out[afOutCLALow], in[afInFactorLiftSlope], in[geoInArea], clean, cq, in[afInFlapTakeoff], in[afInFlapLanding]); err != nil {
 		return err
 	}
+	if err := checkFuselageCarried(w.Area, w.MAC, out[afOutCLALow], out[afOutCLACruise], in[afInFactorLiftSlope], in[afInFusLength], in[afInFusDiameter]); err != nil {
+		return err
+	}
 	// the Korn relation's parts fixed by the wing (kornFromCos in two
 	// pieces, the same operations): aerodynamics adds the cruise lift
 	kf := m.Geometry.KornFactor

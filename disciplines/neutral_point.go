@@ -1,6 +1,10 @@
 package disciplines
 
-import "couplet/mdo"
+import (
+	"fmt"
+
+	"couplet/mdo"
+)
 
 // NeutralPoints is the "neutral_point" discipline: the stick-fixed
 // neutral points of the aircraft at take-off (Mach LowSpeedMach, with
@@ -122,12 +126,55 @@ func (n *NeutralPoints) Compute(in, out []float64) error {
 	}
 	low := cfg
 	low.CLaWing, low.CLaTail, low.Mach = in[npInCLaLow], claTailLow, n.LowSpeedMach
-	npLow, _ := low.NeutralPoint()
 	cr := cfg
 	cr.CLaWing, cr.CLaTail, cr.Mach = in[npInCLaCruise], claTailCruise, mach
+	if err := checkFuselageShift(low, 1, "take-off"); err != nil {
+		return err
+	}
+	if err := checkFuselageShift(cr, 1, "cruise"); err != nil {
+		return err
+	}
+	npLow, _ := low.NeutralPoint()
 	np, _ := cr.NeutralPoint()
 	out[npOutNP] = np
 	out[npOutNPLow] = npLow
 	out[npOutDownwash] = DownwashGradient(cr.CLaWing, cr.WingAspect, mach)
 	return nil
+}
+
+// checkFuselageShift refuses a wing too small to carry the fuselage at
+// the flight condition named by when (c's FuselageShift above
+// MaxFuselageShift): the neutral point would lie beyond the method's
+// range of validity. It names aero.factor_lift_slope when that factor
+// (factor, applied to c.CLaWing) is below 1 and the uncalibrated slope
+// would carry the fuselage, else wing.area. Called with factor 1 by
+// neutral_point (which reads the calibrated slope only) and with the
+// factor by airframe_aero, which refuses first in an aircraft.
+func checkFuselageShift(c Longitudinal, factor float64, when string) error {
+	r := c.FuselageShift()
+	if r <= MaxFuselageShift {
+		return nil
+	}
+	cm := c.FuselageTerm / (c.WingArea * c.MAC)
+	if factor < 1 && r*factor <= MaxFuselageShift {
+		return inputErr("aero.factor_lift_slope", factor, "", fmt.Sprintf("at least %.3g with this wing and fuselage: at %s the calibrated lift-curve slope %.3g /rad is below the fuselage's destabilising moment slope 2(k2 − k1)·Vf/(S·c̄) = %.3g /rad, more than the neutral-point method accepts (common practice, no source)", factor*r/MaxFuselageShift, when, c.CLaWing, cm))
+	}
+	return inputErr("wing.area", c.WingArea, "m2", fmt.Sprintf("a wing that carries the fuselage: at %s the fuselage's destabilising moment slope 2(k2 − k1)·Vf/(S·c̄) = %.3g /rad is %.3g times the wing's lift-curve slope %.3g /rad, and the neutral-point method accepts at most %g times (common practice, no source); a larger wing, or a shorter or slimmer fuselage", when, cm, r, c.CLaWing, MaxFuselageShift))
+}
+
+// checkFuselageCarried is checkFuselageShift at take-off and in cruise
+// for a wing of area s [m2] and MAC mac [m] with the calibrated lift
+// slopes claLow, claCruise [1/rad] against a fuselage of length l and
+// diameter d [m].
+func checkFuselageCarried(s, mac, claLow, claCruise, factor, l, d float64) error {
+	fus, err := MunkFuselageTerm(l, d)
+	if err != nil {
+		return err
+	}
+	c := Longitudinal{WingArea: s, MAC: mac, CLaWing: claLow, FuselageTerm: fus}
+	if err := checkFuselageShift(c, factor, "take-off"); err != nil {
+		return err
+	}
+	c.CLaWing = claCruise
+	return checkFuselageShift(c, factor, "cruise")
 }

@@ -14,7 +14,10 @@ package disciplines
 // prolate spheroid of the same fineness ratio (Munk 1924; Lamb,
 // "Hydrodynamics"; from memory); it is the ideal-flow value and so errs on
 // the destabilising side. The fuselage volume is 0.7·(π/4)·D²·L (common
-// practice, no source).
+// practice, no source). The term is used while it moves the wing-body
+// aerodynamic centre forward by at most MaxFuselageShift MACs; a smaller
+// wing is refused (a wing of a few square metres against a transport
+// fuselage put the neutral point 100 m ahead of the nose).
 //
 // Downwash at the tail: below Mach 0.9, dε/dα = 2·CLα,w/(π·A), the
 // far-wake downwash of the wing's trailing vortex sheet (lifting-line
@@ -139,6 +142,29 @@ func (c Longitudinal) NeutralPoint() (xnp, cla float64) {
 	xnp = (c.CLaWing*xw + th*xh - c.FuselageTerm/c.WingArea) / cla
 	return xnp, cla
 }
+
+// FuselageShift returns Munk's fuselage term as the forward shift of the
+// wing-body aerodynamic centre it causes, in mean aerodynamic chords:
+// Cmα,fus/CLα,w = 2(k2 − k1)·Vf/(S·c̄·CLα,w), the fuselage's destabilising
+// pitching-moment slope over the wing's lift-curve slope (the form of the
+// handbook fuselage term, Cmα,fus ∝ wf²·Lf/(S·c̄); D. P. Raymer,
+// "Aircraft Design: A Conceptual Approach", ch. 16; from memory).
+func (c Longitudinal) FuselageShift() float64 {
+	return c.FuselageTerm / (c.WingArea * c.MAC * c.CLaWing)
+}
+
+// MaxFuselageShift is the largest FuselageShift the neutral point
+// accepts: one MAC, where the fuselage's destabilising moment slope
+// equals the wing's lift-curve slope. Beyond it the wing no longer carries
+// the fuselage, the estimate is dominated by the slender-body term applied
+// far outside the wing-body layouts it is used for, and the neutral point
+// runs many chords ahead of the wing (tens of metres ahead of the nose
+// for a wing of a few square metres). The bound is common practice (no
+// source); the example studies' evaluations stay below 0.4.
+// neutral_point and airframe_aero refuse a wing beyond it as an invalid
+// input naming wing.area (or aero.factor_lift_slope, when a calibration
+// factor below 1 takes the slope under it).
+const MaxFuselageShift = 1.0
 
 // TailTrimLoad returns the horizontal-tail lift [N] (negative = down)
 // that trims an aircraft of weight w [N] with its CG at xcg, by moments

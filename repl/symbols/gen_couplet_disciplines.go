@@ -88,6 +88,7 @@ func init() {
 		"MachAngle":                  reflect.ValueOf(disciplines.MachAngle),
 		"MaxDeflection":              reflect.ValueOf(disciplines.MaxDeflection),
 		"MaxFuselageLength":          reflect.ValueOf(constant.MakeFromLiteral("150", token.FLOAT, 0)),
+		"MaxFuselageShift":           reflect.ValueOf(constant.MakeFromLiteral("1", token.FLOAT, 0)),
 		"MaxMach":                    reflect.ValueOf(constant.MakeFromLiteral("2.5", token.FLOAT, 0)),
 		"MaxSeatsAbreast":            reflect.ValueOf(disciplines.MaxSeatsAbreast),
 		"MaxSweep":                   reflect.ValueOf(constant.MakeFromLiteral("70", token.FLOAT, 0)),
