@@ -33,7 +33,13 @@ import (
 // larger change. A jump is a change that still carries more than a
 // quarter of the step's change, and more than 0.1 % of the value, over
 // 1/1024 of the step. A smooth output keeps about 1/1024 of it, a
-// square-root branch point 1/32, a step all of it.
+// square-root branch point 1/32, a step all of it. Below both bounds
+// lies the line's rounding floor: a change of at most lineNoiseFloor
+// times the largest magnitude of the output along the line is rounding
+// noise (an output that is zero up to rounding over part of the line,
+// as a subsonic aircraft's cruise wave drag of about 1e-15 beside the
+// 1e-3 of its drag rise, changes by many times its own value from point
+// to point) and is never refined nor reported.
 //
 // The exceptions, each where the model has a discontinuity by
 // definition:
@@ -179,8 +185,9 @@ func (p lineProbe) at(x float64) *mdo.Evaluation {
 
 // refineJump halves [xa, xb] ten times following output k and reports
 // whether the change of k still carries more than a quarter of the
-// step's change over 1/1024 of the step, with the interval found.
-func (p lineProbe) refineJump(k int, xa, xb, a, b float64) (bool, float64, float64, float64, float64) {
+// step's change, and more than the line's rounding floor of k, over
+// 1/1024 of the step, with the interval found.
+func (p lineProbe) refineJump(k int, xa, xb, a, b, floor float64) (bool, float64, float64, float64, float64) {
 	d0 := math.Abs(b - a)
 	for range 10 {
 		m := 0.5 * (xa + xb)
@@ -196,8 +203,16 @@ func (p lineProbe) refineJump(k int, xa, xb, a, b float64) (bool, float64, float
 		}
 	}
 	d := math.Abs(b - a)
-	return d > 0.25*d0 && d > 1e-3*math.Max(math.Abs(a), math.Abs(b)), xa, xb, a, b
+	return d > 0.25*d0 && d > 1e-3*math.Max(math.Abs(a), math.Abs(b)) && d > floor, xa, xb, a, b
 }
+
+// lineNoiseFloor is the rounding floor of a line's jump check, as a
+// fraction of an output's largest magnitude along the line (common
+// practice, no source): float64 keeps about 16 digits and a model's
+// chain of operations loses several, so an output formed from terms of
+// the size it reaches elsewhere on the line carries rounding of up to
+// about 1e-10 of that size where it is itself near zero.
+const lineNoiseFloor = 1e-9
 
 // checkLine analyses one line with n points and returns what is wrong.
 func checkLine(l designLine, n int) ([]string, error) {
@@ -248,6 +263,16 @@ func checkLine(l designLine, n int) ([]string, error) {
 	if roundedCount(l.name) {
 		return bad, nil
 	}
+	// the rounding floor of each output: lineNoiseFloor times its
+	// largest magnitude over the line's converged points
+	floor := make([]float64, len(names))
+	for _, e := range evs {
+		if e.Converged {
+			for k, v := range e.Outputs {
+				floor[k] = math.Max(floor[k], lineNoiseFloor*math.Abs(v))
+			}
+		}
+	}
 	probe := lineProbe{ev, idx}
 	// step is the change of output k over step i counted as a trend of
 	// the change ch: 0 when it runs the other way, so that a single point
@@ -271,14 +296,14 @@ func checkLine(l designLine, n int) ([]string, error) {
 		for k := range names {
 			a, b := ea.Outputs[k], eb.Outputs[k]
 			d := math.Abs(b - a)
-			if d <= 0.01*math.Max(math.Abs(a), math.Abs(b)) || lineJumpExempt(l.name, names[k], a, b, xs[i], xs[i+1]) {
+			if d <= 0.01*math.Max(math.Abs(a), math.Abs(b)) || d <= floor[k] || lineJumpExempt(l.name, names[k], a, b, xs[i], xs[i+1]) {
 				continue
 			}
 			nl, nr := step(i-1, k, b-a), step(i+1, k, b-a)
 			if (i == 0 || nl > 0) && (i+2 >= n || nr > 0) && d <= 4*math.Max(nl, nr) {
 				continue
 			}
-			if jump, xa, xb, va, vb := probe.refineJump(k, xs[i], xs[i+1], a, b); jump && !lineJumpExempt(l.name, names[k], va, vb, xa, xb) {
+			if jump, xa, xb, va, vb := probe.refineJump(k, xs[i], xs[i+1], a, b, floor[k]); jump && !lineJumpExempt(l.name, names[k], va, vb, xa, xb) {
 				f("%s jumps from %.6g to %.6g between %.10g and %.10g (from %.6g to %.6g over the step %g to %g)",
 					names[k], va, vb, xa, xb, a, b, xs[i], xs[i+1])
 			}
