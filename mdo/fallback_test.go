@@ -2,9 +2,11 @@ package mdo
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"math"
 	"slices"
+	"strings"
 	"testing"
 )
 
@@ -88,7 +90,8 @@ func sizingLoop(t *testing.T) *System {
 // coupling reports of the points that close — and the shortcuts spend
 // fewer discipline calls. The grid must hold points rescued by Newton and
 // by the continuation, and points that run the whole chain and fail. (A
-// continuation stall limit of 8 or a Newton one of 1 fails it.)
+// continuation stall limit of 8, a Newton one of 1 or a continuation
+// that gives up at its first failed step fails it.)
 func TestFallbackShortcutsChangeNothing(t *testing.T) {
 	ctx := context.Background()
 	sets := []SolverSettings{{Method: AitkenGaussSeidel}, {Method: AitkenGaussSeidel, MaxIterations: 25}}
@@ -184,6 +187,80 @@ func TestFallbackShortcutsChangeNothing(t *testing.T) {
 					t.Errorf("%s: no point of the grid ends %q: the test no longer covers it", meth, p)
 				}
 			}
+		}
+	}
+}
+
+// TestFallbackCostOfPointsThatDoNotClose analyses two points of
+// sizingLoop's grid that run the whole fallback chain and fail (the
+// aerodynamics refuses the loading m/s the balance runs to), with and
+// without the chain's shortcuts: the same error, naming the group, the
+// coupling variable and its value, and the deterministic number of
+// discipline calls below. A change that makes such a point cost more
+// fails here; one that makes it cheaper on purpose writes its new count.
+// (Before the continuation gave up at its third failed step they cost
+// 6 092 and 7 844 calls.)
+func TestFallbackCostOfPointsThatDoNotClose(t *testing.T) {
+	ctx := context.Background()
+	cases := []struct {
+		s, r              float64
+		calls, exhaustive int
+	}{
+		{5, 16, 4836, 15660},
+		{8.75, 15, 3988, 9196},
+	}
+	sys := sizingLoop(t)
+	if err := sys.SetSolver(SolverSettings{Method: AitkenGaussSeidel}); err != nil {
+		t.Fatal(err)
+	}
+	var ws [2]*Workspace
+	for k := range ws {
+		w := sys.NewWorkspace()
+		if err := w.SetSolver(SolverSettings{Method: AitkenGaussSeidel, Exhaustive: k == 1}); err != nil {
+			t.Fatal(err)
+		}
+		if err := w.Set("s", 30); err != nil {
+			t.Fatal(err)
+		}
+		if err := w.SetGuess("m", 1); err != nil {
+			t.Fatal(err)
+		}
+		if err := w.Analyze(ctx); err != nil {
+			t.Fatalf("the reference point: %v", err)
+		}
+		if err := w.SetReference(slices.Clone(w.Values())); err != nil {
+			t.Fatal(err)
+		}
+		ws[k] = w
+	}
+	for _, c := range cases {
+		var calls [2]int
+		var errs [2]error
+		for k, w := range ws {
+			w.Reset()
+			if err := w.Set("s", c.s); err != nil {
+				t.Fatal(err)
+			}
+			if err := w.Set("r", c.r); err != nil {
+				t.Fatal(err)
+			}
+			before := w.Counters().DisciplineCalls
+			errs[k] = w.Analyze(ctx)
+			calls[k] = w.Counters().DisciplineCalls - before
+		}
+		at := fmt.Sprintf("s = %g, r = %g", c.s, c.r)
+		t.Logf("%s: %d discipline calls with the shortcuts, %d without: %v", at, calls[0], calls[1], errs[0])
+		if Classify(errs[0]) != DoesNotClose || fmt.Sprint(errs[0]) != fmt.Sprint(errs[1]) {
+			t.Errorf("%s: %v with the shortcuts, %v without; want the same does-not-close error", at, errs[0], errs[1])
+			continue
+		}
+		var de *DisciplineError
+		if !errors.As(errs[0], &de) || de.Var != "m" || de.Discipline != "aero" || !slices.Equal(de.Group, []string{"aero", "engine", "fuel", "weights", "pitch", "lag", "settle", "stab"}) ||
+			!strings.Contains(errs[0].Error(), "loading m/s = ") {
+			t.Errorf("%s: the error %v does not name the group, the variable m and the loading aero refuses", at, errs[0])
+		}
+		if calls[0] != c.calls || calls[1] != c.exhaustive {
+			t.Errorf("%s: %d discipline calls with the shortcuts and %d without; want %d and %d", at, calls[0], calls[1], c.calls, c.exhaustive)
 		}
 	}
 }

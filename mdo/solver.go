@@ -71,7 +71,8 @@ type SolverSettings struct {
 	// Exhaustive runs the fallback chain and Newton's method without
 	// their shortcuts: every Jacobian column sweeps the whole group, a
 	// continuation step that repeats the one that just failed is solved
-	// again, and no attempt stops when it stalls (see Workspace.Analyze).
+	// again, no attempt stops when it stalls and the continuation takes
+	// every step however many fail (see Workspace.Analyze).
 	// The answers are the same, bit for bit, on every point where this was
 	// checked; it costs more discipline calls on points that do not close
 	// and is there to check that a point's answer is not a shortcut's. The
