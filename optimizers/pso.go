@@ -110,9 +110,11 @@ func (o ParticleSwarm) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result,
 	gens := or(o.Generations, 100)
 	ring := make([]*member, n)
 	gen := 0
-	// owed is what the last generation's repair analysed: without
+	// owed is what the last generation's repair evaluated: without
 	// equality constraints this generation leaves that many particles,
-	// those ranked last, where they are
+	// those ranked last, where they are (evaluations, not analyses: a
+	// run picked up from its store, whose repairs are answered from it,
+	// leaves out the same particles and retraces its path)
 	broad := !hasEquality(r.ev.Constraints())
 	owed := 0
 	e.generation = func(pop []*member, rng *rand.Rand) ([]*member, error) {
@@ -178,11 +180,11 @@ func (o ParticleSwarm) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result,
 		if err := e.evaluateAll(moving); err != nil {
 			return nil, err
 		}
-		before := r.ev.Counters().Analyses
+		before := r.ev.Counters().Evaluations
 		if err := e.grad.apply(e, moving, rng, budget); err != nil {
 			return nil, err
 		}
-		owed = r.ev.Counters().Analyses - before
+		owed = r.ev.Counters().Evaluations - before
 		for _, q := range moving {
 			if e.notWorse(q.ev, q.best) {
 				q.best = q.ev
