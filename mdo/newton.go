@@ -125,7 +125,7 @@ func (w *Workspace) newton(ctx context.Context, g *group, set SolverSettings, p 
 	copy(s.gu, s.gLast)
 	w.usePlan(g)
 	fresh, haveJac := false, false
-	watch := stallWatch{best: math.Inf(1)}
+	watch := stallWatch{best: math.Inf(1), shrink: newtonShrink}
 	for it := 1; it <= set.MaxIterations; it++ {
 		if err := ctx.Err(); err != nil {
 			return fmt.Errorf("mdo: coupled group {%s} cancelled at iteration %d: %w", joinNames(g.names), it, err)

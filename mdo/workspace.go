@@ -682,13 +682,18 @@ func notFinite(x float64) bool {
 type stallWatch struct {
 	best   float64 // smallest residual norm so far
 	bestIt int     // the iteration that reached it
+	// shrink, when positive, is the factor a residual must fall below
+	// best by to count as a new smallest one (newtonShrink); 0 counts
+	// any smaller residual
+	shrink float64
 }
 
 // logIteration records iteration it's residual norm in the group's
 // report and the counters, and says whether the solve ends there:
 // converged (rep.Converged), diverged (rep.Diverged, the norm beyond
 // divergeLimit or not a number) or stalled (the workspace's stall limit
-// passed without a new smallest residual).
+// passed without a new smallest residual, or, with watch.shrink, without
+// one below shrink times the last).
 func (w *Workspace) logIteration(rep *CouplingReport, it int, norm, tol float64, watch *stallWatch) (done bool) {
 	rep.CouplingIterations = it
 	rep.Residual = norm
@@ -703,7 +708,11 @@ func (w *Workspace) logIteration(rep *CouplingReport, it int, norm, tol float64,
 		return true
 	}
 	if w.stall > 0 {
-		if norm < watch.best {
+		best := watch.best
+		if watch.shrink > 0 {
+			best *= watch.shrink
+		}
+		if norm < best {
 			watch.best, watch.bestIt = norm, it
 		} else if it-watch.bestIt >= w.stall {
 			return true
