@@ -39,7 +39,15 @@ type LimitCost struct {
 	// PerUnit is d(optimal objective)/d(limit), in objective units per
 	// unit of the constrained quantity: raising an upper limit by one
 	// unit changes the optimal objective by PerUnit (negative: it helps).
+	// It is NaN when NotDefined says why there is none.
 	PerUnit float64
+	// NotDefined, when not empty, says why an active limit has no
+	// sensitivity: its multiplier is not the derivative of the optimum,
+	// e.g. because the constraint does not vary with the design (held at
+	// its limit by something else, as a take-off field length by engines
+	// sized to it) or because the active constraints' gradients are
+	// linearly dependent, so that the multipliers are not unique.
+	NotDefined string
 }
 
 // ParameterCost is the derivative of the optimal objective with respect
@@ -59,9 +67,29 @@ type ParameterCost struct {
 const SensitivityCaution = "conceptual estimates, first order: valid for small changes that keep the same active constraints"
 
 // PerUnitLabel is the unit of a derivative of the objective with respect
-// to a quantity in unit u, e.g. "kg/m"; "-" stands for a missing unit.
+// to a quantity in unit u, e.g. "kg/m". A dimensionless quantity (u ""
+// or "-") is counted in units of itself: "kg per unit" (per 1.0 of a
+// ratio); a dimensionless objective gives "per m", and both "per unit".
 func (s *Sensitivity) PerUnitLabel(u string) string {
-	return unitOr(s.Unit) + "/" + unitOr(u)
+	dimensionless := func(u string) bool { return u == "" || u == "-" }
+	switch {
+	case dimensionless(u) && dimensionless(s.Unit):
+		return "per unit"
+	case dimensionless(u):
+		return s.Unit + " per unit"
+	case dimensionless(s.Unit):
+		return "per " + u
+	}
+	return s.Unit + "/" + u
+}
+
+// cost is the text of a limit's d(objective)/d(limit): the value with
+// its unit, or why it is not defined.
+func (s *Sensitivity) cost(l LimitCost) string {
+	if l.NotDefined != "" {
+		return "not defined: " + l.NotDefined
+	}
+	return fmt.Sprintf("%.6g %s", l.PerUnit, s.PerUnitLabel(l.Unit))
 }
 
 // String formats the sensitivity as two tables, the limits (active ones
@@ -84,7 +112,7 @@ func (s *Sensitivity) String() string {
 				if !active {
 					state = "inactive"
 				}
-				fmt.Fprintf(w, "%s\t%s\t%.6g\t%s\t%s\t%.6g %s\n", l.Constraint, l.Bound, l.Limit, unitOr(l.Unit), state, l.PerUnit, s.PerUnitLabel(l.Unit))
+				fmt.Fprintf(w, "%s\t%s\t%.6g\t%s\t%s\t%s\n", l.Constraint, l.Bound, l.Limit, unitOr(l.Unit), state, s.cost(l))
 			}
 		}
 		w.Flush()

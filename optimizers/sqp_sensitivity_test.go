@@ -184,3 +184,104 @@ func TestSensitivityShown(t *testing.T) {
 		}
 	}
 }
+
+// TestMultipliersAgainstKKT: Sextant's limit costs are the Lagrange
+// multipliers of the KKT conditions, checked on a problem whose
+// multiplier is known in closed form, and an active limit whose
+// multiplier is no derivative (a constraint that does not vary with the
+// design, or one of two with the same gradient) is reported as not
+// defined, with the reason, instead of a number.
+//
+// The problem is Example 12.3 of Nocedal & Wright, Numerical
+// Optimization, 2nd ed. (from memory): minimise x1 + x2 subject to
+// x1² + x2² ≤ 2; optimum (−1, −1), where ∇f = −λ∇c gives λ* = 1/2, so
+// raising the limit b by one unit changes f* = −√(2b) by −λ* = −0.5.
+// Without the check the flat limit was priced at −9 999.995 (the
+// subproblem's elastic price) and the circle's λ* split 0.488 + 0.012
+// between its two copies.
+func TestMultipliersAgainstKKT(t *testing.T) {
+	study := func(extra ...mdo.Constraint) *mdo.Study {
+		s, _, err := funcStudy("kkt", []float64{-2, -2}, []float64{2, 2}, []string{"f", "c", "c_again", "held"},
+			func(in, out []float64) error {
+				x1, x2 := in[0], in[1]
+				out[0] = x1 + x2
+				out[1] = x1*x1 + x2*x2
+				// the circle again, its gradient the same to 1e-9 (the
+				// subproblem's interior-point solver needs rows that
+				// differ, as a model's rounding makes them)
+				out[2] = x1*x1 + x2*x2 + 1e-9*x1
+				// held at its limit whatever the design, to rounding
+				// (as a take-off field length by engines sized to it)
+				out[3] = 1 + 1e-12*(x1+1)
+				return nil
+			})
+		if err != nil {
+			t.Fatal(err)
+		}
+		s.Objectives = []mdo.Objective{mdo.Minimize("f")}
+		s.Constraints = append([]mdo.Constraint{mdo.AtMost("c", 2)}, extra...)
+		return s
+	}
+	const lambda = 0.5 // Nocedal & Wright, Example 12.3
+	tests := []struct {
+		name       string
+		study      *mdo.Study
+		notDefined map[string]string // constraint -> part of the reason
+	}{
+		{"circle", study(), nil},
+		{"circle and a limit the design does not move", study(mdo.AtMost("held", 1)),
+			map[string]string{"held": "does not vary with the design"}},
+		{"the circle twice", study(mdo.AtMost("c_again", 2)),
+			map[string]string{"c": "the multipliers are not unique", "c_again": "the multipliers are not unique"}},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			res, rep, err := Sextant{}.Explore(context.Background(), tc.study)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if !res.Feasible() || rep.Sensitivity == nil {
+				t.Fatalf("no converged feasible optimum (f = %g, stop %v: %s)", res.Objective(), res.Stop, res.StopDetail)
+			}
+			if f := res.Objective(); math.Abs(f+2) > 1e-6 {
+				t.Errorf("f* = %.9g, want −2 at (−1, −1)", f)
+			}
+			sens := rep.Sensitivity
+			for _, l := range sens.Limits {
+				if !l.Active {
+					t.Errorf("%s: not active: %+v", l.Constraint, l)
+					continue
+				}
+				why, undefined := tc.notDefined[l.Constraint]
+				switch {
+				case undefined && (!strings.Contains(l.NotDefined, why) || !math.IsNaN(l.PerUnit)):
+					t.Errorf("%s: d f*/d limit %g, not defined %q; want NaN and a reason with %q", l.Constraint, l.PerUnit, l.NotDefined, why)
+				case !undefined && (l.NotDefined != "" || math.Abs(l.PerUnit+lambda) > 1e-5):
+					t.Errorf("%s: d f*/d limit %g (not defined %q), want −λ* = %g", l.Constraint, l.PerUnit, l.NotDefined, -lambda)
+				}
+			}
+			// the result's text, summary.json and the report say why
+			var html bytes.Buffer
+			if err := report.Write(&html, res, report.Options{}); err != nil {
+				t.Fatal(err)
+			}
+			js, err := json.Marshal(store.NewSummary(res, store.SummaryOptions{}))
+			if err != nil {
+				t.Fatal(err)
+			}
+			for name, why := range tc.notDefined {
+				for _, w := range []struct{ where, text, want string }{
+					{"text", res.String(), "active  not defined: "},
+					{"summary.json", string(js), `"constraint":"` + name + `"`},
+					{"summary.json", string(js), `"per_unit":null`},
+					{"summary.json", string(js), `"not_defined":"`},
+					{"report", html.String(), `<td class="num">not defined</td>`},
+				} {
+					if !strings.Contains(w.text, w.want) || !strings.Contains(w.text, why) {
+						t.Errorf("the %s does not say why %s has no sensitivity (%q, %q):\n%s", w.where, name, w.want, why, w.text)
+					}
+				}
+			}
+		})
+	}
+}

@@ -31,6 +31,9 @@ func sensitivityOf(r *mdo.Result) *sensView {
 			if active {
 				row.State, row.Class = "active", "active"
 			}
+			if l.NotDefined != "" {
+				row.PerUnit, row.PerUnitUnit = "not defined", l.NotDefined
+			}
 			v.Limits = append(v.Limits, row)
 		}
 	}

@@ -60,8 +60,11 @@
 //	                                objects discipline, model, outputs,
 //	                                affects), sensitivity_objective and
 //	                                sensitivity_unit (present when the best
-//	                                point has a sensitivity); an empty
-//	                                entry is absent
+//	                                point has a sensitivity),
+//	                                sensitivity_not_defined (why an active
+//	                                limit has no sensitivity, a JSON array
+//	                                of objects constraint, bound,
+//	                                not_defined); an empty entry is absent
 //	coupling_solvers(n, disciplines, method, tolerance, max_iterations,
 //	          relaxation, fallback, from_reference, exhaustive)
 //	                                one row per coupled group of the system

@@ -107,14 +107,15 @@ func goldenRecord(info mdo.RunInfo) RunRecord {
 }
 
 // goldenSensitivity is the sensitivity of the golden run's best point:
-// limits active and not, a NaN multiplier and a parameter without a
-// unit (invented values).
+// limits active and not, an active limit without a sensitivity (NaN,
+// with the reason) and a parameter without a unit (invented values).
 func goldenSensitivity() *mdo.Sensitivity {
 	return &mdo.Sensitivity{Objective: "mass.takeoff", Unit: "kg",
 		Limits: []mdo.LimitCost{
 			{Constraint: "perf.c0", Bound: "upper", Limit: 0, Unit: "m", Active: true, PerUnit: -12.5},
 			{Constraint: "perf.c1", Bound: "lower", Limit: -1, Unit: "", Active: false, PerUnit: 0},
-			{Constraint: "perf.c2", Bound: "upper", Limit: 2, Unit: "kg", Active: true, PerUnit: math.NaN()},
+			{Constraint: "perf.c2", Bound: "upper", Limit: 2, Unit: "kg", Active: true, PerUnit: math.NaN(),
+				NotDefined: "the constraint does not vary with the design here"},
 		},
 		Parameters: []mdo.ParameterCost{{Parameter: "range", Value: 5556e3, Unit: "m", PerUnit: 1.0 / 3}, {Parameter: "k", Value: 0.1 + 0.2, PerUnit: -7}},
 	}

@@ -313,15 +313,7 @@ func TestSetOutcome(t *testing.T) {
 	if err := runfolder.LinkFileWith(path, alone, runfolder.LinkOptions{NoHardLink: true}); err != nil {
 		t.Fatal(err)
 	}
-	back, err := Open(alone)
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer back.Close()
-	rec, err := back.StoredRecord()
-	if err != nil {
-		t.Fatal(err)
-	}
+	rec := storedRecord(t, alone)
 	if !reflect.DeepEqual(rec.Sensitivity, r.Sensitivity) || rec.StopDetail != "converged" {
 		t.Errorf("read back: sensitivity %+v, stop detail %q; want %+v, %q", rec.Sensitivity, rec.StopDetail, r.Sensitivity, "converged")
 	}

@@ -3,17 +3,29 @@ package store
 import (
 	"context"
 	"database/sql"
+	"encoding/json"
 	"fmt"
 
 	"couplet/mdo"
 )
 
 // The keys of run_record that hold the objective and its unit of the
-// best point's sensitivity (present when the result has one).
+// best point's sensitivity (present when the result has one), and why
+// the limits without one have none (present when there is such a limit:
+// a JSON array of objects constraint, bound, not_defined, in the order of
+// the sensitivity table, whose per_unit of those limits is NULL).
 const (
-	keySensitivityObjective = "sensitivity_objective"
-	keySensitivityUnit      = "sensitivity_unit"
+	keySensitivityObjective  = "sensitivity_objective"
+	keySensitivityUnit       = "sensitivity_unit"
+	keySensitivityNotDefined = "sensitivity_not_defined"
 )
+
+// notDefinedLimit is one entry of keySensitivityNotDefined.
+type notDefinedLimit struct {
+	Constraint string `json:"constraint"`
+	Bound      string `json:"bound"`
+	NotDefined string `json:"not_defined"`
+}
 
 // sensitivitySchema creates the table of the best point's
 // post-optimality sensitivity (mdo.Result.Sensitivity): one row per
@@ -66,14 +78,30 @@ func (s *Store) writeSensitivity(ctx context.Context, sens *mdo.Sensitivity) err
 	if _, err := s.conn.ExecContext(ctx, `DELETE FROM sensitivity`); err != nil {
 		return err
 	}
-	obj, unit := "", ""
+	obj, unit, why := "", "", ""
 	if sens != nil {
 		obj, unit = sens.Objective, sens.Unit
+		var nd []notDefinedLimit
+		for _, l := range sens.Limits {
+			if l.NotDefined != "" {
+				nd = append(nd, notDefinedLimit{l.Constraint, l.Bound, l.NotDefined})
+			}
+		}
+		if nd != nil {
+			b, err := json.Marshal(nd)
+			if err != nil {
+				return err
+			}
+			why = string(b)
+		}
 	}
 	if err := s.setRecordValue(ctx, keySensitivityObjective, obj); err != nil {
 		return err
 	}
 	if err := s.setRecordValue(ctx, keySensitivityUnit, unit); err != nil {
+		return err
+	}
+	if err := s.setRecordValue(ctx, keySensitivityNotDefined, why); err != nil {
 		return err
 	}
 	if sens == nil {
@@ -122,6 +150,19 @@ func (s *Store) readSensitivity(ctx context.Context, vals map[string]string) (*m
 	}
 	if err := rows.Err(); err != nil {
 		return nil, fmt.Errorf("store: reading the sensitivity of %s: %w", s.path, err)
+	}
+	if v := vals[keySensitivityNotDefined]; v != "" {
+		var nd []notDefinedLimit
+		if err := json.Unmarshal([]byte(v), &nd); err != nil {
+			return nil, fmt.Errorf("store: reading the sensitivity of %s: run_record %s: %w", s.path, keySensitivityNotDefined, err)
+		}
+		for _, d := range nd {
+			for i := range sens.Limits {
+				if l := &sens.Limits[i]; l.Constraint == d.Constraint && l.Bound == d.Bound {
+					l.NotDefined = d.NotDefined
+				}
+			}
+		}
 	}
 	return sens, nil
 }

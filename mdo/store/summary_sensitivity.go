@@ -15,7 +15,8 @@ type SummarySensitivity struct {
 }
 
 // SummaryLimit is one constraint limit of a SummarySensitivity;
-// PerUnit is d(optimal objective)/d(limit) in PerUnitUnit.
+// PerUnit is d(optimal objective)/d(limit) in PerUnitUnit, null when
+// NotDefined says why an active limit has none.
 type SummaryLimit struct {
 	Constraint  string `json:"constraint"`
 	Bound       string `json:"bound"`
@@ -24,6 +25,7 @@ type SummaryLimit struct {
 	Active      bool   `json:"active"`
 	PerUnit     Number `json:"per_unit"`
 	PerUnitUnit string `json:"per_unit_unit"`
+	NotDefined  string `json:"not_defined,omitempty"`
 }
 
 // SummaryParameter is one fixed parameter of a SummarySensitivity;
@@ -44,7 +46,7 @@ func summarySensitivity(s *mdo.Sensitivity) *SummarySensitivity {
 	out := &SummarySensitivity{Objective: s.Objective, Unit: s.Unit, Caution: mdo.SensitivityCaution}
 	for _, l := range s.Limits {
 		out.Limits = append(out.Limits, SummaryLimit{Constraint: l.Constraint, Bound: l.Bound, Limit: Number(l.Limit), Unit: l.Unit,
-			Active: l.Active, PerUnit: Number(l.PerUnit), PerUnitUnit: s.PerUnitLabel(l.Unit)})
+			Active: l.Active, PerUnit: Number(l.PerUnit), PerUnitUnit: s.PerUnitLabel(l.Unit), NotDefined: l.NotDefined})
 	}
 	for _, p := range s.Parameters {
 		out.Parameters = append(out.Parameters, SummaryParameter{Parameter: p.Parameter, Value: Number(p.Value), Unit: p.Unit,
