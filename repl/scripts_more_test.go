@@ -2,6 +2,7 @@ package repl
 
 import (
 	"context"
+	"maps"
 	"math"
 	"os"
 	"path/filepath"
@@ -106,7 +107,41 @@ func TestUserScriptsOfASeries(t *testing.T) {
 			t.Errorf("engine.bypass_ratio %g at the optimum, want its upper bound 3", b)
 		}
 		if res.Sensitivity == nil {
-			t.Error("Sextant gave no sensitivity")
+			t.Fatal("Sextant gave no sensitivity")
+		}
+		// the engines are sized for the take-off field, the study's limit
+		// (engine.sizing_field_length): the model itself, at the
+		// optimum's wing and 2 m² either side, gives the same field length
+		// to rounding, so its limit has no cost to give (it is reported
+		// as not defined); the landing field length, which the wing
+		// sets, has one, and a longer field saves fuel
+		rj := disciplines.Kestrel()
+		sys, err := rj.NewSystem()
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, da := range []float64{-2, 0, 2} {
+			p := maps.Clone(rj.Parameters)
+			p["wing.area"], p["engine.bypass_ratio"] = res.Get("wing.area")+da, res.Get("engine.bypass_ratio")
+			sol, err := sys.Analyze(context.Background(), p)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if f := sol.Get("perf.takeoff_field_length"); !relClose(f, 1600, 1e-9) {
+				t.Errorf("wing %+g m² from the optimum: take-off field %.12g m, want the 1 600 m the engines are sized for", da, f)
+			}
+		}
+		for _, l := range res.Sensitivity.Limits {
+			switch l.Constraint {
+			case "perf.takeoff_field_length":
+				if !l.Active || !math.IsNaN(l.PerUnit) || !strings.Contains(l.NotDefined, "does not vary with the design") {
+					t.Errorf("take-off field limit %+v: want active and not defined", l)
+				}
+			case "perf.landing_field_length":
+				if !l.Active || l.NotDefined != "" || !(l.PerUnit < 0) {
+					t.Errorf("landing field limit %+v: want active with a negative cost", l)
+				}
+			}
 		}
 	})
 }
