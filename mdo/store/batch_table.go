@@ -109,13 +109,31 @@ func (t batchRowsTable) Destroy() error { return nil }
 type batchCursor struct {
 	src *batchSource
 	i   int
+	// vals are the value columns of row i in their order (design,
+	// objectives, constraints, margins), cut from the evaluation's own
+	// slices when the cursor reaches the row, so that a column's read
+	// does not walk them; named is the number of those values, after
+	// which come the outputs
+	vals  [4][]float64
+	named int
 }
 
 // Filter implements vtab.Cursor: a scan from the first row.
-func (c *batchCursor) Filter(int, string, []vtab.Value) error { c.i = 0; return nil }
+func (c *batchCursor) Filter(int, string, []vtab.Value) error { c.i = 0; c.row(); return nil }
 
 // Next implements vtab.Cursor.
-func (c *batchCursor) Next() error { c.i++; return nil }
+func (c *batchCursor) Next() error { c.i++; c.row(); return nil }
+
+// row notes the value slices of the current row (none past the last).
+func (c *batchCursor) row() {
+	if c.i >= len(c.src.rows) {
+		c.vals, c.named = [4][]float64{}, 0
+		return
+	}
+	e := c.src.rows[c.i].e
+	c.vals = [4][]float64{e.Design, e.Objectives, e.Constraints, e.Margins}
+	c.named = len(e.Design) + len(e.Objectives) + len(e.Constraints) + len(e.Margins)
+}
 
 // Eof implements vtab.Cursor.
 func (c *batchCursor) Eof() bool { return c.i >= len(c.src.rows) }
@@ -135,6 +153,9 @@ func (c *batchCursor) Column(col int) (vtab.Value, error) {
 	}
 	r := &c.src.rows[c.i]
 	e := r.e
+	if col >= 10 {
+		return c.value(col, e)
+	}
 	switch col {
 	case 0:
 		return int64(e.ID), nil
@@ -160,13 +181,22 @@ func (c *batchCursor) Column(col int) (vtab.Value, error) {
 	case 9:
 		return mdo.ClassOf(e).String(), nil
 	}
+	return nil, fmt.Errorf("the batch table has no column %d", col)
+}
+
+// value is value column col (10 on) of the current row, evaluation e:
+// a design variable, objective, constraint, margin or output.
+func (c *batchCursor) value(col int, e *mdo.Evaluation) (vtab.Value, error) {
 	k := col - 10
-	for _, xs := range [4][]float64{e.Design, e.Objectives, e.Constraints, e.Margins} {
-		if k < len(xs) {
-			return c.src.last.value(col-10, xs[k]), nil
+	if k < c.named {
+		for _, xs := range &c.vals {
+			if k < len(xs) {
+				return c.src.last.value(col-10, xs[k]), nil
+			}
+			k -= len(xs)
 		}
-		k -= len(xs)
 	}
+	k -= c.named
 	if k >= len(c.src.lay.outputs) {
 		return nil, fmt.Errorf("the batch table has no column %d", col)
 	}

@@ -140,6 +140,9 @@ type Store struct {
 	stmtIt    driver.StmtExecContext
 	args      []driver.NamedValue
 	rows      int
+	// rowsExact says that rows counts the evaluation rows exactly: none
+	// replaced another (set as the writer stops)
+	rowsExact bool
 	began     bool
 	ended     bool
 	err       error
@@ -428,7 +431,8 @@ func (s *Store) Run() (m RunMeta, ok bool) {
 // Rows returns the number of committed evaluation rows.
 func (s *Store) Rows() int {
 	if s.w != nil {
-		return s.w.committedRows()
+		rows, _ := s.w.committedRows()
+		return rows
 	}
 	return s.rows
 }

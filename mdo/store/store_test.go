@@ -634,33 +634,68 @@ func TestCreateIgnoresStaleLog(t *testing.T) {
 	}
 }
 
+// TestSameIDRecordedTwice records an ID again (a picked-up run that
+// diverged re-uses the number): the later record replaces the earlier,
+// and the store counts each ID once, whether the two are committed in
+// one batch or in two, and however far apart; IDs in ascending order,
+// with gaps, are counted without a recount.
 func TestSameIDRecordedTwice(t *testing.T) {
-	s, err := Create(filepath.Join(t.TempDir(), "twice.db"), Options{BatchSize: 1})
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer s.Close()
-	if err := s.Begin(syntheticRun()); err != nil {
-		t.Fatal(err)
-	}
-	var a, b mdo.Evaluation
-	syntheticEval(&a, 4)
-	syntheticEval(&b, 5)
-	b.ID = 4 // a picked-up run that diverged re-uses the number
-	for _, e := range []*mdo.Evaluation{&a, &b} {
-		if err := s.Record(e); err != nil {
-			t.Fatal(err)
-		}
-	}
-	if err := s.End(nil); err != nil {
-		t.Fatal(err)
-	}
-	evs, err := s.Evaluations()
-	if err != nil {
-		t.Fatal(err)
-	}
-	if s.Rows() != 1 || len(evs) != 1 || sameEvaluation(evs[0], &b) != "" {
-		t.Errorf("rows %d, %d evaluations; want the later record of ID 4 alone", s.Rows(), len(evs))
+	for _, tc := range []struct {
+		name  string
+		batch int
+		ids   []int
+		rows  int
+	}{
+		{"two batches", 1, []int{4, 4}, 1},
+		{"one batch", 0, []int{4, 4}, 1},
+		{"earlier ID later", 1, []int{4, 7, 4}, 2},
+		{"earlier ID later, one batch", 0, []int{4, 7, 4}, 2},
+		{"ascending with gaps", 1, []int{1, 3, 10}, 3},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			s, err := Create(filepath.Join(t.TempDir(), "twice.db"), Options{BatchSize: tc.batch})
+			if err != nil {
+				t.Fatal(err)
+			}
+			defer s.Close()
+			if err := s.Begin(syntheticRun()); err != nil {
+				t.Fatal(err)
+			}
+			evs := make([]mdo.Evaluation, len(tc.ids))
+			last := map[int]*mdo.Evaluation{}
+			for i, id := range tc.ids {
+				syntheticEval(&evs[i], i+1)
+				evs[i].ID = id
+				last[id] = &evs[i]
+				if err := s.Record(&evs[i]); err != nil {
+					t.Fatal(err)
+				}
+			}
+			if err := s.End(nil); err != nil {
+				t.Fatal(err)
+			}
+			got, err := s.Evaluations()
+			if err != nil {
+				t.Fatal(err)
+			}
+			if s.Rows() != tc.rows || len(got) != tc.rows {
+				t.Fatalf("rows %d, %d evaluations; want %d", s.Rows(), len(got), tc.rows)
+			}
+			for _, e := range got {
+				if d := sameEvaluation(e, last[e.ID]); d != "" {
+					t.Errorf("ID %d is not its last record: %s", e.ID, d)
+				}
+			}
+			// the file agrees: a store opened on it counts its rows
+			r, err := Open(s.Path())
+			if err != nil {
+				t.Fatal(err)
+			}
+			defer r.Close()
+			if r.Rows() != tc.rows {
+				t.Errorf("the file holds %d rows, want %d", r.Rows(), tc.rows)
+			}
+		})
 	}
 }
 

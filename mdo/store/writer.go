@@ -43,6 +43,13 @@ type writer struct {
 	stop      bool
 	err       error
 	rows      int // evaluation rows the store holds
+	// lastID is the ID of the last evaluation row committed, while every
+	// row committed had a greater ID than those before it (ascending);
+	// once a row's ID is not above lastID, or the store held rows before
+	// the writer started, a row may have replaced another and rows may
+	// count it twice (see replacedNone); anyID says that lastID is set
+	lastID           int
+	ascending, anyID bool
 
 	kick    chan struct{}  // wakes the encoder
 	free    chan *encBatch // encoded batches the committer has finished with
@@ -131,13 +138,15 @@ type iterRow struct {
 // committed rows.
 func (s *Store) startWriter(rows int) {
 	w := &writer{
-		limit:   max(4*s.opt.BatchSize, minQueue),
-		last:    time.Now(),
-		rows:    rows,
-		kick:    make(chan struct{}, 1),
-		free:    make(chan *encBatch, encodedBatches),
-		encoded: make(chan *encBatch, encodedBatches),
-		exited:  make(chan struct{}),
+		limit: max(4*s.opt.BatchSize, minQueue),
+		last:  time.Now(),
+		rows:  rows,
+		// the rows a store picked up holds have IDs of their own
+		ascending: rows == 0,
+		kick:      make(chan struct{}, 1),
+		free:      make(chan *encBatch, encodedBatches),
+		encoded:   make(chan *encBatch, encodedBatches),
+		exited:    make(chan struct{}),
 	}
 	w.cond.L = &w.mu
 	for range encodedBatches {
@@ -250,11 +259,12 @@ func (w *writer) close() error {
 	return w.err
 }
 
-// committedRows is the number of evaluation rows the store holds.
-func (w *writer) committedRows() int {
+// committedRows is the number of evaluation rows committed (a row that
+// replaced another counts too); none replaced another if replacedNone.
+func (w *writer) committedRows() (rows int, replacedNone bool) {
 	w.mu.Lock()
 	defer w.mu.Unlock()
-	return w.rows
+	return w.rows, w.ascending
 }
 
 // encodeLoop is the encoder goroutine: it takes batches from the queue,
@@ -342,6 +352,12 @@ func (s *Store) commitLoop(w *writer) {
 		} else if !failed {
 			w.committed += int64(len(b.rows) + len(b.its))
 			w.rows += len(b.rows) // a replaced row counts too until End recounts
+			for _, r := range b.rows {
+				if w.anyID && r.e.ID <= w.lastID {
+					w.ascending = false
+				}
+				w.lastID, w.anyID = r.e.ID, true
+			}
 		}
 		rows := w.rows
 		clear(b.evs)
