@@ -172,17 +172,8 @@ func TestRepeatedValuesBound(t *testing.T) {
 		syntheticEval(e, i)
 		e.Design[0], e.Margins[1], e.Outputs[5] = x, x, x
 		recorded = append(recorded, e)
-		if err := s.Record(e); err != nil {
-			t.Fatal(err)
-		}
 	}
-	if err := s.End(nil); err != nil {
-		t.Fatal(err)
-	}
-	evs, err := s.Evaluations()
-	if err != nil {
-		t.Fatal(err)
-	}
+	evs := recordAndEnd(t, s, recorded...)
 	for i, e := range evs {
 		want := seq[i]
 		if want == 0 {

@@ -52,6 +52,25 @@ func sameFloats(a, b []float64) bool {
 	return true
 }
 
+// recordAndEnd records evs in a begun store, ends its run and returns
+// the evaluations it holds.
+func recordAndEnd(t *testing.T, s *Store, evs ...*mdo.Evaluation) []*mdo.Evaluation {
+	t.Helper()
+	for _, e := range evs {
+		if err := s.Record(e); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if err := s.End(nil); err != nil {
+		t.Fatal(err)
+	}
+	got, err := s.Evaluations()
+	if err != nil {
+		t.Fatal(err)
+	}
+	return got
+}
+
 // sameEvaluation reports the first field in which a and b differ.
 func sameEvaluation(a, b *mdo.Evaluation) string {
 	switch {
@@ -246,18 +265,7 @@ func TestNonFiniteValuesSurvive(t *testing.T) {
 	var c mdo.Evaluation
 	syntheticEval(&c, 1)
 	c.Outputs[3], c.Outputs[4], c.Outputs[5] = math.NaN(), math.Inf(1), math.Inf(-1)
-	for _, x := range []*mdo.Evaluation{&e, &c} {
-		if err := s.Record(x); err != nil {
-			t.Fatal(err)
-		}
-	}
-	if err := s.End(nil); err != nil {
-		t.Fatal(err)
-	}
-	evs, err := s.Evaluations()
-	if err != nil {
-		t.Fatal(err)
-	}
+	evs := recordAndEnd(t, s, &e, &c)
 	s.Close()
 	if len(evs) != 2 {
 		t.Fatalf("%d evaluations, want 2", len(evs))
@@ -661,23 +669,16 @@ func TestSameIDRecordedTwice(t *testing.T) {
 			if err := s.Begin(syntheticRun()); err != nil {
 				t.Fatal(err)
 			}
-			evs := make([]mdo.Evaluation, len(tc.ids))
+			var evs []*mdo.Evaluation
 			last := map[int]*mdo.Evaluation{}
 			for i, id := range tc.ids {
-				syntheticEval(&evs[i], i+1)
-				evs[i].ID = id
-				last[id] = &evs[i]
-				if err := s.Record(&evs[i]); err != nil {
-					t.Fatal(err)
-				}
+				e := new(mdo.Evaluation)
+				syntheticEval(e, i+1)
+				e.ID = id
+				last[id] = e
+				evs = append(evs, e)
 			}
-			if err := s.End(nil); err != nil {
-				t.Fatal(err)
-			}
-			got, err := s.Evaluations()
-			if err != nil {
-				t.Fatal(err)
-			}
+			got := recordAndEnd(t, s, evs...)
 			if s.Rows() != tc.rows || len(got) != tc.rows {
 				t.Fatalf("rows %d, %d evaluations; want %d", s.Rows(), len(got), tc.rows)
 			}
