@@ -3,11 +3,11 @@ package plot
 import (
 	"bytes"
 	"fmt"
+	"image"
 	"image/png"
 	"io"
 	"path/filepath"
 	"strings"
-	"sync"
 
 	"couplet/mdo/runfolder"
 
@@ -83,29 +83,17 @@ func (f *Figure) WritePNG(w io.Writer) (err error) {
 	f.draw(draw.New(c))
 	// the fastest deflate level: a figure's flat colours compress well at
 	// any level, and the default level took most of the time
-	enc := png.Encoder{CompressionLevel: png.BestSpeed, BufferPool: pngBuffers}
-	if err := enc.Encode(w, c.Image()); err != nil {
+	img := c.Image()
+	if m, ok := img.(*image.RGBA); ok && m.Opaque() && !m.Bounds().Empty() {
+		err = writeOpaquePNG(w, m)
+	} else {
+		err = (&png.Encoder{CompressionLevel: png.BestSpeed}).Encode(w, img)
+	}
+	if err != nil {
 		return fmt.Errorf("plot: writing %s as PNG: %w", f.Name, err)
 	}
 	return nil
 }
-
-// pngBuffers are the PNG encoder's buffers (its compressor and rows),
-// used again from one figure to the next: the bytes are those of a fresh
-// encoder's.
-var pngBuffers = &pngPool{}
-
-// pngPool is a png.EncoderBufferPool on a sync.Pool.
-type pngPool struct{ p sync.Pool }
-
-// Get implements png.EncoderBufferPool.
-func (p *pngPool) Get() *png.EncoderBuffer {
-	b, _ := p.p.Get().(*png.EncoderBuffer)
-	return b
-}
-
-// Put implements png.EncoderBufferPool.
-func (p *pngPool) Put(b *png.EncoderBuffer) { p.p.Put(b) }
 
 // SVG returns the figure as an SVG document.
 func (f *Figure) SVG() ([]byte, error) {
