@@ -22,14 +22,7 @@ import (
 // shorter than a word) and a picture cut from a larger one. The encoder
 // is used again from one picture to the next, larger and smaller.
 func TestOpaquePNGIsImagePNGs(t *testing.T) {
-	r, evs := tenThousand()
-	hist, err := History(r, evs)
-	if err != nil {
-		t.Fatal(err)
-	}
-	c := vgimg.NewWith(vgimg.UseWH(hist.Width, hist.Height), vgimg.UseDPI(96))
-	hist.draw(draw.New(c))
-	figure := c.Image().(*image.RGBA)
+	figure := historyPicture(t)
 
 	rng := rand.New(rand.NewPCG(1, 2))
 	opaque := func(w, h int, at func(x, y int) color.RGBA) *image.RGBA {
@@ -89,6 +82,20 @@ func TestOpaquePNGIsImagePNGs(t *testing.T) {
 	}
 }
 
+// historyPicture is the picture WritePNG encodes for the history of
+// 10 000 evaluations (605 × 605 pixels).
+func historyPicture(tb testing.TB) *image.RGBA {
+	tb.Helper()
+	r, evs := tenThousand()
+	hist, err := History(r, evs)
+	if err != nil {
+		tb.Fatal(err)
+	}
+	c := vgimg.NewWith(vgimg.UseWH(hist.Width, hist.Height), vgimg.UseDPI(96))
+	hist.draw(draw.New(c))
+	return c.Image().(*image.RGBA)
+}
+
 // firstDifference is the index of the first byte where a and b differ.
 func firstDifference(a, b []byte) int {
 	for i := range min(len(a), len(b)) {
@@ -103,14 +110,7 @@ func firstDifference(a, b []byte) int {
 // evaluations (605 × 605 pixels) with writeOpaquePNG and, for the
 // floor, with image/png's Encoder at BestSpeed.
 func BenchmarkOpaquePNG(b *testing.B) {
-	r, evs := tenThousand()
-	hist, err := History(r, evs)
-	if err != nil {
-		b.Fatal(err)
-	}
-	c := vgimg.NewWith(vgimg.UseWH(hist.Width, hist.Height), vgimg.UseDPI(96))
-	hist.draw(draw.New(c))
-	m := c.Image().(*image.RGBA)
+	m := historyPicture(b)
 	for _, enc := range []struct {
 		name  string
 		write func(*bytes.Buffer) error
