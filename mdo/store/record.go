@@ -178,7 +178,12 @@ func sameLayout(stored, now *layout) error {
 
 // writeVariables fills the variables table.
 func writeVariables(ctx context.Context, s *Store, lay *layout, outputs []mdo.Var, declared map[string]string) error {
-	const q = `INSERT INTO variables (role, position, name, unit, description, lower, upper, is_integer, column_name) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)`
+	// one statement for every row (a study has hundreds of outputs)
+	ins, err := s.conn.PrepareContext(ctx, `INSERT INTO variables (role, position, name, unit, description, lower, upper, is_integer, column_name) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)`)
+	if err != nil {
+		return err
+	}
+	defer ins.Close()
 	unitOf := map[string]string{}
 	for _, v := range outputs {
 		unitOf[v.Name] = v.Unit
@@ -187,17 +192,17 @@ func writeVariables(ctx context.Context, s *Store, lay *layout, outputs []mdo.Va
 		unitOf[name] = u
 	}
 	for k, d := range lay.design {
-		if _, err := s.conn.ExecContext(ctx, q, "design", k, d.Name, d.Unit, "", d.Lower, d.Upper, d.Integer, lay.designCols[k]); err != nil {
+		if _, err := ins.ExecContext(ctx, "design", k, d.Name, d.Unit, "", d.Lower, d.Upper, d.Integer, lay.designCols[k]); err != nil {
 			return err
 		}
 	}
 	for k, o := range lay.objectives {
-		if _, err := s.conn.ExecContext(ctx, q, "objective", k, o, unitOf[o], "", nil, nil, false, lay.objCols[k]); err != nil {
+		if _, err := ins.ExecContext(ctx, "objective", k, o, unitOf[o], "", nil, nil, false, lay.objCols[k]); err != nil {
 			return err
 		}
 	}
 	for k, c := range lay.constraints {
-		if _, err := s.conn.ExecContext(ctx, q, "constraint", k, c, unitOf[c], "", nil, nil, false, lay.consCols[k]); err != nil {
+		if _, err := ins.ExecContext(ctx, "constraint", k, c, unitOf[c], "", nil, nil, false, lay.consCols[k]); err != nil {
 			return err
 		}
 	}
@@ -209,7 +214,7 @@ func writeVariables(ctx context.Context, s *Store, lay *layout, outputs []mdo.Va
 		if lay.columns {
 			col = lay.outCols[k]
 		}
-		if _, err := s.conn.ExecContext(ctx, q, "output", k, v.Name, v.Unit, v.Description, lo, hi, false, col); err != nil {
+		if _, err := ins.ExecContext(ctx, "output", k, v.Name, v.Unit, v.Description, lo, hi, false, col); err != nil {
 			return err
 		}
 	}

@@ -169,15 +169,28 @@ func ScriptHash(script string) string {
 // business jet's 10 000 evaluations).
 const walCheckpointPages = 64
 
-// dsn builds the driver's data source name with the store's pragmas.
-func dsn(path string, durable bool) string {
+// pageSize is the page size of a new file: pages of 32 KiB hold several
+// rows of a study with hundreds of outputs (4 KiB pages hold one and
+// waste the rest).
+const pageSize = 32768
+
+// dsn builds the driver's data source name with the store's pragmas. A
+// fresh file (Create's) gets pageSize and is left in the default journal
+// mode, for the driver runs the pragmas in the order of their names and
+// a journal_mode would fix the page size first: Create turns write-ahead
+// logging on itself.
+func dsn(path string, durable, fresh bool) string {
 	sync := "NORMAL"
 	if durable {
 		sync = "FULL"
 	}
 	q := url.Values{}
 	q.Add("_pragma", "busy_timeout(5000)")
-	q.Add("_pragma", "journal_mode(WAL)")
+	if fresh {
+		q.Add("_pragma", "page_size("+strconv.Itoa(pageSize)+")")
+	} else {
+		q.Add("_pragma", "journal_mode(WAL)")
+	}
 	q.Add("_pragma", "synchronous("+sync+")")
 	q.Add("_pragma", "foreign_keys(1)")
 	q.Add("_pragma", "wal_autocheckpoint("+strconv.Itoa(walCheckpointPages)+")")
@@ -185,9 +198,9 @@ func dsn(path string, durable bool) string {
 }
 
 // openDB opens the database with one pinned connection, whose batch
-// table shows src.
-func openDB(path string, durable bool, src *batchSource) (*sql.DB, *sql.Conn, error) {
-	c, err := newConnector(dsn(path, durable), src)
+// table shows src; fresh is a file Create makes (see dsn).
+func openDB(path string, durable, fresh bool, src *batchSource) (*sql.DB, *sql.Conn, error) {
+	c, err := newConnector(dsn(path, durable, fresh), src)
 	if err != nil {
 		return nil, nil, fmt.Errorf("store: opening %s: %w", path, err)
 	}
@@ -219,20 +232,17 @@ func Create(path string, opt Options) (*Store, error) {
 		}
 	}
 	src := &batchSource{}
-	db, conn, err := openDB(path, opt.Durable, src)
+	db, conn, err := openDB(path, opt.Durable, true, src)
 	if err != nil {
 		return nil, err
 	}
 	s := &Store{path: path, opt: opt, db: db, conn: conn, batch: src, names: countersOf(SchemaVersion)}
 	ctx := context.Background()
-	// pages of 32 KiB hold several rows of a study with hundreds of
-	// outputs (4 KiB pages hold one and waste the rest); the page size of
-	// a file is set before its first table, outside write-ahead logging
-	for _, q := range []string{"PRAGMA journal_mode = DELETE", "PRAGMA page_size = 32768", "VACUUM", "PRAGMA journal_mode = WAL"} {
-		if _, err := conn.ExecContext(ctx, q); err != nil {
-			s.Close()
-			return nil, fmt.Errorf("store: creating %s: %s: %w", path, q, err)
-		}
+	// the page size (the connection's pragma) is taken as write-ahead
+	// logging begins the file
+	if _, err := conn.ExecContext(ctx, "PRAGMA journal_mode = WAL"); err != nil {
+		s.Close()
+		return nil, fmt.Errorf("store: creating %s: turning write-ahead logging on: %w", path, err)
 	}
 	err = s.inTx(func() error {
 		if _, err := conn.ExecContext(ctx, fixedSchema+recordSchema+sensitivitySchema+recordViews(s.names)); err != nil {
@@ -275,7 +285,7 @@ func openExisting(path string, opt Options, readOnly bool) (*Store, error) {
 		return nil, err
 	}
 	src := &batchSource{}
-	db, conn, err := openDB(path, opt.Durable, src)
+	db, conn, err := openDB(path, opt.Durable, false, src)
 	if err != nil {
 		return nil, err
 	}

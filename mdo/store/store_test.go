@@ -700,28 +700,53 @@ func TestSameIDRecordedTwice(t *testing.T) {
 	}
 }
 
+// TestPragmas checks the journal mode, synchronous level and page size of
+// a new store, and of the file opened again after a run was recorded.
 func TestPragmas(t *testing.T) {
 	tests := []struct {
 		name    string
 		durable bool
 		sync    int // PRAGMA synchronous: 1 NORMAL, 2 FULL
 	}{{"default", false, 1}, {"durable", true, 2}}
+	pragmas := func(s *Store) (mode string, sync, page int) {
+		t.Helper()
+		ctx := context.Background()
+		if err := s.conn.QueryRowContext(ctx, "PRAGMA journal_mode").Scan(&mode); err != nil {
+			t.Fatal(err)
+		}
+		if err := s.conn.QueryRowContext(ctx, "PRAGMA synchronous").Scan(&sync); err != nil {
+			t.Fatal(err)
+		}
+		if err := s.conn.QueryRowContext(ctx, "PRAGMA page_size").Scan(&page); err != nil {
+			t.Fatal(err)
+		}
+		return mode, sync, page
+	}
 	for _, tc := range tests {
-		s, err := Create(filepath.Join(t.TempDir(), "p.db"), Options{Durable: tc.durable})
+		path := filepath.Join(t.TempDir(), "p.db")
+		s, err := Create(path, Options{Durable: tc.durable})
 		if err != nil {
 			t.Fatal(err)
 		}
-		var mode string
-		var sync int
-		if err := s.conn.QueryRowContext(context.Background(), "PRAGMA journal_mode").Scan(&mode); err != nil {
+		mode, sync, page := pragmas(s)
+		if mode != "wal" || sync != tc.sync || page != pageSize {
+			t.Errorf("%s: journal_mode %q, synchronous %d, page_size %d; want wal, %d, %d", tc.name, mode, sync, page, tc.sync, pageSize)
+		}
+		if err := s.Begin(syntheticRun()); err != nil {
 			t.Fatal(err)
 		}
-		if err := s.conn.QueryRowContext(context.Background(), "PRAGMA synchronous").Scan(&sync); err != nil {
-			t.Fatal(err)
-		}
+		var e mdo.Evaluation
+		syntheticEval(&e, 1)
+		recordAndEnd(t, s, &e)
 		s.Close()
-		if mode != "wal" || sync != tc.sync {
-			t.Errorf("%s: journal_mode %q, synchronous %d; want wal, %d", tc.name, mode, sync, tc.sync)
+		r, err := PickUp(path, Options{Durable: tc.durable})
+		if err != nil {
+			t.Fatal(err)
+		}
+		mode, sync, page = pragmas(r)
+		r.Close()
+		if mode != "wal" || sync != tc.sync || page != pageSize {
+			t.Errorf("%s, opened again: journal_mode %q, synchronous %d, page_size %d; want wal, %d, %d", tc.name, mode, sync, page, tc.sync, pageSize)
 		}
 	}
 }
