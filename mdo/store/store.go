@@ -34,10 +34,11 @@ type Options struct {
 	// FlushInterval bounds how long a recorded evaluation waits for its
 	// commit: the writer commits what is queued when this long has passed
 	// since its last commit, whether or not more evaluations arrive;
-	// default 50 ms, so that the writer keeps up with a fast run and End
+	// default 20 ms, so that the writer keeps up with a fast run and End
 	// has little left to commit (at 250 ms, End spent a tenth of a second
 	// committing 3 000 of the business jet's 10 000 evaluations after the
-	// last analysis).
+	// last analysis; at 50 ms, a median 10 ms on its GA run's last batch,
+	// at 20 ms 3 ms, with the same CPU time).
 	FlushInterval time.Duration
 	// Durable asks SQLite to sync the write-ahead log at every commit
 	// (synchronous=FULL), so that committed batches also survive a power
@@ -72,7 +73,7 @@ func (o Options) normalized() (Options, error) {
 		o.BatchSize = 4096
 	}
 	if o.FlushInterval == 0 {
-		o.FlushInterval = 50 * time.Millisecond
+		o.FlushInterval = 20 * time.Millisecond
 	}
 	if o.BatchSize < 1 || o.BatchSize > 1<<20 {
 		return o, fmt.Errorf("store: BatchSize = %d, allowed 1 to %d", o.BatchSize, 1<<20)
