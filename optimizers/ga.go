@@ -137,7 +137,9 @@ func (o GA) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error) {
 	e.initial = func(rng *rand.Rand) *member { return e.newMember(uniformPoint(dim, rng)) }
 	sel := eaopt.SelTournament{NContestants: uint(k)}
 	generations := or(o.Generations, gens)
-	// owed is what the last generation's repair analysed: without
+	// owed is what the last generation's repair evaluated (counted in
+	// evaluations, not analyses, so that a run picked up from its store,
+	// whose repairs are answered from it, leaves out as many): without
 	// equality constraints this generation makes that many offspring
 	// fewer
 	owed := 0
@@ -172,11 +174,11 @@ func (o GA) Minimize(ctx context.Context, s *mdo.Study) (*mdo.Result, error) {
 		if err := e.evaluateAll(off); err != nil {
 			return nil, err
 		}
-		before := r.ev.Counters().Analyses
+		before := r.ev.Counters().Evaluations
 		if err := e.grad.apply(e, off, rng, budget); err != nil {
 			return nil, err
 		}
-		owed = r.ev.Counters().Analyses - before
+		owed = r.ev.Counters().Evaluations - before
 		return e.survivors(pop, off, n), nil
 	}
 	stop, err := e.evolve(n, generations)
