@@ -186,7 +186,7 @@ func solveQP(p qpProblem) (qpSolution, error) {
 		if math.IsNaN(score) || math.IsInf(score, 0) {
 			// the Newton systems have lost all precision (complementarity
 			// far ahead of dual feasibility: z/s spans too many orders)
-			return breakdown(p, bestS, bestZ, bestScore, it)
+			return breakdown(p, bestS, bestZ, bestScore, nonFinite(it, x, y, s, z))
 		}
 		if score < bestScore {
 			bestScore = score
@@ -267,17 +267,60 @@ func solveQP(p qpProblem) (qpSolution, error) {
 }
 
 // breakdown ends an interior-point iteration whose iterate became
-// non-finite at iteration it: the active set of the best iterate before
+// non-finite (what says where): the active set of the best iterate before
 // it (slacks s, multipliers z, with residual score) gives the solution
-// when purify accepts it.
-func breakdown(p qpProblem, s, z []float64, score float64, it int) (qpSolution, error) {
+// when purify accepts it; otherwise the error names what broke.
+func breakdown(p qpProblem, s, z []float64, score float64, what *qpNonFiniteError) (qpSolution, error) {
 	if !math.IsInf(score, 1) {
 		if pure, ok := purify(p, s, z); ok {
-			pure.iterations = it
+			pure.iterations = what.Iteration
 			return pure, nil
 		}
 	}
-	return qpSolution{}, fmt.Errorf("%w: the iterate became non-finite at iteration %d", errQPNotConverged, it)
+	return qpSolution{}, what
+}
+
+// qpNonFiniteError is the breakdown of the interior-point iteration: at
+// Iteration, the first non-finite component of the iterate (Quantity is
+// "x", "y", "slack" or "multiplier"; Index its index: of the variables
+// for x, of the equalities for y, of the inequalities for a slack or
+// multiplier), or Quantity "residual" when the iterate is finite and its
+// residuals are not (data that are not finite, or an overflow). It unwraps to errQPNotConverged.
+type qpNonFiniteError struct {
+	Iteration int
+	Quantity  string
+	Index     int
+	Value     float64
+}
+
+func (e *qpNonFiniteError) Error() string {
+	switch e.Quantity {
+	case "x":
+		return fmt.Sprintf("%v: the iterate became non-finite at iteration %d: variable %d is %g", errQPNotConverged, e.Iteration, e.Index, e.Value)
+	case "y":
+		return fmt.Sprintf("%v: the iterate became non-finite at iteration %d: the multiplier of equality %d is %g", errQPNotConverged, e.Iteration, e.Index, e.Value)
+	case "slack", "multiplier":
+		return fmt.Sprintf("%v: the iterate became non-finite at iteration %d: the %s of inequality %d is %g", errQPNotConverged, e.Iteration, e.Quantity, e.Index, e.Value)
+	}
+	return fmt.Sprintf("%v: the iterate became non-finite at iteration %d: its residuals are not finite", errQPNotConverged, e.Iteration)
+}
+
+func (e *qpNonFiniteError) Unwrap() error { return errQPNotConverged }
+
+// nonFinite names the first non-finite component of the iterate x, y, s,
+// z at iteration it.
+func nonFinite(it int, x, y, s, z []float64) *qpNonFiniteError {
+	for _, q := range []struct {
+		name string
+		v    []float64
+	}{{"x", x}, {"y", y}, {"slack", s}, {"multiplier", z}} {
+		for i, v := range q.v {
+			if math.IsNaN(v) || math.IsInf(v, 0) {
+				return &qpNonFiniteError{Iteration: it, Quantity: q.name, Index: i, Value: v}
+			}
+		}
+	}
+	return &qpNonFiniteError{Iteration: it, Quantity: "residual", Index: -1, Value: math.NaN()}
 }
 
 // purify re-solves the programme with the inequalities the interior

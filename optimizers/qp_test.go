@@ -1,7 +1,9 @@
 package optimizers
 
 import (
+	"errors"
 	"math"
+	"strings"
 	"testing"
 
 	"gonum.org/v1/gonum/mat"
@@ -61,5 +63,31 @@ func TestSolveQPInfeasible(t *testing.T) {
 	})
 	if err == nil {
 		t.Error("x ≥ 1 and x ≤ 0 was solved")
+	}
+}
+
+// TestSolveQPNonFinite: an iterate that is not finite ends the iteration
+// with an error that names what broke (instead of iterating on NaN).
+func TestSolveQPNonFinite(t *testing.T) {
+	tests := []struct {
+		name string
+		p    qpProblem
+		want string
+	}{
+		{"a limit that is not finite", qpProblem{
+			H: mat.NewDense(1, 1, []float64{1}), c: []float64{0},
+			G: mat.NewDense(2, 1, []float64{1, -1}), h: []float64{0, math.NaN()},
+		}, "the slack of inequality 1 is NaN"},
+		{"a gradient that is not finite", qpProblem{
+			H: mat.NewDense(1, 1, []float64{1}), c: []float64{math.Inf(1)},
+			G: mat.NewDense(1, 1, []float64{1}), h: []float64{0},
+		}, "its residuals are not finite"},
+	}
+	for _, tc := range tests {
+		_, err := solveQP(tc.p)
+		var nf *qpNonFiniteError
+		if !errors.As(err, &nf) || !errors.Is(err, errQPNotConverged) || !strings.Contains(err.Error(), tc.want) {
+			t.Errorf("%s: %v, want a non-finite iterate: %q", tc.name, err, tc.want)
+		}
 	}
 }

@@ -335,6 +335,12 @@ type sqpPoint struct {
 	g  []float64
 	c  []float64   // per row
 	jc [][]float64 // per row
+	// the rows the subproblems at this point keep (rowsAt): rep[i] is
+	// the row whose linearisation stands for row i (i itself when the
+	// row is kept, −1 when it is left out), share[i] the part of rep's
+	// multiplier that is row i's
+	rep   []int
+	share []float64
 }
 
 // sqp is the state of one start.
@@ -741,9 +747,39 @@ func (s *sqp) run(x0 []float64) (*Optimum, mdo.StopReason, error) {
 			}
 			return opt, st, nil
 		}
+		s.flatLimits(p, sens)
 		opt.Sensitivity = sens
 	}
 	return opt, stop, nil
+}
+
+// flatLimits marks in sens the limits of the rows the subproblem at p
+// left out as not varying with the design (rowsAt) that hold only at
+// their limit (an equality, or an inequality short of the interior
+// margin): they bind, but their multiplier is no derivative (not
+// defined, with the reason sqp_sensitivity.go gives a flat active row).
+// The rows left out with a margin stay inactive.
+func (s *sqp) flatLimits(p *sqpPoint, sens *mdo.Sensitivity) {
+	if p.rep == nil || len(sens.Limits) != len(s.rows) {
+		return
+	}
+	mark := make([]float64, len(s.rows))
+	any := false
+	for i, row := range s.rows {
+		if p.rep[i] < 0 && (row.eq || p.c[i] < interior) {
+			mark[i], any = 1, true
+		}
+	}
+	if !any {
+		return
+	}
+	why := s.undefinedMultipliers(p, mark)
+	for i, m := range mark {
+		if m != 0 && why[i] != "" {
+			l := &sens.Limits[i]
+			l.Active, l.PerUnit, l.NotDefined = true, math.NaN(), why[i]
+		}
+	}
 }
 
 // maxBacktracks is the number of trial steps of a line search along a
@@ -814,7 +850,8 @@ func (s *sqp) correction(p, q *sqpPoint, d, lam []float64) []float64 {
 	n := len(p.u)
 	var act []int
 	for i, row := range s.rows {
-		if row.eq || lam[i] > 0 {
+		// of the rows the subproblem merged or left out (rowsAt), none
+		if (row.eq || lam[i] > 0) && (p.rep == nil || p.rep[i] == i) {
 			act = append(act, i)
 		}
 	}
@@ -935,8 +972,11 @@ func (s *sqp) update(B *mat.Dense, p, q *sqpPoint, lam []float64, first bool) {
 // multipliers of the rows, the L1 violation of the linearised
 // constraints at the step and the optimality measure at p.
 func (s *sqp) subproblem(p *sqpPoint, B *mat.Dense) (d, lam []float64, lin, measure float64, err error) {
+	if err := s.rowsAt(p); err != nil {
+		return nil, nil, 0, 0, err
+	}
 	n := len(p.u)
-	ineq, eq := s.kinds()
+	ineq, eq := s.kinds(p)
 	mi, me := len(ineq), len(eq)
 	nv := n + mi + 2*me // d, v (ineq slacks), p, q (eq slacks)
 	rho := elasticPrice
@@ -967,12 +1007,13 @@ func (s *sqp) subproblem(p *sqpPoint, B *mat.Dense) (d, lam []float64, lin, meas
 	A, b := s.equalityRows(p, eq, nv, n+mi, n+mi+me)
 	sol, err := solveQP(qpProblem{H: H, c: c, A: A, b: b, G: G, h: h})
 	if err != nil {
-		return nil, nil, 0, 0, fmt.Errorf("optimizers: Sextant: the quadratic subproblem at %v: %w", p.ev.Design, err)
+		return nil, nil, 0, 0, fmt.Errorf("optimizers: Sextant: the quadratic subproblem at %v%s: %w", p.ev.Design, s.brokenRow(err, ineq, eq), err)
 	}
 	d = sol.x[:n]
 	for k := n; k < nv; k++ {
 		lin += math.Max(0, sol.x[k])
 	}
+	lin += s.leftOutViolation(p, d)
 	lam = make([]float64, len(s.rows))
 	for a, i := range ineq {
 		lam[i] = sol.z[a]
@@ -980,22 +1021,211 @@ func (s *sqp) subproblem(p *sqpPoint, B *mat.Dense) (d, lam []float64, lin, meas
 	for a, i := range eq {
 		lam[i] = sol.y[a]
 	}
+	s.shareMultipliers(p, lam)
 	// optimality: the projected gradient of the Lagrangian and the
 	// complementarity
-	measure = s.optimality(p, d, s.lagrangianGradient(p, lam), lam, ineq)
+	all, _ := s.kinds(nil)
+	measure = s.optimality(p, d, s.lagrangianGradient(p, lam), lam, all)
 	return d, lam, lin, measure, nil
 }
 
-// kinds splits the rows into inequalities and equalities.
-func (s *sqp) kinds() (ineq, eq []int) {
+// kinds splits the rows the subproblems at p keep (every row when p is
+// nil) into inequalities and equalities.
+func (s *sqp) kinds(p *sqpPoint) (ineq, eq []int) {
 	for i, row := range s.rows {
-		if row.eq {
+		switch {
+		case p != nil && p.rep[i] != i:
+		case row.eq:
 			eq = append(eq, i)
-		} else {
+		default:
 			ineq = append(ineq, i)
 		}
 	}
 	return ineq, eq
+}
+
+// Thresholds of the rows the subproblem leaves out or merges (rowsAt).
+const (
+	// parallelRows is the largest difference, component by component, of
+	// two rows' unit gradients, and relative of their values over their
+	// gradients' norms, that counts as rounding: such rows are one
+	// linearisation (the same constraint declared twice, or twice over
+	// different scales).
+	parallelRows = 1e-14
+)
+
+// errFlatViolated is the subproblem of a point where a constraint that
+// does not vary with the design is violated: no step satisfies its
+// linearisation.
+var errFlatViolated = errors.New("a violated constraint does not vary with the design")
+
+// rowsAt chooses the rows the subproblems at p pass to the QP (p.rep,
+// p.share), which the interior-point iteration needs linearly
+// independent and not void:
+//   - a row whose gradient is exactly zero (a constraint that does not
+//     vary with the design, such as a scripted constant) is left out when
+//     its violation is within the feasibility tolerance, with a zero
+//     multiplier; when it is violated beyond it no step satisfies the
+//     linearisation, and rowsAt returns an error (errFlatViolated) that
+//     names the constraint, its value and its limit;
+//   - rows of the same kind whose gradients point the same way and whose
+//     values over their gradients' norms agree, both to rounding
+//     (parallelRows), are one linearisation ĝᵀd + ĉ ≥ 0 (or = 0): the
+//     subproblem keeps the tighter inequality (the smallest ĉ; of
+//     equalities only those with the same ĉ are merged). The rows tied
+//     with the kept one share its multiplier equally, in the units of the
+//     unit gradient (λᵢ‖∇cᵢ‖ = λ‖∇c‖/m for m rows), so the Lagrangian's
+//     gradient is unchanged and the sensitivity finds the multipliers of
+//     such limits not unique (sqp_sensitivity.go); a looser row gets none
+//     (it is inactive wherever the tighter one holds).
+//
+// Without it the interior-point iteration breaks down on such rows (a
+// flat row at its limit cannot hold with the interior margin, two
+// identical rows share their multiplier in any proportion).
+func (s *sqp) rowsAt(p *sqpPoint) error {
+	if p.rep != nil {
+		return nil
+	}
+	m := len(s.rows)
+	rep := make([]int, m)
+	share := make([]float64, m)
+	norms := make([]float64, m)
+	feasTol := or(s.o.FeasibilityTolerance, 1e-8)
+	var flat []string
+	for i, row := range s.rows {
+		rep[i], share[i] = i, 1
+		norms[i] = norm2(p.jc[i])
+		if norms[i] != 0 {
+			continue
+		}
+		v := math.Max(0, -p.c[i])
+		if row.eq {
+			v = math.Abs(p.c[i])
+		}
+		rep[i], share[i] = -1, 0
+		if v > feasTol {
+			flat = append(flat, s.flatViolation(p, i, v))
+		}
+	}
+	if len(flat) > 0 {
+		return fmt.Errorf("optimizers: Sextant: at %v %w, so no step can satisfy it: %s", p.ev.Design, errFlatViolated, strings.Join(flat, "; "))
+	}
+	same := func(i, j int) (parallel, tie bool) {
+		for k := range p.jc[i] {
+			if math.Abs(p.jc[i][k]/norms[i]-p.jc[j][k]/norms[j]) > parallelRows {
+				return false, false
+			}
+		}
+		ci, cj := p.c[i]/norms[i], p.c[j]/norms[j]
+		return true, math.Abs(ci-cj) <= parallelRows*math.Max(1, math.Max(math.Abs(ci), math.Abs(cj)))
+	}
+	for i := range s.rows {
+		if rep[i] != i {
+			continue
+		}
+		// the group of the rows parallel to i after it, and the tightest
+		group := []int{i}
+		for j := i + 1; j < m; j++ {
+			if rep[j] != j || s.rows[j].eq != s.rows[i].eq {
+				continue
+			}
+			if par, tie := same(i, j); par && (tie || !s.rows[i].eq) {
+				group = append(group, j)
+			}
+		}
+		if len(group) == 1 {
+			continue
+		}
+		kept := group[0]
+		for _, j := range group[1:] {
+			if p.c[j]/norms[j] < p.c[kept]/norms[kept] {
+				kept = j
+			}
+		}
+		var tied []int
+		for _, j := range group {
+			rep[j], share[j] = kept, 0
+			if _, tie := same(kept, j); tie {
+				tied = append(tied, j)
+			}
+		}
+		for _, j := range tied {
+			share[j] = norms[kept] / (float64(len(tied)) * norms[j])
+		}
+	}
+	p.rep, p.share = rep, share
+	return nil
+}
+
+// brokenRow names the constraint of the QP row that broke the
+// interior-point iteration (err a *qpNonFiniteError of a linearised
+// constraint's multiplier or slack; ineq and eq the rows passed to the
+// QP, first in its inequalities and equalities), "" when none did.
+func (s *sqp) brokenRow(err error, ineq, eq []int) string {
+	var nf *qpNonFiniteError
+	if !errors.As(err, &nf) {
+		return ""
+	}
+	rows, what := ineq, nf.Quantity
+	switch nf.Quantity {
+	case "y":
+		rows, what = eq, "multiplier"
+	case "slack", "multiplier":
+	default:
+		return ""
+	}
+	if nf.Index >= len(rows) {
+		return ""
+	}
+	return fmt.Sprintf(" (the %s of the linearisation of constraint %q broke down)", what, s.r.ev.Constraints()[s.rows[rows[nf.Index]].k].Name)
+}
+
+// flatViolation says which limit the row i, which does not vary with the
+// design, breaks at p by v (scaled).
+func (s *sqp) flatViolation(p *sqpPoint, i int, v float64) string {
+	row := s.rows[i]
+	c := s.r.ev.Constraints()[row.k]
+	what := "above its upper limit"
+	switch {
+	case row.eq:
+		what = "off its target"
+	case row.sign > 0:
+		what = "below its lower limit"
+	}
+	return fmt.Sprintf("constraint %q is %g, %s %g (its gradient is exactly zero; scaled violation %.3g)", c.Name, p.ev.Constraints[row.k], what, row.bound, v)
+}
+
+// shareMultipliers gives the rows the subproblem at p merged into
+// another (rowsAt) their part of its multiplier in lam.
+func (s *sqp) shareMultipliers(p *sqpPoint, lam []float64) {
+	kept := append([]float64(nil), lam...)
+	for i, r := range p.rep {
+		switch {
+		case r < 0:
+			lam[i] = 0
+		case r != i || p.share[i] != 1:
+			lam[i] = p.share[i] * kept[r]
+		}
+	}
+}
+
+// leftOutViolation is the L1 violation, at the step d, of the
+// linearisations of the rows the subproblem at p left out or merged
+// (rowsAt), which the QP's elastic slacks do not count.
+func (s *sqp) leftOutViolation(p *sqpPoint, d []float64) float64 {
+	sum := 0.0
+	for i, r := range p.rep {
+		if r == i {
+			continue
+		}
+		l := p.c[i] + dot(p.jc[i], d)
+		if s.rows[i].eq {
+			sum += math.Abs(l)
+		} else {
+			sum += math.Max(0, -l)
+		}
+	}
+	return sum
 }
 
 // elasticTail writes, from row on, the rows of the elastic slacks ≥ 0

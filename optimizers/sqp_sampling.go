@@ -91,7 +91,11 @@ func (s *sqp) bundleSubproblem(p *sqpPoint, bundle []*sqpPoint) (d, lam []float6
 		pts = []*sqpPoint{p}
 	}
 	nb := len(pts)
-	ineq, eq := s.kinds()
+	// the rows the subproblem at p keeps (rowsAt), at every sampled point
+	if err := s.rowsAt(p); err != nil {
+		return nil, nil, 0, 0, 0, err
+	}
+	ineq, eq := s.kinds(p)
 	mi, me := len(ineq), len(eq)
 	iz := n          // z
 	iv := n + 1      // v, one per inequality and point
@@ -144,6 +148,7 @@ func (s *sqp) bundleSubproblem(p *sqpPoint, bundle []*sqpPoint) (d, lam []float6
 	for k := iv; k < nv; k++ {
 		lin += math.Max(0, sol.x[k])
 	}
+	lin += s.leftOutViolation(p, d)
 	// the Lagrangian's gradient with the bundle's multipliers
 	gl := make([]float64, n)
 	for k, q := range pts {
@@ -175,7 +180,9 @@ func (s *sqp) bundleSubproblem(p *sqpPoint, bundle []*sqpPoint) (d, lam []float6
 			gl[j] -= sol.y[a] * p.jc[i][j]
 		}
 	}
-	measure = s.optimality(p, d, gl, lam, ineq)
+	s.shareMultipliers(p, lam)
+	all, _ := s.kinds(nil)
+	measure = s.optimality(p, d, gl, lam, all)
 
 	return d, lam, model, lin, measure, nil
 }

@@ -153,3 +153,129 @@ func TestSextantSettings(t *testing.T) {
 		}
 	}
 }
+
+// TestSextantFlatAndDuplicateRows: a constraint that does not vary with
+// the design (a scripted constant) and a constraint declared twice give
+// the subproblem a row of zero gradient or two identical rows, on which
+// its interior-point solver broke down: the run stalled at iteration 1
+// ("the iterate became non-finite") and a violated constant spent the
+// whole budget of 2000 evaluations. Now a satisfied constant is left out,
+// a violated one ends the start infeasible with the constraint, its value
+// and its limit, and of parallel rows the tighter is kept.
+//
+// The problem is Example 12.3 of Nocedal & Wright, Numerical
+// Optimization, 2nd ed. (from memory): minimise x1 + x2 subject to
+// x1² + x2² ≤ b. By the KKT conditions (ibid., Theorem 12.1), ∇f = −λ∇c
+// at x1 = x2 = −√(b/2): 1 = 2λ√(b/2), so f* = −√(2b) and
+// λ* = 1/√(2b) = −d f*/d b: f* = −2, λ* = 0.5 at b = 2; f* = −√3,
+// λ* = 1/√3 at b = 1.5.
+func TestSextantFlatAndDuplicateRows(t *testing.T) {
+	study := func(extra ...mdo.Constraint) *mdo.Study {
+		s, _, err := funcStudy("flat", []float64{-2, -2}, []float64{2, 2}, []string{"f", "c", "c_twin", "k"},
+			func(in, out []float64) error {
+				x1, x2 := in[0], in[1]
+				out[0] = x1 + x2
+				out[1] = x1*x1 + x2*x2
+				out[2] = x1*x1 + x2*x2 // the same expression: the same row
+				out[3] = 1             // a constant
+				return nil
+			})
+		if err != nil {
+			t.Fatal(err)
+		}
+		s.Objectives = []mdo.Objective{mdo.Minimize("f")}
+		s.Constraints = append([]mdo.Constraint{mdo.AtMost("c", 2)}, extra...)
+		return s
+	}
+	sqrt3 := math.Sqrt(3)
+	tests := []struct {
+		name  string
+		study *mdo.Study
+		// the optimum; infeasible: no feasible point, the detail names
+		// these words
+		f          float64
+		infeasible []string
+		// d f*/d limit of each active limit that has one, part of the
+		// reason of each active one whose multiplier is not defined
+		// (sqp_sensitivity.go); in neither: inactive
+		perUnit    map[string]float64
+		notDefined map[string]string
+	}{
+		// a constant at its limit binds (tightened, the limit cannot be
+		// met), but its multiplier is no derivative
+		{name: "a constant at its upper limit", study: study(mdo.AtMost("k", 1)), f: -2,
+			perUnit: map[string]float64{"c": -0.5}, notDefined: map[string]string{"k": "does not vary with the design"}},
+		{name: "a constant at its lower limit", study: study(mdo.AtLeast("k", 1)), f: -2,
+			perUnit: map[string]float64{"c": -0.5}, notDefined: map[string]string{"k": "does not vary with the design"}},
+		{name: "a constant at its target", study: study(mdo.EqualTo("k", 1, 1e-6)), f: -2,
+			perUnit: map[string]float64{"c": -0.5}, notDefined: map[string]string{"k": "does not vary with the design"}},
+		{name: "a constant within its limit", study: study(mdo.AtMost("k", 1.5)), f: -2,
+			perUnit: map[string]float64{"c": -0.5}},
+		{name: "a constant above its upper limit", study: study(mdo.AtMost("k", 0.5)),
+			infeasible: []string{`constraint "k" is 1, above its upper limit 0.5`, "does not vary with the design"}},
+		{name: "a constant off its target", study: study(mdo.EqualTo("k", 2, 1e-6)),
+			infeasible: []string{`constraint "k" is 1, off its target 2`, "does not vary with the design"}},
+		// two limits with one gradient: the multipliers are not unique
+		// (sqp_sensitivity.go), the two share λ*
+		{name: "the same constraint twice", study: study(mdo.AtMost("c_twin", 2)), f: -2,
+			notDefined: map[string]string{"c": "not unique", "c_twin": "not unique"}},
+		{name: "the same constraint twice, the second looser", study: study(mdo.AtMost("c_twin", 3)), f: -2,
+			perUnit: map[string]float64{"c": -0.5}},
+		{name: "the same constraint twice, the second tighter", study: study(mdo.AtMost("c_twin", 1.5)), f: -sqrt3,
+			perUnit: map[string]float64{"c_twin": -1 / sqrt3}},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			res, rep, err := Sextant{}.Explore(context.Background(), tc.study)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if tc.infeasible != nil {
+				if res.Feasible() {
+					t.Fatalf("feasible at f = %g", res.Objective())
+				}
+				for _, w := range tc.infeasible {
+					if !strings.Contains(res.StopDetail, w) {
+						t.Errorf("the stop detail does not say %q:\n%s", w, res.StopDetail)
+					}
+				}
+				// each start ends at its first point: the start and the
+				// 8 restarts (Sextant.Restarts' default) one analysis each
+				if res.Evaluations != 9 {
+					t.Errorf("%d evaluations, want 9 (one per start)", res.Evaluations)
+				}
+				return
+			}
+			if !res.Feasible() || res.Stop != mdo.StopConverged || rep.Sensitivity == nil {
+				t.Fatalf("no converged feasible optimum (f = %g, stop %v: %s)", res.Objective(), res.Stop, res.StopDetail)
+			}
+			if f := res.Objective(); math.Abs(f-tc.f) > 1e-6 {
+				t.Errorf("f* = %.9g, want %.9g", f, tc.f)
+			}
+			for _, l := range rep.Sensitivity.Limits {
+				want, defined := tc.perUnit[l.Constraint]
+				why, undefined := tc.notDefined[l.Constraint]
+				switch {
+				case undefined && (!l.Active || !math.IsNaN(l.PerUnit) || !strings.Contains(l.NotDefined, why)):
+					t.Errorf("%s: %+v, want active, not defined: %q", l.Constraint, l, why)
+				case defined && (!l.Active || l.NotDefined != "" || math.Abs(l.PerUnit-want) > 1e-5):
+					t.Errorf("%s: d f*/d limit %g (%+v), want %g", l.Constraint, l.PerUnit, l, want)
+				case !defined && !undefined && (l.Active || l.PerUnit != 0 || l.NotDefined != ""):
+					t.Errorf("%s: %+v, want inactive", l.Constraint, l)
+				}
+			}
+			// the multipliers of the two copies of the circle add up to
+			// that of the circle alone: λ* in the scaled units of the
+			// subproblem, λ* × Scale / max(|f(start)|, 1) with f(start) = 0
+			var sum float64
+			for i, c := range tc.study.Constraints {
+				if c.Name == "c" || c.Name == "c_twin" {
+					sum += rep.Optima[0].Multipliers[i] / c.EffectiveScale()
+				}
+			}
+			if want := -1 / tc.f; math.Abs(sum-want) > 1e-6 {
+				t.Errorf("the circle's multipliers over their scales add to %.9g, want λ* = −1/f* = %.9g", sum, want)
+			}
+		})
+	}
+}
