@@ -764,13 +764,13 @@ func (s *sqp) flatLimits(p *sqpPoint, sens *mdo.Sensitivity) {
 		return
 	}
 	mark := make([]float64, len(s.rows))
-	any := false
+	found := false
 	for i, row := range s.rows {
 		if p.rep[i] < 0 && (row.eq || p.c[i] < interior) {
-			mark[i], any = 1, true
+			mark[i], found = 1, true
 		}
 	}
-	if !any {
+	if !found {
 		return
 	}
 	why := s.undefinedMultipliers(p, mark)
