@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"math"
 	"strings"
+
+	"gonum.org/v1/gonum/lapack/gonum"
 )
 
 // branchSweeps is the number of Gauss–Seidel sweeps of the stability
@@ -11,8 +13,12 @@ import (
 // A gain of 1 or more after branchSweeps is confirmed by sweeping on to
 // branchSweepsMax: a loop that converges with a rate near 1 can displace
 // more in its first sweeps than it finally contracts.
+// A short check that settles is confirmed by one sweep more, ritzSweeps
+// in all: the Ritz values of its displacements (ritzGain) must all have
+// real parts below 1.
 const (
 	branchSweeps    = 3
+	ritzSweeps      = branchSweeps + 1
 	branchSweepsMax = 8
 )
 
@@ -28,7 +34,13 @@ const (
 // power-iteration estimate of the loop's dominant eigenvalue) must stay
 // below 1 unless the displacement flips sign from sweep to sweep (its
 // scalar product with the last sweep's is negative: an iteration that
-// oscillates about the state, not one that runs away). A state that fails is held back with a *BranchError while the
+// oscillates about the state, not one that runs away). A short check
+// that settles is confirmed by one sweep more: the Ritz values of the
+// push and the displacements (ritzGain, the eigenvalues of the loop's
+// Jacobian on their Krylov space) must all have real parts below 1, or
+// the check sweeps on to branchSweepsMax — a growing mode still hidden
+// under a shrinking transient shows in them before it shows in the
+// displacements' norms. A state that fails is held back with a *BranchError while the
 // fallback chain looks for a stable one. With no reference state to
 // march from, the last attempt starts plain Gauss–Seidel beside the held
 // state, off it along the direction the iteration leaves it by
@@ -98,8 +110,12 @@ func (w *Workspace) stableBranch(g *group, set SolverSettings, p solvePath) erro
 	for i := range dp {
 		dp[i] = eps
 	}
+	copy(w.br.d[:nt], dp)
 	w.solving = true
 	defer func() { w.solving = false }()
+	// short is true once the short check has settled: one more sweep
+	// (ritzSweeps in all) then decides by the displacements' Ritz values
+	short := false
 	for s := 0; s < branchSweepsMax; s++ {
 		// a push the sweeps have amplified (prev > eps) is still a
 		// transient: near a fold of the closure the ratio of two early
@@ -111,7 +127,22 @@ func (w *Workspace) stableBranch(g *group, set SolverSettings, p solvePath) erro
 		// is above 1 (the trijet's heavy closure at 79.4 t: 1.8e-4, 3.1e-5,
 		// 5.0e-5, the last two opposed; swept on, its gain is 1.5)
 		if s == branchSweeps && gain < 1 && prev <= eps {
-			break // settled on the short check
+			short = true // settled on the short check, unless the Ritz values say otherwise
+		}
+		// nor does a shrinking displacement: a transient can shrink the
+		// first displacements while the loop's growing mode is still
+		// small (the trijet's heavy closure at 80.7 t, Mach 1.976, 95.8
+		// m²: 1.75e-4, 3.96e-5, 3.87e-5, the last two opposed, then
+		// 3.0e-5, 4.7e-5, 6.5e-5...; swept on, its gain is 1.44). The
+		// Ritz values of the displacements after ritzSweeps sweeps see
+		// that mode (1.44 there, where the ratio of the last two
+		// displacements is 0.77): the short check settles only when none
+		// reaches 1, and is swept on to the full check otherwise
+		if short && s == ritzSweeps {
+			if w.br.ritzGain(nt, ritzSweeps) < 1 {
+				return nil // settled
+			}
+			short = false
 		}
 		if err := w.sweep(g, false, false); err != nil {
 			return w.loopError(g, err, p)
@@ -132,6 +163,9 @@ func (w *Workspace) stableBranch(g *group, set SolverSettings, p solvePath) erro
 		// read as a flip and accepted it; swept on, its gain is 1.49)
 		flipped, flips = flips, s > 0 && dot < 0
 		copy(dp, d)
+		if s < ritzSweeps {
+			copy(w.br.d[(s+1)*nt:(s+2)*nt], d)
+		}
 		if n == 0 {
 			// the push is absorbed exactly (a loop of gain 0, such as a
 			// mass balance linear in the take-off mass): stable; the
@@ -158,4 +192,115 @@ func (w *Workspace) groupIndex(g *group) int {
 		}
 	}
 	return -1
+}
+
+// branchScratch holds the stability check's displacements and the small
+// matrices of their Ritz values, sized once by NewWorkspace so that the
+// check allocates nothing.
+type branchScratch struct {
+	// d holds the push and the displacements after the check's first
+	// branchSweeps sweeps, one after the other, each as long as the
+	// group's coupling variables (in units of their scales)
+	d []float64
+	// r is the upper triangle of the displacements' QR factorisation,
+	// (branchSweeps+1)², h the loop's projection on them, branchSweeps²
+	r, h []float64
+	// wr and wi are the real and imaginary parts of h's eigenvalues
+	wr, wi []float64
+}
+
+func newBranchScratch(maxTear int) *branchScratch {
+	m := ritzSweeps
+	return &branchScratch{d: make([]float64, (m+1)*maxTear), r: make([]float64, (m+1)*(m+1)), h: make([]float64, m*m),
+		wr: make([]float64, m), wi: make([]float64, m)}
+}
+
+// ritzGain estimates the largest real part of the eigenvalues of the
+// Gauss–Seidel loop's Jacobian J from the displacements d₀ (the push),
+// d₁ = J d₀, …, d_m = J d_{m-1} held in b.d (nt values each): the
+// Rayleigh–Ritz values of J on the Krylov space of d₀ … d_{m-1}
+// (Arnoldi's method on the stored displacements; Saad, Numerical Methods
+// for Large Eigenvalue Problems, 2nd ed. 2011, ch. 6, from memory). With
+// the QR factorisation [d₀ … d_m] = Q R, J Q_m = Q_{m+1} R[:, 1:] R_m⁻¹,
+// and the Ritz values are the eigenvalues of the upper Hessenberg
+// H = R[:m, 1:] R_m⁻¹. Unlike the ratio of two displacements' norms,
+// they see a growing mode that a shrinking transient still hides. The
+// space stops at a displacement that is (to ritzTol of its length) a
+// combination of the earlier ones: the Ritz values are then those of an
+// invariant subspace. The stored displacements are overwritten (Q).
+func (b *branchScratch) ritzGain(nt, m int) float64 {
+	q := func(j int) []float64 { return b.d[j*nt : (j+1)*nt] }
+	r := b.r[:(m+1)*(m+1)]
+	for i := range r {
+		r[i] = 0
+	}
+	k := m // the space's dimension
+	// modified Gram–Schmidt, column by column
+	for j := 0; j <= m; j++ {
+		v := q(j)
+		n0 := norm2(v)
+		for i := 0; i < j; i++ {
+			qi := q(i)
+			c := 0.0
+			for t := range v {
+				c += qi[t] * v[t]
+			}
+			r[i*(m+1)+j] = c
+			for t := range v {
+				v[t] -= c * qi[t]
+			}
+		}
+		n := norm2(v)
+		r[j*(m+1)+j] = n
+		if !(n > ritzTol*n0) {
+			// d_j lies in the space of the earlier ones (or is zero, or
+			// not finite): the space is invariant from j on
+			k = min(k, j)
+			break
+		}
+		for t := range v {
+			v[t] /= n
+		}
+	}
+	if k == 0 {
+		return 0 // the push itself is absorbed: nothing grows
+	}
+	// H R_k = R[:k, 1:k+1], row by row (forward over the columns)
+	h := b.h[:k*k]
+	for row := 0; row < k; row++ {
+		for c := 0; c < k; c++ {
+			x := r[row*(m+1)+c+1]
+			for i := 0; i < c; i++ {
+				x -= h[row*k+i] * r[i*(m+1)+c]
+			}
+			h[row*k+c] = x / r[c*(m+1)+c]
+		}
+	}
+	for _, x := range h {
+		if math.IsNaN(x) || math.IsInf(x, 0) {
+			return math.Inf(1) // no estimate: let the full check decide
+		}
+	}
+	wr, wi := b.wr[:k], b.wi[:k]
+	if (gonum.Implementation{}).Dlahqr(false, false, k, 0, k-1, h, k, wr, wi, 0, 0, nil, 1) != 0 {
+		return math.Inf(1) // the QR iteration did not converge: as above
+	}
+	g := math.Inf(-1)
+	for _, x := range wr {
+		g = math.Max(g, x)
+	}
+	return g
+}
+
+// ritzTol is the relative length below which a displacement counts as a
+// combination of the earlier ones in ritzGain.
+const ritzTol = 1e-6
+
+// norm2 returns the Euclidean norm of v.
+func norm2(v []float64) float64 {
+	s := 0.0
+	for _, x := range v {
+		s += x * x
+	}
+	return math.Sqrt(s)
 }

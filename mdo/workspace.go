@@ -60,6 +60,7 @@ type Workspace struct {
 	// iterations without a new smallest residual (fallback.go)
 	stall int
 	and   *andersonScratch
+	br    *branchScratch // the stability check's (branch.go)
 }
 
 // NewWorkspace returns a fresh workspace with every variable and guess at
@@ -122,6 +123,7 @@ func (s *System) NewWorkspace() *Workspace {
 	w.rPrev = make([]float64, maxTear)
 	w.scale = make([]float64, maxTear)
 	w.and = newAndersonScratch(maxTear)
+	w.br = newBranchScratch(maxTear)
 	w.Reset()
 	return w
 }
