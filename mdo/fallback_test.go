@@ -93,7 +93,6 @@ func sizingLoop(t *testing.T) *System {
 // continuation stall limit of 8, a Newton one of 1 or a continuation
 // that gives up at its first failed step fails it.)
 func TestFallbackShortcutsChangeNothing(t *testing.T) {
-	ctx := context.Background()
 	sets := []SolverSettings{{Method: AitkenGaussSeidel}, {Method: AitkenGaussSeidel, MaxIterations: 25}}
 	if !testing.Short() {
 		sets = append(sets, SolverSettings{Method: AndersonGaussSeidel}, SolverSettings{Method: GaussSeidel}, SolverSettings{Method: Newton},
@@ -108,46 +107,16 @@ func TestFallbackShortcutsChangeNothing(t *testing.T) {
 		if err := sys.SetSolver(set); err != nil {
 			t.Fatal(err)
 		}
-		var ws [2]*Workspace
-		for k := range ws {
-			w := sys.NewWorkspace()
-			if k == 1 {
-				ex := set
-				ex.Exhaustive = true
-				if err := w.SetSolver(ex); err != nil {
-					t.Fatal(err)
-				}
-			}
-			if err := w.Set("s", 30); err != nil {
-				t.Fatal(err)
-			}
-			if err := w.SetGuess("m", 1); err != nil {
-				t.Fatal(err)
-			}
-			if err := w.Analyze(ctx); err != nil {
-				t.Fatalf("%s: the reference point: %v", meth, err)
-			}
-			if err := w.SetReference(slices.Clone(w.Values())); err != nil {
-				t.Fatal(err)
-			}
-			ws[k] = w
-		}
+		ws := shortcutPair(t, sys, set)
 		paths := map[string]int{}
 		var calls [2]int
 		for i := 0; i <= 20; i++ {
 			for j := 0; j <= 20; j++ {
 				var errs [2]error
 				for k, w := range ws {
-					w.Reset()
-					if err := w.Set("s", 5+75*float64(i)/20); err != nil {
-						t.Fatal(err)
-					}
-					if err := w.Set("r", float64(j)); err != nil {
-						t.Fatal(err)
-					}
-					before := w.Counters().DisciplineCalls
-					errs[k] = w.Analyze(ctx)
-					calls[k] += w.Counters().DisciplineCalls - before
+					n, err := analyzeCounting(t, w, 5+75*float64(i)/20, float64(j))
+					calls[k] += n
+					errs[k] = err
 				}
 				at := fmt.Sprintf("%s, s = %g, r = %d", meth, ws[0].Get("s"), j)
 				if fmt.Sprint(errs[0]) != fmt.Sprint(errs[1]) {
@@ -203,7 +172,6 @@ func TestFallbackShortcutsChangeNothing(t *testing.T) {
 // short sweeps was confirmed by one sweep more, ritzSweeps, 4 836 and
 // 3 988: three and four checks of eight disciplines.)
 func TestFallbackCostOfPointsThatDoNotClose(t *testing.T) {
-	ctx := context.Background()
 	cases := []struct {
 		s, r              float64
 		calls, exhaustive int
@@ -215,40 +183,12 @@ func TestFallbackCostOfPointsThatDoNotClose(t *testing.T) {
 	if err := sys.SetSolver(SolverSettings{Method: AitkenGaussSeidel}); err != nil {
 		t.Fatal(err)
 	}
-	var ws [2]*Workspace
-	for k := range ws {
-		w := sys.NewWorkspace()
-		if err := w.SetSolver(SolverSettings{Method: AitkenGaussSeidel, Exhaustive: k == 1}); err != nil {
-			t.Fatal(err)
-		}
-		if err := w.Set("s", 30); err != nil {
-			t.Fatal(err)
-		}
-		if err := w.SetGuess("m", 1); err != nil {
-			t.Fatal(err)
-		}
-		if err := w.Analyze(ctx); err != nil {
-			t.Fatalf("the reference point: %v", err)
-		}
-		if err := w.SetReference(slices.Clone(w.Values())); err != nil {
-			t.Fatal(err)
-		}
-		ws[k] = w
-	}
+	ws := shortcutPair(t, sys, SolverSettings{Method: AitkenGaussSeidel})
 	for _, c := range cases {
 		var calls [2]int
 		var errs [2]error
 		for k, w := range ws {
-			w.Reset()
-			if err := w.Set("s", c.s); err != nil {
-				t.Fatal(err)
-			}
-			if err := w.Set("r", c.r); err != nil {
-				t.Fatal(err)
-			}
-			before := w.Counters().DisciplineCalls
-			errs[k] = w.Analyze(ctx)
-			calls[k] = w.Counters().DisciplineCalls - before
+			calls[k], errs[k] = analyzeCounting(t, w, c.s, c.r)
 		}
 		at := fmt.Sprintf("s = %g, r = %g", c.s, c.r)
 		t.Logf("%s: %d discipline calls with the shortcuts, %d without: %v", at, calls[0], calls[1], errs[0])
@@ -265,4 +205,51 @@ func TestFallbackCostOfPointsThatDoNotClose(t *testing.T) {
 			t.Errorf("%s: %d discipline calls with the shortcuts and %d without; want %d and %d", at, calls[0], calls[1], c.calls, c.exhaustive)
 		}
 	}
+}
+
+// shortcutPair returns two workspaces of sizingLoop's system sys, each
+// with its reference state set at s = 30 (m guessed 1): the first solves
+// with set, the second with set made Exhaustive (the fallback chain
+// without its shortcuts).
+func shortcutPair(t *testing.T, sys *System, set SolverSettings) [2]*Workspace {
+	t.Helper()
+	var ws [2]*Workspace
+	for k := range ws {
+		w := sys.NewWorkspace()
+		solver := set
+		solver.Exhaustive = k == 1
+		if err := w.SetSolver(solver); err != nil {
+			t.Fatal(err)
+		}
+		if err := w.Set("s", 30); err != nil {
+			t.Fatal(err)
+		}
+		if err := w.SetGuess("m", 1); err != nil {
+			t.Fatal(err)
+		}
+		if err := w.Analyze(context.Background()); err != nil {
+			t.Fatalf("%s: the reference point: %v", solver.Method, err)
+		}
+		if err := w.SetReference(slices.Clone(w.Values())); err != nil {
+			t.Fatal(err)
+		}
+		ws[k] = w
+	}
+	return ws
+}
+
+// analyzeCounting analyses sizingLoop's workspace w afresh at s and r and
+// returns the discipline calls the analysis spent and its error.
+func analyzeCounting(t *testing.T, w *Workspace, s, r float64) (int, error) {
+	t.Helper()
+	w.Reset()
+	if err := w.Set("s", s); err != nil {
+		t.Fatal(err)
+	}
+	if err := w.Set("r", r); err != nil {
+		t.Fatal(err)
+	}
+	before := w.Counters().DisciplineCalls
+	err := w.Analyze(context.Background())
+	return w.Counters().DisciplineCalls - before, err
 }
