@@ -327,6 +327,18 @@ type sqpRow struct {
 	eq          bool
 }
 
+// limit names the limit of the constraint the row holds: "upper",
+// "lower" or "target" (an equality).
+func (r sqpRow) limit() string {
+	switch {
+	case r.eq:
+		return "target"
+	case r.sign > 0:
+		return "lower"
+	}
+	return "upper"
+}
+
 // sqpPoint is an evaluated point with its gradients.
 type sqpPoint struct {
 	u  []float64
@@ -1186,10 +1198,10 @@ func (s *sqp) flatViolation(p *sqpPoint, i int, v float64) string {
 	row := s.rows[i]
 	c := s.r.ev.Constraints()[row.k]
 	what := "above its upper limit"
-	switch {
-	case row.eq:
+	switch row.limit() {
+	case "target":
 		what = "off its target"
-	case row.sign > 0:
+	case "lower":
 		what = "below its lower limit"
 	}
 	return fmt.Sprintf("constraint %q is %g, %s %g (its gradient is exactly zero; scaled violation %.3g)", c.Name, p.ev.Constraints[row.k], what, row.bound, v)

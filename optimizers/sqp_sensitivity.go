@@ -24,14 +24,7 @@ func (s *sqp) sensitivity(p *sqpPoint, lam []float64) (*mdo.Sensitivity, error) 
 	why := s.undefinedMultipliers(p, lam)
 	for i, row := range s.rows {
 		c := cons[row.k]
-		bound := "upper"
-		switch {
-		case row.eq:
-			bound = "target"
-		case row.sign > 0:
-			bound = "lower"
-		}
-		l := mdo.LimitCost{Constraint: c.Name, Bound: bound, Limit: row.bound, Unit: s.unit(c.Name, c.Unit), Active: math.Abs(lam[i]) > activeMultiplier}
+		l := mdo.LimitCost{Constraint: c.Name, Bound: row.limit(), Limit: row.bound, Unit: s.unit(c.Name, c.Unit), Active: math.Abs(lam[i]) > activeMultiplier}
 		switch {
 		case why[i] != "":
 			l.PerUnit, l.NotDefined = math.NaN(), why[i]
